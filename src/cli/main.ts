@@ -1,0 +1,45 @@
+// The `rungbook` command line: dispatches to one module per command. Runs in Node with no DOM and no IndexedDB.
+import type { CliCommand, CliIo } from './command.ts';
+
+/** Commands by name, loaded on demand so `rungbook eval` does not pay for the importer. */
+const COMMANDS: Record<string, () => Promise<{ command: CliCommand }>> = {
+};
+
+function usage(): string {
+  const lines = ['usage: rungbook <command> [options]', '', 'commands:'];
+  for (const name of Object.keys(COMMANDS).sort()) lines.push(`  ${name}`);
+  lines.push('', "Run 'rungbook <command> --help' for a command's options.");
+  return lines.join('\n');
+}
+
+export function nodeIo(): CliIo {
+  return {
+    out: (text) => process.stdout.write(text.endsWith('\n') ? text : text + '\n'),
+    err: (text) => process.stderr.write(text.endsWith('\n') ? text : text + '\n'),
+  };
+}
+
+/** Runs the CLI and returns the exit status. */
+export async function main(argv: string[], io: CliIo = nodeIo()): Promise<number> {
+  const [name, ...rest] = argv;
+  if (!name || name === '--help' || name === '-h' || name === 'help') {
+    io.out(usage());
+    return name ? 0 : 2;
+  }
+  const load = COMMANDS[name];
+  if (!load) {
+    io.err(`rungbook: unknown command '${name}'\n${usage()}`);
+    return 2;
+  }
+  const { command } = await load();
+  if (rest.includes('--help') || rest.includes('-h')) {
+    io.out(command.help);
+    return 0;
+  }
+  try {
+    return await command.run(rest, io);
+  } catch (e) {
+    io.err(`rungbook ${name}: ${e instanceof Error ? e.message : String(e)}`);
+    return 1;
+  }
+}

@@ -1,0 +1,62 @@
+// The vocabulary of variant parameters and part ratings that check formulas and build rules refer to by name.
+// All numbers are SI base units (V, A, W, Ω, F, s, Hz, K/W, °C) unless the entry says otherwise.
+
+export interface NameDoc {
+  name: string;
+  unit: string;
+  doc: string;
+  kind: 'number' | 'text';
+}
+
+/** Standard variant parameters. A Book may add its own; these are the ones the built-in checks read. */
+export const VARIANT_PARAMS: readonly NameDoc[] = [
+  { name: 'steps', unit: '', kind: 'number', doc: 'number of speed steps (off not counted)' },
+  { name: 'load_w', unit: 'W', kind: 'number', doc: 'rated fan load, input power at full speed' },
+  { name: 'pf', unit: '', kind: 'number', doc: 'power factor of the fan at full speed' },
+  { name: 'mains_v', unit: 'V', kind: 'number', doc: 'nominal mains voltage, RMS' },
+  { name: 'mains_hz', unit: 'Hz', kind: 'number', doc: 'mains frequency' },
+  { name: 'mains_tol', unit: '', kind: 'number', doc: 'mains tolerance as a fraction (0.1 = ±10 %)' },
+  { name: 't_amb', unit: '°C', kind: 'number', doc: 'highest ambient temperature inside the box' },
+  { name: 'selector', unit: '', kind: 'text', doc: 'speed selection: button, rotary or mcu' },
+  { name: 'stage', unit: '', kind: 'text', doc: 'power stage: mosfet, triac or capacitor' },
+  { name: 'supply', unit: '', kind: 'text', doc: 'logic supply: dropper, transformer or switcher' },
+  { name: 'vcc', unit: 'V', kind: 'number', doc: 'logic supply voltage' },
+  { name: 'i_logic', unit: 'A', kind: 'number', doc: 'current the logic draws from its supply' },
+  { name: 'c_drop', unit: 'F', kind: 'number', doc: 'dropper (X) capacitor, nominal' },
+  { name: 'c_drop_tol', unit: '', kind: 'number', doc: 'dropper capacitor tolerance as a fraction' },
+  { name: 'r_bleed', unit: 'Ω', kind: 'number', doc: 'bleeder resistor across the dropper capacitor' },
+  { name: 'v_z', unit: 'V', kind: 'number', doc: 'zener clamp voltage of the dropper supply' },
+  { name: 'ra', unit: 'Ω', kind: 'number', doc: 'astable timing resistor RA' },
+  { name: 'rb', unit: 'Ω', kind: 'number', doc: 'astable timing resistor RB' },
+  { name: 'c_t', unit: 'F', kind: 'number', doc: 'astable timing capacitor' },
+  { name: 'r_top', unit: 'Ω', kind: 'number', doc: 'top resistor of the stepped control-voltage divider' },
+  { name: 'r_s1', unit: 'Ω', kind: 'number', doc: 'bottom resistor selected at step 1 (r_s2 … r_s8 likewise)' },
+  { name: 'r_db', unit: 'Ω', kind: 'number', doc: 'debounce RC resistor' },
+  { name: 'c_db', unit: 'F', kind: 'number', doc: 'debounce RC capacitor' },
+  { name: 't_bounce', unit: 's', kind: 'number', doc: 'longest contact bounce to reject' },
+  { name: 'snub_c', unit: 'F', kind: 'number', doc: 'snubber capacitor' },
+  { name: 'f_pwm_min', unit: 'Hz', kind: 'number', doc: 'lowest acceptable PWM frequency' },
+  { name: 'f_pwm_max', unit: 'Hz', kind: 'number', doc: 'highest acceptable PWM frequency' },
+];
+
+/** The most steps a variant may have; ladder resistors are r_s1 … r_s{MAX_STEPS}. */
+export const MAX_STEPS = 8;
+
+/** Part rating names. A check reads a role's part rating as `<role>_<rating>`, for example `switch_v_max`. */
+export const PART_RATINGS: readonly NameDoc[] = [
+  { name: 'v_max', unit: 'V', kind: 'number', doc: 'highest working voltage (DC or peak)' },
+  { name: 'v_ac', unit: 'V', kind: 'number', doc: 'rated AC voltage, RMS (X capacitors)' },
+  { name: 'i_max', unit: 'A', kind: 'number', doc: 'highest continuous current (RMS for triacs, average for bridges)' },
+  { name: 'p_max', unit: 'W', kind: 'number', doc: 'rated power dissipation' },
+  { name: 'rds_on', unit: 'Ω', kind: 'number', doc: 'on-resistance at 25 °C' },
+  { name: 'vgs_full', unit: 'V', kind: 'number', doc: 'gate voltage at which on-resistance is specified (fully on)' },
+  { name: 'vf', unit: 'V', kind: 'number', doc: 'forward voltage per diode at rated current' },
+  { name: 'rth_jc', unit: 'K/W', kind: 'number', doc: 'thermal resistance junction to case' },
+  { name: 'rth_cs', unit: 'K/W', kind: 'number', doc: 'thermal resistance case to sink (interface)' },
+  { name: 'rth_sa', unit: 'K/W', kind: 'number', doc: 'thermal resistance sink to air (heatsinks)' },
+  { name: 'tj_max', unit: '°C', kind: 'number', doc: 'highest junction temperature' },
+  { name: 'tol', unit: '', kind: 'number', doc: 'value tolerance as a fraction' },
+];
+
+/** Roles a build line can give its part, read by the built-in checks. */
+export const ROLES = ['switch', 'bridge', 'xcap', 'bleeder', 'zener', 'snubber_r', 'snubber_c', 'timer', 'heatsink', 'supply_diode'] as const;

@@ -1,0 +1,2 @@
+// Browser entry: defines the app element.
+import './rb-app.ts';
