@@ -135,6 +135,8 @@ export interface BuildLine extends RecordBase {
   role?: string;
   /** Attrition allowance as a fraction (0.02 = 2 %); absent = the Book's default for the part kind. */
   attrition?: number;
+  /** When set, run costing buys this line only from this supplier (other quotes are not considered). */
+  pinnedSupplierId?: string;
   notes?: string;
 }
 
