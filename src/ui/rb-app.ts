@@ -1,12 +1,400 @@
-// Temporary shell until the app shell lands.
-import { LitElement, html } from 'lit';
-import { customElement } from 'lit/decorators.js';
+// The app shell: opens the Book, shares it with every page through context, and lays out the rail of pages, the
+// save state, the Book menu and the current page (chosen by the location hash, so a reload keeps the page).
+import { ContextProvider } from '@lit/context';
+import { LitElement, css, html, nothing } from 'lit';
+import type { TemplateResult } from 'lit';
+import { customElement, state } from 'lit/decorators.js';
+import { bookContext } from './book-context.ts';
+import { BookService } from './book-service.ts';
+import { PAGES, notebookRoute, parseRoute } from './pages.ts';
+import type { PageEntry, Route } from './pages.ts';
+import type { NoticeDetail } from './rb-book-menu.ts';
+import './rb-book-menu.ts';
+import './rb-mains-caution.ts';
+import './rb-notebook-page.ts';
+import './rb-save-state.ts';
+
+type Phase = { kind: 'opening' } | { kind: 'open'; service: BookService } | { kind: 'failed'; message: string };
 
 @customElement('rb-app')
 export class RbApp extends LitElement {
-  override render() {
-    return html`<p>Rungbook</p>`;
+  static override styles = css`
+    :host {
+      display: grid;
+      grid-template-columns: 15.5rem minmax(0, 1fr);
+      min-height: 100vh;
+      font-family: var(--rb-font);
+      color: var(--rb-ink);
+    }
+    nav.rail {
+      position: sticky;
+      top: 0;
+      height: 100vh;
+      overflow-y: auto;
+      display: flex;
+      flex-direction: column;
+      gap: 1.1rem;
+      padding: 1rem 0.9rem 1rem 1.1rem;
+      background: var(--rb-rail);
+      border-right: 1px solid var(--rb-rule);
+      box-shadow: inset -6px 0 0 -4px var(--rb-accent);
+    }
+    .brand {
+      display: flex;
+      gap: 0.55rem;
+      align-items: center;
+    }
+    .brand img {
+      width: 2rem;
+      height: 2rem;
+    }
+    .brand b {
+      display: block;
+      font-size: 1.2rem;
+      letter-spacing: 0.02em;
+    }
+    .brand small {
+      display: block;
+      font-size: 0.78rem;
+      color: var(--rb-na);
+      overflow-wrap: anywhere;
+    }
+    h2 {
+      font-size: 0.72rem;
+      text-transform: uppercase;
+      letter-spacing: 0.14em;
+      color: var(--rb-na);
+      margin: 0 0 0.3rem;
+      font-weight: 600;
+    }
+    ol {
+      list-style: none;
+      margin: 0;
+      padding: 0;
+      counter-reset: page;
+    }
+    ol li a {
+      display: flex;
+      gap: 0.5rem;
+      align-items: baseline;
+      padding: 0.2rem 0.4rem;
+      border-radius: 3px;
+      color: var(--rb-ink);
+      text-decoration: none;
+    }
+    ol.pages li a::before {
+      counter-increment: page;
+      content: counter(page, decimal-leading-zero);
+      font-family: var(--rb-mono);
+      font-size: 0.7rem;
+      color: var(--rb-na);
+      min-width: 1.3rem;
+    }
+    ol.notebook li a::before {
+      content: '¶';
+      color: var(--rb-na);
+      min-width: 1.3rem;
+    }
+    ol li a:hover {
+      background: var(--rb-paper);
+    }
+    ol li a[aria-current='page'] {
+      background: var(--rb-paper);
+      color: var(--rb-accent-ink);
+      font-weight: 600;
+      box-shadow: inset 3px 0 0 var(--rb-accent);
+    }
+    ol li a .later {
+      font-size: 0.7rem;
+      color: var(--rb-na);
+      font-style: italic;
+      margin-left: auto;
+    }
+    .foot {
+      margin-top: auto;
+      border-top: 1px solid var(--rb-rule);
+      padding-top: 0.7rem;
+    }
+    main {
+      padding: 1.4rem 2.2rem 3rem;
+      min-width: 0;
+    }
+    header h1 {
+      font-size: 1.8rem;
+      font-weight: 600;
+      margin: 0;
+    }
+    header p {
+      margin: 0.15rem 0 1.1rem;
+      font-style: italic;
+      color: var(--rb-na);
+      max-width: 60rem;
+    }
+    .banner {
+      display: flex;
+      gap: 0.8rem;
+      align-items: baseline;
+      flex-wrap: wrap;
+      padding: 0.55rem 0.8rem;
+      margin: 0 0 1rem;
+      border: 1px solid var(--rb-fail);
+      border-left-width: 4px;
+      background: var(--rb-fail-bg);
+      max-width: 60rem;
+    }
+    .banner.done {
+      border-color: var(--rb-pass);
+      background: var(--rb-highlight);
+    }
+    .banner strong {
+      flex: 1 1 20rem;
+    }
+    .banner ul {
+      flex-basis: 100%;
+      margin: 0.2rem 0 0;
+      padding-left: 1.2rem;
+      font-family: var(--rb-mono);
+      font-size: 0.8rem;
+    }
+    button {
+      font: inherit;
+      font-size: 0.88rem;
+      border: 1px solid var(--rb-accent);
+      background: var(--rb-accent);
+      color: var(--rb-paper);
+      padding: 0.2rem 0.8rem;
+      border-radius: 999px;
+      cursor: pointer;
+    }
+    button.plain {
+      background: transparent;
+      color: var(--rb-accent-ink);
+    }
+    .placeholder {
+      max-width: 48rem;
+      padding: 0.9rem 1.1rem;
+      border: 1px dashed var(--rb-rule);
+      background: var(--rb-sheet);
+    }
+    .placeholder h2 {
+      font-size: 0.9rem;
+      color: var(--rb-accent-ink);
+      letter-spacing: 0.06em;
+    }
+    .opening {
+      padding: 3rem;
+      grid-column: 1 / -1;
+      font-style: italic;
+    }
+    .failed {
+      grid-column: 1 / -1;
+      padding: 3rem;
+      max-width: 48rem;
+    }
+    @media (max-width: 760px) {
+      :host {
+        grid-template-columns: 1fr;
+      }
+      nav.rail {
+        position: static;
+        height: auto;
+      }
+    }
+  `;
+
+  @state() private phase: Phase = { kind: 'opening' };
+  @state() private route: Route = parseRoute(location.hash);
+  @state() private notice: NoticeDetail | undefined;
+  @state() private pageElement: HTMLElement | undefined;
+  private readonly provider = new ContextProvider(this, { context: bookContext });
+  private readonly pageElements = new Map<string, HTMLElement>();
+  private readonly onHash = (): void => this.go(parseRoute(location.hash));
+  private readonly onServiceChange = (): void => this.requestUpdate();
+
+  override connectedCallback(): void {
+    super.connectedCallback();
+    window.addEventListener('hashchange', this.onHash);
+    this.addEventListener('rb-notice', this._onNotice);
+    void this.open();
   }
+
+  override disconnectedCallback(): void {
+    super.disconnectedCallback();
+    window.removeEventListener('hashchange', this.onHash);
+    this.removeEventListener('rb-notice', this._onNotice);
+    if (this.phase.kind === 'open') this.phase.service.close();
+  }
+
+  private async open(): Promise<void> {
+    try {
+      const service = await BookService.open();
+      service.addEventListener('change', this.onServiceChange);
+      this.provider.setValue(service);
+      this.phase = { kind: 'open', service };
+      this.go(this.route);
+    } catch (e) {
+      const detail = e instanceof Error ? e.message : String(e);
+      this.phase = {
+        kind: 'failed',
+        message: `The Book could not be opened in this browser: ${detail}. Rungbook keeps Books in the browser's own storage (IndexedDB); private windows and some settings turn it off.`,
+      };
+    }
+  }
+
+  private go(route: Route): void {
+    this.route = route;
+    this.notice = undefined;
+    if (route.kind !== 'page' || !route.entry.tag || !route.entry.load) {
+      this.pageElement = undefined;
+      return;
+    }
+    const { slug, tag, load } = route.entry;
+    const cached = this.pageElements.get(slug);
+    if (cached) {
+      this.pageElement = cached;
+      return;
+    }
+    this.pageElement = undefined;
+    load().then(
+      () => {
+        const el = this.pageElements.get(slug) ?? document.createElement(tag);
+        this.pageElements.set(slug, el);
+        if (this.route.kind === 'page' && this.route.entry.slug === slug) this.pageElement = el;
+      },
+      (e: unknown) => {
+        this.notice = { tone: 'problem', title: `The ${route.entry.title} page could not be loaded`, lines: [String(e)] };
+      },
+    );
+  }
+
+  override render() {
+    const phase = this.phase;
+    if (phase.kind === 'opening') return html`<p class="opening">Opening the Book…</p>`;
+    if (phase.kind === 'failed') {
+      return html`<div class="failed" role="alert">
+        <h1>Rungbook</h1>
+        <p>${phase.message}</p>
+      </div>`;
+    }
+    const service = phase.service;
+    return html`${this.renderRail(service)}
+      <main>${this.renderBanners(service)}${this.renderRoute(service)}</main>`;
+  }
+
+  private renderRail(service: BookService): TemplateResult {
+    const book = service.book;
+    const current = this.route;
+    const pages = [...book.pages].sort((a, b) => a.position - b.position);
+    return html`<nav class="rail" aria-label="Book pages">
+      <div class="brand">
+        <img src="/icon.svg" alt="" />
+        <div>
+          <b>Rungbook</b>
+          <small data-testid="book-name">${book.settings.bookName}${book.settings.company ? ` · ${book.settings.company}` : ''}</small>
+        </div>
+      </div>
+      <div>
+        <h2>Pages</h2>
+        <ol class="pages">
+          ${PAGES.map(
+            (p) => html`<li>
+              <a href="#/${p.slug}" aria-current=${current.kind === 'page' && current.entry === p ? 'page' : nothing}
+                >${p.title}${p.tag ? '' : html`<span class="later">to come</span>`}</a
+              >
+            </li>`,
+          )}
+        </ol>
+      </div>
+      ${pages.length > 0
+        ? html`<div>
+            <h2>Notebook</h2>
+            <ol class="notebook">
+              ${pages.map(
+                (p) => html`<li>
+                  <a
+                    href=${notebookRoute(p.id)}
+                    aria-current=${current.kind === 'notebook' && current.pageId === p.id ? 'page' : nothing}
+                    >${p.title || '(untitled page)'}</a
+                  >
+                </li>`,
+              )}
+            </ol>
+          </div>`
+        : ''}
+      <div>
+        <h2>Book</h2>
+        <rb-book-menu></rb-book-menu>
+      </div>
+      <div class="foot">
+        <rb-save-state></rb-save-state>
+      </div>
+    </nav>`;
+  }
+
+  private renderBanners(service: BookService): TemplateResult {
+    const blocked = service.blocked
+      ? html`<div class="banner" role="alert">
+          <strong
+            >A newer Rungbook opened this Book in another tab and upgraded its storage. This tab has stopped saving;
+            reload it to go on working.</strong
+          >
+          <button type="button" @click=${() => location.reload()}>Reload this tab</button>
+        </div>`
+      : '';
+    const s = service.status;
+    const failed =
+      s.state === 'failed'
+        ? html`<div class="banner" role="alert" data-testid="save-problem">
+            <strong>${s.reason}</strong>
+            ${s.conflict
+              ? html`<button type="button" @click=${() => void service.reload()}>Reload the Book</button>`
+              : ''}
+          </div>`
+        : '';
+    const n = this.notice;
+    const notice = n
+      ? html`<div class="banner ${n.tone}" role=${n.tone === 'problem' ? 'alert' : 'status'} data-testid="notice">
+          <strong>${n.title}</strong>
+          <button type="button" class="plain" @click=${() => (this.notice = undefined)}>Dismiss</button>
+          ${n.lines.length ? html`<ul>${n.lines.map((l) => html`<li>${l}</li>`)}</ul>` : ''}
+        </div>`
+      : '';
+    return html`${blocked}${failed}${notice}`;
+  }
+
+  private renderRoute(service: BookService): TemplateResult {
+    const route = this.route;
+    if (route.kind === 'notebook') {
+      const page = service.book.pages.find((p) => p.id === route.pageId);
+      if (!page) return this.renderMissing(`No notebook page with id “${route.pageId}” in this Book.`);
+      return html`<rb-notebook-page .pageId=${page.id}></rb-notebook-page>`;
+    }
+    if (route.kind === 'unknown') return this.renderMissing(`There is no page at “${route.hash}”.`);
+    return this.renderPage(route.entry);
+  }
+
+  private renderPage(entry: PageEntry): TemplateResult {
+    return html`<header>
+        <h1>${entry.title}</h1>
+        <p>${entry.blurb}</p>
+      </header>
+      ${entry.mains ? html`<rb-mains-caution></rb-mains-caution>` : ''}
+      ${entry.tag
+        ? (this.pageElement ?? html`<p class="muted">Loading…</p>`)
+        : html`<div class="placeholder" data-testid="page-plan">
+            <h2>Not built yet — this page will hold</h2>
+            <p>${entry.plan ?? entry.blurb}</p>
+          </div>`}`;
+  }
+
+  private renderMissing(message: string): TemplateResult {
+    return html`<header><h1>Page not found</h1></header>
+      <p>${message} <a href="#/${PAGES[0]!.slug}">Go to ${PAGES[0]!.title}</a>.</p>`;
+  }
+
+  private readonly _onNotice = (ev: CustomEvent<NoticeDetail>): void => {
+    this.notice = ev.detail;
+  };
 }
 
 declare global {

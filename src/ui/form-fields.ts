@@ -1,0 +1,73 @@
+// Template helpers for record forms: a labelled input with its hint and its problem message beside it.
+import { html, nothing } from 'lit';
+import type { TemplateResult } from 'lit';
+import { live } from 'lit/directives/live.js';
+
+export interface FieldOptions {
+  /** Field key; also the input's name and the key of its problem message. */
+  name: string;
+  label: string;
+  value: string;
+  problem?: string | undefined;
+  hint?: string;
+  placeholder?: string;
+  onInput: (value: string) => void;
+  /** A list of choices makes a select. */
+  choices?: readonly string[];
+  multiline?: boolean;
+  size?: 'short' | 'long';
+}
+
+/** Ids for inputs inside one form's shadow root: the field name made safe for an id. */
+export function fieldId(name: string): string {
+  return `f-${name.replace(/[^A-Za-z0-9_-]/g, '_')}`;
+}
+
+export function field(o: FieldOptions): TemplateResult {
+  const id = fieldId(o.name);
+  const described = o.problem ? `${id}-problem` : o.hint ? `${id}-hint` : undefined;
+  const onInput = (ev: Event) => o.onInput((ev.target as HTMLInputElement).value);
+  const control = o.choices
+    ? html`<select
+        id=${id}
+        name=${o.name}
+        .value=${live(o.value)}
+        aria-invalid=${o.problem ? 'true' : 'false'}
+        aria-describedby=${described ?? nothing}
+        @change=${onInput}
+      >
+        <option value="" ?selected=${o.value === ''}>—</option>
+        ${o.choices.map((c) => html`<option value=${c} ?selected=${c === o.value}>${c}</option>`)}
+      </select>`
+    : o.multiline
+      ? html`<textarea
+          id=${id}
+          name=${o.name}
+          rows="2"
+          .value=${live(o.value)}
+          aria-invalid=${o.problem ? 'true' : 'false'}
+          aria-describedby=${described ?? nothing}
+          @input=${onInput}
+        ></textarea>`
+      : html`<input
+          id=${id}
+          name=${o.name}
+          type="text"
+          autocomplete="off"
+          spellcheck="false"
+          placeholder=${o.placeholder ?? nothing}
+          .value=${live(o.value)}
+          aria-invalid=${o.problem ? 'true' : 'false'}
+          aria-describedby=${described ?? nothing}
+          @input=${onInput}
+        />`;
+  return html`<label for=${id}>${o.label}</label>
+    ${control}
+    ${o.problem
+      ? html`<span class="problem" id="${id}-problem" data-problem-for=${o.name}>${o.problem}</span>`
+      : html`<span class="hint" id="${id}-hint">${o.hint ?? ''}</span>`}`;
+}
+
+export function group(title: string): TemplateResult {
+  return html`<div class="group">${title}</div>`;
+}

@@ -1,0 +1,124 @@
+// The page registry: every fixed page of a Book in rail order. A new page is one element file plus one line here
+// (give it `tag` and `load`); a page without them shows its description until it is built.
+
+export interface PageEntry {
+  /** Route segment: the page lives at `#/<slug>`. */
+  slug: string;
+  title: string;
+  /** One line saying what the page is for, shown under its heading. */
+  blurb: string;
+  /** What the page will hold, shown while it is not built yet. */
+  plan?: string;
+  /** Custom element that renders the page; loaded on first visit. */
+  tag?: string;
+  load?: () => Promise<unknown>;
+  /** Pages about mains circuits carry the safety caution. */
+  mains?: boolean;
+}
+
+export const PAGES: readonly PageEntry[] = [
+  {
+    slug: 'family',
+    title: 'Family',
+    blurb: 'The variants of the family, one row each, with the parameters that set their circuit and rating.',
+    tag: 'rb-family-page',
+    load: () => import('./rb-family-page.ts'),
+    mains: true,
+  },
+  {
+    slug: 'parts',
+    title: 'Parts',
+    blurb: 'Every component the family may use: maker part number, kind, principal value, ratings and package.',
+    tag: 'rb-parts-page',
+    load: () => import('./rb-parts-page.ts'),
+  },
+  {
+    slug: 'suppliers',
+    title: 'Suppliers',
+    blurb: 'Who sells the parts, in which currency, and at what rate that currency converts to the Book’s own.',
+    tag: 'rb-suppliers-page',
+    load: () => import('./rb-suppliers-page.ts'),
+  },
+  {
+    slug: 'quotes',
+    title: 'Quotes',
+    blurb: 'Supplier offers per part: price breaks, minimum order, pack quantity, lead time and validity.',
+    plan:
+      'A table of quotes per part and supplier with their price breaks, MOQ, pack quantity, lead time, date and ' +
+      'source file, with expired and superseded quotes marked.',
+  },
+  {
+    slug: 'build',
+    title: 'Build',
+    blurb: 'The family bill of materials: which part each line uses, how many, and for which variants.',
+    plan:
+      'Build lines with designators, part or part rule, quantity rule, applies-when rule, cost category and ' +
+      'attrition, and a per-variant view of the lines that apply.',
+    mains: true,
+  },
+  {
+    slug: 'checks',
+    title: 'Checks',
+    blurb: 'Engineering checks evaluated for every variant, with pass, margin or fail and the figure behind it.',
+    plan:
+      'A grid of checks against variants, each cell showing the computed figure with its unit and a pass / ' +
+      'margin / fail / n/a mark, and the formula and note of the selected check.',
+    mains: true,
+  },
+  {
+    slug: 'runs',
+    title: 'Runs',
+    blurb: 'Production runs: a variant, a quantity and a date, costed from the quotes into a costed BOM.',
+    plan:
+      'Runs with their variant, quantity and wanted date; for each, the costed BOM (need, buy quantity, chosen ' +
+      'quote, unit and extended cost, leftover stock) and the unit cost split by category.',
+    mains: true,
+  },
+  {
+    slug: 'compare',
+    title: 'Compare',
+    blurb: 'Variants side by side: parameters, check results and unit cost at each run size.',
+    plan: 'Chosen variants in columns with their parameters, check results and unit cost at the Book’s run sizes.',
+    mains: true,
+  },
+  {
+    slug: 'import',
+    title: 'Import',
+    blurb: 'Bring in a supplier’s price file, map its columns once, and review the quotes before they are kept.',
+    plan:
+      'A price file drop area, a column mapping saved per supplier, a preview of the rows that will become quotes ' +
+      'with problems marked, and a list of past imports that can be undone.',
+  },
+  {
+    slug: 'export',
+    title: 'Export',
+    blurb: 'Costed BOMs and purchase lists as CSV files, and the whole Book as a file.',
+    plan: 'Downloads of the costed BOM and purchase list of a run as CSV, and of the whole Book as a Book file.',
+  },
+];
+
+/** Route of a user notebook page. */
+export function notebookRoute(pageId: string): string {
+  return `#/notebook/${encodeURIComponent(pageId)}`;
+}
+
+export type Route =
+  | { kind: 'page'; entry: PageEntry }
+  | { kind: 'notebook'; pageId: string }
+  | { kind: 'unknown'; hash: string };
+
+/** Reads a location hash (`#/parts`, `#/notebook/<id>`); an empty hash is the first page. */
+export function parseRoute(hash: string): Route {
+  const path = hash.replace(/^#\/?/, '');
+  if (path === '') return { kind: 'page', entry: PAGES[0]! };
+  const [head, ...rest] = path.split('/');
+  if (head === 'notebook' && rest.length === 1 && rest[0]) {
+    try {
+      return { kind: 'notebook', pageId: decodeURIComponent(rest[0]) };
+    } catch {
+      return { kind: 'unknown', hash };
+    }
+  }
+  const entry = PAGES.find((p) => p.slug === head && rest.length === 0);
+  return entry ? { kind: 'page', entry } : { kind: 'unknown', hash };
+}

@@ -1,0 +1,186 @@
+// The Book menu: start an empty Book, put the demo Book back, download the Book as a file, open a Book file.
+// Anything that replaces the Book asks first; a file with problems is refused whole and the Book stays as it was.
+import { LitElement, css, html } from 'lit';
+import { customElement, query } from 'lit/decorators.js';
+import type { Book } from '../domain/book.ts';
+import { parseBookFile, serializeBook } from '../io/book-file.ts';
+import { BookController } from './book-context.ts';
+import type { RbConfirm } from './rb-confirm.ts';
+import './rb-confirm.ts';
+import { pageStyles } from './styles.ts';
+
+/** Shown by the shell above the page: a result the person should read (problems in a file, a refused write). */
+export interface NoticeDetail {
+  tone: 'problem' | 'done';
+  title: string;
+  lines: string[];
+}
+
+/** How many problems of a refused file are listed; the rest are counted. */
+const PROBLEMS_SHOWN = 8;
+
+/** A file name for the Book: its name with anything unsafe in file names replaced. */
+export function bookFileName(bookName: string): string {
+  const base = bookName
+    .normalize('NFKC')
+    .replace(/[^\p{L}\p{N} _-]+/gu, '-')
+    .replace(/\s+/g, ' ')
+    .replace(/^[-\s]+|[-\s]+$/g, '')
+    .slice(0, 80);
+  return `${base || 'book'}.rungbook.json`;
+}
+
+function counts(book: Book): string {
+  return `${book.variants.length} variants, ${book.parts.length} parts, ${book.suppliers.length} suppliers, ${book.quotes.length} quotes`;
+}
+
+@customElement('rb-book-menu')
+export class RbBookMenu extends LitElement {
+  static override styles = [
+    pageStyles,
+    css`
+      :host {
+        display: block;
+      }
+      ul {
+        list-style: none;
+        margin: 0;
+        padding: 0;
+        display: grid;
+        gap: 0.15rem;
+      }
+      button.item {
+        border: none;
+        background: none;
+        border-radius: 0;
+        padding: 0.15rem 0;
+        text-align: left;
+        font-size: 0.88rem;
+        color: var(--rb-ink);
+        text-decoration: underline;
+        text-decoration-color: var(--rb-rule);
+        text-underline-offset: 0.2em;
+      }
+      button.item:hover {
+        background: none;
+        text-decoration-color: var(--rb-accent);
+        color: var(--rb-accent-ink);
+      }
+      input[type='file'] {
+        display: none;
+      }
+    `,
+  ];
+
+  private readonly books = new BookController(this);
+  @query('rb-confirm') private confirm!: RbConfirm;
+  @query('input[type=file]') private fileInput!: HTMLInputElement;
+
+  override render() {
+    return html`<ul>
+        <li><button class="item" type="button" @click=${this._onDownload}>Download this Book as a file</button></li>
+        <li><button class="item" type="button" @click=${this._onPickFile}>Open a Book file…</button></li>
+        <li><button class="item" type="button" @click=${this._onEmpty}>Start an empty Book…</button></li>
+        <li><button class="item" type="button" @click=${this._onDemo}>Put the demo Book back…</button></li>
+      </ul>
+      <input type="file" accept=".json,application/json" aria-label="Book file to open" @change=${this._onFile} />
+      <rb-confirm></rb-confirm>`;
+  }
+
+  private notify(detail: NoticeDetail): void {
+    this.dispatchEvent(new CustomEvent<NoticeDetail>('rb-notice', { detail, bubbles: true, composed: true }));
+  }
+
+  private async _onDownload(): Promise<void> {
+    const service = this.books.service;
+    if (!service) return;
+    const book = service.book;
+    const blob = new Blob([serializeBook(book)], { type: 'application/json' });
+    const url = URL.createObjectURL(blob);
+    const a = document.createElement('a');
+    a.href = url;
+    a.download = bookFileName(book.settings.bookName);
+    a.click();
+    setTimeout(() => URL.revokeObjectURL(url), 10_000);
+    const settings = { ...book.settings, lastExportAt: new Date().toISOString(), editsSinceExport: 0 };
+    const result = await service.save({ settings });
+    if (!result.ok) this.notify({ tone: 'problem', title: 'The file was made, but the export date was not saved', lines: [result.message] });
+  }
+
+  private _onPickFile(): void {
+    this.fileInput.value = '';
+    this.fileInput.click();
+  }
+
+  private async _onFile(): Promise<void> {
+    const service = this.books.service;
+    const file = this.fileInput.files?.[0];
+    if (!service || !file) return;
+    let text: string;
+    try {
+      text = await file.text();
+    } catch (e) {
+      this.notify({ tone: 'problem', title: `Could not read ${file.name}`, lines: [String(e)] });
+      return;
+    }
+    const parsed = parseBookFile(text);
+    if (!parsed.ok) {
+      const shown = parsed.problems.slice(0, PROBLEMS_SHOWN).map((p) => `${p.path || '(whole file)'}: ${p.reason}`);
+      const more = parsed.problems.length - shown.length;
+      if (more > 0) shown.push(`… and ${more} more problem${more === 1 ? '' : 's'}.`);
+      this.notify({
+        tone: 'problem',
+        title: `${file.name} was not opened: the Book in this browser is unchanged`,
+        lines: shown,
+      });
+      return;
+    }
+    const yes = await this.confirm.ask({
+      title: 'Replace this Book with the file?',
+      message: `“${parsed.book.settings.bookName}” (${counts(parsed.book)}) will replace everything in this browser's Book. Download the current Book first if you may want it again.`,
+      confirmLabel: 'Replace with the file',
+    });
+    if (!yes) return;
+    const result = await service.replaceBook(parsed.book);
+    this.notify(
+      result.ok
+        ? { tone: 'done', title: `Opened ${file.name}`, lines: [counts(parsed.book)] }
+        : { tone: 'problem', title: `${file.name} was not opened`, lines: [result.message] },
+    );
+  }
+
+  private async _onEmpty(): Promise<void> {
+    const service = this.books.service;
+    if (!service) return;
+    const yes = await this.confirm.ask({
+      title: 'Start an empty Book?',
+      message: 'Every variant, part, supplier, quote and run in this browser will be removed; the built-in checks stay. Download the current Book first if you may want it again.',
+      confirmLabel: 'Empty the Book',
+    });
+    if (!yes) return;
+    const result = await service.replaceBook(service.empty());
+    if (!result.ok) this.notify({ tone: 'problem', title: 'The Book was not emptied', lines: [result.message] });
+  }
+
+  private async _onDemo(): Promise<void> {
+    const service = this.books.service;
+    if (!service) return;
+    const yes = await this.confirm.ask({
+      title: 'Put the demo Book back?',
+      message: 'The invented demo family replaces everything in this browser. Download the current Book first if you may want it again.',
+      confirmLabel: 'Load the demo Book',
+    });
+    if (!yes) return;
+    const result = await service.replaceBook(service.demo());
+    if (!result.ok) this.notify({ tone: 'problem', title: 'The demo Book was not loaded', lines: [result.message] });
+  }
+}
+
+declare global {
+  interface HTMLElementTagNameMap {
+    'rb-book-menu': RbBookMenu;
+  }
+  interface HTMLElementEventMap {
+    'rb-notice': CustomEvent<NoticeDetail>;
+  }
+}

@@ -1,0 +1,194 @@
+// Suppliers page: who sells the parts and in which currency, with the rate that converts it to the Book's own
+// currency. Add, edit and delete with messages beside each field; a supplier with quotes cannot be deleted.
+import { LitElement, html } from 'lit';
+import { customElement, state } from 'lit/decorators.js';
+import type { Book, Supplier } from '../domain/book.ts';
+import { newId } from '../domain/book.ts';
+import { BookController } from './book-context.ts';
+import { field } from './form-fields.ts';
+import type { FieldProblems, SupplierDraft } from './record-forms.ts';
+import { supplierDraft, supplierUsers, validateSupplier } from './record-forms.ts';
+import { pageStyles } from './styles.ts';
+
+type Editing = { supplier: Supplier | undefined; draft: SupplierDraft; problems: FieldProblems; saveError?: string };
+
+@customElement('rb-suppliers-page')
+export class RbSuppliersPage extends LitElement {
+  static override styles = pageStyles;
+
+  private readonly books = new BookController(this);
+  @state() private editing: Editing | undefined;
+  @state() private confirmDelete: string | undefined;
+  @state() private rowProblem: { id: string; message: string } | undefined;
+
+  override render() {
+    const book = this.books.book;
+    if (!book) return html``;
+    return html`${this.editing ? this.renderForm(book, this.editing) : ''} ${this.renderList(book)}`;
+  }
+
+  private renderList(book: Book) {
+    const base = book.settings.baseCurrency;
+    const suppliers = [...book.suppliers].sort((a, b) => a.name.localeCompare(b.name));
+    const quoteCount = new Map<string, number>();
+    for (const q of book.quotes) quoteCount.set(q.supplierId, (quoteCount.get(q.supplierId) ?? 0) + 1);
+    return html`<section class="sheet" aria-labelledby="suppliers-h">
+      <h2 id="suppliers-h">Suppliers in this Book</h2>
+      <p class="why">
+        Quotes are kept in each supplier's currency and converted to ${base} at the rate shown (units of ${base} for
+        one unit of theirs) when a run is costed.
+      </p>
+      <div class="toolbar">
+        <button type="button" class="primary" @click=${() => this.startEdit(book, undefined)}>Add a supplier</button>
+      </div>
+      ${suppliers.length === 0
+        ? html`<p class="empty">No suppliers yet. Add the first one above.</p>`
+        : html`<div class="scroll">
+            <table class="records" data-testid="suppliers-table">
+              <thead>
+                <tr>
+                  <th>name</th>
+                  <th>currency</th>
+                  <th class="num">rate (${base})</th>
+                  <th class="num">quotes</th>
+                  <th>price file mapping</th>
+                  <th>notes</th>
+                  <th><span class="muted">actions</span></th>
+                </tr>
+              </thead>
+              <tbody>
+                ${suppliers.map((s) => this.renderRow(book, s, quoteCount.get(s.id) ?? 0))}
+              </tbody>
+            </table>
+          </div>`}
+    </section>`;
+  }
+
+  private renderRow(book: Book, s: Supplier, quotes: number) {
+    const rate = s.currency === book.settings.baseCurrency ? 1 : book.settings.rates[s.currency];
+    const confirming = this.confirmDelete === s.id;
+    const problem = this.rowProblem?.id === s.id ? this.rowProblem.message : undefined;
+    return html`<tr class=${this.editing?.supplier?.id === s.id ? 'editing' : ''} data-id=${s.id}>
+      <td>${s.name}</td>
+      <td class="code">${s.currency}</td>
+      <td class="num">${rate === undefined ? html`<span class="problem">✗ no rate</span>` : String(rate)}</td>
+      <td class="num">${quotes}</td>
+      <td>${s.mapping ? `saved (${Object.keys(s.mapping.columns).length} columns, ${s.mapping.layout})` : '—'}</td>
+      <td>${s.notes}</td>
+      <td class="acts">
+        ${confirming
+          ? html`Delete ${s.name}?
+              <button type="button" class="danger" @click=${() => this.delete(s)}>Delete</button>
+              <button type="button" class="quiet" @click=${() => (this.confirmDelete = undefined)}>Keep</button>`
+          : html`<button type="button" class="quiet" @click=${() => this.startEdit(book, s)}>edit</button>
+              <button type="button" class="quiet" @click=${() => this.askDelete(book, s)}>delete</button>`}
+        ${problem ? html`<div class="problem" role="alert">${problem}</div>` : ''}
+      </td>
+    </tr>`;
+  }
+
+  private renderForm(book: Book, e: Editing) {
+    const d = e.draft;
+    const base = book.settings.baseCurrency;
+    const cur = d.currency.trim().toUpperCase();
+    const set = (patch: Partial<SupplierDraft>) => {
+      if (this.editing) this.editing = { ...this.editing, draft: { ...this.editing.draft, ...patch } };
+    };
+    return html`<section class="sheet" aria-labelledby="supplier-form-h">
+      <h2 id="supplier-form-h">${e.supplier ? `Edit supplier ${e.supplier.name}` : 'New supplier'}</h2>
+      <p class="why">The rate is shared by every supplier in that currency; changing it here changes it for all of them.</p>
+      ${e.saveError ? html`<p class="notice" role="alert">${e.saveError}</p>` : ''}
+      <form class="record" novalidate @submit=${(ev: Event) => this.submit(ev, book)} aria-label="Supplier">
+        ${field({ name: 'name', label: 'name', value: d.name, problem: e.problems.name, hint: 'unique in the Book', onInput: (v) => set({ name: v }) })}
+        ${field({
+          name: 'currency',
+          label: 'currency',
+          value: d.currency,
+          problem: e.problems.currency,
+          hint: 'three-letter code (ISO 4217)',
+          onInput: (v) => {
+            const c = v.trim().toUpperCase();
+            const known = c === base ? '1' : book.settings.rates[c];
+            set({ currency: v, rate: known === undefined ? d.rate : String(known) });
+          },
+        })}
+        ${cur === base
+          ? html`<label>rate</label><span>1</span><span class="hint">the Book's own currency</span>`
+          : field({
+              name: 'rate',
+              label: 'rate',
+              value: d.rate,
+              problem: e.problems.rate,
+              hint: `${base} for one ${cur || 'unit'}`,
+              onInput: (v) => set({ rate: v }),
+            })}
+        ${field({ name: 'notes', label: 'notes', value: d.notes, multiline: true, onInput: (v) => set({ notes: v }) })}
+        <div class="actions">
+          <button type="submit" class="primary">${e.supplier ? 'Save the supplier' : 'Add the supplier'}</button>
+          <button type="button" @click=${() => (this.editing = undefined)}>Cancel</button>
+          ${Object.keys(e.problems).length
+            ? html`<span class="problem" role="alert">Nothing saved: fix the marked fields.</span>`
+            : ''}
+        </div>
+      </form>
+    </section>`;
+  }
+
+  private startEdit(book: Book, supplier: Supplier | undefined): void {
+    this.confirmDelete = undefined;
+    this.rowProblem = undefined;
+    this.editing = { supplier, draft: supplierDraft(book.settings, supplier), problems: {} };
+    void this.updateComplete.then(() => this.renderRoot.querySelector<HTMLInputElement>('#f-name')?.focus());
+  }
+
+  private async submit(ev: Event, book: Book): Promise<void> {
+    ev.preventDefault();
+    const e = this.editing;
+    const service = this.books.service;
+    if (!e || !service) return;
+    if (e.supplier && !book.suppliers.some((s) => s.id === e.supplier!.id)) {
+      this.editing = { ...e, saveError: 'This supplier was deleted elsewhere; nothing was saved.' };
+      return;
+    }
+    const r = validateSupplier(e.draft, book, e.supplier, () => newId('sup'));
+    if (!r.ok) {
+      this.editing = { ...e, problems: r.problems };
+      return;
+    }
+    this.editing = { ...e, problems: {} };
+    const { record, settings } = r.record;
+    const result = await service.save(settings ? { put: { suppliers: [record] }, settings } : { put: { suppliers: [record] } });
+    if (result.ok) this.editing = undefined;
+    else this.editing = { ...e, problems: {}, saveError: result.message };
+  }
+
+  private askDelete(book: Book, s: Supplier): void {
+    const users = supplierUsers(book, s.id);
+    if (users) {
+      this.rowProblem = { id: s.id, message: users };
+      return;
+    }
+    this.rowProblem = undefined;
+    this.confirmDelete = s.id;
+  }
+
+  private async delete(s: Supplier): Promise<void> {
+    const service = this.books.service;
+    if (!service) return;
+    this.confirmDelete = undefined;
+    const users = supplierUsers(service.book, s.id);
+    if (users) {
+      this.rowProblem = { id: s.id, message: users };
+      return;
+    }
+    const result = await service.save({ delete: { suppliers: [s.id] } });
+    if (!result.ok) this.rowProblem = { id: s.id, message: result.message };
+    if (this.editing?.supplier?.id === s.id) this.editing = undefined;
+  }
+}
+
+declare global {
+  interface HTMLElementTagNameMap {
+    'rb-suppliers-page': RbSuppliersPage;
+  }
+}
