@@ -1,12 +1,9 @@
 // The storage interface the rest of the app sees; IndexedDB details stay behind it.
-import type { Book, CollectionName, CollectionRecord, Settings } from '../domain/book.ts';
+import type { Book, CollectionName } from '../domain/book.ts';
+import type { BookChange } from '../domain/book-ops.ts';
 
-/** Records to write and ids to delete, applied together in one transaction or not at all. */
-export interface BookChange {
-  put?: { [C in CollectionName]?: CollectionRecord<C>[] };
-  delete?: { [C in CollectionName]?: string[] };
-  settings?: Settings;
-}
+/** Records to write and ids to delete (defined beside its in-memory twin `applyChange` in domain/book-ops.ts). */
+export type { BookChange } from '../domain/book-ops.ts';
 
 /** Thrown (as a rejection) when a record was saved elsewhere since it was read. */
 export class RevisionConflict extends Error {
@@ -20,6 +17,26 @@ export class RevisionConflict extends Error {
       `${collection} record ${recordId} was changed elsewhere (stored revision ${storedRev}, yours ${givenRev}); reload to see the newer data`,
     );
     this.name = 'RevisionConflict';
+  }
+}
+
+/** Rejection when the browser refuses to store more (quota reached); nothing of the change was written. */
+export class StorageFull extends Error {
+  constructor(cause?: unknown) {
+    super(
+      'The browser has no more storage space for this Book, so nothing of this change was saved. ' +
+        'Export the Book file to keep a copy, free some space (or delete Books you no longer need), then try again.',
+      { cause },
+    );
+    this.name = 'StorageFull';
+  }
+}
+
+/** Rejection for any other failed write; nothing of the change was written. */
+export class StoreWriteFailed extends Error {
+  constructor(detail: string, cause?: unknown) {
+    super(`The change could not be saved and nothing of it was written: ${detail}`, { cause });
+    this.name = 'StoreWriteFailed';
   }
 }
 

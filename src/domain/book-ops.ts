@@ -1,0 +1,94 @@
+// Book changes applied in memory, with the same revision rules as the IndexedDB store, so the app's copy of the
+// Book stays exactly in step with what was written.
+import { COLLECTIONS } from './book.ts';
+import type { Book, CollectionName, CollectionRecord, Settings } from './book.ts';
+
+/** Records to write and ids to delete, applied together in one transaction or not at all. */
+export interface BookChange {
+  put?: { [C in CollectionName]?: CollectionRecord<C>[] };
+  delete?: { [C in CollectionName]?: string[] };
+  settings?: Settings;
+}
+
+/** A record whose stored revision is not the one the change was made from. */
+export interface RevisionMismatch {
+  collection: CollectionName | 'settings';
+  recordId: string;
+  /** Revision held now; 0 when no record with that id is held (never saved, or deleted elsewhere). */
+  storedRev: number;
+  givenRev: number;
+}
+
+export type ApplyResult = { ok: true; book: Book } | { ok: false; conflict: RevisionMismatch };
+
+/**
+ * The revision rule shared by the store and the in-memory Book: a record is written from the revision it was read
+ * at. A new record carries rev 0 and its id must not be held yet; an existing one carries the held rev.
+ */
+export function revisionMatches(storedRev: number | undefined, givenRev: number): boolean {
+  return (storedRev ?? 0) === givenRev;
+}
+
+/** Collections a change touches, in the fixed order of COLLECTIONS. */
+export function touchedCollections(change: BookChange): CollectionName[] {
+  return COLLECTIONS.filter((c) => (change.put?.[c]?.length ?? 0) > 0 || (change.delete?.[c]?.length ?? 0) > 0);
+}
+
+/** The record as it is stored: one revision above the one it was read at. */
+export function bumped<R extends { rev: number }>(record: R): R {
+  return { ...record, rev: record.rev + 1 };
+}
+
+/**
+ * Applies a change to a Book without touching the original. Every revision is checked before anything is changed;
+ * the first mismatch is returned and the Book is left as it was. Revisions are checked against the Book as it was
+ * before the change; then deletes run, then puts (exactly as in the store).
+ */
+export function applyChange(book: Book, change: BookChange): ApplyResult {
+  for (const c of COLLECTIONS) {
+    const puts = change.put?.[c];
+    if (!puts?.length) continue;
+    const held = new Map<string, number>();
+    for (const r of book[c]) held.set(r.id, r.rev);
+    for (const r of puts) {
+      if (!revisionMatches(held.get(r.id), r.rev)) {
+        return { ok: false, conflict: { collection: c, recordId: r.id, storedRev: held.get(r.id) ?? 0, givenRev: r.rev } };
+      }
+    }
+  }
+  if (change.settings && !revisionMatches(book.settings.rev, change.settings.rev)) {
+    return {
+      ok: false,
+      conflict: { collection: 'settings', recordId: 'settings', storedRev: book.settings.rev, givenRev: change.settings.rev },
+    };
+  }
+
+  const next: Book = { ...book };
+  for (const c of COLLECTIONS) {
+    const dels = change.delete?.[c];
+    const puts = change.put?.[c];
+    if (!dels?.length && !puts?.length) continue;
+    const list: readonly { id: string; rev: number }[] = book[c];
+    const given: readonly { id: string; rev: number }[] = puts ?? [];
+    next[c] = replaceRecords(list, dels ?? [], given) as never;
+  }
+  if (change.settings) next.settings = bumped(change.settings);
+  return { ok: true, book: next };
+}
+
+function replaceRecords<R extends { id: string; rev: number }>(list: readonly R[], dels: readonly string[], puts: readonly R[]): R[] {
+  const gone = new Set(dels);
+  const out = list.filter((r) => !gone.has(r.id));
+  const at = new Map<string, number>();
+  out.forEach((r, i) => at.set(r.id, i));
+  for (const r of puts) {
+    const i = at.get(r.id);
+    if (i === undefined) {
+      at.set(r.id, out.length);
+      out.push(bumped(r));
+    } else {
+      out[i] = bumped(r);
+    }
+  }
+  return out;
+}

@@ -1,0 +1,302 @@
+// The Book kept in IndexedDB: one database per Book, every change in one transaction with revision checks.
+import { unwrap, wrap } from 'idb';
+import type { IDBPDatabase, IDBPTransaction } from 'idb';
+import { BOOK_FORMAT, BOOK_VERSION, COLLECTIONS, defaultSettings, mpnKey } from '../domain/book.ts';
+import type { Book, CollectionName, CollectionRecord, Part, Settings } from '../domain/book.ts';
+import { bumped, revisionMatches, touchedCollections } from '../domain/book-ops.ts';
+import type { BookChange } from '../domain/book-ops.ts';
+import { MIGRATIONS, runMigrations } from './migrations.ts';
+import type { Migration, UpgradeDb, UpgradeTx } from './migrations.ts';
+import { idbVersionOf, schemaVersionOf } from './schema.ts';
+import type { RungbookDB, StoredPart } from './schema.ts';
+import { RevisionConflict, StorageFull, StoreWriteFailed } from './types.ts';
+import type { BookStore } from './types.ts';
+
+export const DEFAULT_BOOK_DB = 'rungbook';
+
+export interface OpenBookStoreOptions {
+  /** IndexedDB factory; the browser's own by default (tests pass a fresh fake one for isolation). */
+  factory?: IDBFactory;
+  /**
+   * Called after this connection was closed because another tab opened the Book with a newer schema.
+   * The page should ask the user to reload; every later call on this store rejects.
+   */
+  onVersionChange?: () => void;
+  /** Called while an older connection in another tab holds up an upgrade of this Book. */
+  onBlocked?: () => void;
+  /** Migration steps; the released ones by default. Tests pass a longer list to prove the next upgrade. */
+  migrations?: readonly Migration[];
+}
+
+type Db = IDBPDatabase<RungbookDB>;
+type StoreName = CollectionName | 'settings';
+
+/** Opens (creating or upgrading as needed) the Book database `dbName`. */
+export async function openBookStore(dbName: string = DEFAULT_BOOK_DB, opts: OpenBookStoreOptions = {}): Promise<IdbBookStore> {
+  const factory = opts.factory ?? globalThis.indexedDB;
+  if (!factory) throw new Error('this browser offers no IndexedDB, so the Book cannot be kept here');
+  const migrations = opts.migrations ?? MIGRATIONS;
+  const target = idbVersionOf(migrations[migrations.length - 1]?.version ?? 0);
+  const db = await openWithMigrations(factory, dbName, target, migrations, opts.onBlocked);
+  return new IdbBookStore(dbName, db, opts.onVersionChange);
+}
+
+function openWithMigrations(
+  factory: IDBFactory,
+  name: string,
+  version: number,
+  migrations: readonly Migration[],
+  onBlocked: (() => void) | undefined,
+): Promise<Db> {
+  let upgradeError: unknown;
+  const request = factory.open(name, version);
+  request.addEventListener('upgradeneeded', (event) => {
+    const db = wrap(request.result) as unknown as UpgradeDb;
+    const tx = wrap(request.transaction!) as unknown as UpgradeTx;
+    runMigrations(db, tx, schemaVersionOf(event.oldVersion), migrations).catch((e: unknown) => {
+      upgradeError = e;
+      try {
+        request.transaction?.abort();
+      } catch {
+        // already finished or aborted: the open request reports the failure
+      }
+    });
+  });
+  if (onBlocked) request.addEventListener('blocked', () => onBlocked());
+  return new Promise<Db>((resolve, reject) => {
+    request.addEventListener('success', () => resolve(wrap(request.result) as unknown as Db));
+    request.addEventListener('error', (event) => {
+      event.preventDefault();
+      const cause = upgradeError ?? request.error;
+      if (request.error?.name === 'VersionError') {
+        reject(new Error(`this Book was saved by a newer Rungbook; reload the page to use the newer version`, { cause }));
+      } else {
+        reject(new Error(`the Book database could not be opened: ${describe(cause)}`, { cause }));
+      }
+    });
+  });
+}
+
+/**
+ * Collects request promises of one transaction. Each gets a no-op rejection handler at once: when the transaction
+ * aborts, every pending request rejects, and only the first failure is reported.
+ */
+function requests(): { add(p: Promise<unknown>): void; all(): Promise<unknown[]> } {
+  const list: Promise<unknown>[] = [];
+  return {
+    add(p) {
+      p.catch(() => undefined);
+      list.push(p);
+    },
+    all: () => Promise.all(list),
+  };
+}
+
+function describe(e: unknown): string {
+  return e instanceof Error ? e.message : String(e);
+}
+
+function toStored<C extends CollectionName>(c: C, record: CollectionRecord<C>): CollectionRecord<C> | StoredPart {
+  return c === 'parts' ? { ...(record as Part), mpnKey: mpnKey((record as Part).mpn) } : record;
+}
+
+function fromStoredPart(p: StoredPart): Part {
+  const { mpnKey: _derived, ...part } = p;
+  return part;
+}
+
+/** Turns whatever a failed write produced into one of our clear errors. */
+function writeError(e: unknown, tx: IDBTransaction | undefined): Error {
+  if (e instanceof RevisionConflict || e instanceof StorageFull || e instanceof StoreWriteFailed) return e;
+  const names = [e instanceof DOMException || e instanceof Error ? e.name : '', tx?.error?.name ?? ''];
+  if (names.includes('QuotaExceededError')) return new StorageFull(e);
+  if (names.includes('ConstraintError')) {
+    return new StoreWriteFailed('a record breaks a uniqueness rule (for example two variants with the same code)', e);
+  }
+  if (names.includes('DataCloneError')) return new StoreWriteFailed('a record holds data that cannot be stored', e);
+  return new StoreWriteFailed(describe(e), e);
+}
+
+export class IdbBookStore implements BookStore {
+  private closedReason: string | undefined;
+
+  constructor(
+    readonly name: string,
+    private readonly db: Db,
+    onVersionChange: (() => void) | undefined,
+  ) {
+    db.addEventListener('versionchange', () => {
+      // Another tab wants a newer schema: let it proceed; this tab must reload to use it.
+      db.close();
+      this.closedReason = 'this Book was upgraded in another tab; reload the page to keep working';
+      onVersionChange?.();
+    });
+    db.addEventListener('close', () => {
+      this.closedReason ??= 'the browser closed the Book database; reload the page to keep working';
+    });
+  }
+
+  /** True once the connection is closed (by `close()`, another tab's upgrade, or the browser). */
+  get closed(): boolean {
+    return this.closedReason !== undefined;
+  }
+
+  private ensureOpen(): void {
+    if (this.closedReason) throw new Error(this.closedReason);
+  }
+
+  async load(): Promise<Book> {
+    this.ensureOpen();
+    const tx = this.db.transaction([...COLLECTIONS, 'settings'], 'readonly');
+    const [parts, rest, settings] = await Promise.all([
+      tx.objectStore('parts').getAll(),
+      Promise.all(COLLECTIONS.filter((c) => c !== 'parts').map(async (c) => [c, await tx.objectStore(c).getAll()] as const)),
+      tx.objectStore('settings').get('settings'),
+    ]);
+    await tx.done;
+    const book: Book = {
+      format: BOOK_FORMAT,
+      version: BOOK_VERSION,
+      // rev 0: nothing stored yet, so the first save of settings is a new record.
+      settings: settings ?? { ...defaultSettings(), rev: 0 },
+      parts: parts.map(fromStoredPart),
+      suppliers: [],
+      quotes: [],
+      variants: [],
+      buildLines: [],
+      checks: [],
+      runs: [],
+      importBatches: [],
+      pages: [],
+    };
+    for (const [c, list] of rest) (book as unknown as Record<string, unknown>)[c] = list;
+    return book;
+  }
+
+  async apply(change: BookChange): Promise<void> {
+    this.ensureOpen();
+    const collections = touchedCollections(change);
+    const stores: StoreName[] = change.settings ? [...collections, 'settings'] : collections;
+    if (stores.length === 0) return;
+    const shape = changeShapeProblem(change);
+    if (shape) throw new StoreWriteFailed(shape);
+
+    const tx = this.db.transaction(stores, 'readwrite');
+    try {
+      const reads: Promise<RevisionConflict | undefined>[] = [];
+      for (const c of collections) {
+        for (const r of change.put?.[c] ?? []) {
+          reads.push(
+            tx.objectStore(c).get(r.id).then((stored) =>
+              revisionMatches(stored?.rev, r.rev) ? undefined : new RevisionConflict(c, r.id, stored?.rev ?? 0, r.rev),
+            ),
+          );
+        }
+      }
+      const settings = change.settings;
+      if (settings) {
+        reads.push(
+          tx.objectStore('settings').get('settings').then((stored) =>
+            revisionMatches(stored?.rev, settings.rev) ? undefined : new RevisionConflict('settings', 'settings', stored?.rev ?? 0, settings.rev),
+          ),
+        );
+      }
+      for (const r of reads) r.catch(() => undefined);
+      const conflict = (await Promise.all(reads)).find((x) => x !== undefined);
+      if (conflict) throw conflict;
+
+      const writes = requests();
+      for (const c of collections) {
+        const store = tx.objectStore(c);
+        for (const id of change.delete?.[c] ?? []) writes.add(store.delete(id));
+      }
+      for (const c of collections) {
+        const store = tx.objectStore(c);
+        for (const r of change.put?.[c] ?? []) writes.add(store.put(toStored(c, bumped(r)) as never));
+      }
+      if (settings) writes.add(tx.objectStore('settings').put(bumped(settings)));
+      await writes.all();
+      await tx.done;
+    } catch (e) {
+      throw await failed(tx, e);
+    }
+  }
+
+  async replaceAll(book: Book): Promise<void> {
+    this.ensureOpen();
+    const shape = changeShapeProblem({ put: Object.fromEntries(COLLECTIONS.map((c) => [c, book[c]])), settings: book.settings });
+    if (shape) throw new StoreWriteFailed(shape);
+    const tx = this.db.transaction([...COLLECTIONS, 'settings'], 'readwrite');
+    try {
+      const writes = requests();
+      for (const c of COLLECTIONS) writes.add(tx.objectStore(c).clear());
+      writes.add(tx.objectStore('settings').clear());
+      for (const c of COLLECTIONS) {
+        const store = tx.objectStore(c);
+        for (const r of book[c]) writes.add(store.put(toStored(c, r) as never));
+      }
+      writes.add(tx.objectStore('settings').put(book.settings));
+      await writes.all();
+      await tx.done;
+    } catch (e) {
+      throw await failed(tx, e);
+    }
+  }
+
+  /** Schema version recorded in the `meta` store. */
+  async schemaVersion(): Promise<number | undefined> {
+    this.ensureOpen();
+    return (await this.db.get('meta', 'schema'))?.version;
+  }
+
+  close(): void {
+    this.closedReason ??= 'this Book is closed';
+    this.db.close();
+  }
+}
+
+/** Aborts the transaction if it is still running, waits for it to end, and returns the error to report. */
+async function failed(tx: IDBPTransaction<RungbookDB, StoreName[], 'readwrite'>, e: unknown): Promise<Error> {
+  const raw = unwrap(tx);
+  try {
+    raw.abort();
+  } catch {
+    // the transaction had already aborted on its own (a failed request or a quota error at commit)
+  }
+  await tx.done.catch(() => undefined);
+  return writeError(e, raw);
+}
+
+/** A put record without a string id or a whole-number revision is refused before any transaction starts. */
+function changeShapeProblem(change: BookChange): string | undefined {
+  for (const c of COLLECTIONS) {
+    for (const [i, r] of (change.put?.[c] ?? []).entries()) {
+      if (typeof r?.id !== 'string' || r.id === '') return `${c}[${i}] has no id`;
+      if (!Number.isInteger(r.rev) || r.rev < 0) return `${c} record ${r.id} has no valid revision (${String(r.rev)})`;
+    }
+    for (const id of change.delete?.[c] ?? []) if (typeof id !== 'string') return `a ${c} id to delete is not text`;
+  }
+  const s: Settings | undefined = change.settings;
+  if (s && (s.id !== 'settings' || !Number.isInteger(s.rev) || s.rev < 0)) return 'the settings record has no valid id or revision';
+  return undefined;
+}
+
+/** Names of Book databases in this browser, where the browser can list them (undefined where it cannot). */
+export async function listBooks(factory: IDBFactory | undefined = globalThis.indexedDB): Promise<string[] | undefined> {
+  if (!factory || typeof factory.databases !== 'function') return undefined;
+  const all = await factory.databases();
+  return all
+    .map((d) => d.name)
+    .filter((n): n is string => typeof n === 'string' && (n === DEFAULT_BOOK_DB || n.startsWith(`${DEFAULT_BOOK_DB}-`)))
+    .sort();
+}
+
+/** Deletes a Book database. Open connections in other tabs are asked to close (they see onVersionChange). */
+export function deleteBook(name: string, factory: IDBFactory | undefined = globalThis.indexedDB): Promise<void> {
+  if (!factory) return Promise.reject(new Error('this browser offers no IndexedDB'));
+  return new Promise((resolve, reject) => {
+    const request = factory.deleteDatabase(name);
+    request.addEventListener('success', () => resolve());
+    request.addEventListener('error', () => reject(new Error(`the Book ${name} could not be deleted: ${request.error?.message ?? 'unknown error'}`)));
+  });
+}
