@@ -53,6 +53,8 @@ function openWithMigrations(
   request.addEventListener('upgradeneeded', (event) => {
     const db = wrap(request.result) as unknown as UpgradeDb;
     const tx = wrap(request.transaction!) as unknown as UpgradeTx;
+    // A failed upgrade is reported by the open request; the transaction's own promise must not go unhandled.
+    tx.done.catch(() => undefined);
     runMigrations(db, tx, schemaVersionOf(event.oldVersion), migrations).catch((e: unknown) => {
       upgradeError = e;
       try {

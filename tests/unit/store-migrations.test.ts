@@ -1,0 +1,170 @@
+// Schema migrations: the runner's ordering rules, the upgrade of the prototype database (schema 0, built with raw
+// IndexedDB), and that the next schema is one added step that keeps every record.
+import 'fake-indexeddb/auto';
+import { IDBFactory } from 'fake-indexeddb';
+import { describe, expect, it } from 'vitest';
+import { mpnKey } from '../../src/domain/book.ts';
+import { openBookStore } from '../../src/store/idb-store.ts';
+import { MIGRATIONS, migrationProblems, stepsToRun } from '../../src/store/migrations.ts';
+import type { Migration } from '../../src/store/migrations.ts';
+import { idbVersionOf, schemaVersionOf } from '../../src/store/schema.ts';
+import { buildPrototypeDb } from '../fixtures/store-v0-prototype.ts';
+import { sampleBook } from '../fixtures/sample-book.ts';
+
+const step = (version: number, up: Migration['up'] = async () => {}): Migration => ({ version, title: `step ${version}`, up });
+
+function rawOpen(factory: IDBFactory, name: string): Promise<IDBDatabase> {
+  return new Promise((resolve, reject) => {
+    const r = factory.open(name);
+    r.onsuccess = () => resolve(r.result);
+    r.onerror = () => reject(r.error);
+  });
+}
+function rawGet<T>(req: IDBRequest<T>): Promise<T> {
+  return new Promise((resolve, reject) => {
+    req.onsuccess = () => resolve(req.result);
+    req.onerror = () => reject(req.error);
+  });
+}
+
+describe('migration ordering rules', () => {
+  it('accepts the released steps', () => {
+    expect(migrationProblems(MIGRATIONS)).toEqual([]);
+  });
+  it('requires the first step to be version 1', () => {
+    expect(migrationProblems([step(2)])).toEqual(['migrations must start at version 1, but the first step is version 2']);
+    expect(migrationProblems([step(0), step(1)])[0]).toBe('migrations must start at version 1, but the first step is version 0');
+  });
+  it('requires each step to rise by one', () => {
+    expect(migrationProblems([step(1), step(3)])).toEqual([
+      'migration step 2 has version 3; each step must be one above the step before (2)',
+    ]);
+    expect(migrationProblems([step(1), step(2), step(2)])).toHaveLength(1);
+  });
+  it('requires at least one step', () => {
+    expect(migrationProblems([])).toEqual(['there are no migration steps; the first must be version 1']);
+  });
+  it('runs every step for a new database and only the later ones for an older one', () => {
+    const steps = [step(1), step(2), step(3)];
+    expect(stepsToRun(steps, undefined).map((s) => s.version)).toEqual([1, 2, 3]);
+    expect(stepsToRun(steps, 0).map((s) => s.version)).toEqual([1, 2, 3]);
+    expect(stepsToRun(steps, 2).map((s) => s.version)).toEqual([3]);
+    expect(stepsToRun(steps, 3)).toEqual([]);
+  });
+  it('maps schema versions to IndexedDB versions one above (version 1 was the prototype)', () => {
+    expect(idbVersionOf(1)).toBe(2);
+    expect(schemaVersionOf(0)).toBeUndefined();
+    expect(schemaVersionOf(1)).toBe(0);
+    expect(schemaVersionOf(2)).toBe(1);
+  });
+  it('refuses to open with a broken list of steps, saying why', async () => {
+    await expect(openBookStore('rungbook-broken', { factory: new IDBFactory(), migrations: [step(1), step(3)] })).rejects.toThrow(
+      /migrations are broken: migration step 2 has version 3/,
+    );
+  });
+});
+
+describe('upgrade from the prototype database (schema 0)', () => {
+  it('converts every prototype record and replaces its stores', async () => {
+    const factory = new IDBFactory();
+    await buildPrototypeDb(factory, 'rungbook-proto');
+    const store = await openBookStore('rungbook-proto', { factory });
+    const book = await store.load();
+    expect(await store.schemaVersion()).toBe(1);
+    store.close();
+
+    expect(book.settings).toMatchObject({ rev: 1, bookName: 'Prototype book', company: 'Kestrel Test Works', baseCurrency: 'EUR' });
+    expect(book.settings.rates).toEqual({ EUR: 1, USD: 0.9 });
+    expect(book.parts).toEqual([
+      {
+        id: 'p1', rev: 1, mpn: 'kt-r 0603/473', maker: 'Kestrel Passives', description: 'Resistor 47k', kind: 'resistor',
+        value: 47000, unit: 'Ω', ratings: { p_max: 0.1 }, package: '',
+      },
+      // an unknown prototype kind becomes 'other'; missing ratings become none
+      { id: 'p2', rev: 1, mpn: 'KT-Q600', maker: 'Kestrel Semis', description: 'MOSFET 600 V', kind: 'other', ratings: {}, package: '' },
+    ]);
+    expect(book.suppliers).toEqual([{ id: 's1', rev: 1, name: 'Harbour Components', currency: 'EUR', notes: '' }]);
+    expect(book.quotes).toEqual([
+      {
+        id: 'q1', rev: 1, partId: 'p1', supplierId: 's1', supplierCode: '', currency: 'EUR',
+        breaks: [
+          { qty: 1, price: 0.05 },
+          { qty: 100, price: 0.012 },
+        ],
+        moq: 10, pack: 10, leadDays: 0, date: '2024-11-02', source: 'manual',
+      },
+    ]);
+    // the prototype allowed a repeated code; schema 1 has a unique index, so the second one is made distinct
+    expect(book.variants.map((v) => v.code)).toEqual(['KT3', 'KT3-v2']);
+    expect(book.variants.every((v) => v.rev === 1)).toBe(true);
+
+    const db = await rawOpen(factory, 'rungbook-proto');
+    expect(db.version).toBe(2);
+    expect(Array.from(db.objectStoreNames)).not.toContain('kv');
+    const found = await rawGet(db.transaction('parts').objectStore('parts').index('byMpnKey').getAll(mpnKey('KT-R0603-473')));
+    expect(found.map((p: { id: string }) => p.id)).toEqual(['p1']);
+    db.close();
+  });
+});
+
+describe('the next schema is one added step', () => {
+  it('runs only the new step on a schema-1 database and keeps every record', async () => {
+    const factory = new IDBFactory();
+    const v1 = await openBookStore('rungbook-next', { factory });
+    await v1.replaceAll(sampleBook());
+    v1.close();
+
+    const ran: string[] = [];
+    const step2 = step(2, async (db, tx, from) => {
+      ran.push(`2 from ${from}`);
+      // a plausible future change: find runs by the date wanted
+      tx.objectStore('runs').createIndex('byDateWanted', 'dateWanted');
+      expect(db.objectStoreNames.contains('runs')).toBe(true);
+    });
+    const v2 = await openBookStore('rungbook-next', { factory, migrations: [...MIGRATIONS, step2] });
+    expect(ran).toEqual(['2 from 1']);
+    expect(await v2.schemaVersion()).toBe(2);
+    expect(await v2.load()).toEqual(sampleBook());
+    v2.close();
+
+    const db = await rawOpen(factory, 'rungbook-next');
+    expect(db.version).toBe(3);
+    expect(Array.from(db.transaction('runs').objectStore('runs').indexNames)).toContain('byDateWanted');
+    db.close();
+  });
+
+  it('runs new steps in order on a new database', async () => {
+    const ran: number[] = [];
+    const store = await openBookStore('rungbook-order', {
+      factory: new IDBFactory(),
+      migrations: [...MIGRATIONS, step(2, async () => void ran.push(2)), step(3, async () => void ran.push(3))],
+    });
+    expect(ran).toEqual([2, 3]);
+    expect(await store.schemaVersion()).toBe(3);
+    store.close();
+  });
+
+  it('leaves the database as it was when a step fails', async () => {
+    const factory = new IDBFactory();
+    const v1 = await openBookStore('rungbook-failstep', { factory });
+    await v1.replaceAll(sampleBook());
+    v1.close();
+    const bad = step(2, async () => {
+      throw new Error('step 2 could not convert a record');
+    });
+    await expect(openBookStore('rungbook-failstep', { factory, migrations: [...MIGRATIONS, bad] })).rejects.toThrow(
+      /could not be opened: step 2 could not convert a record/,
+    );
+    const again = await openBookStore('rungbook-failstep', { factory });
+    expect(await again.schemaVersion()).toBe(1);
+    expect(await again.load()).toEqual(sampleBook());
+    again.close();
+  });
+
+  it('refuses a database written by a newer schema with a reload message', async () => {
+    const factory = new IDBFactory();
+    const newer = await openBookStore('rungbook-newer', { factory, migrations: [...MIGRATIONS, step(2)] });
+    newer.close();
+    await expect(openBookStore('rungbook-newer', { factory })).rejects.toThrow(/saved by a newer Rungbook/);
+  });
+});
