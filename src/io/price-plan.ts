@@ -1,0 +1,218 @@
+// Turns checked offers into one all-or-nothing change: offers matched to parts (maker part number, else the
+// supplier's own code from earlier quotes), new quotes, the quotes they supersede, new parts where the user chose so,
+// the import batch, and the supplier with its remembered mapping. Nothing here writes; the caller applies the change.
+import type { Book, ImportBatch, Part, Quote, Supplier } from '../domain/book.ts';
+import { mpnKey, newId } from '../domain/book.ts';
+import { currentQuoteIndex, findReimport, supersede } from '../domain/quotes.ts';
+import type { QuoteChange } from '../domain/quotes.ts';
+import type { PriceProblem } from './price-map.ts';
+import type { PriceAnalysis, PriceOffer } from './price-validate.ts';
+
+export const UNMATCHED_DECISIONS = ['create', 'skip'] as const;
+export type UnmatchedDecision = (typeof UNMATCHED_DECISIONS)[number];
+
+export interface PlanOptions {
+  supplierId: string;
+  fileName: string;
+  /** Time of the import, ISO 8601. */
+  at: string;
+  /** What to do with each unmatched offer, by its key (PriceOffer.key). */
+  decisions?: Record<string, UnmatchedDecision>;
+  /** Decision for unmatched offers not in `decisions`; default skip. */
+  createParts?: boolean;
+  /** Import the offers without problems even though some rows have problems. An explicit choice, never a default. */
+  validRowsOnly?: boolean;
+  /** Import a file already imported for this supplier (same content hash, batch not undone). */
+  allowReimport?: boolean;
+  /** Remember the resolved column mapping on the supplier (default true). */
+  rememberMapping?: boolean;
+}
+
+export interface UnmatchedOffer {
+  key: string;
+  line: number;
+  mpn: string;
+  supplierCode: string;
+  description: string;
+  decision: UnmatchedDecision;
+  /** Why a "create" could not be honoured (no maker part number to name the part by). */
+  note?: string;
+}
+
+export interface ImportPlan {
+  ok: boolean;
+  /** The change to apply in one transaction; present only when ok. */
+  change?: QuoteChange;
+  /** Why there is no plan, in one sentence. */
+  reason?: string;
+  problems: PriceProblem[];
+  unmatched: UnmatchedOffer[];
+  matchedByMpn: number;
+  matchedByCode: number;
+  newQuotes: number;
+  supersededQuotes: number;
+  newParts: number;
+  skippedOffers: number;
+  reimportOf?: ImportBatch;
+  batchId?: string;
+}
+
+/** Parts by normalised maker part number and by this supplier's order codes, for matching many offers quickly. */
+function matchIndex(book: Book, supplierId: string): { byMpn: Map<string, Part>; byCode: Map<string, Part> } {
+  const byMpn = new Map<string, Part>();
+  for (const p of book.parts) {
+    const k = mpnKey(p.mpn);
+    if (k && !byMpn.has(k)) byMpn.set(k, p);
+  }
+  const partById = new Map(book.parts.map((p) => [p.id, p] as const));
+  const byCode = new Map<string, Part>();
+  // Later quotes win, so a code reused for another part follows the newest quote.
+  for (const q of book.quotes) {
+    if (q.supplierId !== supplierId || !q.supplierCode) continue;
+    const part = partById.get(q.partId);
+    if (part) byCode.set(q.supplierCode.trim().toUpperCase(), part);
+  }
+  return { byMpn, byCode };
+}
+
+function newPart(o: PriceOffer): Part {
+  return {
+    id: newId('part'),
+    rev: 0,
+    mpn: o.mpn,
+    maker: o.maker,
+    description: o.description,
+    kind: 'other',
+    ratings: {},
+    package: '',
+  };
+}
+
+export function planImport(book: Book, analysis: PriceAnalysis, options: PlanOptions): ImportPlan {
+  const plan: ImportPlan = {
+    ok: false,
+    problems: [...analysis.problems],
+    unmatched: [],
+    matchedByMpn: 0,
+    matchedByCode: 0,
+    newQuotes: 0,
+    supersededQuotes: 0,
+    newParts: 0,
+    skippedOffers: 0,
+  };
+  const supplier = book.suppliers.find((s) => s.id === options.supplierId);
+  if (!supplier) return { ...plan, reason: `no supplier with id ${options.supplierId} in the Book` };
+  if (!analysis.readable) return { ...plan, reason: analysis.problems[0]?.reason ?? 'the file could not be read' };
+
+  const reimport = findReimport(book, analysis.hash, supplier.id);
+  if (reimport) plan.reimportOf = reimport;
+
+  const { byMpn, byCode } = matchIndex(book, supplier.id);
+  const claimed = new Map<string, PriceOffer>();
+  const quotedTwice = new Set<string>();
+  const matched: { offer: PriceOffer; part: Part }[] = [];
+  const created: Part[] = [];
+  for (const o of analysis.offers) {
+    let part = o.mpn ? byMpn.get(mpnKey(o.mpn)) : undefined;
+    if (part) plan.matchedByMpn++;
+    else if (o.supplierCode) {
+      part = byCode.get(o.supplierCode.toUpperCase());
+      if (part) plan.matchedByCode++;
+    }
+    if (!part) {
+      const decision = options.decisions?.[o.key] ?? (options.createParts ? 'create' : 'skip');
+      const u: UnmatchedOffer = { key: o.key, line: o.line, mpn: o.mpn, supplierCode: o.supplierCode, description: o.description, decision };
+      plan.unmatched.push(u);
+      if (decision === 'create' && !o.mpn) {
+        u.decision = 'skip';
+        u.note = 'a new part needs a maker part number; this row has only a supplier code';
+      }
+      if (u.decision === 'skip') {
+        plan.skippedOffers++;
+        continue;
+      }
+      part = newPart(o);
+      created.push(part);
+      byMpn.set(mpnKey(o.mpn), part);
+    }
+    const earlier = claimed.get(part.id);
+    if (earlier) {
+      quotedTwice.add(part.id);
+      plan.problems.push({
+        row: o.line,
+        column: '',
+        value: o.mpn || o.supplierCode,
+        reason: `line ${earlier.line} already gives prices for part ${part.mpn}; one file may quote a part once`,
+      });
+      continue;
+    }
+    claimed.set(part.id, o);
+    matched.push({ offer: o, part });
+  }
+  plan.problems.sort((a, b) => a.row - b.row);
+
+  if (plan.problems.length > 0 && !options.validRowsOnly) {
+    return {
+      ...plan,
+      reason: `${plan.problems.length} problem(s) found; nothing is imported unless every row is valid (or you choose to import only the valid rows)`,
+    };
+  }
+  if (reimport && !options.allowReimport) {
+    return { ...plan, reason: `this file was already imported for ${supplier.name} on ${reimport.at} (${reimport.fileName}); undo that import or choose to import it again` };
+  }
+  // With "valid rows only", a part quoted twice keeps neither offer: which one is right is the user's call.
+  const chosen = matched.filter((m) => !quotedTwice.has(m.part.id));
+  if (chosen.length === 0) return { ...plan, reason: 'nothing to import: no row was matched to a part or chosen to create one' };
+
+  const batchId = newId('batch');
+  const index = currentQuoteIndex(book.quotes);
+  const quotes: Quote[] = [];
+  const old: Quote[] = [];
+  for (const { offer, part } of chosen) {
+    const q: Quote = {
+      id: newId('quote'),
+      rev: 0,
+      partId: part.id,
+      supplierId: supplier.id,
+      supplierCode: offer.supplierCode,
+      currency: offer.currency,
+      breaks: offer.breaks,
+      moq: offer.moq,
+      pack: offer.pack,
+      leadDays: offer.leadDays,
+      date: offer.date,
+      source: options.fileName,
+      batchId,
+    };
+    if (offer.expires) q.expires = offer.expires;
+    quotes.push(q);
+    old.push(...supersede(index, q));
+  }
+  const batch: ImportBatch = {
+    id: batchId,
+    rev: 0,
+    fileName: options.fileName,
+    hash: analysis.hash,
+    supplierId: supplier.id,
+    rows: analysis.dataRows,
+    at: options.at,
+    created: quotes.map((q) => q.id),
+    superseded: old.map((q) => q.id),
+  };
+  const suppliers: Supplier[] = options.rememberMapping === false ? [] : [{ ...supplier, mapping: analysis.mapping }];
+  const usedParts = new Set(chosen.map((m) => m.part.id));
+  const parts = created.filter((p) => usedParts.has(p.id));
+  const change: QuoteChange = {
+    put: { parts, suppliers, quotes: [...old, ...quotes], importBatches: [batch] },
+    delete: {},
+  };
+  return {
+    ...plan,
+    ok: true,
+    change,
+    batchId,
+    newQuotes: quotes.length,
+    supersededQuotes: old.length,
+    newParts: parts.length,
+  };
+}
