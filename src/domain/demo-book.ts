@@ -356,6 +356,8 @@ function line(position: number, r: LineRow): BuildLine {
 const TIMER_USED = 'selector<>"mcu"';
 
 function buildLines(): BuildLine[] {
+  // Small numbers in rules use a lower-case exponent (0.27e-6): the formula engine does not read an upper-case E
+  // as an exponent in a formula.
   const rows: LineRow[] = [
     // Mains entry and protection.
     { id: 'line_terminal', designators: 'X1', category: 'power', partId: 'part_terminal' },
@@ -369,12 +371,12 @@ function buildLines(): BuildLine[] {
     { id: 'line_heatsink', designators: 'HS1', category: 'power', role: 'heatsink', partRule: 'IF(load_w>100, "OK-HS08-T220", "OK-HS20-T220")' },
     { id: 'line_pad', designators: 'HS1', category: 'power', partId: 'part_pad' },
     { id: 'line_snub_r', designators: 'R2', category: 'power', role: 'snubber_r', partId: 'part_r_snub_100r' },
-    { id: 'line_snub_c', designators: 'C1', category: 'power', role: 'snubber_c', partRule: 'IF(snub_c>5E-9, "CW-F103-630", "CW-F222-630")' },
+    { id: 'line_snub_c', designators: 'C1', category: 'power', role: 'snubber_c', partRule: 'IF(snub_c>5e-9, "CW-F103-630", "CW-F222-630")' },
     // Logic supply: capacitive dropper.
-    { id: 'line_xcap', designators: 'C2', category: 'electronics', role: 'xcap', appliesWhen: 'supply="dropper"', partRule: 'IF(c_drop<0.27E-6, "CW-X2-224-275", IF(c_drop<0.4E-6, "CW-X2-334-275", IF(c_drop<0.57E-6, "CW-X2-474-275", "CW-X2-684-275")))' },
-    { id: 'line_bleeder', designators: 'R3', category: 'electronics', role: 'bleeder', appliesWhen: 'supply="dropper"', partRule: 'IF(r_bleed>700E3, "AV-MF50-1M0", IF(r_bleed>330E3, "AV-MF50-470K", "AV-MF50-220K"))' },
+    { id: 'line_xcap', designators: 'C2', category: 'electronics', role: 'xcap', appliesWhen: 'supply="dropper"', partRule: 'IF(c_drop<0.27e-6, "CW-X2-224-275", IF(c_drop<0.4e-6, "CW-X2-334-275", IF(c_drop<0.57e-6, "CW-X2-474-275", "CW-X2-684-275")))' },
+    { id: 'line_bleeder', designators: 'R3', category: 'electronics', role: 'bleeder', appliesWhen: 'supply="dropper"', partRule: 'IF(r_bleed>700000, "AV-MF50-1M0", IF(r_bleed>330000, "AV-MF50-470K", "AV-MF50-220K"))' },
     { id: 'line_drop_r', designators: 'R4', category: 'electronics', appliesWhen: 'supply="dropper"', partId: 'part_r_drop_100r' },
-    { id: 'line_zener', designators: 'D1', category: 'electronics', role: 'zener', appliesWhen: 'supply="dropper"', partRule: 'IF(v_z=15, "QX-Z15-13", IF(c_drop>0.5E-6, "QX-Z12-13", "QX-Z12-05"))', notes: 'The 0.5 W zener only below 0.5 µF.' },
+    { id: 'line_zener', designators: 'D1', category: 'electronics', role: 'zener', appliesWhen: 'supply="dropper"', partRule: 'IF(v_z=15, "QX-Z15-13", IF(c_drop>0.5e-6, "QX-Z12-13", "QX-Z12-05"))', notes: 'The 0.5 W zener only below 0.5 µF.' },
     { id: 'line_supply_diode', designators: 'D2', category: 'electronics', role: 'supply_diode', appliesWhen: 'supply="dropper"', partId: 'part_diode_1a' },
     // Logic supply: transformer.
     { id: 'line_xfmr', designators: 'T1', category: 'electronics', appliesWhen: 'supply="transformer"', partRule: 'IF(mains_v>200, "TK-TR230-12", "TK-TR120-12")' },
