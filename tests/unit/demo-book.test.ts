@@ -2,8 +2,11 @@
 // check status its comment promises when worked by the published formulas of REFERENCES.md.
 import { describe, expect, it } from 'vitest';
 import { HyperFormula } from 'hyperformula';
+import Papa from 'papaparse';
+import { readFileSync } from 'node:fs';
+import { resolve } from 'node:path';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { COST_CATEGORIES, PART_KINDS, type Book, type BuildLine, type Part, type Variant } from '../../src/domain/book.ts';
+import { COST_CATEGORIES, PART_KINDS, mpnKey, type Book, type BuildLine, type Part, type Variant } from '../../src/domain/book.ts';
 import { MAX_STEPS, PART_RATINGS, ROLES, VARIANT_PARAMS } from '../../src/domain/params.ts';
 
 const book = demoBook();
@@ -417,5 +420,89 @@ describe('demo Book as a whole', () => {
   it('survives a JSON round trip unchanged (plain serialisable data)', () => {
     const b: Book = demoBook();
     expect(JSON.parse(JSON.stringify(b))).toEqual(b);
+  });
+});
+
+describe('demo supplier price files (public/demo)', () => {
+  const DEMO = resolve(__dirname, '../../public/demo');
+  const read = (name: string, delimiter: string): Record<string, string>[] => {
+    const parsed = Papa.parse<Record<string, string>>(readFileSync(resolve(DEMO, name), 'utf8'), {
+      header: true,
+      delimiter,
+      skipEmptyLines: true,
+    });
+    expect(parsed.errors, name).toEqual([]);
+    return parsed.data;
+  };
+  const partByKey = new Map(book.parts.map((p) => [mpnKey(p.mpn), p]));
+  const quoteOf = (supplierId: string, mpn: string) => {
+    const part = partByKey.get(mpnKey(mpn));
+    return part ? book.quotes.find((q) => q.supplierId === supplierId && q.partId === part.id) : undefined;
+  };
+  /** Decimal comma, point as thousands separator, optional currency sign: "£1.234,50" → 1234.5. */
+  const commaNumber = (text: string) => Number(text.replace(/^£/, '').replace(/\./g, '').replace(',', '.'));
+
+  it('wide comma file: one row per part, up to five quantity / price pairs, a few parts the Book lacks', () => {
+    const rows = read('halvern-price-list-2026-09.csv', ',');
+    expect(rows.length).toBeGreaterThanOrEqual(20);
+    expect(rows.length).toBeLessThanOrEqual(60);
+    let unmatched = 0;
+    for (const row of rows) {
+      const breaks = [1, 2, 3, 4, 5]
+        .filter((i) => row[`Qty ${i}`] !== '')
+        .map((i) => ({ qty: Number(row[`Qty ${i}`]), price: Number(row[`Price ${i}`]) }));
+      expect(breaks.length).toBeGreaterThanOrEqual(1);
+      for (let i = 1; i < breaks.length; i++) expect(breaks[i]!.qty).toBeGreaterThan(breaks[i - 1]!.qty);
+      for (const b of breaks) expect(b.price).toBeGreaterThan(0);
+      const q = quoteOf('sup_halvern', row['Manufacturer Part Number']!);
+      if (!q) {
+        unmatched++;
+        continue;
+      }
+      expect(row['Order Code']).toBe(q.supplierCode);
+      expect(breaks.map((b) => b.qty)).toEqual(q.breaks.map((b) => b.qty));
+    }
+    expect(unmatched).toBe(2);
+  });
+
+  it('long comma file: one row per price break, prices in USD', () => {
+    const rows = read('kelvaro-quote-2026-08.csv', ',');
+    expect(rows.length).toBeGreaterThanOrEqual(20);
+    expect(rows.length).toBeLessThanOrEqual(60);
+    const byPart = new Map<string, number[]>();
+    for (const row of rows) byPart.set(row['Mfr Part No']!, [...(byPart.get(row['Mfr Part No']!) ?? []), Number(row['Break Qty'])]);
+    let unmatched = 0;
+    for (const [mpn, qtys] of byPart) {
+      const q = quoteOf('sup_kelvaro', mpn);
+      if (!q) {
+        unmatched++;
+        continue;
+      }
+      expect(qtys, mpn).toEqual(q.breaks.map((b) => b.qty));
+    }
+    expect(unmatched).toBe(2);
+    expect(book.suppliers.find((s) => s.id === 'sup_kelvaro')!.currency).toBe('USD');
+  });
+
+  it('semicolon file: decimal commas, thousands points, pound sign, prices per 100', () => {
+    const rows = read('brindlecote-passives-2026-07.csv', ';');
+    expect(rows.length).toBeGreaterThanOrEqual(20);
+    expect(rows.length).toBeLessThanOrEqual(60);
+    expect(rows.some((r) => /^\d{1,3}(\.\d{3})+$/.test(r['Qty break 3'] ?? ''))).toBe(true);
+    let unmatched = 0;
+    for (const row of rows) {
+      const q = quoteOf('sup_brindle', row['Maker part no.']!);
+      if (!q) {
+        unmatched++;
+        continue;
+      }
+      expect(row['Our ref.']).toBe(q.supplierCode);
+      q.breaks.forEach((b, i) => {
+        expect(commaNumber(row[`Qty break ${i + 1}`]!)).toBe(b.qty);
+        expect(row[`Price per 100 break ${i + 1}`]).toMatch(/^£\d{1,3}(\.\d{3})*,\d\d$/);
+        expect(commaNumber(row[`Price per 100 break ${i + 1}`]!) / 100).toBeCloseTo(b.price, 9);
+      });
+    }
+    expect(unmatched).toBe(2);
   });
 });
