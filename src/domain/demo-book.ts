@@ -256,10 +256,11 @@ function variants(): Variant[] {
   const us = { mains_v: 120, mains_hz: 60, mains_tol: 0.1 };
   const astable = { ra: 4_700, rb: 47_000, c_t: 10e-9, r_top: 10_000, f_pwm_min: 500, f_pwm_max: 5_000 };
   const debounce = { r_db: 100_000, c_db: 100e-9, t_bounce: 0.005 };
+  // Ladders keep adjacent step duties at least 5 points apart (the duty_step_gap check in sheets/40-control.checks).
   const ladder3 = { r_s1: 4_700, r_s2: 15_000, r_s3: 47_000 };
-  const ladder4 = { r_s1: 3_300, r_s2: 8_200, r_s3: 18_000, r_s4: 47_000 };
-  const ladder5 = { r_s1: 2_700, r_s2: 5_600, r_s3: 10_000, r_s4: 18_000, r_s5: 47_000 };
-  const ladder6 = { r_s1: 2_200, r_s2: 3_900, r_s3: 6_800, r_s4: 12_000, r_s5: 22_000, r_s6: 56_000 };
+  const ladder4 = { r_s1: 3_300, r_s2: 6_800, r_s3: 12_000, r_s4: 47_000 };
+  const ladder5 = { r_s1: 2_200, r_s2: 3_300, r_s3: 5_600, r_s4: 10_000, r_s5: 47_000 };
+  const ladder6 = { r_s1: 1_000, r_s2: 2_200, r_s3: 3_300, r_s4: 5_600, r_s5: 10_000, r_s6: 47_000 };
   return [
     // Sound: small exhaust fan, the cheapest member; 0.33 µF dropper with 12 V zener.
     v('variant_fr3_40_cd', 'FR3-40-CD', 'Three-step 40 W, push button, dropper', {
@@ -364,7 +365,7 @@ function buildLines(): BuildLine[] {
     { id: 'line_fuse', designators: 'F1', category: 'power', partRule: 'IF(load_w/mains_v>0.6, "TK-F315T", "TK-F160T")', notes: 'Larger fuse where the load current passes about 0.6 A.' },
     { id: 'line_varistor', designators: 'RV1', category: 'power', partRule: 'IF(mains_v>200, "TK-V275-07", "TK-V150-07")' },
     // Power stage.
-    { id: 'line_bridge', designators: 'BR1', category: 'power', role: 'bridge', appliesWhen: 'stage="mosfet"', partRule: 'IF(load_w/mains_v>0.5, "QX-B10-2", "QX-B06-1")' },
+    { id: 'line_bridge', designators: 'BR1', category: 'power', role: 'bridge', appliesWhen: 'stage="mosfet"', partRule: 'IF(load_w/mains_v>0.45, "QX-B10-2", "QX-B06-1")' },
     { id: 'line_mosfet', designators: 'Q1', category: 'power', role: 'switch', appliesWhen: 'stage="mosfet"', partRule: 'IF(load_w>100, "QX-N8006", IF(load_w>60, "QX-N6004", "QX-N6002"))' },
     { id: 'line_triac', designators: 'Q1', category: 'power', role: 'switch', appliesWhen: 'stage="triac"', partId: 'part_triac_600v_4a' },
     { id: 'line_gate_r', designators: 'R1', category: 'power', partRule: 'IF(stage="triac", "AV-R06-330R", "AV-R06-100R")', notes: '330 Ω gives the triac gate about 11 mA from 5 V.' },

@@ -103,9 +103,14 @@ export type RewriteResult = { ok: true; formula: string } | { ok: false; error: 
 
 /**
  * Rewrites every name of a formula with `lookup(key)` (a cell address or any expression) and returns the engine
- * formula with its leading "=". Names the lookup does not know are reported together, never half-rewritten.
+ * formula with its leading "=". Names the lookup does not know are reported together, never half-rewritten —
+ * unless `unknownAs` is given, which stands in for them (an error expression, so a branch never taken still works).
  */
-export function rewriteFormula(formula: string, lookup: (key: string) => string | undefined): RewriteResult {
+export function rewriteFormula(
+  formula: string,
+  lookup: (key: string) => string | undefined,
+  unknownAs?: string,
+): RewriteResult {
   const body = formulaBody(formula);
   if (body === '') return { ok: false, error: 'the formula is empty', unknown: [] };
   const t = tokenizeFormula(body);
@@ -113,6 +118,11 @@ export function rewriteFormula(formula: string, lookup: (key: string) => string 
   const unknown: string[] = [];
   let out = '';
   for (const tok of t.tokens) {
+    if (tok.kind === TOKEN_KIND.number) {
+      // The engine reads an exponent only with a small "e" (1e-7); people write 0.1E-6 as often.
+      out += tok.text.toLowerCase();
+      continue;
+    }
     if (tok.kind !== TOKEN_KIND.name) {
       out += tok.text;
       continue;
@@ -122,7 +132,7 @@ export function rewriteFormula(formula: string, lookup: (key: string) => string 
       out += `${key.toUpperCase()}()`;
       continue;
     }
-    const target = lookup(key);
+    const target = lookup(key) ?? unknownAs;
     if (target === undefined) {
       if (!unknown.includes(tok.text)) unknown.push(tok.text);
       continue;

@@ -1,0 +1,693 @@
+// Compiles a Book's family into ONE engine table — a row per variant, a column per name — so check formulas and
+// build rules can say `load_w` or `switch_v_max` and mean "this variant's". Resolves build lines and evaluates checks.
+//
+// Layout (DESIGN.md measured it well ahead of sheet-scoped named expressions): columns are, in order, every variant
+// parameter, the build-rule cells, every role name (`<role>_<rating>`, `<role>_value`), every check value (so checks
+// may read each other by name), then each check's applies and limit cells. Rules are written with relative
+// references so the engine parses each rule once for all rows. A name a variant lacks holds =NA(); when a result is
+// an error and its formula used such a name, the result says "unknown name x" instead of the engine's error.
+import type { HyperFormula, CellValue } from 'hyperformula';
+import type { Book, BuildLine, Check, CheckRule, ParamValue, Part, Variant } from '../domain/book.ts';
+import { mpnKey } from '../domain/book.ts';
+import { PART_RATINGS } from '../domain/params.ts';
+import { CHECK_STATUS, judge } from '../domain/check-status.ts';
+import type { CheckStatus, CheckValue, RuleLimits } from '../domain/check-status.ts';
+import { createEngine } from './create.ts';
+import { constantNumber, formulaNames, nameKey, rewriteFormula, tokenizeFormula, formulaBody } from './formula-names.ts';
+
+/** One build line as it stands for one variant. `partId` is null where no part could be chosen. */
+export interface ResolvedLine {
+  lineId: string;
+  partId: string | null;
+  /** Parts per finished unit; 0 where the line does not apply or its rule failed. */
+  qtyPerUnit: number;
+  applies: boolean;
+}
+
+export interface ResolveProblem {
+  variantId: string;
+  variantCode: string;
+  lineId: string;
+  message: string;
+}
+
+export interface VariantResolution {
+  variantId: string;
+  variantCode: string;
+  /** Every build line of the Book, in `position` order. */
+  lines: ResolvedLine[];
+  /** Role names this variant's applying lines give (`switch_v_max`, `xcap_value`…), by lower-case name. */
+  roleNames: Record<string, number>;
+  problems: ResolveProblem[];
+}
+
+export interface FamilyResolution {
+  /** In the Book's variant order. */
+  variants: VariantResolution[];
+  /** Every problem of every variant, in variant then line order. */
+  problems: ResolveProblem[];
+}
+
+export interface CheckResult {
+  variantId: string;
+  variantCode: string;
+  checkId: string;
+  checkName: string;
+  /** The check formula's value; null when it could not be computed or the check does not apply. */
+  value: CheckValue;
+  unit: string;
+  status: CheckStatus;
+  /** The rule with its limits evaluated for this variant, for example "≤ 357.8" or "1000 … 25000". */
+  limit: string;
+  limits: RuleLimits;
+  message: string;
+}
+
+export type EditResult = { ok: true } | { ok: false; error: string };
+
+const MISSING = '=NA()';
+const ROW_MARK = '\u0001';
+
+function colLetters(col: number): string {
+  let s = '';
+  let n = col + 1;
+  while (n > 0) {
+    const r = (n - 1) % 26;
+    s = String.fromCharCode(65 + r) + s;
+    n = Math.floor((n - 1) / 26);
+  }
+  return s;
+}
+
+/** A compiled formula: its column, its text with the row left open, and the names it reads. */
+interface FormulaCell {
+  col: number;
+  text: string;
+  names: string[];
+}
+
+type Compiled = { ok: true; text: string; names: string[] } | { ok: false; error: string };
+
+interface LineCells {
+  line: BuildLine;
+  applies?: FormulaCell;
+  qty?: FormulaCell;
+  qtyConst?: number;
+  part?: FormulaCell;
+  /** Problems shared by every variant (a rule that does not compile). */
+  problems: string[];
+}
+
+type CheckPart = 'value' | 'applies' | 'limit' | 'low' | 'high';
+
+interface CheckCells {
+  check: Check;
+  /** Column of the check's name, absent when the name clashes with another name. */
+  col?: number;
+  cells: Partial<Record<CheckPart, FormulaCell>>;
+  /** Why the check cannot be evaluated at all (same for every variant). */
+  problem?: string;
+}
+
+type Row = (number | string | null)[];
+
+function fmtNumber(n: number): string {
+  return Number.isInteger(n) ? String(n) : Number(n.toPrecision(4)).toString();
+}
+
+interface EngineError {
+  value: string;
+  message: string;
+  type: string;
+}
+
+function isEngineError(v: unknown): v is EngineError {
+  return typeof v === 'object' && v !== null && 'type' in v && 'value' in v;
+}
+
+function engineErrorText(e: EngineError): string {
+  if (e.type === 'CYCLE') return 'circular reference: the formula depends on its own result';
+  return e.message ? `${e.value} ${e.message}` : e.value;
+}
+
+function paramCell(v: ParamValue): number | string {
+  // A leading apostrophe keeps text as text, whatever it looks like ("=x", "12", "TRUE").
+  return typeof v === 'number' ? v : `'${v}`;
+}
+
+function atRow(text: string, r: number): string {
+  return text.split(ROW_MARK).join(String(r + 1));
+}
+
+function sortedLines(book: Book): BuildLine[] {
+  return [...book.buildLines].sort((a, b) => a.position - b.position || a.id.localeCompare(b.id));
+}
+
+function limitText(rule: CheckRule, limits: RuleLimits): string {
+  const f = (n: number | undefined): string => (n === undefined ? '?' : fmtNumber(n));
+  switch (rule.kind) {
+    case 'max':
+      return `≤ ${f(limits.limit)}`;
+    case 'min':
+      return `≥ ${f(limits.limit)}`;
+    case 'between':
+      return `${f(limits.low)} … ${f(limits.high)}`;
+    default:
+      return 'TRUE';
+  }
+}
+
+/**
+ * The family as one engine table. Holds the engine open so edits re-evaluate at once; `close()` frees it.
+ * Build with `FamilyWorkbook.open(book, checks)`.
+ */
+export class FamilyWorkbook {
+  private book: Book;
+  private checks: Check[];
+  private hf: HyperFormula | null = null;
+  private sheet = 0;
+  /** Name key → column, for parameters, role names and check names. */
+  private cols = new Map<string, number>();
+  private paramKeys = new Set<string>();
+  private roleKeys: string[] = [];
+  private roleStart = 0;
+  private width = 0;
+  private lineCells: LineCells[] = [];
+  private checkCells: CheckCells[] = [];
+  private checkByName = new Map<string, CheckCells>();
+  private partsByKey = new Map<string, Part>();
+  private partsById = new Map<string, Part>();
+  private resolution: VariantResolution[] = [];
+
+  private constructor(book: Book, checks: Check[]) {
+    this.book = book;
+    this.checks = checks;
+  }
+
+  /** Compiles the Book's family with the given checks (by default the Book's own). */
+  static open(book: Book, checks: readonly Check[] = book.checks): FamilyWorkbook {
+    const wb = new FamilyWorkbook(book, [...checks]);
+    wb.build();
+    return wb;
+  }
+
+  close(): void {
+    this.hf?.destroy();
+    this.hf = null;
+  }
+
+  /** The Book with the edits made through this workbook (parameters and check formulas). */
+  currentBook(): Book {
+    return { ...this.book, checks: this.checks };
+  }
+
+  private engine(): HyperFormula {
+    if (!this.hf) throw new Error('the family workbook is closed');
+    return this.hf;
+  }
+
+  private compile(formula: string, lookup: (key: string) => string | undefined): Compiled {
+    const names = formulaNames(formula);
+    if (!names.ok) return { ok: false, error: names.error };
+    // Names nobody has become NA() so an applies rule or an untaken IF branch still decides; the result then
+    // explains the name (see missingNames).
+    const r = rewriteFormula(formula, lookup, 'NA()');
+    if (!r.ok) return { ok: false, error: r.error };
+    return { ok: true, text: r.formula, names: names.names };
+  }
+
+  private build(): void {
+    this.hf?.destroy();
+    const hf = createEngine();
+    this.hf = hf;
+    this.sheet = hf.getSheetId(hf.addSheet('family'))!;
+    this.cols = new Map();
+    this.paramKeys = new Set();
+    this.partsByKey = new Map();
+    this.partsById = new Map();
+    for (const p of this.book.parts) {
+      this.partsById.set(p.id, p);
+      this.partsByKey.set(mpnKey(p.mpn), p);
+    }
+    let next = 0;
+    for (const v of this.book.variants) {
+      for (const name of Object.keys(v.params)) {
+        const key = nameKey(name);
+        if (this.cols.has(key)) continue;
+        this.cols.set(key, next++);
+        this.paramKeys.add(key);
+      }
+    }
+    const ref = (key: string): string | undefined => {
+      const col = this.cols.get(key);
+      return col === undefined ? undefined : `${colLetters(col)}${ROW_MARK}`;
+    };
+
+    // Build rules read parameters only: role and check names depend on the lines themselves.
+    const paramRef = (key: string): string | undefined => (this.paramKeys.has(key) ? ref(key) : undefined);
+    const lines = sortedLines(this.book);
+    this.lineCells = lines.map((line) => {
+      const lc: LineCells = { line, problems: [] };
+      const cell = (what: string, formula: string): FormulaCell | undefined => {
+        const c = this.compile(formula, paramRef);
+        if (!c.ok) {
+          lc.problems.push(`${what}: ${c.error}`);
+          return undefined;
+        }
+        return { col: next++, text: c.text, names: c.names };
+      };
+      if (line.appliesWhen.trim() !== '') lc.applies = cell('applies-when rule', line.appliesWhen);
+      const q = constantNumber(line.qtyRule);
+      if (q !== undefined) lc.qtyConst = q;
+      else if (line.qtyRule.trim() === '') lc.problems.push('quantity rule is empty');
+      else lc.qty = cell('quantity rule', line.qtyRule);
+      if (line.partRule && line.partRule.trim() !== '') lc.part = cell('part rule', line.partRule);
+      return lc;
+    });
+
+    const ratingNames = new Set<string>(PART_RATINGS.map((r) => r.name));
+    for (const p of this.book.parts) for (const k of Object.keys(p.ratings)) ratingNames.add(nameKey(k));
+    ratingNames.add('value');
+    const roles = [...new Set(lines.map((l) => (l.role ? nameKey(l.role) : '')).filter((r) => r !== ''))];
+    this.roleStart = next;
+    this.roleKeys = [];
+    for (const role of roles) {
+      for (const rating of ratingNames) {
+        const key = `${role}_${rating}`;
+        if (this.cols.has(key)) continue;
+        this.cols.set(key, next++);
+        this.roleKeys.push(key);
+      }
+    }
+    this.checkByName = new Map();
+    this.checkCells = this.checks.map((check) => {
+      const cc: CheckCells = { check, cells: {} };
+      const key = nameKey(check.name);
+      if (!/^[a-z_][a-z0-9_]*$/.test(key)) cc.problem = `check name "${check.name}" must be letters, digits and _`;
+      else if (this.paramKeys.has(key)) cc.problem = `check name ${check.name} is also a variant parameter; rename the check`;
+      else if (this.cols.has(key)) cc.problem = `check name ${check.name} is used twice or is a part rating name`;
+      else {
+        cc.col = next++;
+        this.cols.set(key, cc.col);
+        this.checkByName.set(key, cc);
+      }
+      return cc;
+    });
+    for (const cc of this.checkCells) {
+      if (cc.problem !== undefined || cc.col === undefined) continue;
+      const c = this.compile(cc.check.formula, ref);
+      if (!c.ok) cc.problem = c.error;
+      else cc.cells.value = { col: cc.col, text: c.text, names: c.names };
+    }
+    for (const cc of this.checkCells) {
+      if (cc.problem !== undefined) continue;
+      const parts: [CheckPart, string | undefined][] = [
+        ['applies', cc.check.appliesWhen.trim() === '' ? undefined : cc.check.appliesWhen],
+        ['limit', cc.check.rule.limit],
+        ['low', cc.check.rule.low],
+        ['high', cc.check.rule.high],
+      ];
+      for (const [part, formula] of parts) {
+        if (formula === undefined) continue;
+        const c = this.compile(formula, ref);
+        if (!c.ok) {
+          cc.problem = `${part === 'applies' ? 'applies' : 'rule'}: ${c.error}`;
+          break;
+        }
+        cc.cells[part] = { col: next++, text: c.text, names: c.names };
+      }
+    }
+    this.width = next;
+
+    // First pass: parameters and build rules, so each variant's parts are known before the checks read them.
+    const rows: Row[] = this.book.variants.map((v, r) => {
+      const row: Row = new Array<number | string | null>(this.roleStart).fill(null);
+      this.writeParams(row, v);
+      for (const lc of this.lineCells) {
+        for (const fc of [lc.applies, lc.qty, lc.part]) if (fc) row[fc.col] = atRow(fc.text, r);
+      }
+      return row;
+    });
+    if (rows.length > 0) hf.setSheetContent(this.sheet, rows);
+    this.resolution = this.book.variants.map((v, r) => this.resolveRow(v, r));
+
+    // Second pass: role values from the resolved parts, then the checks that read them, in one recalculation.
+    if (rows.length === 0 || this.width === this.roleStart) return;
+    hf.batch(() => {
+      this.book.variants.forEach((_, r) => {
+        const row: Row = new Array<number | string | null>(this.width - this.roleStart).fill(null);
+        this.roleKeys.forEach((key, i) => {
+          const val = this.resolution[r]!.roleNames[key];
+          row[i] = val === undefined ? MISSING : val;
+        });
+        for (const cc of this.checkCells) {
+          for (const fc of Object.values(cc.cells)) row[fc.col - this.roleStart] = atRow(fc.text, r);
+        }
+        hf.setCellContents({ sheet: this.sheet, row: r, col: this.roleStart }, [row]);
+      });
+    });
+  }
+
+  private writeParams(row: Row, v: Variant): void {
+    const own = new Map(Object.entries(v.params).map(([k, val]) => [nameKey(k), val] as const));
+    for (const key of this.paramKeys) {
+      const val = own.get(key);
+      row[this.cols.get(key)!] = val === undefined ? MISSING : paramCell(val);
+    }
+  }
+
+  private value(row: number, col: number): CellValue {
+    return this.engine().getCellValue({ sheet: this.sheet, row, col });
+  }
+
+  /** Names (transitively through check names) a formula reads that this variant lacks. */
+  private missingNames(row: number, names: readonly string[], seen = new Set<string>()): string[] {
+    const out: string[] = [];
+    for (const key of names) {
+      if (seen.has(key)) continue;
+      seen.add(key);
+      const cc = this.checkByName.get(key);
+      if (cc) {
+        const inner = cc.cells.value;
+        if (inner) out.push(...this.missingNames(row, inner.names, seen));
+        continue;
+      }
+      const col = this.cols.get(key);
+      if (col === undefined) {
+        out.push(key);
+        continue;
+      }
+      const v = this.value(row, col);
+      if (isEngineError(v) && v.type === 'NA' && (this.paramKeys.has(key) || this.roleKeys.includes(key))) out.push(key);
+    }
+    return out;
+  }
+
+  private unknownMessage(key: string, row: number): string {
+    const code = this.book.variants[row]?.code ?? '';
+    if (!this.cols.has(key)) return `unknown name ${key}: no variant parameter, part rating or check has that name`;
+    if (this.roleKeys.includes(key)) {
+      return `unknown name ${key}: no build line that applies to ${code} gives a part with that role and rating`;
+    }
+    return `unknown name ${key}: variant ${code} has no parameter of that name`;
+  }
+
+  /** Reads a formula cell as a check value, or the error explaining why there is none. */
+  private read(row: number, fc: FormulaCell): { ok: true; value: CheckValue } | { ok: false; error: string } {
+    const v = this.value(row, fc.col);
+    if (isEngineError(v)) {
+      const missing = this.missingNames(row, fc.names);
+      if (missing.length > 0) return { ok: false, error: this.unknownMessage(missing[0]!, row) };
+      return { ok: false, error: engineErrorText(v) };
+    }
+    if (typeof v === 'number' && !Number.isFinite(v)) return { ok: false, error: 'the result is not a finite number' };
+    if (typeof v === 'number' || typeof v === 'string' || typeof v === 'boolean' || v === null) return { ok: true, value: v };
+    return { ok: false, error: 'the result is a range, not one value' };
+  }
+
+  private resolveRow(v: Variant, r: number): VariantResolution {
+    const problems: ResolveProblem[] = [];
+    const problem = (lineId: string, message: string): void =>
+      void problems.push({ variantId: v.id, variantCode: v.code, lineId, message });
+    const roleNames: Record<string, number> = {};
+    const roleLine = new Map<string, BuildLine>();
+    const lines = this.lineCells.map((lc): ResolvedLine => {
+      const line = lc.line;
+      let applies = true;
+      if (lc.problems.length > 0) {
+        for (const p of lc.problems) problem(line.id, p);
+        return { lineId: line.id, partId: line.partId ?? null, qtyPerUnit: 0, applies: false };
+      }
+      if (lc.applies) {
+        const a = this.read(r, lc.applies);
+        if (!a.ok) {
+          problem(line.id, `applies-when rule: ${a.error}`);
+          return { lineId: line.id, partId: null, qtyPerUnit: 0, applies: false };
+        }
+        if (typeof a.value === 'boolean') applies = a.value;
+        else if (typeof a.value === 'number') applies = a.value !== 0;
+        else {
+          problem(line.id, `applies-when rule gave ${a.value === null ? 'nothing' : `text "${a.value}"`}, not TRUE or FALSE`);
+          return { lineId: line.id, partId: null, qtyPerUnit: 0, applies: false };
+        }
+      }
+      // Lines that do not apply are not checked: their rules may read parameters only other variants have.
+      const partId = this.resolvePart(lc, r, applies ? (m) => problem(line.id, m) : () => undefined);
+      if (!applies) return { lineId: line.id, partId, qtyPerUnit: 0, applies };
+      let qty = lc.qtyConst ?? 0;
+      if (lc.qty) {
+        const q = this.read(r, lc.qty);
+        if (!q.ok) problem(line.id, `quantity rule: ${q.error}`);
+        else if (typeof q.value !== 'number') problem(line.id, `quantity rule gave ${q.value === null ? 'nothing' : String(q.value)}, not a number`);
+        else qty = q.value;
+      }
+      if (qty < 0) {
+        problem(line.id, `quantity per unit is negative (${fmtNumber(qty)})`);
+        qty = 0;
+      }
+      if (partId !== null && line.role) {
+        const role = nameKey(line.role);
+        const first = roleLine.get(role);
+        if (first) problem(line.id, `role ${role} is already given by line ${first.designators || first.id}; this line's part is not read by checks`);
+        else {
+          roleLine.set(role, line);
+          const part = this.partsById.get(partId)!;
+          if (part.value !== undefined && Number.isFinite(part.value)) roleNames[`${role}_value`] = part.value;
+          for (const [k, val] of Object.entries(part.ratings)) {
+            if (Number.isFinite(val)) roleNames[`${role}_${nameKey(k)}`] = val;
+          }
+        }
+      }
+      return { lineId: line.id, partId, qtyPerUnit: qty, applies };
+    });
+    return { variantId: v.id, variantCode: v.code, lines, roleNames, problems };
+  }
+
+  private resolvePart(lc: LineCells, r: number, problem: (m: string) => void): string | null {
+    if (lc.part) {
+      const p = this.read(r, lc.part);
+      if (!p.ok) {
+        problem(`part rule: ${p.error}`);
+        return null;
+      }
+      if (typeof p.value !== 'string' || p.value.trim() === '') {
+        problem(`part rule gave ${p.value === null || p.value === '' ? 'nothing' : String(p.value)}, not a maker part number`);
+        return null;
+      }
+      const part = this.partsByKey.get(mpnKey(p.value));
+      if (!part) {
+        problem(`unknown part number ${p.value}`);
+        return null;
+      }
+      return part.id;
+    }
+    if (!lc.line.partId) {
+      problem('the line has neither a part nor a part rule');
+      return null;
+    }
+    if (!this.partsById.has(lc.line.partId)) {
+      problem(`part ${lc.line.partId} is not in the Book`);
+      return null;
+    }
+    return lc.line.partId;
+  }
+
+  /** Build lines resolved for every variant, as they stand now. */
+  resolve(): FamilyResolution {
+    const variants = this.resolution;
+    return { variants, problems: variants.flatMap((v) => v.problems) };
+  }
+
+  /** Every check on every variant, variant-major, in the order of the checks. */
+  results(): CheckResult[] {
+    const out: CheckResult[] = [];
+    this.book.variants.forEach((v, r) => {
+      for (const cc of this.checkCells) out.push(this.resultFor(v, r, cc));
+    });
+    return out;
+  }
+
+  private resultFor(v: Variant, r: number, cc: CheckCells): CheckResult {
+    const check = cc.check;
+    const base = {
+      variantId: v.id,
+      variantCode: v.code,
+      checkId: check.id,
+      checkName: check.name,
+      unit: check.unit,
+      limits: {},
+      limit: limitText(check.rule, {}),
+    };
+    const error = (message: string, value: CheckValue = null): CheckResult => ({
+      ...base,
+      value,
+      status: CHECK_STATUS.error,
+      message,
+    });
+    if (cc.problem !== undefined) return error(cc.problem);
+    if (cc.cells.applies) {
+      const a = this.read(r, cc.cells.applies);
+      if (!a.ok) return error(`applies: ${a.error}`);
+      const applies = typeof a.value === 'boolean' ? a.value : typeof a.value === 'number' ? a.value !== 0 : null;
+      if (applies === null) return error(`applies gave ${a.value === null ? 'nothing' : `text "${a.value}"`}, not TRUE or FALSE`);
+      if (!applies) return { ...base, value: null, status: CHECK_STATUS.na, message: 'does not apply to this variant' };
+    }
+    const val = this.read(r, cc.cells.value!);
+    if (!val.ok) return error(val.error);
+    const limits: RuleLimits = {};
+    for (const part of ['limit', 'low', 'high'] as const) {
+      const fc = cc.cells[part];
+      if (!fc) continue;
+      const l = this.read(r, fc);
+      if (!l.ok) return error(`rule ${part}: ${l.error}`, val.value);
+      if (typeof l.value !== 'number') return error(`rule ${part} gave ${String(l.value)}, not a number`, val.value);
+      limits[part] = l.value;
+    }
+    const j = judge(val.value, check.rule, limits);
+    return { ...base, value: val.value, limits, limit: limitText(check.rule, limits), status: j.status, message: j.message };
+  }
+
+  /**
+   * Sets one parameter of one variant and re-evaluates. A number must be finite; text is kept as text. A name no
+   * variant had before recompiles the table. Bad input changes nothing.
+   */
+  setParam(variantId: string, name: string, value: ParamValue): EditResult {
+    const row = this.book.variants.findIndex((v) => v.id === variantId);
+    if (row < 0) return { ok: false, error: `no variant with id ${variantId}` };
+    const key = nameKey(name.trim());
+    if (!/^[a-z_][a-z0-9_]*$/.test(key)) return { ok: false, error: `parameter name "${name}" must be letters, digits and _, starting with a letter` };
+    if (typeof value === 'number' && !Number.isFinite(value)) return { ok: false, error: `value of ${name} must be a finite number` };
+    if (typeof value !== 'number' && typeof value !== 'string') return { ok: false, error: `value of ${name} must be a number or text` };
+    if (!this.paramKeys.has(key) && this.cols.has(key)) {
+      return { ok: false, error: `${name} is already the name of a check or a part rating; choose another parameter name` };
+    }
+    const old = this.book.variants[row]!;
+    const params: Record<string, ParamValue> = {};
+    let replaced = false;
+    for (const [k, v] of Object.entries(old.params)) {
+      if (nameKey(k) === key) {
+        params[k] = value;
+        replaced = true;
+      } else params[k] = v;
+    }
+    if (!replaced) params[name.trim()] = value;
+    const variants = [...this.book.variants];
+    variants[row] = { ...old, params };
+    this.book = { ...this.book, variants };
+    if (!this.paramKeys.has(key)) {
+      this.build();
+      return { ok: true };
+    }
+    const hf = this.engine();
+    hf.batch(() => {
+      hf.setCellContents({ sheet: this.sheet, row, col: this.cols.get(key)! }, [[paramCell(value)]]);
+    });
+    this.refreshRoles(row);
+    return { ok: true };
+  }
+
+  /** Re-resolves one variant's lines after an edit and rewrites its role cells where they changed. */
+  private refreshRoles(row: number): void {
+    const v = this.book.variants[row]!;
+    const before = this.resolution[row]!.roleNames;
+    const after = this.resolveRow(v, row);
+    this.resolution[row] = after;
+    const changed = this.roleKeys.filter((k) => before[k] !== after.roleNames[k]);
+    if (changed.length === 0) return;
+    const hf = this.engine();
+    hf.batch(() => {
+      for (const key of changed) {
+        const val = after.roleNames[key];
+        hf.setCellContents({ sheet: this.sheet, row, col: this.cols.get(key)! }, [[val === undefined ? MISSING : val]]);
+      }
+    });
+  }
+
+  /**
+   * Replaces a check's formula and re-evaluates it for every variant. A formula that cannot be read (an open
+   * quote) is refused and changes nothing; one naming something unknown is kept and shows "unknown name x".
+   */
+  setCheckFormula(checkId: string, formula: string): EditResult {
+    const i = this.checks.findIndex((c) => c.id === checkId);
+    if (i < 0) return { ok: false, error: `no check with id ${checkId}` };
+    const body = formulaBody(formula);
+    if (body === '') return { ok: false, error: 'the formula is empty' };
+    const t = tokenizeFormula(body);
+    if (!t.ok) return { ok: false, error: t.error };
+    const updated: Check = { ...this.checks[i]!, formula: body };
+    this.checks = this.checks.map((c, j) => (j === i ? updated : c));
+    const cc = this.checkCells[i]!;
+    const c = this.compile(body, (key) => {
+      const col = this.cols.get(key);
+      return col === undefined ? undefined : `${colLetters(col)}${ROW_MARK}`;
+    });
+    if (cc.problem !== undefined || cc.col === undefined || !c.ok) {
+      // The check could not be evaluated before, or cannot now: compile the table afresh so every part of the
+      // check (applies, limits) is laid out again and the result shows the reason.
+      this.build();
+      return { ok: true };
+    }
+    cc.check = updated;
+    const col = cc.col;
+    cc.cells.value = { col, text: c.text, names: c.names };
+    const hf = this.engine();
+    hf.batch(() => {
+      this.book.variants.forEach((_, r) => hf.setCellContents({ sheet: this.sheet, row: r, col }, [[atRow(c.text, r)]]));
+    });
+    return { ok: true };
+  }
+}
+
+/** Resolves every build line for every variant (applies-when, quantity and part rules). */
+export function resolveFamily(book: Book): FamilyResolution {
+  const wb = FamilyWorkbook.open(book, []);
+  try {
+    return wb.resolve();
+  } finally {
+    wb.close();
+  }
+}
+
+/** Evaluates checks (by default the Book's own) on every variant. */
+export function evaluateChecks(book: Book, checks: readonly Check[] = book.checks): CheckResult[] {
+  const wb = FamilyWorkbook.open(book, checks);
+  try {
+    return wb.results();
+  } finally {
+    wb.close();
+  }
+}
+
+/** A live check session for the Checks page: the engine stays open and every edit re-evaluates at once. */
+export class CheckSession {
+  private wb: FamilyWorkbook;
+
+  constructor(book: Book, checks: readonly Check[] = book.checks) {
+    this.wb = FamilyWorkbook.open(book, checks);
+  }
+
+  setParam(variantId: string, name: string, value: ParamValue): EditResult {
+    return this.wb.setParam(variantId, name, value);
+  }
+
+  setCheckFormula(checkId: string, formula: string): EditResult {
+    return this.wb.setCheckFormula(checkId, formula);
+  }
+
+  results(): CheckResult[] {
+    return this.wb.results();
+  }
+
+  resolution(): FamilyResolution {
+    return this.wb.resolve();
+  }
+
+  /** The Book with the session's edits, to save. */
+  book(): Book {
+    return this.wb.currentBook();
+  }
+
+  close(): void {
+    this.wb.close();
+  }
+}
