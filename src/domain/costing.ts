@@ -511,8 +511,12 @@ export interface CostedBom {
 
 /** Labour per unit: (minutes per unit + minutes per placement × placements) / 60 × hourly rate, 4 decimals. */
 export function labourPerUnit(settings: Settings, placements: number): number {
-  const minutes = settings.labourMinutesPerUnit + settings.labourMinutesPerPlacement * placements;
-  return roundUnit((minutes / 60) * settings.labourRatePerHour);
+  return labourUnit(settings.labourRatePerHour, settings.labourMinutesPerUnit, settings.labourMinutesPerPlacement, placements);
+}
+
+/** The labour kernel: (minutesPerUnit + minutesPerPlacement × placements) / 60 × ratePerHour, 4 decimals. */
+export function labourUnit(ratePerHour: number, minutesPerUnit: number, minutesPerPlacement: number, placements: number): number {
+  return roundUnit(((minutesPerUnit + minutesPerPlacement * placements) / 60) * ratePerHour);
 }
 
 /**
