@@ -3,6 +3,11 @@ import type { CliCommand, CliIo } from './command.ts';
 
 /** Commands by name, loaded on demand so `rungbook eval` does not pay for the importer. */
 const COMMANDS: Record<string, () => Promise<{ command: CliCommand }>> = {
+  eval: () => import('./commands/eval.ts'),
+  check: () => import('./commands/check.ts'),
+  info: () => import('./commands/info.ts'),
+  demo: () => import('./commands/demo.ts'),
+  import: () => import('./commands/import.ts'),
 };
 
 function usage(): string {

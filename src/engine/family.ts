@@ -516,7 +516,7 @@ export class FamilyWorkbook {
       checkName: check.name,
       unit: check.unit,
       limits: {},
-      limit: limitText(check.rule, {}),
+      limit: '',
     };
     const error = (message: string, value: CheckValue = null): CheckResult => ({
       ...base,
