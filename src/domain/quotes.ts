@@ -1,22 +1,7 @@
-// Pure quote rules: which quotes are current, how a newer quote supersedes an older one, undoing an import batch,
-// spotting a re-import, and applying a record change to an in-memory Book (the CLI's stand-in for a store write).
-import type { Book, ImportBatch, Part, Quote, Supplier } from './book.ts';
-
-/**
- * Records to write and ids to delete, in the same shape as the store's BookChange (src/store/types.ts) so the UI can
- * hand it to `store.apply` as one transaction. Put records carry the revision they were read at (new ones 0).
- */
-export interface QuoteChange {
-  put: {
-    parts?: Part[];
-    suppliers?: Supplier[];
-    quotes?: Quote[];
-    importBatches?: ImportBatch[];
-  };
-  delete: {
-    quotes?: string[];
-  };
-}
+// Pure quote rules: which quotes are current, how a newer quote supersedes an older one, undoing an import batch
+// and spotting a re-import. Changes come back as BookChange, for store.apply or applyChange in book-ops.ts.
+import type { Book, ImportBatch, Quote } from './book.ts';
+import type { BookChange } from './book-ops.ts';
 
 /** A quote is current until a newer one for the same part and supplier supersedes it. */
 export function isCurrent(q: Quote): boolean {
@@ -54,7 +39,7 @@ export function findReimport(book: Book, hash: string, supplierId: string): Impo
   return book.importBatches.find((b) => b.hash === hash && b.supplierId === supplierId && !b.undone);
 }
 
-export type UndoResult = { ok: true; change: QuoteChange } | { ok: false; reason: string };
+export type UndoResult = { ok: true; change: BookChange } | { ok: false; reason: string };
 
 /**
  * Undoing a batch deletes the quotes it created and restores the ones it superseded. Refused when a later batch has
@@ -89,42 +74,4 @@ export function undoBatch(book: Book, batchId: string): UndoResult {
       delete: { quotes: batch.created.filter((id) => byId.has(id)) },
     },
   };
-}
-
-export type ApplyResult = { ok: true; book: Book } | { ok: false; reason: string };
-
-/**
- * Applies a change to a Book held in memory, with the store's rules: each put record carries the revision it was read
- * at and is stored with rev + 1; a stale revision refuses the whole change. Returns a new Book; the input is untouched.
- */
-export function applyChange(book: Book, change: QuoteChange): ApplyResult {
-  const next: Book = { ...book };
-  const collections = ['parts', 'suppliers', 'quotes', 'importBatches'] as const;
-  for (const name of collections) {
-    const puts = change.put[name] ?? [];
-    const deletes = name === 'quotes' ? new Set(change.delete.quotes ?? []) : new Set<string>();
-    if (puts.length === 0 && deletes.size === 0) continue;
-    const list: { id: string; rev: number }[] = book[name];
-    const position = new Map(list.map((r, i) => [r.id, i] as const));
-    const out: { id: string; rev: number }[] = list.slice();
-    for (const rec of puts as { id: string; rev: number }[]) {
-      const at = position.get(rec.id);
-      if (at === undefined) {
-        if (rec.rev !== 0) return { ok: false, reason: `${name} record ${rec.id} is not in the Book (revision ${rec.rev})` };
-        position.set(rec.id, out.length);
-        out.push({ ...rec, rev: 1 });
-      } else {
-        const stored = out[at]!;
-        if (stored.rev !== rec.rev) {
-          return {
-            ok: false,
-            reason: `${name} record ${rec.id} was changed elsewhere (stored revision ${stored.rev}, yours ${rec.rev})`,
-          };
-        }
-        out[at] = { ...rec, rev: rec.rev + 1 };
-      }
-    }
-    (next as unknown as Record<string, unknown>)[name] = deletes.size ? out.filter((r) => !deletes.has(r.id)) : out;
-  }
-  return { ok: true, book: next };
 }

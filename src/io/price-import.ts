@@ -1,7 +1,7 @@
 // One call from price file bytes to a new Book: read, check, match, plan, apply in memory. Used by the CLI and the
 // benchmark; the app runs the same steps split between its worker (analysePriceFile) and the store (planImport).
 import type { Book, ColumnMapping, Supplier } from '../domain/book.ts';
-import { applyChange } from '../domain/quotes.ts';
+import { applyChange } from '../domain/book-ops.ts';
 import type { DateOrder, Decimal, PriceProblem, PriceUnit } from './price-map.ts';
 import { planImport } from './price-plan.ts';
 import type { ImportPlan, UnmatchedDecision } from './price-plan.ts';
@@ -147,6 +147,10 @@ export async function importPrices(book: Book, bytes: Uint8Array, options: Impor
     return { ok: false, reason: plan.reason ?? 'nothing imported', problems: plan.problems, summary, analysis, plan };
   }
   const applied = applyChange(book, plan.change);
-  if (!applied.ok) return { ok: false, reason: applied.reason, problems: plan.problems, summary, analysis, plan };
+  if (!applied.ok) {
+    const c = applied.conflict;
+    const reason = `${c.collection} record ${c.recordId} changed while importing (held revision ${c.storedRev}, plan made from ${c.givenRev})`;
+    return { ok: false, reason, problems: plan.problems, summary, analysis, plan };
+  }
   return { ok: true, book: applied.book, problems: plan.problems, summary, analysis, plan };
 }

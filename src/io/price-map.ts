@@ -47,7 +47,7 @@ const SYNONYMS: Record<PriceField, readonly string[]> = {
     'supplier code', 'supplier part number', 'supplier part no', 'supplier part', 'supplier pn', 'order code',
     'order no', 'order number', 'ordering code', 'sku', 'stock no', 'stock number', 'stock code', 'our code',
     'catalogue no', 'catalogue number', 'catalog no', 'catalog number', 'item code', 'item no', 'vendor code',
-    'vendor part number',
+    'vendor part number', 'our ref', 'our reference', 'ref', 'reference', 'supplier ref', 'supplier reference',
   ],
   description: ['description', 'desc', 'item description', 'product description', 'details', 'item', 'product name'],
   maker: ['maker', 'manufacturer', 'mfr', 'mfg', 'make', 'brand', 'manufacturer name'],
@@ -125,16 +125,25 @@ export function guessField(header: string): PriceField | undefined {
   const norm = stripCurrencyWords(normaliseHeader(header), header);
   if (norm === '') return undefined;
   for (const s of SYNONYM_LIST) if (norm === s.words) return s.field;
+  // English headers put the thing named last ("Price list date" is a date, "Part description" a description), so a
+  // synonym that ends the header wins over a longer one inside it.
   const padded = ` ${norm} `;
-  for (const s of SYNONYM_LIST) if (padded.includes(` ${s.words} `)) return s.field;
-  return undefined;
+  let best: { field: PriceField; atEnd: boolean; length: number } | undefined;
+  for (const s of SYNONYM_LIST) {
+    if (!padded.includes(` ${s.words} `)) continue;
+    const atEnd = padded.endsWith(` ${s.words} `);
+    if (!best || (atEnd && !best.atEnd) || (atEnd === best.atEnd && s.words.length > best.length)) {
+      best = { field: s.field, atEnd, length: s.words.length };
+    }
+  }
+  return best?.field;
 }
 
 /** A wide-layout column: quantity or price of break N, or a price column whose header is the quantity ("100+"). */
 export type BreakHeader = { kind: 'qty' | 'price'; index: number } | { kind: 'fixed'; qty: number };
 
-const QTY_WORDS = '(?:qty|quantity|break|from|qty break|break qty|quantity break|price break|price break qty)';
-const PRICE_WORDS = '(?:price|unit price|price each|each|cost|unit cost|net price)';
+const QTY_WORDS = '(?:qty|quantity|break|from|qty break|break qty|quantity break|price break qty)';
+const PRICE_WORDS = '(?:price|unit price|price each|each|cost|unit cost|net price|price break|break price)';
 
 export function breakHeader(header: string): BreakHeader | undefined {
   const norm = stripCurrencyWords(normaliseHeader(header), header);
@@ -380,7 +389,11 @@ export function resolveMapping(headers: string[], headerLine: number, given?: Co
 const GROUP_SPACE = /[\s\u00a0\u202f']/g;
 
 /** Reads a number with the file's decimal mark; thousands separators must group by three. */
+const PLAIN: Record<Decimal, RegExp> = { '.': /^\d+(?:\.\d+)?$/, ',': /^\d+(?:,\d+)?$/ };
+
 export function parseNumber(raw: string, decimal: Decimal): number | undefined {
+  // Most cells are plain ("12", "0.125"): read them without the general path's string rewriting.
+  if (PLAIN[decimal].test(raw)) return Number(decimal === '.' ? raw : raw.replace(',', '.'));
   const group = decimal === '.' ? ',' : '.';
   let s = raw.trim().replace(GROUP_SPACE, group);
   if (s === '') return undefined;
@@ -406,20 +419,45 @@ export function parseNumber(raw: string, decimal: Decimal): number | undefined {
 
 const GROUPED: Record<Decimal, RegExp> = { '.': /^\d{1,3}(?:,\d{3})+$/, ',': /^\d{1,3}(?:\.\d{3})+$/ };
 
-/** Which decimal mark one numeric cell implies, if it settles the question at all. */
+/**
+ * Which decimal mark one numeric cell implies, if it settles the question at all: "0,5" and "1.234,5" say comma,
+ * "12.50" and "1,234.5" say point, "1,234" could be either. A character scan, as it runs on every number cell.
+ */
 export function decimalVote(raw: string): Decimal | undefined {
-  const s = raw.trim().replace(/[\s\u00a0\u202f'+]/g, '').replace(/^[-+]/, '');
-  if (!/^[\d.,]+$/.test(s) || !/\d/.test(s)) return undefined;
-  const lastDot = s.lastIndexOf('.');
-  const lastComma = s.lastIndexOf(',');
-  if (lastDot >= 0 && lastComma >= 0) return lastDot > lastComma ? '.' : ',';
-  const sep = lastDot >= 0 ? '.' : lastComma >= 0 ? ',' : undefined;
-  if (!sep) return undefined;
-  const pieces = s.split(sep);
-  if (pieces.length > 2) return sep === '.' ? ',' : '.'; // "1.234.567": the repeated mark groups thousands
-  const [int, frac] = pieces as [string, string];
-  if (frac.length !== 3 || int === '' || int === '0' || int.length > 3) return sep;
-  return undefined; // "1,234" or "1.234": could be either
+  let len = 0;
+  let digits = 0;
+  let dots = 0;
+  let commas = 0;
+  let lastDot = -1;
+  let lastComma = -1;
+  let firstSep = -1;
+  let firstDigit = -1;
+  for (let i = 0; i < raw.length; i++) {
+    const c = raw.charCodeAt(i);
+    if (c >= 48 && c <= 57) {
+      if (firstDigit < 0) firstDigit = c;
+      digits++;
+    } else if (c === 46 || c === 44) {
+      if (c === 46) {
+        dots++;
+        lastDot = len;
+      } else {
+        commas++;
+        lastComma = len;
+      }
+      if (firstSep < 0) firstSep = len;
+    } else if (c === 32 || c === 0xa0 || c === 0x202f || c === 39 || c === 43 || c === 45 || c === 9) continue;
+    else return undefined;
+    len++;
+  }
+  if (digits === 0 || (dots === 0 && commas === 0)) return undefined;
+  if (dots > 0 && commas > 0) return lastDot > lastComma ? '.' : ',';
+  const sep: Decimal = dots > 0 ? '.' : ',';
+  if (dots + commas > 1) return sep === '.' ? ',' : '.'; // "1.234.567": a repeated mark groups thousands
+  const intLen = firstSep;
+  const fracLen = len - firstSep - 1;
+  if (fracLen !== 3 || intLen === 0 || intLen > 3 || (intLen === 1 && firstDigit === 48)) return sep;
+  return undefined;
 }
 
 export interface CellMoney {
@@ -428,9 +466,14 @@ export interface CellMoney {
   conflict?: string;
 }
 
+function isDigit(c: number): boolean {
+  return c >= 48 && c <= 57;
+}
+
 /** Splits a price cell into its number text and a currency given as a symbol or an ISO 4217 code before or after. */
 export function splitMoney(raw: string): CellMoney {
   let s = raw.trim();
+  if (s.length === 0 || (isDigit(s.charCodeAt(0)) && isDigit(s.charCodeAt(s.length - 1)))) return { text: s };
   const found: string[] = [];
   const lead = /^([€$£]|[A-Za-z]{3}(?=[\s\d.,+-]))\s*/.exec(s);
   if (lead) {

@@ -1,0 +1,41 @@
+// Web Worker entry for reading and checking a price file off the page's thread, so the page stays responsive and can
+// show rows and rows/s. The UI starts it with runPriceImportInWorker (price-worker-client.ts).
+import { analysePriceFile } from './price-validate.ts';
+import type { AnalyseOptions, PriceAnalysis } from './price-validate.ts';
+
+export interface PriceWorkerRequest {
+  type: 'analyse';
+  bytes: Uint8Array;
+  options: AnalyseOptions;
+}
+
+export type PriceWorkerMessage =
+  | { type: 'progress'; rows: number; rowsPerSecond: number }
+  | { type: 'result'; analysis: PriceAnalysis }
+  | { type: 'error'; message: string };
+
+/** The worker's whole job, as a plain function so Node tests run exactly what the worker runs. */
+export async function handlePriceWorkerRequest(request: PriceWorkerRequest, post: (m: PriceWorkerMessage) => void): Promise<void> {
+  if (request?.type !== 'analyse' || !(request.bytes instanceof Uint8Array)) {
+    post({ type: 'error', message: 'the price reader was sent something other than file bytes' });
+    return;
+  }
+  const started = performance.now();
+  try {
+    const analysis = await analysePriceFile(request.bytes, request.options, (rows) => {
+      const seconds = (performance.now() - started) / 1000;
+      post({ type: 'progress', rows, rowsPerSecond: seconds > 0 ? Math.round(rows / seconds) : 0 });
+    });
+    post({ type: 'result', analysis });
+  } catch (e) {
+    post({ type: 'error', message: `the price file could not be read: ${e instanceof Error ? e.message : String(e)}` });
+  }
+}
+
+// Only inside a dedicated worker: a page or Node importing this module for its types must not grab onmessage.
+const scope = globalThis as unknown as { WorkerGlobalScope?: unknown; onmessage: unknown; postMessage(m: unknown): void };
+if (typeof scope.WorkerGlobalScope !== 'undefined') {
+  scope.onmessage = (e: MessageEvent<PriceWorkerRequest>) => {
+    void handlePriceWorkerRequest(e.data, (m) => scope.postMessage(m));
+  };
+}
