@@ -74,9 +74,11 @@ describe('costing workbook', () => {
     const { book, resolution } = referenceFamily(SMALL_REF);
     const wb = value(CostingWorkbook.open(book, resolution));
     const before = engineUnitCosts(wb);
-    const q = book.quotes[5]!;
-    // Nearly free: this quote now wins wherever its part is bought, so some unit costs must fall.
-    const changed = value(wb.setQuotePrice(q.id, 0, 0.0001));
+    // The quote the first variant buys its first line from, made nearly free at the break it buys at.
+    const line = value(wb.costedBom(book.variants[0]!.id, 500)).lines[0]!;
+    const q = book.quotes.find((x) => x.id === line.quoteId)!;
+    const breakIndex = q.breaks.findIndex((b) => b.qty === line.breakQty);
+    const changed = value(wb.setQuotePrice(q.id, breakIndex, 0.0001));
     expect(changed.length).toBeGreaterThan(0);
     const after = engineUnitCosts(wb);
     const reallyChanged = [...after].filter(([k, u]) => before.get(k) !== u).map(([k]) => k);
