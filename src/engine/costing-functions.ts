@@ -174,12 +174,18 @@ export class CostingPlugin extends FunctionPlugin {
 
 let registered = false;
 
-/** Registers the costing functions once, before any engine that uses them is built. */
+const translated = new Set<string>();
+
+/**
+ * Registers the costing functions, with their names in every language registered so far (a function without a name
+ * in the engine's language evaluates to a name error). Cheap to call again; it only acts for new languages.
+ */
 export function registerCostingFunctions(): void {
-  if (registered) return;
-  const names = Object.keys(CostingPlugin.implementedFunctions);
-  const enGB: Record<string, string> = {};
-  for (const n of names) enGB[n] = n;
-  HyperFormula.registerFunctionPlugin(CostingPlugin, { enGB, enUS: enGB });
+  const languages = HyperFormula.getRegisteredLanguagesCodes().filter((code) => !translated.has(code));
+  if (registered && languages.length === 0) return;
+  const names: Record<string, string> = {};
+  for (const n of Object.keys(CostingPlugin.implementedFunctions)) names[n] = n;
+  HyperFormula.registerFunctionPlugin(CostingPlugin, Object.fromEntries(languages.map((code) => [code, names])));
+  for (const code of languages) translated.add(code);
   registered = true;
 }

@@ -30,6 +30,7 @@ import {
 } from '../domain/costing.ts';
 import type { CostedBom, CostingContext, ResolvedLine, Result } from '../domain/costing.ts';
 import { registerCostingFunctions } from './costing-functions.ts';
+import { ENGINE_DEFAULTS, registerRungbookFunctions } from './create.ts';
 
 /** Each variant's resolved lines by variant id. */
 export type Resolution = Map<string, readonly ResolvedLine[]>;
@@ -179,6 +180,8 @@ export class CostingWorkbook {
     }
     if (new Set(runSizes).size !== runSizes.length) return { ok: false, error: 'run sizes are listed twice' };
     const res = resolution ?? fixedResolution(book);
+    // Rungbook's own functions too, so a user's override formula may use any of them.
+    registerRungbookFunctions();
     registerCostingFunctions();
 
     // Rates: every currency the settings or a quote name.
@@ -366,7 +369,9 @@ export class CostingWorkbook {
         [SHEETS.blocks]: blockRows.length ? blockRows : [[]],
         [SHEETS.variants]: variantRows.length ? variantRows : [[]],
       },
-      { licenseKey: 'gpl-v3', smartRounding: false, undoLimit: 0, useArrayArithmetic: false, maxRows: 1_000_000 },
+      // Exact results (our functions round money themselves), no undo history (the app keeps its own), and room for
+      // a large family's Demand sheet.
+      { ...ENGINE_DEFAULTS, smartRounding: false, undoLimit: 0, useArrayArithmetic: false, maxRows: 1_000_000 },
     );
     const wb = new CostingWorkbook(hf, book, res, ctx.date, [...runSizes], quotes);
     for (const [k, v] of variantRow) wb.variantRow.set(k, v);

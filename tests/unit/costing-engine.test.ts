@@ -3,7 +3,9 @@ import { describe, expect, it } from 'vitest';
 import { referenceFamily } from '../../src/domain/refamily.ts';
 import { costVariantRun, prepareCosting } from '../../src/domain/costing.ts';
 import type { CostingContext, ResolvedLine, Result } from '../../src/domain/costing.ts';
-import { CostingWorkbook, fixedResolution } from '../../src/engine/costing.ts';
+import { CostingWorkbook, fixedResolution, resolutionFromFamily } from '../../src/engine/costing.ts';
+import { resolveFamily } from '../../src/engine/family.ts';
+import { demoBook } from '../../src/domain/demo-book.ts';
 import type { Book } from '../../src/domain/book.ts';
 import { part, smallBook } from './costing-fixtures.ts';
 
@@ -42,6 +44,21 @@ describe('costing workbook', () => {
       expect(Number.isFinite(u), k).toBe(true);
       expect(Math.round(engine.get(k)! * 100), k).toBe(Math.round(u * 100));
       // The rules share one rounding, so they agree exactly, not just to the cent.
+      expect(engine.get(k), k).toBe(u);
+    }
+    wb.close();
+  });
+
+  it('gives every unit cost of the demo Book equal to the pure rules, to the cent, with no unpriced line', () => {
+    const book = demoBook();
+    const resolution = resolutionFromFamily(resolveFamily(book));
+    const wb = value(CostingWorkbook.open(book, resolution));
+    const engine = engineUnitCosts(wb);
+    const pure = pureUnitCosts(book, resolution);
+    expect(engine.size).toBe(book.variants.length * book.settings.runSizes.length);
+    for (const [k, u] of pure) {
+      expect(Number.isFinite(u), `${k}: ${wb.problem(k.split('@')[0]!, 'unitCost', Number(k.split('@')[1]))}`).toBe(true);
+      expect(Math.round(engine.get(k)! * 100), k).toBe(Math.round(u * 100));
       expect(engine.get(k), k).toBe(u);
     }
     wb.close();
