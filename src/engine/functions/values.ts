@@ -64,7 +64,7 @@ const RKM_TEXT = defineFunction({
   ],
   compute(value: number, kind: string) {
     const k = kind.trim().toLowerCase();
-    const rkmKind = ['r', 'resistance', 'ohm', 'Ω'.toLowerCase()].includes(k)
+    const rkmKind = ['r', 'resistance', 'ohm', 'ω'].includes(k) // 'ω' is 'Ω' lower-cased
       ? 'resistance'
       : ['c', 'capacitance', 'f'].includes(k)
         ? 'capacitance'
