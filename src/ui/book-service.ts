@@ -1,7 +1,7 @@
 // The open Book for the app: opens the IndexedDB Book, keeps it in memory, writes every change through the store
 // and reports save state, storage use, conflicts, schema upgrades in other tabs and edits made in other tabs.
 import type { Book } from '../domain/book.ts';
-import { emptyBook } from '../domain/book.ts';
+import { COLLECTIONS, defaultSettings, emptyBook } from '../domain/book.ts';
 import { applyChange } from '../domain/book-ops.ts';
 import { demoBook } from '../domain/demo-book.ts';
 import { openBookStore } from '../store/idb-store.ts';
@@ -114,9 +114,13 @@ export class BookService extends EventTarget {
     return starterBook();
   }
 
-  /** An empty Book that keeps the built-in checks, so a new family starts with them. */
+  /**
+   * An empty Book that keeps the current settings (company, currency, rates, labour) and the built-in checks.
+   * `editsSinceExport: 0` also marks it as emptied on purpose rather than never written (see isFirstStart).
+   */
   empty(): Book {
-    return withBuiltInChecks(emptyBook());
+    const book = withBuiltInChecks(emptyBook());
+    return { ...book, settings: { ...this.book.settings, editsSinceExport: 0 } };
   }
 
   /** Re-reads the Book from storage, dropping the memory copy (after a conflict or another tab's edit). */
@@ -216,9 +220,18 @@ export class BookService extends EventTarget {
   }
 }
 
-/** An empty database: the store reports settings at revision 0 until any Book has been written. */
-function isFirstStart(book: Book): boolean {
-  return book.settings.rev === 0;
+/**
+ * A database just created: the store's first migration writes default settings and nothing else. A Book emptied on
+ * purpose is told apart by its settings (see `empty()`), so a reload does not bring the demo back.
+ */
+export function isFirstStart(book: Book): boolean {
+  const { rev, ...settings } = book.settings;
+  const { rev: _defaultRev, ...defaults } = defaultSettings();
+  return rev <= 1 && COLLECTIONS.every((c) => book[c].length === 0) && sameJson(settings, defaults);
+}
+
+function sameJson(a: unknown, b: unknown): boolean {
+  return JSON.stringify(a) === JSON.stringify(b);
 }
 
 function starterBook(): Book {

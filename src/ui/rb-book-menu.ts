@@ -3,7 +3,7 @@
 import { LitElement, css, html } from 'lit';
 import { customElement, query } from 'lit/decorators.js';
 import type { Book } from '../domain/book.ts';
-import { parseBookFile, serializeBook } from '../io/book-file.ts';
+import { bookFileName, bookFileSizeProblem, parseBookFile, serializeBook } from '../io/book-file.ts';
 import { BookController } from './book-context.ts';
 import type { RbConfirm } from './rb-confirm.ts';
 import './rb-confirm.ts';
@@ -18,17 +18,6 @@ export interface NoticeDetail {
 
 /** How many problems of a refused file are listed; the rest are counted. */
 const PROBLEMS_SHOWN = 8;
-
-/** A file name for the Book: its name with anything unsafe in file names replaced. */
-export function bookFileName(bookName: string): string {
-  const base = bookName
-    .normalize('NFKC')
-    .replace(/[^\p{L}\p{N} _-]+/gu, '-')
-    .replace(/\s+/g, ' ')
-    .replace(/^[-\s]+|[-\s]+$/g, '')
-    .slice(0, 80);
-  return `${base || 'book'}.rungbook.json`;
-}
 
 function counts(book: Book): string {
   return `${book.variants.length} variants, ${book.parts.length} parts, ${book.suppliers.length} suppliers, ${book.quotes.length} quotes`;
@@ -99,7 +88,7 @@ export class RbBookMenu extends LitElement {
     const url = URL.createObjectURL(blob);
     const a = document.createElement('a');
     a.href = url;
-    a.download = bookFileName(book.settings.bookName);
+    a.download = bookFileName(book);
     a.click();
     setTimeout(() => URL.revokeObjectURL(url), 10_000);
     const settings = { ...book.settings, lastExportAt: new Date().toISOString(), editsSinceExport: 0 };
@@ -116,6 +105,11 @@ export class RbBookMenu extends LitElement {
     const service = this.books.service;
     const file = this.fileInput.files?.[0];
     if (!service || !file) return;
+    const tooBig = bookFileSizeProblem(file.size);
+    if (tooBig) {
+      this.notify({ tone: 'problem', title: `${file.name} was not opened: the Book in this browser is unchanged`, lines: [tooBig.message] });
+      return;
+    }
     let text: string;
     try {
       text = await file.text();
@@ -125,8 +119,8 @@ export class RbBookMenu extends LitElement {
     }
     const parsed = parseBookFile(text);
     if (!parsed.ok) {
-      const shown = parsed.problems.slice(0, PROBLEMS_SHOWN).map((p) => `${p.path || '(whole file)'}: ${p.reason}`);
-      const more = parsed.problems.length - shown.length;
+      const shown = parsed.problems.slice(0, PROBLEMS_SHOWN).map((p) => `${p.path || '(whole file)'}: ${p.message}`);
+      const more = Math.max(parsed.total, parsed.problems.length) - shown.length;
       if (more > 0) shown.push(`… and ${more} more problem${more === 1 ? '' : 's'}.`);
       this.notify({
         tone: 'problem',
