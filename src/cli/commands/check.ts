@@ -5,7 +5,7 @@ import type { Book } from '../../domain/book.ts';
 import { STATUS_SYMBOL, worstOf } from '../../domain/check-status.ts';
 import type { CheckValue } from '../../domain/check-status.ts';
 import { formatValue } from '../../domain/units.ts';
-import { evaluateChecks, resolveFamily } from '../../engine/family.ts';
+import { FamilyWorkbook } from '../../engine/family.ts';
 import type { CheckResult } from '../../engine/family.ts';
 import { addBuiltInChecks, formatRule } from '../../engine/sheets.ts';
 import { parseBookFile } from '../../io/book-file.ts';
@@ -109,11 +109,14 @@ export const command: CliCommand = {
     const full = addBuiltInChecks(book, loadBuiltInChecks());
     // Only the chosen variants are compiled; build lines and parts stay whole so rules resolve the same way.
     const subject: Book = { ...full, variants };
-    const results = evaluateChecks(subject);
+    const workbook = FamilyWorkbook.open(subject);
+    const results = workbook.results();
+    const problems = workbook.resolve().problems;
+    workbook.close();
     const checksById = new Map(subject.checks.map((c) => [c.id, c]));
     const json = parsed.options.get('json') === true;
 
-    for (const p of resolveFamily(subject).problems) io.err(`warning: ${p.variantCode} line ${p.lineId}: ${p.message}`);
+    for (const p of problems) io.err(`warning: ${p.variantCode} line ${p.lineId}: ${p.message}`);
     if (json) {
       const out: CheckJson[] = results.map((r) => ({
         variant: r.variantCode,
