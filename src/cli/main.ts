@@ -8,6 +8,8 @@ const COMMANDS: Record<string, () => Promise<{ command: CliCommand }>> = {
   info: () => import('./commands/info.ts'),
   demo: () => import('./commands/demo.ts'),
   import: () => import('./commands/import.ts'),
+  cost: () => import('./commands/cost.ts'),
+  buy: () => import('./commands/buy.ts'),
 };
 
 function usage(): string {

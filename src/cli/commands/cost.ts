@@ -1,0 +1,249 @@
+// `rungbook cost FILE --variant CODE --run N`: the costed BOM of one variant for one production run, with its totals,
+// as a table, JSON or CSV. The numbers come from the same costing workbook the app uses.
+import type { Book, Variant } from '../../domain/book.ts';
+import type { CostedBom } from '../../domain/costing.ts';
+import { CostingWorkbook, resolutionFromFamily } from '../../engine/costing.ts';
+import { resolveFamily } from '../../engine/family.ts';
+import { toCsv } from '../../io/csv-write.ts';
+import type { CsvCell } from '../../io/csv-write.ts';
+import { parseArgs } from '../command.ts';
+import type { CliCommand, CliIo, ParsedArgs } from '../command.ts';
+import { formatProblems, MAINS_CAUTION, readBookFile } from './info.ts';
+
+const HELP = `usage: rungbook cost FILE --variant CODE --run N [--json | --csv] [--date YYYY-MM-DD]
+
+Costs one variant of a .rungbook.json Book for a production run of N units: per BOM line the need (with
+attrition), the order quantity (MOQ, whole packs, buying up to a cheaper price break), the chosen quote, unit and
+extended price, and leftover stock; then material, labour, test and overhead per unit, the unit cost, the price
+at the Book's margin, and the run total. Lines of the same part are bought together.
+
+  --variant CODE   the variant's code
+  --run N          units in the run (a whole number ≥ 1)
+  --json           print {variant, run, currency, lines: [...], material, labour, overhead, unitCost, runTotal, …}
+  --csv            print the lines and totals as CSV (RFC 4180; text that could run as a formula is neutralised)
+  --date D         decide quote expiry at this date (default: the Book's costing date, else today)
+
+Money: each line's extended price is rounded to cents in the quote's currency, then converted and rounded to
+cents in the base currency; run totals are sums of those. The run pays for all it buys (leftover stock is shown
+with its value, not credited). Overhead is a percentage of labour; price = unit cost / (1 − margin).
+Exit status: 0 done, 1 some line has no usable quote (listed; totals cover priced lines only), 2 bad arguments
+or an unreadable Book file.`;
+
+export interface CostJob {
+  book: Book;
+  variant: Variant;
+  run: number;
+  bom: CostedBom;
+}
+
+/**
+ * The shared front half of `cost` and `buy`: reads the file, finds the variant, checks the run size, costs it.
+ * Problems are written to `io.err`; the result is then a number (the exit status).
+ */
+export async function costFromArgs(name: string, parsed: ParsedArgs, help: string, io: CliIo): Promise<CostJob | number> {
+  if (parsed.positional.length !== 1) {
+    io.err(`rungbook ${name}: give exactly one Book file\n\n${help}`);
+    return 2;
+  }
+  const code = parsed.options.get('variant');
+  if (typeof code !== 'string' || code === '') {
+    io.err(`rungbook ${name}: give the variant with --variant CODE\n\n${help}`);
+    return 2;
+  }
+  const runText = parsed.options.get('run');
+  const run = typeof runText === 'string' && /^\d+$/.test(runText.trim()) ? Number(runText.trim()) : NaN;
+  if (!Number.isSafeInteger(run) || run < 1) {
+    io.err(`rungbook ${name}: --run must be a whole number of units ≥ 1, got ${typeof runText === 'string' ? runText : 'nothing'}`);
+    return 2;
+  }
+  const date = parsed.options.get('date');
+  if (date !== undefined && (typeof date !== 'string' || !/^\d{4}-\d{2}-\d{2}$/.test(date))) {
+    io.err(`rungbook ${name}: --date must be YYYY-MM-DD`);
+    return 2;
+  }
+  const file = parsed.positional[0]!;
+  const read = await readBookFile(file);
+  if (!read.ok) {
+    io.err(`rungbook ${name}: ${file} cannot be used as a Book file:\n${formatProblems(read.problems, read.total)}`);
+    return 2;
+  }
+  const book = read.book;
+  const variant = book.variants.find((v) => v.code === code);
+  if (!variant) {
+    io.err(`rungbook ${name}: no variant with code ${code}; the Book has ${book.variants.map((v) => v.code).join(', ') || 'no variants'}`);
+    return 2;
+  }
+  // Only this variant and this run size are compiled; lines, parts and quotes stay whole.
+  const subject: Book = { ...book, variants: [variant], settings: { ...book.settings, runSizes: [run] } };
+  const resolution = resolutionFromFamily(resolveFamily(subject));
+  const opened = CostingWorkbook.open(subject, resolution, typeof date === 'string' ? { date } : {});
+  if (!opened.ok) {
+    io.err(`rungbook ${name}: ${opened.error}`);
+    return 2;
+  }
+  const wb = opened.value;
+  try {
+    const bom = wb.costedBom(variant.id, run);
+    if (!bom.ok) {
+      io.err(`rungbook ${name}: ${bom.error}`);
+      return 2;
+    }
+    return { book, variant, run, bom: bom.value };
+  } finally {
+    wb.close();
+  }
+}
+
+/** Money to 2 decimals, per-unit figures to 4, quantities as whole numbers with thin grouping. */
+export const fmt = {
+  money: (n: number): string => n.toFixed(2),
+  unit: (n: number): string => n.toFixed(4),
+  price: (n: number): string => {
+    const s = String(n);
+    const dp = s.includes('.') ? s.length - s.indexOf('.') - 1 : 0;
+    return n.toFixed(Math.max(2, Math.min(6, dp)));
+  },
+  qty: (n: number): string => String(n),
+};
+
+/** Left-aligned text columns, right-aligned number columns. */
+export function table(rows: string[][], numeric: boolean[]): string[] {
+  const widths = rows[0]!.map((_, c) => Math.max(...rows.map((r) => [...(r[c] ?? '')].length)));
+  return rows.map((r) =>
+    r
+      .map((cell, c) => (numeric[c] ? cell.padStart(widths[c]!) : c === r.length - 1 ? cell : cell.padEnd(widths[c]!)))
+      .join('  ')
+      .trimEnd(),
+  );
+}
+
+/** The JSON shape of `rungbook cost --json`. */
+export function costJson(bom: CostedBom): Record<string, unknown> {
+  return {
+    variant: bom.variant,
+    run: bom.run,
+    currency: bom.currency,
+    date: bom.date,
+    lines: bom.lines.map((l) => ({
+      designators: l.designators,
+      mpn: l.mpn,
+      need: l.need,
+      buy: l.buy,
+      supplier: l.supplier,
+      supplierCode: l.supplierCode,
+      unitPrice: l.unitPrice,
+      currency: l.currency,
+      extended: l.extended,
+      extendedBase: l.extendedBase,
+      leftover: l.leftover,
+      leftoverValue: l.leftoverValue,
+    })),
+    material: bom.material,
+    labour: bom.labour,
+    test: bom.test,
+    overhead: bom.overhead,
+    unitCost: bom.unitCost,
+    price: bom.price,
+    materialRun: bom.materialRun,
+    runTotal: bom.runTotal,
+    leftoverValue: bom.leftoverValue,
+    complete: bom.complete,
+    problems: bom.problems.map((p) => ({ designators: p.designators ?? '', message: p.message })),
+  };
+}
+
+function totals(bom: CostedBom, marginPct: number): [string, string][] {
+  const c = bom.currency;
+  return [
+    [`material per unit (${c})`, fmt.unit(bom.material)],
+    [`labour per unit (${c})`, fmt.unit(bom.labour)],
+    [`test per unit (${c})`, fmt.unit(bom.test)],
+    [`overhead per unit (${c})`, fmt.unit(bom.overhead)],
+    [`unit cost (${c})`, fmt.unit(bom.unitCost)],
+    [`price at ${marginPct} % margin (${c})`, fmt.unit(bom.price)],
+    [`run material (${c})`, fmt.money(bom.materialRun)],
+    [`run total (${c})`, fmt.money(bom.runTotal)],
+    [`leftover stock value (${c})`, fmt.money(bom.leftoverValue)],
+  ];
+}
+
+function csvOut(bom: CostedBom, marginPct: number): string {
+  const head = ['designators', 'mpn', 'description', 'need', 'buy', 'supplier', 'supplier_code', 'break_qty', 'unit_price', 'currency', 'extended', `extended_${bom.currency}`, 'leftover', `leftover_value_${bom.currency}`];
+  const rows: CsvCell[][] = [head];
+  for (const l of bom.lines) {
+    rows.push([l.designators, l.mpn, l.description, l.need, l.buy, l.supplier, l.supplierCode, l.breakQty, l.unitPrice, l.currency, l.extended, l.extendedBase, l.leftover, l.leftoverValue]);
+  }
+  for (const p of bom.problems) rows.push([p.designators ?? '', '', `NOT PRICED: ${p.message}`]);
+  // Totals sit in the base-currency amount column, labelled in the first.
+  for (const [label, value] of totals(bom, marginPct)) {
+    const row: CsvCell[] = new Array<CsvCell>(head.length).fill('');
+    row[0] = label;
+    row[11] = Number(value);
+    rows.push(row);
+  }
+  return toCsv(rows);
+}
+
+function tableOut(job: CostJob): string[] {
+  const { bom } = job;
+  const out: string[] = [];
+  out.push(`${bom.variant} — ${job.variant.name}: run of ${bom.run}, quotes valid on ${bom.date}, totals in ${bom.currency}`);
+  out.push('');
+  const rows = [['designators', 'mpn', 'need', 'buy', 'supplier', 'break', 'unit price', 'cur', 'extended', `ext ${bom.currency}`, 'leftover', `value ${bom.currency}`]];
+  for (const l of bom.lines) {
+    rows.push([
+      l.designators,
+      l.mpn,
+      fmt.qty(l.need),
+      fmt.qty(l.buy),
+      l.supplier,
+      fmt.qty(l.breakQty),
+      fmt.price(l.unitPrice),
+      l.currency,
+      fmt.money(l.extended),
+      fmt.money(l.extendedBase),
+      fmt.qty(l.leftover),
+      fmt.money(l.leftoverValue),
+    ]);
+  }
+  out.push(...table(rows, [false, false, true, true, false, true, true, false, true, true, true, true]));
+  for (const p of bom.problems) out.push(`NOT PRICED ${p.designators || p.lineId || ''}: ${p.message}`);
+  out.push('');
+  const t = totals(bom, job.book.settings.marginPct);
+  out.push(...table(t.map(([a, b]) => [a, b]), [false, true]));
+  if (!bom.complete) out.push('', 'INCOMPLETE: the lines above marked NOT PRICED are missing from every total.');
+  out.push('', MAINS_CAUTION);
+  return out;
+}
+
+export const command: CliCommand = {
+  name: 'cost',
+  help: HELP,
+  async run(args: string[], io: CliIo): Promise<number> {
+    let parsed: ParsedArgs;
+    try {
+      parsed = parseArgs(args, { flags: ['json', 'csv'], values: ['variant', 'run', 'date'] });
+    } catch (e) {
+      io.err(`rungbook cost: ${e instanceof Error ? e.message : String(e)}\n\n${HELP}`);
+      return 2;
+    }
+    if (parsed.options.has('json') && parsed.options.has('csv')) {
+      io.err('rungbook cost: choose one of --json and --csv');
+      return 2;
+    }
+    const job = await costFromArgs('cost', parsed, HELP, io);
+    if (typeof job === 'number') return job;
+    const { bom } = job;
+    if (parsed.options.has('json')) {
+      io.out(JSON.stringify(costJson(bom), null, 2));
+      io.err(MAINS_CAUTION);
+    } else if (parsed.options.has('csv')) {
+      io.out(csvOut(bom, job.book.settings.marginPct));
+      io.err(MAINS_CAUTION);
+    } else {
+      io.out(tableOut(job).join('\n'));
+    }
+    for (const p of bom.problems) io.err(`rungbook cost: not priced: ${p.designators || p.lineId || ''}: ${p.message}`);
+    return bom.complete ? 0 : 1;
+  },
+};
