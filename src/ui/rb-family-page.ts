@@ -34,7 +34,7 @@ export class RbFamilyPage extends LitElement {
       td.text {
         white-space: nowrap;
       }
-      tbody th {
+      table.records tbody th {
         position: sticky;
         left: 0;
         background: var(--rb-sheet);

@@ -1,6 +1,6 @@
 // Parts page: every component in the Book, with a form to add or edit one (messages beside each field) and a delete
 // that is refused while quotes or build lines still use the part.
-import { LitElement, html } from 'lit';
+import { LitElement, css, html } from 'lit';
 import { customElement, state } from 'lit/decorators.js';
 import type { Book, Part } from '../domain/book.ts';
 import { PART_KINDS, newId } from '../domain/book.ts';
@@ -25,7 +25,22 @@ function ratingsText(part: Part): string {
 
 @customElement('rb-parts-page')
 export class RbPartsPage extends LitElement {
-  static override styles = pageStyles;
+  static override styles = [
+    pageStyles,
+    css`
+      td.desc {
+        min-width: 16rem;
+      }
+      td.nowrap {
+        white-space: nowrap;
+      }
+      td.ratings {
+        font-family: var(--rb-mono);
+        font-size: 0.78rem;
+        min-width: 14rem;
+      }
+    `,
+  ];
 
   private readonly books = new BookController(this);
   @state() private editing: Editing | undefined;
@@ -68,12 +83,12 @@ export class RbPartsPage extends LitElement {
               <thead>
                 <tr>
                   <th>mpn</th>
-                  <th>maker</th>
                   <th>kind</th>
                   <th class="num">value</th>
+                  <th>description</th>
+                  <th>maker</th>
                   <th>package</th>
                   <th>ratings</th>
-                  <th>description</th>
                   <th><span class="muted">actions</span></th>
                 </tr>
               </thead>
@@ -90,12 +105,12 @@ export class RbPartsPage extends LitElement {
     const problem = this.rowProblem?.id === p.id ? this.rowProblem.message : undefined;
     return html`<tr class=${this.editing?.part?.id === p.id ? 'editing' : ''} data-id=${p.id}>
       <td class="code">${p.mpn}</td>
-      <td>${p.maker}</td>
       <td>${p.kind}</td>
       <td class="num">${p.value === undefined ? '' : formatValue(p.value, p.unit ?? '')}</td>
-      <td>${p.package}</td>
-      <td class="code">${ratingsText(p)}</td>
-      <td>${p.description}</td>
+      <td class="desc">${p.description}</td>
+      <td class="nowrap">${p.maker}</td>
+      <td class="nowrap">${p.package}</td>
+      <td class="ratings">${ratingsText(p)}</td>
       <td class="acts">
         ${confirming
           ? html`Delete ${p.mpn}?

@@ -46,6 +46,10 @@ export class RbSaveState extends LitElement {
     .failed {
       color: var(--rb-fail);
     }
+    .muted {
+      color: var(--rb-na);
+      font-weight: 400;
+    }
     .reason {
       margin: 0.2rem 0 0;
       color: var(--rb-fail);
@@ -85,8 +89,8 @@ export class RbSaveState extends LitElement {
             Storage: ${formatBytes(st.usage)} used of ${formatBytes(st.quota)}
             <meter min="0" max=${st.quota || 1} .value=${st.usage} aria-label="storage used"></meter>
             ${st.persisted
-              ? 'The browser keeps this Book until you delete it.'
-              : 'Not marked persistent: the browser may clear it when space runs short. Save a Book file now and then.'}
+              ? 'Kept until you delete it.'
+              : 'Not persistent: the browser may clear it if space runs short; keep a Book file.'}
           </p>`
         : ''}`;
   }

@@ -108,8 +108,10 @@ export class RbSuppliersPage extends LitElement {
           hint: 'three-letter code (ISO 4217)',
           onInput: (v) => {
             const c = v.trim().toUpperCase();
-            const known = c === base ? '1' : book.settings.rates[c];
-            set({ currency: v, rate: known === undefined ? d.rate : String(known) });
+            const known = c === base ? 1 : book.settings.rates[c];
+            // A rate the person typed stays while they fix the code; the base currency's 1 does not carry over.
+            const wasKnown = d.currency.trim().toUpperCase() === base || book.settings.rates[d.currency.trim().toUpperCase()] !== undefined;
+            set({ currency: v, rate: known !== undefined ? String(known) : wasKnown ? '' : d.rate });
           },
         })}
         ${cur === base

@@ -1,0 +1,267 @@
+// Quotes page: every supplier offer per part with its price breaks and terms, expired and superseded quotes marked in
+// words and symbols, a filter, add / edit / delete through one Book save each, and the import history with Undo.
+import { LitElement, css, html } from 'lit';
+import { customElement, state } from 'lit/decorators.js';
+import type { Book, Part, Quote, Supplier } from '../domain/book.ts';
+import { todayIso } from '../domain/costing.ts';
+import { currentQuoteIndex, supersede } from '../domain/quotes.ts';
+import { BookController } from './book-context.ts';
+import './rb-import-batches.ts';
+import './rb-quote-form.ts';
+import type { QuoteSubmitDetail } from './rb-quote-form.ts';
+import { breaksText, leadText, qtyText, quoteStatus } from './rb-quote-text.ts';
+import { pageStyles } from './styles.ts';
+
+type Editing = { quote: Quote | undefined; saveError?: string };
+
+/** Rows drawn at once; a Book with tens of thousands of imported quotes stays quick to show. */
+const PAGE_ROWS = 300;
+
+@customElement('rb-quotes-page')
+export class RbQuotesPage extends LitElement {
+  static override styles = [
+    pageStyles,
+    css`
+      .status {
+        white-space: nowrap;
+      }
+      .status.current {
+        color: var(--rb-pass);
+      }
+      .status.expired {
+        color: var(--rb-margin);
+        font-weight: 600;
+      }
+      .status.superseded {
+        color: var(--rb-na);
+      }
+      tr.superseded td:not(.acts):not(.status-cell) {
+        color: var(--rb-na);
+        text-decoration: line-through;
+        text-decoration-color: var(--rb-rule);
+      }
+      tr.expired td {
+        background: var(--rb-margin-bg);
+      }
+      td.breaks {
+        font-family: var(--rb-mono);
+        font-size: 0.82rem;
+        min-width: 14rem;
+      }
+      .part-desc {
+        display: block;
+        font-family: var(--rb-font);
+        font-size: 0.78rem;
+        color: var(--rb-na);
+        white-space: normal;
+        max-width: 18rem;
+      }
+      .problem {
+        color: var(--rb-fail);
+        font-size: 0.84rem;
+      }
+      label.check {
+        font-size: 0.9rem;
+      }
+    `,
+  ];
+
+  private readonly books = new BookController(this);
+  @state() private editing: Editing | undefined;
+  @state() private filter = '';
+  @state() private hideSuperseded = false;
+  @state() private shown = PAGE_ROWS;
+  @state() private confirmDelete: string | undefined;
+  @state() private rowProblem: { id: string; message: string } | undefined;
+
+  override render() {
+    const book = this.books.book;
+    if (!book) return html``;
+    return html`${this.editing
+        ? html`<rb-quote-form
+            .book=${book}
+            .quote=${this.editing.quote}
+            .saveError=${this.editing.saveError}
+            @rb-quote-submit=${this._onSubmit}
+            @rb-quote-cancel=${() => (this.editing = undefined)}
+          ></rb-quote-form>`
+        : ''}
+      ${this.renderList(book)}
+      <rb-import-batches></rb-import-batches>`;
+  }
+
+  private renderList(book: Book) {
+    const date = book.settings.costingDate ?? todayIso();
+    const parts = new Map(book.parts.map((p) => [p.id, p] as const));
+    const suppliers = new Map(book.suppliers.map((s) => [s.id, s] as const));
+    const byId = new Map(book.quotes.map((q) => [q.id, q] as const));
+    const f = this.filter.trim().toLowerCase();
+    const rows = book.quotes
+      .filter((q) => !this.hideSuperseded || q.supersededBy === undefined)
+      .filter((q) => {
+        if (!f) return true;
+        const p = parts.get(q.partId);
+        const s = suppliers.get(q.supplierId);
+        return `${p?.mpn ?? ''} ${p?.description ?? ''} ${s?.name ?? ''} ${q.supplierCode}`.toLowerCase().includes(f);
+      })
+      .sort((a, b) => {
+        const pa = parts.get(a.partId)?.mpn ?? a.partId;
+        const pb = parts.get(b.partId)?.mpn ?? b.partId;
+        const sa = suppliers.get(a.supplierId)?.name ?? a.supplierId;
+        const sb = suppliers.get(b.supplierId)?.name ?? b.supplierId;
+        return (
+          pa.localeCompare(pb) ||
+          sa.localeCompare(sb) ||
+          Number(a.supersededBy !== undefined) - Number(b.supersededBy !== undefined) ||
+          b.date.localeCompare(a.date)
+        );
+      });
+    const current = book.quotes.filter((q) => q.supersededBy === undefined);
+    const expired = current.filter((q) => q.expires !== undefined && q.expires < date).length;
+    const superseded = book.quotes.length - current.length;
+    const visible = rows.slice(0, this.shown);
+    return html`<section class="sheet" aria-labelledby="quotes-h">
+      <h2 id="quotes-h">Quotes in this Book</h2>
+      <p class="why" data-testid="quotes-summary">
+        ${book.quotes.length} quotes: ${current.length - expired} current, ${expired} expired, ${superseded} superseded.
+        Expiry is judged at ${date}${book.settings.costingDate ? ' (the Book’s costing date)' : ' (today)'}. Prices are per
+        unit in the quote’s currency, written “from quantity @ price”.
+      </p>
+      <div class="toolbar">
+        <button type="button" class="primary" @click=${() => this.startEdit(undefined)}>Add a quote</button>
+        <input
+          type="search"
+          placeholder="Filter by part or supplier…"
+          aria-label="Filter quotes"
+          .value=${this.filter}
+          @input=${(e: Event) => {
+            this.filter = (e.target as HTMLInputElement).value;
+            this.shown = PAGE_ROWS;
+          }}
+        />
+        <label class="check"
+          ><input
+            type="checkbox"
+            .checked=${this.hideSuperseded}
+            @change=${(e: Event) => (this.hideSuperseded = (e.target as HTMLInputElement).checked)}
+          />
+          hide superseded</label
+        >
+        ${f || this.hideSuperseded ? html`<span class="muted" data-testid="quotes-shown">${rows.length} shown</span>` : ''}
+      </div>
+      ${rows.length === 0
+        ? html`<p class="empty">${book.quotes.length === 0 ? 'No quotes yet. Add one above or import a supplier price file.' : 'No quote matches the filter.'}</p>`
+        : html`<div class="scroll">
+            <table class="records" data-testid="quotes-table">
+              <thead>
+                <tr>
+                  <th>part</th>
+                  <th>supplier</th>
+                  <th>supplier code</th>
+                  <th>price breaks</th>
+                  <th>currency</th>
+                  <th class="num">moq</th>
+                  <th class="num">pack</th>
+                  <th class="num">lead time</th>
+                  <th>date</th>
+                  <th>expires</th>
+                  <th>source</th>
+                  <th>status</th>
+                  <th><span class="muted">actions</span></th>
+                </tr>
+              </thead>
+              <tbody>
+                ${visible.map((q) => this.renderRow(q, parts.get(q.partId), suppliers.get(q.supplierId), date, byId))}
+              </tbody>
+            </table>
+          </div>
+          ${rows.length > visible.length
+            ? html`<p class="muted">
+                Showing ${visible.length} of ${rows.length}.
+                <button type="button" @click=${() => (this.shown += PAGE_ROWS)}>Show ${Math.min(PAGE_ROWS, rows.length - visible.length)} more</button>
+              </p>`
+            : ''}`}
+    </section>`;
+  }
+
+  private renderRow(q: Quote, part: Part | undefined, supplier: Supplier | undefined, date: string, byId: Map<string, Quote>) {
+    const status = quoteStatus(q, date, q.supersededBy ? byId.get(q.supersededBy) : undefined);
+    const confirming = this.confirmDelete === q.id;
+    const problem = this.rowProblem?.id === q.id ? this.rowProblem.message : undefined;
+    const editing = this.editing?.quote?.id === q.id;
+    return html`<tr class="${status.state}${editing ? ' editing' : ''}" data-id=${q.id} data-state=${status.state}>
+      <td class="code">${part?.mpn ?? `(missing part ${q.partId})`}<span class="part-desc">${part?.description ?? ''}</span></td>
+      <td>${supplier?.name ?? q.supplierId}</td>
+      <td class="code">${q.supplierCode}</td>
+      <td class="breaks">${breaksText(q.breaks)}</td>
+      <td class="code">${q.currency}</td>
+      <td class="num">${qtyText(q.moq)}</td>
+      <td class="num">${qtyText(q.pack)}</td>
+      <td class="num">${leadText(q.leadDays)}</td>
+      <td class="num">${q.date}</td>
+      <td class="num">${q.expires ?? '—'}</td>
+      <td class="code">${q.source}</td>
+      <td class="status-cell"><span class="status ${status.state}">${status.symbol} ${status.words}</span></td>
+      <td class="acts">
+        ${confirming
+          ? html`Delete this quote?
+              <button type="button" class="danger" @click=${() => this.delete(q)}>Delete</button>
+              <button type="button" class="quiet" @click=${() => (this.confirmDelete = undefined)}>Keep</button>`
+          : html`<button type="button" class="quiet" @click=${() => this.startEdit(q)}>edit</button>
+              <button type="button" class="quiet" @click=${() => this.askDelete(q)}>delete</button>`}
+        ${problem ? html`<div class="problem" role="alert">✗ ${problem}</div>` : ''}
+      </td>
+    </tr>`;
+  }
+
+  private startEdit(quote: Quote | undefined): void {
+    this.confirmDelete = undefined;
+    this.rowProblem = undefined;
+    this.editing = { quote };
+    void this.updateComplete.then(() => {
+      const form = this.renderRoot.querySelector('rb-quote-form');
+      form?.scrollIntoView({ block: 'start' });
+    });
+  }
+
+  private readonly _onSubmit = async (ev: CustomEvent<QuoteSubmitDetail>): Promise<void> => {
+    const service = this.books.service;
+    const e = this.editing;
+    if (!service || !e) return;
+    const book = service.book;
+    const q = ev.detail.quote;
+    if (e.quote && !book.quotes.some((x) => x.id === e.quote!.id)) {
+      this.editing = { ...e, saveError: 'This quote was deleted elsewhere; nothing was saved.' };
+      return;
+    }
+    // A new quote for a part and supplier replaces their current one, which stays in the Book as superseded.
+    const replaced = e.quote ? [] : supersede(currentQuoteIndex(book.quotes), q);
+    const result = await service.save({ put: { quotes: [...replaced, q] } });
+    if (result.ok) this.editing = undefined;
+    else this.editing = { ...e, saveError: result.message };
+  };
+
+  private askDelete(q: Quote): void {
+    this.rowProblem = undefined;
+    this.confirmDelete = q.id;
+  }
+
+  private async delete(q: Quote): Promise<void> {
+    const service = this.books.service;
+    this.confirmDelete = undefined;
+    if (!service) return;
+    // The quotes this one replaced become current again, as if it had never come.
+    const restored = service.book.quotes
+      .filter((x) => x.supersededBy === q.id)
+      .map(({ supersededBy: _gone, ...rest }) => rest);
+    const result = await service.save({ put: { quotes: restored }, delete: { quotes: [q.id] } });
+    if (!result.ok) this.rowProblem = { id: q.id, message: result.message };
+    else if (this.editing?.quote?.id === q.id) this.editing = undefined;
+  }
+}
+
+declare global {
+  interface HTMLElementTagNameMap {
+    'rb-quotes-page': RbQuotesPage;
+  }
+}

@@ -1,0 +1,63 @@
+// Two tabs on one Book in real Chromium: an edit saved in one appears in the other, and a save made from an older
+// copy of a record is refused with a message and a way to reload, never written over the newer one.
+import { afterEach, describe, expect, inject, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { demoBook } from '../../src/domain/demo-book.ts';
+import { openSession } from './harness.ts';
+import type { Session } from './harness.ts';
+
+const baseUrl = inject('baseUrl');
+const supplier = [...demoBook().suppliers].sort((a, b) => a.name.localeCompare(b.name))[0]!;
+
+let session: Session | undefined;
+afterEach(async () => {
+  await session?.close();
+  session = undefined;
+});
+
+function row(page: Page) {
+  return page.locator(`[data-testid="suppliers-table"] tbody tr[data-id="${supplier.id}"]`);
+}
+
+async function editNotes(page: Page, notes: string): Promise<void> {
+  await page.locator('#f-notes').fill(notes);
+  await page.getByRole('button', { name: 'Save the supplier' }).click();
+}
+
+describe('two tabs on one Book', () => {
+  it('shows an edit from one tab in the other and refuses a save from a stale copy', async () => {
+    session = await openSession(baseUrl);
+    const first = session.page;
+    await first.goto(`${baseUrl}#/suppliers`);
+    await row(first).waitFor();
+    const second = await session.context.newPage();
+    await second.goto(`${baseUrl}#/suppliers`);
+    await row(second).waitFor();
+
+    // The second tab opens the supplier for editing, then the first tab saves a change to it.
+    await row(second).getByRole('button', { name: 'edit' }).click();
+    await row(first).getByRole('button', { name: 'edit' }).click();
+    await editNotes(first, 'Notes saved in the first tab');
+    await row(first).filter({ hasText: 'Notes saved in the first tab' }).waitFor();
+
+    // The second tab's table follows without a reload.
+    await row(second).filter({ hasText: 'Notes saved in the first tab' }).waitFor();
+
+    // Saving the form the second tab opened before that edit is refused and says how to recover.
+    await editNotes(second, 'Notes from the stale form');
+    const problem = second.locator('[data-testid="save-problem"]');
+    await problem.waitFor();
+    await expect(problem.textContent()).resolves.toMatch(/changed in another tab or window/);
+    await expect(row(second).textContent()).resolves.toContain('Notes saved in the first tab');
+    await second.screenshot({ path: '/tmp/rungbook-conflict.png' });
+
+    await problem.getByRole('button', { name: 'Reload the Book' }).click();
+    await problem.waitFor({ state: 'detached' });
+    await second.reload();
+    await row(second).waitFor();
+    await expect(row(second).textContent()).resolves.toContain('Notes saved in the first tab');
+    await expect(row(second).textContent()).resolves.not.toContain('stale form');
+    expect(session.errors).toEqual([]);
+    expect(session.foreignRequests).toEqual([]);
+  });
+});
