@@ -13,6 +13,8 @@ const REQUIRED = [
   'ASTABLE_DUTY', 'RC_REACH', 'COND_LOSS', 'BRIDGE_LOSS', 'SNUB_WATTS', 'JUNCTION_C', 'SINK_RTH_MAX', 'E_NEAR',
   'E_UP', 'E_DOWN', 'RKM', 'RKM_TEXT', 'NEED_QTY', 'BUY_QTY', 'BREAK_PRICE', 'CTL_NODE', 'DROP_DC', 'ZENER_WORST',
   'LOAD_AMPS',
+  // Book functions for notebook pages (src/engine/functions/book.ts).
+  'VAR', 'CHECK', 'CHECK_STATUS', 'PART_PRICE', 'PART_COST',
 ];
 
 /** A call with only the required arguments, each a plain sample of its kind. */

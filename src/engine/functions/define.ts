@@ -4,7 +4,7 @@ import { CellError, EmptyValue, ErrorType, FunctionArgumentType, FunctionPlugin,
 import type { FunctionArgument, FunctionPluginDefinition, ImplementedFunctions } from 'hyperformula';
 import { parseValue } from '../../domain/units.ts';
 
-export const FUNCTION_AREAS = ['values', 'supply', 'timing', 'power', 'purchasing'] as const;
+export const FUNCTION_AREAS = ['values', 'supply', 'timing', 'power', 'purchasing', 'book'] as const;
 export type FunctionArea = (typeof FUNCTION_AREAS)[number];
 
 /**

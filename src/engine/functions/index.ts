@@ -1,6 +1,7 @@
 // Rungbook's formula functions: the plugins to register and the help the app shows while a formula is typed.
 import type { FunctionPluginDefinition } from 'hyperformula';
 import type { FunctionArea, FunctionSpec } from './define.ts';
+import { BOOK_FUNCTIONS, BookPlugin } from './book.ts';
 import { PURCHASING_FUNCTIONS, PurchasingPlugin } from './purchasing.ts';
 import { POWER_FUNCTIONS, PowerPlugin } from './power.ts';
 import { SUPPLY_FUNCTIONS, SupplyPlugin } from './supply.ts';
@@ -17,6 +18,7 @@ export const FUNCTION_PLUGINS: readonly { area: FunctionArea; plugin: FunctionPl
   { area: 'timing', plugin: TimingPlugin, specs: TIMING_FUNCTIONS },
   { area: 'power', plugin: PowerPlugin, specs: POWER_FUNCTIONS },
   { area: 'purchasing', plugin: PurchasingPlugin, specs: PURCHASING_FUNCTIONS },
+  { area: 'book', plugin: BookPlugin, specs: BOOK_FUNCTIONS },
 ];
 
 export interface FunctionArgDoc {
