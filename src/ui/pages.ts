@@ -46,6 +46,8 @@ export const PAGES: readonly PageEntry[] = [
     plan:
       'A table of quotes per part and supplier with their price breaks, MOQ, pack quantity, lead time, date and ' +
       'source file, with expired and superseded quotes marked.',
+    tag: 'rb-quotes-page',
+    load: () => import('./rb-quotes-page.ts'),
   },
   {
     slug: 'build',
@@ -88,6 +90,8 @@ export const PAGES: readonly PageEntry[] = [
     plan:
       'A price file drop area, a column mapping saved per supplier, a preview of the rows that will become quotes ' +
       'with problems marked, and a list of past imports that can be undone.',
+    tag: 'rb-import-page',
+    load: () => import('./rb-import-page.ts'),
   },
   {
     slug: 'export',

@@ -12,7 +12,7 @@ import type { FieldProblems, VariantDraft } from './record-forms.ts';
 import { paramInfo, paramNames, validateVariant, variantDraft, variantUsers } from './record-forms.ts';
 import { pageStyles } from './styles.ts';
 
-type Editing = { variant: Variant | undefined; draft: VariantDraft; problems: FieldProblems; saveError?: string };
+type Editing = { variant: Variant | undefined; draft: VariantDraft; problems: FieldProblems; saveError?: string; conflict?: boolean };
 
 function shown(name: string, v: Variant['params'][string] | undefined): string {
   if (v === undefined) return '';
@@ -125,7 +125,12 @@ export class RbFamilyPage extends LitElement {
         Values take engineering notation with or without the unit (230, 230 V, 470n, 0.47 uF, 4k7); fractions may be
         written as percentages (10 %). Leave a parameter blank to remove it.
       </p>
-      ${e.saveError ? html`<p class="notice" role="alert">${e.saveError}</p>` : ''}
+      ${e.saveError
+        ? html`<p class="notice" role="alert">
+            ${e.saveError}
+            ${e.conflict ? html`<button type="button" @click=${this.restartFromStored}>Start again from the saved version</button>` : ''}
+          </p>`
+        : ''}
       <form class="record" novalidate @submit=${(ev: Event) => this.submit(ev, book)} aria-label="Variant">
         ${field({ name: 'code', label: 'code', value: d.code, problem: e.problems.code, hint: 'short code, unique in the Book', onInput: (v) => set({ code: v }) })}
         ${field({ name: 'name', label: 'name', value: d.name, problem: e.problems.name, onInput: (v) => set({ name: v }) })}
@@ -182,8 +187,19 @@ export class RbFamilyPage extends LitElement {
     this.editing = { ...e, problems: {} };
     const result = await service.save({ put: { variants: [r.record] } });
     if (result.ok) this.editing = undefined;
-    else this.editing = { ...e, problems: {}, saveError: result.message };
+    else this.editing = { ...e, problems: {}, saveError: result.message, conflict: result.conflict };
   }
+
+  /** After a refused save: re-read the Book and reopen the form on the stored version of the record. */
+  private readonly restartFromStored = async (): Promise<void> => {
+    const service = this.books.service;
+    const id = this.editing?.variant?.id;
+    if (!service || !id) return;
+    await service.reload();
+    const cur = service.book.variants.find((r) => r.id === id);
+    if (cur) this.startEdit(service.book, cur);
+    else this.editing = undefined;
+  };
 
   private askDelete(book: Book, v: Variant): void {
     const users = variantUsers(book, v.id);

@@ -12,7 +12,7 @@ import type { FieldProblems, PartDraft } from './record-forms.ts';
 import { KIND_VALUE_UNITS, partDraft, partUsers, validatePart } from './record-forms.ts';
 import { pageStyles } from './styles.ts';
 
-type Editing = { part: Part | undefined; draft: PartDraft; problems: FieldProblems; saveError?: string };
+type Editing = { part: Part | undefined; draft: PartDraft; problems: FieldProblems; saveError?: string; conflict?: boolean };
 
 function ratingsText(part: Part): string {
   return Object.entries(part.ratings)
@@ -133,7 +133,12 @@ export class RbPartsPage extends LitElement {
     return html`<section class="sheet" aria-labelledby="part-form-h">
       <h2 id="part-form-h">${e.part ? `Edit part ${e.part.mpn}` : 'New part'}</h2>
       <p class="why">Values take engineering notation or RKM codes: 4.7 kΩ, 4k7, 330 nF, 0.47 uF, 600 V.</p>
-      ${e.saveError ? html`<p class="notice" role="alert">${e.saveError}</p>` : ''}
+      ${e.saveError
+        ? html`<p class="notice" role="alert">
+            ${e.saveError}
+            ${e.conflict ? html`<button type="button" @click=${this.restartFromStored}>Start again from the saved version</button>` : ''}
+          </p>`
+        : ''}
       <form class="record" novalidate @submit=${(ev: Event) => this.submit(ev, book)} aria-label="Part">
         ${field({ name: 'mpn', label: 'mpn', value: d.mpn, problem: e.problems.mpn, hint: 'maker part number, unique in the Book', onInput: (v) => set({ mpn: v }) })}
         ${field({ name: 'maker', label: 'maker', value: d.maker, problem: e.problems.maker, onInput: (v) => set({ maker: v }) })}
@@ -198,8 +203,19 @@ export class RbPartsPage extends LitElement {
     this.editing = { ...e, problems: {} };
     const result = await service.save({ put: { parts: [r.record] } });
     if (result.ok) this.editing = undefined;
-    else this.editing = { ...e, problems: {}, saveError: result.message };
+    else this.editing = { ...e, problems: {}, saveError: result.message, conflict: result.conflict };
   }
+
+  /** After a refused save: re-read the Book and reopen the form on the stored version of the record. */
+  private readonly restartFromStored = async (): Promise<void> => {
+    const service = this.books.service;
+    const id = this.editing?.part?.id;
+    if (!service || !id) return;
+    await service.reload();
+    const cur = service.book.parts.find((r) => r.id === id);
+    if (cur) this.startEdit(cur);
+    else this.editing = undefined;
+  };
 
   private askDelete(book: Book, p: Part): void {
     const users = partUsers(book, p.id);

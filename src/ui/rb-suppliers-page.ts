@@ -10,7 +10,7 @@ import type { FieldProblems, SupplierDraft } from './record-forms.ts';
 import { supplierDraft, supplierUsers, validateSupplier } from './record-forms.ts';
 import { pageStyles } from './styles.ts';
 
-type Editing = { supplier: Supplier | undefined; draft: SupplierDraft; problems: FieldProblems; saveError?: string };
+type Editing = { supplier: Supplier | undefined; draft: SupplierDraft; problems: FieldProblems; saveError?: string; conflict?: boolean };
 
 @customElement('rb-suppliers-page')
 export class RbSuppliersPage extends LitElement {
@@ -97,7 +97,12 @@ export class RbSuppliersPage extends LitElement {
     return html`<section class="sheet" aria-labelledby="supplier-form-h">
       <h2 id="supplier-form-h">${e.supplier ? `Edit supplier ${e.supplier.name}` : 'New supplier'}</h2>
       <p class="why">The rate is shared by every supplier in that currency; changing it here changes it for all of them.</p>
-      ${e.saveError ? html`<p class="notice" role="alert">${e.saveError}</p>` : ''}
+      ${e.saveError
+        ? html`<p class="notice" role="alert">
+            ${e.saveError}
+            ${e.conflict ? html`<button type="button" @click=${this.restartFromStored}>Start again from the saved version</button>` : ''}
+          </p>`
+        : ''}
       <form class="record" novalidate @submit=${(ev: Event) => this.submit(ev, book)} aria-label="Supplier">
         ${field({ name: 'name', label: 'name', value: d.name, problem: e.problems.name, hint: 'unique in the Book', onInput: (v) => set({ name: v }) })}
         ${field({
@@ -161,8 +166,19 @@ export class RbSuppliersPage extends LitElement {
     const { record, settings } = r.record;
     const result = await service.save(settings ? { put: { suppliers: [record] }, settings } : { put: { suppliers: [record] } });
     if (result.ok) this.editing = undefined;
-    else this.editing = { ...e, problems: {}, saveError: result.message };
+    else this.editing = { ...e, problems: {}, saveError: result.message, conflict: result.conflict };
   }
+
+  /** After a refused save: re-read the Book and reopen the form on the stored version of the record. */
+  private readonly restartFromStored = async (): Promise<void> => {
+    const service = this.books.service;
+    const id = this.editing?.supplier?.id;
+    if (!service || !id) return;
+    await service.reload();
+    const cur = service.book.suppliers.find((r) => r.id === id);
+    if (cur) this.startEdit(service.book, cur);
+    else this.editing = undefined;
+  };
 
   private askDelete(book: Book, s: Supplier): void {
     const users = supplierUsers(book, s.id);

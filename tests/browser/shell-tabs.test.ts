@@ -51,11 +51,17 @@ describe('two tabs on one Book', () => {
     await expect(row(second).textContent()).resolves.toContain('Notes saved in the first tab');
     await second.screenshot({ path: '/tmp/rungbook-conflict.png' });
 
-    await problem.getByRole('button', { name: 'Reload the Book' }).click();
+    // Starting again loads the stored version into the form; a save from there goes through and reaches the first tab.
+    await second.getByRole('button', { name: 'Start again from the saved version' }).click();
     await problem.waitFor({ state: 'detached' });
+    await expect(second.locator('#f-notes').inputValue()).resolves.toBe('Notes saved in the first tab');
+    await editNotes(second, 'Second tab, after starting again');
+    await row(second).filter({ hasText: 'Second tab, after starting again' }).waitFor();
+    await row(first).filter({ hasText: 'Second tab, after starting again' }).waitFor();
+
     await second.reload();
     await row(second).waitFor();
-    await expect(row(second).textContent()).resolves.toContain('Notes saved in the first tab');
+    await expect(row(second).textContent()).resolves.toContain('Second tab, after starting again');
     await expect(row(second).textContent()).resolves.not.toContain('stale form');
     expect(session.errors).toEqual([]);
     expect(session.foreignRequests).toEqual([]);
