@@ -170,6 +170,7 @@ export class FamilyWorkbook {
   private cols = new Map<string, number>();
   private paramKeys = new Set<string>();
   private roleKeys: string[] = [];
+  private roleKeySet = new Set<string>();
   private roleStart = 0;
   private width = 0;
   private lineCells: LineCells[] = [];
@@ -279,6 +280,7 @@ export class FamilyWorkbook {
         this.roleKeys.push(key);
       }
     }
+    this.roleKeySet = new Set(this.roleKeys);
     this.checkByName = new Map();
     this.checkCells = this.checks.map((check) => {
       const cc: CheckCells = { check, cells: {} };
@@ -378,7 +380,7 @@ export class FamilyWorkbook {
         continue;
       }
       const v = this.value(row, col);
-      if (isEngineError(v) && v.type === 'NA' && (this.paramKeys.has(key) || this.roleKeys.includes(key))) out.push(key);
+      if (isEngineError(v) && v.type === 'NA' && (this.paramKeys.has(key) || this.roleKeySet.has(key))) out.push(key);
     }
     return out;
   }
@@ -386,7 +388,7 @@ export class FamilyWorkbook {
   private unknownMessage(key: string, row: number): string {
     const code = this.book.variants[row]?.code ?? '';
     if (!this.cols.has(key)) return `unknown name ${key}: no variant parameter, part rating or check has that name`;
-    if (this.roleKeys.includes(key)) {
+    if (this.roleKeySet.has(key)) {
       return `unknown name ${key}: no build line that applies to ${code} gives a part with that role and rating`;
     }
     return `unknown name ${key}: variant ${code} has no parameter of that name`;
