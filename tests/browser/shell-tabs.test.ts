@@ -66,4 +66,37 @@ describe('two tabs on one Book', () => {
     expect(session.errors).toEqual([]);
     expect(session.foreignRequests).toEqual([]);
   });
+
+  it('stops saving and asks to reload when another tab upgrades the Book storage', async () => {
+    session = await openSession(baseUrl);
+    const first = session.page;
+    await first.goto(`${baseUrl}#/suppliers`);
+    await row(first).waitFor();
+    // Another tab of the same site opens the Book database at a higher version, as a newer Rungbook would.
+    const other = await session.context.newPage();
+    await other.goto(`${baseUrl}manifest.webmanifest`);
+    const upgraded = await other.evaluate(
+      () =>
+        new Promise<number>((resolve, reject) => {
+          const request = indexedDB.open('rungbook', 1_000_000);
+          request.onsuccess = () => {
+            const version = request.result.version;
+            request.result.close();
+            resolve(version);
+          };
+          request.onerror = () => reject(new Error(String(request.error)));
+        }),
+    );
+    expect(upgraded).toBe(1_000_000);
+    const banner = first.locator('[role="alert"]', { hasText: 'upgraded its storage' });
+    await banner.waitFor();
+    await expect(banner.getByRole('button', { name: 'Reload this tab' }).count()).resolves.toBe(1);
+
+    // A save now is refused with that reason instead of failing somewhere out of sight.
+    await row(first).getByRole('button', { name: 'edit' }).click();
+    await editNotes(first, 'after the upgrade');
+    await first.locator('rb-suppliers-page .notice', { hasText: 'reload this tab' }).waitFor();
+    await expect(row(first).textContent()).resolves.not.toContain('after the upgrade');
+    expect(session.errors).toEqual([]);
+  });
 });
