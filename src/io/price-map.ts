@@ -492,7 +492,10 @@ export function splitMoney(raw: string): CellMoney {
 }
 
 /** Reads a quantity cell: a whole number, allowing "100+" or ">= 100" as written in break columns. */
+const WHOLE = /^\d+$/;
+
 export function parseQty(raw: string, decimal: Decimal): number | undefined {
+  if (WHOLE.test(raw)) return Number(raw);
   const s = raw.trim().replace(/^(?:>=|≥|from\s)\s*/i, '').replace(/\s*\+$/, '').replace(/\s*(?:pcs|pc|units?)$/i, '');
   return parseNumber(s, decimal);
 }

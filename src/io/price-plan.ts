@@ -61,6 +61,8 @@ export interface ImportPlan {
  * Record ids like newId's, drawn from one block of random bytes at a time: one crypto call per id costs more than the
  * rest of planning a 50,000-row file. Twelve base-36 digits keep collisions negligible at that size.
  */
+const BASE36 = '0123456789abcdefghijklmnopqrstuvwxyz';
+
 function idMaker(): (prefix: string) => string {
   const ID_DIGITS = 12;
   let pool = new Uint8Array(0);
@@ -72,7 +74,7 @@ function idMaker(): (prefix: string) => string {
       at = 0;
     }
     let s = '';
-    for (let i = 0; i < ID_DIGITS; i++) s += (pool[at++]! % 36).toString(36);
+    for (let i = 0; i < ID_DIGITS; i++) s += BASE36[pool[at++]! % 36];
     return `${prefix}_${s}`;
   };
 }
@@ -134,7 +136,8 @@ export function planImport(book: Book, analysis: PriceAnalysis, options: PlanOpt
   const matched: { offer: PriceOffer; part: Part }[] = [];
   const created: Part[] = [];
   for (const o of analysis.offers) {
-    let part = o.mpn ? byMpn.get(mpnKey(o.mpn)) : undefined;
+    // Offer keys are 'mpn:' + mpnKey(mpn) whenever the row has a maker part number.
+    let part = o.mpn ? byMpn.get(o.key.slice(4)) : undefined;
     if (part) plan.matchedByMpn++;
     else if (o.supplierCode) {
       part = byCode.get(o.supplierCode.toUpperCase());
@@ -154,7 +157,7 @@ export function planImport(book: Book, analysis: PriceAnalysis, options: PlanOpt
       }
       part = newPart(o, newId);
       created.push(part);
-      byMpn.set(mpnKey(o.mpn), part);
+      byMpn.set(o.key.slice(4), part);
     }
     const earlier = claimed.get(part.id);
     if (earlier) {

@@ -135,7 +135,10 @@ export async function analysePriceFile(
   }
   const t = read.table;
   const map = resolveMapping(t.headers, t.headerLine, options.mapping);
-  const checked = checkRows(t.rows, t.headers, map, options, t.delimiter);
+  // Until the columns are settled (no price or part column, an ambiguous duplicate), checking rows would only
+  // repeat the same complaint on every line: report the mapping problems alone.
+  const mappingBlocked = map.problems.length > 0;
+  const checked = checkRows(mappingBlocked ? [] : t.rows, t.headers, map, options, t.delimiter);
   const problems = [...t.problems, ...map.problems, ...checked.problems].sort((a, b) => a.row - b.row);
   // A row that could not be split right (too many cells) must not yield an offer even under "valid rows only".
   const badLines = new Set(t.problems.map((p) => p.row));
@@ -154,8 +157,8 @@ export async function analysePriceFile(
     decimalReason: checked.decimalReason,
     dateOrder: checked.dateOrder,
     dataRows: t.rows.length,
-    offers: map.problems.length ? [] : offers,
-    rejectedOffers: map.problems.length ? checked.offers.length + checked.rejected : checked.rejected + (checked.offers.length - offers.length),
+    offers,
+    rejectedOffers: checked.rejected + (checked.offers.length - offers.length),
     problems,
     notes: [...t.notes, ...map.notes, ...checked.notes],
     hash,
@@ -357,14 +360,14 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
   const offerLines = new Map<PriceOffer, number[]>();
   let rejected = 0;
 
-  const finish = (c: Common, breaks: PriceBreak[], currencies: string[], line: number, lines: number[], r: TableRow, firstCol: number | undefined): boolean => {
+  const finish = (c: Common, key: string, breaks: PriceBreak[], currencies: string[], line: number, lines: number[], r: TableRow, firstCol: number | undefined): boolean => {
     if (breaks.length === 0) return problem(r, firstCol, 'no price break on this row');
     const distinct = [...new Set(currencies)];
     if (distinct.length > 1) return problem(r, firstCol, `price breaks of one part in different currencies (${distinct.join(', ')})`);
     if (c.date && c.expires && c.expires < c.date) return problem(r, f.expires, `expires (${c.expires}) before the quote date (${c.date})`);
     const offer: PriceOffer = {
       line,
-      key: c.mpn ? `mpn:${mpnKey(c.mpn)}` : `code:${c.supplierCode.toUpperCase()}`,
+      key,
       mpn: c.mpn,
       supplierCode: c.supplierCode,
       description: c.description,
@@ -418,7 +421,7 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
           ok = problem(r, f.mpn ?? f.supplierCode, `the same part is already on line ${earlier}`);
         } else {
           seen.set(key, r.line);
-          ok = finish(c, breaks, currencies, r.line, [r.line], r, map.breaks[0]?.qtyCol ?? map.breaks[0]?.priceCol);
+          ok = finish(c, key, breaks, currencies, r.line, [r.line], r, map.breaks[0]?.qtyCol ?? map.breaks[0]?.priceCol);
         }
       }
       if (!ok) rejected++;
@@ -426,6 +429,7 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
   } else {
     // Long layout: one row per break; rows of the same part (by maker part number, else supplier code) form one quote.
     interface Group {
+      key: string;
       first: TableRow;
       common?: Common;
       rows: { r: TableRow; qty: number; price: number; currency: string }[];
@@ -438,7 +442,7 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
       const key = cell(r, f.mpn) ? `mpn:${mpnKey(cell(r, f.mpn))}` : `code:${cell(r, f.supplierCode).toUpperCase()}`;
       let g = groups.get(key);
       if (!g) {
-        g = { first: r, rows: [], ok: true };
+        g = { key, first: r, rows: [], ok: true };
         if (c) g.common = c;
         groups.set(key, g);
         order.push(g);
@@ -492,7 +496,7 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
         breaks.push({ qty: x.qty, price: x.price });
       }
       const lines = g.rows.map((x) => x.r.line);
-      if (!ok || !finish(g.common, breaks, g.rows.map((x) => x.currency), g.first.line, lines, g.rows[0]?.r ?? g.first, f.price)) rejected++;
+      if (!ok || !finish(g.common, g.key, breaks, g.rows.map((x) => x.currency), g.first.line, lines, g.rows[0]?.r ?? g.first, f.price)) rejected++;
     }
   }
   return { offers, offerLines, rejected, problems, notes, decimal, decimalReason: dec.reason, dateOrder: dates.order };

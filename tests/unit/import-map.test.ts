@@ -110,8 +110,10 @@ describe('wide layout columns', () => {
   });
 
   it('refuses a file with no price column or no part column', async () => {
-    const noPrice = await analyse('MPN,Qty,Description\nQT-R10K-06,1,x\n');
-    expect(noPrice.problems.map((p) => p.reason).join(' ')).toMatch(/no price column/);
+    const noPrice = await analyse('MPN,Qty,Description\nQT-R10K-06,1,x\nQT-C100N-50,1,y\n');
+    // One problem for the header, not one per row.
+    expect(noPrice.problems).toEqual([{ row: 1, column: '', value: 'MPN | Qty | Description', reason: expect.stringMatching(/no price column/) }]);
+    expect(noPrice.offers).toEqual([]);
     const noPart = await analyse('Description,Qty,Price\nx,1,0.05\n');
     expect(noPart.problems.map((p) => p.reason).join(' ')).toMatch(/no part column/);
   });
@@ -206,6 +208,7 @@ describe('price units, lead times and dates', () => {
   });
 
   it('reads lead times in days or weeks, from the cell or the header', () => {
+    // A week is 7 days (ISO 8601 week); fractional days round to the nearest day (common practice).
     expect(parseLeadDays('28', '.', undefined)).toBe(28);
     expect(parseLeadDays('28 days', '.', 'weeks')).toBe(28);
     expect(parseLeadDays('4 wk', '.', undefined)).toBe(28);

@@ -113,6 +113,7 @@ describe('row checks', () => {
   });
 
   it('defaults MOQ to the first break, pack to 1 and lead time to 0 when the file is silent', async () => {
+    // Common practice: a price list's lowest break is the least a supplier sells; no pack size means single pieces.
     const a = await analyse('MPN,Qty,Price\nQT-R10K-06,25,0.05\n');
     expect(a.offers[0]).toMatchObject({ moq: 25, pack: 1, leadDays: 0 });
   });
