@@ -50,6 +50,11 @@ export class BookService extends EventTarget {
   status: SaveStatus = { state: SAVE_STATES.saved };
   storage: StorageEstimate | undefined;
   blocked: Blocked | undefined;
+  /**
+   * Changes saved from this tab since the last Book file was downloaded here (or since the tab opened). Kept in
+   * memory only: writing a counter into the settings on every save would make every edit in two tabs collide.
+   */
+  editsSinceExport = 0;
   /** Set when the last reload came from another tab's edit, so the shell can say so. */
   lastRemoteChange: Date | undefined;
 
@@ -99,6 +104,17 @@ export class BookService extends EventTarget {
       // The store accepted the change, so a mismatch here means memory fell behind (another tab): re-read it.
       this.book = next.ok ? next.book : await this.store.load();
     });
+  }
+
+  /** Records that a Book file was just downloaded: the date goes into the settings, the edit count restarts. */
+  async markExported(at: Date = new Date()): Promise<SaveResult> {
+    const settings = { ...this.book.settings, lastExportAt: at.toISOString() };
+    const result = await this.save({ settings });
+    if (result.ok) {
+      this.editsSinceExport = 0;
+      this.emit('status');
+    }
+    return result;
   }
 
   /** Replaces the whole Book (empty Book, demo Book, opened file) in one transaction. */
@@ -166,6 +182,7 @@ export class BookService extends EventTarget {
       try {
         await write();
         this.inFlight -= 1;
+        this.editsSinceExport += 1;
         if (this.inFlight === 0) this.status = { state: SAVE_STATES.saved, at: new Date() };
         this.emit('book');
         this.emit('status');

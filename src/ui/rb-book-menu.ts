@@ -91,8 +91,7 @@ export class RbBookMenu extends LitElement {
     a.download = bookFileName(book);
     a.click();
     setTimeout(() => URL.revokeObjectURL(url), 10_000);
-    const settings = { ...book.settings, lastExportAt: new Date().toISOString(), editsSinceExport: 0 };
-    const result = await service.save({ settings });
+    const result = await service.markExported();
     if (!result.ok) this.notify({ tone: 'problem', title: 'The file was made, but the export date was not saved', lines: [result.message] });
   }
 

@@ -4,6 +4,7 @@ import { LitElement, css, html } from 'lit';
 import { customElement } from 'lit/decorators.js';
 import { BookController } from './book-context.ts';
 import { SAVE_STATES } from './book-service.ts';
+import { exportReminder } from './export-reminder.ts';
 
 /** Bytes in binary multiples with a unit, for storage figures: 1536 → "1.5 KiB". */
 export function formatBytes(bytes: number): string {
@@ -50,6 +51,14 @@ export class RbSaveState extends LitElement {
       color: var(--rb-na);
       font-weight: 400;
     }
+    .reminder {
+      margin: 0.4rem 0 0;
+      color: var(--rb-na);
+    }
+    .reminder.due {
+      color: var(--rb-margin);
+      font-weight: 600;
+    }
     .reason {
       margin: 0.2rem 0 0;
       color: var(--rb-fail);
@@ -80,7 +89,11 @@ export class RbSaveState extends LitElement {
           : html`<span class="state failed" data-state="failed"><span aria-hidden="true">✗</span> Last change not saved</span>
               <p class="reason">${s.reason ?? ''}</p>`;
     const st = service.storage;
+    const reminder = exportReminder(service.book.settings.lastExportAt, service.editsSinceExport, new Date());
     return html`<div role="status" aria-live="polite">${line}</div>
+      <p class=${reminder.due ? 'reminder due' : 'reminder'} data-testid="export-reminder">
+        ${reminder.due ? html`<span aria-hidden="true">⚠ </span>` : ''}${reminder.text}
+      </p>
       ${service.lastRemoteChange
         ? html`<p class="storage">Updated from another tab at ${clock(service.lastRemoteChange)}</p>`
         : ''}

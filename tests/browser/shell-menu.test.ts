@@ -47,6 +47,10 @@ describe('Book menu', () => {
     expect(parsed.book.variants.map((v) => v.code).sort()).toEqual(demo.variants.map((v) => v.code).sort());
     expect(parsed.book.parts.length).toBe(demo.parts.length);
     expect(parsed.book.quotes.length).toBe(demo.quotes.length);
+    // The download is remembered, so the reminder to keep a Book file counts from now.
+    await page.locator('[data-testid="export-reminder"]', { hasText: 'Last Book file today' }).waitFor();
+    await page.reload();
+    await page.locator('[data-testid="export-reminder"]', { hasText: 'Last Book file today' }).waitFor();
     expect(session.errors).toEqual([]);
   });
 
