@@ -1,0 +1,130 @@
+// The app's Book service over fake-indexeddb: the demo Book with its built-in checks on first start only, saves
+// that keep memory and storage in step, refused stale saves that change nothing, and edits seen by another tab.
+import 'fake-indexeddb/auto';
+import { afterEach, describe, expect, it } from 'vitest';
+import type { Part } from '../../src/domain/book.ts';
+import { demoBook } from '../../src/domain/demo-book.ts';
+import { BookService, isFirstStart } from '../../src/ui/book-service.ts';
+import { emptyBook } from '../../src/domain/book.ts';
+import { checkSheetTexts } from '../../src/ui/sheets.ts';
+
+const opened: BookService[] = [];
+let dbCount = 0;
+async function open(name = `rungbook-ui-${++dbCount}`): Promise<BookService> {
+  const s = await BookService.open(name);
+  opened.push(s);
+  return s;
+}
+afterEach(() => {
+  for (const s of opened.splice(0)) s.close();
+});
+
+function part(id: string, mpn: string): Part {
+  return { id, rev: 0, mpn, maker: 'Invented Test Works', description: 'test part', kind: 'resistor', ratings: {}, package: '0603' };
+}
+
+/** Resolves once the service emits a change about `what`. */
+function nextChange(s: BookService, what: string): Promise<void> {
+  return new Promise((resolve) => {
+    const on = (ev: Event) => {
+      if ((ev as CustomEvent<{ what: string }>).detail.what === what) {
+        s.removeEventListener('change', on);
+        resolve();
+      }
+    };
+    s.addEventListener('change', on);
+  });
+}
+
+describe('Book service', () => {
+  it('loads the demo Book with the built-in checks into a new database', async () => {
+    const s = await open();
+    const demo = demoBook();
+    expect(s.book.variants.map((v) => v.code).sort()).toEqual(demo.variants.map((v) => v.code).sort());
+    expect(s.book.settings.bookName).toBe(demo.settings.bookName);
+    expect(Object.keys(checkSheetTexts()).length).toBeGreaterThan(0);
+    expect(s.book.checks.length).toBeGreaterThan(0);
+    expect(s.book.checks.every((c) => c.builtIn)).toBe(true);
+  });
+
+  it('keeps saved changes on the next start instead of loading the demo again', async () => {
+    const name = `rungbook-ui-${++dbCount}`;
+    const a = await open(name);
+    const r = await a.save({ put: { parts: [part('part_new', 'ZZ-1')] } });
+    expect(r).toEqual({ ok: true });
+    expect(a.status.state).toBe('saved');
+    // Memory follows the store's revision rule: a new record is stored at revision 1.
+    expect(a.book.parts.find((p) => p.id === 'part_new')?.rev).toBe(1);
+    a.close();
+    const b = await open(name);
+    expect(b.book.parts.find((p) => p.id === 'part_new')?.mpn).toBe('ZZ-1');
+  });
+
+  it('keeps an emptied Book empty on the next start', async () => {
+    const name = `rungbook-ui-${++dbCount}`;
+    const a = await open(name);
+    expect((await a.replaceBook(a.empty())).ok).toBe(true);
+    expect(a.book.variants).toEqual([]);
+    a.close();
+    const b = await open(name);
+    expect(b.book.variants).toEqual([]);
+    expect(b.book.parts).toEqual([]);
+  });
+
+  it('tells a just-created database from a Book emptied on purpose', () => {
+    const fresh = emptyBook();
+    expect(isFirstStart(fresh)).toBe(true);
+    expect(isFirstStart({ ...fresh, settings: { ...fresh.settings, editsSinceExport: 0 } })).toBe(false);
+    expect(isFirstStart(demoBook())).toBe(false);
+  });
+
+  it('refuses a save made from an older revision, says why, and changes neither memory nor storage', async () => {
+    const name = `rungbook-ui-${++dbCount}`;
+    const a = await open(name);
+    const b = await open(name);
+    const original = b.book.suppliers[0]!;
+    expect((await a.save({ put: { suppliers: [{ ...original, notes: 'from tab A' }] } })).ok).toBe(true);
+    const stale = await b.save({ put: { suppliers: [{ ...original, notes: 'from tab B' }] } });
+    expect(stale.ok).toBe(false);
+    if (stale.ok) return;
+    expect(stale.conflict).toBe(true);
+    expect(stale.message).toMatch(/changed in another tab or window/);
+    expect(b.status).toMatchObject({ state: 'failed', conflict: true });
+    await b.reload();
+    expect(b.status.state).toBe('saved');
+    expect(b.book.suppliers.find((s) => s.id === original.id)?.notes).toBe('from tab A');
+  });
+
+  it('turns a malformed change into a message and writes nothing', async () => {
+    const s = await open();
+    const before = s.book.parts.length;
+    const r = await s.save({ put: { parts: [part('', 'NO-ID')] } });
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.message).toMatch(/no id/);
+    expect(s.status.state).toBe('failed');
+    await s.reload();
+    expect(s.book.parts.length).toBe(before);
+  });
+
+  it('re-reads the Book when another tab on the same Book saves', async () => {
+    const name = `rungbook-ui-${++dbCount}`;
+    const a = await open(name);
+    const b = await open(name);
+    const seen = nextChange(b, 'book');
+    await a.save({ put: { parts: [part('part_other_tab', 'ZZ-TAB')] } });
+    await seen;
+    expect(b.book.parts.some((p) => p.id === 'part_other_tab')).toBe(true);
+    expect(b.lastRemoteChange).toBeInstanceOf(Date);
+  });
+
+  it('counts changes since the last Book file and restarts the count when one is downloaded', async () => {
+    const s = await open();
+    await s.save({ put: { parts: [part('part_c1', 'ZZ-C1')] } });
+    await s.save({ put: { parts: [part('part_c2', 'ZZ-C2')] } });
+    expect(s.editsSinceExport).toBe(2);
+    const r = await s.markExported(new Date('2026-03-20T12:00:00Z'));
+    expect(r.ok).toBe(true);
+    expect(s.editsSinceExport).toBe(0);
+    expect(s.book.settings.lastExportAt).toBe('2026-03-20T12:00:00.000Z');
+  });
+});
