@@ -6,3 +6,5 @@ export { FamilyWorkbook, CheckSession, resolveFamily, evaluateChecks } from './f
 export type { CheckResult, EditResult, FamilyResolution, ResolvedLine, ResolveProblem, VariantResolution } from './family.ts';
 export { builtInChecks, addBuiltInChecks, parseCheckSheet, parseRule, formatRule, checkFromSheet } from './sheets.ts';
 export type { SheetCheck, SheetProblem, SheetResult } from './sheets.ts';
+export { guardFormula, evaluateFormula, describeFormulaError, FORMULA_LIMITS, FORMULA_REFUSALS } from './formula-guard.ts';
+export type { GuardResult, FormulaRefusal, FormulaLimits, EvaluateResult } from './formula-guard.ts';
