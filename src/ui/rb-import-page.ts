@@ -126,7 +126,7 @@ export class RbImportPage extends LitElement {
       }
       dl.found {
         display: grid;
-        grid-template-columns: max-content 1fr max-content;
+        grid-template-columns: max-content minmax(16rem, max-content) max-content;
         gap: 0.3rem 1rem;
         margin: 0;
         align-items: baseline;

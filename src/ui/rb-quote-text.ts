@@ -15,8 +15,9 @@ export function qtyText(qty: number): string {
   return String(qty).replace(/\B(?=(\d{3})+(?!\d))/g, '\u202f');
 }
 
+/** "10 @ 0.045 · 1000 @ 0.021": no-break spaces inside each break so a long list wraps only between breaks. */
 export function breaksText(breaks: readonly PriceBreak[]): string {
-  return breaks.map((b) => `${qtyText(b.qty)} @ ${priceText(b.price)}`).join(' · ');
+  return breaks.map((b) => `${qtyText(b.qty)}\u00a0@\u00a0${priceText(b.price)}`).join(' · ');
 }
 
 /** Lead time in days, with weeks beside it when it is a whole number of weeks ("35 d (5 wk)"). */
