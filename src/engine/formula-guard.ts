@@ -301,6 +301,12 @@ export function evaluateFormula(hf: HyperFormula, text: string, sheet: number, o
     }
     const value = hf.calculateFormula(g.formula, sheet);
     if (value instanceof DetailedCellError) return { ok: false, error: describeFormulaError(value) };
+    // The engine's result rounding turns numbers below about 1e-296 into NaN; a number that is not finite is never
+    // shown as one.
+    const numbers = Array.isArray(value) ? value.flat() : [value];
+    if (numbers.some((v) => typeof v === 'number' && !Number.isFinite(v))) {
+      return { ok: false, error: '#NUM! the result is not a finite number: a value is too large or too small for the engine (keep magnitudes between 1e-290 and 1e300)' };
+    }
     return { ok: true, value };
   } catch (e) {
     return { ok: false, error: `The formula could not be evaluated: ${engineFailure(e)}` };

@@ -210,3 +210,13 @@ describe('evaluateFormula gives error values with words, never an exception', ()
     expect(describeFormulaError({ type: 'NEW_KIND', value: '#NEW!', message: '' })).toBe('#NEW!');
   });
 });
+
+describe('evaluateFormula never shows a number that is not finite', () => {
+  it('a tiny number the engine rounds to NaN comes back as an error with words', () => {
+    // 1e-300 is a normal IEEE 754 double (the smallest normal is about 2.2e-308), so the right answer is 1e-300;
+    // the engine's display rounding turns it into NaN, which must not be shown as a number.
+    const r = evaluateFormula(hf, '=1e-300', sheet);
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.error).toMatch(/^#NUM! the result is not a finite number/);
+  });
+});
