@@ -17,6 +17,8 @@ import {
 export const COSTING_FUNCTION_DOCS = {
   COST_BEST:
     'COST_BEST(need, quote_rows): lowest base-currency cost in cents of buying `need` parts from any quote row (rate, MOQ, pack, then break qty/price pairs), buying up to a higher break where cheaper',
+  COST_RUN:
+    'COST_RUN(run, placements, settings_row, cents, …): unit cost at a run size, 4 decimals: material (cents spent / run) + labour + test + overhead, settings_row = rate/h, min/unit, min/placement, test, overhead %, margin %',
   COST_MATERIAL: 'COST_MATERIAL(run, cents, …): material per unit, 4 decimals, from the cents the run spends on each part',
   COST_LABOUR: 'COST_LABOUR(placements, rate_per_hour, minutes_per_unit, minutes_per_placement): labour per unit, 4 decimals',
   COST_OVERHEAD: 'COST_OVERHEAD(labour, overhead_pct): overhead per unit as a percentage of direct labour, 4 decimals',
@@ -74,6 +76,19 @@ export function bestCentsOverRows(need: number, rows: readonly (readonly unknown
   return best === Infinity ? 'no usable quote (every quote row lacks a rate, or has bad breaks)' : best;
 }
 
+/** The whole unit cost of one variant at one run size from a Settings row and the cents of its blocks. */
+export function unitCostFromRow(run: number, placements: number, row: readonly unknown[], cents: readonly number[]): number | string {
+  if (!Number.isInteger(run)) return `run size must be a whole number, got ${run}`;
+  const [rate, mpu, mpp, test, overheadPct] = [num(row[0]), num(row[1]), num(row[2]), num(row[3]), num(row[4])];
+  for (const [name, v] of [['labour rate', rate], ['minutes per unit', mpu], ['minutes per placement', mpp], ['test cost', test], ['overhead %', overheadPct]] as const) {
+    if (!(v >= 0)) return `${name} must be a number ≥ 0`;
+  }
+  let sum = 0;
+  for (const c of cents) sum += c;
+  const labour = labourUnit(rate, mpu, mpp, placements);
+  return unitCostOf(perUnitFromCents(sum, run), labour, roundUnit(test), overheadPerUnit(labour, overheadPct));
+}
+
 // The engine's internal argument types, taken from its own signature (they are not exported by name).
 type RunFunction = FunctionPlugin['runFunction'];
 type Ast = { args: Parameters<RunFunction>[0] };
@@ -85,6 +100,17 @@ export class CostingPlugin extends FunctionPlugin {
     COST_BEST: {
       method: 'costBest',
       parameters: [{ argumentType: FunctionArgumentType.NUMBER }, { argumentType: FunctionArgumentType.RANGE }],
+      vectorizationForbidden: true,
+    },
+    COST_RUN: {
+      method: 'costRun',
+      parameters: [
+        { argumentType: FunctionArgumentType.NUMBER, minValue: 1 },
+        { argumentType: FunctionArgumentType.NUMBER, minValue: 0 },
+        { argumentType: FunctionArgumentType.RANGE },
+        { argumentType: FunctionArgumentType.NUMBER },
+      ],
+      repeatLastArgs: 1,
       vectorizationForbidden: true,
     },
     COST_MATERIAL: {
@@ -127,6 +153,13 @@ export class CostingPlugin extends FunctionPlugin {
     return this.runFunction(ast.args, state, this.metadata('COST_BEST'), (need: number, range: SimpleRangeValue) => {
       const r = bestCentsOverRows(need, range.data);
       return typeof r === 'number' ? r : new CellError(ErrorType.VALUE, r);
+    });
+  }
+
+  costRun(ast: Ast, state: State): Value {
+    return this.runFunction(ast.args, state, this.metadata('COST_RUN'), (run: number, placements: number, settings: SimpleRangeValue, ...cents: number[]) => {
+      const unit = unitCostFromRow(run, placements, settings.data[0] ?? [], cents);
+      return typeof unit === 'number' ? unit : new CellError(ErrorType.VALUE, unit);
     });
   }
 

@@ -1,29 +1,38 @@
 // The costing workbook: every variant's unit cost at every run size, computed by the formula engine so that any cost
 // cell can be overridden with a formula, and laid out so that opening, a price edit and a rate change stay fast.
 //
-// Layout (chosen by measurement, see `npm run bench`; one ordinary formula per cost figure took ~1.8 s to open):
+// Layout (chosen by measurement, see `npm run bench`; one ordinary formula per cost figure took ~1.8 s to open here,
+// and the engine spends ~10–20 µs on every cell it recomputes, so the design counts cells):
 //   Rates     one row per currency: code, base units per unit.
 //   Settings  one row: labour rate/h, minutes per unit, minutes per placement, test cost, overhead %, margin %.
 //   Quotes    one row per usable quote, grouped by part then supplier: =Rates!B<k>, MOQ, pack, qty1, price1, …
 //   Demand    one cell per distinct (part, pinned supplier, need): =COST_BEST(need, Quotes!A<s>:<e>) → cents.
-//             Variants that need the same quantity of a part share the cell, so there are a few hundred, not 48,000.
-//   Variants  per variant: labour, test, overhead; per run size: material =COST_MATERIAL(run, Demand!A…, …),
-//             unit cost =COST_UNIT(…) and price =COST_PRICE(…).
-// A quote price edit dirties one Quotes cell, the few Demand cells of that part, and only the variants that buy that
-// part: the fan-out stays proportional to how widely the part is used. A rate edit dirties every Demand cell in that
-// currency, once each, however many variants share them. Validity (superseded, expired, bad breaks) is decided when
-// the workbook opens: edit those fields and reopen. The Demand key uses the need computed at open time, so editing
-// quantities, attrition or rules also means reopening; prices, rates, cost settings and overrides are live.
+//             Variants that need the same quantity of a part share the cell: a few hundred cells, not 48,000.
+//   Blocks    build lines that split the family alike (common to all; by steps; by stage…) are summed once per
+//             distinct choice: =SUM(Demand!A…) → cents. Lines sharing a part always share a block, so a variant's
+//             lines of one part merge into one purchase. A variant then reads a handful of block cells, not 80 lines.
+//   Variants  ONE cell per variant and run size: =COST_RUN(run, placements, Settings!A1:F1, Blocks!A…, …) → unit cost.
+//             The first override on a variant expands its row: labour, test, overhead and material get cells of their
+//             own (same kernels) and the unit cost becomes =COST_UNIT(material, labour, test, overhead).
+// A quote price edit dirties one Quotes cell, the few Demand cells of that part, their blocks, and only the variants
+// that buy that part. A rate edit dirties the Demand cells in that currency once each, however many variants share
+// them. Validity (superseded, expired, bad breaks) is decided at open: edit those fields and reopen. The Demand key
+// uses the need computed at open, so editing quantities, attrition or rules also means reopening; prices, rates,
+// cost settings and overrides are live. The price is derived on reading: unit cost / (1 − margin).
 import { HyperFormula } from 'hyperformula';
 import type { CellValue, ExportedChange, SimpleCellAddress } from 'hyperformula';
 import type { Book, CurrencyCode, Quote } from '../domain/book.ts';
 import {
   costVariantRun,
   candidateQuotes,
+  labourUnit,
+  overheadPerUnit,
   placementsPerUnit,
   prepareCosting,
   priceFor,
   quoteProblem,
+  roundUnit,
+  toTenThousandths,
   unitCostOf,
   resolveFixedLines,
   variantDemands,
@@ -36,8 +45,10 @@ import { ENGINE_DEFAULTS, registerRungbookFunctions } from './create.ts';
 export type Resolution = Map<string, readonly ResolvedLine[]>;
 
 /** Cost figures a user may override with a formula. labour, test and overhead are per variant; the rest per run. */
-export const COST_FIELDS = ['labour', 'test', 'overhead', 'material', 'unitCost', 'price'] as const;
+export const COST_FIELDS = ['labour', 'test', 'overhead', 'material', 'unitCost'] as const;
 export type CostField = (typeof COST_FIELDS)[number];
+/** Figures that can be read: the overridable ones and the price (derived from unit cost and margin). */
+export type CostFigure = CostField | 'price';
 const PER_VARIANT: ReadonlySet<CostField> = new Set(['labour', 'test', 'overhead']);
 
 export interface UnitCostRow {
@@ -89,12 +100,13 @@ export function fixedResolution(book: Book): Resolution {
   return new Map(book.variants.map((v) => [v.id, resolveFixedLines(book, v)] as const));
 }
 
+const SETTINGS_RANGE = 'Settings!$A$1:$F$1';
 const SHEETS = { rates: 'Rates', settings: 'Settings', quotes: 'Quotes', demand: 'Demand', blocks: 'Blocks', variants: 'Variants' } as const;
-/** Variants sheet columns: labour, test, overhead, then (material, unitCost, price) per run size. */
-const COL_LABOUR = 0;
-const COL_TEST = 1;
-const COL_OVERHEAD = 2;
-const RUN_COLS = 3;
+/** Variants sheet: unit cost per run size in columns 0…R−1; an expanded row adds labour, test, overhead, materials. */
+const EXP_LABOUR = 0;
+const EXP_TEST = 1;
+const EXP_OVERHEAD = 2;
+const EXP_MATERIAL = 3;
 
 function col(n: number): string {
   let s = '';
@@ -129,6 +141,9 @@ export class CostingWorkbook {
   private readonly sheet: Record<keyof typeof SHEETS, number>;
   private readonly variantRow = new Map<string, number>();
   private readonly variantAt: string[] = [];
+  /** Per variant row: placements per unit, and per run size the material formula's arguments (or a problem). */
+  private readonly plan: { placements: number; material: string[] }[] = [];
+  private readonly expanded = new Set<number>();
   private readonly quoteRow = new Map<string, { row: number; breaks: number }>();
   private readonly rateRow = new Map<CurrencyCode, number>();
   /** Original formulas of overridden cells, to restore on clear. */
@@ -334,29 +349,20 @@ export class CostingWorkbook {
     const variantRows: (string | number)[][] = [];
     const variantRow = new Map<string, number>();
     const variantAt: string[] = [];
-    const settingsRef = (c: number): string => `${SHEETS.settings}!$${col(c)}$1`;
+    const plan: { placements: number; material: string[] }[] = [];
     variants.forEach((v, i) => {
-      const r = variantRows.length;
-      const n = r + 1;
-      variantRow.set(v.id, r);
+      variantRow.set(v.id, variantRows.length);
       variantAt.push(v.id);
       const placements = placementsPerUnit(ctx, res.get(v.id) ?? []);
-      const row: (string | number)[] = [
-        `=COST_LABOUR(${placements},${settingsRef(0)},${settingsRef(1)},${settingsRef(2)})`,
-        `=COST_ROUND_UNIT(${settingsRef(3)})`,
-        `=COST_OVERHEAD(A${n},${settingsRef(4)})`,
-      ];
+      const row: string[] = [];
+      const material: string[] = [];
       for (let k = 0; k < runSizes.length; k++) {
-        const m = col(RUN_COLS + 3 * k);
         const problem = missing[i]![k];
-        row.push(
-          problem !== undefined
-            ? `=COST_PROBLEM("${quoteFormulaText(problem)}")`
-            : `=COST_MATERIAL(${runSizes[k]}${refs[i]![k]!.map((x) => ',' + x).join('')})`,
-          `=COST_UNIT(${m}${n},A${n},B${n},C${n})`,
-          `=COST_PRICE(${col(RUN_COLS + 3 * k + 1)}${n},${settingsRef(5)})`,
-        );
+        const args = refs[i]![k]!.map((x) => ',' + x).join('');
+        material.push(problem !== undefined ? `=COST_PROBLEM("${quoteFormulaText(problem)}")` : `=COST_MATERIAL(${runSizes[k]}${args})`);
+        row.push(problem !== undefined ? material[k]! : `=COST_RUN(${runSizes[k]},${placements},${SETTINGS_RANGE}${args})`);
       }
+      plan.push({ placements, material });
       variantRows.push(row);
     });
 
@@ -375,6 +381,7 @@ export class CostingWorkbook {
     );
     const wb = new CostingWorkbook(hf, book, res, ctx.date, [...runSizes], quotes);
     for (const [k, v] of variantRow) wb.variantRow.set(k, v);
+    wb.plan.push(...plan);
     wb.variantAt.push(...variantAt);
     for (const [k, v] of quoteRow) wb.quoteRow.set(k, v);
     for (const [k, v] of rateRow) wb.rateRow.set(k, v);
@@ -385,31 +392,81 @@ export class CostingWorkbook {
     return this.runSizes.indexOf(run);
   }
 
-  private address(variantId: string, field: CostField, run?: number): Result<SimpleCellAddress> {
-    const row = this.variantRow.get(variantId);
-    if (row === undefined) return { ok: false, error: `no variant with id ${variantId}` };
-    if (field === 'labour') return { ok: true, value: { sheet: this.sheet.variants, row, col: COL_LABOUR } };
-    if (field === 'test') return { ok: true, value: { sheet: this.sheet.variants, row, col: COL_TEST } };
-    if (field === 'overhead') return { ok: true, value: { sheet: this.sheet.variants, row, col: COL_OVERHEAD } };
-    const k = run === undefined ? -1 : this.runIndex(run);
-    if (k < 0) return { ok: false, error: `run size ${run} is not one of the Book's run sizes (${this.runSizes.join(', ')})` };
-    const off = field === 'material' ? 0 : field === 'unitCost' ? 1 : 2;
-    return { ok: true, value: { sheet: this.sheet.variants, row, col: RUN_COLS + 3 * k + off } };
+  private get runCount(): number {
+    return this.runSizes.length;
   }
 
-  /** A cost figure's value; NaN when it is an error or unknown. */
-  value(variantId: string, field: CostField, run?: number): number {
-    const at = this.address(variantId, field, run);
-    if (!at.ok) return NaN;
-    const v = this.hf.getCellValue(at.value);
+  /** Where a figure lives: unit costs always have a cell; the others only once the variant's row is expanded. */
+  private address(variantId: string, field: CostField, run?: number): Result<{ at: SimpleCellAddress; row: number; cell: boolean }> {
+    const row = this.variantRow.get(variantId);
+    if (row === undefined) return { ok: false, error: `no variant with id ${variantId}` };
+    const sheet = this.sheet.variants;
+    const R = this.runCount;
+    const perVariant = PER_VARIANT.has(field);
+    const k = perVariant ? 0 : run === undefined ? -1 : this.runIndex(run);
+    if (k < 0) return { ok: false, error: `run size ${run} is not one of the Book's run sizes (${this.runSizes.join(', ')})` };
+    if (field === 'unitCost') return { ok: true, value: { at: { sheet, row, col: k }, row, cell: true } };
+    const off = field === 'labour' ? EXP_LABOUR : field === 'test' ? EXP_TEST : field === 'overhead' ? EXP_OVERHEAD : EXP_MATERIAL + k;
+    return { ok: true, value: { at: { sheet, row, col: R + off }, row, cell: this.expanded.has(row) } };
+  }
+
+  /** Gives a variant's row its own labour, test, overhead and material cells (same kernels, same numbers). */
+  private expand(row: number): void {
+    if (this.expanded.has(row)) return;
+    const R = this.runCount;
+    const n = row + 1;
+    const p = this.plan[row]!;
+    const ref = (c: number): string => `${col(R + c)}${n}`;
+    const s = (c: number): string => `${SHEETS.settings}!$${col(c)}$1`;
+    const sheet = this.sheet.variants;
+    this.hf.batch(() => {
+      this.hf.setCellContents({ sheet, row, col: R + EXP_LABOUR }, `=COST_LABOUR(${p.placements},${s(0)},${s(1)},${s(2)})`);
+      this.hf.setCellContents({ sheet, row, col: R + EXP_TEST }, `=COST_ROUND_UNIT(${s(3)})`);
+      this.hf.setCellContents({ sheet, row, col: R + EXP_OVERHEAD }, `=COST_OVERHEAD(${ref(EXP_LABOUR)},${s(4)})`);
+      for (let k = 0; k < R; k++) {
+        this.hf.setCellContents({ sheet, row, col: R + EXP_MATERIAL + k }, p.material[k]!);
+        this.hf.setCellContents(
+          { sheet, row, col: k },
+          `=COST_UNIT(${ref(EXP_MATERIAL + k)},${ref(EXP_LABOUR)},${ref(EXP_TEST)},${ref(EXP_OVERHEAD)})`,
+        );
+      }
+    });
+    this.expanded.add(row);
+  }
+
+  /**
+   * A cost figure's value (per unit, base currency); NaN when it is an error or unknown. The price is the unit cost
+   * at the Book's margin. Figures of a row that has no cells of its own come from the same kernels in TypeScript.
+   */
+  value(variantId: string, field: CostFigure, run?: number): number {
+    if (field === 'price') {
+      const u = this.value(variantId, 'unitCost', run);
+      return Number.isFinite(u) ? priceFor(u, this.book.settings.marginPct) : NaN;
+    }
+    const where = this.address(variantId, field, run);
+    if (!where.ok) return NaN;
+    if (!where.value.cell) {
+      const s = this.book.settings;
+      const labour = labourUnit(s.labourRatePerHour, s.labourMinutesPerUnit, s.labourMinutesPerPlacement, this.plan[where.value.row]!.placements);
+      if (field === 'labour') return labour;
+      if (field === 'test') return roundUnit(s.testCostPerUnit);
+      if (field === 'overhead') return overheadPerUnit(labour, s.overheadPct);
+      // material: read back from the unit cost, which is material + the three per-variant figures.
+      const u = this.value(variantId, 'unitCost', run);
+      if (!Number.isFinite(u)) return NaN;
+      const rest = toTenThousandths(labour) + toTenThousandths(roundUnit(s.testCostPerUnit)) + toTenThousandths(overheadPerUnit(labour, s.overheadPct));
+      return (toTenThousandths(u) - rest) / 10_000;
+    }
+    const v = this.hf.getCellValue(where.value.at);
     return typeof v === 'number' ? v : NaN;
   }
 
   /** Why a cost figure cannot be computed, or undefined when it can. */
-  problem(variantId: string, field: CostField, run?: number): string | undefined {
-    const at = this.address(variantId, field, run);
-    if (!at.ok) return at.error;
-    return errorText(this.hf.getCellValue(at.value));
+  problem(variantId: string, field: CostFigure, run?: number): string | undefined {
+    const where = this.address(variantId, field === 'price' ? 'unitCost' : field, run);
+    if (!where.ok) return where.error;
+    if (!where.value.cell) return errorText(this.hf.getCellValue({ ...where.value.at, col: this.runIndex(run ?? this.runSizes[0]!) }));
+    return errorText(this.hf.getCellValue(where.value.at));
   }
 
   /** Unit cost of a variant at one of the Book's run sizes (NaN when it cannot be computed; see `problem`). */
@@ -422,18 +479,19 @@ export class CostingWorkbook {
     const values = this.hf.getSheetValues(this.sheet.variants);
     const out: UnitCostRow[] = [];
     const codes = new Map(this.book.variants.map((v) => [v.id, v.code] as const));
+    const margin = this.book.settings.marginPct;
     for (let r = 0; r < this.variantAt.length; r++) {
       const id = this.variantAt[r]!;
       const row = values[r] ?? [];
       for (let k = 0; k < this.runSizes.length; k++) {
-        const u = row[RUN_COLS + 3 * k + 1];
-        const p = row[RUN_COLS + 3 * k + 2];
+        const u = row[k];
+        const unitCost = typeof u === 'number' ? u : NaN;
         const item: UnitCostRow = {
           variantId: id,
           variant: codes.get(id) ?? id,
           run: this.runSizes[k]!,
-          unitCost: typeof u === 'number' ? u : NaN,
-          price: typeof p === 'number' ? p : NaN,
+          unitCost,
+          price: Number.isFinite(unitCost) ? priceFor(unitCost, margin) : NaN,
         };
         const e = errorText(u ?? null);
         if (e !== undefined) item.error = e;
@@ -454,38 +512,33 @@ export class CostingWorkbook {
   }
 
   /**
-   * The costed BOM of a variant for a run, with the live prices and rates. Overridden cost cells win over the computed
-   * figures (the lines stay as computed). Any run size works; overrides only exist for the Book's run sizes.
+   * The costed BOM of a variant for a run, with the live prices and rates. Overridden cost figures win over the
+   * computed ones (the lines stay as computed). Any run size works; overrides only exist for the Book's run sizes.
    */
   costedBom(variantId: string, run: number): Result<CostedBom> {
     const variant = this.book.variants.find((v) => v.id === variantId);
     if (!variant) return { ok: false, error: `no variant with id ${variantId}` };
     const r = costVariantRun(this.context(), variant, this.resolution.get(variantId) ?? [], run);
-    if (!r.ok || this.originals.size === 0) return r;
+    const row = this.variantRow.get(variantId)!;
+    if (!r.ok || !this.expanded.has(row)) return r;
     const bom = { ...r.value };
+    const known = this.runIndex(run) >= 0;
     for (const field of COST_FIELDS) {
-      const at = this.address(variantId, field, run);
-      if (!at.ok || !this.originals.has(this.key(at.value))) continue;
+      if (field === 'unitCost' || (!known && !PER_VARIANT.has(field))) continue;
       const v = this.value(variantId, field, run);
       if (!Number.isNaN(v)) bom[field] = v;
     }
-    if (this.runIndex(run) >= 0) {
-      bom.unitCost = this.value(variantId, 'unitCost', run);
-      bom.price = this.value(variantId, 'price', run);
-    } else {
-      bom.unitCost = unitCostOf(bom.material, bom.labour, bom.test, bom.overhead);
-      bom.price = priceFor(bom.unitCost, this.book.settings.marginPct);
-    }
+    bom.unitCost = known ? this.value(variantId, 'unitCost', run) : unitCostOf(bom.material, bom.labour, bom.test, bom.overhead);
+    bom.price = priceFor(bom.unitCost, this.book.settings.marginPct);
     return { ok: true, value: bom };
   }
 
   private changedCosts(changes: ExportedChange[]): ChangedCost[] {
     const out: ChangedCost[] = [];
+    const R = this.runCount;
     for (const c of changes) {
-      if (!('address' in c) || c.address.sheet !== this.sheet.variants) continue;
-      const k = c.address.col - RUN_COLS;
-      if (k < 0 || k % 3 !== 1) continue;
-      out.push({ variantId: this.variantAt[c.address.row]!, run: this.runSizes[(k - 1) / 3]! });
+      if (!('address' in c) || c.address.sheet !== this.sheet.variants || c.address.col >= R) continue;
+      out.push({ variantId: this.variantAt[c.address.row]!, run: this.runSizes[c.address.col]! });
     }
     return out;
   }
@@ -525,13 +578,13 @@ export class CostingWorkbook {
   }
 
   /**
-   * Overrides a cost figure with a formula ("=1.85", "=A1*1.1") or a number. A formula that does not parse or gives an
-   * error is refused and the cell keeps what it had. `run` is needed for material, unitCost and price.
+   * Overrides a cost figure with a formula ("=1.85", "=Variants!D4*1.1") or a number. A formula that does not parse or
+   * gives an error is refused and the cell keeps what it had. `run` is needed for material and unitCost.
    */
   setOverride(variantId: string, field: CostField, formula: string | number, run?: number): Result<ChangedCost[]> {
     if (!COST_FIELDS.includes(field)) return { ok: false, error: `no cost field ${String(field)}; use one of ${COST_FIELDS.join(', ')}` };
-    const at = this.address(variantId, field, PER_VARIANT.has(field) ? this.runSizes[0] : run);
-    if (!at.ok) return at;
+    const where = this.address(variantId, field, run);
+    if (!where.ok) return where;
     let content: string | number;
     if (typeof formula === 'number') {
       if (!Number.isFinite(formula)) return { ok: false, error: `an override must be a finite number, got ${formula}` };
@@ -548,26 +601,28 @@ export class CostingWorkbook {
         content = n;
       }
     }
-    const k = this.key(at.value);
-    const before = this.hf.getCellFormula(at.value) ?? String(this.hf.getCellValue(at.value));
-    const changes = this.hf.setCellContents(at.value, content);
-    const after = this.hf.getCellValue(at.value);
-    if (typeof after !== 'number') {
-      this.hf.setCellContents(at.value, before);
-      return { ok: false, error: `the override ${String(content)} gives ${errorText(after) ?? 'no number'}; nothing changed` };
+    // Try the content in a scratch cell first, so a formula that gives an error changes nothing at all.
+    const probe = this.hf.calculateFormula(typeof content === 'number' ? `=${content}` : content, this.sheet.variants);
+    if (typeof probe !== 'number') {
+      return { ok: false, error: `the override ${String(content)} gives ${errorText(probe as CellValue) ?? 'no number'}; nothing changed` };
     }
+    this.expand(where.value.row);
+    const at = where.value.at;
+    const k = this.key(at);
+    const before = this.hf.getCellFormula(at) ?? String(this.hf.getCellValue(at));
+    const changes = this.hf.setCellContents(at, content);
     if (!this.originals.has(k)) this.originals.set(k, before);
     return { ok: true, value: this.changedCosts(changes) };
   }
 
   /** Puts back the computed formula of an overridden cost figure. */
   clearOverride(variantId: string, field: CostField, run?: number): Result<ChangedCost[]> {
-    const at = this.address(variantId, field, PER_VARIANT.has(field) ? this.runSizes[0] : run);
-    if (!at.ok) return at;
-    const k = this.key(at.value);
+    const where = this.address(variantId, field, run);
+    if (!where.ok) return where;
+    const k = this.key(where.value.at);
     const original = this.originals.get(k);
     if (original === undefined) return { ok: false, error: `${field} of that variant is not overridden` };
-    const changes = this.hf.setCellContents(at.value, original);
+    const changes = this.hf.setCellContents(where.value.at, original);
     this.originals.delete(k);
     return { ok: true, value: this.changedCosts(changes) };
   }
