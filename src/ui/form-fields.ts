@@ -71,3 +71,9 @@ export function field(o: FieldOptions): TemplateResult {
 export function group(title: string): TemplateResult {
   return html`<div class="group">${title}</div>`;
 }
+
+/** After a refused submit: move focus (and the view) to the first field with a problem. */
+export async function focusFirstProblem(host: { updateComplete: Promise<boolean>; renderRoot: HTMLElement | DocumentFragment }): Promise<void> {
+  await host.updateComplete;
+  host.renderRoot.querySelector<HTMLElement>('[aria-invalid="true"]')?.focus();
+}

@@ -7,7 +7,7 @@ import { newId } from '../domain/book.ts';
 import { VARIANT_PARAMS } from '../domain/params.ts';
 import { formatValue } from '../domain/units.ts';
 import { BookController } from './book-context.ts';
-import { field, group } from './form-fields.ts';
+import { field, focusFirstProblem, group } from './form-fields.ts';
 import type { FieldProblems, VariantDraft } from './record-forms.ts';
 import { paramInfo, paramNames, validateVariant, variantDraft, variantUsers } from './record-forms.ts';
 import { pageStyles } from './styles.ts';
@@ -182,6 +182,7 @@ export class RbFamilyPage extends LitElement {
     const r = validateVariant(e.draft, book, e.variant, () => newId('var'));
     if (!r.ok) {
       this.editing = { ...e, problems: r.problems };
+      await focusFirstProblem(this);
       return;
     }
     this.editing = { ...e, problems: {} };

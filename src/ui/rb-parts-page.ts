@@ -7,7 +7,7 @@ import { PART_KINDS, newId } from '../domain/book.ts';
 import { PART_RATINGS } from '../domain/params.ts';
 import { formatValue } from '../domain/units.ts';
 import { BookController } from './book-context.ts';
-import { field, group } from './form-fields.ts';
+import { field, focusFirstProblem, group } from './form-fields.ts';
 import type { FieldProblems, PartDraft } from './record-forms.ts';
 import { KIND_VALUE_UNITS, partDraft, partUsers, validatePart } from './record-forms.ts';
 import { pageStyles } from './styles.ts';
@@ -198,6 +198,7 @@ export class RbPartsPage extends LitElement {
     const r = validatePart(e.draft, book, e.part, () => newId('part'));
     if (!r.ok) {
       this.editing = { ...e, problems: r.problems };
+      await focusFirstProblem(this);
       return;
     }
     this.editing = { ...e, problems: {} };

@@ -5,7 +5,7 @@ import { customElement, state } from 'lit/decorators.js';
 import type { Book, Supplier } from '../domain/book.ts';
 import { newId } from '../domain/book.ts';
 import { BookController } from './book-context.ts';
-import { field } from './form-fields.ts';
+import { field, focusFirstProblem } from './form-fields.ts';
 import type { FieldProblems, SupplierDraft } from './record-forms.ts';
 import { supplierDraft, supplierUsers, validateSupplier } from './record-forms.ts';
 import { pageStyles } from './styles.ts';
@@ -160,6 +160,7 @@ export class RbSuppliersPage extends LitElement {
     const r = validateSupplier(e.draft, book, e.supplier, () => newId('sup'));
     if (!r.ok) {
       this.editing = { ...e, problems: r.problems };
+      await focusFirstProblem(this);
       return;
     }
     this.editing = { ...e, problems: {} };

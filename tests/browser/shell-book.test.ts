@@ -3,6 +3,7 @@
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { demoBook } from '../../src/domain/demo-book.ts';
+import { PAGES } from '../../src/ui/pages.ts';
 import { openSession } from './harness.ts';
 import type { Session } from './harness.ts';
 
@@ -107,10 +108,16 @@ describe('app shell with the Book in IndexedDB', () => {
     await page.reload();
     await page.locator('[data-testid="suppliers-table"]').waitFor();
     expect(await page.locator('[data-testid="suppliers-table"] tbody tr').count()).toBe(demo.suppliers.length);
-    await page.locator('nav a[href="#/quotes"]').click();
-    await page.locator('[data-testid="page-plan"]').waitFor();
-    await expect(page.locator('[data-testid="page-plan"]').textContent()).resolves.toMatch(/price breaks/);
-    expect(new URL(page.url()).hash).toBe('#/quotes');
+    // Pages are built one by one; while one is not, it says what it will hold instead of showing a fake.
+    const unbuilt = PAGES.find((p) => !p.tag);
+    if (unbuilt) {
+      await page.locator(`nav a[href="#/${unbuilt.slug}"]`).click();
+      await page.locator('[data-testid="page-plan"]').waitFor();
+      await expect(page.locator('[data-testid="page-plan"] p').textContent()).resolves.toBe(unbuilt.plan);
+      expect(new URL(page.url()).hash).toBe(`#/${unbuilt.slug}`);
+    } else {
+      expect(await page.locator('nav .later').count()).toBe(0);
+    }
     expect(errors).toEqual([]);
   });
 
