@@ -8,3 +8,6 @@ export { builtInChecks, addBuiltInChecks, parseCheckSheet, parseRule, formatRule
 export type { SheetCheck, SheetProblem, SheetResult } from './sheets.ts';
 export { guardFormula, evaluateFormula, describeFormulaError, FORMULA_LIMITS, FORMULA_REFUSALS } from './formula-guard.ts';
 export type { GuardResult, FormulaRefusal, FormulaLimits, EvaluateResult } from './formula-guard.ts';
+export { CostingWorkbook, COST_FIELDS, fixedResolution, resolutionFromFamily } from './costing.ts';
+export type { ChangedCost, CostField, CostFigure, Resolution, UnitCostRow } from './costing.ts';
+export { registerCostingFunctions, COSTING_FUNCTION_DOCS } from './costing-functions.ts';
