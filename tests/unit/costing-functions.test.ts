@@ -1,0 +1,58 @@
+// Every costing function resolves by name in an engine and gives the worked values of REFERENCES.md "Costing".
+import { describe, expect, it } from 'vitest';
+import { HyperFormula } from 'hyperformula';
+import { COSTING_FUNCTION_DOCS, CostingPlugin, registerCostingFunctions } from '../../src/engine/costing-functions.ts';
+import { ENGINE_DEFAULTS } from '../../src/engine/create.ts';
+
+function engine(): HyperFormula {
+  registerCostingFunctions();
+  return HyperFormula.buildFromSheets(
+    {
+      // REFERENCES all-units example as one quote row: rate 1, MOQ 1, pack 10, then break qty/price pairs.
+      Quotes: [[1, 1, 10, 1, 0.3, 100, 0.2, 500, 0.15, 1000, 0.12, 2500, 0.09]],
+      // Standard-cost example settings: 15.00/h, 7.2 min (0.12 h) per unit, no placement minutes, no test, 100 %, 20 %.
+      Settings: [[15, 7.2, 0, 0, 100, 20]],
+    },
+    { ...ENGINE_DEFAULTS, smartRounding: false },
+  );
+}
+
+describe('costing functions', () => {
+  it('has a doc line for every function and every documented function exists', () => {
+    expect(Object.keys(COSTING_FUNCTION_DOCS).sort()).toEqual(Object.keys(CostingPlugin.implementedFunctions).sort());
+  });
+
+  it('resolves every function by name and gives the worked values', () => {
+    const hf = engine();
+    const sheet = hf.getSheetId('Quotes')!;
+    const calc = (f: string): unknown => hf.calculateFormula(f, sheet);
+    // REFERENCES buy-up: need 909, pack 10 → 1000 × 0.12 = 120.00 beats 910 × 0.15 = 136.50 → 12000 cents.
+    expect(calc('=COST_BEST(909, Quotes!A1:M1)')).toBe(12000);
+    // REFERENCES standard cost: material 1850.00 over 1000 units = 1.85; labour 0.12 h × 15.00 = 1.80; overhead 1.80.
+    expect(calc('=COST_MATERIAL(1000, 185000)')).toBe(1.85);
+    expect(calc('=COST_LABOUR(0, 15, 7.2, 0)')).toBe(1.8);
+    expect(calc('=COST_OVERHEAD(1.8, 100)')).toBe(1.8);
+    expect(calc('=COST_UNIT(1.85, 1.8, 0, 1.8)')).toBe(5.45);
+    expect(calc('=COST_RUN(1000, 0, Settings!A1:F1, 185000)')).toBe(5.45);
+    // Gross margin on price: 5.45 / (1 − 0.20) = 6.8125 (common practice).
+    expect(calc('=COST_PRICE(5.45, 20)')).toBe(6.8125);
+    // Half away from zero at 4 decimals: 1.00005 → 1.0001 (by hand).
+    expect(calc('=COST_ROUND_UNIT(1.00005)')).toBe(1.0001);
+    hf.destroy();
+  });
+
+  it('gives error values with a message for bad arguments, never a number', () => {
+    const hf = engine();
+    const sheet = hf.getSheetId('Quotes')!;
+    const err = (f: string): string => {
+      const v = hf.calculateFormula(f, sheet) as { type?: string; message?: string };
+      expect(typeof v).toBe('object');
+      return v.message ?? '';
+    };
+    expect(err('=COST_PROBLEM("no usable quote for X")')).toBe('no usable quote for X');
+    expect(err('=COST_PRICE(5, 100)')).toMatch(/below 100/);
+    expect(err('=COST_BEST(9.5, Quotes!A1:M1)')).toMatch(/whole number/);
+    expect(err('=COST_BEST(5, Settings!A1:F1)')).toMatch(/no usable quote|bad breaks/);
+    hf.destroy();
+  });
+});
