@@ -62,9 +62,8 @@ export const PAGES: readonly PageEntry[] = [
     slug: 'checks',
     title: 'Checks',
     blurb: 'Engineering checks evaluated for every variant, with pass, margin or fail and the figure behind it.',
-    plan:
-      'A grid of checks against variants, each cell showing the computed figure with its unit and a pass / ' +
-      'margin / fail / n/a mark, and the formula and note of the selected check.',
+    tag: 'rb-checks-page',
+    load: () => import('./rb-checks-page.ts'),
     mains: true,
   },
   {

@@ -1,0 +1,335 @@
+// The form to add or edit a check: name, title, group, formula, unit, rule (kind, limits, margin), applies-when and
+// note, with each problem beside its field and a preview of the check on every variant before it is saved.
+import { LitElement, css, html } from 'lit';
+import { customElement, property, state } from 'lit/decorators.js';
+import type { Book, Check, CheckRule, CheckRuleKind } from '../domain/book.ts';
+import { CHECK_RULE_KINDS, newId } from '../domain/book.ts';
+import { STATUS_SYMBOL } from '../domain/check-status.ts';
+import { PART_RATINGS } from '../domain/params.ts';
+import { canonicalUnit, formatValue } from '../domain/units.ts';
+import { evaluateChecks } from '../engine/family.ts';
+import type { CheckResult } from '../engine/family.ts';
+import { formulaBody, nameKey, tokenizeFormula } from '../engine/formula-names.ts';
+import { BookController } from './book-context.ts';
+import { field, fieldId } from './form-fields.ts';
+import type { FieldProblems } from './record-forms.ts';
+import { checkFormulaNames } from './rb-formula-input.ts';
+import type { NameHint } from './rb-formula-input.ts';
+import { pageStyles } from './styles.ts';
+import './rb-formula-input.ts';
+
+export interface CheckDraft {
+  name: string;
+  title: string;
+  group: string;
+  formula: string;
+  unit: string;
+  kind: CheckRuleKind;
+  limit: string;
+  low: string;
+  high: string;
+  /** Margin band in percent of the limit, as typed ("10" or "10 %"). */
+  margin: string;
+  applies: string;
+  note: string;
+}
+
+export function checkDraft(check?: Check): CheckDraft {
+  const r = check?.rule;
+  return {
+    name: check?.name ?? '',
+    title: check?.title ?? '',
+    group: check?.group ?? 'my checks',
+    formula: check?.formula ?? '',
+    unit: check?.unit ?? '',
+    kind: r?.kind ?? 'max',
+    limit: r?.limit ?? '',
+    low: r?.low ?? '',
+    high: r?.high ?? '',
+    margin: r?.margin === undefined ? '' : String(Number((r.margin * 100).toPrecision(6))),
+    applies: check?.appliesWhen ?? '',
+    note: check?.note ?? '',
+  };
+}
+
+function formulaProblem(text: string, what: string, required: boolean): string | undefined {
+  const body = formulaBody(text);
+  if (body === '') return required ? `${what} is required` : undefined;
+  const t = tokenizeFormula(body);
+  return t.ok ? undefined : t.error;
+}
+
+/** Checks a draft against the Book; gives the record (rev 0 for a new check) or messages keyed by field. */
+export function validateCheckDraft(
+  d: CheckDraft,
+  book: Book,
+  editing: Check | undefined,
+  makeId: () => string = () => newId('check'),
+): { ok: true; record: Check } | { ok: false; problems: FieldProblems } {
+  const problems: FieldProblems = {};
+  const name = d.name.trim();
+  const key = nameKey(name);
+  if (name === '') problems.name = 'name is required';
+  else if (!/^[a-z_][a-z0-9_]*$/.test(name)) problems.name = 'small letters, digits and _ only, starting with a letter (formulas read the check by this name)';
+  else if (book.checks.some((c) => c.id !== editing?.id && nameKey(c.name) === key)) problems.name = `another check is already called ${name}`;
+  else if (book.variants.some((v) => Object.keys(v.params).some((p) => nameKey(p) === key))) problems.name = `${name} is a variant parameter; choose another name`;
+  else if (PART_RATINGS.some((r) => key.endsWith(`_${r.name}`)) || key.endsWith('_value')) {
+    const roles = new Set(book.buildLines.map((l) => (l.role ? nameKey(l.role) : '')));
+    const clash = [...roles].some((role) => role !== '' && key.startsWith(`${role}_`));
+    if (clash) problems.name = `${name} is a part rating name of a build-line role; choose another name`;
+  }
+  if (d.title.trim() === '') problems.title = 'title is required';
+  const fp = formulaProblem(d.formula, 'formula', true);
+  if (fp) problems.formula = fp;
+  const rule: CheckRule = { kind: d.kind };
+  if (!(CHECK_RULE_KINDS as readonly string[]).includes(d.kind)) problems.kind = 'choose max, min, between or true';
+  if (d.kind === 'max' || d.kind === 'min') {
+    const p = formulaProblem(d.limit, 'the limit', true);
+    if (p) problems.limit = p;
+    else rule.limit = formulaBody(d.limit);
+  } else if (d.kind === 'between') {
+    const lo = formulaProblem(d.low, 'the low limit', true);
+    const hi = formulaProblem(d.high, 'the high limit', true);
+    if (lo) problems.low = lo;
+    else rule.low = formulaBody(d.low);
+    if (hi) problems.high = hi;
+    else rule.high = formulaBody(d.high);
+  }
+  const m = d.margin.trim().replace(/\s*%$/, '');
+  if (m !== '') {
+    const n = Number(m);
+    if (!Number.isFinite(n) || n < 0 || n >= 100) problems.margin = 'a percentage from 0 up to (not including) 100';
+    else if (n > 0) rule.margin = n / 100;
+  }
+  const ap = formulaProblem(d.applies, 'applies-when', false);
+  if (ap) problems.applies = ap;
+  if (Object.keys(problems).length > 0) return { ok: false, problems };
+  return {
+    ok: true,
+    record: {
+      id: editing?.id ?? makeId(),
+      rev: editing?.rev ?? 0,
+      name,
+      title: d.title.trim(),
+      group: d.group.trim() || 'my checks',
+      formula: formulaBody(d.formula),
+      unit: canonicalUnit(d.unit),
+      rule,
+      appliesWhen: formulaBody(d.applies),
+      note: d.note.trim(),
+      builtIn: editing?.builtIn ?? false,
+    },
+  };
+}
+
+/** The check on every variant, evaluated with the Book's other checks (so it may read them by name). */
+export function previewCheck(book: Book, record: Check): CheckResult[] {
+  const checks = [...book.checks.filter((c) => c.id !== record.id), record];
+  const variants = new Set(book.variants.map((v) => v.id));
+  return evaluateChecks(book, checks).filter((r) => r.checkId === record.id && variants.has(r.variantId));
+}
+
+/**
+ * Where an error that every variant shares belongs: a rule or applies-when problem beside that field, anything else
+ * beside the formula. Undefined when at least one variant gets an answer.
+ */
+export function sharedProblem(results: readonly CheckResult[], kind: CheckRuleKind): FieldProblems | undefined {
+  if (results.length === 0 || results.some((r) => r.status !== 'error')) return undefined;
+  const message = results[0]!.message;
+  if (message.startsWith('applies')) return { applies: message };
+  const rule = /^rule (limit|low|high)/.exec(message);
+  if (rule) return { [rule[1]!]: message };
+  if (message.startsWith('rule:')) return { [kind === 'between' ? 'low' : 'limit']: message };
+  return { formula: message };
+}
+
+export type CheckSavedDetail = { checkId: string };
+
+@customElement('rb-check-form')
+export class RbCheckForm extends LitElement {
+  static override styles = [
+    pageStyles,
+    css`
+      :host {
+        display: block;
+      }
+      .preview {
+        grid-column: 2 / -1;
+        display: flex;
+        flex-wrap: wrap;
+        gap: 0.3rem 0.5rem;
+        font-size: 0.8rem;
+      }
+      .preview span {
+        font-family: var(--rb-mono);
+        border: 1px solid var(--rb-rule);
+        padding: 0 0.35rem;
+        border-radius: 3px;
+      }
+      .preview .fail,
+      .preview .error {
+        color: var(--rb-fail);
+        background: var(--rb-fail-bg);
+      }
+      .preview .margin {
+        color: var(--rb-margin);
+        background: var(--rb-margin-bg);
+      }
+      .preview .pass {
+        color: var(--rb-pass);
+      }
+    `,
+  ];
+
+  /** The check being edited; undefined for a new one. */
+  @property({ attribute: false }) check: Check | undefined;
+  @state() private draft: CheckDraft = checkDraft();
+  @state() private problems: FieldProblems = {};
+  @state() private saveError = '';
+  @state() private preview: CheckResult[] = [];
+  private readonly books = new BookController(this);
+  private timer: ReturnType<typeof setTimeout> | undefined;
+  private names: readonly NameHint[] = [];
+  private namesFor: Book | undefined;
+
+  override willUpdate(changed: Map<PropertyKey, unknown>): void {
+    if (changed.has('check')) {
+      this.draft = checkDraft(this.check);
+      this.problems = {};
+      this.saveError = '';
+      this.schedulePreview();
+    }
+  }
+
+  override disconnectedCallback(): void {
+    super.disconnectedCallback();
+    clearTimeout(this.timer);
+  }
+
+  override render() {
+    const book = this.books.book;
+    if (!book) return html``;
+    if (this.namesFor !== book) {
+      this.names = checkFormulaNames(book);
+      this.namesFor = book;
+    }
+    const d = this.draft;
+    const p = this.problems;
+    const set = (patch: Partial<CheckDraft>) => {
+      this.draft = { ...this.draft, ...patch };
+      this.schedulePreview();
+    };
+    const formula = (name: keyof CheckDraft, label: string, hint: string, placeholder = '') => {
+      const id = fieldId(name);
+      return html`<label for=${id}>${label}</label>
+        <rb-formula-input
+          id=${id}
+          data-field=${name}
+          .label=${label}
+          .value=${d[name]}
+          .names=${this.names}
+          .placeholder=${placeholder}
+          ?invalid=${Boolean(p[name])}
+          @formula-input=${(e: CustomEvent<{ value: string }>) => set({ [name]: e.detail.value })}
+        ></rb-formula-input>
+        ${p[name]
+          ? html`<span class="problem" data-problem-for=${name} role="alert">${p[name]}</span>`
+          : html`<span class="hint">${hint}</span>`}`;
+    };
+    const c = this.check;
+    return html`<form class="record" novalidate aria-label="Check" @submit=${(e: Event) => this.submit(e)}>
+      ${this.saveError ? html`<p class="notice" role="alert" style="grid-column: 1 / -1">${this.saveError}</p>` : ''}
+      ${field({ name: 'name', label: 'name', value: d.name, problem: p.name, hint: 'how formulas refer to it, e.g. zener_share', onInput: (v) => set({ name: v }) })}
+      ${field({ name: 'title', label: 'title', value: d.title, problem: p.title, hint: 'one line saying what is checked', onInput: (v) => set({ title: v }) })}
+      ${field({ name: 'group', label: 'group', value: d.group, hint: 'checks of a group are listed together', onInput: (v) => set({ group: v }) })}
+      ${formula('formula', 'formula', 'the figure to judge, from parameters (load_w), part ratings (switch_v_max) and checks', 'MAINS_PEAK(mains_v, mains_tol)')}
+      ${field({ name: 'unit', label: 'unit', value: d.unit, hint: 'V, A, W, Ω, F, s, Hz, °C, K/W, or blank', onInput: (v) => set({ unit: v }) })}
+      ${field({
+        name: 'kind',
+        label: 'rule',
+        value: d.kind,
+        problem: p.kind,
+        choices: CHECK_RULE_KINDS,
+        hint: 'max: at most the limit · min: at least · between: low … high · true: a TRUE result passes',
+        onInput: (v) => set({ kind: v as CheckRuleKind }),
+      })}
+      ${d.kind === 'max' || d.kind === 'min' ? formula('limit', 'limit', 'a number or a formula, e.g. switch_v_max * 0.8') : ''}
+      ${d.kind === 'between' ? html`${formula('low', 'low limit', 'a number or a formula')}${formula('high', 'high limit', 'a number or a formula')}` : ''}
+      ${d.kind !== 'true'
+        ? field({ name: 'margin', label: 'margin %', value: d.margin, problem: p.margin, hint: 'within this share of the limit shows “margin” instead of “pass”', onInput: (v) => set({ margin: v }) })
+        : ''}
+      ${formula('applies', 'applies when', 'blank for every variant; e.g. supply="dropper" — elsewhere the check shows n/a')}
+      ${field({ name: 'note', label: 'note', value: d.note, multiline: true, hint: 'why the rule holds and where it comes from', onInput: (v) => set({ note: v }) })}
+      <span></span>
+      <div class="preview" aria-label="Preview on every variant" data-testid="check-preview">
+        ${this.preview.map(
+          (r) => html`<span class=${r.status === 'n/a' ? 'na' : r.status} title=${r.message}
+            >${r.variantCode} ${STATUS_SYMBOL[r.status]} ${r.status}${typeof r.value === 'number' ? ` · ${formatValue(r.value, r.unit)}` : ''}</span
+          >`,
+        )}
+      </div>
+      <span></span>
+      <div class="actions">
+        <button type="submit" class="primary">${c ? 'Save the check' : 'Add the check'}</button>
+        <button type="button" @click=${() => this.dispatchEvent(new CustomEvent('check-cancel', { bubbles: true, composed: true }))}>Cancel</button>
+        ${Object.keys(p).length ? html`<span class="problem" role="alert">Nothing saved: fix the marked fields.</span>` : ''}
+      </div>
+    </form>`;
+  }
+
+  private schedulePreview(): void {
+    clearTimeout(this.timer);
+    this.timer = setTimeout(() => this.runPreview(), 250);
+  }
+
+  /** Evaluates the draft on every variant; returns the problems that block saving (none when some variant answers). */
+  private runPreview(): FieldProblems {
+    const book = this.books.book;
+    if (!book) return {};
+    const v = validateCheckDraft(this.draft, book, this.check, () => 'check_draft');
+    if (!v.ok) {
+      this.preview = [];
+      return v.problems;
+    }
+    this.preview = previewCheck(book, v.record);
+    return sharedProblem(this.preview, this.draft.kind) ?? {};
+  }
+
+  private async submit(e: Event): Promise<void> {
+    e.preventDefault();
+    clearTimeout(this.timer);
+    const service = this.books.service;
+    const book = this.books.book;
+    if (!service || !book) return;
+    if (this.check && !book.checks.some((c) => c.id === this.check!.id)) {
+      this.saveError = 'This check was deleted elsewhere; nothing was saved.';
+      return;
+    }
+    const v = validateCheckDraft(this.draft, book, this.check);
+    if (!v.ok) {
+      this.problems = v.problems;
+      return;
+    }
+    this.preview = previewCheck(book, v.record);
+    const shared = sharedProblem(this.preview, this.draft.kind);
+    if (shared) {
+      this.problems = shared;
+      return;
+    }
+    this.problems = {};
+    const held = book.checks.find((c) => c.id === v.record.id);
+    const record = held ? { ...v.record, rev: held.rev } : v.record;
+    const result = await service.save({ put: { checks: [record] } });
+    if (!result.ok) {
+      this.saveError = result.message;
+      return;
+    }
+    this.dispatchEvent(new CustomEvent<CheckSavedDetail>('check-saved', { detail: { checkId: record.id }, bubbles: true, composed: true }));
+  }
+}
+
+declare global {
+  interface HTMLElementTagNameMap {
+    'rb-check-form': RbCheckForm;
+  }
+}
