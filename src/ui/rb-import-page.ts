@@ -36,6 +36,7 @@ export const DEMO_FILES = [
 const MAX_FILE_BYTES = 64 * 1024 * 1024;
 const PREVIEW_ROWS = 20;
 const PROBLEM_ROWS = 200;
+const UNMATCHED_ROWS = 200;
 const NEW_SUPPLIER = '__new__';
 
 interface Source {
@@ -84,6 +85,10 @@ export class RbImportPage extends LitElement {
   static override styles = [
     pageStyles,
     css`
+      button:disabled {
+        opacity: 0.45;
+        cursor: not-allowed;
+      }
       .pick {
         display: flex;
         flex-wrap: wrap;
@@ -127,6 +132,7 @@ export class RbImportPage extends LitElement {
       dl.found {
         display: grid;
         grid-template-columns: max-content minmax(16rem, max-content) max-content;
+        justify-content: start;
         gap: 0.3rem 1rem;
         margin: 0;
         align-items: baseline;
@@ -202,6 +208,7 @@ export class RbImportPage extends LitElement {
   @state() private decisions: Record<string, UnmatchedDecision> = {};
   @state() private allowReimport = false;
   @state() private showAllProblems = false;
+  @state() private showAllUnmatched = false;
   @state() private committing = false;
   @state() private commitProblem: string | undefined;
   @state() private done: Done | undefined;
@@ -518,6 +525,8 @@ export class RbImportPage extends LitElement {
     const setAll = (d: UnmatchedDecision): void => {
       this.decisions = Object.fromEntries(plan.unmatched.map((u) => [u.key, d]));
     };
+    const shown = this.showAllUnmatched ? plan.unmatched : plan.unmatched.slice(0, UNMATCHED_ROWS);
+    const creating = plan.unmatched.filter((u) => (this.decisions[u.key] ?? 'skip') === 'create').length;
     return html`<section class="sheet" aria-labelledby="import-unmatched-h">
       <h2 id="import-unmatched-h">Rows without a part in the Book</h2>
       <p class="why">
@@ -527,6 +536,7 @@ export class RbImportPage extends LitElement {
       <div class="toolbar">
         <button type="button" @click=${() => setAll('create')}>Create all as new parts</button>
         <button type="button" @click=${() => setAll('skip')}>Skip all</button>
+        <span class="muted" data-testid="unmatched-choice">${plural(plan.unmatched.length, 'row')}: ${creating.toLocaleString('en')} to create, ${(plan.unmatched.length - creating).toLocaleString('en')} to skip</span>
       </div>
       <div class="scroll">
         <table class="records" data-testid="unmatched-table">
@@ -540,7 +550,7 @@ export class RbImportPage extends LitElement {
             </tr>
           </thead>
           <tbody>
-            ${plan.unmatched.map(
+            ${shown.map(
               (u) => html`<tr data-key=${u.key}>
                 <td class="num">${u.line}</td>
                 <td class="code">${u.mpn}</td>
@@ -564,6 +574,12 @@ export class RbImportPage extends LitElement {
           </tbody>
         </table>
       </div>
+      ${plan.unmatched.length > shown.length
+        ? html`<p class="muted">
+            ${shown.length} of ${plan.unmatched.length} shown.
+            <button type="button" @click=${() => (this.showAllUnmatched = true)}>Show all ${plan.unmatched.length}</button>
+          </p>`
+        : ''}
     </section>`;
   }
 
@@ -741,6 +757,7 @@ export class RbImportPage extends LitElement {
     this.mappingConfirmed = false;
     this.commitProblem = undefined;
     this.showAllProblems = false;
+    this.showAllUnmatched = false;
     this.abort?.abort();
     const book = this.books.book;
     const supplier = book?.suppliers.find((s) => s.id === this.supplierId);

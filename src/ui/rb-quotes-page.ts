@@ -14,6 +14,10 @@ import { pageStyles } from './styles.ts';
 
 type Editing = { quote: Quote | undefined; saveError?: string };
 
+function n(count: number): string {
+  return count.toLocaleString('en');
+}
+
 /** Rows drawn at once; a Book with tens of thousands of imported quotes stays quick to show. */
 const PAGE_ROWS = 300;
 
@@ -42,6 +46,12 @@ export class RbQuotesPage extends LitElement {
       }
       tr.expired td {
         background: var(--rb-margin-bg);
+      }
+      td.supplier {
+        white-space: nowrap;
+      }
+      td.status-cell {
+        max-width: 11rem;
       }
       td.breaks {
         font-family: var(--rb-mono);
@@ -73,6 +83,7 @@ export class RbQuotesPage extends LitElement {
   @state() private shown = PAGE_ROWS;
   @state() private confirmDelete: string | undefined;
   @state() private rowProblem: { id: string; message: string } | undefined;
+  private rowCache: { key: unknown[]; rows: Quote[] } | undefined;
 
   override render() {
     const book = this.books.book;
@@ -96,26 +107,7 @@ export class RbQuotesPage extends LitElement {
     const suppliers = new Map(book.suppliers.map((s) => [s.id, s] as const));
     const byId = new Map(book.quotes.map((q) => [q.id, q] as const));
     const f = this.filter.trim().toLowerCase();
-    const rows = book.quotes
-      .filter((q) => !this.hideSuperseded || q.supersededBy === undefined)
-      .filter((q) => {
-        if (!f) return true;
-        const p = parts.get(q.partId);
-        const s = suppliers.get(q.supplierId);
-        return `${p?.mpn ?? ''} ${p?.description ?? ''} ${s?.name ?? ''} ${q.supplierCode}`.toLowerCase().includes(f);
-      })
-      .sort((a, b) => {
-        const pa = parts.get(a.partId)?.mpn ?? a.partId;
-        const pb = parts.get(b.partId)?.mpn ?? b.partId;
-        const sa = suppliers.get(a.supplierId)?.name ?? a.supplierId;
-        const sb = suppliers.get(b.supplierId)?.name ?? b.supplierId;
-        return (
-          pa.localeCompare(pb) ||
-          sa.localeCompare(sb) ||
-          Number(a.supersededBy !== undefined) - Number(b.supersededBy !== undefined) ||
-          b.date.localeCompare(a.date)
-        );
-      });
+    const rows = this.sortedRows(book, f, parts, suppliers);
     const current = book.quotes.filter((q) => q.supersededBy === undefined);
     const expired = current.filter((q) => q.expires !== undefined && q.expires < date).length;
     const superseded = book.quotes.length - current.length;
@@ -123,7 +115,7 @@ export class RbQuotesPage extends LitElement {
     return html`<section class="sheet" aria-labelledby="quotes-h">
       <h2 id="quotes-h">Quotes in this Book</h2>
       <p class="why" data-testid="quotes-summary">
-        ${book.quotes.length} quotes: ${current.length - expired} current, ${expired} expired, ${superseded} superseded.
+        ${n(book.quotes.length)} quotes: ${n(current.length - expired)} current, ${n(expired)} expired, ${n(superseded)} superseded.
         Expiry is judged at ${date}${book.settings.costingDate ? ' (the Book’s costing date)' : ' (today)'}. Prices are per
         unit in the quote’s currency, written “from quantity @ price”.
       </p>
@@ -147,7 +139,7 @@ export class RbQuotesPage extends LitElement {
           />
           hide superseded</label
         >
-        ${f || this.hideSuperseded ? html`<span class="muted" data-testid="quotes-shown">${rows.length} shown</span>` : ''}
+        ${f || this.hideSuperseded ? html`<span class="muted" data-testid="quotes-shown">${n(rows.length)} shown</span>` : ''}
       </div>
       ${rows.length === 0
         ? html`<p class="empty">${book.quotes.length === 0 ? 'No quotes yet. Add one above or import a supplier price file.' : 'No quote matches the filter.'}</p>`
@@ -157,7 +149,7 @@ export class RbQuotesPage extends LitElement {
                 <tr>
                   <th>part</th>
                   <th>supplier</th>
-                  <th>supplier code</th>
+                  <th>status</th>
                   <th>price breaks</th>
                   <th>currency</th>
                   <th class="num">moq</th>
@@ -165,8 +157,8 @@ export class RbQuotesPage extends LitElement {
                   <th class="num">lead time</th>
                   <th>date</th>
                   <th>expires</th>
+                  <th>supplier code</th>
                   <th>source</th>
-                  <th>status</th>
                   <th><span class="muted">actions</span></th>
                 </tr>
               </thead>
@@ -184,6 +176,32 @@ export class RbQuotesPage extends LitElement {
     </section>`;
   }
 
+  /** Filtered and sorted quotes, kept until the Book or the filter changes (typing must not re-sort 50,000 rows). */
+  private sortedRows(book: Book, f: string, parts: Map<string, Part>, suppliers: Map<string, Supplier>): Quote[] {
+    const key = [book.quotes, book.parts, book.suppliers, f, this.hideSuperseded];
+    const c = this.rowCache;
+    if (c && c.key.every((k, i) => k === key[i])) return c.rows;
+    const collator = new Intl.Collator('en', { numeric: true });
+    const partName = (q: Quote): string => parts.get(q.partId)?.mpn ?? q.partId;
+    const supplierName = (q: Quote): string => suppliers.get(q.supplierId)?.name ?? q.supplierId;
+    const rows = book.quotes
+      .filter((q) => !this.hideSuperseded || q.supersededBy === undefined)
+      .filter((q) => {
+        if (!f) return true;
+        const p = parts.get(q.partId);
+        return `${p?.mpn ?? ''} ${p?.description ?? ''} ${supplierName(q)} ${q.supplierCode}`.toLowerCase().includes(f);
+      })
+      .sort(
+        (a, b) =>
+          collator.compare(partName(a), partName(b)) ||
+          collator.compare(supplierName(a), supplierName(b)) ||
+          Number(a.supersededBy !== undefined) - Number(b.supersededBy !== undefined) ||
+          (a.date < b.date ? 1 : a.date > b.date ? -1 : 0),
+      );
+    this.rowCache = { key, rows };
+    return rows;
+  }
+
   private renderRow(q: Quote, part: Part | undefined, supplier: Supplier | undefined, date: string, byId: Map<string, Quote>) {
     const status = quoteStatus(q, date, q.supersededBy ? byId.get(q.supersededBy) : undefined);
     const confirming = this.confirmDelete === q.id;
@@ -191,8 +209,8 @@ export class RbQuotesPage extends LitElement {
     const editing = this.editing?.quote?.id === q.id;
     return html`<tr class="${status.state}${editing ? ' editing' : ''}" data-id=${q.id} data-state=${status.state}>
       <td class="code">${part?.mpn ?? `(missing part ${q.partId})`}<span class="part-desc">${part?.description ?? ''}</span></td>
-      <td>${supplier?.name ?? q.supplierId}</td>
-      <td class="code">${q.supplierCode}</td>
+      <td class="supplier">${supplier?.name ?? q.supplierId}</td>
+      <td class="status-cell"><span class="status ${status.state}">${status.symbol} ${status.words}</span></td>
       <td class="breaks">${breaksText(q.breaks)}</td>
       <td class="code">${q.currency}</td>
       <td class="num">${qtyText(q.moq)}</td>
@@ -200,8 +218,8 @@ export class RbQuotesPage extends LitElement {
       <td class="num">${leadText(q.leadDays)}</td>
       <td class="num">${q.date}</td>
       <td class="num">${q.expires ?? '—'}</td>
+      <td class="code">${q.supplierCode}</td>
       <td class="code">${q.source}</td>
-      <td class="status-cell"><span class="status ${status.state}">${status.symbol} ${status.words}</span></td>
       <td class="acts">
         ${confirming
           ? html`Delete this quote?
