@@ -11,7 +11,8 @@ import type { PageEntry, Route } from './pages.ts';
 import type { NoticeDetail } from './rb-book-menu.ts';
 import './rb-book-menu.ts';
 import './rb-mains-caution.ts';
-import './rb-notebook-page.ts';
+import './rb-user-page.ts';
+import './rb-user-page-new.ts';
 import './rb-save-state.ts';
 
 type Phase = { kind: 'opening' } | { kind: 'open'; service: BookService } | { kind: 'failed'; message: string };
@@ -305,22 +306,21 @@ export class RbApp extends LitElement {
           )}
         </ol>
       </div>
-      ${pages.length > 0
-        ? html`<div>
-            <h2>Notebook</h2>
-            <ol class="notebook">
-              ${pages.map(
-                (p) => html`<li>
-                  <a
-                    href=${notebookRoute(p.id)}
-                    aria-current=${current.kind === 'notebook' && current.pageId === p.id ? 'page' : nothing}
-                    >${p.title || '(untitled page)'}</a
-                  >
-                </li>`,
-              )}
-            </ol>
-          </div>`
-        : ''}
+      <div>
+        <h2>Notebook</h2>
+        <ol class="notebook">
+          ${pages.map(
+            (p) => html`<li>
+              <a
+                href=${notebookRoute(p.id)}
+                aria-current=${current.kind === 'notebook' && current.pageId === p.id ? 'page' : nothing}
+                >${p.title || '(untitled page)'}</a
+              >
+            </li>`,
+          )}
+        </ol>
+        <rb-user-page-new></rb-user-page-new>
+      </div>
       <div>
         <h2>Book</h2>
         <rb-book-menu></rb-book-menu>
@@ -367,7 +367,7 @@ export class RbApp extends LitElement {
     if (route.kind === 'notebook') {
       const page = service.book.pages.find((p) => p.id === route.pageId);
       if (!page) return this.renderMissing(`No notebook page with id “${route.pageId}” in this Book.`);
-      return html`<rb-notebook-page .pageId=${page.id}></rb-notebook-page>`;
+      return html`<rb-user-page .pageId=${page.id}></rb-user-page>`;
     }
     if (route.kind === 'unknown') return this.renderMissing(`There is no page at “${route.hash}”.`);
     return this.renderPage(route.entry);
