@@ -45,9 +45,9 @@ async function saved(page: Page): Promise<void> {
   await page.locator('rb-save-state [data-state="saved"]').waitFor();
 }
 
-/** Text of an element with runs of white space made single, as a reader sees it. */
+/** Text of the first matching element with runs of white space made single, as a reader sees it. */
 async function text(page: Page, selector: string): Promise<string> {
-  return ((await page.locator(selector).textContent()) ?? '').replace(/\s+/g, ' ').trim();
+  return ((await page.locator(selector).first().textContent()) ?? '').replace(/\s+/g, ' ').trim();
 }
 
 async function goTo(page: Page, slug: string): Promise<void> {
@@ -165,6 +165,56 @@ describe('price file import through the app', () => {
     await expect(notice.textContent()).resolves.toContain(DEMO_FILE);
     await expect(page.getByRole('button', { name: 'Import all', exact: true }).isDisabled()).resolves.toBe(true);
     await page.screenshot({ path: '/tmp/rungbook-import-again.png', fullPage: true });
+    expect(errors).toEqual([]);
+  });
+
+  it('maps by hand a column the header words do not name, reads the file again, and remembers the choice', async () => {
+    // "Tariff" is no price word, so the price column is not found until the person points at it.
+    const header = 'Mfr Part No,Supplier Part,Break Qty,Tariff (USD),Quoted On';
+    const first = writeTemp('tariff-1.csv', `${header}\nQX-Z12-05,KPD-410233,10,0.044,2026-08-20\nQX-Z12-05,KPD-410233,1000,0.02,2026-08-20\n`);
+    const second = writeTemp('tariff-2.csv', `${header}\nQX-Z12-13,KPD-410251,10,0.088,2026-09-20\n`);
+    const { page, errors } = await open('#/import');
+    await readFile(page, first);
+    await expect(text(page, '[data-testid="problems-table"] tbody tr')).resolves.toMatch(/no price column found/);
+    await expect(page.locator('#map-price').inputValue()).resolves.toBe('');
+
+    await page.locator('#map-price').selectOption('Tariff (USD)');
+    await page.locator('[data-testid="no-problems"]').waitFor();
+    await expect(page.locator('[data-key="price"] .from').textContent()).resolves.toBe('chosen here');
+    await expect(text(page, '[data-testid="preview-table"] tbody tr')).resolves.toMatch(/10 @ 0\.044 · 1000 @ 0\.02/);
+    await page.getByRole('button', { name: 'Confirm this mapping' }).click();
+    await page.getByRole('button', { name: 'Import all', exact: true }).click();
+    await page.locator('[data-testid="import-done"]').waitFor();
+    await saved(page);
+
+    await page.reload();
+    await readFile(page, second);
+    await page.locator('[data-testid="no-problems"]').waitFor();
+    await expect(page.locator('#map-price').inputValue()).resolves.toBe('Tariff (USD)');
+    await expect(page.locator('[data-key="price"] .from').textContent()).resolves.toBe('remembered for this supplier');
+    expect(errors).toEqual([]);
+  });
+
+  it('reads a demo file fetched from the app, shows its semicolons, decimal commas and prices per 100, and takes an override', async () => {
+    const { page, errors } = await open('#/import');
+    await page.getByRole('button', { name: 'brindlecote-passives-2026-07.csv' }).click();
+    await page.locator('[data-testid="mapping-table"]').waitFor();
+    // The button also picks the supplier the demo file belongs to.
+    await expect(page.locator('#import-supplier').inputValue()).resolves.toBe('sup_brindle');
+    await expect(text(page, '[data-testid="found-delimiter"]')).resolves.toBe('semicolon');
+    await expect(text(page, '[data-testid="found-decimal"]')).resolves.toMatch(/^decimal comma/);
+    await expect(text(page, '[data-testid="found-price-unit"]')).resolves.toBe('per 100');
+    await page.locator('[data-testid="no-problems"]').waitFor();
+    // "£0,60" per 100 is 0.006 per unit (0.60 / 100).
+    await expect(text(page, '[data-testid="preview-table"] tbody tr')).resolves.toContain('100 @ 0.006');
+
+    // Read with a decimal point instead, "0,60" is no number: the problems say so, and nothing can be imported.
+    await page.locator('#ov-decimal').selectOption('.');
+    await page.locator('[data-testid="problems-table"]').waitFor();
+    await expect(text(page, '[data-testid="found-decimal"]')).resolves.toMatch(/decimal point as you chose/);
+    await page.screenshot({ path: '/tmp/rungbook-import-override.png' });
+    await page.locator('#ov-decimal').selectOption('');
+    await page.locator('[data-testid="no-problems"]').waitFor();
     expect(errors).toEqual([]);
   });
 
