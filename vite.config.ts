@@ -6,7 +6,7 @@ import { join, relative, resolve } from 'node:path';
 import { defineConfig } from 'vite';
 import type { Plugin, ResolvedConfig } from 'vite';
 
-const SW_SOURCE = resolve(__dirname, 'src/ui/service-worker.ts');
+const SW_SOURCE = resolve(import.meta.dirname, 'src/ui/service-worker.ts');
 const SW_FILE = 'sw.js';
 
 function filesUnder(dir: string): string[] {

@@ -41,7 +41,9 @@ worker.addEventListener('activate', (event) => {
 
 async function fromCache(request: Request | string): Promise<Response | undefined> {
   const cache = await caches.open(CACHE);
-  return cache.match(request, { ignoreSearch: true });
+  // ignoreVary: module scripts and styles are fetched with an Origin header the stored request lacks, and a
+  // "Vary: Origin" from the server would otherwise keep them from matching.
+  return cache.match(request, { ignoreSearch: true, ignoreVary: true });
 }
 
 async function page(request: Request): Promise<Response> {
