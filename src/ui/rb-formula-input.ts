@@ -105,6 +105,7 @@ export class RbFormulaInput extends LitElement {
       min-width: 0;
     }
     input {
+      box-sizing: border-box;
       width: 100%;
       font-family: var(--rb-mono);
       font-size: 0.86rem;

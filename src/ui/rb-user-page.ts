@@ -6,6 +6,7 @@ import type { TemplateResult } from 'lit';
 import { customElement, property, state } from 'lit/decorators.js';
 import { live } from 'lit/directives/live.js';
 import type { Book, NotebookPage, NotebookSection } from '../domain/book.ts';
+import { formatValue } from '../domain/units.ts';
 import { NOTEBOOK_LIMITS, cellAddress, evaluateNotebookPage, sectionSheetName } from '../engine/notebook.ts';
 import type { NotebookCell, NotebookResult } from '../engine/notebook.ts';
 import { BookController } from './book-context.ts';
@@ -23,7 +24,11 @@ export function cellText(c: NotebookCell): string {
   if (c.error) return c.error;
   const v = c.value;
   if (v === null) return '';
-  if (typeof v === 'number') return String(Number(v.toPrecision(6)));
+  if (typeof v === 'number') {
+    // Very small and very large figures read better with an SI prefix (470 n) than in exponent form.
+    const a = Math.abs(v);
+    return a !== 0 && (a < 1e-3 || a >= 1e6) ? formatValue(v, '', 4) : String(Number(v.toPrecision(6)));
+  }
   if (typeof v === 'boolean') return v ? 'TRUE' : 'FALSE';
   return v;
 }
