@@ -22,7 +22,7 @@ export type Direction = (typeof DIRECTIONS)[keyof typeof DIRECTIONS];
 export type StepPlan = { ok: true; change: BookChange } | { ok: false; message: string };
 
 /** Two undo stacks (done and undone) with a limit; recording a new step forgets what was undone. */
-export class UndoStack<R> {
+export class UndoStack<R extends { rev: number }> {
   private done: UndoStep<R>[] = [];
   private undone: UndoStep<R>[] = [];
 
