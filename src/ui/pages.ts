@@ -56,6 +56,8 @@ export const PAGES: readonly PageEntry[] = [
     plan:
       'Build lines with designators, part or part rule, quantity rule, applies-when rule, cost category and ' +
       'attrition, and a per-variant view of the lines that apply.',
+    tag: 'rb-build-page',
+    load: () => import('./rb-build-page.ts'),
     mains: true,
   },
   {

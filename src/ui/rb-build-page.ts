@@ -1,0 +1,558 @@
+// Build page: the family bill of materials. Build lines with their part or part rule, quantity and applies-when
+// rules (add, edit, delete, reorder; rules tried on every variant with the failures shown beside the field), and
+// each variant's resolved BOM: which lines apply, which part, how many per unit.
+import { LitElement, css, html } from 'lit';
+import type { TemplateResult } from 'lit';
+import { customElement, state } from 'lit/decorators.js';
+import type { Book, BuildLine } from '../domain/book.ts';
+import { COST_CATEGORIES, newId } from '../domain/book.ts';
+import { ROLES, VARIANT_PARAMS } from '../domain/params.ts';
+import { resolveFamily } from '../engine/family.ts';
+import type { FamilyResolution } from '../engine/family.ts';
+import { BookController } from './book-context.ts';
+import { field, fieldId, focusFirstProblem } from './form-fields.ts';
+import type { FieldProblems } from './record-forms.ts';
+import { buildLineDraft, lineOutcomes, moveLine, orderedLines, trialLine, validateBuildLine } from './rb-build-rules.ts';
+import type { BuildLineDraft, LineOutcome } from './rb-build-rules.ts';
+import type { NoticeDetail } from './rb-book-menu.ts';
+import type { NameHint } from './rb-formula-input.ts';
+import { pageStyles } from './styles.ts';
+import './rb-formula-input.ts';
+
+type Editing = {
+  line: BuildLine | undefined;
+  draft: BuildLineDraft;
+  problems: FieldProblems;
+  preview: LineOutcome[];
+  saveError?: string;
+};
+
+/** Names a build rule may use: the variant parameters (rules are read before parts and checks exist). */
+function ruleNames(book: Book): NameHint[] {
+  const out = new Map<string, NameHint>();
+  for (const p of VARIANT_PARAMS) out.set(p.name, { name: p.name, doc: `parameter: ${p.doc}${p.unit ? ` (${p.unit})` : ''}`, kind: 'name' });
+  for (const v of book.variants) {
+    for (const name of Object.keys(v.params)) if (!out.has(name)) out.set(name, { name, doc: 'parameter of this Book', kind: 'name' });
+  }
+  return [...out.values()];
+}
+
+function pct(fraction: number): string {
+  return `${Number((fraction * 100).toPrecision(4))} %`;
+}
+
+function qtyText(n: number): string {
+  return String(Number(n.toPrecision(6)));
+}
+
+@customElement('rb-build-page')
+export class RbBuildPage extends LitElement {
+  static override styles = [
+    pageStyles,
+    css`
+      td.rule code,
+      td.rule span.code {
+        font-family: var(--rb-mono);
+        font-size: 0.8rem;
+        display: inline-block;
+        max-width: 18rem;
+        overflow: hidden;
+        text-overflow: ellipsis;
+        white-space: nowrap;
+        vertical-align: bottom;
+      }
+      td.rule small {
+        display: block;
+        color: var(--rb-na);
+        font-size: 0.74rem;
+      }
+      td.status {
+        font-size: 0.82rem;
+        min-width: 9rem;
+        max-width: 22rem;
+      }
+      .ok {
+        color: var(--rb-pass);
+      }
+      .bad {
+        color: var(--rb-fail);
+      }
+      .bad::before {
+        content: '✗ ';
+        font-weight: 700;
+      }
+      .ok::before {
+        content: '✓ ';
+        font-weight: 700;
+      }
+      tr.off td {
+        color: var(--rb-na);
+      }
+      tr.off td.code {
+        text-decoration: line-through;
+      }
+      tr.problem td {
+        background: var(--rb-fail-bg);
+      }
+      .preview {
+        grid-column: 2 / -1;
+        display: flex;
+        flex-wrap: wrap;
+        gap: 0.3rem 0.5rem;
+        font-size: 0.8rem;
+      }
+      .preview span {
+        font-family: var(--rb-mono);
+        border: 1px solid var(--rb-rule);
+        padding: 0 0.35rem;
+        border-radius: 3px;
+      }
+      .preview span.fail {
+        color: var(--rb-fail);
+        background: var(--rb-fail-bg);
+      }
+      .preview span.na {
+        color: var(--rb-na);
+        border-style: dashed;
+      }
+      form.record rb-formula-input {
+        min-width: 0;
+      }
+      .toolbar select,
+      .toolbar input[type='search'] {
+        font: inherit;
+        font-size: 0.88rem;
+        padding: 0.15rem 0.4rem;
+        border: 1px solid var(--rb-rule);
+        border-bottom: 2px solid var(--rb-ink);
+        background: var(--rb-paper);
+      }
+      .toolbar label {
+        font-size: 0.88rem;
+      }
+      button.move {
+        padding: 0.05rem 0.4rem;
+        font-family: var(--rb-mono);
+      }
+      .totals {
+        font-size: 0.88rem;
+        margin: 0.6rem 0 0;
+      }
+    `,
+  ];
+
+  private readonly books = new BookController(this);
+  private family: FamilyResolution | undefined;
+  private familyBook: Book | undefined;
+  private names: readonly NameHint[] = [];
+  private timer: ReturnType<typeof setTimeout> | undefined;
+
+  @state() private editing: Editing | undefined;
+  @state() private confirmDelete: string | undefined;
+  @state() private rowProblem: { id: string; message: string } | undefined;
+  @state() private filter = '';
+  @state() private bomVariant = '';
+  @state() private onlyApplying = true;
+
+  override disconnectedCallback(): void {
+    super.disconnectedCallback();
+    clearTimeout(this.timer);
+  }
+
+  override willUpdate(): void {
+    const book = this.books.book;
+    if (!book || book === this.familyBook) return;
+    this.family = resolveFamily(book);
+    this.familyBook = book;
+    this.names = ruleNames(book);
+    if (!book.variants.some((v) => v.id === this.bomVariant)) this.bomVariant = book.variants[0]?.id ?? '';
+  }
+
+  override render() {
+    const book = this.books.book;
+    const family = this.family;
+    if (!book || !family) return html``;
+    return html`${this.editing ? this.renderForm(book, this.editing) : ''}${this.renderLines(book, family)}${this.renderBom(book, family)}`;
+  }
+
+  // -------------------------------------------------------------------------------------------------------------
+  // The lines
+
+  private renderLines(book: Book, family: FamilyResolution): TemplateResult {
+    const f = this.filter.trim().toLowerCase();
+    const parts = new Map(book.parts.map((p) => [p.id, p] as const));
+    const all = orderedLines(book);
+    const lines = f
+      ? all.filter((l) =>
+          `${l.designators} ${l.partRule ?? ''} ${parts.get(l.partId ?? '')?.mpn ?? ''} ${l.category} ${l.role ?? ''} ${l.appliesWhen} ${l.notes ?? ''}`
+            .toLowerCase()
+            .includes(f),
+        )
+      : all;
+    const failing = new Set(family.problems.map((p) => p.lineId));
+    return html`<section class="sheet" aria-labelledby="lines-h">
+      <h2 id="lines-h">Build lines of the family</h2>
+      <p class="why">
+        ${all.length} lines. Each line names a part, or a part rule that picks a maker part number per variant; a quantity
+        rule (parts per finished unit) and an applies-when rule are formulas over the variant's parameters. Every rule is
+        tried on all ${book.variants.length} variants; ${failing.size === 0 ? 'all of them resolve.' : `${failing.size} ${failing.size === 1 ? 'line fails' : 'lines fail'} for some variant (marked ✗).`}
+      </p>
+      <div class="toolbar">
+        <button type="button" class="primary" @click=${() => this.startEdit(book, undefined)}>Add a build line</button>
+        <input
+          type="search"
+          placeholder="Filter by designator, part, rule, category…"
+          aria-label="Filter build lines"
+          .value=${this.filter}
+          @input=${(e: Event) => (this.filter = (e.target as HTMLInputElement).value)}
+        />
+        ${f ? html`<span class="muted">${lines.length} shown; moving lines works on the whole list</span>` : ''}
+      </div>
+      ${all.length === 0
+        ? html`<p class="empty">No build lines yet. Add the first one above.</p>`
+        : html`<div class="scroll">
+            <table class="records" data-testid="build-lines">
+              <thead>
+                <tr>
+                  <th class="num">#</th>
+                  <th>designators</th>
+                  <th>part / part rule</th>
+                  <th>qty per unit</th>
+                  <th>applies when</th>
+                  <th>category</th>
+                  <th>role</th>
+                  <th class="num">attrition</th>
+                  <th>pinned supplier</th>
+                  <th>on every variant</th>
+                  <th><span class="muted">actions</span></th>
+                </tr>
+              </thead>
+              <tbody>
+                ${lines.map((l) => this.renderLine(book, family, l, all.indexOf(l), all.length))}
+              </tbody>
+            </table>
+          </div>`}
+    </section>`;
+  }
+
+  private renderLine(book: Book, family: FamilyResolution, l: BuildLine, index: number, count: number): TemplateResult {
+    const part = l.partId ? book.parts.find((p) => p.id === l.partId) : undefined;
+    const pin = l.pinnedSupplierId ? book.suppliers.find((s) => s.id === l.pinnedSupplierId) : undefined;
+    const outcomes = lineOutcomes(book, family, l.id);
+    const bad = outcomes.filter((o) => o.problem !== undefined);
+    const applying = outcomes.filter((o) => o.applies && o.problem === undefined).length;
+    const confirming = this.confirmDelete === l.id;
+    const rowProblem = this.rowProblem?.id === l.id ? this.rowProblem.message : undefined;
+    const defaultAttrition = part ? (book.settings.attrition[part.kind] ?? book.settings.attrition['default']) : book.settings.attrition['default'];
+    return html`<tr class="${this.editing?.line?.id === l.id ? 'editing' : ''} ${bad.length ? 'problem' : ''}" data-id=${l.id}>
+      <td class="num">${index + 1}</td>
+      <td class="code">${l.designators}</td>
+      <td class="rule">
+        ${l.partRule
+          ? html`<code title=${l.partRule}>${l.partRule}</code><small>part rule</small>`
+          : html`<span class="code">${part?.mpn ?? l.partId ?? ''}</span><small>${part?.description ?? (l.partId ? 'part not in the Book' : '')}</small>`}
+      </td>
+      <td class="rule"><code title=${l.qtyRule}>${l.qtyRule}</code></td>
+      <td class="rule">${l.appliesWhen ? html`<code title=${l.appliesWhen}>${l.appliesWhen}</code>` : html`<span class="muted">always</span>`}</td>
+      <td>${l.category}</td>
+      <td class="code">${l.role ?? ''}</td>
+      <td class="num">${l.attrition !== undefined ? pct(l.attrition) : html`<span class="muted" title="the Book's default for the part kind">${defaultAttrition === undefined ? '' : pct(defaultAttrition)}</span>`}</td>
+      <td>${pin?.name ?? l.pinnedSupplierId ?? ''}</td>
+      <td class="status" data-testid="line-status">
+        ${bad.length
+          ? html`<span class="bad">fails for ${bad.map((o) => o.variantCode).join(', ')}: ${bad[0]!.problem}</span>`
+          : html`<span class="ok">applies to ${applying} of ${outcomes.length}</span>`}
+      </td>
+      <td class="acts">
+        ${confirming
+          ? html`Delete ${l.designators}?
+              <button type="button" class="danger" @click=${() => this.delete(l)}>Delete</button>
+              <button type="button" class="quiet" @click=${() => (this.confirmDelete = undefined)}>Keep</button>`
+          : html`<button type="button" class="move" aria-label="Move ${l.designators} up" ?disabled=${index === 0} @click=${() => this.move(l, -1)}>↑</button>
+              <button type="button" class="move" aria-label="Move ${l.designators} down" ?disabled=${index === count - 1} @click=${() => this.move(l, 1)}>↓</button>
+              <button type="button" class="quiet" @click=${() => this.startEdit(book, l)}>edit</button>
+              <button type="button" class="quiet" @click=${() => this.askDelete(l)}>delete</button>`}
+        ${rowProblem ? html`<div class="bad" role="alert">${rowProblem}</div>` : ''}
+      </td>
+    </tr>`;
+  }
+
+  // -------------------------------------------------------------------------------------------------------------
+  // The form
+
+  private renderForm(book: Book, e: Editing): TemplateResult {
+    const d = e.draft;
+    const p = e.problems;
+    const set = (patch: Partial<BuildLineDraft>) => {
+      if (!this.editing) return;
+      this.editing = { ...this.editing, draft: { ...this.editing.draft, ...patch } };
+      this.schedulePreview();
+    };
+    const formula = (name: 'partRule' | 'qtyRule' | 'appliesWhen', label: string, hint: string, placeholder: string) => {
+      const id = fieldId(name);
+      return html`<label for=${id}>${label}</label>
+        <rb-formula-input
+          id=${id}
+          data-field=${name}
+          .label=${label}
+          .value=${d[name]}
+          .names=${this.names}
+          .placeholder=${placeholder}
+          ?invalid=${Boolean(p[name])}
+          @formula-input=${(ev: CustomEvent<{ value: string }>) => set({ [name]: ev.detail.value })}
+        ></rb-formula-input>
+        ${p[name]
+          ? html`<span class="problem" data-problem-for=${name} role="alert">${p[name]}</span>`
+          : html`<span class="hint">${hint}</span>`}`;
+    };
+    const mpns = [...book.parts].sort((a, b) => a.mpn.localeCompare(b.mpn));
+    return html`<section class="sheet" aria-labelledby="line-form-h">
+      <h2 id="line-form-h">${e.line ? `Edit build line ${e.line.designators}` : 'New build line'}</h2>
+      <p class="why">
+        Rules are formulas over the variant's parameters, for example <code>steps - 1</code> or
+        <code>IF(load_w>100, "part A", "part B")</code>. The line is tried on every variant as you type.
+      </p>
+      ${e.saveError ? html`<p class="notice" role="alert">${e.saveError}</p>` : ''}
+      <form class="record" novalidate aria-label="Build line" @submit=${(ev: Event) => this.submit(ev)}>
+        ${field({ name: 'designators', label: 'designators', value: d.designators, problem: p.designators, hint: 'reference designators, e.g. R5 or C6, C7', onInput: (v) => set({ designators: v }) })}
+        <label for=${fieldId('part')}>part</label>
+        <input
+          id=${fieldId('part')}
+          name="part"
+          list="build-part-list"
+          autocomplete="off"
+          spellcheck="false"
+          .value=${d.part}
+          aria-invalid=${p.part ? 'true' : 'false'}
+          @input=${(ev: Event) => set({ part: (ev.target as HTMLInputElement).value })}
+        />
+        ${p.part
+          ? html`<span class="problem" data-problem-for="part" role="alert">${p.part}</span>`
+          : html`<span class="hint">maker part number of a fixed part; leave blank when a part rule chooses it</span>`}
+        <datalist id="build-part-list">${mpns.map((x) => html`<option value=${x.mpn}>${x.description}</option>`)}</datalist>
+        ${formula('partRule', 'part rule', 'a formula giving a maker part number per variant; wins over the fixed part', 'IF(stage="triac", "…", "…")')}
+        ${formula('qtyRule', 'qty rule', 'parts per finished unit, e.g. 1, 2 or steps - 1', '1')}
+        ${formula('appliesWhen', 'applies when', 'blank for every variant; e.g. supply="dropper"', '')}
+        ${field({ name: 'category', label: 'category', value: d.category, problem: p.category, choices: COST_CATEGORIES, hint: 'where the cost is counted in the split', onInput: (v) => set({ category: v }) })}
+        <label for=${fieldId('role')}>role</label>
+        <input
+          id=${fieldId('role')}
+          name="role"
+          list="build-role-list"
+          autocomplete="off"
+          spellcheck="false"
+          .value=${d.role}
+          aria-invalid=${p.role ? 'true' : 'false'}
+          @input=${(ev: Event) => set({ role: (ev.target as HTMLInputElement).value })}
+        />
+        ${p.role
+          ? html`<span class="problem" data-problem-for="role" role="alert">${p.role}</span>`
+          : html`<span class="hint">optional; checks read the part's ratings as &lt;role&gt;_&lt;rating&gt;</span>`}
+        <datalist id="build-role-list">${ROLES.map((r) => html`<option value=${r}></option>`)}</datalist>
+        ${field({ name: 'attrition', label: 'attrition %', value: d.attrition, problem: p.attrition, hint: 'extra parts bought for losses; blank = the Book’s default for the part kind', onInput: (v) => set({ attrition: v }) })}
+        ${field({
+          name: 'pinnedSupplier',
+          label: 'pinned supplier',
+          value: d.pinnedSupplier,
+          problem: p.pinnedSupplier,
+          choices: book.suppliers.map((s) => s.name).sort(),
+          hint: 'buy this line only from this supplier; — = the cheapest usable quote',
+          onInput: (v) => set({ pinnedSupplier: v }),
+        })}
+        ${field({ name: 'notes', label: 'notes', value: d.notes, multiline: true, onInput: (v) => set({ notes: v }) })}
+        <span></span>
+        <div class="preview" aria-label="The line on every variant" data-testid="line-preview">
+          ${e.preview.map((o) =>
+            o.problem !== undefined
+              ? html`<span class="fail" title=${o.problem}>${o.variantCode} ✗ ${o.problem}</span>`
+              : o.applies && o.qtyPerUnit > 0
+                ? html`<span>${o.variantCode} ✓ ${o.mpn} × ${qtyText(o.qtyPerUnit)}</span>`
+                : html`<span class="na">${o.variantCode} – not fitted</span>`,
+          )}
+        </div>
+        <span></span>
+        <div class="actions">
+          <button type="submit" class="primary">${e.line ? 'Save the line' : 'Add the line'}</button>
+          <button type="button" @click=${() => (this.editing = undefined)}>Cancel</button>
+          ${Object.keys(p).length ? html`<span class="problem" role="alert">Nothing saved: fix the marked fields.</span>` : ''}
+        </div>
+      </form>
+    </section>`;
+  }
+
+  private startEdit(book: Book, line: BuildLine | undefined): void {
+    this.confirmDelete = undefined;
+    this.rowProblem = undefined;
+    this.editing = { line, draft: buildLineDraft(book, line), problems: {}, preview: [] };
+    this.schedulePreview();
+    void this.updateComplete.then(() => {
+      this.renderRoot.querySelector<HTMLElement>('#line-form-h')?.scrollIntoView({ block: 'nearest' });
+      this.renderRoot.querySelector<HTMLInputElement>(`#${fieldId('designators')}`)?.focus();
+    });
+  }
+
+  private schedulePreview(): void {
+    clearTimeout(this.timer);
+    this.timer = setTimeout(() => this.runPreview(), 250);
+  }
+
+  /** Tries the draft on every variant; text problems and rule failures go beside their fields. */
+  private runPreview(): FieldProblems {
+    const book = this.books.book;
+    const e = this.editing;
+    if (!book || !e) return {};
+    const v = validateBuildLine(e.draft, book, e.line, () => 'line_draft');
+    if (!v.ok) {
+      this.editing = { ...e, preview: [] };
+      return v.problems;
+    }
+    const trial = trialLine(book, v.record);
+    this.editing = { ...e, preview: trial.outcomes };
+    return trial.problems;
+  }
+
+  private async submit(ev: Event): Promise<void> {
+    ev.preventDefault();
+    clearTimeout(this.timer);
+    const service = this.books.service;
+    const book = this.books.book;
+    const e = this.editing;
+    if (!service || !book || !e) return;
+    const held = e.line ? book.buildLines.find((l) => l.id === e.line!.id) : undefined;
+    if (e.line && !held) {
+      this.editing = { ...e, saveError: 'This line was deleted elsewhere; nothing was saved.' };
+      return;
+    }
+    const v = validateBuildLine(e.draft, book, held, () => newId('line'));
+    if (!v.ok) {
+      this.editing = { ...e, problems: v.problems, preview: [] };
+      await focusFirstProblem(this);
+      return;
+    }
+    const trial = trialLine(book, v.record);
+    if (Object.keys(trial.problems).length > 0) {
+      this.editing = { ...e, problems: trial.problems, preview: trial.outcomes };
+      await focusFirstProblem(this);
+      return;
+    }
+    this.editing = { ...e, problems: {}, preview: trial.outcomes };
+    const result = await service.save({ put: { buildLines: [v.record] } });
+    if (result.ok) {
+      this.editing = undefined;
+      this.dispatchEvent(
+        new CustomEvent<NoticeDetail>('rb-notice', {
+          detail: { tone: 'done', title: `Build line ${v.record.designators} saved`, lines: [] },
+          bubbles: true,
+          composed: true,
+        }),
+      );
+    } else this.editing = { ...e, problems: {}, saveError: result.message };
+  }
+
+  private async move(l: BuildLine, step: -1 | 1): Promise<void> {
+    const service = this.books.service;
+    if (!service) return;
+    const changed = moveLine(service.book, l.id, step);
+    if (changed.length === 0) return;
+    const result = await service.save({ put: { buildLines: changed } });
+    this.rowProblem = result.ok ? undefined : { id: l.id, message: result.message };
+  }
+
+  private askDelete(l: BuildLine): void {
+    this.rowProblem = undefined;
+    this.confirmDelete = l.id;
+  }
+
+  private async delete(l: BuildLine): Promise<void> {
+    const service = this.books.service;
+    if (!service) return;
+    this.confirmDelete = undefined;
+    const result = await service.save({ delete: { buildLines: [l.id] } });
+    if (!result.ok) this.rowProblem = { id: l.id, message: result.message };
+    if (this.editing?.line?.id === l.id) this.editing = undefined;
+  }
+
+  // -------------------------------------------------------------------------------------------------------------
+  // Per-variant resolved BOM
+
+  private renderBom(book: Book, family: FamilyResolution): TemplateResult {
+    const variant = book.variants.find((v) => v.id === this.bomVariant);
+    const resolved = family.variants.find((v) => v.variantId === this.bomVariant);
+    const parts = new Map(book.parts.map((p) => [p.id, p] as const));
+    const lines = new Map(book.buildLines.map((l) => [l.id, l] as const));
+    const rows = (resolved?.lines ?? []).map((r) => ({
+      r,
+      line: lines.get(r.lineId),
+      problem: resolved?.problems.filter((p) => p.lineId === r.lineId).map((p) => p.message).join('; ') ?? '',
+    }));
+    const fitted = rows.filter((x) => x.r.applies && x.r.qtyPerUnit > 0 && x.problem === '');
+    const shown = this.onlyApplying ? rows.filter((x) => (x.r.applies && x.r.qtyPerUnit > 0) || x.problem !== '') : rows;
+    const pieces = fitted.reduce((n, x) => n + x.r.qtyPerUnit, 0);
+    const placements = fitted.reduce((n, x) => n + x.r.qtyPerUnit * (parts.get(x.r.partId ?? '')?.placements ?? 1), 0);
+    return html`<section class="sheet" aria-labelledby="bom-h">
+      <h2 id="bom-h">Resolved BOM of one variant</h2>
+      <p class="why">The build lines as they stand for the chosen variant: whether each applies, the part its rules pick, and how many per finished unit.</p>
+      ${book.variants.length === 0
+        ? html`<p class="empty">No variants yet; add them on the Family page.</p>`
+        : html`<div class="toolbar">
+              <label
+                >variant
+                <select
+                  aria-label="Variant"
+                  data-testid="bom-variant"
+                  @change=${(e: Event) => (this.bomVariant = (e.target as HTMLSelectElement).value)}
+                >
+                  ${book.variants.map((v) => html`<option value=${v.id} ?selected=${v.id === this.bomVariant}>${v.code} · ${v.name}</option>`)}
+                </select></label
+              >
+              <label
+                ><input
+                  type="checkbox"
+                  .checked=${this.onlyApplying}
+                  @change=${(e: Event) => (this.onlyApplying = (e.target as HTMLInputElement).checked)}
+                />
+                only lines that are fitted</label
+              >
+            </div>
+            <div class="scroll">
+              <table class="records" data-testid="resolved-bom">
+                <thead>
+                  <tr>
+                    <th>designators</th>
+                    <th>fitted</th>
+                    <th>mpn</th>
+                    <th>description</th>
+                    <th class="num">qty per unit</th>
+                    <th>category</th>
+                    <th>problem</th>
+                  </tr>
+                </thead>
+                <tbody>
+                  ${shown.map(({ r, line, problem }) => {
+                    const part = r.partId ? parts.get(r.partId) : undefined;
+                    const on = r.applies && r.qtyPerUnit > 0;
+                    return html`<tr class=${problem ? 'problem' : on ? '' : 'off'} data-line=${r.lineId}>
+                      <td class="code">${line?.designators ?? r.lineId}</td>
+                      <td>${problem ? html`<span class="bad">error</span>` : on ? html`<span class="ok">yes</span>` : '– no'}</td>
+                      <td class="code">${on ? (part?.mpn ?? '') : ''}</td>
+                      <td>${on ? (part?.description ?? '') : ''}</td>
+                      <td class="num">${on ? qtyText(r.qtyPerUnit) : ''}</td>
+                      <td>${line?.category ?? ''}</td>
+                      <td>${problem ? html`<span class="bad">${problem}</span>` : ''}</td>
+                    </tr>`;
+                  })}
+                </tbody>
+              </table>
+            </div>
+            <p class="totals" data-testid="bom-totals">
+              ${variant?.code ?? ''}: ${fitted.length} lines fitted, ${qtyText(pieces)} parts and ${qtyText(placements)} placements per unit.
+            </p>`}
+    </section>`;
+  }
+}
+
+declare global {
+  interface HTMLElementTagNameMap {
+    'rb-build-page': RbBuildPage;
+  }
+}

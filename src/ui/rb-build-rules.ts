@@ -1,0 +1,231 @@
+// Build-line drafts for the Build page: the pure checks that turn a draft into a BuildLine or into messages keyed by
+// field, the per-variant trial of its rules (through the family resolver), and reordering. No DOM, no Lit.
+import type { Book, BuildLine, CostCategory } from '../domain/book.ts';
+import { COST_CATEGORIES, mpnKey } from '../domain/book.ts';
+import { resolveFamily } from '../engine/family.ts';
+import type { FamilyResolution } from '../engine/family.ts';
+import { guardFormula } from '../engine/formula-guard.ts';
+import { formulaBody, tokenizeFormula } from '../engine/formula-names.ts';
+import type { FieldProblems, FormResult } from './record-forms.ts';
+
+export interface BuildLineDraft {
+  designators: string;
+  /** Maker part number of a fixed part (matched like the Parts page does); empty when a part rule chooses it. */
+  part: string;
+  partRule: string;
+  qtyRule: string;
+  appliesWhen: string;
+  category: string;
+  role: string;
+  /** Attrition in percent as typed ("2" or "2 %"); empty = the Book's default for the part kind. */
+  attrition: string;
+  /** Supplier name; empty = no pin. */
+  pinnedSupplier: string;
+  notes: string;
+}
+
+export function buildLineDraft(book: Book, line?: BuildLine): BuildLineDraft {
+  const part = line?.partId ? book.parts.find((p) => p.id === line.partId) : undefined;
+  const pin = line?.pinnedSupplierId ? book.suppliers.find((s) => s.id === line.pinnedSupplierId) : undefined;
+  return {
+    designators: line?.designators ?? '',
+    part: part?.mpn ?? line?.partId ?? '',
+    partRule: line?.partRule ?? '',
+    qtyRule: line?.qtyRule ?? '1',
+    appliesWhen: line?.appliesWhen ?? '',
+    category: line?.category ?? '',
+    role: line?.role ?? '',
+    attrition: line?.attrition === undefined ? '' : String(Number((line.attrition * 100).toPrecision(6))),
+    pinnedSupplier: pin?.name ?? line?.pinnedSupplierId ?? '',
+    notes: line?.notes ?? '',
+  };
+}
+
+/** Why a rule's text cannot be read, before any variant is tried. Empty text is allowed unless `required`. */
+export function ruleTextProblem(text: string, what: string, required: boolean): string | undefined {
+  const body = formulaBody(text);
+  if (body === '') return required ? `${what} is required` : undefined;
+  const g = guardFormula(body);
+  if (!g.ok) return g.refusal.message;
+  const t = tokenizeFormula(body);
+  return t.ok ? undefined : t.error;
+}
+
+/** The next position after every line, in steps of ten so a line can later be put between two. */
+export function nextPosition(book: Book): number {
+  return book.buildLines.reduce((m, l) => Math.max(m, l.position), 0) + 10;
+}
+
+/**
+ * Checks a draft against the Book: the text of each rule, the part and pinned supplier by name, category and
+ * attrition. Gives the line (rev 0 and the next position for a new one) or messages keyed by field.
+ */
+export function validateBuildLine(
+  d: BuildLineDraft,
+  book: Book,
+  editing: BuildLine | undefined,
+  makeId: () => string,
+): FormResult<BuildLine> {
+  const problems: FieldProblems = {};
+  const designators = d.designators.trim();
+  if (designators === '') problems.designators = 'designators are required (for example R1 or C6, C7)';
+  else if (designators.length > 200) problems.designators = 'at most 200 characters';
+
+  const partText = d.part.trim();
+  let partId: string | undefined;
+  if (partText !== '') {
+    const key = mpnKey(partText);
+    const part = book.parts.find((p) => mpnKey(p.mpn) === key) ?? book.parts.find((p) => p.id === partText);
+    if (!part) problems.part = `no part ${partText} in the Book; add it on the Parts page first`;
+    else partId = part.id;
+  }
+  const partRule = formulaBody(d.partRule);
+  const pr = ruleTextProblem(d.partRule, 'the part rule', false);
+  if (pr) problems.partRule = pr;
+  if (partText === '' && partRule === '' && !problems.part) problems.part = 'give a part, or a part rule that chooses one per variant';
+
+  const qp = ruleTextProblem(d.qtyRule, 'the quantity rule', true);
+  if (qp) problems.qtyRule = qp;
+  const ap = ruleTextProblem(d.appliesWhen, 'the applies-when rule', false);
+  if (ap) problems.appliesWhen = ap;
+
+  const category = d.category.trim();
+  if (!(COST_CATEGORIES as readonly string[]).includes(category)) problems.category = `choose one of ${COST_CATEGORIES.join(', ')}`;
+
+  const role = d.role.trim();
+  if (role !== '' && !/^[a-z][a-z0-9_]*$/.test(role)) {
+    problems.role = 'small letters, digits and _, starting with a letter (checks read <role>_<rating>)';
+  }
+
+  let attrition: number | undefined;
+  const at = d.attrition.trim().replace(/\s*%$/, '');
+  if (at !== '') {
+    const n = Number(at);
+    if (!Number.isFinite(n) || n < 0 || n >= 100) problems.attrition = 'a percentage from 0 up to (not including) 100, or blank for the Book’s default';
+    else attrition = Number((n / 100).toPrecision(12));
+  }
+
+  let pinnedSupplierId: string | undefined;
+  const pin = d.pinnedSupplier.trim();
+  if (pin !== '') {
+    const s = book.suppliers.find((x) => x.name.trim().toLowerCase() === pin.toLowerCase()) ?? book.suppliers.find((x) => x.id === pin);
+    if (!s) problems.pinnedSupplier = `no supplier ${pin} in the Book`;
+    else pinnedSupplierId = s.id;
+  }
+
+  if (Object.keys(problems).length > 0) return { ok: false, problems };
+  const record: BuildLine = {
+    id: editing?.id ?? makeId(),
+    rev: editing?.rev ?? 0,
+    position: editing?.position ?? nextPosition(book),
+    designators,
+    qtyRule: formulaBody(d.qtyRule),
+    appliesWhen: formulaBody(d.appliesWhen),
+    category: category as CostCategory,
+  };
+  if (partId !== undefined) record.partId = partId;
+  if (partRule !== '') record.partRule = partRule;
+  if (role !== '') record.role = role;
+  if (attrition !== undefined) record.attrition = attrition;
+  if (pinnedSupplierId !== undefined) record.pinnedSupplierId = pinnedSupplierId;
+  if (d.notes.trim() !== '') record.notes = d.notes.trim();
+  return { ok: true, record };
+}
+
+/** How one line stands for one variant, for the preview beside the form and the per-variant BOM. */
+export interface LineOutcome {
+  variantId: string;
+  variantCode: string;
+  applies: boolean;
+  partId: string | null;
+  mpn: string;
+  qtyPerUnit: number;
+  problem?: string;
+}
+
+/** The Book with `line` put in (replacing the line of the same id). */
+export function withLine(book: Book, line: BuildLine): Book {
+  return { ...book, buildLines: [...book.buildLines.filter((l) => l.id !== line.id), line] };
+}
+
+/** Each variant's outcome for one line, read from a family resolution. */
+export function lineOutcomes(book: Book, family: FamilyResolution, lineId: string): LineOutcome[] {
+  const mpn = new Map(book.parts.map((p) => [p.id, p.mpn] as const));
+  return family.variants.map((v) => {
+    const l = v.lines.find((x) => x.lineId === lineId);
+    const problems = v.problems.filter((p) => p.lineId === lineId).map((p) => p.message);
+    const out: LineOutcome = {
+      variantId: v.variantId,
+      variantCode: v.variantCode,
+      applies: l?.applies ?? false,
+      partId: l?.partId ?? null,
+      mpn: l?.partId ? (mpn.get(l.partId) ?? l.partId) : '',
+      qtyPerUnit: l?.qtyPerUnit ?? 0,
+    };
+    if (problems.length > 0) out.problem = problems.join('; ');
+    return out;
+  });
+}
+
+/** The field a resolver message belongs beside, read from its opening words. */
+export function problemField(message: string): keyof BuildLineDraft {
+  if (message.startsWith('applies-when rule')) return 'appliesWhen';
+  if (message.startsWith('quantity rule') || message.startsWith('quantity per unit')) return 'qtyRule';
+  if (message.startsWith('part rule') || message.startsWith('unknown part number')) return 'partRule';
+  if (message.startsWith('role ')) return 'role';
+  return 'part';
+}
+
+/**
+ * Tries a validated line on every variant. Messages of variants whose rules fail are gathered beside the field they
+ * belong to, naming the variants ("FR3-40-CD, FR4-60-CD: quantity rule: unknown name x").
+ */
+export function trialLine(book: Book, line: BuildLine): { outcomes: LineOutcome[]; problems: FieldProblems } {
+  const trial = withLine(book, line);
+  const family = resolveFamily(trial);
+  const outcomes = lineOutcomes(trial, family, line.id);
+  const byField = new Map<keyof BuildLineDraft, Map<string, string[]>>();
+  for (const o of outcomes) {
+    if (o.problem === undefined) continue;
+    for (const message of o.problem.split('; ')) {
+      const f = problemField(message);
+      const byMessage = byField.get(f) ?? new Map<string, string[]>();
+      byField.set(f, byMessage);
+      const codes = byMessage.get(message) ?? [];
+      codes.push(o.variantCode);
+      byMessage.set(message, codes);
+    }
+  }
+  const problems: FieldProblems = {};
+  for (const [f, byMessage] of byField) {
+    problems[f] = [...byMessage]
+      .map(([message, codes]) => `${codes.length === outcomes.length && codes.length > 1 ? 'every variant' : codes.join(', ')}: ${message}`)
+      .join(' · ');
+  }
+  return { outcomes, problems };
+}
+
+/** Lines in the order they are shown: by position, then id (as the family resolver orders them). */
+export function orderedLines(book: Book): BuildLine[] {
+  return [...book.buildLines].sort((a, b) => a.position - b.position || a.id.localeCompare(b.id));
+}
+
+/**
+ * Moves a line one place up (−1) or down (+1). Gives the lines whose position changes, renumbered in steps of ten
+ * so equal positions become distinct; an empty list when the line is already at that end or unknown.
+ */
+export function moveLine(book: Book, lineId: string, step: -1 | 1): BuildLine[] {
+  const lines = orderedLines(book);
+  const i = lines.findIndex((l) => l.id === lineId);
+  const j = i + step;
+  if (i < 0 || j < 0 || j >= lines.length) return [];
+  const order = [...lines];
+  order[i] = lines[j]!;
+  order[j] = lines[i]!;
+  const changed: BuildLine[] = [];
+  order.forEach((l, k) => {
+    const position = (k + 1) * 10;
+    if (l.position !== position) changed.push({ ...l, position });
+  });
+  return changed;
+}
