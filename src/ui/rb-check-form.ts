@@ -122,11 +122,17 @@ export function validateCheckDraft(
   };
 }
 
-/** The check on every variant, evaluated with the Book's other checks (so it may read them by name). */
+/** Variants a preview evaluates: enough to show the check at work while typing, however large the family. */
+export const PREVIEW_VARIANTS = 24;
+
+/**
+ * The check on the Book's first PREVIEW_VARIANTS variants, evaluated with the Book's other checks (so it may read
+ * them by name). Each variant's row is independent of the others, so the sample's results equal the whole family's.
+ */
 export function previewCheck(book: Book, record: Check): CheckResult[] {
   const checks = [...book.checks.filter((c) => c.id !== record.id), record];
-  const variants = new Set(book.variants.map((v) => v.id));
-  return evaluateChecks(book, checks).filter((r) => r.checkId === record.id && variants.has(r.variantId));
+  const sample = { ...book, variants: book.variants.slice(0, PREVIEW_VARIANTS) };
+  return evaluateChecks(sample, checks).filter((r) => r.checkId === record.id);
 }
 
 /**
@@ -261,7 +267,7 @@ export class RbCheckForm extends LitElement {
       ${formula('applies', 'applies when', 'blank for every variant; e.g. supply="dropper" — elsewhere the check shows n/a')}
       ${field({ name: 'note', label: 'note', value: d.note, multiline: true, hint: 'why the rule holds and where it comes from', onInput: (v) => set({ note: v }) })}
       <span></span>
-      <div class="preview" aria-label="Preview on every variant" data-testid="check-preview">
+      <div class="preview" aria-label="Preview on the variants" data-testid="check-preview">
         ${this.preview.map(
           (r) => html`<span class=${r.status === 'n/a' ? 'na' : r.status} title=${r.message}
             >${r.variantCode} ${STATUS_SYMBOL[r.status]} ${r.status}${typeof r.value === 'number' ? ` · ${formatValue(r.value, r.unit)}` : ''}</span
