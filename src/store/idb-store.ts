@@ -184,10 +184,14 @@ export class IdbBookStore implements BookStore {
     if (shape) throw new StoreWriteFailed(shape);
 
     const tx = this.db.transaction(stores, 'readwrite');
+    let failedAdd: { c: CollectionName; id: string; e: unknown } | undefined;
     try {
       const reads: Promise<RevisionConflict | undefined>[] = [];
       for (const c of collections) {
         for (const r of change.put?.[c] ?? []) {
+          // New records (rev 0) are written with add(), which fails on an existing key: no read needed, which keeps
+          // a 50,000-quote import to one request per record.
+          if (r.rev === 0) continue;
           reads.push(
             tx.objectStore(c).get(r.id).then((stored) =>
               revisionMatches(stored?.rev, r.rev) ? undefined : new RevisionConflict(c, r.id, stored?.rev ?? 0, r.rev),
@@ -214,14 +218,26 @@ export class IdbBookStore implements BookStore {
       }
       for (const c of collections) {
         const store = tx.objectStore(c);
-        for (const r of change.put?.[c] ?? []) writes.add(store.put(toStored(c, bumped(r)) as never));
+        for (const r of change.put?.[c] ?? []) {
+          const stored = toStored(c, bumped(r)) as never;
+          if (r.rev !== 0) writes.add(store.put(stored));
+          else writes.add(store.add(stored).catch((e: unknown) => Promise.reject((failedAdd ??= { c, id: r.id, e }).e)));
+        }
       }
       if (settings) writes.add(tx.objectStore('settings').put(bumped(settings)));
       await writes.all();
       await tx.done;
     } catch (e) {
-      throw await failed(tx, e);
+      const error = await failed(tx, e);
+      throw failedAdd ? await this.addFailure(failedAdd.c, failedAdd.id, error) : error;
     }
+  }
+
+  /** An add() of a new record failed: a record with that id already exists (a conflict), or a unique index broke. */
+  private async addFailure(c: CollectionName, id: string, error: Error): Promise<Error> {
+    if (!(error instanceof StoreWriteFailed)) return error;
+    const existing = await this.db.get(c, id).catch(() => undefined);
+    return existing ? new RevisionConflict(c, id, existing.rev, 0) : error;
   }
 
   async replaceAll(book: Book): Promise<void> {

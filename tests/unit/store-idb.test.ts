@@ -151,11 +151,17 @@ describe('apply', () => {
     const { store } = await fresh();
     await store.replaceAll(sampleBook());
     const before = await store.load();
+    // New records are written with add(), edited ones with put(): the third write of either kind hits the quota.
     const realPut = IDBObjectStore.prototype.put;
+    const realAdd = IDBObjectStore.prototype.add;
     let calls = 0;
     vi.spyOn(IDBObjectStore.prototype, 'put').mockImplementation(function (this: IDBObjectStore, ...args: Parameters<IDBObjectStore['put']>) {
       if (++calls === 3) throw new DOMException('quota reached', 'QuotaExceededError');
       return realPut.apply(this, args);
+    });
+    vi.spyOn(IDBObjectStore.prototype, 'add').mockImplementation(function (this: IDBObjectStore, ...args: Parameters<IDBObjectStore['add']>) {
+      if (++calls === 3) throw new DOMException('quota reached', 'QuotaExceededError');
+      return realAdd.apply(this, args);
     });
     const change: BookChange = {
       put: { parts: [newPart('part_a', 'KT-A'), newPart('part_b', 'KT-B'), newPart('part_c', 'KT-C')] },
