@@ -2,15 +2,19 @@
 // as a table, JSON or CSV. The numbers come from the same costing workbook the app uses.
 import type { Book, Variant } from '../../domain/book.ts';
 import type { CostedBom } from '../../domain/costing.ts';
-import { CostingWorkbook, resolutionFromFamily } from '../../engine/costing.ts';
-import { resolveFamily } from '../../engine/family.ts';
-import { toCsv } from '../../io/csv-write.ts';
-import type { CsvCell } from '../../io/csv-write.ts';
+import { costedBomCsv, costVariant, frozenCosting, parseExportOptions } from '../../io/run-export.ts';
+import type { ExportOptions, RunCosting } from '../../io/run-export.ts';
 import { parseArgs } from '../command.ts';
 import type { CliCommand, CliIo, ParsedArgs } from '../command.ts';
 import { formatProblems, MAINS_CAUTION, readBookFile } from './info.ts';
 
-const HELP = `usage: rungbook cost FILE --variant CODE --run N [--json | --csv] [--date YYYY-MM-DD]
+/** The CSV choices shared by `cost` and `buy`. */
+export const CSV_CHOICES = `CSV choices (with --csv):
+  --delimiter W    comma (default), semicolon or tab
+  --decimal W      point (default) or comma (a decimal comma needs --delimiter semicolon or tab)
+  --bom            start the file with a UTF-8 byte-order mark`;
+
+const HELP = `usage: rungbook cost FILE --variant CODE --run N [--json | --csv [CSV CHOICES]] [--date YYYY-MM-DD] [--fresh]
 
 Costs one variant of a .rungbook.json Book for a production run of N units: per BOM line the need (with
 attrition), the order quantity (MOQ, whole packs, buying up to a cheaper price break), the chosen quote, unit and
@@ -22,6 +26,11 @@ at the Book's margin, and the run total. Lines of the same part are bought toget
   --json           print {variant, run, currency, lines: [...], material, labour, overhead, unitCost, runTotal, …}
   --csv            print the lines and totals as CSV (RFC 4180; text that could run as a formula is neutralised)
   --date D         decide quote expiry at this date (default: the Book's costing date, else today)
+  --fresh          cost with today's quotes even when the Book holds a frozen Run of this variant and quantity
+${CSV_CHOICES}
+
+A Run of the Book with this variant and quantity that is frozen is printed as frozen (its prices and quotes as
+they were), unless --fresh or --date is given. The CSV has the same bytes as the app's export with the same choices.
 
 Money: each line's extended price is rounded to cents in the quote's currency, then converted and rounded to
 cents in the base currency; run totals are sums of those. The run pays for all it buys (leftover stock is shown
@@ -29,11 +38,38 @@ with its value, not credited). Overhead is a percentage of labour; price = unit 
 Exit status: 0 done, 1 some line has no usable quote (listed; totals cover priced lines only), 2 bad arguments
 or an unreadable Book file.`;
 
+/** Option names every costing command takes, for parseArgs. */
+export const COSTING_FLAGS = ['bom', 'fresh'];
+export const COSTING_VALUES = ['variant', 'run', 'date', 'delimiter', 'decimal'];
+
 export interface CostJob {
   book: Book;
   variant: Variant;
   run: number;
   bom: CostedBom;
+  costing: RunCosting;
+  /** CSV choices (defaults when none were given). */
+  csv: ExportOptions;
+}
+
+/** Reads the CSV choices; they are refused without --csv, so a typo never goes unnoticed. */
+function csvChoices(name: string, parsed: ParsedArgs, io: CliIo): ExportOptions | number {
+  const o = parsed.options;
+  const given = o.has('delimiter') || o.has('decimal') || o.has('bom');
+  if (given && !o.has('csv')) {
+    io.err(`rungbook ${name}: --delimiter, --decimal and --bom shape the CSV: give them with --csv`);
+    return 2;
+  }
+  const text = (k: string): string | undefined => {
+    const v = o.get(k);
+    return typeof v === 'string' ? v : undefined;
+  };
+  const r = parseExportOptions({ delimiter: text('delimiter'), decimal: text('decimal'), bom: o.has('bom') });
+  if (!r.ok) {
+    io.err(`rungbook ${name}: ${r.error}`);
+    return 2;
+  }
+  return r.value;
 }
 
 /**
@@ -61,6 +97,8 @@ export async function costFromArgs(name: string, parsed: ParsedArgs, help: strin
     io.err(`rungbook ${name}: --date must be YYYY-MM-DD`);
     return 2;
   }
+  const csv = csvChoices(name, parsed, io);
+  if (typeof csv === 'number') return csv;
   const file = parsed.positional[0]!;
   const read = await readBookFile(file);
   if (!read.ok) {
@@ -73,25 +111,15 @@ export async function costFromArgs(name: string, parsed: ParsedArgs, help: strin
     io.err(`rungbook ${name}: no variant with code ${code}; the Book has ${book.variants.map((v) => v.code).join(', ') || 'no variants'}`);
     return 2;
   }
-  // Only this variant and this run size are compiled; lines, parts and quotes stay whole.
-  const subject: Book = { ...book, variants: [variant], settings: { ...book.settings, runSizes: [run] } };
-  const resolution = resolutionFromFamily(resolveFamily(subject));
-  const opened = CostingWorkbook.open(subject, resolution, typeof date === 'string' ? { date } : {});
-  if (!opened.ok) {
-    io.err(`rungbook ${name}: ${opened.error}`);
+  const frozenRun = book.runs.find((r) => r.variantId === variant.id && r.quantity === run && r.frozen);
+  const useFrozen = frozenRun !== undefined && !parsed.options.has('fresh') && date === undefined;
+  const costing = useFrozen ? frozenCosting(frozenRun) : costVariant(book, variant.id, run, typeof date === 'string' ? { date } : {});
+  if (!costing.ok) {
+    io.err(`rungbook ${name}: ${useFrozen ? `frozen run ${frozenRun.name}: ` : ''}${costing.error}`);
     return 2;
   }
-  const wb = opened.value;
-  try {
-    const bom = wb.costedBom(variant.id, run);
-    if (!bom.ok) {
-      io.err(`rungbook ${name}: ${bom.error}`);
-      return 2;
-    }
-    return { book, variant, run, bom: bom.value };
-  } finally {
-    wb.close();
-  }
+  if (useFrozen) io.err(`rungbook ${name}: run ${frozenRun.name} is frozen (${frozenRun.frozen!.at}): prices and quotes as frozen; give --fresh to cost with today's quotes`);
+  return { book, variant, run, bom: costing.value.bom, costing: costing.value, csv };
 }
 
 /** Money to 2 decimals, per-unit figures to 4, quantities as whole numbers with thin grouping. */
@@ -167,27 +195,11 @@ function totals(bom: CostedBom, marginPct: number): [string, string][] {
   ];
 }
 
-function csvOut(bom: CostedBom, marginPct: number): string {
-  const head = ['designators', 'mpn', 'description', 'need', 'buy', 'supplier', 'supplier_code', 'break_qty', 'unit_price', 'currency', 'extended', `extended_${bom.currency}`, 'leftover', `leftover_value_${bom.currency}`];
-  const rows: CsvCell[][] = [head];
-  for (const l of bom.lines) {
-    rows.push([l.designators, l.mpn, l.description, l.need, l.buy, l.supplier, l.supplierCode, l.breakQty, l.unitPrice, l.currency, l.extended, l.extendedBase, l.leftover, l.leftoverValue]);
-  }
-  for (const p of bom.problems) rows.push([p.designators ?? '', '', `NOT PRICED: ${p.message}`]);
-  // Totals sit in the base-currency amount column, labelled in the first.
-  for (const [label, value] of totals(bom, marginPct)) {
-    const row: CsvCell[] = new Array<CsvCell>(head.length).fill('');
-    row[0] = label;
-    row[11] = Number(value);
-    rows.push(row);
-  }
-  return toCsv(rows);
-}
-
 function tableOut(job: CostJob): string[] {
   const { bom } = job;
   const out: string[] = [];
   out.push(`${bom.variant} — ${job.variant.name}: run of ${bom.run}, quotes valid on ${bom.date}, totals in ${bom.currency}`);
+  if (job.costing.frozen) out.push(`Frozen ${job.costing.frozen.at}: the prices and quotes of that day, not today's.`);
   out.push('');
   const rows = [['designators', 'mpn', 'need', 'buy', 'supplier', 'break', 'unit price', 'cur', 'extended', `ext ${bom.currency}`, 'leftover', `value ${bom.currency}`]];
   for (const l of bom.lines) {
@@ -209,7 +221,7 @@ function tableOut(job: CostJob): string[] {
   out.push(...table(rows, [false, false, true, true, false, true, true, false, true, true, true, true]));
   for (const p of bom.problems) out.push(`NOT PRICED ${p.designators || p.lineId || ''}: ${p.message}`);
   out.push('');
-  const t = totals(bom, job.book.settings.marginPct);
+  const t = totals(bom, job.costing.marginPct);
   out.push(...table(t.map(([a, b]) => [a, b]), [false, true]));
   if (!bom.complete) out.push('', 'INCOMPLETE: the lines above marked NOT PRICED are missing from every total.');
   out.push('', MAINS_CAUTION);
@@ -222,7 +234,7 @@ export const command: CliCommand = {
   async run(args: string[], io: CliIo): Promise<number> {
     let parsed: ParsedArgs;
     try {
-      parsed = parseArgs(args, { flags: ['json', 'csv'], values: ['variant', 'run', 'date'] });
+      parsed = parseArgs(args, { flags: ['json', 'csv', ...COSTING_FLAGS], values: COSTING_VALUES });
     } catch (e) {
       io.err(`rungbook cost: ${e instanceof Error ? e.message : String(e)}\n\n${HELP}`);
       return 2;
@@ -238,7 +250,12 @@ export const command: CliCommand = {
       io.out(JSON.stringify(costJson(bom), null, 2));
       io.err(MAINS_CAUTION);
     } else if (parsed.options.has('csv')) {
-      io.out(csvOut(bom, job.book.settings.marginPct));
+      const text = costedBomCsv(job.costing, job.csv);
+      if (!text.ok) {
+        io.err(`rungbook cost: ${text.error}`);
+        return 2;
+      }
+      io.out(text.value);
       io.err(MAINS_CAUTION);
     } else {
       io.out(tableOut(job).join('\n'));

@@ -1,0 +1,398 @@
+// The files a production run leaves Rungbook as: the costed BOM and the purchase list, as CSV text and bytes. The app's
+// Export and Runs pages and the CLI's `cost --csv` and `buy --csv` all take their bytes from here, so the same run
+// and the same settings give the same file wherever it is made.
+//
+// CSV (RFC 4180 §2): every record ends in CRLF; a field holding the delimiter, a quote, CR or LF is quoted with inner
+// quotes doubled. Formula injection (OWASP CSV injection guidance): a text cell starting with = + - @ tab, CR or NUL
+// gets a leading ' and is quoted, as in csv-write.ts; numbers we write ourselves are never text, so a negative number
+// stays a plain number. Choices: delimiter (comma, semicolon, tab), decimal point or comma (a comma decimal needs
+// another delimiter), UTF-8 with or without a byte-order mark.
+//
+// Rounding (the costing module's one rule, domain/costing.ts): amounts are cents, per-unit figures 4 decimals, both
+// written from integer cents / ten-thousandths so the digits are exact; unit prices are written as quoted. The run
+// material row is the sum of the extended base-currency column, the leftover value row the sum of its column, the
+// unit cost the sum of the four per-unit rows, and the run total the run material plus the run's labour, test and
+// overhead row: every total equals the sum of the rows it is made of, to the cent.
+import type { Book, Part, Run } from '../domain/book.ts';
+import type { CostedBom, Result } from '../domain/costing.ts';
+import { toCents, toTenThousandths } from '../domain/costing.ts';
+import { readSnapshot } from '../domain/freeze.ts';
+import type { FrozenSnapshot } from '../domain/freeze.ts';
+import type { PurchaseList } from '../domain/purchase.ts';
+import { formatValue } from '../domain/units.ts';
+import { CostingWorkbook, resolutionFromFamily } from '../engine/costing.ts';
+import { resolveFamily } from '../engine/family.ts';
+
+// ---------------------------------------------------------------------------------------------------------------
+// Options
+
+export const DELIMITERS = { comma: ',', semicolon: ';', tab: '\t' } as const;
+export type DelimiterName = keyof typeof DELIMITERS;
+export const DECIMAL_STYLES = { point: '.', comma: ',' } as const;
+export type DecimalStyle = keyof typeof DECIMAL_STYLES;
+
+export interface ExportOptions {
+  delimiter: DelimiterName;
+  decimal: DecimalStyle;
+  /** Start the file with a UTF-8 byte-order mark (some spreadsheet programs need it to read UTF-8). */
+  bom: boolean;
+}
+
+export const DEFAULT_EXPORT_OPTIONS: ExportOptions = { delimiter: 'comma', decimal: 'point', bom: false };
+
+/** Reads export choices given as words (CLI options, form values). Unknown words and clashes give a message. */
+export function parseExportOptions(given: { delimiter?: string | undefined; decimal?: string | undefined; bom?: boolean | undefined }): Result<ExportOptions> {
+  const delimiter = (given.delimiter ?? DEFAULT_EXPORT_OPTIONS.delimiter).trim().toLowerCase();
+  const decimal = (given.decimal ?? DEFAULT_EXPORT_OPTIONS.decimal).trim().toLowerCase();
+  if (!Object.hasOwn(DELIMITERS, delimiter)) {
+    return { ok: false, error: `delimiter must be one of ${Object.keys(DELIMITERS).join(', ')}, got “${given.delimiter ?? ''}”` };
+  }
+  if (!Object.hasOwn(DECIMAL_STYLES, decimal)) {
+    return { ok: false, error: `decimal style must be one of ${Object.keys(DECIMAL_STYLES).join(', ')}, got “${given.decimal ?? ''}”` };
+  }
+  const options: ExportOptions = { delimiter: delimiter as DelimiterName, decimal: decimal as DecimalStyle, bom: given.bom ?? false };
+  const clash = exportOptionsProblem(options);
+  return clash ? { ok: false, error: clash } : { ok: true, value: options };
+}
+
+/** Why a set of choices cannot make a readable file, or undefined. */
+export function exportOptionsProblem(o: ExportOptions): string | undefined {
+  if (o.decimal === 'comma' && o.delimiter === 'comma') {
+    return 'with a decimal comma the delimiter cannot also be a comma: choose semicolon or tab';
+  }
+  return undefined;
+}
+
+// ---------------------------------------------------------------------------------------------------------------
+// Cells
+
+/** How a number is written: a whole quantity, money (2 decimals), a per-unit figure (4), or a price as quoted. */
+export const NUMBER_KINDS = { qty: 'qty', money: 'money', unit: 'unit', price: 'price' } as const;
+export type NumberKind = (typeof NUMBER_KINDS)[keyof typeof NUMBER_KINDS];
+
+export interface NumberCell {
+  n: number;
+  kind: NumberKind;
+}
+
+/** A text cell, a number cell, or empty. */
+export type ExportCell = string | NumberCell | undefined;
+
+const qty = (n: number): NumberCell => ({ n, kind: NUMBER_KINDS.qty });
+const money = (n: number): NumberCell => ({ n, kind: NUMBER_KINDS.money });
+const unit = (n: number): NumberCell => ({ n, kind: NUMBER_KINDS.unit });
+const price = (n: number): NumberCell => ({ n, kind: NUMBER_KINDS.price });
+
+/** Writes integer units of 10^-dp as a decimal with exactly dp digits, from integer arithmetic only. */
+function fixedFromInteger(units: number, dp: number): string {
+  const sign = units < 0 ? '-' : '';
+  const abs = Math.abs(units);
+  const scale = 10 ** dp;
+  const whole = Math.floor(abs / scale);
+  const frac = String(abs - whole * scale).padStart(dp, '0');
+  return `${sign}${whole}.${frac}`;
+}
+
+/** A number as the file shows it, with a point; callers swap the decimal sign. Non-finite numbers are empty. */
+export function numberText(cell: NumberCell): string {
+  const n = cell.n;
+  if (!Number.isFinite(n)) return '';
+  switch (cell.kind) {
+    case 'qty':
+      return Number.isInteger(n) ? String(n) : plainDecimal(n, 0);
+    case 'money':
+      return fixedFromInteger(toCents(n), 2);
+    case 'unit':
+      return fixedFromInteger(toTenThousandths(n), 4);
+    case 'price':
+      return plainDecimal(n, 2);
+  }
+}
+
+/** The shortest text that reads back as the same double, never in exponent form, with at least `minDp` decimals. */
+function plainDecimal(n: number, minDp: number): string {
+  let s = String(Math.abs(n));
+  if (/e/i.test(s)) s = Math.abs(n).toFixed(12).replace(/0+$/, '').replace(/\.$/, '');
+  const dp = s.includes('.') ? s.length - s.indexOf('.') - 1 : 0;
+  if (dp < minDp) s += (dp === 0 ? '.' : '') + '0'.repeat(minDp - dp);
+  return (n < 0 ? '-' : '') + s;
+}
+
+const DANGEROUS_START = /^[=+\-@\t\r\0]/;
+
+/** One field as it appears in the file under the given choices. */
+export function exportField(cell: ExportCell, o: ExportOptions): string {
+  if (cell === undefined) return '';
+  if (typeof cell !== 'string') {
+    const t = numberText(cell);
+    return o.decimal === 'comma' ? t.replace('.', ',') : t;
+  }
+  const delimiter = DELIMITERS[o.delimiter];
+  if (DANGEROUS_START.test(cell)) return `"'${cell.replace(/"/g, '""')}"`;
+  return cell.includes(delimiter) || /["\r\n]/.test(cell) ? `"${cell.replace(/"/g, '""')}"` : cell;
+}
+
+/** Rows to CSV text (a byte-order mark first when chosen; every record, the last too, ended by CRLF). */
+export function exportText(rows: readonly (readonly ExportCell[])[], o: ExportOptions): string {
+  const delimiter = DELIMITERS[o.delimiter];
+  let out = o.bom ? '\uFEFF' : '';
+  for (const row of rows) out += row.map((c) => exportField(c, o)).join(delimiter) + '\r\n';
+  return out;
+}
+
+/** The file's bytes: the text in UTF-8 (the byte-order mark, when chosen, is EF BB BF). */
+export function exportBytes(text: string): Uint8Array {
+  return new TextEncoder().encode(text);
+}
+
+// ---------------------------------------------------------------------------------------------------------------
+// Costing a run
+
+/** A run's costing and what an export needs beside it. */
+export interface RunCosting {
+  bom: CostedBom;
+  /** Margin the price row is computed with. */
+  marginPct: number;
+  /** The parts the lines refer to (from the Book, or from the frozen snapshot). */
+  parts: readonly Part[];
+  /** Set when the costing is a frozen run's snapshot. */
+  frozen?: { at: string; snapshot: FrozenSnapshot };
+}
+
+/**
+ * Costs one variant for a run of `quantity` with today's quotes (or those valid at `date`): the family resolver
+ * gives the variant's lines, the costing workbook the figures, exactly as every other screen and the CLI cost them.
+ */
+export function costVariant(book: Book, variantId: string, quantity: number, options: { date?: string } = {}): Result<RunCosting> {
+  const variant = book.variants.find((v) => v.id === variantId);
+  if (!variant) return { ok: false, error: `no variant with id ${variantId} in the Book` };
+  if (!Number.isSafeInteger(quantity) || quantity < 1) return { ok: false, error: `run quantity must be a whole number ≥ 1, got ${quantity}` };
+  // Only this variant and this run size are compiled; lines, parts and quotes stay whole.
+  const subject: Book = { ...book, variants: [variant], settings: { ...book.settings, runSizes: [quantity] } };
+  const opened = CostingWorkbook.open(subject, resolutionFromFamily(resolveFamily(subject)), options.date === undefined ? {} : { date: options.date });
+  if (!opened.ok) return opened;
+  const wb = opened.value;
+  try {
+    const bom = wb.costedBom(variant.id, quantity);
+    if (!bom.ok) return bom;
+    return { ok: true, value: { bom: bom.value, marginPct: book.settings.marginPct, parts: book.parts } };
+  } finally {
+    wb.close();
+  }
+}
+
+/** A frozen run's costing, read from its snapshot. */
+export function frozenCosting(run: Run): Result<RunCosting> {
+  if (!run.frozen) return { ok: false, error: `run ${run.name} is not frozen` };
+  const s = readSnapshot(run.frozen);
+  if (!s.ok) return s;
+  const snapshot = s.value;
+  return {
+    ok: true,
+    value: { bom: snapshot.bom, marginPct: snapshot.settings.marginPct, parts: snapshot.parts, frozen: { at: run.frozen.at, snapshot } },
+  };
+}
+
+/** The costing a run's exports use: its frozen snapshot when it is frozen (unless `fresh`), else today's. */
+export function runCosting(book: Book, run: Run, options: { fresh?: boolean; date?: string } = {}): Result<RunCosting> {
+  if (run.frozen && !options.fresh) return frozenCosting(run);
+  return costVariant(book, run.variantId, run.quantity, options.date === undefined ? {} : { date: options.date });
+}
+
+// ---------------------------------------------------------------------------------------------------------------
+// Costed BOM
+
+/** How the part of a line reads: kind, principal value and package ("resistor 47 kΩ 0603"). */
+export function partLabel(part: Part | undefined): string {
+  if (!part) return '';
+  const value = part.value === undefined ? '' : formatValue(part.value, part.unit ?? '');
+  return [part.kind, value, part.package].filter((s) => s !== '').join(' ');
+}
+
+/** Column names of the costed BOM (the base-currency columns carry the currency code). */
+export function costedBomHeader(currency: string): string[] {
+  return [
+    'designators',
+    'mpn',
+    'description',
+    'need',
+    'buy',
+    'qty_per_unit',
+    'part',
+    'maker',
+    'supplier',
+    'supplier_code',
+    'break_qty',
+    'unit_price',
+    'currency',
+    'extended',
+    `extended_${currency}`,
+    'leftover',
+    `leftover_value_${currency}`,
+  ];
+}
+
+/** Index of the base-currency amount column, where the totals stand. */
+export const COSTED_TOTAL_COLUMN = 14;
+export const COSTED_LEFTOVER_COLUMN = 16;
+
+/** Labels of the totals rows, in file order, for a base currency and margin. */
+export function costedTotalLabels(currency: string, marginPct: number) {
+  return {
+    material: `material per unit (${currency})`,
+    labour: `labour per unit (${currency})`,
+    test: `test per unit (${currency})`,
+    overhead: `overhead per unit (${currency})`,
+    unitCost: `unit cost (${currency})`,
+    price: `price at ${marginPct} % margin (${currency})`,
+    materialRun: `run material (${currency})`,
+    conversionRun: `run labour, test and overhead (${currency})`,
+    runTotal: `run total (${currency})`,
+    leftoverValue: `leftover stock value (${currency})`,
+  } as const;
+}
+
+/** The costed BOM as rows: the header, one row per build line, lines not priced, then the totals. */
+export function costedBomRows(c: RunCosting): ExportCell[][] {
+  const { bom } = c;
+  const head = costedBomHeader(bom.currency);
+  const parts = new Map(c.parts.map((p) => [p.id, p] as const));
+  const rows: ExportCell[][] = [head];
+  for (const l of bom.lines) {
+    const part = parts.get(l.partId);
+    rows.push([
+      l.designators,
+      l.mpn,
+      l.description,
+      qty(l.need),
+      qty(l.buy),
+      qty(l.qtyPerUnit),
+      partLabel(part),
+      part?.maker ?? '',
+      l.supplier,
+      l.supplierCode,
+      qty(l.breakQty),
+      price(l.unitPrice),
+      l.currency,
+      money(l.extended),
+      money(l.extendedBase),
+      qty(l.leftover),
+      money(l.leftoverValue),
+    ]);
+  }
+  for (const p of bom.problems) {
+    const row: ExportCell[] = new Array<ExportCell>(head.length).fill(undefined);
+    row[0] = p.designators ?? '';
+    row[2] = `NOT PRICED: ${p.message}`;
+    rows.push(row);
+  }
+  const labels = costedTotalLabels(bom.currency, c.marginPct);
+  const materialCents = bom.lines.reduce((s, l) => s + toCents(l.extendedBase), 0);
+  const leftoverCents = bom.lines.reduce((s, l) => s + toCents(l.leftoverValue), 0);
+  const conversionCents = toCents(bom.runTotal) - toCents(bom.materialRun);
+  const total = (label: string, value: NumberCell, column = COSTED_TOTAL_COLUMN): void => {
+    const row: ExportCell[] = new Array<ExportCell>(head.length).fill(undefined);
+    row[0] = label;
+    row[column] = value;
+    rows.push(row);
+  };
+  total(labels.material, unit(bom.material));
+  total(labels.labour, unit(bom.labour));
+  total(labels.test, unit(bom.test));
+  total(labels.overhead, unit(bom.overhead));
+  total(labels.unitCost, unit((toTenThousandths(bom.material) + toTenThousandths(bom.labour) + toTenThousandths(bom.test) + toTenThousandths(bom.overhead)) / 10_000));
+  total(labels.price, unit(bom.price));
+  // Written from the lines' own cents, so a reader summing the column gets the same figure.
+  total(labels.materialRun, money(materialCents / 100));
+  total(labels.conversionRun, money(conversionCents / 100));
+  total(labels.runTotal, money((materialCents + conversionCents) / 100));
+  total(labels.leftoverValue, money(leftoverCents / 100), COSTED_LEFTOVER_COLUMN);
+  return rows;
+}
+
+/** The costed BOM CSV text (byte-order mark included when chosen). Clashing choices give a message. */
+export function costedBomCsv(c: RunCosting, o: ExportOptions = DEFAULT_EXPORT_OPTIONS): Result<string> {
+  const bad = exportOptionsProblem(o);
+  if (bad) return { ok: false, error: bad };
+  return { ok: true, value: exportText(costedBomRows(c), o) };
+}
+
+// ---------------------------------------------------------------------------------------------------------------
+// Purchase list
+
+export function purchaseListHeader(currency: string): string[] {
+  return [
+    'supplier',
+    'supplier_code',
+    'mpn',
+    'description',
+    'designators',
+    'need',
+    'packs',
+    'pack',
+    'order_qty',
+    'moq',
+    'unit_price',
+    'currency',
+    'line_price',
+    `line_price_${currency}`,
+    'lead_days',
+    'latest_order_date',
+    'order_reason',
+  ];
+}
+
+/** The purchase list as rows: the header and one row per order line, suppliers together. */
+export function purchaseListRows(list: PurchaseList): ExportCell[][] {
+  const rows: ExportCell[][] = [purchaseListHeader(list.currency)];
+  for (const o of list.orders) {
+    for (const p of o.lines) {
+      const l = p.line;
+      rows.push([
+        o.supplier,
+        l.supplierCode,
+        l.mpn,
+        l.description,
+        l.designators,
+        qty(l.need),
+        qty(p.packs),
+        qty(l.pack),
+        qty(l.buy),
+        qty(l.moq),
+        price(l.unitPrice),
+        l.currency,
+        money(l.extended),
+        money(l.extendedBase),
+        qty(l.leadDays),
+        p.latestOrderDate ?? '',
+        p.reason,
+      ]);
+    }
+  }
+  return rows;
+}
+
+/** The purchase list CSV text (byte-order mark included when chosen). Clashing choices give a message. */
+export function purchaseListCsv(list: PurchaseList, o: ExportOptions = DEFAULT_EXPORT_OPTIONS): Result<string> {
+  const bad = exportOptionsProblem(o);
+  if (bad) return { ok: false, error: bad };
+  return { ok: true, value: exportText(purchaseListRows(list), o) };
+}
+
+// ---------------------------------------------------------------------------------------------------------------
+// File names
+
+function slug(text: string): string {
+  return (
+    text
+      .normalize('NFKD')
+      .replace(/[^\w.-]+/g, '-')
+      .replace(/^-+|-+$/g, '')
+      .slice(0, 60) || 'rungbook'
+  );
+}
+
+/** File name of a run export: variant, quantity and what the file holds ("FR4-60-CD-2000-costed-bom.csv"). */
+export function runExportFileName(variantCode: string, quantity: number, what: 'costed-bom' | 'purchase-list'): string {
+  return `${slug(variantCode)}-${quantity}-${what}.csv`;
+}
