@@ -1,0 +1,132 @@
+// The shared costing service keeps its live workbooks in step with the Book: after a price, rate, cost setting or
+// parameter edit (done in place) and after structural changes (rebuilt) it gives the same unit costs and check
+// statuses as workbooks opened afresh from the new Book, which is how the CLI computes them.
+import { describe, expect, it } from 'vitest';
+import type { Book } from '../../src/domain/book.ts';
+import { applyChange } from '../../src/domain/book-ops.ts';
+import type { BookChange } from '../../src/domain/book-ops.ts';
+import { demoBook } from '../../src/domain/demo-book.ts';
+import { worstOf } from '../../src/domain/check-status.ts';
+import { CostingWorkbook, resolutionFromFamily } from '../../src/engine/costing.ts';
+import { evaluateChecks, resolveFamily } from '../../src/engine/family.ts';
+import { addBuiltInChecks } from '../../src/engine/sheets.ts';
+import { loadBuiltInChecks } from '../../src/cli/sheets-fs.ts';
+import { CostingService } from '../../src/ui/costing-service.ts';
+
+const CHECKS = loadBuiltInChecks();
+
+class Holder {
+  constructor(public book: Book) {}
+  change(change: BookChange): void {
+    const r = applyChange(this.book, change);
+    if (!r.ok) throw new Error(`conflict on ${r.conflict.recordId}`);
+    this.book = r.book;
+  }
+}
+
+function start(): { holder: Holder; costing: CostingService } {
+  const holder = new Holder(addBuiltInChecks(demoBook(), CHECKS));
+  return { holder, costing: CostingService.for(holder) };
+}
+
+/** Unit costs of a Book computed from scratch, as the CLI does. */
+function fresh(book: Book): Map<string, number> {
+  const wb = CostingWorkbook.open(book, resolutionFromFamily(resolveFamily(book)));
+  if (!wb.ok) throw new Error(wb.error);
+  const out = new Map(wb.value.allUnitCosts().map((r) => [`${r.variantId}@${r.run}`, r.unitCost] as const));
+  wb.value.close();
+  return out;
+}
+
+function live(costing: CostingService, book: Book): Map<string, number> {
+  const out = new Map<string, number>();
+  for (const v of book.variants) for (const run of costing.runSizes) out.set(`${v.id}@${run}`, costing.unitCost(v.id, run));
+  return out;
+}
+
+function freshWorst(book: Book): Map<string, string> {
+  const by = new Map<string, string[]>();
+  for (const r of evaluateChecks(book)) by.set(r.variantId, [...(by.get(r.variantId) ?? []), r.status]);
+  return new Map([...by].map(([id, list]) => [id, worstOf(list as never)] as const));
+}
+
+describe('CostingService', () => {
+  it('is one service per open Book and computes every demo unit cost as a fresh workbook does', () => {
+    const { holder, costing } = start();
+    expect(CostingService.for(holder)).toBe(costing);
+    const want = fresh(holder.book);
+    expect(live(costing, holder.book)).toEqual(want);
+    expect([...want.values()].every((n) => Number.isFinite(n) && n > 0)).toBe(true);
+    for (const v of holder.book.variants) expect(costing.worstStatus(v.id)).toBe(freshWorst(holder.book).get(v.id));
+  });
+
+  it('takes a quote price edit in place and reports the unit costs that moved', () => {
+    const { holder, costing } = start();
+    const v = holder.book.variants[0]!;
+    const run = holder.book.settings.runSizes[0]!;
+    const bom = costing.costedBom(v.id, run);
+    if (!bom.ok) throw new Error(bom.error);
+    const line = bom.value.lines[0]!;
+    const quote = holder.book.quotes.find((q) => q.id === line.quoteId)!;
+    const i = quote.breaks.findIndex((b) => b.qty === line.breakQty);
+    const before = costing.unitCost(v.id, run);
+    const events: string[] = [];
+    costing.addEventListener('change', (e) => events.push((e as CustomEvent<{ kind: string }>).detail.kind));
+    const breaks = quote.breaks.map((b, j) => (j === i ? { ...b, price: b.price + 1 } : b));
+    holder.change({ put: { quotes: [{ ...quote, breaks }] } });
+
+    const report = costing.sync();
+    expect(report.kind).toBe('edited');
+    expect(report.changed.some((c) => c.variantId === v.id && c.run === run)).toBe(true);
+    expect(events).toEqual(['edited']);
+    // One more currency unit on every bought part of that line raises the run's material by buy × 1 × rate.
+    expect(costing.unitCost(v.id, run)).toBeGreaterThan(before);
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+  });
+
+  it('takes rate and cost setting edits in place', () => {
+    const { holder, costing } = start();
+    costing.sync();
+    const s = holder.book.settings;
+    const foreign = Object.keys(s.rates).find((c) => c !== s.baseCurrency)!;
+    holder.change({ settings: { ...s, rates: { ...s.rates, [foreign]: s.rates[foreign]! * 1.1 }, overheadPct: s.overheadPct + 5 } });
+    expect(costing.sync().kind).toBe('edited');
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+  });
+
+  it('takes a parameter edit in place when the build lines stay the same, and rebuilds when they change', () => {
+    const { holder, costing } = start();
+    costing.sync();
+    const v = holder.book.variants.find((x) => x.code === 'FR3-40-CD')!;
+    // No build rule reads the ambient temperature, so the parts stay and only the thermal checks move.
+    holder.change({ put: { variants: [{ ...v, params: { ...v.params, t_amb: 95 } }] } });
+    const edited = costing.sync();
+    expect(edited.kind).toBe('edited');
+    expect(edited.checks).toBe(true);
+    expect(costing.worstStatus(v.id)).toBe(freshWorst(holder.book).get(v.id));
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+
+    // One step more needs one more ladder resistor: the lines change and the costs are built again.
+    const now = holder.book.variants.find((x) => x.id === v.id)!;
+    holder.change({ put: { variants: [{ ...now, params: { ...now.params, steps: 4, r_s4: 47000 } }] } });
+    expect(costing.sync().kind).toBe('rebuilt');
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+  });
+
+  it('rebuilds when variants are added or deleted', () => {
+    const { holder, costing } = start();
+    costing.sync();
+    const v = holder.book.variants[1]!;
+    holder.change({ put: { variants: [{ ...v, id: 'var_copy', rev: 0, code: 'COPY-1' }] }, delete: { variants: [holder.book.variants[0]!.id] } });
+    expect(costing.sync().kind).toBe('rebuilt');
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+    expect(costing.unitCost('var_copy', 500)).toBe(costing.unitCost(v.id, 500));
+  });
+
+  it('says why when the settings cannot be costed, and gives no numbers', () => {
+    const { holder, costing } = start();
+    holder.change({ settings: { ...holder.book.settings, runSizes: [] } });
+    expect(costing.problem).toMatch(/no run sizes/);
+    expect(Number.isNaN(costing.unitCost(holder.book.variants[0]!.id, 500))).toBe(true);
+  });
+});
