@@ -1,5 +1,9 @@
 // The benchmark's sections, run in this order. Add a section here to add its figures to `npm run bench`.
+// The browser section reuses the app the bundle section built.
 import type { BenchSection } from './harness.ts';
 import { costingSection } from './costing.ts';
+import { importSection } from './import.ts';
+import { bundleSection } from './bundle.ts';
+import { browserSection } from './browser.ts';
 
-export const BENCH_SECTIONS: BenchSection[] = [costingSection];
+export const BENCH_SECTIONS: BenchSection[] = [costingSection, importSection, bundleSection, browserSection];
