@@ -82,6 +82,8 @@ export const PAGES: readonly PageEntry[] = [
     title: 'Compare',
     blurb: 'Variants side by side: parameters, check results and unit cost at each run size.',
     plan: 'Chosen variants in columns with their parameters, check results and unit cost at the Book’s run sizes.',
+    tag: 'rb-compare-page',
+    load: () => import('./rb-compare-page.ts'),
     mains: true,
   },
   {
@@ -99,6 +101,13 @@ export const PAGES: readonly PageEntry[] = [
     title: 'Export',
     blurb: 'Costed BOMs and purchase lists as CSV files, and the whole Book as a file.',
     plan: 'Downloads of the costed BOM and purchase list of a run as CSV, and of the whole Book as a Book file.',
+  },
+  {
+    slug: 'settings',
+    title: 'Rates',
+    blurb: 'Base currency, exchange rates, run sizes and the labour, test, overhead, margin and attrition every cost uses.',
+    tag: 'rb-settings-page',
+    load: () => import('./rb-settings-page.ts'),
   },
 ];
 

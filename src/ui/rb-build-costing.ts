@@ -1,59 +1,14 @@
-// Costing as the Build, Compare and Rates pages see it: a small adapter that opens the live costing workbook for a
-// Book, and the pure figures those pages draw (cost split by category, the lines that make two variants differ,
-// run sizes for curves, what-if edits to keep, cost settings drafts). No DOM, no Lit, so Node can run it too.
+// Costing figures the Compare and Rates pages draw, pure (no DOM, no Lit, so Node runs them too): cost split by
+// category, the build lines that make two variants differ, run sizes for curves, what-if edits applied to a scratch
+// workbook and the Book change that keeps them, and cost settings drafts with their checks.
 import type { Book, CostCategory, CurrencyCode, Quote, Settings } from '../domain/book.ts';
 import { COST_CATEGORIES, PART_KINDS } from '../domain/book.ts';
 import type { BookChange } from '../domain/book-ops.ts';
-import { worstOf } from '../domain/check-status.ts';
-import type { CheckStatus } from '../domain/check-status.ts';
 import { perUnitFromCents, toCents, toTenThousandths } from '../domain/costing.ts';
 import type { CostedBom, Result } from '../domain/costing.ts';
-import { CostingWorkbook, resolutionFromFamily } from '../engine/costing.ts';
-import { evaluateChecks, resolveFamily } from '../engine/family.ts';
+import type { CostingWorkbook } from '../engine/costing.ts';
 import type { FamilyResolution } from '../engine/family.ts';
 import type { FieldProblems, FormResult } from './record-forms.ts';
-
-// ---------------------------------------------------------------------------------------------------------------
-// The adapter
-
-/**
- * The Book's family resolved and its costing workbook opened. Pages hold one per Book they show and close it when the
- * Book changes; a shared service for the whole app can replace `open` without the pages changing.
- */
-export class BookCosting {
-  private worst: Map<string, CheckStatus> | undefined;
-
-  private constructor(
-    readonly book: Book,
-    readonly family: FamilyResolution,
-    /** The workbook, or why it could not be opened (bad settings, no run sizes). */
-    readonly workbook: Result<CostingWorkbook>,
-  ) {}
-
-  static open(book: Book): BookCosting {
-    const family = resolveFamily(book);
-    const workbook = CostingWorkbook.open(book, resolutionFromFamily(family));
-    return new BookCosting(book, family, workbook);
-  }
-
-  /** The worst check status of each variant (evaluated once, on first ask). */
-  worstStatus(variantId: string): CheckStatus {
-    if (!this.worst) {
-      const by = new Map<string, CheckStatus[]>();
-      for (const r of evaluateChecks(this.book)) {
-        const list = by.get(r.variantId) ?? [];
-        list.push(r.status);
-        by.set(r.variantId, list);
-      }
-      this.worst = new Map([...by].map(([id, list]) => [id, worstOf(list)] as const));
-    }
-    return this.worst.get(variantId) ?? 'n/a';
-  }
-
-  close(): void {
-    if (this.workbook.ok) this.workbook.value.close();
-  }
-}
 
 // ---------------------------------------------------------------------------------------------------------------
 // Figures for the pages

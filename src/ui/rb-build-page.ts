@@ -7,9 +7,9 @@ import { customElement, state } from 'lit/decorators.js';
 import type { Book, BuildLine } from '../domain/book.ts';
 import { COST_CATEGORIES, newId } from '../domain/book.ts';
 import { ROLES, VARIANT_PARAMS } from '../domain/params.ts';
-import { resolveFamily } from '../engine/family.ts';
 import type { FamilyResolution } from '../engine/family.ts';
 import { BookController } from './book-context.ts';
+import { CostingService } from './costing-service.ts';
 import { field, fieldId, focusFirstProblem } from './form-fields.ts';
 import type { FieldProblems } from './record-forms.ts';
 import { buildLineDraft, lineOutcomes, moveLine, orderedLines, trialLine, validateBuildLine } from './rb-build-rules.ts';
@@ -50,12 +50,21 @@ export class RbBuildPage extends LitElement {
   static override styles = [
     pageStyles,
     css`
+      td.nowrap {
+        white-space: nowrap;
+      }
+      small.role {
+        display: block;
+        font-family: var(--rb-mono);
+        font-size: 0.74rem;
+        color: var(--rb-na);
+      }
       td.rule code,
       td.rule span.code {
         font-family: var(--rb-mono);
         font-size: 0.8rem;
         display: inline-block;
-        max-width: 18rem;
+        max-width: 12rem;
         overflow: hidden;
         text-overflow: ellipsis;
         white-space: nowrap;
@@ -161,8 +170,10 @@ export class RbBuildPage extends LitElement {
 
   override willUpdate(): void {
     const book = this.books.book;
-    if (!book || book === this.familyBook) return;
-    this.family = resolveFamily(book);
+    const service = this.books.service;
+    if (!book || !service || book === this.familyBook) return;
+    // The shared service keeps the family resolved as the Book changes; the Family and Compare pages read the same.
+    this.family = CostingService.for(service).resolution();
     this.familyBook = book;
     this.names = ruleNames(book);
     if (!book.variants.some((v) => v.id === this.bomVariant)) this.bomVariant = book.variants[0]?.id ?? '';
@@ -219,10 +230,8 @@ export class RbBuildPage extends LitElement {
                   <th>part / part rule</th>
                   <th>qty per unit</th>
                   <th>applies when</th>
-                  <th>category</th>
-                  <th>role</th>
-                  <th class="num">attrition</th>
-                  <th>pinned supplier</th>
+                  <th>category · role</th>
+                  <th>attrition · pinned</th>
                   <th>on every variant</th>
                   <th><span class="muted">actions</span></th>
                 </tr>
@@ -254,10 +263,13 @@ export class RbBuildPage extends LitElement {
       </td>
       <td class="rule"><code title=${l.qtyRule}>${l.qtyRule}</code></td>
       <td class="rule">${l.appliesWhen ? html`<code title=${l.appliesWhen}>${l.appliesWhen}</code>` : html`<span class="muted">always</span>`}</td>
-      <td>${l.category}</td>
-      <td class="code">${l.role ?? ''}</td>
-      <td class="num">${l.attrition !== undefined ? pct(l.attrition) : html`<span class="muted" title="the Book's default for the part kind">${defaultAttrition === undefined ? '' : pct(defaultAttrition)}</span>`}</td>
-      <td>${pin?.name ?? l.pinnedSupplierId ?? ''}</td>
+      <td class="nowrap">${l.category}${l.role ? html`<small class="role">role ${l.role}</small>` : ''}</td>
+      <td class="nowrap">
+        ${l.attrition !== undefined
+          ? pct(l.attrition)
+          : html`<span class="muted" title="the Book's default for the part kind">${defaultAttrition === undefined ? '' : `${pct(defaultAttrition)} default`}</span>`}
+        ${pin ? html`<small class="role">pinned: ${pin.name}</small>` : l.pinnedSupplierId ? html`<small class="bad">pinned to a supplier not in the Book</small>` : ''}
+      </td>
       <td class="status" data-testid="line-status">
         ${bad.length
           ? html`<span class="bad">fails for ${bad.map((o) => o.variantCode).join(', ')}: ${bad[0]!.problem}</span>`
