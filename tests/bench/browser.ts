@@ -11,7 +11,7 @@ import { CHROMIUM_PATH } from '../browser/harness.ts';
 import { PROJECT_ROOT, builtApp, scratchDir, viteBuild } from './bundle.ts';
 import type { BenchOptions, BenchSection, Figures } from './harness.ts';
 import { IMPORT_SAMPLE } from './import.ts';
-import { median, round } from './stats.ts';
+import { median, oneLine, round } from './stats.ts';
 
 const FLAGS = [
   '--headless',
@@ -175,22 +175,40 @@ export const browserSection: BenchSection = {
   async run({ quick, log }: BenchOptions): Promise<Figures> {
     if (!existsSync(CHROMIUM_PATH)) throw new Error(`no Chromium at ${CHROMIUM_PATH} (set RUNGBOOK_CHROMIUM to its path)`);
     log('browser: building the app and the bench page');
-    const appDir = await builtApp();
+    // Either half can fail on its own (a build error, a page that never shows its table); the other still reports.
+    const problems: string[] = [];
+    const appDir = await builtApp().catch((e: unknown) => void problems.push(`app build: ${oneLine(e, 300)}`));
     const pageDir = join(scratchDir(), 'page');
     const pageConfig = join(PROJECT_ROOT, 'tests/bench/vite.config.ts');
-    await viteBuild(pageConfig, pageDir);
+    const pageBuilt = await viteBuild(pageConfig, pageDir).then(
+      () => true,
+      (e: unknown) => void problems.push(`bench page build: ${oneLine(e, 300)}`),
+    );
+    if (!appDir && !pageBuilt) throw new Error(problems.join('; '));
     const servers: PreviewServer[] = [];
     const profile = mkdtempSync(join(tmpdir(), 'rungbook-bench-chromium-'));
     let context: BrowserContext | undefined;
     try {
-      const app = await serve(join(PROJECT_ROOT, 'vite.config.ts'), appDir);
-      servers.push(app.server);
-      const bench = await serve(pageConfig, pageDir);
-      servers.push(bench.server);
       context = await chromium.launchPersistentContext(profile, { executablePath: CHROMIUM_PATH, headless: true, args: FLAGS });
-      const first = await firstViewFigures(context, app.url, quick, log);
-      const page = await benchPageFigures(context, bench.url, quick, log);
-      return { ...first, ...page };
+      const f: Figures = {};
+      if (appDir) {
+        const app = await serve(join(PROJECT_ROOT, 'vite.config.ts'), appDir);
+        servers.push(app.server);
+        await firstViewFigures(context, app.url, quick, log).then(
+          (figures) => Object.assign(f, figures),
+          (e: unknown) => void problems.push(`first view: ${oneLine(e, 300)}`),
+        );
+      }
+      if (pageBuilt) {
+        const bench = await serve(pageConfig, pageDir);
+        servers.push(bench.server);
+        await benchPageFigures(context, bench.url, quick, log).then(
+          (figures) => Object.assign(f, figures),
+          (e: unknown) => void problems.push(`bench page: ${oneLine(e, 300)}`),
+        );
+      }
+      if (problems.length > 0) f['browser_problems'] = problems.join('; ');
+      return f;
     } finally {
       await context?.close().catch(() => undefined);
       for (const s of servers) await s.close().catch(() => undefined);

@@ -3,6 +3,7 @@
 // build: timings are information, and a section that fails is reported in the output instead.
 import { BENCH_SECTIONS } from './sections.ts';
 import { PAIRS, TARGETS, machine, targetsMet, versions, withHeadlines } from './harness.ts';
+import { oneLine } from './stats.ts';
 import type { Figure, Figures } from './harness.ts';
 
 interface Side {
@@ -35,7 +36,7 @@ async function main(): Promise<void> {
     try {
       Object.assign(raw, await section.run({ quick, log }));
     } catch (e) {
-      errors[section.name] = e instanceof Error ? e.message : String(e);
+      errors[section.name] = oneLine(e);
       log(`${section.name} failed: ${errors[section.name]}`);
     }
   }

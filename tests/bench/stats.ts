@@ -20,3 +20,10 @@ export function round(n: number, digits = 1): number {
   const f = 10 ** digits;
   return Math.round(n * f) / f;
 }
+
+/** A failure as one readable line: build tools colour their messages and spread them over many lines. */
+export function oneLine(e: unknown, max = 400): string {
+  const message = e instanceof Error ? e.message : String(e);
+  const plain = message.replace(/\u001b\[[0-9;]*m/g, '').replace(/\s+/g, ' ').trim();
+  return plain.length > max ? `${plain.slice(0, max)}…` : plain;
+}
