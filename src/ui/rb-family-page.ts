@@ -1,18 +1,33 @@
-// Family page: one row per variant with its parameters as columns, and a form to add or edit a variant and its
-// parameters (engineering values parsed with their units, messages beside each field).
+// Family page: the variants as a keyboard grid — code, name and parameters to edit in place, with each variant's worst
+// check status and unit cost at every run size beside them — plus copy and paste of tab-separated blocks, add,
+// duplicate, delete, a form for notes and parameters of the Book's own, and undo / redo of every step.
 import { LitElement, css, html } from 'lit';
-import { customElement, state } from 'lit/decorators.js';
+import { customElement, query, state } from 'lit/decorators.js';
 import type { Book, Variant } from '../domain/book.ts';
 import { newId } from '../domain/book.ts';
+import { STATUS_SYMBOL } from '../domain/check-status.ts';
 import { VARIANT_PARAMS } from '../domain/params.ts';
+import { guardText } from '../domain/tsv.ts';
 import { formatValue } from '../domain/units.ts';
 import { BookController } from './book-context.ts';
+import { CostingService } from './costing-service.ts';
 import { field, focusFirstProblem, group } from './form-fields.ts';
+import './rb-grid.ts';
+import type { GridClearDetail, GridColumn, GridCommitDetail, GridPasteDetail, GridRow, RbGrid } from './rb-grid.ts';
+import { COLUMN_KINDS, duplicateVariants, editVariant, planClear, planPaste } from './rb-grid-edits.ts';
+import type { FamilyColumn, PastePlan, PasteTarget } from './rb-grid-edits.ts';
 import type { FieldProblems, VariantDraft } from './record-forms.ts';
-import { paramInfo, paramNames, validateVariant, variantDraft, variantUsers } from './record-forms.ts';
+import { paramInfo, paramNames, paramText, validateVariant, variantDraft, variantUsers } from './record-forms.ts';
 import { pageStyles } from './styles.ts';
+import { DIRECTIONS, UndoStack, stepChange } from './undo.ts';
+import type { Direction, UndoStep } from './undo.ts';
 
 type Editing = { variant: Variant | undefined; draft: VariantDraft; problems: FieldProblems; saveError?: string; conflict?: boolean };
+type Notice = { text: string; problem: boolean };
+
+const STATUS_KEY = 'checks';
+const costKey = (run: number): string => `cost_${run}`;
+const newVariantId = (): string => newId('var');
 
 function shown(name: string, v: Variant['params'][string] | undefined): string {
   if (v === undefined) return '';
@@ -21,97 +36,472 @@ function shown(name: string, v: Variant['params'][string] | undefined): string {
   return unit === '' ? String(Number(v.toPrecision(4))) : formatValue(v, unit);
 }
 
+function moneyFormat(currency: string): (n: number) => string {
+  let f: Intl.NumberFormat;
+  try {
+    f = new Intl.NumberFormat('en', { style: 'currency', currency, minimumFractionDigits: 2, maximumFractionDigits: 2 });
+  } catch {
+    f = new Intl.NumberFormat('en', { minimumFractionDigits: 2, maximumFractionDigits: 2 });
+  }
+  return (n) => f.format(n);
+}
+
 @customElement('rb-family-page')
 export class RbFamilyPage extends LitElement {
   static override styles = [
     pageStyles,
     css`
-      th small {
-        display: block;
-        font-weight: 400;
-        color: var(--rb-na);
-      }
-      td.text {
-        white-space: nowrap;
-      }
-      table.records tbody th {
-        position: sticky;
-        left: 0;
-        background: var(--rb-sheet);
-        border-bottom: 1px solid var(--rb-rule);
+      .keys {
         font-size: 0.84rem;
-        vertical-align: top;
+        color: var(--rb-na);
+        margin: -0.4rem 0 0.7rem;
+      }
+      .keys kbd {
+        font-family: var(--rb-mono);
+        font-size: 0.78rem;
+        border: 1px solid var(--rb-rule);
+        border-bottom-width: 2px;
+        border-radius: 3px;
+        padding: 0 0.25rem;
+        background: var(--rb-paper);
+      }
+      .toolbar .sep {
+        flex: 1;
+      }
+      .note {
+        margin: 0 0 0.6rem;
+        font-size: 0.9rem;
+      }
+      .note.problem {
+        color: var(--rb-fail);
+      }
+      .note.problem::before {
+        content: '✗ ';
+        font-weight: 700;
+      }
+      .note.done::before {
+        content: '✓ ';
+        color: var(--rb-pass);
+        font-weight: 700;
+      }
+      .confirm {
+        display: flex;
+        gap: 0.6rem;
+        align-items: baseline;
+        margin: 0 0 0.6rem;
+        padding: 0.35rem 0.7rem;
+        border-left: 3px solid var(--rb-fail);
+        background: var(--rb-fail-bg);
       }
     `,
   ];
 
   private readonly books = new BookController(this);
+  private readonly history = new UndoStack<Variant>();
+  /** Saves from this page run one after another, each from the Book as the one before left it. */
+  private writes: Promise<unknown> = Promise.resolve();
+  /** Rows drawn last time, by variant id, reused while their text is unchanged so the grid skips them. */
+  private rowCache = new Map<string, { sig: string; row: GridRow }>();
+  private columnCache: { sig: string; grid: GridColumn[]; family: FamilyColumn[] } | undefined;
+  private order: Variant[] = [];
+
   @state() private editing: Editing | undefined;
-  @state() private confirmDelete: string | undefined;
-  @state() private rowProblem: { id: string; message: string } | undefined;
+  @state() private confirmDelete: Variant[] | undefined;
+  @state() private notice: Notice | undefined;
+  @state() private busy = 0;
+  @query('rb-grid') private grid: RbGrid | undefined;
+
+  override connectedCallback(): void {
+    super.connectedCallback();
+    this.addEventListener('keydown', this._onKey);
+  }
+
+  override disconnectedCallback(): void {
+    super.disconnectedCallback();
+    this.removeEventListener('keydown', this._onKey);
+  }
 
   override render() {
     const book = this.books.book;
     if (!book) return html``;
-    return html`${this.editing ? this.renderForm(book, this.editing) : ''} ${this.renderList(book)}`;
+    return html`${this.editing ? this.renderForm(book, this.editing) : ''} ${this.renderGrid(book)}`;
   }
 
-  private renderList(book: Book) {
+  // ---- the grid
+
+  private columns(book: Book, runs: readonly number[], currency: string, used: string[]): { grid: GridColumn[]; family: FamilyColumn[] } {
+    const sig = `${used.join(',')}|${runs.join(',')}|${currency}`;
+    if (this.columnCache?.sig === sig) return this.columnCache;
+    const grid: GridColumn[] = [
+      { key: 'code', label: 'code', editable: true, rowHeader: true, title: 'short code, unique in the Book' },
+      { key: 'name', label: 'name', editable: true },
+    ];
+    const family: FamilyColumn[] = [
+      { key: 'code', kind: COLUMN_KINDS.code },
+      { key: 'name', kind: COLUMN_KINDS.name },
+    ];
+    for (const n of used) {
+      const info = paramInfo(n, book.variants.find((v) => v.params[n] !== undefined)?.params[n]);
+      const std = VARIANT_PARAMS.find((p) => p.name === n);
+      const col: GridColumn = { key: n, label: n, num: info.kind === 'number', editable: true };
+      if (info.unit) col.unit = info.unit;
+      if (std) col.title = std.doc;
+      grid.push(col);
+      family.push({ key: n, kind: COLUMN_KINDS.param });
+    }
+    grid.push({ key: STATUS_KEY, label: 'checks', editable: false, title: 'the worst status of the variant’s checks (see the Checks page)' });
+    family.push({ key: STATUS_KEY, kind: COLUMN_KINDS.computed });
+    for (const run of runs) {
+      grid.push({ key: costKey(run), label: `unit cost @ ${run.toLocaleString('en')}`, unit: currency, num: true, editable: false, title: `cost per unit in a run of ${run}` });
+      family.push({ key: costKey(run), kind: COLUMN_KINDS.computed });
+    }
+    this.columnCache = { sig, grid, family };
+    return this.columnCache;
+  }
+
+  private rowFor(v: Variant, used: string[], costing: CostingService, runs: readonly number[], money: (n: number) => string): GridRow {
+    const status = costing.worstStatus(v.id);
+    const notPassing = costing
+      .checkResults(v.id)
+      .filter((r) => r.status !== 'pass' && r.status !== 'n/a')
+      .map((r) => `${r.status}: ${r.checkName}`);
+    const cells: GridRow['cells'][number][] = [
+      { text: v.code },
+      { text: v.name, copy: guardText(v.name) },
+    ];
+    for (const n of used) {
+      const p = v.params[n];
+      const edit = paramText(n, p);
+      cells.push({ text: shown(n, p), edit, copy: typeof p === 'string' ? guardText(p) : edit });
+    }
+    cells.push({
+      text: `${STATUS_SYMBOL[status]} ${status}`,
+      tone: status === 'n/a' ? 'na' : status,
+      title: notPassing.length ? notPassing.join('\n') : status === 'pass' ? 'every check that applies passes' : 'no check applies',
+    });
+    for (const run of runs) {
+      const u = costing.unitCost(v.id, run);
+      if (Number.isFinite(u)) cells.push({ text: money(u), copy: String(u) });
+      else cells.push({ text: '—', copy: '', tone: 'problem', title: costing.costProblem(v.id, run) ?? 'cannot be computed' });
+    }
+    const sig = cells.map((c) => `${c.text}\u0001${c.edit ?? ''}\u0001${c.title ?? ''}`).join('\u0002');
+    const cached = this.rowCache.get(v.id);
+    if (cached && cached.sig === sig) return cached.row;
+    const row: GridRow = { id: v.id, cells };
+    this.rowCache.set(v.id, { sig, row });
+    return row;
+  }
+
+  private renderGrid(book: Book) {
+    const service = this.books.service;
+    if (!service) return html``;
+    const costing = CostingService.for(service);
     const variants = [...book.variants].sort((a, b) => a.code.localeCompare(b.code));
+    this.order = variants;
     const used = paramNames(book).filter((n) => variants.some((v) => v.params[n] !== undefined));
+    const runs = costing.runSizes;
+    const currency = costing.currency;
+    const { grid } = this.columns(book, runs, currency, used);
+    const money = moneyFormat(currency);
+    const rows = variants.map((v) => this.rowFor(v, used, costing, runs, money));
+    if (this.rowCache.size > variants.length * 2) this.rowCache = new Map([...this.rowCache].filter(([id]) => variants.some((v) => v.id === id)));
+    const costProblem = costing.problem;
+    const undoStep = this.history.peek(DIRECTIONS.undo);
+    const redoStep = this.history.peek(DIRECTIONS.redo);
     return html`<section class="sheet" aria-labelledby="family-h">
       <h2 id="family-h">Variants</h2>
       <p class="why">
-        ${variants.length} variants. Each column is a parameter the checks and build rules read by name; a blank cell
-        means the variant does not set it.
+        ${variants.length} variants. Each parameter column is read by the checks and build rules by its name; a blank cell
+        means the variant does not set it. The checks column is the worst of the variant's checks; unit costs are for
+        runs of ${runs.map((r) => r.toLocaleString('en')).join(', ')} from the current quotes, in ${currency}.
       </p>
-      <div class="toolbar">
+      <p class="keys">
+        <kbd>↑</kbd><kbd>↓</kbd><kbd>←</kbd><kbd>→</kbd> move (with <kbd>Shift</kbd> to mark a block) · <kbd>Enter</kbd> or typing edits ·
+        <kbd>Esc</kbd> cancels · <kbd>Enter</kbd>/<kbd>Tab</kbd> keeps and moves on · <kbd>Ctrl</kbd>+<kbd>C</kbd> / <kbd>V</kbd> copy and
+        paste tab-separated cells (a first row of column names is recognised) · <kbd>Ctrl</kbd>+<kbd>Z</kbd> undo,
+        <kbd>Ctrl</kbd>+<kbd>Shift</kbd>+<kbd>Z</kbd> or <kbd>Ctrl</kbd>+<kbd>Y</kbd> redo
+      </p>
+      <div class="toolbar" role="toolbar" aria-label="Variants">
         <button type="button" class="primary" @click=${() => this.startEdit(book, undefined)}>Add a variant</button>
+        <button type="button" @click=${this._onDuplicate} ?disabled=${variants.length === 0}>Duplicate</button>
+        <button type="button" @click=${this._onAskDelete} ?disabled=${variants.length === 0}>Delete…</button>
+        <button type="button" @click=${this._onDetails} ?disabled=${variants.length === 0}>Details…</button>
+        <span class="sep"></span>
+        <button
+          type="button"
+          data-testid="undo"
+          title=${undoStep ? `Undo: ${undoStep.label}` : 'Nothing to undo'}
+          ?disabled=${!undoStep}
+          @click=${() => this.step(DIRECTIONS.undo)}
+        >
+          ↶ Undo${undoStep ? html` <span class="muted">${undoStep.label}</span>` : ''}
+        </button>
+        <button
+          type="button"
+          data-testid="redo"
+          title=${redoStep ? `Redo: ${redoStep.label}` : 'Nothing to redo'}
+          ?disabled=${!redoStep}
+          @click=${() => this.step(DIRECTIONS.redo)}
+        >
+          ↷ Redo${redoStep ? html` <span class="muted">${redoStep.label}</span>` : ''}
+        </button>
       </div>
-      ${variants.length === 0
-        ? html`<p class="empty">No variants yet. Add the first one above.</p>`
-        : html`<div class="scroll">
-            <table class="records" data-testid="family-table">
-              <thead>
-                <tr>
-                  <th>code</th>
-                  <th>name</th>
-                  ${used.map((n) => {
-                    const info = paramInfo(n, book.variants.find((v) => v.params[n] !== undefined)?.params[n]);
-                    return html`<th class=${info.kind === 'number' ? 'num' : ''}>${n}${info.unit ? html`<small>${info.unit}</small>` : ''}</th>`;
-                  })}
-                  <th><span class="muted">actions</span></th>
-                </tr>
-              </thead>
-              <tbody>
-                ${variants.map((v) => this.renderRow(book, v, used))}
-              </tbody>
-            </table>
-          </div>`}
+      ${this.confirmDelete ? this.renderConfirm(this.confirmDelete) : ''}
+      ${this.notice
+        ? html`<p class="note ${this.notice.problem ? 'problem' : 'done'}" role=${this.notice.problem ? 'alert' : 'status'} data-testid="family-notice">
+            ${this.notice.text}
+          </p>`
+        : ''}
+      ${costProblem ? html`<p class="note problem" role="alert">Unit costs cannot be worked out: ${costProblem}.</p>` : ''}
+      <rb-grid
+        testid="family-table"
+        label="Variants of the family"
+        newRow="＋ new variant: type a code here, or paste rows"
+        .columns=${grid}
+        .rows=${rows}
+        @rb-grid-commit=${this._onCommit}
+        @rb-grid-paste=${this._onPaste}
+        @rb-grid-clear=${this._onClear}
+      ></rb-grid>
     </section>`;
   }
 
-  private renderRow(book: Book, v: Variant, used: string[]) {
-    const confirming = this.confirmDelete === v.id;
-    const problem = this.rowProblem?.id === v.id ? this.rowProblem.message : undefined;
-    return html`<tr class=${this.editing?.variant?.id === v.id ? 'editing' : ''} data-id=${v.id}>
-      <th scope="row" class="code">${v.code}</th>
-      <td class="text">${v.name}</td>
-      ${used.map((n) => {
-        const p = v.params[n];
-        return html`<td class=${typeof p === 'string' ? 'text' : 'num'}>${shown(n, p)}</td>`;
-      })}
-      <td class="acts">
-        ${confirming
-          ? html`Delete ${v.code}?
-              <button type="button" class="danger" @click=${() => this.delete(v)}>Delete</button>
-              <button type="button" class="quiet" @click=${() => (this.confirmDelete = undefined)}>Keep</button>`
-          : html`<button type="button" class="quiet" @click=${() => this.startEdit(book, v)}>edit</button>
-              <button type="button" class="quiet" @click=${() => this.askDelete(book, v)}>delete</button>`}
-        ${problem ? html`<div class="problem" role="alert">${problem}</div>` : ''}
-      </td>
-    </tr>`;
+  private renderConfirm(list: Variant[]) {
+    const names = list.length <= 3 ? list.map((v) => v.code).join(', ') : `${list.slice(0, 3).map((v) => v.code).join(', ')} and ${list.length - 3} more`;
+    return html`<div class="confirm" role="alertdialog" aria-label="Confirm delete">
+      Delete ${names}? (Undo brings ${list.length === 1 ? 'it' : 'them'} back.)
+      <button type="button" class="danger" @click=${() => this.delete(list)}>Delete</button>
+      <button type="button" class="quiet" @click=${() => (this.confirmDelete = undefined)}>Keep</button>
+    </div>`;
   }
+
+  // ---- saving steps
+
+  /** Runs a save after the ones before it; `make` builds the step from the Book as it is then. */
+  private enqueue(make: (book: Book) => { step: UndoStep<Variant>; done: string } | { problem: string }): Promise<void> {
+    const service = this.books.service;
+    if (!service) return Promise.resolve();
+    this.busy += 1;
+    const run = this.writes.then(async () => {
+      try {
+        const made = make(service.book);
+        if ('problem' in made) {
+          this.notice = { text: made.problem, problem: true };
+          return;
+        }
+        const plan = stepChange(service.book, 'variants', made.step, DIRECTIONS.redo, (v) => v.code);
+        if (!plan.ok) {
+          this.notice = { text: plan.message, problem: true };
+          return;
+        }
+        const result = await service.save(plan.change);
+        if (!result.ok) {
+          this.notice = { text: result.message, problem: true };
+          return;
+        }
+        this.history.record(made.step);
+        this.notice = made.done ? { text: made.done, problem: false } : undefined;
+      } finally {
+        this.busy -= 1;
+      }
+    });
+    this.writes = run;
+    return run;
+  }
+
+  private fromPlan(plan: PastePlan, label: string, done: string): { step: UndoStep<Variant>; done: string } | { problem: string } {
+    if (!plan.ok) return { problem: plan.message };
+    return { step: { label, changes: plan.changes.map((c) => ({ id: c.after.id, before: c.before, after: c.after })) }, done };
+  }
+
+  private target(order: readonly Variant[], r0: number, c0: number, r1: number, c1: number): PasteTarget {
+    return { order, columns: this.columnCache?.family ?? [], row: r0, col: c0, lastRow: r1, lastCol: c1 };
+  }
+
+  /** The grid's order with each variant as it is in `book` now (by id). */
+  private current(book: Book): Variant[] {
+    const byId = new Map(book.variants.map((v) => [v.id, v] as const));
+    return this.order.map((v) => byId.get(v.id) ?? v);
+  }
+
+  private readonly _onCommit = (ev: CustomEvent<GridCommitDetail>): void => {
+    const book = this.books.book;
+    const d = ev.detail;
+    if (!book) return;
+    const variant = d.rowId === undefined ? undefined : book.variants.find((v) => v.id === d.rowId);
+    if (d.rowId !== undefined && !variant) {
+      d.refuse('This variant was deleted elsewhere; nothing was saved.');
+      return;
+    }
+    const texts = { [d.key]: d.text };
+    const check = editVariant(book, variant, texts, newVariantId);
+    if (!check.ok) {
+      d.refuse(`${check.key}: ${check.message}`);
+      return;
+    }
+    const id = check.record.id;
+    void this.enqueue((now) => {
+      const v = variant ? now.variants.find((x) => x.id === variant.id) : undefined;
+      if (variant && !v) return { problem: `${variant.code} was deleted elsewhere; the edit was not saved.` };
+      const r = editVariant(now, v, texts, () => id);
+      if (!r.ok) return { problem: `${v?.code ?? 'New variant'}, ${r.key}: ${r.message}. Nothing was saved.` };
+      const label = v ? `edit ${d.key} of ${v.code}` : `add ${r.record.code}`;
+      return { step: { label, changes: [{ id: r.record.id, before: v, after: r.record }] }, done: '' };
+    });
+  };
+
+  private readonly _onPaste = (ev: CustomEvent<GridPasteDetail>): void => {
+    const book = this.books.book;
+    const d = ev.detail;
+    if (!book) return;
+    const { r0, c0, r1, c1 } = d.range;
+    const first = planPaste(book, this.target(this.order, r0, c0, r1, c1), d.rows, newVariantId);
+    if (!first.ok) {
+      d.refuse(first.message);
+      return;
+    }
+    void this.enqueue((now) => {
+      const plan = planPaste(now, this.target(this.current(now), r0, c0, r1, c1), d.rows, newVariantId);
+      if (!plan.ok) return { problem: plan.message };
+      const n = plan.changes.length;
+      const parts = [plan.created ? `${plan.created} new ${plan.created === 1 ? 'variant' : 'variants'}` : '', plan.edited ? `${plan.edited} edited` : ''].filter(Boolean);
+      const skipped = plan.skipped.length ? ` The worked-out columns (${plan.skipped.join(', ')}) were left as they are.` : '';
+      return this.fromPlan(plan, `paste ${n} ${n === 1 ? 'row' : 'rows'}`, `Pasted: ${parts.join(', ')}.${skipped}`);
+    });
+  };
+
+  private readonly _onClear = (ev: CustomEvent<GridClearDetail>): void => {
+    const book = this.books.book;
+    const d = ev.detail;
+    if (!book) return;
+    const { r0, c0, r1, c1 } = d.range;
+    const first = planClear(book, this.target(this.order, r0, c0, r1, c1), newVariantId);
+    if (!first.ok) {
+      d.refuse(first.message);
+      return;
+    }
+    void this.enqueue((now) => {
+      const plan = planClear(now, this.target(this.current(now), r0, c0, r1, c1), newVariantId);
+      return this.fromPlan(plan, `clear ${plan.ok ? plan.changes.length : 0} rows`, '');
+    });
+  };
+
+  private selectedVariants(): Variant[] {
+    const g = this.grid;
+    if (!g) return [];
+    const s = g.selection;
+    return this.order.slice(s.r0, Math.min(s.r1, this.order.length - 1) + 1);
+  }
+
+  private readonly _onDuplicate = (): void => {
+    const list = this.selectedVariants();
+    if (list.length === 0) {
+      this.notice = { text: 'Select the rows to duplicate first (the new-row line has nothing to copy).', problem: true };
+      return;
+    }
+    void this.enqueue((now) => {
+      const sources = list.map((v) => now.variants.find((x) => x.id === v.id)).filter((v): v is Variant => v !== undefined);
+      const copies = duplicateVariants(now, sources, newVariantId);
+      const label = `duplicate ${sources.map((v) => v.code).join(', ')}`;
+      return { step: { label, changes: copies.map((c) => ({ id: c.id, before: undefined, after: c })) }, done: `Added ${copies.map((c) => c.code).join(', ')}.` };
+    });
+  };
+
+  private readonly _onAskDelete = (): void => {
+    const list = this.selectedVariants();
+    const book = this.books.book;
+    if (!book || list.length === 0) {
+      this.notice = { text: 'Select the rows to delete first.', problem: true };
+      return;
+    }
+    for (const v of list) {
+      const users = variantUsers(book, v.id);
+      if (users) {
+        this.notice = { text: `${v.code}: ${users}`, problem: true };
+        return;
+      }
+    }
+    this.notice = undefined;
+    this.confirmDelete = list;
+  };
+
+  private delete(list: Variant[]): void {
+    this.confirmDelete = undefined;
+    void this.enqueue((now) => {
+      const changes = [];
+      for (const v of list) {
+        const cur = now.variants.find((x) => x.id === v.id);
+        if (!cur) continue;
+        const users = variantUsers(now, v.id);
+        if (users) return { problem: `${v.code}: ${users}` };
+        changes.push({ id: cur.id, before: cur, after: undefined });
+      }
+      const label = `delete ${list.map((v) => v.code).join(', ')}`;
+      return { step: { label, changes }, done: `Deleted ${list.map((v) => v.code).join(', ')}.` };
+    });
+    if (this.editing?.variant && list.some((v) => v.id === this.editing!.variant!.id)) this.editing = undefined;
+  }
+
+  private readonly _onDetails = (): void => {
+    const book = this.books.book;
+    const v = this.selectedVariants()[0];
+    if (!book || !v) {
+      this.notice = { text: 'Select a variant first.', problem: true };
+      return;
+    }
+    this.startEdit(book, v);
+  };
+
+  /** Undo or redo the last step, as one save; a step whose variants changed elsewhere is refused and forgotten. */
+  private step(direction: Direction): void {
+    const service = this.books.service;
+    if (!service) return;
+    this.busy += 1;
+    this.writes = this.writes.then(async () => {
+      try {
+        const step = this.history.peek(direction);
+        if (!step) return;
+        const plan = stepChange(service.book, 'variants', step, direction, (v) => v.code);
+        if (!plan.ok) {
+          this.history.drop(direction);
+          this.notice = { text: plan.message, problem: true };
+          return;
+        }
+        for (const id of plan.change.delete?.variants ?? []) {
+          const users = variantUsers(service.book, id);
+          if (users) {
+            const code = service.book.variants.find((v) => v.id === id)?.code ?? id;
+            this.notice = { text: `“${step.label}” cannot be ${direction === 'undo' ? 'undone' : 'redone'}: ${code} ${users.charAt(0).toLowerCase()}${users.slice(1)}`, problem: true };
+            return;
+          }
+        }
+        const result = await service.save(plan.change);
+        if (!result.ok) {
+          this.notice = { text: result.message, problem: true };
+          return;
+        }
+        this.history.settle(direction);
+        this.notice = { text: `${direction === 'undo' ? 'Undone' : 'Redone'}: ${step.label}.`, problem: false };
+      } finally {
+        this.busy -= 1;
+        this.requestUpdate();
+      }
+    });
+  }
+
+  private readonly _onKey = (ev: KeyboardEvent): void => {
+    const mod = ev.ctrlKey || ev.metaKey;
+    if (!mod || ev.altKey) return;
+    const key = ev.key.toLowerCase();
+    if (key !== 'z' && key !== 'y') return;
+    // Inside a text field the browser's own undo of the typing applies.
+    const inField = ev.composedPath().some((t) => t instanceof HTMLInputElement || t instanceof HTMLTextAreaElement || t instanceof HTMLSelectElement);
+    if (inField) return;
+    ev.preventDefault();
+    this.step(key === 'y' || ev.shiftKey ? DIRECTIONS.redo : DIRECTIONS.undo);
+  };
+
+  // ---- the form (new variants with every parameter, notes, parameters of the Book's own)
 
   private renderForm(book: Book, e: Editing) {
     const d = e.draft;
@@ -165,7 +555,6 @@ export class RbFamilyPage extends LitElement {
 
   private startEdit(book: Book, variant: Variant | undefined): void {
     this.confirmDelete = undefined;
-    this.rowProblem = undefined;
     this.editing = { variant, draft: variantDraft(book, variant), problems: {} };
     void this.updateComplete.then(() => this.renderRoot.querySelector<HTMLInputElement>('#f-code')?.focus());
   }
@@ -179,16 +568,23 @@ export class RbFamilyPage extends LitElement {
       this.editing = { ...e, saveError: 'This variant was deleted elsewhere; nothing was saved.' };
       return;
     }
-    const r = validateVariant(e.draft, book, e.variant, () => newId('var'));
+    const r = validateVariant(e.draft, book, e.variant, newVariantId);
     if (!r.ok) {
       this.editing = { ...e, problems: r.problems };
       await focusFirstProblem(this);
       return;
     }
     this.editing = { ...e, problems: {} };
+    const before = e.variant ? book.variants.find((v) => v.id === e.variant!.id) : undefined;
+    // The form saves from the revision it was opened at, so an edit made elsewhere meanwhile is reported, not lost.
+    await this.writes;
     const result = await service.save({ put: { variants: [r.record] } });
-    if (result.ok) this.editing = undefined;
-    else this.editing = { ...e, problems: {}, saveError: result.message, conflict: result.conflict };
+    if (result.ok) {
+      const after = service.book.variants.find((v) => v.id === r.record.id);
+      this.history.record({ label: before ? `edit ${before.code}` : `add ${r.record.code}`, changes: [{ id: r.record.id, before, after }] });
+      this.editing = undefined;
+      this.requestUpdate();
+    } else this.editing = { ...e, problems: {}, saveError: result.message, conflict: result.conflict };
   }
 
   /** After a refused save: re-read the Book and reopen the form on the stored version of the record. */
@@ -201,30 +597,6 @@ export class RbFamilyPage extends LitElement {
     if (cur) this.startEdit(service.book, cur);
     else this.editing = undefined;
   };
-
-  private askDelete(book: Book, v: Variant): void {
-    const users = variantUsers(book, v.id);
-    if (users) {
-      this.rowProblem = { id: v.id, message: users };
-      return;
-    }
-    this.rowProblem = undefined;
-    this.confirmDelete = v.id;
-  }
-
-  private async delete(v: Variant): Promise<void> {
-    const service = this.books.service;
-    if (!service) return;
-    this.confirmDelete = undefined;
-    const users = variantUsers(service.book, v.id);
-    if (users) {
-      this.rowProblem = { id: v.id, message: users };
-      return;
-    }
-    const result = await service.save({ delete: { variants: [v.id] } });
-    if (!result.ok) this.rowProblem = { id: v.id, message: result.message };
-    if (this.editing?.variant?.id === v.id) this.editing = undefined;
-  }
 }
 
 declare global {
