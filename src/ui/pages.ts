@@ -75,6 +75,8 @@ export const PAGES: readonly PageEntry[] = [
     plan:
       'Runs with their variant, quantity and wanted date; for each, the costed BOM (need, buy quantity, chosen ' +
       'quote, unit and extended cost, leftover stock) and the unit cost split by category.',
+    tag: 'rb-runs-page',
+    load: () => import('./rb-runs-page.ts'),
     mains: true,
   },
   {
@@ -101,6 +103,9 @@ export const PAGES: readonly PageEntry[] = [
     title: 'Export',
     blurb: 'Costed BOMs and purchase lists as CSV files, and the whole Book as a file.',
     plan: 'Downloads of the costed BOM and purchase list of a run as CSV, and of the whole Book as a Book file.',
+    tag: 'rb-export-page',
+    load: () => import('./rb-export-page.ts'),
+    mains: true,
   },
   {
     slug: 'settings',

@@ -1,0 +1,289 @@
+// Export page: choose a run (or a variant and quantity), the CSV choices (delimiter, decimal, byte-order mark), and
+// download the costed BOM or the purchase list as CSV, or the whole Book as a Book file. The bytes come from
+// io/run-export.ts, the same module the CLI writes with.
+import { LitElement, css, html } from 'lit';
+import { customElement, state } from 'lit/decorators.js';
+import type { Book } from '../domain/book.ts';
+import type { Result } from '../domain/costing.ts';
+import { MAX_RUN_QUANTITY } from '../domain/freeze.ts';
+import { isIsoDate, purchaseList } from '../domain/purchase.ts';
+import { bookFileName, serializeBook } from '../io/book-file.ts';
+import {
+  DEFAULT_EXPORT_OPTIONS,
+  costVariant,
+  costedBomCsv,
+  exportBytes,
+  exportOptionsProblem,
+  purchaseListCsv,
+  runCosting,
+  runExportFileName,
+} from '../io/run-export.ts';
+import type { DecimalStyle, DelimiterName, ExportOptions, RunCosting } from '../io/run-export.ts';
+import { BookController } from './book-context.ts';
+import type { NoticeDetail } from './rb-book-menu.ts';
+import { pageStyles } from './styles.ts';
+
+/** Hands bytes to the browser as a download. */
+export function downloadFile(bytes: Uint8Array, name: string, type: string): void {
+  const blob = new Blob([bytes as Uint8Array<ArrayBuffer>], { type });
+  const url = URL.createObjectURL(blob);
+  const a = document.createElement('a');
+  a.href = url;
+  a.download = name;
+  a.click();
+  setTimeout(() => URL.revokeObjectURL(url), 10_000);
+}
+
+/** Downloads a run's costed BOM or purchase list; returns why no file was made, or undefined. */
+export function downloadRunFile(
+  costing: RunCosting,
+  quantity: number,
+  dateWanted: string | undefined,
+  variantCode: string,
+  what: 'costed-bom' | 'purchase-list',
+  options: ExportOptions = DEFAULT_EXPORT_OPTIONS,
+): string | undefined {
+  const text = what === 'costed-bom' ? costedBomCsv(costing, options) : purchaseListCsv(purchaseList(costing.bom, { dateWanted }), options);
+  if (!text.ok) return text.error;
+  downloadFile(exportBytes(text.value), runExportFileName(variantCode, quantity, what), 'text/csv;charset=utf-8');
+  return undefined;
+}
+
+type Source = { kind: 'run'; runId: string } | { kind: 'variant'; variantId: string; quantity: string; dateWanted: string };
+
+interface Subject {
+  costing: Result<RunCosting>;
+  quantity: number;
+  dateWanted: string | undefined;
+  variantCode: string;
+  label: string;
+}
+
+const DELIMITER_WORDS: Record<DelimiterName, string> = { comma: 'comma ,', semicolon: 'semicolon ;', tab: 'tab' };
+const DECIMAL_WORDS: Record<DecimalStyle, string> = { point: 'point 1.25', comma: 'comma 1,25' };
+
+@customElement('rb-export-page')
+export class RbExportPage extends LitElement {
+  static override styles = [
+    pageStyles,
+    css`
+      .choices {
+        display: grid;
+        grid-template-columns: max-content minmax(12rem, 24rem) minmax(10rem, 1fr);
+        gap: 0.4rem 0.8rem;
+        align-items: baseline;
+      }
+      .choices label.k {
+        font-family: var(--rb-mono);
+        font-size: 0.8rem;
+        color: var(--rb-accent-ink);
+        text-align: right;
+      }
+      .choices select,
+      .choices input[type='text'] {
+        font: inherit;
+        font-size: 0.9rem;
+        padding: 0.2rem 0.35rem;
+        border: 1px solid var(--rb-rule);
+        border-bottom: 2px solid var(--rb-ink);
+        background: var(--rb-paper);
+      }
+      .choices .hint {
+        font-size: 0.8rem;
+        color: var(--rb-na);
+      }
+      .choices .problem {
+        font-size: 0.84rem;
+        color: var(--rb-fail);
+      }
+      .choices .problem::before {
+        content: '✗ ';
+        font-weight: 700;
+      }
+      fieldset {
+        border: none;
+        padding: 0;
+        margin: 0 0 0.6rem;
+        display: flex;
+        gap: 1.2rem;
+      }
+      pre {
+        font-family: var(--rb-mono);
+        font-size: 0.75rem;
+        background: var(--rb-paper);
+        border: 1px solid var(--rb-rule);
+        padding: 0.5rem;
+        overflow-x: auto;
+        max-height: 12rem;
+        white-space: pre;
+      }
+      .actions {
+        display: flex;
+        gap: 0.6rem;
+        flex-wrap: wrap;
+        margin-top: 0.8rem;
+      }
+    `,
+  ];
+
+  private readonly books = new BookController(this);
+  @state() private source: Source | undefined;
+  @state() private options: ExportOptions = { ...DEFAULT_EXPORT_OPTIONS };
+  private cache: { book: Book; key: string; subject: Subject } | undefined;
+
+  override render() {
+    const book = this.books.book;
+    if (!book) return html``;
+    const source = this.source ?? this.defaultSource(book);
+    const subject = source ? this.subject(book, source) : undefined;
+    const clash = exportOptionsProblem(this.options);
+    const preview = subject?.costing.ok && !clash ? costedBomCsv(subject.costing.value, this.options) : undefined;
+    return html`<section class="sheet" aria-labelledby="what-h">
+        <h2 id="what-h">What to export</h2>
+        <p class="why">A run exports as it is: a frozen run with its frozen prices. A variant and quantity are costed with today’s quotes.</p>
+        <fieldset>
+          <label><input type="radio" name="source" .checked=${source?.kind !== 'variant'} @change=${() => this.pickSource(book, 'run')} /> a run</label>
+          <label><input type="radio" name="source" .checked=${source?.kind === 'variant'} @change=${() => this.pickSource(book, 'variant')} /> a variant and quantity</label>
+        </fieldset>
+        <div class="choices">${source ? this.renderSource(book, source) : html`<span></span><p class="empty">The Book has no runs and no variants.</p><span></span>`}</div>
+      </section>
+      <section class="sheet" aria-labelledby="csv-h">
+        <h2 id="csv-h">CSV choices</h2>
+        <p class="why">
+          RFC 4180 files. Text that a spreadsheet could run as a formula is kept as text behind a leading apostrophe; numbers
+          stay numbers. Amounts are rounded to cents per line and totals are the sums of the rows.
+        </p>
+        <div class="choices">
+          <label class="k" for="x-delimiter">delimiter</label>
+          <select id="x-delimiter" @change=${(e: Event) => this.setOption({ delimiter: (e.target as HTMLSelectElement).value as DelimiterName })}>
+            ${(Object.keys(DELIMITER_WORDS) as DelimiterName[]).map((d) => html`<option value=${d} ?selected=${this.options.delimiter === d}>${DELIMITER_WORDS[d]}</option>`)}
+          </select>
+          <span class="hint">between the fields of a row</span>
+          <label class="k" for="x-decimal">decimal</label>
+          <select id="x-decimal" aria-invalid=${clash ? 'true' : 'false'} @change=${(e: Event) => this.setOption({ decimal: (e.target as HTMLSelectElement).value as DecimalStyle })}>
+            ${(Object.keys(DECIMAL_WORDS) as DecimalStyle[]).map((d) => html`<option value=${d} ?selected=${this.options.decimal === d}>${DECIMAL_WORDS[d]}</option>`)}
+          </select>
+          ${clash ? html`<span class="problem" role="alert">${clash}</span>` : html`<span class="hint">as your spreadsheet program reads numbers</span>`}
+          <label class="k" for="x-bom">byte-order mark</label>
+          <span><input id="x-bom" type="checkbox" .checked=${this.options.bom} @change=${(e: Event) => this.setOption({ bom: (e.target as HTMLInputElement).checked })} /></span>
+          <span class="hint">UTF-8 with a byte-order mark, for programs that otherwise misread accents and symbols such as Ω</span>
+        </div>
+        ${subject && !subject.costing.ok ? html`<p class="notice" role="alert">${subject.label} cannot be costed: ${subject.costing.error}</p>` : ''}
+        ${subject?.costing.ok && !subject.costing.value.bom.complete
+          ? html`<p class="notice" role="alert">Some lines of ${subject.label} are not priced; the files list them and their totals leave them out.</p>`
+          : ''}
+        <div class="actions">
+          <button type="button" class="primary" ?disabled=${!subject?.costing.ok || !!clash} @click=${() => subject && this.download(subject, 'costed-bom')}>
+            Download costed BOM CSV
+          </button>
+          <button type="button" class="primary" ?disabled=${!subject?.costing.ok || !!clash} @click=${() => subject && this.download(subject, 'purchase-list')}>
+            Download purchase list CSV
+          </button>
+        </div>
+        ${preview?.ok
+          ? html`<h3 class="muted">First lines of the costed BOM file</h3>
+              <pre data-testid="export-preview">${preview.value.replace(/^\uFEFF/, '').split('\r\n').slice(0, 6).join('\n')}</pre>`
+          : ''}
+      </section>
+      <section class="sheet" aria-labelledby="book-h">
+        <h2 id="book-h">The whole Book</h2>
+        <p class="why">Everything in this Book as one ${bookFileName(book)} file, to keep a copy or open it in another browser.</p>
+        <button type="button" @click=${() => void this.downloadBook(book)}>Download the Book file</button>
+      </section>`;
+  }
+
+  private renderSource(book: Book, source: Source) {
+    if (source.kind === 'run') {
+      const codes = new Map(book.variants.map((v) => [v.id, v.code] as const));
+      return html`<label class="k" for="x-run">run</label>
+        <select id="x-run" @change=${(e: Event) => (this.source = { kind: 'run', runId: (e.target as HTMLSelectElement).value })}>
+          ${book.runs.map(
+            (r) => html`<option value=${r.id} ?selected=${r.id === source.runId}>
+              ${r.name} — ${codes.get(r.variantId) ?? '?'} × ${r.quantity}${r.frozen ? ' (frozen)' : ''}
+            </option>`,
+          )}
+        </select>
+        <span class="hint">${book.runs.length === 0 ? 'no runs yet: add one on the Runs page' : ''}</span>`;
+    }
+    const q = source.quantity.trim();
+    const qtyProblem = /^\d+$/.test(q) && Number(q) >= 1 && Number(q) <= MAX_RUN_QUANTITY ? undefined : `quantity must be a whole number from 1 to ${MAX_RUN_QUANTITY}`;
+    const dateProblem = source.dateWanted.trim() === '' || isIsoDate(source.dateWanted.trim()) ? undefined : 'date wanted must be YYYY-MM-DD';
+    const set = (patch: Partial<Omit<Source & { kind: 'variant' }, 'kind'>>) => (this.source = { ...source, ...patch });
+    return html`<label class="k" for="x-variant">variant</label>
+      <select id="x-variant" @change=${(e: Event) => set({ variantId: (e.target as HTMLSelectElement).value })}>
+        ${book.variants.map((v) => html`<option value=${v.id} ?selected=${v.id === source.variantId}>${v.code} — ${v.name}</option>`)}
+      </select>
+      <span></span>
+      <label class="k" for="x-quantity">quantity</label>
+      <input id="x-quantity" type="text" aria-invalid=${qtyProblem ? 'true' : 'false'} .value=${source.quantity} @input=${(e: Event) => set({ quantity: (e.target as HTMLInputElement).value })} />
+      ${qtyProblem ? html`<span class="problem">${qtyProblem}</span>` : html`<span class="hint">finished units</span>`}
+      <label class="k" for="x-wanted">date wanted</label>
+      <input id="x-wanted" type="text" placeholder="YYYY-MM-DD" aria-invalid=${dateProblem ? 'true' : 'false'} .value=${source.dateWanted} @input=${(e: Event) => set({ dateWanted: (e.target as HTMLInputElement).value })} />
+      ${dateProblem ? html`<span class="problem">${dateProblem}</span>` : html`<span class="hint">optional: gives the purchase list its latest order dates</span>`}`;
+  }
+
+  private defaultSource(book: Book): Source | undefined {
+    if (book.runs.length > 0) return { kind: 'run', runId: book.runs[0]!.id };
+    if (book.variants.length > 0) return { kind: 'variant', variantId: book.variants[0]!.id, quantity: String(book.settings.runSizes[0] ?? 1000), dateWanted: '' };
+    return undefined;
+  }
+
+  private pickSource(book: Book, kind: Source['kind']): void {
+    if (kind === 'run') this.source = book.runs[0] ? { kind: 'run', runId: book.runs[0].id } : undefined;
+    else if (book.variants[0]) this.source = { kind: 'variant', variantId: book.variants[0].id, quantity: String(book.settings.runSizes[0] ?? 1000), dateWanted: '' };
+  }
+
+  /** What the files are made from; costed once per Book and choice. */
+  private subject(book: Book, source: Source): Subject | undefined {
+    const key = JSON.stringify(source);
+    if (this.cache && this.cache.book === book && this.cache.key === key) return this.cache.subject;
+    let subject: Subject | undefined;
+    if (source.kind === 'run') {
+      const run = book.runs.find((r) => r.id === source.runId);
+      if (!run) return undefined;
+      const code = book.variants.find((v) => v.id === run.variantId)?.code ?? run.variantId;
+      subject = { costing: runCosting(book, run), quantity: run.quantity, dateWanted: run.dateWanted, variantCode: code, label: `run ${run.name}` };
+    } else {
+      const variant = book.variants.find((v) => v.id === source.variantId);
+      const q = source.quantity.trim();
+      const quantity = /^\d+$/.test(q) ? Number(q) : NaN;
+      if (!variant) return undefined;
+      const wanted = source.dateWanted.trim();
+      const costing: Result<RunCosting> =
+        Number.isSafeInteger(quantity) && quantity >= 1 && quantity <= MAX_RUN_QUANTITY
+          ? costVariant(book, variant.id, quantity)
+          : { ok: false, error: `quantity must be a whole number from 1 to ${MAX_RUN_QUANTITY}` };
+      subject = { costing, quantity, dateWanted: isIsoDate(wanted) ? wanted : undefined, variantCode: variant.code, label: `${variant.code} × ${q}` };
+    }
+    this.cache = { book, key, subject };
+    return subject;
+  }
+
+  private setOption(patch: Partial<ExportOptions>): void {
+    this.options = { ...this.options, ...patch };
+  }
+
+  private notify(detail: NoticeDetail): void {
+    this.dispatchEvent(new CustomEvent<NoticeDetail>('rb-notice', { detail, bubbles: true, composed: true }));
+  }
+
+  private download(subject: Subject, what: 'costed-bom' | 'purchase-list'): void {
+    if (!subject.costing.ok) return;
+    const problem = downloadRunFile(subject.costing.value, subject.quantity, subject.dateWanted, subject.variantCode, what, this.options);
+    if (problem) this.notify({ tone: 'problem', title: 'No file was made', lines: [problem] });
+  }
+
+  private async downloadBook(book: Book): Promise<void> {
+    const service = this.books.service;
+    if (!service) return;
+    downloadFile(new TextEncoder().encode(serializeBook(book)), bookFileName(book), 'application/json');
+    const result = await service.markExported();
+    if (!result.ok) this.notify({ tone: 'problem', title: 'The file was made, but the export date was not saved', lines: [result.message] });
+  }
+}
+
+declare global {
+  interface HTMLElementTagNameMap {
+    'rb-export-page': RbExportPage;
+  }
+}

@@ -1,0 +1,344 @@
+// The printable run sheet: header (Book, variant, run, dates), the variant's check summary with the mains caution,
+// the costed BOM and its totals. It lives directly in the document body so the print stylesheet (print.css) can
+// print it alone; `printRunSheet` fills it and opens the browser's print dialogue.
+import { LitElement, css, html } from 'lit';
+import { customElement, property } from 'lit/decorators.js';
+import type { Book, Run } from '../domain/book.ts';
+import { CHECK_STATUS, STATUS_SEVERITY, STATUS_SYMBOL } from '../domain/check-status.ts';
+import type { CheckStatus } from '../domain/check-status.ts';
+import { formatValue } from '../domain/units.ts';
+import { evaluateChecks } from '../engine/family.ts';
+import { costedTotalLabels, numberText } from '../io/run-export.ts';
+import type { RunCosting } from '../io/run-export.ts';
+import { MAINS_CAUTION } from './rb-mains-caution.ts';
+import './print.css';
+
+export interface SheetCheck {
+  name: string;
+  title: string;
+  status: CheckStatus;
+  value: string;
+  limit: string;
+  message: string;
+}
+
+export interface RunSheetData {
+  bookName: string;
+  company: string;
+  runName: string;
+  variantCode: string;
+  variantName: string;
+  quantity: number;
+  dateWanted: string;
+  notes: string;
+  costing: RunCosting;
+  /** Every check of the variant, worst first. */
+  checks: SheetCheck[];
+  /** When the sheet was made (ISO date). */
+  printedOn: string;
+}
+
+const STATUS_ORDER: CheckStatus[] = [CHECK_STATUS.fail, CHECK_STATUS.error, CHECK_STATUS.margin, CHECK_STATUS.pass, CHECK_STATUS.na];
+
+/** The variant's check results as the sheet lists them (only this variant is evaluated). */
+export function sheetChecks(book: Book, variantId: string): SheetCheck[] {
+  const variant = book.variants.find((v) => v.id === variantId);
+  if (!variant || book.checks.length === 0) return [];
+  const titles = new Map(book.checks.map((c) => [c.id, c.title] as const));
+  return evaluateChecks({ ...book, variants: [variant] })
+    .map(
+      (r): SheetCheck => ({
+        name: r.checkName,
+        title: titles.get(r.checkId) ?? r.checkName,
+        status: r.status,
+        value: typeof r.value === 'number' ? formatValue(r.value, r.unit) : r.value === null ? '' : String(r.value),
+        limit: r.limit,
+        message: r.message,
+      }),
+    )
+    .sort((a, b) => STATUS_SEVERITY[b.status] - STATUS_SEVERITY[a.status] || a.name.localeCompare(b.name));
+}
+
+/** Everything the sheet shows for a run, gathered once. */
+export function runSheetData(book: Book, run: Run, costing: RunCosting, today: string): RunSheetData {
+  const variant = book.variants.find((v) => v.id === run.variantId);
+  return {
+    bookName: book.settings.bookName,
+    company: book.settings.company,
+    runName: run.name,
+    variantCode: variant?.code ?? costing.bom.variant,
+    variantName: variant?.name ?? '',
+    quantity: run.quantity,
+    dateWanted: run.dateWanted,
+    notes: run.notes,
+    costing,
+    checks: sheetChecks(book, run.variantId),
+    printedOn: today,
+  };
+}
+
+/** Puts the sheet for `data` in the document and opens the print dialogue. */
+export async function printRunSheet(data: RunSheetData): Promise<void> {
+  let sheet = document.body.querySelector<RbRunSheet>(':scope > rb-run-sheet');
+  if (!sheet) {
+    sheet = document.createElement('rb-run-sheet');
+    document.body.append(sheet);
+  }
+  sheet.data = data;
+  await sheet.updateComplete;
+  window.print();
+}
+
+const money = (n: number): string => numberText({ n, kind: 'money' });
+const unit = (n: number): string => numberText({ n, kind: 'unit' });
+const price = (n: number): string => numberText({ n, kind: 'price' });
+
+@customElement('rb-run-sheet')
+export class RbRunSheet extends LitElement {
+  static override styles = css`
+    :host {
+      display: block;
+      color: #000;
+      background: #fff;
+      font-family: Georgia, 'DejaVu Serif', serif;
+      font-size: 9.5pt;
+      line-height: 1.3;
+    }
+    header {
+      display: flex;
+      justify-content: space-between;
+      align-items: flex-end;
+      border-bottom: 2pt solid #000;
+      padding-bottom: 3pt;
+      margin-bottom: 6pt;
+    }
+    h1 {
+      font-size: 17pt;
+      margin: 0;
+      font-weight: 600;
+    }
+    .book {
+      text-align: right;
+      font-size: 9pt;
+    }
+    dl.facts {
+      display: grid;
+      grid-template-columns: repeat(3, max-content 1fr);
+      gap: 1pt 8pt;
+      margin: 0 0 8pt;
+    }
+    dt {
+      font-variant: small-caps;
+      letter-spacing: 0.04em;
+      color: #333;
+    }
+    dd {
+      margin: 0;
+      font-weight: 600;
+    }
+    .caution {
+      border: 1pt solid #000;
+      border-left-width: 4pt;
+      padding: 4pt 7pt;
+      margin: 0 0 9pt;
+    }
+    h2 {
+      font-size: 11pt;
+      font-variant: small-caps;
+      letter-spacing: 0.05em;
+      margin: 10pt 0 3pt;
+      border-bottom: 0.75pt solid #000;
+      break-after: avoid;
+    }
+    table {
+      border-collapse: collapse;
+      width: 100%;
+      font-variant-numeric: tabular-nums;
+    }
+    th {
+      text-align: left;
+      font-size: 8pt;
+      font-weight: 600;
+      border-bottom: 1pt solid #000;
+      padding: 2pt 3pt;
+      vertical-align: bottom;
+    }
+    td {
+      border-bottom: 0.5pt solid #999;
+      padding: 2pt 3pt;
+      vertical-align: top;
+    }
+    thead {
+      display: table-header-group;
+    }
+    tr {
+      break-inside: avoid;
+    }
+    .num {
+      text-align: right;
+      white-space: nowrap;
+    }
+    .code {
+      font-family: 'DejaVu Sans Mono', monospace;
+      font-size: 8pt;
+      white-space: nowrap;
+    }
+    .summary {
+      margin: 0 0 3pt;
+    }
+    table.totals {
+      width: auto;
+      margin-left: auto;
+      break-inside: avoid;
+    }
+    table.totals td:first-child {
+      padding-right: 16pt;
+    }
+    table.totals tr.strong td {
+      font-weight: 700;
+      border-top: 1pt solid #000;
+    }
+    .problem {
+      font-weight: 700;
+    }
+    .sign {
+      display: grid;
+      grid-template-columns: repeat(3, 1fr);
+      gap: 12pt;
+      margin-top: 18pt;
+      break-inside: avoid;
+    }
+    .sign div {
+      border-top: 0.75pt solid #000;
+      padding-top: 2pt;
+      font-size: 8pt;
+    }
+  `;
+
+  @property({ attribute: false }) data: RunSheetData | undefined;
+
+  override render() {
+    const d = this.data;
+    if (!d) return html``;
+    const bom = d.costing.bom;
+    const c = bom.currency;
+    const frozen = d.costing.frozen;
+    const labels = costedTotalLabels(c, d.costing.marginPct);
+    const counts = STATUS_ORDER.map((s) => [s, d.checks.filter((x) => x.status === s).length] as const).filter(([, n]) => n > 0);
+    const notable = d.checks.filter((x) => x.status !== CHECK_STATUS.pass && x.status !== CHECK_STATUS.na);
+    return html`<article aria-label="Run sheet">
+      <header>
+        <div>
+          <h1>Run sheet · ${d.runName}</h1>
+          <div>${d.variantCode} — ${d.variantName}</div>
+        </div>
+        <div class="book">${d.bookName}${d.company ? html`<br />${d.company}` : ''}</div>
+      </header>
+      <dl class="facts">
+        <dt>variant</dt>
+        <dd>${d.variantCode}</dd>
+        <dt>quantity</dt>
+        <dd>${d.quantity} units</dd>
+        <dt>date wanted</dt>
+        <dd>${d.dateWanted}</dd>
+        <dt>quotes valid on</dt>
+        <dd>${bom.date}</dd>
+        <dt>costing</dt>
+        <dd>${frozen ? `frozen ${frozen.at.slice(0, 10)}` : 'live (not frozen)'}</dd>
+        <dt>printed</dt>
+        <dd>${d.printedOn}</dd>
+      </dl>
+      <p class="caution" role="note"><strong>⚠ Mains caution.</strong> ${MAINS_CAUTION}</p>
+
+      <h2>Checks for ${d.variantCode}</h2>
+      ${d.checks.length === 0
+        ? html`<p class="summary">No checks in this Book.</p>`
+        : html`<p class="summary">
+              ${counts.map(([s, n], i) => html`${i ? ' · ' : ''}${STATUS_SYMBOL[s]} ${n} ${s}`)}
+              ${notable.length === 0 ? ' — every check that applies passes.' : ''}
+            </p>
+            ${notable.length
+              ? html`<table>
+                  <thead>
+                    <tr><th>status</th><th>check</th><th class="num">value</th><th>limit</th><th>note</th></tr>
+                  </thead>
+                  <tbody>
+                    ${notable.map(
+                      (x) => html`<tr>
+                        <td class="problem">${STATUS_SYMBOL[x.status]} ${x.status}</td>
+                        <td>${x.title}</td>
+                        <td class="num">${x.value}</td>
+                        <td>${x.limit}</td>
+                        <td>${x.message}</td>
+                      </tr>`,
+                    )}
+                  </tbody>
+                </table>`
+              : ''}`}
+
+      <h2>Bill of materials for ${d.quantity} units</h2>
+      <table data-testid="sheet-bom">
+        <thead>
+          <tr>
+            <th>designators</th>
+            <th>mpn</th>
+            <th>description</th>
+            <th class="num">per unit</th>
+            <th class="num">need</th>
+            <th class="num">buy</th>
+            <th>supplier</th>
+            <th>code</th>
+            <th class="num">unit price</th>
+            <th class="num">extended ${c}</th>
+          </tr>
+        </thead>
+        <tbody>
+          ${bom.lines.map(
+            (l) => html`<tr>
+              <td>${l.designators}</td>
+              <td class="code">${l.mpn}</td>
+              <td>${l.description}</td>
+              <td class="num">${l.qtyPerUnit}</td>
+              <td class="num">${l.need}</td>
+              <td class="num">${l.buy}</td>
+              <td>${l.supplier}</td>
+              <td class="code">${l.supplierCode}</td>
+              <td class="num">${price(l.unitPrice)} ${l.currency}</td>
+              <td class="num">${money(l.extendedBase)}</td>
+            </tr>`,
+          )}
+          ${bom.problems.map(
+            (p) => html`<tr>
+              <td>${p.designators ?? ''}</td>
+              <td colspan="9" class="problem">NOT PRICED: ${p.message}</td>
+            </tr>`,
+          )}
+        </tbody>
+      </table>
+
+      <h2>Totals</h2>
+      <table class="totals" data-testid="sheet-totals">
+        <tbody>
+          <tr><td>${labels.material}</td><td class="num">${unit(bom.material)}</td></tr>
+          <tr><td>${labels.labour}</td><td class="num">${unit(bom.labour)}</td></tr>
+          <tr><td>${labels.test}</td><td class="num">${unit(bom.test)}</td></tr>
+          <tr><td>${labels.overhead}</td><td class="num">${unit(bom.overhead)}</td></tr>
+          <tr class="strong"><td>${labels.unitCost}</td><td class="num">${unit(bom.unitCost)}</td></tr>
+          <tr><td>${labels.price}</td><td class="num">${unit(bom.price)}</td></tr>
+          <tr><td>${labels.materialRun}</td><td class="num">${money(bom.materialRun)}</td></tr>
+          <tr class="strong"><td>${labels.runTotal}</td><td class="num">${money(bom.runTotal)}</td></tr>
+          <tr><td>${labels.leftoverValue}</td><td class="num">${money(bom.leftoverValue)}</td></tr>
+        </tbody>
+      </table>
+      ${bom.complete ? '' : html`<p class="problem">Incomplete: the lines marked NOT PRICED are missing from every total.</p>`}
+      ${d.notes ? html`<h2>Notes</h2><p>${d.notes}</p>` : ''}
+      <div class="sign"><div>kitted by / date</div><div>built by / date</div><div>tested by / date</div></div>
+    </article>`;
+  }
+}
+
+declare global {
+  interface HTMLElementTagNameMap {
+    'rb-run-sheet': RbRunSheet;
+  }
+}
