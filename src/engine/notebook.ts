@@ -10,6 +10,7 @@ import { parseValue } from '../domain/units.ts';
 import { createEngine } from './create.ts';
 import { evaluateChecks } from './family.ts';
 import type { CheckResult } from './family.ts';
+import { guardFormula } from './formula-guard.ts';
 import { nameKey } from './formula-names.ts';
 import type { BookFunctionContext, CheckLookup, Missing, PriceLookup } from './functions/book.ts';
 
@@ -115,6 +116,17 @@ export function cellInput(raw: string): number | string | null {
   return v.ok ? v.value : `'${raw}`;
 }
 
+/**
+ * Why a typed formula is not handed to the engine (too long, too deeply nested, a huge range: see formula-guard.ts),
+ * or undefined for anything the engine may evaluate. Such a formula could freeze the page or overflow the stack.
+ */
+function refusedFormula(raw: string): string | undefined {
+  const t = raw.trim();
+  if (!t.startsWith('=')) return undefined;
+  const g = guardFormula(t);
+  return g.ok ? undefined : g.refusal.message;
+}
+
 function cellResult(input: string, v: CellValue): NotebookCell {
   const kind: CellKind = input.trim() === '' ? CELL_KIND.empty : input.trim().startsWith('=') ? CELL_KIND.formula : CELL_KIND.value;
   if (v instanceof DetailedCellError) return { input, kind, value: null, error: v.value, message: v.message || v.value };
@@ -138,7 +150,9 @@ export function evaluateNotebookPage(book: Book, page: NotebookPage, options: Bo
       page.sections.forEach((s, i) => {
         const sheet = ids[i];
         if (sheet === undefined) return;
-        const rows = s.grid.slice(0, NOTEBOOK_LIMITS.rows).map((row) => row.slice(0, NOTEBOOK_LIMITS.cols).map(cellInput));
+        const rows = s.grid
+          .slice(0, NOTEBOOK_LIMITS.rows)
+          .map((row) => row.slice(0, NOTEBOOK_LIMITS.cols).map((raw) => (refusedFormula(raw) === undefined ? cellInput(raw) : null)));
         hf.setSheetContent(sheet, rows);
       });
     });
@@ -156,6 +170,8 @@ export function evaluateNotebookPage(book: Book, page: NotebookPage, options: Bo
               message: `grids hold at most ${NOTEBOOK_LIMITS.rows} rows and ${NOTEBOOK_LIMITS.cols} columns`,
             };
           }
+          const refused = refusedFormula(input);
+          if (refused !== undefined) return { input, kind: CELL_KIND.formula, value: null, error: '#REFUSED', message: refused };
           return cellResult(input, hf.getCellValue({ sheet, row: r, col: c }));
         }),
       );

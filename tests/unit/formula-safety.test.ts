@@ -6,6 +6,7 @@ import type { Check } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { createEngine } from '../../src/engine/create.ts';
 import { evaluateChecks } from '../../src/engine/family.ts';
+import { evaluateNotebookPage } from '../../src/engine/notebook.ts';
 import {
   FORMULA_LIMITS,
   FORMULA_REFUSALS,
@@ -218,5 +219,37 @@ describe('evaluateFormula never shows a number that is not finite', () => {
     const r = evaluateFormula(hf, '=1e-300', sheet);
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.error).toMatch(/^#NUM! the result is not a finite number/);
+  });
+});
+
+describe('notebook grids pass every typed formula through the guard', () => {
+  it('refused formulas show their reason in the cell while the rest of the page evaluates', () => {
+    const book = demoBook();
+    const page = {
+      id: 'page_safety',
+      rev: 0,
+      title: 'safety',
+      position: 0,
+      sections: [
+        {
+          heading: 'typed by a person',
+          text: '',
+          grid: [
+            ['=SUM(A1:XFD1048576)', nested(500), '=1/0'],
+            ['=SUM(Section1!A1:Z40000)', '=OFFSET(A1,0,0,40000,1000)', '=2+3'],
+          ],
+        },
+      ],
+    };
+    const result = evaluateNotebookPage(book, page);
+    const [row1, row2] = result.sections[0]!.grid;
+    expect(row1![0]).toMatchObject({ kind: 'formula', value: null, error: '#REFUSED' });
+    expect(row1![0]!.message).toContain('past the sheet');
+    expect(row1![1]!.message).toContain('more than 32 deep');
+    // Division by zero is not refused: it is the engine's own error value.
+    expect(row1![2]).toMatchObject({ value: null, error: '#DIV/0!' });
+    expect(row2![0]!.message).toContain('1,040,000 cells');
+    expect(row2![1]!.message).toMatch(/^OFFSET is not available/);
+    expect(row2![2]).toMatchObject({ kind: 'formula', value: 5 });
   });
 });
