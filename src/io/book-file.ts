@@ -850,6 +850,8 @@ export function jsonErrorAt(text: string): { offset: number; reason: string; tru
         NUMBER.lastIndex = i;
         if (!NUMBER.exec(text)) return i + 1 >= n ? end() : bad('a number is malformed');
         i = NUMBER.lastIndex;
+        // A number cut off inside its fraction or exponent ("4.", "4.7e-") is a truncated file, not a bad character.
+        if (/^(?:\.|(?:\.\d+)?[eE][+-]?)$/.test(text.slice(i))) return end();
         if (i >= n && stack.length) return end();
         mode = 'after';
       } else {

@@ -91,6 +91,14 @@ describe('Book file reading never throws', () => {
     );
   });
 
+  it('calls a file cut inside a number (after "4." or "4.7e-") truncated, not malformed', () => {
+    for (const tail of ['4.', '4.7e', '4.7e-', '-']) {
+      const result = parseBookFile(`{"format": "rungbook-book", "version": ${tail}`);
+      expect(result.ok).toBe(false);
+      if (!result.ok) expect(result.problems[0]!.message).toMatch(/^the file ends too early/);
+    }
+  });
+
   it('refuses random text inserted into a real Book file, or reads it when it is still a valid Book', () => {
     const text = serializeBook(sampleBook(), { savedAt: '2025-03-01T12:00:00.000Z' });
     fc.assert(
