@@ -181,9 +181,8 @@ export class CostingService extends EventTarget {
    */
   scratch(options: { date?: string } = {}): Result<CostingWorkbook> {
     this.sync();
-    const book = this.books.book;
-    const res = this.family ? resolutionFromFamily(this.family.resolve()) : undefined;
-    return CostingWorkbook.open(book, res, options);
+    if (!this.family) return { ok: false, error: this.costingError ?? 'the build lines could not be resolved' };
+    return CostingWorkbook.open(this.books.book, resolutionFromFamily(this.family.resolve()), options);
   }
 
   /** Frees both workbooks; the next read builds them again. */
@@ -251,9 +250,13 @@ export class CostingService extends EventTarget {
     this.costing?.close();
     this.costing = undefined;
     this.costingError = undefined;
+    if (!this.family) {
+      // Without resolved build lines any figure would leave lines out; show why instead of a wrong cost.
+      this.costingError = `the build lines could not be resolved (${this.familyError ?? 'no family workbook'})`;
+      return;
+    }
     try {
-      const res = this.family ? resolutionFromFamily(this.family.resolve()) : undefined;
-      const opened = CostingWorkbook.open(book, res);
+      const opened = CostingWorkbook.open(book, resolutionFromFamily(this.family.resolve()));
       if (opened.ok) this.costing = opened.value;
       else this.costingError = opened.error;
     } catch (e) {

@@ -177,7 +177,7 @@ export class RbFamilyPage extends LitElement {
     cells.push({
       text: `${STATUS_SYMBOL[status]} ${status}`,
       tone: status === 'n/a' ? 'na' : status,
-      title: notPassing.length ? notPassing.join('\n') : status === 'pass' ? 'every check that applies passes' : 'no check applies',
+      title: costing.checksProblem ?? (notPassing.length ? notPassing.join('\n') : status === 'pass' ? 'every check that applies passes' : 'no check applies'),
     });
     for (const run of runs) {
       const u = costing.unitCost(v.id, run);
@@ -219,7 +219,8 @@ export class RbFamilyPage extends LitElement {
         <kbd>↑</kbd><kbd>↓</kbd><kbd>←</kbd><kbd>→</kbd> move (with <kbd>Shift</kbd> to mark a block) · <kbd>Enter</kbd> or typing edits ·
         <kbd>Esc</kbd> cancels · <kbd>Enter</kbd>/<kbd>Tab</kbd> keeps and moves on · <kbd>Ctrl</kbd>+<kbd>C</kbd> / <kbd>V</kbd> copy and
         paste tab-separated cells (a first row of column names is recognised) · <kbd>Ctrl</kbd>+<kbd>Z</kbd> undo,
-        <kbd>Ctrl</kbd>+<kbd>Shift</kbd>+<kbd>Z</kbd> or <kbd>Ctrl</kbd>+<kbd>Y</kbd> redo
+        <kbd>Ctrl</kbd>+<kbd>Shift</kbd>+<kbd>Z</kbd> or <kbd>Ctrl</kbd>+<kbd>Y</kbd> redo. To add variants, type a code on the
+        last line (+ new) or paste rows there; a pasted variant without a name is named by its code.
       </p>
       <div class="toolbar" role="toolbar" aria-label="Variants">
         <button type="button" class="primary" @click=${() => this.startEdit(book, undefined)}>Add a variant</button>
@@ -252,11 +253,12 @@ export class RbFamilyPage extends LitElement {
             ${this.notice.text}
           </p>`
         : ''}
+      ${costing.checksProblem ? html`<p class="note problem" role="alert">Checks: ${costing.checksProblem}.</p>` : ''}
       ${costProblem ? html`<p class="note problem" role="alert">Unit costs cannot be worked out: ${costProblem}.</p>` : ''}
       <rb-grid
         testid="family-table"
         label="Variants of the family"
-        newRow="＋ new variant: type a code here, or paste rows"
+        newRow="+ new"
         .columns=${grid}
         .rows=${rows}
         @rb-grid-commit=${this._onCommit}
