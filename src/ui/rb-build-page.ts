@@ -64,7 +64,7 @@ export class RbBuildPage extends LitElement {
         font-family: var(--rb-mono);
         font-size: 0.8rem;
         display: inline-block;
-        max-width: 12rem;
+        max-width: 14rem;
         overflow: hidden;
         text-overflow: ellipsis;
         white-space: nowrap;
@@ -75,10 +75,15 @@ export class RbBuildPage extends LitElement {
         color: var(--rb-na);
         font-size: 0.74rem;
       }
+      td.rule small code {
+        font-size: 0.74rem;
+        max-width: 12rem;
+        color: var(--rb-ink);
+      }
       td.status {
         font-size: 0.82rem;
-        min-width: 9rem;
-        max-width: 22rem;
+        min-width: 8rem;
+        max-width: 18rem;
       }
       .ok {
         color: var(--rb-pass);
@@ -228,8 +233,7 @@ export class RbBuildPage extends LitElement {
                   <th class="num">#</th>
                   <th>designators</th>
                   <th>part / part rule</th>
-                  <th>qty per unit</th>
-                  <th>applies when</th>
+                  <th>qty per unit · applies when</th>
                   <th>category · role</th>
                   <th>attrition · pinned</th>
                   <th>on every variant</th>
@@ -261,8 +265,10 @@ export class RbBuildPage extends LitElement {
           ? html`<code title=${l.partRule}>${l.partRule}</code><small>part rule</small>`
           : html`<span class="code">${part?.mpn ?? l.partId ?? ''}</span><small>${part?.description ?? (l.partId ? 'part not in the Book' : '')}</small>`}
       </td>
-      <td class="rule"><code title=${l.qtyRule}>${l.qtyRule}</code></td>
-      <td class="rule">${l.appliesWhen ? html`<code title=${l.appliesWhen}>${l.appliesWhen}</code>` : html`<span class="muted">always</span>`}</td>
+      <td class="rule">
+        <code title=${l.qtyRule}>${l.qtyRule}</code>
+        <small>${l.appliesWhen ? html`when <code title=${l.appliesWhen}>${l.appliesWhen}</code>` : 'always'}</small>
+      </td>
       <td class="nowrap">${l.category}${l.role ? html`<small class="role">role ${l.role}</small>` : ''}</td>
       <td class="nowrap">
         ${l.attrition !== undefined

@@ -147,7 +147,7 @@ export class RbSettingsPage extends LitElement {
           <button type="submit" class="primary" ?disabled=${!this.dirty}>Save the settings</button>
           <button type="button" ?disabled=${!this.dirty} @click=${() => this.restart(book)}>Undo my changes</button>
           ${Object.keys(p).length ? html`<span class="problem" role="alert">Nothing saved: fix the marked fields.</span>` : ''}
-          ${this.savedAt ? html`<span class="saved" role="status">Saved.</span>` : ''}
+          ${this.savedAt ? html`<span class="saved" role="status" data-testid="settings-saved">Saved.</span>` : ''}
         </div>
       </form>
     </section>`;
