@@ -71,3 +71,21 @@ describe('rungbook eval', () => {
     expect(help.out).toMatch(/not a certification/);
   });
 });
+
+describe('rungbook eval refuses formulas that could freeze the engine', () => {
+  it('refuses a range over the whole sheet with a message and status 1', async () => {
+    const out: string[] = [];
+    const err: string[] = [];
+    const code = await main(['eval', 'SUM(A1:XFD1048576)'], { out: (t) => out.push(t), err: (t) => err.push(t) });
+    expect(code).toBe(1);
+    expect(out).toEqual([]);
+    expect(err.join('\n')).toMatch(/range/i);
+  });
+
+  it('refuses 500 nested brackets with a message instead of overflowing the stack', async () => {
+    const err: string[] = [];
+    const code = await main(['eval', '('.repeat(500) + '1' + ')'.repeat(500)], { out: () => undefined, err: (t) => err.push(t) });
+    expect(code).toBe(1);
+    expect(err.join('\n')).toMatch(/nest|deep/i);
+  });
+});

@@ -2,6 +2,7 @@
 import { DetailedCellError } from 'hyperformula';
 import type { CellValue } from 'hyperformula';
 import { createEngine } from '../../engine/create.ts';
+import { FORMULA_REFUSALS, engineFailure, guardFormula } from '../../engine/formula-guard.ts';
 import type { CliCommand, CliIo } from '../command.ts';
 
 const HELP = `usage: rungbook eval 'FORMULA'
@@ -44,6 +45,14 @@ export const command: CliCommand = {
     const formula = text.startsWith('=') ? text : `=${text}`;
     // The engine normally rounds results it hands out to about 12 significant figures for display; eval shows the
     // exact double instead, so a script gets every digit the formula produced.
+    // Formulas too long, too deep or over too large a range are refused before they reach the engine.
+    // Plain syntax slips (an unclosed bracket or quote) get the engine's reading message below.
+    const guard = guardFormula(formula);
+    const syntaxOnly: string[] = [FORMULA_REFUSALS.unbalanced, FORMULA_REFUSALS.unclosedText];
+    if (!guard.ok && !syntaxOnly.includes(guard.refusal.code)) {
+      io.err(`rungbook eval: ${guard.refusal.message}`);
+      return 1;
+    }
     const hf = createEngine({ smartRounding: false });
     try {
       if (!hf.validateFormula(formula)) {
@@ -51,7 +60,13 @@ export const command: CliCommand = {
         return 1;
       }
       const sheet = hf.getSheetId(hf.addSheet('eval'))!;
-      const value = hf.calculateFormula(formula, sheet);
+      let value: ReturnType<typeof hf.calculateFormula>;
+      try {
+        value = hf.calculateFormula(formula, sheet);
+      } catch (e) {
+        io.err(`rungbook eval: the formula could not be evaluated: ${engineFailure(e)}`);
+        return 1;
+      }
       const rows = Array.isArray(value) ? value : [[value]];
       const firstError = rows.flat().find((v): v is DetailedCellError => v instanceof DetailedCellError);
       if (firstError && !Array.isArray(value)) {
