@@ -81,6 +81,9 @@ export class RbRunDetail extends LitElement {
       tr.removed td {
         background: var(--rb-margin-bg);
       }
+      td.desc {
+        min-width: 16rem;
+      }
       td.why {
         font-size: 0.82rem;
         color: var(--rb-na);
@@ -201,7 +204,7 @@ export class RbRunDetail extends LitElement {
               (l) => html`<tr>
                 <td>${l.designators}</td>
                 <td class="code">${l.mpn}</td>
-                <td>${l.description}</td>
+                <td class="desc">${l.description}</td>
                 <td class="num">${l.qtyPerUnit}</td>
                 <td class="num">${l.need}</td>
                 <td class="num">${l.buy}</td>

@@ -103,6 +103,8 @@ export class RbRunSheet extends LitElement {
       font-family: Georgia, 'DejaVu Serif', serif;
       font-size: 9.5pt;
       line-height: 1.3;
+      /* Plain letters copy and search better than ligature glyphs. */
+      font-variant-ligatures: none;
     }
     header {
       display: flex;

@@ -11,6 +11,11 @@ import { field, focusFirstProblem } from './form-fields.ts';
 import './rb-run-detail.ts';
 import { pageStyles } from './styles.ts';
 
+/** Runs by date wanted, then name. */
+function sortRuns(runs: readonly Run[]): Run[] {
+  return [...runs].sort((a, b) => a.dateWanted.localeCompare(b.dateWanted) || a.name.localeCompare(b.name));
+}
+
 type Editing = { run: Run | undefined; draft: RunDraft; problems: RunProblems; saveError?: string; conflict?: boolean };
 
 @customElement('rb-runs-page')
@@ -42,14 +47,15 @@ export class RbRunsPage extends LitElement {
   override render() {
     const book = this.books.book;
     if (!book) return html``;
-    const chosen = book.runs.find((r) => r.id === this.chosen) ?? book.runs[0];
+    // Without a choice, the run wanted soonest (the first row of the list).
+    const chosen = book.runs.find((r) => r.id === this.chosen) ?? sortRuns(book.runs)[0];
     return html`${this.editing ? this.renderForm(book, this.editing) : ''} ${this.renderList(book, chosen)}
     ${chosen ? html`<rb-run-detail .runId=${chosen.id}></rb-run-detail>` : ''}`;
   }
 
   private renderList(book: Book, chosen: Run | undefined) {
     const codes = new Map(book.variants.map((v) => [v.id, v.code] as const));
-    const runs = [...book.runs].sort((a, b) => a.dateWanted.localeCompare(b.dateWanted) || a.name.localeCompare(b.name));
+    const runs = sortRuns(book.runs);
     return html`<section class="sheet" aria-labelledby="runs-h">
       <h2 id="runs-h">Production runs</h2>
       <p class="why">
