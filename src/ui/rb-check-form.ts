@@ -10,6 +10,7 @@ import { canonicalUnit, formatValue } from '../domain/units.ts';
 import { evaluateChecks } from '../engine/family.ts';
 import type { CheckResult } from '../engine/family.ts';
 import { formulaBody, nameKey, tokenizeFormula } from '../engine/formula-names.ts';
+import { guardFormula } from '../engine/formula-guard.ts';
 import { BookController } from './book-context.ts';
 import { field, fieldId } from './form-fields.ts';
 import type { FieldProblems } from './record-forms.ts';
@@ -56,7 +57,10 @@ function formulaProblem(text: string, what: string, required: boolean): string |
   const body = formulaBody(text);
   if (body === '') return required ? `${what} is required` : undefined;
   const t = tokenizeFormula(body);
-  return t.ok ? undefined : t.error;
+  if (!t.ok) return t.error;
+  // Too long, too deep or over a huge range: refused before it can reach the engine and freeze the page.
+  const g = guardFormula(body);
+  return g.ok ? undefined : g.refusal.message;
 }
 
 /** Checks a draft against the Book; gives the record (rev 0 for a new check) or messages keyed by field. */
