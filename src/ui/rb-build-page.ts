@@ -64,7 +64,7 @@ export class RbBuildPage extends LitElement {
         font-family: var(--rb-mono);
         font-size: 0.8rem;
         display: inline-block;
-        max-width: 14rem;
+        max-width: 11.5rem;
         overflow: hidden;
         text-overflow: ellipsis;
         white-space: nowrap;
@@ -75,15 +75,22 @@ export class RbBuildPage extends LitElement {
         color: var(--rb-na);
         font-size: 0.74rem;
       }
+      td.rule small {
+        white-space: nowrap;
+      }
       td.rule small code {
         font-size: 0.74rem;
-        max-width: 12rem;
+        max-width: 9.5rem;
         color: var(--rb-ink);
       }
       td.status {
         font-size: 0.82rem;
-        min-width: 8rem;
-        max-width: 18rem;
+        min-width: 5rem;
+        max-width: 16rem;
+      }
+      td.rule > small:not(:has(code)) {
+        max-width: 12rem;
+        white-space: normal;
       }
       .ok {
         color: var(--rb-pass);
@@ -234,9 +241,8 @@ export class RbBuildPage extends LitElement {
                   <th>designators</th>
                   <th>part / part rule</th>
                   <th>qty per unit · applies when</th>
-                  <th>category · role</th>
-                  <th>attrition · pinned</th>
-                  <th>on every variant</th>
+                  <th>category · role · buying</th>
+                  <th>variants</th>
                   <th><span class="muted">actions</span></th>
                 </tr>
               </thead>
@@ -269,17 +275,17 @@ export class RbBuildPage extends LitElement {
         <code title=${l.qtyRule}>${l.qtyRule}</code>
         <small>${l.appliesWhen ? html`when <code title=${l.appliesWhen}>${l.appliesWhen}</code>` : 'always'}</small>
       </td>
-      <td class="nowrap">${l.category}${l.role ? html`<small class="role">role ${l.role}</small>` : ''}</td>
       <td class="nowrap">
-        ${l.attrition !== undefined
-          ? pct(l.attrition)
-          : html`<span class="muted" title="the Book's default for the part kind">${defaultAttrition === undefined ? '' : `${pct(defaultAttrition)} default`}</span>`}
+        ${l.category}${l.role ? html`<small class="role">role ${l.role}</small>` : ''}
+        <small class="role" title=${l.attrition === undefined ? "the Book's default for the part kind" : 'set on this line'}
+          >attrition ${l.attrition !== undefined ? pct(l.attrition) : defaultAttrition === undefined ? '—' : `${pct(defaultAttrition)} (default)`}</small
+        >
         ${pin ? html`<small class="role">pinned: ${pin.name}</small>` : l.pinnedSupplierId ? html`<small class="bad">pinned to a supplier not in the Book</small>` : ''}
       </td>
       <td class="status" data-testid="line-status">
         ${bad.length
           ? html`<span class="bad">fails for ${bad.map((o) => o.variantCode).join(', ')}: ${bad[0]!.problem}</span>`
-          : html`<span class="ok">applies to ${applying} of ${outcomes.length}</span>`}
+          : html`<span class="ok" title="fitted on ${applying} of ${outcomes.length} variants">${applying} of ${outcomes.length}</span>`}
       </td>
       <td class="acts">
         ${confirming

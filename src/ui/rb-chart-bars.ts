@@ -178,7 +178,7 @@ export class RbChartBars extends LitElement {
           (t) => svg`<line class="tick" x1=${labelW + x(t)} x2=${labelW + x(t)} y1=${top - 4} y2=${height - 6}></line>
             <text class="num" x=${labelW + x(t)} y=${top - 8} text-anchor="middle">${this.fmt(t)}</text>`,
         )}
-        <text x=${width - 4} y=${top - 8} text-anchor="end">${this.unit} per unit</text>
+        <text x=${labelW - 26} y=${top - 8} text-anchor="end">${this.unit} per unit</text>
         ${this.rows.map((r, ri) => {
           const y = top + ri * rowH + 5;
           const h = rowH - 12;

@@ -145,6 +145,9 @@ export class RbComparePage extends LitElement {
         background: repeating-linear-gradient(135deg, var(--rb-sheet) 0 14px, var(--rb-margin-bg) 14px 15px);
       }
       .whatif-bar {
+        position: sticky;
+        top: 0;
+        z-index: 3;
         display: flex;
         flex-wrap: wrap;
         gap: 0.6rem;

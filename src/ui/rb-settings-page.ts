@@ -1,13 +1,14 @@
 // Rates page: the Book's costing settings — base currency and exchange rates, the run sizes costed together, labour,
 // test, overhead and margin, attrition by part kind, and the costing date — with messages beside each field, saved
 // as the settings record in one write.
-import { LitElement, css, html } from 'lit';
+import { LitElement, css, html, nothing } from 'lit';
 import type { TemplateResult } from 'lit';
 import { customElement, state } from 'lit/decorators.js';
+import { live } from 'lit/directives/live.js';
 import type { Book, Settings } from '../domain/book.ts';
 import { PART_KINDS } from '../domain/book.ts';
 import { BookController } from './book-context.ts';
-import { field, focusFirstProblem, group } from './form-fields.ts';
+import { field, fieldId, focusFirstProblem, group } from './form-fields.ts';
 import type { FieldProblems } from './record-forms.ts';
 import { COST_SETTINGS, settingsDraft, validateSettings } from './rb-build-costing.ts';
 import type { SettingsDraft } from './rb-build-costing.ts';
@@ -31,6 +32,33 @@ export class RbSettingsPage extends LitElement {
       form.record .base {
         font-family: var(--rb-mono);
         font-size: 0.86rem;
+      }
+      .kinds {
+        grid-column: 1 / -1;
+        display: grid;
+        grid-template-columns: repeat(auto-fill, minmax(13rem, 1fr));
+        gap: 0.35rem 1.2rem;
+      }
+      .kinds p.hint {
+        grid-column: 1 / -1;
+        margin: 0;
+      }
+      .kind {
+        display: grid;
+        grid-template-columns: 6.5rem 4.5rem auto;
+        gap: 0 0.4rem;
+        align-items: baseline;
+      }
+      .kind input {
+        width: 100%;
+        text-align: right;
+      }
+      .kind .pct {
+        font-size: 0.84rem;
+        color: var(--rb-na);
+      }
+      .kind .problem {
+        grid-column: 1 / -1;
       }
       .saved {
         color: var(--rb-pass);
@@ -132,17 +160,29 @@ export class RbSettingsPage extends LitElement {
           }),
         )}
         ${group('attrition by part kind (%)')}
-        ${(['default', ...PART_KINDS] as const).map((k) =>
-          field({
-            name: `attrition:${k}`,
-            label: k === 'default' ? 'default' : k,
-            value: d.attrition[k] ?? '',
-            problem: p[`attrition:${k}`],
-            hint: k === 'default' ? 'for kinds left blank below' : '',
-            size: 'short',
-            onInput: (v) => set({ attrition: { ...this.draft!.attrition, [k]: v } }),
-          }),
-        )}
+        <div class="kinds" role="group" aria-label="Attrition by part kind">
+          <p class="hint">Extra parts bought for losses, as a percentage of the need. A kind left blank takes the default.</p>
+          ${(['default', ...PART_KINDS] as const).map((k) => {
+            const name = `attrition:${k}`;
+            const id = fieldId(name);
+            const problem = p[name];
+            return html`<div class="kind">
+              <label for=${id}>${k}</label>
+              <input
+                id=${id}
+                name=${name}
+                inputmode="decimal"
+                autocomplete="off"
+                placeholder=${k === 'default' ? '' : (d.attrition['default'] ?? '')}
+                .value=${live(d.attrition[k] ?? '')}
+                aria-invalid=${problem ? 'true' : 'false'}
+                aria-describedby=${problem ? `${id}-problem` : nothing}
+                @input=${(e: Event) => set({ attrition: { ...this.draft!.attrition, [k]: (e.target as HTMLInputElement).value } })}
+              /><span class="pct">%</span>
+              ${problem ? html`<span class="problem" id="${id}-problem" data-problem-for=${name}>${problem}</span>` : ''}
+            </div>`;
+          })}
+        </div>
         <div class="actions">
           <button type="submit" class="primary" ?disabled=${!this.dirty}>Save the settings</button>
           <button type="button" ?disabled=${!this.dirty} @click=${() => this.restart(book)}>Undo my changes</button>
