@@ -114,6 +114,15 @@ export class CostingService extends EventTarget {
     return s;
   }
 
+  /**
+   * True while the Book has changed since the figures were last brought up to date. Reading any figure catches up
+   * first (which may take a while for a large family after a structural change); a page may call `sync()` after its
+   * first paint instead and show its previous figures meanwhile.
+   */
+  get pending(): boolean {
+    return this.book !== this.books.book;
+  }
+
   /** The Book's run sizes as costed (the columns of every cost table). */
   get runSizes(): readonly number[] {
     this.sync();

@@ -13,7 +13,7 @@ import { BookController } from './book-context.ts';
 import { CostingService } from './costing-service.ts';
 import { field, focusFirstProblem, group } from './form-fields.ts';
 import './rb-grid.ts';
-import type { GridClearDetail, GridColumn, GridCommitDetail, GridPasteDetail, GridRow, RbGrid } from './rb-grid.ts';
+import type { GridCell, GridClearDetail, GridColumn, GridCommitDetail, GridPasteDetail, GridRow, RbGrid } from './rb-grid.ts';
 import { COLUMN_KINDS, duplicateVariants, editVariant, planClear, planPaste } from './rb-grid-edits.ts';
 import type { FamilyColumn, PastePlan, PasteTarget } from './rb-grid-edits.ts';
 import type { FieldProblems, VariantDraft } from './record-forms.ts';
@@ -101,7 +101,9 @@ export class RbFamilyPage extends LitElement {
   /** Saves from this page run one after another, each from the Book as the one before left it. */
   private writes: Promise<unknown> = Promise.resolve();
   /** Rows drawn last time, by variant id, reused while their text is unchanged so the grid skips them. */
-  private rowCache = new Map<string, { sig: string; row: GridRow }>();
+  private rowCache = new Map<string, { params: GridCell[]; figures: GridCell[]; figSig: string; row: GridRow }>();
+  private paramCache = new Map<string, { variant: Variant; colSig: string; cells: GridCell[] }>();
+  private syncQueued = false;
   private columnCache: { sig: string; grid: GridColumn[]; family: FamilyColumn[] } | undefined;
   private order: Variant[] = [];
 
@@ -129,7 +131,7 @@ export class RbFamilyPage extends LitElement {
 
   // ---- the grid
 
-  private columns(book: Book, runs: readonly number[], currency: string, used: string[]): { grid: GridColumn[]; family: FamilyColumn[] } {
+  private columns(book: Book, runs: readonly number[], currency: string, used: string[]): { sig: string; grid: GridColumn[]; family: FamilyColumn[] } {
     const sig = `${used.join(',')}|${runs.join(',')}|${currency}`;
     if (this.columnCache?.sig === sig) return this.columnCache;
     const grid: GridColumn[] = [
@@ -159,13 +161,11 @@ export class RbFamilyPage extends LitElement {
     return this.columnCache;
   }
 
-  private rowFor(v: Variant, used: string[], costing: CostingService, runs: readonly number[], money: (n: number) => string): GridRow {
-    const status = costing.worstStatus(v.id);
-    const notPassing = costing
-      .checkResults(v.id)
-      .filter((r) => r.status !== 'pass' && r.status !== 'n/a')
-      .map((r) => `${r.status}: ${r.checkName}`);
-    const cells: GridRow['cells'][number][] = [
+  /** A variant's code, name and parameter cells; kept while the variant record and the columns are the same. */
+  private paramCells(v: Variant, used: string[], colSig: string): GridCell[] {
+    const cached = this.paramCache.get(v.id);
+    if (cached && cached.variant === v && cached.colSig === colSig) return cached.cells;
+    const cells: GridCell[] = [
       { text: v.code },
       { text: v.name, copy: guardText(v.name) },
     ];
@@ -174,21 +174,46 @@ export class RbFamilyPage extends LitElement {
       const edit = paramText(n, p);
       cells.push({ text: shown(n, p), edit, copy: typeof p === 'string' ? guardText(p) : edit });
     }
-    cells.push({
-      text: `${STATUS_SYMBOL[status]} ${status}`,
-      tone: status === 'n/a' ? 'na' : status,
-      title: costing.checksProblem ?? (notPassing.length ? notPassing.join('\n') : status === 'pass' ? 'every check that applies passes' : 'no check applies'),
-    });
+    this.paramCache.set(v.id, { variant: v, colSig, cells });
+    return cells;
+  }
+
+  /** The worked-out cells: worst check status and unit cost at each run size. */
+  private figureCells(v: Variant, costing: CostingService, runs: readonly number[], money: (n: number) => string): GridCell[] {
+    const status = costing.worstStatus(v.id);
+    const notPassing = costing
+      .checkResults(v.id)
+      .filter((r) => r.status !== 'pass' && r.status !== 'n/a')
+      .map((r) => `${r.status}: ${r.checkName}`);
+    const cells: GridCell[] = [
+      {
+        text: `${STATUS_SYMBOL[status]} ${status}`,
+        tone: status === 'n/a' ? 'na' : status,
+        title: costing.checksProblem ?? (notPassing.length ? notPassing.join('\n') : status === 'pass' ? 'every check that applies passes' : 'no check applies'),
+      },
+    ];
     for (const run of runs) {
       const u = costing.unitCost(v.id, run);
       if (Number.isFinite(u)) cells.push({ text: money(u), copy: String(u) });
       else cells.push({ text: '—', copy: '', tone: 'problem', title: costing.costProblem(v.id, run) ?? 'cannot be computed' });
     }
-    const sig = cells.map((c) => `${c.text}\u0001${c.edit ?? ''}\u0001${c.title ?? ''}`).join('\u0002');
+    return cells;
+  }
+
+  /**
+   * One grid row. While the costing service is catching up (`pending`) the figures drawn last time stay, marked as
+   * being worked out; a row whose cells are all unchanged is the same object, so the grid does not draw it again.
+   */
+  private rowFor(v: Variant, params: GridCell[], figures: GridCell[] | undefined, runs: readonly number[]): GridRow {
     const cached = this.rowCache.get(v.id);
-    if (cached && cached.sig === sig) return cached.row;
-    const row: GridRow = { id: v.id, cells };
-    this.rowCache.set(v.id, { sig, row });
+    const figs =
+      figures ??
+      cached?.figures ??
+      [{ text: '…', tone: 'na', title: 'being worked out' }, ...runs.map((): GridCell => ({ text: '…', copy: '', tone: 'na', title: 'being worked out' }))];
+    const figSig = figs.map((c) => `${c.text}\u0001${c.title ?? ''}`).join('\u0002');
+    if (cached && cached.params === params && cached.figSig === figSig) return cached.row;
+    const row: GridRow = { id: v.id, cells: [...params, ...figs] };
+    this.rowCache.set(v.id, { params, figures: figs, figSig, row });
     return row;
   }
 
@@ -196,16 +221,24 @@ export class RbFamilyPage extends LitElement {
     const service = this.books.service;
     if (!service) return html``;
     const costing = CostingService.for(service);
+    // Draw first, work out afterwards: a large family's workbooks take a moment to build after a structural change.
+    const pending = costing.pending;
+    if (pending) this.queueSync(costing);
     const variants = [...book.variants].sort((a, b) => a.code.localeCompare(b.code));
     this.order = variants;
     const used = paramNames(book).filter((n) => variants.some((v) => v.params[n] !== undefined));
-    const runs = costing.runSizes;
-    const currency = costing.currency;
-    const { grid } = this.columns(book, runs, currency, used);
+    const runs = book.settings.runSizes;
+    const currency = book.settings.baseCurrency;
+    const { grid, sig: colSig } = this.columns(book, runs, currency, used);
     const money = moneyFormat(currency);
-    const rows = variants.map((v) => this.rowFor(v, used, costing, runs, money));
-    if (this.rowCache.size > variants.length * 2) this.rowCache = new Map([...this.rowCache].filter(([id]) => variants.some((v) => v.id === id)));
-    const costProblem = costing.problem;
+    const rows = variants.map((v) => this.rowFor(v, this.paramCells(v, used, colSig), pending ? undefined : this.figureCells(v, costing, runs, money), runs));
+    if (this.rowCache.size > variants.length * 2) {
+      const ids = new Set(variants.map((v) => v.id));
+      this.rowCache = new Map([...this.rowCache].filter(([id]) => ids.has(id)));
+      this.paramCache = new Map([...this.paramCache].filter(([id]) => ids.has(id)));
+    }
+    const costProblem = pending ? undefined : costing.problem;
+    const checksProblem = pending ? undefined : costing.checksProblem;
     const undoStep = this.history.peek(DIRECTIONS.undo);
     const redoStep = this.history.peek(DIRECTIONS.redo);
     return html`<section class="sheet" aria-labelledby="family-h">
@@ -253,7 +286,7 @@ export class RbFamilyPage extends LitElement {
             ${this.notice.text}
           </p>`
         : ''}
-      ${costing.checksProblem ? html`<p class="note problem" role="alert">Checks: ${costing.checksProblem}.</p>` : ''}
+      ${checksProblem ? html`<p class="note problem" role="alert">Checks: ${checksProblem}.</p>` : ''}
       ${costProblem ? html`<p class="note problem" role="alert">Unit costs cannot be worked out: ${costProblem}.</p>` : ''}
       <rb-grid
         testid="family-table"
@@ -266,6 +299,16 @@ export class RbFamilyPage extends LitElement {
         @rb-grid-clear=${this._onClear}
       ></rb-grid>
     </section>`;
+  }
+
+  private queueSync(costing: CostingService): void {
+    if (this.syncQueued) return;
+    this.syncQueued = true;
+    setTimeout(() => {
+      this.syncQueued = false;
+      costing.sync();
+      this.requestUpdate();
+    }, 0);
   }
 
   private renderConfirm(list: Variant[]) {
