@@ -226,6 +226,35 @@ describe('Family grid', () => {
     expect(errors).toEqual([]);
   });
 
+  it('adds a variant typed on the new-row line, duplicates one, deletes after asking, and undoes the delete', async () => {
+    const { page, errors } = await open('#/family');
+    await page.locator(`${grid} tbody tr`).first().waitFor();
+    const count = demo.variants.length;
+    await page.locator(`${grid} tfoot [data-c="0"]`).click();
+    await page.keyboard.type('NEW-1');
+    await page.keyboard.press('Enter');
+    await expect.poll(() => rowIndex(page, 'NEW-1')).toBeGreaterThanOrEqual(0);
+    await expect(cellText(page, 'NEW-1', 'name')).resolves.toBe('NEW-1');
+
+    const src = [...demo.variants].sort((a, b) => a.code.localeCompare(b.code))[0]!;
+    await cell(page, await rowIndex(page, src.code), 1).click();
+    await page.getByRole('button', { name: 'Duplicate' }).click();
+    await expect.poll(() => rowIndex(page, `${src.code}-copy`)).toBeGreaterThanOrEqual(0);
+    await expect(cellText(page, `${src.code}-copy`, 'name')).resolves.toBe(`${src.name} (copy)`);
+    await expect(cellText(page, `${src.code}-copy`, 'load_w')).resolves.toBe(`${src.params.load_w} W`);
+    expect(await page.locator(`${grid} tbody tr`).count()).toBe(count + 2);
+
+    await cell(page, await rowIndex(page, `${src.code}-copy`), 0).click();
+    await page.getByRole('button', { name: 'Delete…' }).click();
+    await page.getByRole('alertdialog', { name: 'Confirm delete' }).getByRole('button', { name: 'Delete' }).click();
+    await expect.poll(() => rowIndex(page, `${src.code}-copy`)).toBe(-1);
+    await page.locator('[data-testid="undo"]').click();
+    await expect.poll(() => rowIndex(page, `${src.code}-copy`)).toBeGreaterThanOrEqual(0);
+    await expect(cellText(page, `${src.code}-copy`, 'load_w')).resolves.toBe(`${src.params.load_w} W`);
+    await saved(page);
+    expect(errors).toEqual([]);
+  });
+
   it('copies a selected block as tab-separated text', async () => {
     const { page, errors } = await open('#/family');
     await page.locator(`${grid} tbody tr`).first().waitFor();
@@ -239,6 +268,9 @@ describe('Family grid', () => {
       return data.getData('text/plain');
     });
     expect(copied).toBe(formatTsv(sorted.slice(0, 2).map((v) => [v.code, v.name])));
+    // The keyboard path: Ctrl+C makes the browser send the same copy event to the focused grid.
+    await page.keyboard.press('Control+C');
+    await expect(clean(await page.locator('rb-grid .message').textContent())).toBe('Copied 2 × 2 cells as tab-separated text.');
     expect(errors).toEqual([]);
   });
 });
