@@ -283,11 +283,11 @@ export class CostingService extends EventTarget {
 
     let familyTouched = familyRebuild;
     let costingRebuild = structural || variants.added.length > 0 || variants.removed.length > 0;
+    const oldKeys = this.lineKeys;
     if (familyRebuild) {
       this.openFamily(next);
     } else if (variants.changed.length > 0) {
       familyTouched = true;
-      const oldKeys = this.lineKeys;
       if (!this.editParams(variants.changed)) {
         this.openFamily(next);
         costingRebuild = true;
@@ -299,8 +299,9 @@ export class CostingService extends EventTarget {
       if (variants.changed.some(([a, b]) => a.code !== b.code)) costingRebuild = true;
     }
     if (familyRebuild && !costingRebuild) {
-      // New checks alone do not change what a variant is built from; anything else might.
-      for (const v of next.variants) if (!this.lineKeys.has(v.id)) costingRebuild = true;
+      // New checks alone do not change what a variant is built from, but parameters saved with them may.
+      for (const v of next.variants) if (oldKeys.get(v.id) !== this.lineKeys.get(v.id)) costingRebuild = true;
+      if (variants.changed.some(([a, b]) => a.code !== b.code)) costingRebuild = true;
     }
 
     const edits: (() => Result<ChangedCost[]>)[] = [];

@@ -113,6 +113,16 @@ describe('CostingService', () => {
     expect(live(costing, holder.book)).toEqual(fresh(holder.book));
   });
 
+  it('builds costs again when a check and a parameter that changes the lines are saved together', () => {
+    const { holder, costing } = start();
+    costing.sync();
+    const v = holder.book.variants.find((x) => x.code === 'FR3-40-CD')!;
+    const check = holder.book.checks[0]!;
+    holder.change({ put: { checks: [{ ...check, note: `${check.note} (edited)` }], variants: [{ ...v, params: { ...v.params, steps: 4, r_s4: 47000 } }] } });
+    expect(costing.sync().kind).toBe('rebuilt');
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+  });
+
   it('rebuilds when variants are added or deleted', () => {
     const { holder, costing } = start();
     costing.sync();
