@@ -2,18 +2,23 @@
 // build rules can say `load_w` or `switch_v_max` and mean "this variant's". Resolves build lines and evaluates checks.
 //
 // Layout (DESIGN.md measured it well ahead of sheet-scoped named expressions): columns are, in order, every variant
-// parameter, the build-rule cells, every role name (`<role>_<rating>`, `<role>_value`), every check value (so checks
-// may read each other by name), then each check's applies and limit cells. Rules are written with relative
-// references so the engine parses each rule once for all rows. A name a variant lacks holds =NA(); when a result is
-// an error and its formula used such a name, the result says "unknown name x" instead of the engine's error.
-import type { HyperFormula, CellValue } from 'hyperformula';
+// parameter, the build-rule cells, the role names (`<role>_<rating>`, `<role>_value`) some check reads, every check
+// value (so checks may read each other by name), then the checks' applies and limit cells. Speed comes from doing
+// less per cell: a rule that is a plain number is kept as that number and one that is a single name reads that
+// name's column, so neither gets a cell; identical rules share one column; a missing name is the error value #N/A,
+// not a formula; each row's formulas differ only in their row, which the engine parses once for all rows; the table
+// is built in one call and the checks are added in one more; results are kept per row and an edit recomputes only
+// its row's. A name a variant lacks reads as #N/A; when a result is an error and its formula used such a name, the
+// result says "unknown name x" instead of the engine's error.
+import { HyperFormula } from 'hyperformula';
+import type { CellValue, RawCellContent } from 'hyperformula';
 import type { Book, BuildLine, Check, CheckRule, ParamValue, Part, Variant } from '../domain/book.ts';
 import { mpnKey } from '../domain/book.ts';
 import { PART_RATINGS } from '../domain/params.ts';
 import { CHECK_STATUS, judge } from '../domain/check-status.ts';
 import type { CheckStatus, CheckValue, RuleLimits } from '../domain/check-status.ts';
-import { createEngine } from './create.ts';
-import { constantNumber, formulaNames, nameKey, rewriteFormula, tokenizeFormula, formulaBody } from './formula-names.ts';
+import { ENGINE_DEFAULTS, registerRungbookFunctions } from './create.ts';
+import { TOKEN_KIND, constantNumber, formulaNames, nameKey, rewriteFormula, soleName, tokenizeFormula, formulaBody } from './formula-names.ts';
 
 /** One build line as it stands for one variant. `partId` is null where no part could be chosen. */
 export interface ResolvedLine {
@@ -65,8 +70,10 @@ export interface CheckResult {
 
 export type EditResult = { ok: true } | { ok: false; error: string };
 
-const MISSING = '=NA()';
+/** A name this variant lacks: the error value itself, so the engine parses no formula for it. */
+const MISSING = '#N/A';
 const ROW_MARK = '\u0001';
+const SHEET = 'family';
 
 function colLetters(col: number): string {
   let s = '';
@@ -79,11 +86,22 @@ function colLetters(col: number): string {
   return s;
 }
 
-/** A compiled formula: its column, its text with the row left open, and the names it reads. */
+/**
+ * Where a compiled rule or check part is read for a row: a column (its own formula, a shared one, or the column of
+ * the one name it is), or a constant that needs no cell. `names` are the names the formula reads.
+ */
 interface FormulaCell {
   col: number;
-  text: string;
   names: string[];
+  constant?: number;
+  /** A check value's own formula, cut at the row number. */
+  pieces?: string[];
+}
+
+/** A formula column: its text cut at the row number, so each row's copy is a join. */
+interface FormulaColumn {
+  col: number;
+  pieces: string[];
 }
 
 type Compiled = { ok: true; text: string; names: string[] } | { ok: false; error: string };
@@ -109,7 +127,7 @@ interface CheckCells {
   problem?: string;
 }
 
-type Row = (number | string | null)[];
+type Row = RawCellContent[];
 
 function fmtNumber(n: number): string {
   return Number.isInteger(n) ? String(n) : Number(n.toPrecision(4)).toString();
@@ -135,8 +153,43 @@ function paramCell(v: ParamValue): number | string {
   return typeof v === 'number' ? v : `'${v}`;
 }
 
-function atRow(text: string, r: number): string {
-  return text.split(ROW_MARK).join(String(r + 1));
+function atRow(pieces: readonly string[], r: number): string {
+  return pieces.join(String(r + 1));
+}
+
+/**
+ * Writes number literals the way the engine prints them (0.47e-6 → 4.7e-7, 1.5e3 → 1500): the engine finds a copied
+ * formula by its printed form, so a formula written this way can be copied down (see fillDown).
+ */
+function canonicalNumbers(formula: string): string {
+  const t = tokenizeFormula(formula);
+  if (!t.ok) return formula;
+  return t.tokens
+    .map((tok) => {
+      if (tok.kind !== TOKEN_KIND.number) return tok.text;
+      const n = Number(tok.text);
+      return Number.isFinite(n) ? String(n) : tok.text;
+    })
+    .join('');
+}
+
+const LIMIT_PARTS = ['limit', 'low', 'high'] as const;
+
+function checkResult(
+  v: Variant,
+  check: Check,
+  value: CheckValue,
+  status: CheckStatus,
+  message: string,
+  limits: RuleLimits = {},
+  limit = '',
+): CheckResult {
+  return { variantId: v.id, variantCode: v.code, checkId: check.id, checkName: check.name, unit: check.unit, limits, limit, value, status, message };
+}
+
+/** What a check's value column holds in row r. */
+function valueContent(fc: FormulaCell, r: number): RawCellContent {
+  return fc.constant ?? atRow(fc.pieces!, r);
 }
 
 function sortedLines(book: Book): BuildLine[] {
@@ -169,8 +222,11 @@ export class FamilyWorkbook {
   /** Name key → column, for parameters, role names and check names. */
   private cols = new Map<string, number>();
   private paramKeys = new Set<string>();
+  /** Role names that have a column: those some check reads (the others only feed the resolution). */
   private roleKeys: string[] = [];
   private roleKeySet = new Set<string>();
+  /** Every `<role>_<rating>` the Book's lines and parts could give, with or without a column. */
+  private possibleRoleKeys = new Set<string>();
   private roleStart = 0;
   private width = 0;
   private lineCells: LineCells[] = [];
@@ -179,6 +235,8 @@ export class FamilyWorkbook {
   private partsByKey = new Map<string, Part>();
   private partsById = new Map<string, Part>();
   private resolution: VariantResolution[] = [];
+  /** Each row's check results as last read; undefined where an edit may have changed them. */
+  private rowResults: (CheckResult[] | undefined)[] = [];
 
   private constructor(book: Book, checks: Check[]) {
     this.book = book;
@@ -214,14 +272,44 @@ export class FamilyWorkbook {
     // explains the name (see missingNames).
     const r = rewriteFormula(formula, lookup, 'NA()');
     if (!r.ok) return { ok: false, error: r.error };
-    return { ok: true, text: r.formula, names: names.names };
+    return { ok: true, text: canonicalNumbers(r.formula), names: names.names };
+  }
+
+  private ref(key: string): string | undefined {
+    const col = this.cols.get(key);
+    return col === undefined ? undefined : `${colLetters(col)}${ROW_MARK}`;
+  }
+
+  /**
+   * Places a rule or check part: a plain number stays a constant, a single known name reads its own column, and
+   * any other formula gets a column — the same column as an identical formula placed before (`shared`).
+   */
+  private place(
+    formula: string,
+    lookup: (key: string) => string | undefined,
+    shared: Map<string, number>,
+    out: FormulaColumn[],
+    nextCol: () => number,
+  ): { ok: true; cell: FormulaCell } | { ok: false; error: string } {
+    const constant = constantNumber(formula);
+    if (constant !== undefined) return { ok: true, cell: { col: -1, names: [], constant } };
+    const c = this.compile(formula, lookup);
+    if (!c.ok) return c;
+    const name = soleName(formula);
+    if (name !== undefined && lookup(name) !== undefined) return { ok: true, cell: { col: this.cols.get(name)!, names: c.names } };
+    let col = shared.get(c.text);
+    if (col === undefined) {
+      col = nextCol();
+      shared.set(c.text, col);
+      out.push({ col, pieces: c.text.split(ROW_MARK) });
+    }
+    return { ok: true, cell: { col, names: c.names } };
   }
 
   private build(): void {
     this.hf?.destroy();
-    const hf = createEngine();
-    this.hf = hf;
-    this.sheet = hf.getSheetId(hf.addSheet('family'))!;
+    this.hf = null;
+    this.rowResults = [];
     this.cols = new Map();
     this.paramKeys = new Set();
     this.partsByKey = new Map();
@@ -231,6 +319,7 @@ export class FamilyWorkbook {
       this.partsByKey.set(mpnKey(p.mpn), p);
     }
     let next = 0;
+    const nextCol = (): number => next++;
     for (const v of this.book.variants) {
       for (const name of Object.keys(v.params)) {
         const key = nameKey(name);
@@ -239,23 +328,23 @@ export class FamilyWorkbook {
         this.paramKeys.add(key);
       }
     }
-    const ref = (key: string): string | undefined => {
-      const col = this.cols.get(key);
-      return col === undefined ? undefined : `${colLetters(col)}${ROW_MARK}`;
-    };
+    const ref = (key: string): string | undefined => this.ref(key);
+    /** Compiled text → column, shared by every rule and check part with the same text. */
+    const shared = new Map<string, number>();
 
     // Build rules read parameters only: role and check names depend on the lines themselves.
     const paramRef = (key: string): string | undefined => (this.paramKeys.has(key) ? ref(key) : undefined);
+    const ruleColumns: FormulaColumn[] = [];
     const lines = sortedLines(this.book);
     this.lineCells = lines.map((line) => {
       const lc: LineCells = { line, problems: [] };
       const cell = (what: string, formula: string): FormulaCell | undefined => {
-        const c = this.compile(formula, paramRef);
+        const c = this.place(formula, paramRef, shared, ruleColumns, nextCol);
         if (!c.ok) {
           lc.problems.push(`${what}: ${c.error}`);
           return undefined;
         }
-        return { col: next++, text: c.text, names: c.names };
+        return c.cell;
       };
       if (line.appliesWhen.trim() !== '') lc.applies = cell('applies-when rule', line.appliesWhen);
       const q = constantNumber(line.qtyRule);
@@ -270,15 +359,29 @@ export class FamilyWorkbook {
     for (const p of this.book.parts) for (const k of Object.keys(p.ratings)) ratingNames.add(nameKey(k));
     ratingNames.add('value');
     const roles = [...new Set(lines.map((l) => (l.role ? nameKey(l.role) : '')).filter((r) => r !== ''))];
-    this.roleStart = next;
-    this.roleKeys = [];
+    this.possibleRoleKeys = new Set();
     for (const role of roles) {
       for (const rating of ratingNames) {
         const key = `${role}_${rating}`;
-        if (this.cols.has(key)) continue;
-        this.cols.set(key, next++);
-        this.roleKeys.push(key);
+        if (!this.paramKeys.has(key)) this.possibleRoleKeys.add(key);
       }
+    }
+    // A role name gets a column only when some check reads it; the rest are many (every rating of every role) and
+    // would only hold #N/A or a number nobody reads.
+    const read = new Set<string>();
+    for (const check of this.checks) {
+      for (const f of [check.formula, check.appliesWhen, check.rule.limit, check.rule.low, check.rule.high]) {
+        if (f === undefined) continue;
+        const n = formulaNames(f);
+        if (n.ok) for (const key of n.names) read.add(key);
+      }
+    }
+    this.roleStart = next;
+    this.roleKeys = [];
+    for (const key of this.possibleRoleKeys) {
+      if (!read.has(key)) continue;
+      this.cols.set(key, next++);
+      this.roleKeys.push(key);
     }
     this.roleKeySet = new Set(this.roleKeys);
     this.checkByName = new Map();
@@ -287,7 +390,7 @@ export class FamilyWorkbook {
       const key = nameKey(check.name);
       if (!/^[a-z_][a-z0-9_]*$/.test(key)) cc.problem = `check name "${check.name}" must be letters, digits and _`;
       else if (this.paramKeys.has(key)) cc.problem = `check name ${check.name} is also a variant parameter; rename the check`;
-      else if (this.cols.has(key)) cc.problem = `check name ${check.name} is used twice or is a part rating name`;
+      else if (this.cols.has(key) || this.possibleRoleKeys.has(key)) cc.problem = `check name ${check.name} is used twice or is a part rating name`;
       else {
         cc.col = next++;
         this.cols.set(key, cc.col);
@@ -297,10 +400,11 @@ export class FamilyWorkbook {
     });
     for (const cc of this.checkCells) {
       if (cc.problem !== undefined || cc.col === undefined) continue;
-      const c = this.compile(cc.check.formula, ref);
-      if (!c.ok) cc.problem = c.error;
-      else cc.cells.value = { col: cc.col, text: c.text, names: c.names };
+      const v = this.valueCell(cc.check.formula, cc.col);
+      if (!v.ok) cc.problem = v.error;
+      else cc.cells.value = v.cell;
     }
+    const checkColumns: FormulaColumn[] = [];
     for (const cc of this.checkCells) {
       if (cc.problem !== undefined) continue;
       const parts: [CheckPart, string | undefined][] = [
@@ -311,43 +415,111 @@ export class FamilyWorkbook {
       ];
       for (const [part, formula] of parts) {
         if (formula === undefined) continue;
-        const c = this.compile(formula, ref);
+        const c = this.place(formula, ref, shared, checkColumns, nextCol);
         if (!c.ok) {
           cc.problem = `${part === 'applies' ? 'applies' : 'rule'}: ${c.error}`;
           break;
         }
-        cc.cells[part] = { col: next++, text: c.text, names: c.names };
+        cc.cells[part] = c.cell;
       }
     }
     this.width = next;
 
-    // First pass: parameters and build rules, so each variant's parts are known before the checks read them.
+    // First pass: parameters and build rules, so each variant's parts are known before the checks read them. Only
+    // the first row's rules are written as text; fillDown copies them to the other rows.
+    const paramEnd = this.paramKeys.size;
     const rows: Row[] = this.book.variants.map((v, r) => {
-      const row: Row = new Array<number | string | null>(this.roleStart).fill(null);
+      const row: Row = new Array<RawCellContent>(this.roleStart).fill(null);
       this.writeParams(row, v);
-      for (const lc of this.lineCells) {
-        for (const fc of [lc.applies, lc.qty, lc.part]) if (fc) row[fc.col] = atRow(fc.text, r);
-      }
+      if (r === 0) for (const fc of ruleColumns) row[fc.col] = atRow(fc.pieces, 0);
       return row;
     });
-    if (rows.length > 0) hf.setSheetContent(this.sheet, rows);
+    registerRungbookFunctions();
+    const hf = HyperFormula.buildFromSheets({ [SHEET]: rows }, ENGINE_DEFAULTS);
+    this.hf = hf;
+    this.sheet = hf.getSheetId(SHEET)!;
+    this.fillDown(ruleColumns, paramEnd, this.roleStart);
     this.resolution = this.book.variants.map((v, r) => this.resolveRow(v, r));
 
-    // Second pass: role values from the resolved parts, then the checks that read them, in one recalculation.
+    // Second pass: role values from the resolved parts, and the first row's checks, in one call; then the checks
+    // are copied down.
     if (rows.length === 0 || this.width === this.roleStart) return;
-    hf.batch(() => {
-      this.book.variants.forEach((_, r) => {
-        const row: Row = new Array<number | string | null>(this.width - this.roleStart).fill(null);
-        this.roleKeys.forEach((key, i) => {
-          const val = this.resolution[r]!.roleNames[key];
-          row[i] = val === undefined ? MISSING : val;
-        });
-        for (const cc of this.checkCells) {
-          for (const fc of Object.values(cc.cells)) row[fc.col - this.roleStart] = atRow(fc.text, r);
-        }
-        hf.setCellContents({ sheet: this.sheet, row: r, col: this.roleStart }, [row]);
+    const checkStart = this.roleStart + this.roleKeys.length;
+    const block: Row[] = this.book.variants.map((_, r) => {
+      const row: Row = new Array<RawCellContent>((r === 0 ? this.width : checkStart) - this.roleStart).fill(null);
+      const roleNames = this.resolution[r]!.roleNames;
+      this.roleKeys.forEach((key, i) => {
+        const val = roleNames[key];
+        row[i] = val === undefined ? MISSING : val;
       });
+      if (r > 0) return row;
+      for (const cc of this.checkCells) {
+        const fc = cc.cells.value;
+        if (fc) row[fc.col - this.roleStart] = valueContent(fc, 0);
+      }
+      for (const fc of checkColumns) row[fc.col - this.roleStart] = atRow(fc.pieces, 0);
+      return row;
     });
+    hf.setCellContents({ sheet: this.sheet, row: 0, col: this.roleStart }, block);
+    const valueColumns = this.checkCells.flatMap((cc) => (cc.cells.value?.pieces ? [{ col: cc.cells.value.col, pieces: cc.cells.value.pieces }] : []));
+    this.fillDown([...valueColumns, ...checkColumns], checkStart, this.width);
+  }
+
+  /**
+   * Gives every other row the first row's cells in columns [from, to); `formulas` are the formula columns among
+   * them. Every formula reads its own row only, so a copy one row down is that row's formula: copying lets the
+   * engine reuse the first row's parsed form instead of reading 200 or 2,000 copies of the same text. The engine
+   * finds a copied formula again by its printed form, so a column whose formula prints differently from the text
+   * written (spacing it drops) is written as text on every row instead.
+   */
+  private fillDown(formulas: readonly FormulaColumn[], from: number, to: number): void {
+    const rows = this.book.variants.length;
+    if (to <= from || rows < 2) return;
+    const hf = this.engine();
+    const byText: FormulaColumn[] = formulas.filter(
+      (fc) => (globalThis as unknown as { NOPASTE?: boolean }).NOPASTE || (fc.col >= from && fc.col < to && hf.getCellFormula({ sheet: this.sheet, row: 0, col: fc.col }) !== atRow(fc.pieces, 0)),
+    );
+    const skip = new Set(byText.map((fc) => fc.col));
+    try {
+      for (let start = from; start < to; ) {
+        if (skip.has(start)) {
+          start++;
+          continue;
+        }
+        let end = start;
+        while (end < to && !skip.has(end)) end++;
+        for (let filled = 1; filled < rows; ) {
+          const n = Math.min(filled, rows - filled);
+          hf.copy({ start: { sheet: this.sheet, row: 0, col: start }, end: { sheet: this.sheet, row: n - 1, col: end - 1 } });
+          hf.paste({ sheet: this.sheet, row: filled, col: start });
+          filled += n;
+        }
+        start = end;
+      }
+    } catch {
+      // The engine could not reuse a parsed formula after all: write every row's text.
+      byText.splice(0, byText.length, ...formulas.filter((fc) => fc.col >= from && fc.col < to));
+    }
+    hf.clearClipboard();
+    // Nothing here is undone through the engine; its undo stack would only hold the pasted blocks.
+    hf.clearUndoStack();
+    if (byText.length === 0) return;
+    hf.batch(() => {
+      for (const fc of byText) {
+        const column: Row[] = [];
+        for (let r = 1; r < rows; r++) column.push([atRow(fc.pieces, r)]);
+        hf.setCellContents({ sheet: this.sheet, row: 1, col: fc.col }, column);
+      }
+    });
+  }
+
+  /** A check's value cell: its own column (other checks read it by name), holding the number or the formula. */
+  private valueCell(formula: string, col: number): { ok: true; cell: FormulaCell } | { ok: false; error: string } {
+    const constant = constantNumber(formula);
+    if (constant !== undefined) return { ok: true, cell: { col, names: [], constant } };
+    const c = this.compile(formula, (key) => this.ref(key));
+    if (!c.ok) return c;
+    return { ok: true, cell: { col, names: c.names, pieces: c.text.split(ROW_MARK) } };
   }
 
   private writeParams(row: Row, v: Variant): void {
@@ -396,6 +568,7 @@ export class FamilyWorkbook {
 
   /** Reads a formula cell as a check value, or the error explaining why there is none. */
   private read(row: number, fc: FormulaCell): { ok: true; value: CheckValue } | { ok: false; error: string } {
+    if (fc.constant !== undefined) return { ok: true, value: fc.constant };
     const v = this.value(row, fc.col);
     if (isEngineError(v)) {
       const missing = this.missingNames(row, fc.names);
@@ -504,49 +677,42 @@ export class FamilyWorkbook {
   results(): CheckResult[] {
     const out: CheckResult[] = [];
     this.book.variants.forEach((v, r) => {
-      for (const cc of this.checkCells) out.push(this.resultFor(v, r, cc));
+      let row = this.rowResults[r];
+      if (!row) {
+        row = this.checkCells.map((cc) => this.resultFor(v, r, cc));
+        this.rowResults[r] = row;
+      }
+      for (const result of row) out.push(result);
     });
     return out;
   }
 
   private resultFor(v: Variant, r: number, cc: CheckCells): CheckResult {
+    // No closures or spreads here: this runs for every variant and check when a large family opens.
     const check = cc.check;
-    const base = {
-      variantId: v.id,
-      variantCode: v.code,
-      checkId: check.id,
-      checkName: check.name,
-      unit: check.unit,
-      limits: {},
-      limit: '',
-    };
-    const error = (message: string, value: CheckValue = null): CheckResult => ({
-      ...base,
-      value,
-      status: CHECK_STATUS.error,
-      message,
-    });
-    if (cc.problem !== undefined) return error(cc.problem);
+    if (cc.problem !== undefined) return checkResult(v, check, null, CHECK_STATUS.error, cc.problem);
     if (cc.cells.applies) {
       const a = this.read(r, cc.cells.applies);
-      if (!a.ok) return error(`applies: ${a.error}`);
+      if (!a.ok) return checkResult(v, check, null, CHECK_STATUS.error, `applies: ${a.error}`);
       const applies = typeof a.value === 'boolean' ? a.value : typeof a.value === 'number' ? a.value !== 0 : null;
-      if (applies === null) return error(`applies gave ${a.value === null ? 'nothing' : `text "${a.value}"`}, not TRUE or FALSE`);
-      if (!applies) return { ...base, value: null, status: CHECK_STATUS.na, message: 'does not apply to this variant' };
+      if (applies === null) {
+        return checkResult(v, check, null, CHECK_STATUS.error, `applies gave ${a.value === null ? 'nothing' : `text "${a.value}"`}, not TRUE or FALSE`);
+      }
+      if (!applies) return checkResult(v, check, null, CHECK_STATUS.na, 'does not apply to this variant');
     }
     const val = this.read(r, cc.cells.value!);
-    if (!val.ok) return error(val.error);
+    if (!val.ok) return checkResult(v, check, null, CHECK_STATUS.error, val.error);
     const limits: RuleLimits = {};
-    for (const part of ['limit', 'low', 'high'] as const) {
+    for (const part of LIMIT_PARTS) {
       const fc = cc.cells[part];
       if (!fc) continue;
       const l = this.read(r, fc);
-      if (!l.ok) return error(`rule ${part}: ${l.error}`, val.value);
-      if (typeof l.value !== 'number') return error(`rule ${part} gave ${String(l.value)}, not a number`, val.value);
+      if (!l.ok) return checkResult(v, check, val.value, CHECK_STATUS.error, `rule ${part}: ${l.error}`);
+      if (typeof l.value !== 'number') return checkResult(v, check, val.value, CHECK_STATUS.error, `rule ${part} gave ${String(l.value)}, not a number`);
       limits[part] = l.value;
     }
     const j = judge(val.value, check.rule, limits);
-    return { ...base, value: val.value, limits, limit: limitText(check.rule, limits), status: j.status, message: j.message };
+    return checkResult(v, check, val.value, j.status, j.message, limits, limitText(check.rule, limits));
   }
 
   /**
@@ -560,7 +726,7 @@ export class FamilyWorkbook {
     if (!/^[a-z_][a-z0-9_]*$/.test(key)) return { ok: false, error: `parameter name "${name}" must be letters, digits and _, starting with a letter` };
     if (typeof value === 'number' && !Number.isFinite(value)) return { ok: false, error: `value of ${name} must be a finite number` };
     if (typeof value !== 'number' && typeof value !== 'string') return { ok: false, error: `value of ${name} must be a number or text` };
-    if (!this.paramKeys.has(key) && this.cols.has(key)) {
+    if (!this.paramKeys.has(key) && (this.cols.has(key) || this.possibleRoleKeys.has(key))) {
       return { ok: false, error: `${name} is already the name of a check or a part rating; choose another parameter name` };
     }
     const old = this.book.variants[row]!;
@@ -581,10 +747,10 @@ export class FamilyWorkbook {
       return { ok: true };
     }
     const hf = this.engine();
-    hf.batch(() => {
-      hf.setCellContents({ sheet: this.sheet, row, col: this.cols.get(key)! }, [[paramCell(value)]]);
-    });
+    hf.setCellContents({ sheet: this.sheet, row, col: this.cols.get(key)! }, [[paramCell(value)]]);
     this.refreshRoles(row);
+    // Every formula reads its own row only, so no other variant's results can have changed.
+    this.rowResults[row] = undefined;
     return { ok: true };
   }
 
@@ -619,23 +785,24 @@ export class FamilyWorkbook {
     const updated: Check = { ...this.checks[i]!, formula: body };
     this.checks = this.checks.map((c, j) => (j === i ? updated : c));
     const cc = this.checkCells[i]!;
-    const c = this.compile(body, (key) => {
-      const col = this.cols.get(key);
-      return col === undefined ? undefined : `${colLetters(col)}${ROW_MARK}`;
-    });
-    if (cc.problem !== undefined || cc.col === undefined || !c.ok) {
+    const c = cc.col === undefined ? undefined : this.valueCell(body, cc.col);
+    const names = formulaNames(body);
+    // A role name no check read before has no column yet.
+    const newRole = names.ok && names.names.some((k) => this.possibleRoleKeys.has(k) && !this.roleKeySet.has(k));
+    if (cc.problem !== undefined || !c?.ok || newRole) {
       // The check could not be evaluated before, or cannot now: compile the table afresh so every part of the
       // check (applies, limits) is laid out again and the result shows the reason.
       this.build();
       return { ok: true };
     }
     cc.check = updated;
-    const col = cc.col;
-    cc.cells.value = { col, text: c.text, names: c.names };
-    const hf = this.engine();
-    hf.batch(() => {
-      this.book.variants.forEach((_, r) => hf.setCellContents({ sheet: this.sheet, row: r, col }, [[atRow(c.text, r)]]));
-    });
+    const fc = c.cell;
+    cc.cells.value = fc;
+    if (this.book.variants.length > 0) {
+      this.engine().setCellContents({ sheet: this.sheet, row: 0, col: fc.col }, [[valueContent(fc, 0)]]);
+      this.fillDown(fc.pieces ? [{ col: fc.col, pieces: fc.pieces }] : [], fc.col, fc.col + 1);
+    }
+    this.rowResults = [];
     return { ok: true };
   }
 }

@@ -172,3 +172,16 @@ export function splitAtWord(text: string, word: string): { ok: true; parts: stri
   parts.push(text.slice(from).trim());
   return { ok: true, parts };
 }
+
+/**
+ * The one name a formula consists of ("vcc", " t_bounce "), lower case; undefined when it is anything more (a
+ * number, a call, an expression) or TRUE/FALSE. Lets a rule that only names a value read that value's cell.
+ */
+export function soleName(formula: string): string | undefined {
+  const t = tokenizeFormula(formulaBody(formula));
+  if (!t.ok) return undefined;
+  const tokens = t.tokens.filter((tok) => tok.kind !== TOKEN_KIND.space);
+  if (tokens.length !== 1 || tokens[0]!.kind !== TOKEN_KIND.name) return undefined;
+  const key = nameKey(tokens[0]!.text);
+  return BARE_LITERALS.has(key) ? undefined : key;
+}
