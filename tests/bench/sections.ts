@@ -3,7 +3,8 @@
 import type { BenchSection } from './harness.ts';
 import { costingSection } from './costing.ts';
 import { importSection } from './import.ts';
+import { checksSection } from './checks.ts';
 import { bundleSection } from './bundle.ts';
 import { browserSection } from './browser.ts';
 
-export const BENCH_SECTIONS: BenchSection[] = [costingSection, importSection, bundleSection, browserSection];
+export const BENCH_SECTIONS: BenchSection[] = [costingSection, checksSection, importSection, bundleSection, browserSection];
