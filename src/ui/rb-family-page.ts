@@ -51,6 +51,42 @@ export class RbFamilyPage extends LitElement {
   static override styles = [
     pageStyles,
     css`
+      table.glance {
+        border-collapse: collapse;
+        font-variant-numeric: tabular-nums;
+      }
+      table.glance th,
+      table.glance td {
+        padding: 0.2rem 0.9rem 0.2rem 0;
+        border-bottom: 1px solid var(--rb-rule);
+        text-align: left;
+        font-weight: normal;
+      }
+      table.glance thead th {
+        font-family: var(--rb-mono);
+        font-size: 0.82rem;
+        border-bottom: 2px solid var(--rb-ink);
+      }
+      table.glance tbody th {
+        font-family: var(--rb-mono);
+      }
+      table.glance .num {
+        text-align: right;
+      }
+      table.glance .pass {
+        color: var(--rb-pass);
+      }
+      table.glance .margin {
+        color: var(--rb-margin);
+      }
+      table.glance .fail,
+      table.glance .error,
+      table.glance .problem {
+        color: var(--rb-fail);
+      }
+      table.glance .na {
+        color: var(--rb-na);
+      }
       .keys {
         font-size: 0.84rem;
         color: var(--rb-na);
@@ -298,6 +334,37 @@ export class RbFamilyPage extends LitElement {
         @rb-grid-paste=${this._onPaste}
         @rb-grid-clear=${this._onClear}
       ></rb-grid>
+    </section>
+    ${this.renderGlance(variants, runs, currency)}`;
+  }
+
+  /**
+   * The worked-out figures again, next to the code only: with many parameters the grid's last columns sit far to the
+   * right, and the checks and costs are what a person looks for first.
+   */
+  private renderGlance(variants: Variant[], runs: readonly number[], currency: string) {
+    if (variants.length === 0) return html``;
+    return html`<section class="sheet" aria-labelledby="glance-h">
+      <h2 id="glance-h">Checks and unit cost at a glance</h2>
+      <p class="why">The same figures as the grid's last columns: the worst check of each variant and its unit cost, in ${currency}, at each run size.</p>
+      <table class="glance" data-testid="family-glance">
+        <thead>
+          <tr>
+            <th scope="col">code</th>
+            <th scope="col">checks</th>
+            ${runs.map((r) => html`<th scope="col" class="num">unit cost @ ${r.toLocaleString('en')}</th>`)}
+          </tr>
+        </thead>
+        <tbody>
+          ${variants.map((v) => {
+            const figs = this.rowCache.get(v.id)?.figures ?? [];
+            return html`<tr>
+              <th scope="row">${v.code}</th>
+              ${figs.map((c, i) => html`<td class="${i > 0 ? 'num' : ''} ${c.tone ?? ''}" title=${c.title ?? ''}>${c.text}</td>`)}
+            </tr>`;
+          })}
+        </tbody>
+      </table>
     </section>`;
   }
 

@@ -10,36 +10,17 @@ import { formatTsv } from '../../src/domain/tsv.ts';
 import { CostingWorkbook, resolutionFromFamily } from '../../src/engine/costing.ts';
 import { resolveFamily } from '../../src/engine/family.ts';
 import { paramText } from '../../src/ui/record-forms.ts';
-import { openSession } from './harness.ts';
-import type { Session } from './harness.ts';
+import { AppUnderTest, readerText, saved } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
 const grid = '[data-testid="family-table"]';
 
-let session: Session | undefined;
-afterEach(async () => {
-  await session?.close();
-  session = undefined;
-});
-
-async function open(hash: string): Promise<Session> {
-  session = await openSession(baseUrl);
-  await session.page.goto(`${baseUrl}${hash}`);
-  return session;
-}
-
-async function saved(page: Page): Promise<void> {
-  await page.locator('rb-save-state [data-state="saved"]').waitFor();
-}
+const app = new AppUnderTest(baseUrl);
+afterEach(() => app.close());
 
 async function go(page: Page, hash: string): Promise<void> {
   await page.evaluate((h) => (location.hash = h), hash);
-}
-
-/** Text as a reader sees it: no-break spaces as spaces, runs of white space made single. */
-function clean(s: string | null): string {
-  return (s ?? '').replace(/[\s\u00a0\u202f]+/g, ' ').trim();
 }
 
 /** Column index by its key: a parameter name, `code`, `name`, `checks` or `cost_<run>`. */
@@ -51,7 +32,7 @@ async function columnIndex(page: Page, key: string): Promise<number> {
 }
 
 async function rowIndex(page: Page, code: string): Promise<number> {
-  const codes = (await page.locator(`${grid} tbody th`).allTextContents()).map(clean);
+  const codes = (await page.locator(`${grid} tbody th`).allTextContents()).map(readerText);
   return codes.indexOf(code);
 }
 
@@ -62,7 +43,7 @@ function cell(page: Page, r: number, c: number): Locator {
 async function cellText(page: Page, code: string, heading: string): Promise<string> {
   const r = await rowIndex(page, code);
   const c = await columnIndex(page, heading);
-  return clean(await cell(page, r, c).textContent());
+  return readerText(await cell(page, r, c).textContent());
 }
 
 /** Unit costs of a Book as the CLI works them out, formatted as the grid shows money. */
@@ -76,7 +57,7 @@ function costText(book: Book, variantId: string, run: number): string {
 
 describe('Family grid', () => {
   it('shows a new unit cost after a quote price is edited on the Quotes page', async () => {
-    const { page, errors } = await open('#/family');
+    const { page, errors } = await app.open('#/family');
     await page.locator(`${grid} tbody tr`).first().waitFor();
     const v = demo.variants[0]!;
     const run = demo.settings.runSizes[0]!;
@@ -112,8 +93,22 @@ describe('Family grid', () => {
     expect(errors).toEqual([]);
   });
 
+  it('repeats every variant\'s worst check and unit costs in the at-a-glance table, equal to a fresh costing', async () => {
+    const { page, errors } = await app.open('#/family');
+    const glance = page.locator('[data-testid="family-glance"]');
+    await glance.locator('tbody tr').first().waitFor();
+    const runs = demo.settings.runSizes;
+    for (const v of demo.variants) {
+      const row = glance.locator('tbody tr').filter({ has: page.locator('th', { hasText: new RegExp(`^${v.code}$`) }) });
+      await expect.poll(async () => (await row.locator('td').allTextContents()).map(readerText).slice(1)).toEqual(runs.map((r) => costText(demo, v.id, r)));
+      const status = readerText(await row.locator('td').first().textContent());
+      expect(status).toBe(await cellText(page, v.code, 'checks'));
+    }
+    expect(errors).toEqual([]);
+  });
+
   it('adds three variants pasted as tab-separated text with a header row, and undo takes them away', async () => {
-    const { page, errors } = await open('#/family');
+    const { page, errors } = await app.open('#/family');
     await page.locator(`${grid} tbody tr`).first().waitFor();
     const src = demo.variants.find((x) => x.code === 'FR4-60-CD')!;
     const names = Object.keys(src.params);
@@ -133,7 +128,7 @@ describe('Family grid', () => {
     }, text);
     await expect.poll(() => page.locator(`${grid} tbody tr`).count()).toBe(demo.variants.length + 3);
     await saved(page);
-    await expect(clean(await page.locator('[data-testid="family-notice"]').textContent())).toMatch(/Pasted: 3 new variants/);
+    await expect(readerText(await page.locator('[data-testid="family-notice"]').textContent())).toMatch(/Pasted: 3 new variants/);
     // Same parameters as FR4-60-CD, so the same parts and the same unit cost.
     const heading = `cost_${demo.settings.runSizes[1]!}`;
     const want = await cellText(page, src.code, heading);
@@ -159,7 +154,7 @@ describe('Family grid', () => {
   });
 
   it('refuses a paste with a bad value, naming the row and column, and adds nothing', async () => {
-    const { page, errors } = await open('#/family');
+    const { page, errors } = await app.open('#/family');
     await page.locator(`${grid} tbody tr`).first().waitFor();
     const text = 'code\tname\tload_w\r\nBAD-1\tGood row\t60\r\nBAD-2\tBad row\t-5\r\n';
     await page.locator(grid).evaluate((el, t) => {
@@ -167,19 +162,19 @@ describe('Family grid', () => {
       data.setData('text/plain', t);
       el.dispatchEvent(new ClipboardEvent('paste', { clipboardData: data, bubbles: true, cancelable: true, composed: true }));
     }, text);
-    await expect(clean(await page.locator('rb-grid .message').textContent())).toMatch(/Row 2 of the paste \(a new variant\), load_w: Must be above zero\. Nothing was pasted\./);
+    await expect(readerText(await page.locator('rb-grid .message').textContent())).toMatch(/Row 2 of the paste \(a new variant\), load_w: Must be above zero\. Nothing was pasted\./);
     expect(await page.locator(`${grid} tbody tr`).count()).toBe(demo.variants.length);
     expect(errors).toEqual([]);
   });
 
   it('edits a cell from the keyboard: Escape cancels, Enter keeps and moves down, Tab moves right, bad input is refused', async () => {
-    const { page, errors } = await open('#/family');
+    const { page, errors } = await app.open('#/family');
     await page.locator(`${grid} tbody tr`).first().waitFor();
     const v = [...demo.variants].sort((a, b) => a.code.localeCompare(b.code))[0]!;
     const r = await rowIndex(page, v.code);
     const c = await columnIndex(page, 'load_w');
     const target = cell(page, r, c);
-    const original = clean(await target.textContent());
+    const original = readerText(await target.textContent());
     expect(original).toBe(`${v.params.load_w} W`);
 
     await target.click();
@@ -191,21 +186,21 @@ describe('Family grid', () => {
     await page.keyboard.type('55');
     await page.keyboard.press('Escape');
     await editor.waitFor({ state: 'detached' });
-    expect(clean(await target.textContent())).toBe(original);
+    expect(readerText(await target.textContent())).toBe(original);
 
     // Typing starts editing with the typed character; a value that does not read is refused and the editor stays.
     await page.keyboard.type('abc');
     await page.keyboard.press('Enter');
-    await expect(clean(await page.locator('rb-grid .message').textContent())).toMatch(/^load_w: /);
+    await expect(readerText(await page.locator('rb-grid .message').textContent())).toMatch(/^load_w: /);
     await expect(editor.isVisible()).resolves.toBe(true);
     await page.screenshot({ path: '/tmp/rungbook-family-refused.png' });
     await page.keyboard.press('Escape');
-    expect(clean(await target.textContent())).toBe(original);
+    expect(readerText(await target.textContent())).toBe(original);
 
     await page.keyboard.type('72');
     await page.keyboard.press('Enter');
     await saved(page);
-    await expect.poll(async () => clean(await target.textContent())).toBe('72 W');
+    await expect.poll(async () => readerText(await target.textContent())).toBe('72 W');
     // Enter moved the active cell down one row, Tab one column right.
     await expect(cell(page, r + 1, c).getAttribute('class')).resolves.toMatch(/\bactive\b/);
     await page.keyboard.press('Tab');
@@ -216,18 +211,18 @@ describe('Family grid', () => {
 
     // The edit is one undo step.
     await page.keyboard.press('Control+Z');
-    await expect.poll(async () => clean(await target.textContent())).toBe(original);
+    await expect.poll(async () => readerText(await target.textContent())).toBe(original);
     await page.keyboard.press('Control+Shift+Z');
-    await expect.poll(async () => clean(await target.textContent())).toBe('72 W');
+    await expect.poll(async () => readerText(await target.textContent())).toBe('72 W');
     await saved(page);
     await page.reload();
     await page.locator(`${grid} tbody tr`).first().waitFor();
-    await expect.poll(async () => clean(await cell(page, r, c).textContent())).toBe('72 W');
+    await expect.poll(async () => readerText(await cell(page, r, c).textContent())).toBe('72 W');
     expect(errors).toEqual([]);
   });
 
   it('adds a variant typed on the new-row line, duplicates one, deletes after asking, and undoes the delete', async () => {
-    const { page, errors } = await open('#/family');
+    const { page, errors } = await app.open('#/family');
     await page.locator(`${grid} tbody tr`).first().waitFor();
     const count = demo.variants.length;
     await page.locator(`${grid} tfoot [data-c="0"]`).click();
@@ -256,7 +251,7 @@ describe('Family grid', () => {
   });
 
   it('copies a selected block as tab-separated text', async () => {
-    const { page, errors } = await open('#/family');
+    const { page, errors } = await app.open('#/family');
     await page.locator(`${grid} tbody tr`).first().waitFor();
     const sorted = [...demo.variants].sort((a, b) => a.code.localeCompare(b.code));
     await cell(page, 0, 0).click();
@@ -270,7 +265,7 @@ describe('Family grid', () => {
     expect(copied).toBe(formatTsv(sorted.slice(0, 2).map((v) => [v.code, v.name])));
     // The keyboard path: Ctrl+C makes the browser send the same copy event to the focused grid.
     await page.keyboard.press('Control+C');
-    await expect(clean(await page.locator('rb-grid .message').textContent())).toBe('Copied 2 × 2 cells as tab-separated text.');
+    await expect(readerText(await page.locator('rb-grid .message').textContent())).toBe('Copied 2 × 2 cells as tab-separated text.');
     expect(errors).toEqual([]);
   });
 });
