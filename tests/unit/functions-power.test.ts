@@ -1,24 +1,8 @@
 // Power-stage and thermal formula functions against published worked values (REFERENCES.md, Power stage and heat).
 import { describe, expect, it } from 'vitest';
-import { DetailedCellError } from 'hyperformula';
-import { createEngine } from '../../src/engine/create.ts';
+import { formulaSheet, near4 } from './functions-helpers.ts';
 
-const hf = createEngine();
-const sheet = hf.getSheetId(hf.addSheet('power'))!;
-
-function calc(formula: string): number {
-  const v = hf.calculateFormula(formula, sheet);
-  if (typeof v !== 'number') throw new Error(`${formula} gave ${String(v)}`);
-  return v;
-}
-function fails(formula: string): DetailedCellError {
-  const v = hf.calculateFormula(formula, sheet);
-  expect(v, formula).toBeInstanceOf(DetailedCellError);
-  return v as DetailedCellError;
-}
-function near4(actual: number, expected: number): void {
-  expect(Math.abs(actual - expected)).toBeLessThanOrEqual(0.0005 * Math.abs(expected) * 1.0001);
-}
+const { calc, fails } = formulaSheet('power');
 
 describe('LOAD_AMPS (I = P / (V · PF))', () => {
   it('60 W at 230 V, PF 0.9 draws 0.2899 A (REFERENCES.md)', () => {

@@ -1,14 +1,11 @@
 // Purchasing functions: need with attrition, buy in MOQ and packs, all-units price breaks (REFERENCES.md, Costing).
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { DetailedCellError } from 'hyperformula';
-import { createEngine } from '../../src/engine/create.ts';
+import { formulaSheet } from './functions-helpers.ts';
 
-const hf = createEngine();
-const sheet = hf.getSheetId(hf.addSheet('purchasing'))!;
 // The operations-management example of REFERENCES.md: breaks 1 @ 0.30, 100 @ 0.20, 500 @ 0.15, 1000 @ 0.12,
 // 2500 @ 0.09, in A1:B5, with a sixth, empty break row for quotes with fewer breaks.
-hf.setSheetContent(sheet, [
+const { value, fails } = formulaSheet('purchasing', [
   [1, 0.3],
   [100, 0.2],
   [500, 0.15],
@@ -19,15 +16,6 @@ hf.setSheetContent(sheet, [
   [50, 0.2],
   ['ten', 0.2],
 ]);
-
-function value(formula: string): unknown {
-  return hf.calculateFormula(formula, sheet);
-}
-function fails(formula: string): DetailedCellError {
-  const v = value(formula);
-  expect(v, formula).toBeInstanceOf(DetailedCellError);
-  return v as DetailedCellError;
-}
 
 describe('NEED_QTY', () => {
   it('2 per unit × 450 units × 1.01 = 909 (REFERENCES.md, Costing)', () => {

@@ -1,25 +1,8 @@
 // Mains and logic-supply formula functions against published worked values (REFERENCES.md) and bad arguments.
 import { describe, expect, it } from 'vitest';
-import { DetailedCellError } from 'hyperformula';
-import { createEngine } from '../../src/engine/create.ts';
+import { formulaSheet, near4 } from './functions-helpers.ts';
 
-const hf = createEngine();
-const sheet = hf.getSheetId(hf.addSheet('supply'))!;
-
-function calc(formula: string): number {
-  const v = hf.calculateFormula(formula, sheet);
-  if (typeof v !== 'number') throw new Error(`${formula} gave ${String(v)}`);
-  return v;
-}
-function fails(formula: string): DetailedCellError {
-  const v = hf.calculateFormula(formula, sheet);
-  expect(v, formula).toBeInstanceOf(DetailedCellError);
-  return v as DetailedCellError;
-}
-/** Reference values are given to 4 significant figures: agree within half a unit of the 4th figure. */
-function near4(actual: number, expected: number): void {
-  expect(Math.abs(actual - expected)).toBeLessThanOrEqual(0.0005 * Math.abs(expected) * 1.0001);
-}
+const { calc, fails } = formulaSheet('supply');
 
 describe('MAINS_PEAK', () => {
   it('√2 · V_rms · (1 + tol): IEC 60038 nominal and +10 % (REFERENCES.md, Mains)', () => {

@@ -1,26 +1,9 @@
 // 555-type astable, RC charge, divider and control-pin node functions against textbook worked values.
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { DetailedCellError } from 'hyperformula';
-import { createEngine } from '../../src/engine/create.ts';
+import { formulaSheet, near4 } from './functions-helpers.ts';
 
-const hf = createEngine();
-const sheet = hf.getSheetId(hf.addSheet('timing'))!;
-
-function calc(formula: string): number {
-  const v = hf.calculateFormula(formula, sheet);
-  if (typeof v !== 'number') throw new Error(`${formula} gave ${String(v)}`);
-  return v;
-}
-function fails(formula: string): DetailedCellError {
-  const v = hf.calculateFormula(formula, sheet);
-  expect(v, formula).toBeInstanceOf(DetailedCellError);
-  return v as DetailedCellError;
-}
-/** Reference values are given to 4 significant figures: agree within half a unit of the 4th figure. */
-function near4(actual: number, expected: number): void {
-  expect(Math.abs(actual - expected)).toBeLessThanOrEqual(0.0005 * Math.abs(expected) * 1.0001);
-}
+const { calc, fails } = formulaSheet('timing');
 
 describe('555-type astable (textbook formulas; REFERENCES.md, 555-type astable)', () => {
   it('R_A 1 kΩ, R_B 10 kΩ, C 10 nF: t_H 76.25 µs, t_L 69.31 µs, f 6.870 kHz, D 52.38 %', () => {

@@ -1,21 +1,10 @@
 // E-series and RKM functions in formulas (IEC 60063, IEC 60062 examples in REFERENCES.md).
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { DetailedCellError } from 'hyperformula';
-import { createEngine } from '../../src/engine/create.ts';
+import { formulaSheet } from './functions-helpers.ts';
 import { E_SERIES } from '../../src/domain/eseries.ts';
 
-const hf = createEngine();
-const sheet = hf.getSheetId(hf.addSheet('values'))!;
-
-function value(formula: string): unknown {
-  return hf.calculateFormula(formula, sheet);
-}
-function fails(formula: string): DetailedCellError {
-  const v = value(formula);
-  expect(v, formula).toBeInstanceOf(DetailedCellError);
-  return v as DetailedCellError;
-}
+const { value, fails } = formulaSheet('values');
 
 describe('E_NEAR, E_UP, E_DOWN', () => {
   it('nearest to 5 kΩ: E12 4.7k, E24 5.1k, E96 4.99k (REFERENCES.md)', () => {
