@@ -1,14 +1,10 @@
 // `rungbook eval`: prints a formula's value at full precision, or an error value with its message and exit status 1.
 import { describe, expect, it } from 'vitest';
 import { main } from '../../src/cli/main.ts';
-import type { CliIo } from '../../src/cli/command.ts';
+import { runCli } from './cli-helpers.ts';
 
-async function run(...argv: string[]): Promise<{ code: number; out: string; err: string }> {
-  const out: string[] = [];
-  const err: string[] = [];
-  const io: CliIo = { out: (t) => out.push(t), err: (t) => err.push(t) };
-  const code = await main(['eval', ...argv], io);
-  return { code, out: out.join('\n'), err: err.join('\n') };
+function run(...argv: string[]): Promise<{ code: number; out: string; err: string }> {
+  return runCli(['eval', ...argv]);
 }
 
 describe('rungbook eval', () => {

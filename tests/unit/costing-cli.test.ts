@@ -1,14 +1,12 @@
 // `rungbook cost` and `rungbook buy` through main(): same unit costs as the app's costing workbook, clear refusals.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import Papa from 'papaparse';
 import { main } from '../../src/cli/main.ts';
-import type { CliIo } from '../../src/cli/command.ts';
+import { captureIo, writeBook } from './cli-helpers.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import type { Book } from '../../src/domain/book.ts';
-import { serializeBook } from '../../src/io/book-file.ts';
 import { CostingWorkbook, resolutionFromFamily } from '../../src/engine/costing.ts';
 import { resolveFamily } from '../../src/engine/family.ts';
 import { daysBefore } from '../../src/cli/commands/buy.ts';
@@ -16,29 +14,9 @@ import { daysBefore } from '../../src/cli/commands/buy.ts';
 let dir = '';
 let demoFile = '';
 
-function capture(): CliIo & { stdout: string; stderr: string } {
-  const io = {
-    stdout: '',
-    stderr: '',
-    out(text: string) {
-      io.stdout += text.endsWith('\n') ? text : text + '\n';
-    },
-    err(text: string) {
-      io.stderr += text.endsWith('\n') ? text : text + '\n';
-    },
-  };
-  return io;
-}
-
-function writeBook(name: string, book: Book): string {
-  const file = join(dir, name);
-  writeFileSync(file, serializeBook(book));
-  return file;
-}
-
 beforeAll(() => {
   dir = mkdtempSync(join(tmpdir(), 'rungbook-cost-'));
-  demoFile = writeBook('demo.rungbook.json', demoBook());
+  demoFile = writeBook(dir, 'demo.rungbook.json', demoBook());
 });
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
@@ -48,7 +26,7 @@ describe('rungbook cost', () => {
     const wb = CostingWorkbook.open(book, resolutionFromFamily(resolveFamily(book)));
     if (!wb.ok) throw new Error(wb.error);
     for (const row of wb.value.allUnitCosts()) {
-      const io = capture();
+      const io = captureIo();
       const code = await main(['cost', demoFile, '--variant', row.variant, '--run', String(row.run), '--json'], io);
       expect(code, io.stderr).toBe(0);
       const json = JSON.parse(io.stdout) as { unitCost: number; variant: string; run: number };
@@ -58,7 +36,7 @@ describe('rungbook cost', () => {
   }, 120_000);
 
   it('prints --json with the documented keys, totals equal to the sum of lines, and the caution on stderr', async () => {
-    const io = capture();
+    const io = captureIo();
     expect(await main(['cost', demoFile, '--variant', 'FR4-60-CD', '--run', '2000', '--json'], io)).toBe(0);
     const json = JSON.parse(io.stdout) as Record<string, unknown> & { lines: Record<string, unknown>[]; materialRun: number; unitCost: number };
     for (const k of ['variant', 'run', 'currency', 'lines', 'material', 'labour', 'overhead', 'unitCost', 'runTotal']) expect(json).toHaveProperty(k);
@@ -70,7 +48,7 @@ describe('rungbook cost', () => {
   });
 
   it('prints a table with the totals and the mains caution at its end', async () => {
-    const io = capture();
+    const io = captureIo();
     expect(await main(['cost', demoFile, '--variant', 'FR3-40-CD', '--run', '500'], io)).toBe(0);
     expect(io.stdout).toMatch(/unit cost \(EUR\)\s+\d+\.\d{4}/);
     expect(io.stdout).toMatch(/run total \(EUR\)\s+\d+\.\d{2}/);
@@ -78,7 +56,7 @@ describe('rungbook cost', () => {
   });
 
   it('prints --csv that an RFC 4180 reader takes back, with the caution kept out of the data', async () => {
-    const io = capture();
+    const io = captureIo();
     expect(await main(['cost', demoFile, '--variant', 'FR3-40-CD', '--run', '500', '--csv'], io)).toBe(0);
     expect(io.stdout).toContain('\r\n');
     const parsed = Papa.parse<string[]>(io.stdout.trimEnd(), { newline: '\r\n' });
@@ -94,8 +72,8 @@ describe('rungbook cost', () => {
   it('neutralises a supplier code that looks like a formula in --csv', async () => {
     const book = demoBook();
     book.quotes = book.quotes.map((q) => ({ ...q, supplierCode: `=HYPERLINK("x","${q.supplierCode}")` }));
-    const file = writeBook('formula.rungbook.json', book);
-    const io = capture();
+    const file = writeBook(dir, 'formula.rungbook.json', book);
+    const io = captureIo();
     expect(await main(['cost', file, '--variant', 'FR3-40-CD', '--run', '500', '--csv'], io)).toBe(0);
     expect(io.stdout).toMatch(/,"'=HYPERLINK\(""x"",/);
   });
@@ -112,7 +90,7 @@ describe('rungbook cost', () => {
       [['cost', demoFile, '--variant', 'FR3-40-CD', '--run', '5', '--bogus'], /unknown option --bogus/],
     ];
     for (const [args, message] of cases) {
-      const io = capture();
+      const io = captureIo();
       expect(await main(args, io), args.join(' ')).toBe(2);
       expect(io.stderr).toMatch(message);
       expect(io.stdout).toBe('');
@@ -123,8 +101,8 @@ describe('rungbook cost', () => {
     const book = demoBook();
     const terminal = book.quotes[0]!;
     book.quotes = book.quotes.map((q) => (q.partId === terminal.partId ? { ...q, expires: '2000-01-01' } : q));
-    const file = writeBook('expired.rungbook.json', book);
-    const io = capture();
+    const file = writeBook(dir, 'expired.rungbook.json', book);
+    const io = captureIo();
     expect(await main(['cost', file, '--variant', 'FR3-40-CD', '--run', '500'], io)).toBe(1);
     expect(io.stdout).toMatch(/NOT PRICED/);
     expect(io.stdout).toMatch(/INCOMPLETE/);
@@ -142,7 +120,7 @@ describe('rungbook buy', () => {
   });
 
   it('groups the order by supplier with packs × pack = order quantity and supplier totals equal to their lines', async () => {
-    const io = capture();
+    const io = captureIo();
     expect(await main(['buy', demoFile, '--variant', 'FR3-40-CD', '--run', '500', '--wanted', '2026-12-01', '--csv'], io)).toBe(0);
     const rows = Papa.parse<string[]>(io.stdout.trimEnd(), { newline: '\r\n', header: false }).data;
     const head = rows[0]!;
@@ -163,14 +141,14 @@ describe('rungbook buy', () => {
       seen.add(order[i]!);
     }
     // The whole list costs what the costed BOM's run material says.
-    const cost = capture();
+    const cost = captureIo();
     await main(['cost', demoFile, '--variant', 'FR3-40-CD', '--run', '500', '--json'], cost);
     const listCents = body.reduce((s, r) => s + Math.round(Number(r[at('line_price_EUR')]) * 100), 0);
     expect(listCents).toBe(Math.round((JSON.parse(cost.stdout) as { materialRun: number }).materialRun * 100));
   });
 
   it('prints a table per supplier with the caution at the end, and says when no date wanted is known', async () => {
-    const io = capture();
+    const io = captureIo();
     expect(await main(['buy', demoFile, '--variant', 'FR3-40-CD', '--run', '777'], io)).toBe(0);
     expect(io.stdout).toMatch(/No date wanted/);
     expect(io.stdout).toMatch(/packs × pack/);
@@ -178,7 +156,7 @@ describe('rungbook buy', () => {
   });
 
   it('refuses a bad date wanted', async () => {
-    const io = capture();
+    const io = captureIo();
     expect(await main(['buy', demoFile, '--variant', 'FR3-40-CD', '--run', '500', '--wanted', '1/12/2026'], io)).toBe(2);
     expect(io.stderr).toMatch(/--wanted must be a date/);
   });

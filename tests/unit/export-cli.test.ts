@@ -1,16 +1,15 @@
 // The CLI's `cost --csv` and `buy --csv` write the very bytes the app's export makes for the same run and choices,
 // frozen runs included; CSV choices are refused without --csv or when they clash.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../../src/cli/main.ts';
-import type { CliIo } from '../../src/cli/command.ts';
+import { captureIo, writeBook } from './cli-helpers.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import type { Book } from '../../src/domain/book.ts';
 import { freezeRun } from '../../src/domain/freeze.ts';
 import { purchaseList } from '../../src/domain/purchase.ts';
-import { serializeBook } from '../../src/io/book-file.ts';
 import { costedBomCsv, exportBytes, purchaseListCsv, runCosting } from '../../src/io/run-export.ts';
 import type { ExportOptions } from '../../src/io/run-export.ts';
 
@@ -19,27 +18,6 @@ let dir = '';
 function value<T>(r: { ok: true; value: T } | { ok: false; error: string }): T {
   if (!r.ok) throw new Error(r.error);
   return r.value;
-}
-
-/** Captures stdout as the bytes the real process would write (UTF-8, a newline added only when missing). */
-function capture(): CliIo & { stdout: string; stderr: string } {
-  const io = {
-    stdout: '',
-    stderr: '',
-    out(text: string) {
-      io.stdout += text.endsWith('\n') ? text : text + '\n';
-    },
-    err(text: string) {
-      io.stderr += text.endsWith('\n') ? text : text + '\n';
-    },
-  };
-  return io;
-}
-
-function writeBook(name: string, book: Book): string {
-  const file = join(dir, name);
-  writeFileSync(file, serializeBook(book));
-  return file;
 }
 
 const CHOICES: [string[], ExportOptions][] = [
@@ -56,17 +34,17 @@ afterAll(() => rmSync(dir, { recursive: true, force: true }));
 describe('CLI and app export the same bytes', () => {
   it('for the demo run: costed BOM and purchase list, under each choice of delimiter, decimal and mark', async () => {
     const book = demoBook();
-    const file = writeBook('demo.rungbook.json', book);
+    const file = writeBook(dir, 'demo.rungbook.json', book);
     const run = book.runs[0]!;
     const code = book.variants.find((v) => v.id === run.variantId)!.code;
     const costing = value(runCosting(book, run));
     for (const [flags, options] of CHOICES) {
-      const cost = capture();
+      const cost = captureIo();
       expect(await main(['cost', file, '--variant', code, '--run', String(run.quantity), '--csv', ...flags], cost)).toBe(0);
       const app = exportBytes(value(costedBomCsv(costing, options)));
       expect(Buffer.from(exportBytes(cost.stdout)).equals(Buffer.from(app)), `cost ${flags.join(' ')}`).toBe(true);
 
-      const buy = capture();
+      const buy = captureIo();
       expect(await main(['buy', file, '--variant', code, '--run', String(run.quantity), '--csv', ...flags], buy)).toBe(0);
       const list = exportBytes(value(purchaseListCsv(purchaseList(costing.bom, { dateWanted: run.dateWanted }), options)));
       expect(Buffer.from(exportBytes(buy.stdout)).equals(Buffer.from(list)), `buy ${flags.join(' ')}`).toBe(true);
@@ -85,21 +63,21 @@ describe('CLI and app export the same bytes', () => {
       runs: [frozen, ...book.runs.slice(1)],
       quotes: book.quotes.map((q) => ({ ...q, breaks: q.breaks.map((b) => ({ ...b, price: b.price * 2 })) })),
     };
-    const file = writeBook('frozen.rungbook.json', later);
-    const io = capture();
+    const file = writeBook(dir, 'frozen.rungbook.json', later);
+    const io = captureIo();
     expect(await main(['cost', file, '--variant', code, '--run', String(run.quantity), '--csv'], io)).toBe(0);
     expect(io.stdout).toBe(frozenCsv);
     expect(io.stderr).toMatch(/is frozen \(2026-09-01T10:00:00.000Z\)/);
     expect(io.stdout).toBe(value(costedBomCsv(value(runCosting(later, frozen)))));
 
-    const fresh = capture();
+    const fresh = captureIo();
     expect(await main(['cost', file, '--variant', code, '--run', String(run.quantity), '--csv', '--fresh'], fresh)).toBe(0);
     expect(fresh.stdout).not.toBe(frozenCsv);
     expect(fresh.stdout).toBe(value(costedBomCsv(value(runCosting(later, frozen, { fresh: true })))));
   });
 
   it('refuses CSV choices without --csv, clashing choices and unknown words, printing nothing', async () => {
-    const file = writeBook('demo2.rungbook.json', demoBook());
+    const file = writeBook(dir, 'demo2.rungbook.json', demoBook());
     const cases: [string[], RegExp][] = [
       [['cost', file, '--variant', 'FR3-40-CD', '--run', '500', '--delimiter', 'tab'], /give them with --csv/],
       [['cost', file, '--variant', 'FR3-40-CD', '--run', '500', '--csv', '--decimal', 'comma'], /decimal comma.*semicolon or tab/],
@@ -107,7 +85,7 @@ describe('CLI and app export the same bytes', () => {
       [['buy', file, '--variant', 'FR3-40-CD', '--run', '500', '--wanted', '2026-02-30'], /--wanted must be a date/],
     ];
     for (const [args, message] of cases) {
-      const io = capture();
+      const io = captureIo();
       expect(await main(args, io), args.join(' ')).toBe(2);
       expect(io.stderr).toMatch(message);
       expect(io.stdout).toBe('');

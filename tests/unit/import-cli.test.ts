@@ -4,8 +4,8 @@ import { mkdtempSync, readFileSync, writeFileSync, existsSync, readdirSync } fro
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { beforeEach, describe, expect, it } from 'vitest';
-import { main } from '../../src/cli/main.ts';
 import { parseBookFile, serializeBook } from '../../src/io/book-file.ts';
+import { runCli } from './cli-helpers.ts';
 import { testBook } from './import-helpers.ts';
 
 let dir: string;
@@ -17,11 +17,8 @@ beforeEach(() => {
   writeFileSync(bookPath, serializeBook(testBook(), { savedAt: '2026-11-30T00:00:00.000Z' }));
 });
 
-async function cli(...argv: string[]) {
-  const out: string[] = [];
-  const err: string[] = [];
-  const code = await main(['import', ...argv], { out: (t) => out.push(t), err: (t) => err.push(t) });
-  return { code, out: out.join('\n'), err: err.join('\n') };
+function cli(...argv: string[]): Promise<{ code: number; out: string; err: string }> {
+  return runCli(['import', ...argv]);
 }
 
 function prices(name: string, text: string): string {
