@@ -1,6 +1,6 @@
-// Shared pieces of `npm run bench`: timing helpers, the list of sections, targets, machine description.
-// To add figures (import_ms, browser figures, bundle size), write a section and add it to BENCH_SECTIONS in
-// tests/bench/sections.ts; add its targets to TARGETS below. A section returns flat named figures.
+// Shared pieces of `npm run bench`: section and target types, targets, Node/Chromium pairs, machine description.
+// To add figures, write a section and add it to BENCH_SECTIONS in tests/bench/sections.ts; add its targets to TARGETS
+// and, when it is measured in both Node and Chromium, a line to PAIRS. A section returns flat named figures.
 import os from 'node:os';
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
