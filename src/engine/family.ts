@@ -1,15 +1,16 @@
 // Compiles a Book's family into ONE engine table — a row per variant, a column per name — so check formulas and
 // build rules can say `load_w` or `switch_v_max` and mean "this variant's". Resolves build lines and evaluates checks.
 //
-// Layout (DESIGN.md measured it well ahead of sheet-scoped named expressions): columns are, in order, every variant
-// parameter, the build-rule cells, the role names (`<role>_<rating>`, `<role>_value`) some check reads, every check
-// value (so checks may read each other by name), then the checks' applies and limit cells. Speed comes from doing
-// less per cell: a rule that is a plain number is kept as that number and one that is a single name reads that
-// name's column, so neither gets a cell; identical rules share one column; a missing name is the error value #N/A,
-// not a formula; each row's formulas differ only in their row, which the engine parses once for all rows; the table
-// is built in one call and the checks are added in one more; results are kept per row and an edit recomputes only
-// its row's. A name a variant lacks reads as #N/A; when a result is an error and its formula used such a name, the
-// result says "unknown name x" instead of the engine's error.
+// Layout (DESIGN.md measured it well ahead of sheet-scoped named expressions): the family sheet's columns are every
+// variant parameter, the role names (`<role>_<rating>`, `<role>_value`) some check reads, every check value (so
+// checks may read each other by name), then the check limits that read check values. Formulas that read only
+// parameters and role names (every build rule, most applies rules and limits) are evaluated once per distinct
+// input on a second, small sheet (see Memo), not once per variant. Speed also comes from doing less per cell: a
+// rule that is a plain number stays that number and one that is a single name reads that name's column; identical
+// formulas share one cell; a missing name is the error value #N/A, not a formula; the first row's formulas are
+// copied down instead of parsed again per row; results are kept per row and an edit recomputes its row only.
+// A name a variant lacks reads as #N/A; when a result is an error and its formula used such a name, the result says
+// "unknown name x" instead of the engine's error.
 import { HyperFormula } from 'hyperformula';
 import type { CellValue, RawCellContent } from 'hyperformula';
 import type { Book, BuildLine, Check, CheckRule, ParamValue, Part, Variant } from '../domain/book.ts';
@@ -74,6 +75,7 @@ export type EditResult = { ok: true } | { ok: false; error: string };
 const MISSING = '#N/A';
 const ROW_MARK = '\u0001';
 const SHEET = 'family';
+const MEMO_SHEET = 'rules';
 
 function colLetters(col: number): string {
   let s = '';
@@ -87,15 +89,37 @@ function colLetters(col: number): string {
 }
 
 /**
- * Where a compiled rule or check part is read for a row: a column (its own formula, a shared one, or the column of
- * the one name it is), or a constant that needs no cell. `names` are the names the formula reads.
+ * Where a compiled rule or check part is read for a row: a constant that needs no cell, a memo (below), or a column
+ * of the family table (its own formula, one shared with an identical formula, or the column of the one name it
+ * is). `names` are the names the formula reads.
  */
 interface FormulaCell {
   col: number;
   names: string[];
   constant?: number;
+  /** Index of the memo that holds this formula's value. */
+  memo?: number;
   /** A check value's own formula, cut at the row number. */
   pieces?: string[];
+}
+
+/**
+ * A formula that reads variant parameters only (every build rule, most applies rules) is evaluated once per
+ * distinct set of the parameters it reads, not once per variant: a ladder rule reading r_s1 has a handful of
+ * distinct inputs however many variants there are. Each distinct input is one row of the memo sheet: the formula
+ * in column A, its inputs from column B on.
+ */
+interface Memo {
+  /** Parameter and role names the formula reads, in the order of its input columns. */
+  inputs: string[];
+  /** Whether a role name is among the inputs: then its entries wait for the lines to be resolved. */
+  roles: boolean;
+  /** The formula as written on the memo sheet, cut at the row number. */
+  pieces: string[];
+  /** Input key (see inputKey) → memo sheet row. */
+  entries: Map<string, number>;
+  /** Family row → memo sheet row. */
+  rowEntry: Int32Array;
 }
 
 /** A formula column: its text cut at the row number, so each row's copy is a join. */
@@ -175,6 +199,24 @@ function canonicalNumbers(formula: string): string {
 
 const LIMIT_PARTS = ['limit', 'low', 'high'] as const;
 
+/** A variant's parameters by name key. */
+function ownParams(v: Variant): Map<string, ParamValue> {
+  return new Map(Object.entries(v.params).map(([k, val]) => [nameKey(k), val] as const));
+}
+
+/**
+ * One string for a memo's input values: kind-tagged so the number 12 and the text "12" differ, texts with their
+ * length so no text can run into the next value.
+ */
+function inputKey(inputs: readonly string[], params: ReadonlyMap<string, ParamValue>): string {
+  let key = '';
+  for (const k of inputs) {
+    const v = params.get(k);
+    key += v === undefined ? '-;' : typeof v === 'number' ? `n${v};` : `s${v.length}:${v}`;
+  }
+  return key;
+}
+
 function checkResult(
   v: Variant,
   check: Check,
@@ -235,6 +277,11 @@ export class FamilyWorkbook {
   private partsByKey = new Map<string, Part>();
   private partsById = new Map<string, Part>();
   private resolution: VariantResolution[] = [];
+  private memos: Memo[] = [];
+  /** Inputs and memo text → memo, so identical formulas share one. */
+  private memoIndex = new Map<string, number>();
+  private memoSheet = 0;
+  private memoRows = 0;
   /** Each row's check results as last read; undefined where an edit may have changed them. */
   private rowResults: (CheckResult[] | undefined)[] = [];
 
@@ -281,8 +328,9 @@ export class FamilyWorkbook {
   }
 
   /**
-   * Places a rule or check part: a plain number stays a constant, a single known name reads its own column, and
-   * any other formula gets a column — the same column as an identical formula placed before (`shared`).
+   * Places a rule or check part: a plain number stays a constant, a single known name reads its own column, a
+   * formula that reads parameters only goes to a memo, and any other formula gets a column — the same column (or
+   * memo) as an identical formula placed before (`shared`).
    */
   private place(
     formula: string,
@@ -297,6 +345,25 @@ export class FamilyWorkbook {
     if (!c.ok) return c;
     const name = soleName(formula);
     if (name !== undefined && lookup(name) !== undefined) return { ok: true, cell: { col: this.cols.get(name)!, names: c.names } };
+    // Names the lookup does not know read as NA() in either layout; any other name must be a parameter or a role
+    // name (known once the lines are resolved), not a check.
+    if (c.names.every((k) => lookup(k) === undefined || this.paramKeys.has(k) || this.roleKeySet.has(k))) {
+      const inputs = c.names.filter((k) => lookup(k) !== undefined);
+      const m = this.compile(formula, (k) => {
+        const i = inputs.indexOf(k);
+        return i < 0 ? undefined : `${colLetters(i + 1)}${ROW_MARK}`;
+      });
+      if (!m.ok) return m;
+      const key = `${inputs.join(',')}|${m.text}`;
+      let memo = this.memoIndex.get(key);
+      if (memo === undefined) {
+        memo = this.memos.length;
+        this.memoIndex.set(key, memo);
+        const roles = inputs.some((k) => this.roleKeySet.has(k));
+        this.memos.push({ inputs, roles, pieces: m.text.split(ROW_MARK), entries: new Map(), rowEntry: new Int32Array(0) });
+      }
+      return { ok: true, cell: { col: -1, names: c.names, memo } };
+    }
     let col = shared.get(c.text);
     if (col === undefined) {
       col = nextCol();
@@ -310,6 +377,9 @@ export class FamilyWorkbook {
     this.hf?.destroy();
     this.hf = null;
     this.rowResults = [];
+    this.memos = [];
+    this.memoIndex = new Map();
+    this.memoRows = 0;
     this.cols = new Map();
     this.paramKeys = new Set();
     this.partsByKey = new Map();
@@ -425,8 +495,8 @@ export class FamilyWorkbook {
     }
     this.width = next;
 
-    // First pass: parameters and build rules, so each variant's parts are known before the checks read them. Only
-    // the first row's rules are written as text; fillDown copies them to the other rows.
+    // First pass, in one call: the parameters, and the memos of the build rules and of the check parts that read
+    // parameters only, so each variant's parts are known before the checks read them.
     const paramEnd = this.paramKeys.size;
     const rows: Row[] = this.book.variants.map((v, r) => {
       const row: Row = new Array<RawCellContent>(this.roleStart).fill(null);
@@ -434,15 +504,33 @@ export class FamilyWorkbook {
       if (r === 0) for (const fc of ruleColumns) row[fc.col] = atRow(fc.pieces, 0);
       return row;
     });
+    const memoRows: Row[] = [];
+    const own = this.book.variants.map(ownParams);
+    for (const m of this.memos) {
+      m.rowEntry = new Int32Array(this.book.variants.length);
+      if (!m.roles) own.forEach((params, r) => (m.rowEntry[r] = this.memoEntry(m, params, memoRows)));
+    }
     registerRungbookFunctions();
-    const hf = HyperFormula.buildFromSheets({ [SHEET]: rows }, ENGINE_DEFAULTS);
+    const hf = HyperFormula.buildFromSheets({ [SHEET]: rows, [MEMO_SHEET]: memoRows }, ENGINE_DEFAULTS);
     this.hf = hf;
     this.sheet = hf.getSheetId(SHEET)!;
+    this.memoSheet = hf.getSheetId(MEMO_SHEET)!;
+    // Build rules read parameters only, so they all went to memos and this is for completeness.
     this.fillDown(ruleColumns, paramEnd, this.roleStart);
     this.resolution = this.book.variants.map((v, r) => this.resolveRow(v, r));
 
-    // Second pass: role values from the resolved parts, and the first row's checks, in one call; then the checks
-    // are copied down.
+    // Second pass, in one recalculation: the memos that read role names, role values from the resolved parts,
+    // and the first row's checks; then the checks are copied down.
+    const roleMemoStart = this.memoRows;
+    const roleMemoRows: Row[] = [];
+    const roleMemos = this.memos.filter((m) => m.roles);
+    if (roleMemos.length > 0) {
+      own.forEach((params, r) => {
+        const inputs = this.withRoles(params, r);
+        for (const m of roleMemos) m.rowEntry[r] = this.memoEntry(m, inputs, roleMemoRows);
+      });
+    }
+    if (roleMemoRows.length > 0) hf.setCellContents({ sheet: this.memoSheet, row: roleMemoStart, col: 0 }, roleMemoRows);
     if (rows.length === 0 || this.width === this.roleStart) return;
     const checkStart = this.roleStart + this.roleKeys.length;
     const block: Row[] = this.book.variants.map((_, r) => {
@@ -477,7 +565,7 @@ export class FamilyWorkbook {
     if (to <= from || rows < 2) return;
     const hf = this.engine();
     const byText: FormulaColumn[] = formulas.filter(
-      (fc) => (globalThis as unknown as { NOPASTE?: boolean }).NOPASTE || (fc.col >= from && fc.col < to && hf.getCellFormula({ sheet: this.sheet, row: 0, col: fc.col }) !== atRow(fc.pieces, 0)),
+      (fc) => fc.col >= from && fc.col < to && hf.getCellFormula({ sheet: this.sheet, row: 0, col: fc.col }) !== atRow(fc.pieces, 0),
     );
     const skip = new Set(byText.map((fc) => fc.col));
     try {
@@ -522,8 +610,35 @@ export class FamilyWorkbook {
     return { ok: true, cell: { col, names: c.names, pieces: c.text.split(ROW_MARK) } };
   }
 
+  /**
+   * The memo sheet row for these parameters: an existing entry with the same inputs, or a new one — appended to
+   * `pending` while the table is being built, written to the engine at once after that.
+   */
+  /** A variant's parameters with its role values, the inputs a memo may read. */
+  private withRoles(params: ReadonlyMap<string, ParamValue>, row: number): Map<string, ParamValue> {
+    const inputs = new Map(params);
+    for (const [k, v] of Object.entries(this.resolution[row]!.roleNames)) inputs.set(k, v);
+    return inputs;
+  }
+
+  private memoEntry(m: Memo, params: ReadonlyMap<string, ParamValue>, pending?: Row[]): number {
+    const key = inputKey(m.inputs, params);
+    const found = m.entries.get(key);
+    if (found !== undefined) return found;
+    const row = this.memoRows++;
+    m.entries.set(key, row);
+    const content: Row = [atRow(m.pieces, row)];
+    for (const k of m.inputs) {
+      const val = params.get(k);
+      content.push(val === undefined ? MISSING : paramCell(val));
+    }
+    if (pending) pending.push(content);
+    else this.engine().setCellContents({ sheet: this.memoSheet, row, col: 0 }, [content]);
+    return row;
+  }
+
   private writeParams(row: Row, v: Variant): void {
-    const own = new Map(Object.entries(v.params).map(([k, val]) => [nameKey(k), val] as const));
+    const own = ownParams(v);
     for (const key of this.paramKeys) {
       const val = own.get(key);
       row[this.cols.get(key)!] = val === undefined ? MISSING : paramCell(val);
@@ -569,7 +684,10 @@ export class FamilyWorkbook {
   /** Reads a formula cell as a check value, or the error explaining why there is none. */
   private read(row: number, fc: FormulaCell): { ok: true; value: CheckValue } | { ok: false; error: string } {
     if (fc.constant !== undefined) return { ok: true, value: fc.constant };
-    const v = this.value(row, fc.col);
+    const v =
+      fc.memo === undefined
+        ? this.value(row, fc.col)
+        : this.engine().getCellValue({ sheet: this.memoSheet, row: this.memos[fc.memo]!.rowEntry[row]!, col: 0 });
     if (isEngineError(v)) {
       const missing = this.missingNames(row, fc.names);
       if (missing.length > 0) return { ok: false, error: this.unknownMessage(missing[0]!, row) };
@@ -748,20 +866,26 @@ export class FamilyWorkbook {
     }
     const hf = this.engine();
     hf.setCellContents({ sheet: this.sheet, row, col: this.cols.get(key)! }, [[paramCell(value)]]);
-    this.refreshRoles(row);
+    const own = ownParams(this.book.variants[row]!);
+    for (const m of this.memos) if (!m.roles && m.inputs.includes(key)) m.rowEntry[row] = this.memoEntry(m, own);
+    this.refreshRoles(row, own);
+    const inputs = this.withRoles(own, row);
+    for (const m of this.memos) if (m.roles && m.inputs.includes(key)) m.rowEntry[row] = this.memoEntry(m, inputs);
     // Every formula reads its own row only, so no other variant's results can have changed.
     this.rowResults[row] = undefined;
     return { ok: true };
   }
 
-  /** Re-resolves one variant's lines after an edit and rewrites its role cells where they changed. */
-  private refreshRoles(row: number): void {
+  /** Re-resolves one variant's lines after an edit and rewrites its role cells and memos where they changed. */
+  private refreshRoles(row: number, own: ReadonlyMap<string, ParamValue>): void {
     const v = this.book.variants[row]!;
     const before = this.resolution[row]!.roleNames;
     const after = this.resolveRow(v, row);
     this.resolution[row] = after;
     const changed = this.roleKeys.filter((k) => before[k] !== after.roleNames[k]);
     if (changed.length === 0) return;
+    const inputs = this.withRoles(own, row);
+    for (const m of this.memos) if (m.roles && changed.some((k) => m.inputs.includes(k))) m.rowEntry[row] = this.memoEntry(m, inputs);
     const hf = this.engine();
     hf.batch(() => {
       for (const key of changed) {
