@@ -5,28 +5,17 @@ import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { buildLineDraft, moveLine, orderedLines, validateBuildLine } from '../../src/ui/rb-build-rules.ts';
-import { openSession } from './harness.ts';
+import { AppUnderTest, WIDE_VIEWPORT, saved } from './harness.ts';
 import type { Session } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
 
-let session: Session | undefined;
-afterEach(async () => {
-  await session?.close();
-  session = undefined;
-});
+const app = new AppUnderTest(baseUrl);
+afterEach(() => app.close());
 
-async function open(hash: string): Promise<Session> {
-  session = await openSession(baseUrl);
-  await session.page.setViewportSize({ width: 1400, height: 1000 });
-  await session.page.goto(`${baseUrl}${hash}`);
-  await session.page.locator('[data-testid="build-lines"]').waitFor();
-  return session;
-}
-
-async function saved(page: Page): Promise<void> {
-  await page.locator('rb-save-state [data-state="saved"]').waitFor();
+function open(hash: string): Promise<Session> {
+  return app.open(hash, { viewport: WIDE_VIEWPORT, ready: '[data-testid="build-lines"]' });
 }
 
 function variant(code: string) {

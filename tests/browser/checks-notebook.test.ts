@@ -3,20 +3,12 @@
 // kept across a reload, and deleting it.
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
-import { openSession } from './harness.ts';
-import type { Session } from './harness.ts';
+import { AppUnderTest, saved } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 
-let session: Session | undefined;
-afterEach(async () => {
-  await session?.close();
-  session = undefined;
-});
-
-async function saved(page: Page): Promise<void> {
-  await page.locator('rb-save-state [data-state="saved"]').waitFor();
-}
+const app = new AppUnderTest(baseUrl);
+afterEach(() => app.close());
 
 async function write(page: Page, address: string, text: string): Promise<void> {
   await page.locator(`rb-user-page button[data-cell="${address}"]`).first().click();
@@ -32,9 +24,7 @@ function shown(page: Page, address: string) {
 
 describe('notebook pages of the user’s own', () => {
   it('adds a page whose grid reads the Book, keeps text as text, and survives a reload', async () => {
-    session = await openSession(baseUrl);
-    const { page, errors } = session;
-    await page.goto(`${baseUrl}#/family`);
+    const { page, errors } = await app.open('#/family');
     await page.getByRole('button', { name: '+ New notebook page' }).click();
     await page.locator('rb-user-page h1').waitFor();
     expect(new URL(page.url()).hash).toMatch(/^#\/notebook\//);
@@ -82,9 +72,7 @@ describe('notebook pages of the user’s own', () => {
   });
 
   it('recalculates when a variant changes elsewhere, and can be deleted', async () => {
-    session = await openSession(baseUrl);
-    const { page, errors } = session;
-    await page.goto(`${baseUrl}#/family`);
+    const { page, errors } = await app.open('#/family');
     await page.getByRole('button', { name: '+ New notebook page' }).click();
     await page.locator('rb-user-page h1').waitFor();
     const here = page.url();

@@ -3,22 +3,16 @@
 // added and shows a status on every variant; formula help appears while typing; the step ladder writes its resistors.
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
-import { openSession } from './harness.ts';
+import { AppUnderTest, saved } from './harness.ts';
 import type { Session } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 
-let session: Session | undefined;
-afterEach(async () => {
-  await session?.close();
-  session = undefined;
-});
+const app = new AppUnderTest(baseUrl);
+afterEach(() => app.close());
 
-async function open(hash: string): Promise<Session> {
-  session = await openSession(baseUrl);
-  await session.page.goto(`${baseUrl}${hash}`);
-  await session.page.locator('[data-testid="checks-matrix"]').waitFor();
-  return session;
+function open(hash: string): Promise<Session> {
+  return app.open(hash, { ready: '[data-testid="checks-matrix"]' });
 }
 
 function cell(page: Page, variant: string, check: string) {
@@ -27,10 +21,6 @@ function cell(page: Page, variant: string, check: string) {
 
 async function status(page: Page, variant: string, check: string): Promise<string | null> {
   return cell(page, variant, check).getAttribute('data-status');
-}
-
-async function saved(page: Page): Promise<void> {
-  await page.locator('rb-save-state [data-state="saved"]').waitFor();
 }
 
 describe('Checks page', () => {

@@ -7,7 +7,7 @@ import type { Page } from 'playwright-core';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { CostingWorkbook, resolutionFromFamily } from '../../src/engine/costing.ts';
 import { resolveFamily } from '../../src/engine/family.ts';
-import { openSession } from './harness.ts';
+import { AppUnderTest, WIDE_VIEWPORT, saved } from './harness.ts';
 import type { Session } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
@@ -20,18 +20,11 @@ function workbook(): CostingWorkbook {
   return r.value;
 }
 
-let session: Session | undefined;
-afterEach(async () => {
-  await session?.close();
-  session = undefined;
-});
+const app = new AppUnderTest(baseUrl);
+afterEach(() => app.close());
 
-async function open(hash: string): Promise<Session> {
-  session = await openSession(baseUrl);
-  await session.page.setViewportSize({ width: 1400, height: 1000 });
-  await session.page.goto(`${baseUrl}${hash}`);
-  await session.page.locator('[data-testid="compare-table"]').waitFor();
-  return session;
+function open(hash: string): Promise<Session> {
+  return app.open(hash, { viewport: WIDE_VIEWPORT, ready: '[data-testid="compare-table"]' });
 }
 
 type Shown = { code: string; run: number; value: number };
@@ -120,7 +113,7 @@ describe('Compare page', () => {
     await setWhatIf(page, 'rate:USD', '1.1');
     await page.getByRole('button', { name: 'Keep in the Book' }).click();
     await page.locator('[data-testid="notice"]', { hasText: 'kept in the Book' }).waitFor();
-    await page.locator('rb-save-state [data-state="saved"]').waitFor();
+    await saved(page);
     await page.reload();
     await page.locator('[data-testid="compare-table"]').waitFor();
     expect((await shownCosts(page)).map((s) => s.value)).toEqual(after.map((s) => s.value));

@@ -1,4 +1,5 @@
-// Starts Debian's headless Chromium through playwright-core with a fresh profile; collects console errors.
+// Starts Debian's headless Chromium through playwright-core with a fresh profile; collects console errors. Also the
+// steps every browser test shares: open the built app at a page, wait for a save, read text as a reader sees it.
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -62,6 +63,73 @@ export async function openSession(baseUrl: string): Promise<Session> {
       rmSync(dir, { recursive: true, force: true });
     },
   };
+}
+
+/** A window wide enough for the Build, Compare and Rates pages to show every column without wrapping. */
+export const WIDE_VIEWPORT = { width: 1400, height: 1000 } as const;
+
+/** How a test wants a page of the app shown. */
+export interface ShowOptions {
+  /** Window size, for tests whose checks depend on the layout (wide tables, charts). */
+  viewport?: { width: number; height: number };
+  /** A selector that shows the page has drawn its data; waited for once the page has loaded. */
+  ready?: string;
+}
+
+/**
+ * The one browser session a test has open on the built app. A test file makes one and closes it after each test
+ * (`afterEach(() => app.close())`), so a failing test never leaves Chromium running.
+ */
+export class AppUnderTest {
+  private session: Session | undefined;
+
+  constructor(readonly baseUrl: string) {}
+
+  /** A fresh profile with no page loaded yet. */
+  async start(): Promise<Session> {
+    this.session = await openSession(this.baseUrl);
+    return this.session;
+  }
+
+  /** A fresh profile showing `path` of the app (a page's hash such as `#/parts`). */
+  async open(path: string, options: ShowOptions = {}): Promise<Session> {
+    const session = await this.start();
+    if (options.viewport) await session.page.setViewportSize(options.viewport);
+    await this.goto(session.page, path, options.ready);
+    return session;
+  }
+
+  /** Loads `path` of the app in `page` (another tab, say) and waits for `ready` when given. */
+  async goto(page: Page, path: string, ready?: string): Promise<void> {
+    await page.goto(`${this.baseUrl}${path}`);
+    if (ready !== undefined) await page.locator(ready).waitFor();
+  }
+
+  async close(): Promise<void> {
+    await this.session?.close();
+    this.session = undefined;
+  }
+}
+
+/** Waits until the last change is written (the save state in the rail says so). */
+export async function saved(page: Page): Promise<void> {
+  await page.locator('rb-save-state [data-state="saved"]').waitFor();
+}
+
+/** Text as a reader sees it: no-break spaces as spaces, runs of white space made single. */
+export function readerText(s: string | null): string {
+  return (s ?? '').replace(/[\s\u00a0\u202f]+/g, ' ').trim();
+}
+
+/** Text of the first element matching `selector`, as a reader sees it (see readerText). */
+export async function text(page: Page, selector: string): Promise<string> {
+  return readerText(await page.locator(selector).first().textContent());
+}
+
+/** Rows of the Parts page's table, once it has drawn. */
+export async function partRows(page: Page): Promise<number> {
+  await page.locator('[data-testid="parts-table"]').waitFor();
+  return page.locator('[data-testid="parts-table"] tbody tr').count();
 }
 
 export type { Browser };

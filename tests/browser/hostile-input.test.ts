@@ -6,8 +6,7 @@ import type { Book } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { serializeBook } from '../../src/io/book-file.ts';
 import { PAGES, notebookRoute } from '../../src/ui/pages.ts';
-import { openSession } from './harness.ts';
-import type { Session } from './harness.ts';
+import { AppUnderTest } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 
@@ -15,11 +14,8 @@ const IMG = '<img src=x onerror="window.__rbHostile=(window.__rbHostile||0)+1">'
 const SCRIPT = '<script>window.__rbHostile=99</script>';
 const SVG = '"><svg onload="window.__rbHostile=7"></svg>';
 
-let session: Session | undefined;
-afterEach(async () => {
-  await session?.close();
-  session = undefined;
-});
+const app = new AppUnderTest(baseUrl);
+afterEach(() => app.close());
 
 function hostileBook(): Book {
   const book = demoBook();
@@ -67,7 +63,7 @@ async function openFile(page: Page, name: string, text: string): Promise<void> {
 
 describe('hostile text in a Book', () => {
   it('shows markup and script from a Book file as text on every page and runs none of it', async () => {
-    session = await openSession(baseUrl);
+    const session = await app.start();
     const { page, errors, foreignRequests } = session;
     const origin = new URL(baseUrl).origin;
     const madeUp: string[] = [];
@@ -108,9 +104,7 @@ describe('hostile text in a Book', () => {
   });
 
   it('the page is served under a Content-Security-Policy with no inline script and no remote origin', async () => {
-    session = await openSession(baseUrl);
-    const { page, errors } = session;
-    await page.goto(`${baseUrl}#/family`);
+    const { page, errors } = await app.open('#/family');
     const csp = await page.locator('meta[http-equiv="Content-Security-Policy"]').getAttribute('content');
     expect(csp).not.toBeNull();
     const directives = new Map(

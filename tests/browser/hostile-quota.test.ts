@@ -5,17 +5,13 @@ import type { Page } from 'playwright-core';
 import type { Book } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { serializeBook } from '../../src/io/book-file.ts';
-import { openSession } from './harness.ts';
-import type { Session } from './harness.ts';
+import { AppUnderTest, saved } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
 
-let session: Session | undefined;
-afterEach(async () => {
-  await session?.close();
-  session = undefined;
-});
+const app = new AppUnderTest(baseUrl);
+afterEach(() => app.close());
 
 /** The demo Book with many extra parts carrying long notes. */
 function bigBook(): Book {
@@ -55,11 +51,9 @@ async function failPutsAfter(page: Page, after: number): Promise<void> {
 
 describe('storage quota reached in Chromium', () => {
   it('refuses a Book file when the quota runs out part way and keeps the Book as it was', async () => {
-    session = await openSession(baseUrl);
-    const { page, errors } = session;
-    await page.goto(`${baseUrl}#/parts`);
+    const { page, errors } = await app.open('#/parts');
     await page.locator('[data-testid="parts-table"]').waitFor();
-    await page.locator('rb-save-state [data-state="saved"]').waitFor();
+    await saved(page);
 
     // Replacing the Book clears every store first, then puts the new records: failing at the 41st put leaves the
     // transaction with the old Book cleared and part of the new one written, which must all be rolled back.

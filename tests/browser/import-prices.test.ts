@@ -8,8 +8,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { mpnKey } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { openSession } from './harness.ts';
-import type { Session } from './harness.ts';
+import { AppUnderTest, saved, text } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
@@ -19,35 +18,19 @@ const DEMO_PATH = join(process.cwd(), 'public', 'demo', DEMO_FILE);
 /** The header of the Kelvaro demo file, reused so generated files read like theirs (long layout, one row per break). */
 const HEADER = 'Mfr Part No,Description,Supplier Part,Break Qty,Unit Price (USD),Min Order Qty,Pack Size,Lead Time (weeks),Quoted On';
 
-let session: Session | undefined;
+const app = new AppUnderTest(baseUrl);
 let tmp: string | undefined;
 afterEach(async () => {
-  await session?.close();
-  session = undefined;
+  await app.close();
   if (tmp) rmSync(tmp, { recursive: true, force: true });
   tmp = undefined;
 });
-
-async function open(hash: string): Promise<Session> {
-  session = await openSession(baseUrl);
-  await session.page.goto(`${baseUrl}${hash}`);
-  return session;
-}
 
 function writeTemp(name: string, text: string): string {
   tmp ??= mkdtempSync(join(tmpdir(), 'rungbook-prices-'));
   const path = join(tmp, name);
   writeFileSync(path, text, 'utf8');
   return path;
-}
-
-async function saved(page: Page): Promise<void> {
-  await page.locator('rb-save-state [data-state="saved"]').waitFor();
-}
-
-/** Text of the first matching element with runs of white space made single, as a reader sees it. */
-async function text(page: Page, selector: string): Promise<string> {
-  return ((await page.locator(selector).first().textContent()) ?? '').replace(/\s+/g, ' ').trim();
 }
 
 async function goTo(page: Page, slug: string): Promise<void> {
@@ -83,7 +66,7 @@ describe('price file import through the app', () => {
     const replaced = demo.quotes.filter((q) => q.supplierId === KELVARO.id && partIdsMatched.has(q.partId) && q.supersededBy === undefined);
     expect(matched.length).toBeGreaterThan(0);
 
-    const { page, errors, foreignRequests } = await open('#/quotes');
+    const { page, errors, foreignRequests } = await app.open('#/quotes');
     const before = await quoteRows(page);
     expect(before).toBe(demo.quotes.length);
     expect(await page.locator(`[data-testid="quotes-table"] tbody tr`, { hasText: DEMO_FILE }).count()).toBe(0);
@@ -145,7 +128,7 @@ describe('price file import through the app', () => {
   });
 
   it('remembers the mapping for the supplier and reports a second import of the same file', async () => {
-    const { page, errors } = await open('#/import');
+    const { page, errors } = await app.open('#/import');
     await page.locator('#import-supplier').selectOption(KELVARO.id);
     await expect(page.locator('[data-testid="supplier-mapping"]').textContent()).resolves.toMatch(/No mapping remembered/);
     await readFile(page, DEMO_PATH);
@@ -173,7 +156,7 @@ describe('price file import through the app', () => {
     const header = 'Mfr Part No,Supplier Part,Break Qty,Tariff (USD),Quoted On';
     const first = writeTemp('tariff-1.csv', `${header}\nQX-Z12-05,KPD-410233,10,0.044,2026-08-20\nQX-Z12-05,KPD-410233,1000,0.02,2026-08-20\n`);
     const second = writeTemp('tariff-2.csv', `${header}\nQX-Z12-13,KPD-410251,10,0.088,2026-09-20\n`);
-    const { page, errors } = await open('#/import');
+    const { page, errors } = await app.open('#/import');
     await readFile(page, first);
     await expect(text(page, '[data-testid="problems-table"] tbody tr')).resolves.toMatch(/no price column found/);
     await expect(page.locator('#map-price').inputValue()).resolves.toBe('');
@@ -196,7 +179,7 @@ describe('price file import through the app', () => {
   });
 
   it('reads a demo file fetched from the app, shows its semicolons, decimal commas and prices per 100, and takes an override', async () => {
-    const { page, errors } = await open('#/import');
+    const { page, errors } = await app.open('#/import');
     await page.getByRole('button', { name: 'brindlecote-passives-2026-07.csv' }).click();
     await page.locator('[data-testid="mapping-table"]').waitFor();
     // The button also picks the supplier the demo file belongs to.
@@ -223,7 +206,7 @@ describe('price file import through the app', () => {
     // RFC 4180: a field holding quotes is itself quoted and its quotes doubled.
     const cell = `"${payload.replace(/"/g, '""')}"`;
     const path = writeTemp('html-description.csv', `${HEADER}\nZZ-HTML-01,${cell},KPD-999001,10,0.5,10,10,2,2026-08-14\n`);
-    const { page, errors } = await open('#/import');
+    const { page, errors } = await app.open('#/import');
     await readFile(page, path);
     const preview = page.locator('[data-testid="preview-table"] td.desc');
     await expect(preview.textContent()).resolves.toBe(payload);
@@ -259,7 +242,7 @@ describe('price file import through the app', () => {
     ];
     const lastLine = rows.length + 1; // the header is line 1
     const path = writeTemp('bad-last-row.csv', `${HEADER}\n${rows.join('\n')}\n`);
-    const { page, errors } = await open('#/quotes');
+    const { page, errors } = await app.open('#/quotes');
     const before = await quoteRows(page);
     const summaryBefore = await page.locator('[data-testid="quotes-summary"]').textContent();
 

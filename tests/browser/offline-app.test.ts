@@ -4,26 +4,13 @@ import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { PAGES } from '../../src/ui/pages.ts';
-import { openSession } from './harness.ts';
-import type { Session } from './harness.ts';
+import { AppUnderTest, partRows, saved } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
 
-let session: Session | undefined;
-afterEach(async () => {
-  await session?.close();
-  session = undefined;
-});
-
-async function saved(page: Page): Promise<void> {
-  await page.locator('rb-save-state [data-state="saved"]').waitFor();
-}
-
-async function partRows(page: Page): Promise<number> {
-  await page.locator('[data-testid="parts-table"]').waitFor();
-  return page.locator('[data-testid="parts-table"] tbody tr').count();
-}
+const app = new AppUnderTest(baseUrl);
+afterEach(() => app.close());
 
 /** Waits until the service worker has stored the app and answers this page's requests. */
 async function offlineReady(page: Page): Promise<void> {
@@ -35,9 +22,7 @@ async function offlineReady(page: Page): Promise<void> {
 
 describe('the app offline', () => {
   it('reloads, opens every page and keeps an edit made with the network gone', async () => {
-    session = await openSession(baseUrl);
-    const { page, context, errors, foreignRequests } = session;
-    await page.goto(`${baseUrl}#/parts`);
+    const { page, context, errors, foreignRequests } = await app.open('#/parts');
     expect(await partRows(page)).toBe(demo.parts.length);
     await offlineReady(page);
 
@@ -92,9 +77,7 @@ describe('the app offline', () => {
   });
 
   it('is installable: the manifest names the app and icons of our own, and the worker controls the page', async () => {
-    session = await openSession(baseUrl);
-    const { page, errors } = session;
-    await page.goto(`${baseUrl}#/family`);
+    const { page, errors } = await app.open('#/family');
     await offlineReady(page);
     const manifest = await page.evaluate(async () => {
       const href = document.querySelector<HTMLLinkElement>('link[rel="manifest"]')!.href;

@@ -4,37 +4,22 @@
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { openSession } from './harness.ts';
+import { AppUnderTest, saved, text } from './harness.ts';
 import type { Session } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
 const costingDate = demo.settings.costingDate!;
 
-let session: Session | undefined;
-afterEach(async () => {
-  await session?.close();
-  session = undefined;
-});
+const app = new AppUnderTest(baseUrl);
+afterEach(() => app.close());
 
-async function open(hash: string): Promise<Session> {
-  session = await openSession(baseUrl);
-  await session.page.goto(`${baseUrl}${hash}`);
-  await session.page.locator('[data-testid="quotes-table"]').waitFor();
-  return session;
-}
-
-async function saved(page: Page): Promise<void> {
-  await page.locator('rb-save-state [data-state="saved"]').waitFor();
+function open(hash: string): Promise<Session> {
+  return app.open(hash, { ready: '[data-testid="quotes-table"]' });
 }
 
 function row(page: Page, id: string) {
   return page.locator(`[data-testid="quotes-table"] tbody tr[data-id="${id}"]`);
-}
-
-/** Text as a reader sees it: no-break spaces as spaces, runs of white space made single. */
-async function text(page: Page, selector: string): Promise<string> {
-  return ((await page.locator(selector).first().textContent()) ?? '').replace(/[\s\u00a0]+/g, ' ').trim();
 }
 
 describe('Quotes page', () => {

@@ -10,8 +10,7 @@ import { toCents } from '../../src/domain/costing.ts';
 import { purchaseList } from '../../src/domain/purchase.ts';
 import { costedBomCsv, costedTotalLabels, exportBytes, numberText, purchaseListCsv, runCosting } from '../../src/io/run-export.ts';
 import type { ExportOptions, RunCosting } from '../../src/io/run-export.ts';
-import { openSession } from './harness.ts';
-import type { Session } from './harness.ts';
+import { AppUnderTest } from './harness.ts';
 import { pdfPageTexts } from './runs-pdf-text.ts';
 
 const baseUrl = inject('baseUrl');
@@ -27,17 +26,8 @@ function value<T>(r: { ok: true; value: T } | { ok: false; error: string }): T {
 // The demo Book fixes its costing date, so Node and the browser cost the run from the same quotes.
 const costing: RunCosting = value(runCosting(demo, run));
 
-let session: Session | undefined;
-afterEach(async () => {
-  await session?.close();
-  session = undefined;
-});
-
-async function open(hash: string): Promise<Session> {
-  session = await openSession(baseUrl);
-  await session.page.goto(`${baseUrl}${hash}`);
-  return session;
-}
+const app = new AppUnderTest(baseUrl);
+afterEach(() => app.close());
 
 async function chooseDemoRun(page: Page): Promise<void> {
   await page.locator('[data-testid="runs-table"]').waitFor();
@@ -54,7 +44,7 @@ async function downloadBytes(page: Page, button: string): Promise<{ name: string
 
 describe('runs, exports and the run sheet in the browser', () => {
   it('exports the demo run as CSV through the Export page: the very bytes of the export module, read back equal', async () => {
-    const { page, errors, foreignRequests } = await open('#/export');
+    const { page, errors, foreignRequests } = await app.open('#/export');
     await page.locator('#x-run').waitFor();
     await page.locator('#x-run').selectOption(run.id);
     await page.locator('[data-testid="export-preview"]').waitFor();
@@ -94,7 +84,7 @@ describe('runs, exports and the run sheet in the browser', () => {
   });
 
   it('shows the costed BOM and totals, refuses a bad run and keeps a good one, and freezes a run', async () => {
-    const { page, errors } = await open('#/runs');
+    const { page, errors } = await app.open('#/runs');
     await chooseDemoRun(page);
     const totals = await page.locator('[data-testid="run-totals"]').textContent();
     const labels = costedTotalLabels('EUR', demo.settings.marginPct);
@@ -132,7 +122,7 @@ describe('runs, exports and the run sheet in the browser', () => {
   });
 
   it('prints the run sheet to PDF on A4 and Letter with the variant, the totals, the caution and page numbers', async () => {
-    const { page, errors } = await open('#/runs');
+    const { page, errors } = await app.open('#/runs');
     await chooseDemoRun(page);
     // The caution the app shows on the page must be on the sheet word for word.
     const caution = (await page.locator('rb-mains-caution p span').textContent()) ?? '';

@@ -1,40 +1,19 @@
 // The built app in real Chromium: it opens on the demo Book, keeps a part added through the form across a reload,
 // refuses bad form input with a message beside the field, keeps the page across a reload, and stays on its own origin.
 import { afterEach, describe, expect, inject, it } from 'vitest';
-import type { Page } from 'playwright-core';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { PAGES } from '../../src/ui/pages.ts';
-import { openSession } from './harness.ts';
-import type { Session } from './harness.ts';
+import { AppUnderTest, partRows, saved } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
 
-let session: Session | undefined;
-afterEach(async () => {
-  await session?.close();
-  session = undefined;
-});
-
-async function open(hash: string): Promise<Session> {
-  session = await openSession(baseUrl);
-  await session.page.goto(`${baseUrl}${hash}`);
-  return session;
-}
-
-/** Waits until the last change is written (the save state in the rail says so). */
-async function saved(page: Page): Promise<void> {
-  await page.locator('rb-save-state [data-state="saved"]').waitFor();
-}
-
-async function partRows(page: Page): Promise<number> {
-  await page.locator('[data-testid="parts-table"]').waitFor();
-  return page.locator('[data-testid="parts-table"] tbody tr').count();
-}
+const app = new AppUnderTest(baseUrl);
+afterEach(() => app.close());
 
 describe('app shell with the Book in IndexedDB', () => {
   it('opens on the demo Book and shows its variants on the Family page with the mains caution', async () => {
-    const { page, errors, foreignRequests } = await open('#/family');
+    const { page, errors, foreignRequests } = await app.open('#/family');
     const code = demo.variants[0]!.code;
     await page.locator('[data-testid="family-table"] tbody th', { hasText: code }).first().waitFor();
     expect(await page.locator('[data-testid="family-table"] tbody tr').count()).toBe(demo.variants.length);
@@ -46,7 +25,7 @@ describe('app shell with the Book in IndexedDB', () => {
   });
 
   it('keeps a part added through the form after the page is reloaded', async () => {
-    const { page, errors, foreignRequests } = await open('#/parts');
+    const { page, errors, foreignRequests } = await app.open('#/parts');
     const before = await partRows(page);
     expect(before).toBe(demo.parts.length);
     await page.getByRole('button', { name: 'Add a part' }).click();
@@ -75,7 +54,7 @@ describe('app shell with the Book in IndexedDB', () => {
   });
 
   it('shows bad part input beside its field and saves nothing', async () => {
-    const { page, errors, foreignRequests } = await open('#/parts');
+    const { page, errors, foreignRequests } = await app.open('#/parts');
     const before = await partRows(page);
     const taken = demo.parts[0]!.mpn;
     await page.getByRole('button', { name: 'Add a part' }).click();
@@ -103,7 +82,7 @@ describe('app shell with the Book in IndexedDB', () => {
   });
 
   it('keeps the page across a reload and says what a page not built yet will hold', async () => {
-    const { page, errors } = await open('#/suppliers');
+    const { page, errors } = await app.open('#/suppliers');
     await page.locator('[data-testid="suppliers-table"]').waitFor();
     await page.reload();
     await page.locator('[data-testid="suppliers-table"]').waitFor();
@@ -122,7 +101,7 @@ describe('app shell with the Book in IndexedDB', () => {
   });
 
   it('shows the save state and the storage in use', async () => {
-    const { page, errors } = await open('#/family');
+    const { page, errors } = await app.open('#/family');
     await saved(page);
     await page.locator('rb-save-state .storage', { hasText: 'Storage:' }).waitFor();
     await expect(page.locator('rb-save-state [role="status"]').textContent()).resolves.toMatch(/All changes saved/);

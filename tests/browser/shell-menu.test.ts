@@ -5,17 +5,13 @@ import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { parseBookFile } from '../../src/io/book-file.ts';
-import { openSession } from './harness.ts';
-import type { Session } from './harness.ts';
+import { AppUnderTest } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
 
-let session: Session | undefined;
-afterEach(async () => {
-  await session?.close();
-  session = undefined;
-});
+const app = new AppUnderTest(baseUrl);
+afterEach(() => app.close());
 
 async function familyRows(page: Page): Promise<number> {
   await page.locator('rb-family-page section.sheet h2', { hasText: 'Variants' }).waitFor();
@@ -32,9 +28,7 @@ async function confirm(page: Page, label: string): Promise<void> {
 
 describe('Book menu', () => {
   it('downloads the whole Book as a Book file that reads back to the same records', async () => {
-    session = await openSession(baseUrl);
-    const { page } = session;
-    await page.goto(`${baseUrl}#/family`);
+    const { page, errors } = await app.open('#/family');
     expect(await familyRows(page)).toBe(demo.variants.length);
     const [download] = await Promise.all([
       page.waitForEvent('download'),
@@ -51,13 +45,11 @@ describe('Book menu', () => {
     await page.locator('[data-testid="export-reminder"]', { hasText: 'Last Book file today' }).waitFor();
     await page.reload();
     await page.locator('[data-testid="export-reminder"]', { hasText: 'Last Book file today' }).waitFor();
-    expect(session.errors).toEqual([]);
+    expect(errors).toEqual([]);
   });
 
   it('refuses a Book file with problems, names where they are, and changes nothing', async () => {
-    session = await openSession(baseUrl);
-    const { page } = session;
-    await page.goto(`${baseUrl}#/family`);
+    const { page, errors } = await app.open('#/family');
     expect(await familyRows(page)).toBe(demo.variants.length);
     // A quote pointing at a part that is not in the file: a dangling reference.
     const bad = structuredClone(demo);
@@ -77,13 +69,11 @@ describe('Book menu', () => {
     expect(await familyRows(page)).toBe(demo.variants.length);
     await page.reload();
     expect(await familyRows(page)).toBe(demo.variants.length);
-    expect(session.errors).toEqual([]);
+    expect(errors).toEqual([]);
   });
 
   it('starts an empty Book that stays empty after a reload, and puts the demo Book back', async () => {
-    session = await openSession(baseUrl);
-    const { page } = session;
-    await page.goto(`${baseUrl}#/family`);
+    const { page, errors, foreignRequests } = await app.open('#/family');
     expect(await familyRows(page)).toBe(demo.variants.length);
 
     // Asking first: keeping things as they are changes nothing.
@@ -104,7 +94,7 @@ describe('Book menu', () => {
     await page.locator('nav a[href="#/family"]').click();
     await page.locator('[data-testid="family-table"]').waitFor();
     expect(await familyRows(page)).toBe(demo.variants.length);
-    expect(session.errors).toEqual([]);
-    expect(session.foreignRequests).toEqual([]);
+    expect(errors).toEqual([]);
+    expect(foreignRequests).toEqual([]);
   });
 });

@@ -3,17 +3,13 @@
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { openSession } from './harness.ts';
-import type { Session } from './harness.ts';
+import { AppUnderTest } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const supplier = [...demoBook().suppliers].sort((a, b) => a.name.localeCompare(b.name))[0]!;
 
-let session: Session | undefined;
-afterEach(async () => {
-  await session?.close();
-  session = undefined;
-});
+const app = new AppUnderTest(baseUrl);
+afterEach(() => app.close());
 
 function row(page: Page) {
   return page.locator(`[data-testid="suppliers-table"] tbody tr[data-id="${supplier.id}"]`);
@@ -26,7 +22,7 @@ async function editNotes(page: Page, notes: string): Promise<void> {
 
 describe('two tabs on one Book', () => {
   it('shows an edit from one tab in the other and refuses a save from a stale copy', async () => {
-    session = await openSession(baseUrl);
+    const session = await app.start();
     const first = session.page;
     await first.goto(`${baseUrl}#/suppliers`);
     await row(first).waitFor();
@@ -68,7 +64,7 @@ describe('two tabs on one Book', () => {
   });
 
   it('stops saving and asks to reload when another tab upgrades the Book storage', async () => {
-    session = await openSession(baseUrl);
+    const session = await app.start();
     const first = session.page;
     await first.goto(`${baseUrl}#/suppliers`);
     await row(first).waitFor();

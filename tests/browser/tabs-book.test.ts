@@ -3,30 +3,20 @@
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { openSession } from './harness.ts';
+import { AppUnderTest, saved } from './harness.ts';
 import type { Session } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
 
-let session: Session | undefined;
-afterEach(async () => {
-  await session?.close();
-  session = undefined;
-});
-
-async function saved(page: Page): Promise<void> {
-  await page.locator('rb-save-state [data-state="saved"]').waitFor();
-}
+const app = new AppUnderTest(baseUrl);
+afterEach(() => app.close());
 
 async function twoTabs(hash: string): Promise<{ a: Page; b: Page; s: Session }> {
-  const s = await openSession(baseUrl);
-  session = s;
-  await s.page.goto(`${baseUrl}${hash}`);
-  await s.page.locator('[data-testid="parts-table"]').waitFor();
+  const ready = '[data-testid="parts-table"]';
+  const s = await app.open(hash, { ready });
   const b = await s.context.newPage();
-  await b.goto(`${baseUrl}${hash}`);
-  await b.locator('[data-testid="parts-table"]').waitFor();
+  await app.goto(b, hash, ready);
   return { a: s.page, b, s };
 }
 
