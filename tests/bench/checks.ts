@@ -95,10 +95,14 @@ export const checksSection: BenchSection = {
     log('checks: large family');
     const large = checksFamily(CHECKS_FAMILY.large);
     f['checks_large_family'] = `${large.variants.length} variants × ${large.checks.length} checks`;
-    const big = openAndRead(large);
-    f['checks_large_open_ms'] = round(big.ms);
-    if (big.results.length !== large.variants.length * large.checks.length) throw new Error('the large family did not give a result per variant and check');
-    big.session.close();
+    const larges: number[] = [];
+    for (let i = 0; i < (quick ? 1 : 3); i++) {
+      const big = openAndRead(large);
+      larges.push(big.ms);
+      big.session.close();
+      if (big.results.length !== large.variants.length * large.checks.length) throw new Error('the large family did not give a result per variant and check');
+    }
+    f['checks_large_open_ms'] = round(median(larges));
     return f;
   },
 };
