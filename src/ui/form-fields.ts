@@ -1,4 +1,5 @@
-// Template helpers for record forms: a labelled input with its hint and its problem message beside it.
+// Template helpers for record forms: a labelled input with its hint and its problem message beside it, and the
+// pieces every record form and record table shares (save refusals, the summary of problems, delete asked in place).
 import { html, nothing } from 'lit';
 import type { TemplateResult } from 'lit';
 import { live } from 'lit/directives/live.js';
@@ -76,4 +77,40 @@ export function group(title: string): TemplateResult {
 export async function focusFirstProblem(host: { updateComplete: Promise<boolean>; renderRoot: HTMLElement | DocumentFragment }): Promise<void> {
   await host.updateComplete;
   host.renderRoot.querySelector<HTMLElement>('[aria-invalid="true"]')?.focus();
+}
+
+/** Beside a form's buttons while any field has a problem: the one summary every record form gives. */
+export function nothingSaved(problems: object): TemplateResult | '' {
+  return Object.keys(problems).length ? html`<span class="problem" role="alert">Nothing saved: fix the marked fields.</span>` : '';
+}
+
+/** A save the Book service refused, above the form; a conflict (the record changed elsewhere) offers to start again. */
+export function saveRefusal(saveError: string | undefined, conflict: boolean | undefined, onRestart: () => void): TemplateResult | '' {
+  return saveError
+    ? html`<p class="notice" role="alert">
+        ${saveError}
+        ${conflict ? html`<button type="button" @click=${onRestart}>Start again from the saved version</button>` : ''}
+      </p>`
+    : '';
+}
+
+export interface RowActions {
+  /** Whether this row's delete is being asked about. */
+  confirming: boolean;
+  /** The question asked, such as `Delete R12?`. */
+  question: string;
+  onDelete: () => void;
+  onKeep: () => void;
+  onEdit: () => void;
+  onAskDelete: () => void;
+}
+
+/** A record row's edit and delete buttons; a delete is asked in place, with Delete and Keep. */
+export function rowActions(o: RowActions): TemplateResult {
+  return o.confirming
+    ? html`${o.question}
+        <button type="button" class="danger" @click=${o.onDelete}>Delete</button>
+        <button type="button" class="quiet" @click=${o.onKeep}>Keep</button>`
+    : html`<button type="button" class="quiet" @click=${o.onEdit}>edit</button>
+        <button type="button" class="quiet" @click=${o.onAskDelete}>delete</button>`;
 }

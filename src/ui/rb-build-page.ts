@@ -10,7 +10,7 @@ import { ROLES, VARIANT_PARAMS } from '../domain/params.ts';
 import type { FamilyResolution } from '../engine/family.ts';
 import { BookController } from './book-context.ts';
 import { CostingService } from './costing-service.ts';
-import { field, fieldId, focusFirstProblem } from './form-fields.ts';
+import { field, fieldId, focusFirstProblem, nothingSaved } from './form-fields.ts';
 import type { FieldProblems } from './record-forms.ts';
 import { buildLineDraft, lineOutcomes, moveLine, orderedLines, trialLine, validateBuildLine } from './rb-build-rules.ts';
 import type { BuildLineDraft, LineOutcome } from './rb-build-rules.ts';
@@ -398,7 +398,7 @@ export class RbBuildPage extends LitElement {
         <div class="actions">
           <button type="submit" class="primary">${e.line ? 'Save the line' : 'Add the line'}</button>
           <button type="button" @click=${() => (this.editing = undefined)}>Cancel</button>
-          ${Object.keys(p).length ? html`<span class="problem" role="alert">Nothing saved: fix the marked fields.</span>` : ''}
+          ${nothingSaved(p)}
         </div>
       </form>
     </section>`;

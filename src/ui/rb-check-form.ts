@@ -12,7 +12,7 @@ import type { CheckResult } from '../engine/family.ts';
 import { formulaBody, nameKey, tokenizeFormula } from '../engine/formula-names.ts';
 import { guardFormula } from '../engine/formula-guard.ts';
 import { BookController } from './book-context.ts';
-import { field, fieldId } from './form-fields.ts';
+import { field, fieldId, nothingSaved } from './form-fields.ts';
 import type { FieldProblems } from './record-forms.ts';
 import { checkFormulaNames } from './rb-formula-input.ts';
 import type { NameHint } from './rb-formula-input.ts';
@@ -282,7 +282,7 @@ export class RbCheckForm extends LitElement {
       <div class="actions">
         <button type="submit" class="primary">${c ? 'Save the check' : 'Add the check'}</button>
         <button type="button" @click=${() => this.dispatchEvent(new CustomEvent('check-cancel', { bubbles: true, composed: true }))}>Cancel</button>
-        ${Object.keys(p).length ? html`<span class="problem" role="alert">Nothing saved: fix the marked fields.</span>` : ''}
+        ${nothingSaved(p)}
       </div>
     </form>`;
   }

@@ -11,7 +11,7 @@ import { guardText } from '../domain/tsv.ts';
 import { formatValue } from '../domain/units.ts';
 import { BookController } from './book-context.ts';
 import { CostingService } from './costing-service.ts';
-import { field, focusFirstProblem, group } from './form-fields.ts';
+import { field, focusFirstProblem, group, nothingSaved, saveRefusal } from './form-fields.ts';
 import './rb-grid.ts';
 import type { GridCell, GridClearDetail, GridColumn, GridCommitDetail, GridPasteDetail, GridRow, RbGrid } from './rb-grid.ts';
 import { COLUMN_KINDS, duplicateVariants, editVariant, planClear, planPaste } from './rb-grid-edits.ts';
@@ -627,12 +627,7 @@ export class RbFamilyPage extends LitElement {
         Values take engineering notation with or without the unit (230, 230 V, 470n, 0.47 uF, 4k7); fractions may be
         written as percentages (10 %). Leave a parameter blank to remove it.
       </p>
-      ${e.saveError
-        ? html`<p class="notice" role="alert">
-            ${e.saveError}
-            ${e.conflict ? html`<button type="button" @click=${this.restartFromStored}>Start again from the saved version</button>` : ''}
-          </p>`
-        : ''}
+      ${saveRefusal(e.saveError, e.conflict, this.restartFromStored)}
       <form class="record" novalidate @submit=${(ev: Event) => this.submit(ev, book)} aria-label="Variant">
         ${field({ name: 'code', label: 'code', value: d.code, problem: e.problems.code, hint: 'short code, unique in the Book', onInput: (v) => set({ code: v }) })}
         ${field({ name: 'name', label: 'name', value: d.name, problem: e.problems.name, onInput: (v) => set({ name: v }) })}
@@ -657,9 +652,7 @@ export class RbFamilyPage extends LitElement {
         <div class="actions">
           <button type="submit" class="primary">${e.variant ? 'Save the variant' : 'Add the variant'}</button>
           <button type="button" @click=${() => (this.editing = undefined)}>Cancel</button>
-          ${Object.keys(e.problems).length
-            ? html`<span class="problem" role="alert">Nothing saved: fix the marked fields.</span>`
-            : ''}
+          ${nothingSaved(e.problems)}
         </div>
       </form>
     </section>`;

@@ -16,7 +16,7 @@ import type { Delimiter } from '../io/price-read.ts';
 import type { AnalyseOptions, PriceAnalysis } from '../io/price-validate.ts';
 import { runPriceImportInWorker } from '../io/price-worker-client.ts';
 import { BookController } from './book-context.ts';
-import { field } from './form-fields.ts';
+import { field, nothingSaved } from './form-fields.ts';
 import type { FieldProblems, SupplierDraft } from './record-forms.ts';
 import { supplierDraft, validateSupplier } from './record-forms.ts';
 import './rb-import-batches.ts';
@@ -310,7 +310,7 @@ export class RbImportPage extends LitElement {
       ${ns.saveError ? html`<p class="notice" role="alert" style="grid-column: 1 / -1">${ns.saveError}</p>` : ''}
       <div class="actions">
         <button type="submit" class="primary">Create the supplier</button>
-        ${Object.keys(ns.problems).length ? html`<span class="problem" role="alert">Nothing saved: fix the marked fields.</span>` : ''}
+        ${nothingSaved(ns.problems)}
       </div>
     </form>`;
   }

@@ -7,7 +7,7 @@ import { PART_KINDS, newId } from '../domain/book.ts';
 import { PART_RATINGS } from '../domain/params.ts';
 import { formatValue } from '../domain/units.ts';
 import { BookController } from './book-context.ts';
-import { field, focusFirstProblem, group } from './form-fields.ts';
+import { field, focusFirstProblem, group, nothingSaved, rowActions, saveRefusal } from './form-fields.ts';
 import type { FieldProblems, PartDraft } from './record-forms.ts';
 import { KIND_VALUE_UNITS, partDraft, partUsers, validatePart } from './record-forms.ts';
 import { pageStyles } from './styles.ts';
@@ -112,12 +112,14 @@ export class RbPartsPage extends LitElement {
       <td class="nowrap">${p.package}</td>
       <td class="ratings">${ratingsText(p)}</td>
       <td class="acts">
-        ${confirming
-          ? html`Delete ${p.mpn}?
-              <button type="button" class="danger" @click=${() => this.delete(p)}>Delete</button>
-              <button type="button" class="quiet" @click=${() => (this.confirmDelete = undefined)}>Keep</button>`
-          : html`<button type="button" class="quiet" @click=${() => this.startEdit(p)}>edit</button>
-              <button type="button" class="quiet" @click=${() => this.askDelete(book, p)}>delete</button>`}
+        ${rowActions({
+          confirming,
+          question: `Delete ${p.mpn}?`,
+          onDelete: () => this.delete(p),
+          onKeep: () => (this.confirmDelete = undefined),
+          onEdit: () => this.startEdit(p),
+          onAskDelete: () => this.askDelete(book, p),
+        })}
         ${problem ? html`<div class="problem" role="alert">${problem}</div>` : ''}
       </td>
     </tr>`;
@@ -133,12 +135,7 @@ export class RbPartsPage extends LitElement {
     return html`<section class="sheet" aria-labelledby="part-form-h">
       <h2 id="part-form-h">${e.part ? `Edit part ${e.part.mpn}` : 'New part'}</h2>
       <p class="why">Values take engineering notation or RKM codes: 4.7 kΩ, 4k7, 330 nF, 0.47 uF, 600 V.</p>
-      ${e.saveError
-        ? html`<p class="notice" role="alert">
-            ${e.saveError}
-            ${e.conflict ? html`<button type="button" @click=${this.restartFromStored}>Start again from the saved version</button>` : ''}
-          </p>`
-        : ''}
+      ${saveRefusal(e.saveError, e.conflict, this.restartFromStored)}
       <form class="record" novalidate @submit=${(ev: Event) => this.submit(ev, book)} aria-label="Part">
         ${field({ name: 'mpn', label: 'mpn', value: d.mpn, problem: e.problems.mpn, hint: 'maker part number, unique in the Book', onInput: (v) => set({ mpn: v }) })}
         ${field({ name: 'maker', label: 'maker', value: d.maker, problem: e.problems.maker, onInput: (v) => set({ maker: v }) })}
@@ -170,9 +167,7 @@ export class RbPartsPage extends LitElement {
         <div class="actions">
           <button type="submit" class="primary">${e.part ? 'Save the part' : 'Add the part'}</button>
           <button type="button" @click=${() => (this.editing = undefined)}>Cancel</button>
-          ${Object.keys(e.problems).length
-            ? html`<span class="problem" role="alert">Nothing saved: fix the marked fields.</span>`
-            : ''}
+          ${nothingSaved(e.problems)}
         </div>
       </form>
     </section>`;

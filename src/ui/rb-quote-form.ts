@@ -7,7 +7,7 @@ import { live } from 'lit/directives/live.js';
 import type { Book, Quote } from '../domain/book.ts';
 import { newId } from '../domain/book.ts';
 import { todayIso } from '../domain/costing.ts';
-import { field, group } from './form-fields.ts';
+import { field, group, nothingSaved } from './form-fields.ts';
 import type { QuoteDraft, QuoteProblems } from './rb-quote-text.ts';
 import { quoteDraft, validateQuote } from './rb-quote-text.ts';
 import { pageStyles } from './styles.ts';
@@ -115,7 +115,7 @@ export class RbQuoteForm extends LitElement {
         <div class="actions">
           <button type="submit" class="primary">${q ? 'Save the quote' : 'Add the quote'}</button>
           <button type="button" @click=${this._onCancel}>Cancel</button>
-          ${Object.keys(this.problems).length ? html`<span class="problem" role="alert">Nothing saved: fix the marked fields.</span>` : ''}
+          ${nothingSaved(this.problems)}
         </div>
       </form>
     </section>`;

@@ -6,6 +6,7 @@ import type { Book, Part, Quote, Supplier } from '../domain/book.ts';
 import { todayIso } from '../domain/costing.ts';
 import { currentQuoteIndex, supersede } from '../domain/quotes.ts';
 import { BookController } from './book-context.ts';
+import { rowActions } from './form-fields.ts';
 import './rb-import-batches.ts';
 import './rb-quote-form.ts';
 import type { QuoteSubmitDetail } from './rb-quote-form.ts';
@@ -221,12 +222,14 @@ export class RbQuotesPage extends LitElement {
       <td class="code">${q.supplierCode}</td>
       <td class="code">${q.source}</td>
       <td class="acts">
-        ${confirming
-          ? html`Delete this quote?
-              <button type="button" class="danger" @click=${() => this.delete(q)}>Delete</button>
-              <button type="button" class="quiet" @click=${() => (this.confirmDelete = undefined)}>Keep</button>`
-          : html`<button type="button" class="quiet" @click=${() => this.startEdit(q)}>edit</button>
-              <button type="button" class="quiet" @click=${() => this.askDelete(q)}>delete</button>`}
+        ${rowActions({
+          confirming,
+          question: `Delete this quote?`,
+          onDelete: () => this.delete(q),
+          onKeep: () => (this.confirmDelete = undefined),
+          onEdit: () => this.startEdit(q),
+          onAskDelete: () => this.askDelete(q),
+        })}
         ${problem ? html`<div class="problem" role="alert">✗ ${problem}</div>` : ''}
       </td>
     </tr>`;

@@ -7,7 +7,7 @@ import { newId } from '../domain/book.ts';
 import { runDraft, validateRun } from '../domain/freeze.ts';
 import type { RunDraft, RunProblems } from '../domain/freeze.ts';
 import { BookController } from './book-context.ts';
-import { field, focusFirstProblem } from './form-fields.ts';
+import { field, focusFirstProblem, nothingSaved, rowActions, saveRefusal } from './form-fields.ts';
 import './rb-run-detail.ts';
 import { pageStyles } from './styles.ts';
 
@@ -101,12 +101,14 @@ export class RbRunsPage extends LitElement {
       <td class="state">${r.frozen ? html`❄ frozen ${r.frozen.at.slice(0, 10)}` : html`↻ live`}</td>
       <td class="notes">${r.notes}</td>
       <td class="acts">
-        ${confirming
-          ? html`Delete ${r.name}?
-              <button type="button" class="danger" @click=${() => this.delete(r)}>Delete</button>
-              <button type="button" class="quiet" @click=${() => (this.confirmDelete = undefined)}>Keep</button>`
-          : html`<button type="button" class="quiet" @click=${() => this.startEdit(book, r)}>edit</button>
-              <button type="button" class="quiet" @click=${() => this.askDelete(r)}>delete</button>`}
+        ${rowActions({
+          confirming,
+          question: `Delete ${r.name}?`,
+          onDelete: () => this.delete(r),
+          onKeep: () => (this.confirmDelete = undefined),
+          onEdit: () => this.startEdit(book, r),
+          onAskDelete: () => this.askDelete(r),
+        })}
         ${problem ? html`<div class="problem" role="alert">${problem}</div>` : ''}
       </td>
     </tr>`;
@@ -126,12 +128,7 @@ export class RbRunsPage extends LitElement {
           ? 'This run is frozen: its variant and quantity stay as costed until you unfreeze it.'
           : 'The run is costed from the Book’s quotes as soon as it is saved.'}
       </p>
-      ${e.saveError
-        ? html`<p class="notice" role="alert">
-            ${e.saveError}
-            ${e.conflict ? html`<button type="button" @click=${this.restartFromStored}>Start again from the saved version</button>` : ''}
-          </p>`
-        : ''}
+      ${saveRefusal(e.saveError, e.conflict, this.restartFromStored)}
       <form class="record" novalidate @submit=${(ev: Event) => this.submit(ev, book)} aria-label="Run">
         ${field({ name: 'name', label: 'name', value: d.name, problem: e.problems.name, hint: 'for example “Spring 2027 FR4”', onInput: (v) => set({ name: v }) })}
         ${field({
@@ -149,7 +146,7 @@ export class RbRunsPage extends LitElement {
         <div class="actions">
           <button type="submit" class="primary">${e.run ? 'Save the run' : 'Add the run'}</button>
           <button type="button" @click=${() => (this.editing = undefined)}>Cancel</button>
-          ${Object.keys(e.problems).length ? html`<span class="problem" role="alert">Nothing saved: fix the marked fields.</span>` : ''}
+          ${nothingSaved(e.problems)}
         </div>
       </form>
     </section>`;

@@ -8,7 +8,7 @@ import { live } from 'lit/directives/live.js';
 import type { Book, Settings } from '../domain/book.ts';
 import { PART_KINDS } from '../domain/book.ts';
 import { BookController } from './book-context.ts';
-import { field, fieldId, focusFirstProblem, group } from './form-fields.ts';
+import { field, fieldId, focusFirstProblem, group, nothingSaved } from './form-fields.ts';
 import type { FieldProblems } from './record-forms.ts';
 import { COST_SETTINGS, settingsDraft, validateSettings } from './rb-build-costing.ts';
 import type { SettingsDraft } from './rb-build-costing.ts';
@@ -186,7 +186,7 @@ export class RbSettingsPage extends LitElement {
         <div class="actions">
           <button type="submit" class="primary" ?disabled=${!this.dirty}>Save the settings</button>
           <button type="button" ?disabled=${!this.dirty} @click=${() => this.restart(book)}>Undo my changes</button>
-          ${Object.keys(p).length ? html`<span class="problem" role="alert">Nothing saved: fix the marked fields.</span>` : ''}
+          ${nothingSaved(p)}
           ${this.savedAt ? html`<span class="saved" role="status" data-testid="settings-saved">Saved.</span>` : ''}
         </div>
       </form>

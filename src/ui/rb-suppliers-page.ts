@@ -5,7 +5,7 @@ import { customElement, state } from 'lit/decorators.js';
 import type { Book, Supplier } from '../domain/book.ts';
 import { newId } from '../domain/book.ts';
 import { BookController } from './book-context.ts';
-import { field, focusFirstProblem } from './form-fields.ts';
+import { field, focusFirstProblem, nothingSaved, rowActions, saveRefusal } from './form-fields.ts';
 import type { FieldProblems, SupplierDraft } from './record-forms.ts';
 import { supplierDraft, supplierUsers, validateSupplier } from './record-forms.ts';
 import { pageStyles } from './styles.ts';
@@ -76,12 +76,14 @@ export class RbSuppliersPage extends LitElement {
       <td>${s.mapping ? `saved (${Object.keys(s.mapping.columns).length} columns, ${s.mapping.layout})` : '—'}</td>
       <td>${s.notes}</td>
       <td class="acts">
-        ${confirming
-          ? html`Delete ${s.name}?
-              <button type="button" class="danger" @click=${() => this.delete(s)}>Delete</button>
-              <button type="button" class="quiet" @click=${() => (this.confirmDelete = undefined)}>Keep</button>`
-          : html`<button type="button" class="quiet" @click=${() => this.startEdit(book, s)}>edit</button>
-              <button type="button" class="quiet" @click=${() => this.askDelete(book, s)}>delete</button>`}
+        ${rowActions({
+          confirming,
+          question: `Delete ${s.name}?`,
+          onDelete: () => this.delete(s),
+          onKeep: () => (this.confirmDelete = undefined),
+          onEdit: () => this.startEdit(book, s),
+          onAskDelete: () => this.askDelete(book, s),
+        })}
         ${problem ? html`<div class="problem" role="alert">${problem}</div>` : ''}
       </td>
     </tr>`;
@@ -97,12 +99,7 @@ export class RbSuppliersPage extends LitElement {
     return html`<section class="sheet" aria-labelledby="supplier-form-h">
       <h2 id="supplier-form-h">${e.supplier ? `Edit supplier ${e.supplier.name}` : 'New supplier'}</h2>
       <p class="why">The rate is shared by every supplier in that currency; changing it here changes it for all of them.</p>
-      ${e.saveError
-        ? html`<p class="notice" role="alert">
-            ${e.saveError}
-            ${e.conflict ? html`<button type="button" @click=${this.restartFromStored}>Start again from the saved version</button>` : ''}
-          </p>`
-        : ''}
+      ${saveRefusal(e.saveError, e.conflict, this.restartFromStored)}
       <form class="record" novalidate @submit=${(ev: Event) => this.submit(ev, book)} aria-label="Supplier">
         ${field({ name: 'name', label: 'name', value: d.name, problem: e.problems.name, hint: 'unique in the Book', onInput: (v) => set({ name: v }) })}
         ${field({
@@ -133,9 +130,7 @@ export class RbSuppliersPage extends LitElement {
         <div class="actions">
           <button type="submit" class="primary">${e.supplier ? 'Save the supplier' : 'Add the supplier'}</button>
           <button type="button" @click=${() => (this.editing = undefined)}>Cancel</button>
-          ${Object.keys(e.problems).length
-            ? html`<span class="problem" role="alert">Nothing saved: fix the marked fields.</span>`
-            : ''}
+          ${nothingSaved(e.problems)}
         </div>
       </form>
     </section>`;
