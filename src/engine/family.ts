@@ -19,6 +19,7 @@ import { PART_RATINGS } from '../domain/params.ts';
 import { CHECK_STATUS, judge } from '../domain/check-status.ts';
 import type { CheckStatus, CheckValue, RuleLimits } from '../domain/check-status.ts';
 import { ENGINE_DEFAULTS, registerRungbookFunctions } from './create.ts';
+import { guardFormula } from './formula-guard.ts';
 import { TOKEN_KIND, constantNumber, formulaNames, nameKey, rewriteFormula, soleName, tokenizeFormula, formulaBody } from './formula-names.ts';
 
 /** One build line as it stands for one variant. `partId` is null where no part could be chosen. */
@@ -313,6 +314,10 @@ export class FamilyWorkbook {
   }
 
   private compile(formula: string, lookup: (key: string) => string | undefined): Compiled {
+    // Rules and checks from a Book file or a form never reach the engine when they are too long, too deep or range
+    // over too many cells: such a formula could freeze the page or overflow the engine's stack.
+    const guard = guardFormula(formula);
+    if (!guard.ok) return { ok: false, error: guard.refusal.message };
     const names = formulaNames(formula);
     if (!names.ok) return { ok: false, error: names.error };
     // Names nobody has become NA() so an applies rule or an untaken IF branch still decides; the result then
@@ -906,6 +911,8 @@ export class FamilyWorkbook {
     if (body === '') return { ok: false, error: 'the formula is empty' };
     const t = tokenizeFormula(body);
     if (!t.ok) return { ok: false, error: t.error };
+    const guard = guardFormula(body);
+    if (!guard.ok) return { ok: false, error: guard.refusal.message };
     const updated: Check = { ...this.checks[i]!, formula: body };
     this.checks = this.checks.map((c, j) => (j === i ? updated : c));
     const cc = this.checkCells[i]!;
