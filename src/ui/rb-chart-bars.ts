@@ -4,6 +4,7 @@
 import { LitElement, css, html, svg } from 'lit';
 import type { SVGTemplateResult, TemplateResult } from 'lit';
 import { customElement, property } from 'lit/decorators.js';
+import { chartFigure, chartStyles, niceStep } from './chart-parts.ts';
 
 export interface BarSeries {
   key: string;
@@ -23,15 +24,6 @@ const TONES = ['#1f6f5c', '#8a5a00', '#3d5a80', '#7a3e65', '#5d625f', '#a1261b',
 const FILLS = ['solid', 'hatch', 'dots', 'cross', 'hlines', 'vlines', 'back', 'grid', 'zigzag'] as const;
 
 let instance = 0;
-
-/** Round step for an axis: 1, 2 or 5 times a power of ten giving about `count` ticks up to `max`. */
-export function niceStep(max: number, count = 5): number {
-  if (!(max > 0)) return 1;
-  const raw = max / count;
-  const p = 10 ** Math.floor(Math.log10(raw));
-  const m = raw / p;
-  return (m <= 1 ? 1 : m <= 2 ? 2 : m <= 5 ? 5 : 10) * p;
-}
 
 function patternDef(id: string, i: number): SVGTemplateResult {
   const tone = TONES[i % TONES.length]!;
@@ -72,75 +64,60 @@ function patternDef(id: string, i: number): SVGTemplateResult {
 
 @customElement('rb-chart-bars')
 export class RbChartBars extends LitElement {
-  static override styles = css`
-    :host {
-      display: block;
-      font-variant-numeric: tabular-nums;
-    }
-    svg {
-      width: 100%;
-      max-width: 60rem;
-      height: auto;
-      font-family: var(--rb-font);
-    }
-    text {
-      fill: var(--rb-ink);
-      font-size: 12px;
-    }
-    text.num {
-      font-family: var(--rb-mono);
-      font-size: 11px;
-    }
-    text.seg {
-      font-family: var(--rb-mono);
-      font-size: 10px;
-      paint-order: stroke;
-      stroke: var(--rb-sheet);
-      stroke-width: 3px;
-    }
-    line.tick {
-      stroke: var(--rb-rule);
-    }
-    ul.legend {
-      list-style: none;
-      display: flex;
-      flex-wrap: wrap;
-      gap: 0.3rem 1rem;
-      padding: 0;
-      margin: 0.4rem 0 0;
-      font-size: 0.84rem;
-    }
-    ul.legend svg {
-      width: 1.1rem;
-      height: 0.8rem;
-      vertical-align: -0.1rem;
-      margin-right: 0.3rem;
-      border: 1px solid var(--rb-ink);
-    }
-    details {
-      margin-top: 0.5rem;
-      font-size: 0.84rem;
-    }
-    table {
-      border-collapse: collapse;
-      font-variant-numeric: tabular-nums;
-    }
-    th,
-    td {
-      padding: 0.15rem 0.5rem;
-      border-bottom: 1px solid var(--rb-rule);
-      text-align: right;
-    }
-    th:first-child,
-    td:first-child {
-      text-align: left;
-    }
-    th {
-      font-family: var(--rb-mono);
-      font-size: 0.76rem;
-      color: var(--rb-accent-ink);
-    }
-  `;
+  static override styles = [
+    chartStyles,
+    css`
+      text.seg {
+        font-family: var(--rb-mono);
+        font-size: 10px;
+        paint-order: stroke;
+        stroke: var(--rb-sheet);
+        stroke-width: 3px;
+      }
+      line.tick {
+        stroke: var(--rb-rule);
+      }
+      ul.legend {
+        list-style: none;
+        display: flex;
+        flex-wrap: wrap;
+        gap: 0.3rem 1rem;
+        padding: 0;
+        margin: 0.4rem 0 0;
+        font-size: 0.84rem;
+      }
+      ul.legend svg {
+        width: 1.1rem;
+        height: 0.8rem;
+        vertical-align: -0.1rem;
+        margin-right: 0.3rem;
+        border: 1px solid var(--rb-ink);
+      }
+      details {
+        margin-top: 0.5rem;
+        font-size: 0.84rem;
+      }
+      table {
+        border-collapse: collapse;
+        font-variant-numeric: tabular-nums;
+      }
+      th,
+      td {
+        padding: 0.15rem 0.5rem;
+        border-bottom: 1px solid var(--rb-rule);
+        text-align: right;
+      }
+      th:first-child,
+      td:first-child {
+        text-align: left;
+      }
+      th {
+        font-family: var(--rb-mono);
+        font-size: 0.76rem;
+        color: var(--rb-accent-ink);
+      }
+    `,
+  ];
 
   @property({ attribute: false }) series: BarSeries[] = [];
   @property({ attribute: false }) rows: BarRow[] = [];
@@ -154,7 +131,7 @@ export class RbChartBars extends LitElement {
   private readonly uid = `bars${++instance}`;
 
   private fmt(n: number): string {
-    return n.toLocaleString('en-GB', { minimumFractionDigits: this.digits, maximumFractionDigits: this.digits });
+    return chartFigure(n, this.digits);
   }
 
   override render(): TemplateResult {

@@ -4,7 +4,7 @@
 import { LitElement, css, html, svg } from 'lit';
 import type { SVGTemplateResult, TemplateResult } from 'lit';
 import { customElement, property } from 'lit/decorators.js';
-import { niceStep } from './rb-chart-bars.ts';
+import { chartFigure, chartStyles, niceStep } from './chart-parts.ts';
 
 export interface CurvePoint {
   x: number;
@@ -62,41 +62,26 @@ export function spreadLabels(ys: number[], gap: number, min: number, max: number
 
 @customElement('rb-chart-curves')
 export class RbChartCurves extends LitElement {
-  static override styles = css`
-    :host {
-      display: block;
-      font-variant-numeric: tabular-nums;
-    }
-    svg {
-      width: 100%;
-      max-width: 60rem;
-      height: auto;
-      font-family: var(--rb-font);
-    }
-    text {
-      fill: var(--rb-ink);
-      font-size: 12px;
-    }
-    text.num {
-      font-family: var(--rb-mono);
-      font-size: 11px;
-    }
-    text.name {
-      font-family: var(--rb-mono);
-      font-size: 11px;
-      font-weight: 600;
-    }
-    line.grid {
-      stroke: var(--rb-rule);
-    }
-    line.mark {
-      stroke: var(--rb-accent);
-      stroke-dasharray: 1 3;
-    }
-    line.axis {
-      stroke: var(--rb-ink);
-    }
-  `;
+  static override styles = [
+    chartStyles,
+    css`
+      text.name {
+        font-family: var(--rb-mono);
+        font-size: 11px;
+        font-weight: 600;
+      }
+      line.grid {
+        stroke: var(--rb-rule);
+      }
+      line.mark {
+        stroke: var(--rb-accent);
+        stroke-dasharray: 1 3;
+      }
+      line.axis {
+        stroke: var(--rb-ink);
+      }
+    `,
+  ];
 
   @property({ attribute: false }) series: CurveSeries[] = [];
   /** Run sizes to mark with a guide (the Book's run sizes). */
@@ -107,7 +92,7 @@ export class RbChartCurves extends LitElement {
   @property({ type: Number }) digits = 2;
 
   private fmt(n: number): string {
-    return n.toLocaleString('en-GB', { minimumFractionDigits: this.digits, maximumFractionDigits: this.digits });
+    return chartFigure(n, this.digits);
   }
 
   override render(): TemplateResult {
