@@ -107,6 +107,9 @@ function fromStoredPart(p: StoredPart): Part {
   return part;
 }
 
+/** Above this many edited records in one store, their revisions are checked from one read of the whole store. */
+const BULK_REVISION_READ = 500;
+
 /** Turns whatever a failed write produced into one of our clear errors. */
 function writeError(e: unknown, tx: IDBTransaction | undefined): Error {
   if (e instanceof RevisionConflict || e instanceof StorageFull || e instanceof StoreWriteFailed) return e;
@@ -188,10 +191,25 @@ export class IdbBookStore implements BookStore {
     try {
       const reads: Promise<RevisionConflict | undefined>[] = [];
       for (const c of collections) {
-        for (const r of change.put?.[c] ?? []) {
-          // New records (rev 0) are written with add(), which fails on an existing key: no read needed, which keeps
-          // a 50,000-quote import to one request per record.
-          if (r.rev === 0) continue;
+        // New records (rev 0) are written with add(), which fails on an existing key: no read needed, which keeps
+        // a 50,000-quote import to one request per record.
+        const edited = (change.put?.[c] ?? []).filter((r) => r.rev !== 0);
+        if (edited.length > BULK_REVISION_READ) {
+          // Many edited records (an import superseding thousands of quotes): one getAll of the store, compared in
+          // memory, costs far less than a request per record.
+          reads.push(
+            tx.objectStore(c).getAll().then((all) => {
+              const revs = new Map<string, number>(all.map((x) => [x.id, x.rev]));
+              for (const r of edited) {
+                const stored = revs.get(r.id);
+                if (!revisionMatches(stored, r.rev)) return new RevisionConflict(c, r.id, stored ?? 0, r.rev);
+              }
+              return undefined;
+            }),
+          );
+          continue;
+        }
+        for (const r of edited) {
           reads.push(
             tx.objectStore(c).get(r.id).then((stored) =>
               revisionMatches(stored?.rev, r.rev) ? undefined : new RevisionConflict(c, r.id, stored?.rev ?? 0, r.rev),

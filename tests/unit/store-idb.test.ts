@@ -147,6 +147,25 @@ describe('apply', () => {
     expect((await tab2.load()).parts[0]!.notes).toBe('tab 1');
   });
 
+  it('checks the revisions of a large batch of edits from one read, and refuses the whole batch on one stale record', async () => {
+    const { store } = await fresh();
+    const parts = Array.from({ length: 800 }, (_, i) => newPart(`part_${i}`, `KT-BULK-${i}`));
+    await store.apply({ put: { parts } });
+    const before = await store.load();
+    expect(before.parts.every((p) => p.rev === 1)).toBe(true);
+    // All 800 edited at the revision they were read at: each is stored one higher.
+    await store.apply({ put: { parts: before.parts.map((p) => ({ ...p, notes: 'edited' })) } });
+    const after = await store.load();
+    expect(after.parts.every((p) => p.rev === 2 && p.notes === 'edited')).toBe(true);
+    // One record in 800 carries an old revision: the whole batch is refused and nothing changes.
+    const batch = after.parts.map((p, i) => ({ ...p, notes: 'again', rev: i === 613 ? 1 : p.rev }));
+    const err = await store.apply({ put: { parts: batch } }).catch((e: unknown) => e);
+    expect(err).toBeInstanceOf(RevisionConflict);
+    expect((err as RevisionConflict).recordId).toBe(batch[613]!.id);
+    expect((err as RevisionConflict).storedRev).toBe(2);
+    expect(await store.load()).toEqual(after);
+  });
+
   it('turns a quota failure in the middle of the writes into StorageFull and writes nothing', async () => {
     const { store } = await fresh();
     await store.replaceAll(sampleBook());
