@@ -16,7 +16,7 @@ import type { RunCosting } from '../io/run-export.ts';
 import { BookController } from './book-context.ts';
 import type { NoticeDetail } from './rb-book-menu.ts';
 import { downloadRunFile } from './rb-export-page.ts';
-import { printRunSheet, runSheetData } from './rb-run-sheet.ts';
+import { printRunSheet, runSheetData, runTotalRows } from './rb-run-sheet.ts';
 import { pageStyles } from './styles.ts';
 
 const money = (n: number): string => numberText({ n, kind: 'money' });
@@ -172,7 +172,6 @@ export class RbRunDetail extends LitElement {
   private renderBom(costing: RunCosting): TemplateResult {
     const bom = costing.bom;
     const cur = bom.currency;
-    const labels = costedTotalLabels(cur, costing.marginPct);
     return html`<section class="sheet" aria-labelledby="bom-h">
       <h2 id="bom-h">Costed BOM</h2>
       <p class="why">
@@ -228,15 +227,7 @@ export class RbRunDetail extends LitElement {
       </div>
       <table class="totals" data-testid="run-totals">
         <tbody>
-          <tr><td>${labels.material}</td><td class="num">${unit(bom.material)}</td></tr>
-          <tr><td>${labels.labour}</td><td class="num">${unit(bom.labour)}</td></tr>
-          <tr><td>${labels.test}</td><td class="num">${unit(bom.test)}</td></tr>
-          <tr><td>${labels.overhead}</td><td class="num">${unit(bom.overhead)}</td></tr>
-          <tr class="strong"><td>${labels.unitCost}</td><td class="num">${unit(bom.unitCost)}</td></tr>
-          <tr><td>${labels.price}</td><td class="num">${unit(bom.price)}</td></tr>
-          <tr><td>${labels.materialRun}</td><td class="num">${money(bom.materialRun)}</td></tr>
-          <tr class="strong"><td>${labels.runTotal}</td><td class="num">${money(bom.runTotal)}</td></tr>
-          <tr><td>${labels.leftoverValue}</td><td class="num">${money(bom.leftoverValue)}</td></tr>
+          ${runTotalRows(costing)}
         </tbody>
       </table>
       ${bom.complete ? '' : html`<p class="notice" role="alert">Incomplete: the lines marked not priced are missing from every total.</p>`}

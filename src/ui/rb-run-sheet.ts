@@ -2,6 +2,7 @@
 // the costed BOM and its totals. It lives directly in the document body so the print stylesheet (print.css) can
 // print it alone; `printRunSheet` fills it and opens the browser's print dialogue.
 import { LitElement, css, html } from 'lit';
+import type { TemplateResult } from 'lit';
 import { customElement, property } from 'lit/decorators.js';
 import type { Book, Run } from '../domain/book.ts';
 import { CHECK_STATUS, STATUS_SEVERITY, STATUS_SYMBOL } from '../domain/check-status.ts';
@@ -92,6 +93,21 @@ export async function printRunSheet(data: RunSheetData): Promise<void> {
 const money = (n: number): string => numberText({ n, kind: 'money' });
 const unit = (n: number): string => numberText({ n, kind: 'unit' });
 const price = (n: number): string => numberText({ n, kind: 'price' });
+
+/** The rows of a run's totals table, as both the run detail on screen and the printed run sheet show them. */
+export function runTotalRows(costing: RunCosting): TemplateResult {
+  const bom = costing.bom;
+  const labels = costedTotalLabels(bom.currency, costing.marginPct);
+  return html`<tr><td>${labels.material}</td><td class="num">${unit(bom.material)}</td></tr>
+    <tr><td>${labels.labour}</td><td class="num">${unit(bom.labour)}</td></tr>
+    <tr><td>${labels.test}</td><td class="num">${unit(bom.test)}</td></tr>
+    <tr><td>${labels.overhead}</td><td class="num">${unit(bom.overhead)}</td></tr>
+    <tr class="strong"><td>${labels.unitCost}</td><td class="num">${unit(bom.unitCost)}</td></tr>
+    <tr><td>${labels.price}</td><td class="num">${unit(bom.price)}</td></tr>
+    <tr><td>${labels.materialRun}</td><td class="num">${money(bom.materialRun)}</td></tr>
+    <tr class="strong"><td>${labels.runTotal}</td><td class="num">${money(bom.runTotal)}</td></tr>
+    <tr><td>${labels.leftoverValue}</td><td class="num">${money(bom.leftoverValue)}</td></tr>`;
+}
 
 @customElement('rb-run-sheet')
 export class RbRunSheet extends LitElement {
@@ -225,7 +241,6 @@ export class RbRunSheet extends LitElement {
     const bom = d.costing.bom;
     const c = bom.currency;
     const frozen = d.costing.frozen;
-    const labels = costedTotalLabels(c, d.costing.marginPct);
     const counts = STATUS_ORDER.map((s) => [s, d.checks.filter((x) => x.status === s).length] as const).filter(([, n]) => n > 0);
     const notable = d.checks.filter((x) => x.status !== CHECK_STATUS.pass && x.status !== CHECK_STATUS.na);
     return html`<article aria-label="Run sheet">
@@ -321,15 +336,7 @@ export class RbRunSheet extends LitElement {
       <h2>Totals</h2>
       <table class="totals" data-testid="sheet-totals">
         <tbody>
-          <tr><td>${labels.material}</td><td class="num">${unit(bom.material)}</td></tr>
-          <tr><td>${labels.labour}</td><td class="num">${unit(bom.labour)}</td></tr>
-          <tr><td>${labels.test}</td><td class="num">${unit(bom.test)}</td></tr>
-          <tr><td>${labels.overhead}</td><td class="num">${unit(bom.overhead)}</td></tr>
-          <tr class="strong"><td>${labels.unitCost}</td><td class="num">${unit(bom.unitCost)}</td></tr>
-          <tr><td>${labels.price}</td><td class="num">${unit(bom.price)}</td></tr>
-          <tr><td>${labels.materialRun}</td><td class="num">${money(bom.materialRun)}</td></tr>
-          <tr class="strong"><td>${labels.runTotal}</td><td class="num">${money(bom.runTotal)}</td></tr>
-          <tr><td>${labels.leftoverValue}</td><td class="num">${money(bom.leftoverValue)}</td></tr>
+          ${runTotalRows(d.costing)}
         </tbody>
       </table>
       ${bom.complete ? '' : html`<p class="problem">Incomplete: the lines marked NOT PRICED are missing from every total.</p>`}
