@@ -107,13 +107,3 @@ export function eDown(value: number, n: number): ESeriesResult {
   const found = [...members].reverse().find((m) => m <= value || same(m, value));
   return found === undefined ? { ok: false, error: `no E${n} value below ${value}` } : { ok: true, value: found };
 }
-
-/** Usual tolerance of each series (IEC 60063 guidance, not a rule), as a fraction; E3 has none listed. */
-export const E_SERIES_TOLERANCE: Readonly<Record<number, number>> = {
-  6: 0.2,
-  12: 0.1,
-  24: 0.05,
-  48: 0.02,
-  96: 0.01,
-  192: 0.005,
-};

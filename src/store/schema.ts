@@ -1,6 +1,5 @@
 // The IndexedDB layout of one Book as a typed idb schema, and how schema versions map to IndexedDB versions.
 import type { DBSchema } from 'idb';
-import { COLLECTIONS } from '../domain/book.ts';
 import type { BuildLine, Check, ImportBatch, NotebookPage, Part, Quote, Run, Settings, Supplier, Variant } from '../domain/book.ts';
 
 /** A part as stored: with its normalised maker part number, so look-ups by MPN use an index. */
@@ -50,9 +49,3 @@ export function idbVersionOf(schemaVersion: number): number {
 export function schemaVersionOf(idbVersion: number): number | undefined {
   return idbVersion === 0 ? undefined : idbVersion - IDB_VERSION_OFFSET;
 }
-
-/** The stores that hold record collections, keyed by `id` and named like the Book's collections. */
-export const RECORD_STORES = COLLECTIONS;
-
-/** Every store of schema 1. */
-export const ALL_STORES = [...RECORD_STORES, 'settings', 'meta'] as const;
