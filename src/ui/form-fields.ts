@@ -3,6 +3,7 @@
 import { html, nothing } from 'lit';
 import type { TemplateResult } from 'lit';
 import { live } from 'lit/directives/live.js';
+import type { NameHint } from './rb-formula-input.ts';
 
 export interface FieldOptions {
   /** Field key; also the input's name and the key of its problem message. */
@@ -67,6 +68,38 @@ export function field(o: FieldOptions): TemplateResult {
     ${o.problem
       ? html`<span class="problem" id="${id}-problem" data-problem-for=${o.name}>${o.problem}</span>`
       : html`<span class="hint" id="${id}-hint">${o.hint ?? ''}</span>`}`;
+}
+
+export interface FormulaFieldOptions {
+  /** Field key; also the key of its problem message. */
+  name: string;
+  label: string;
+  value: string;
+  /** Names offered while typing. */
+  names: readonly NameHint[];
+  problem?: string | undefined;
+  hint: string;
+  placeholder: string;
+  onInput: (value: string) => void;
+}
+
+/** A labelled formula input (rb-formula-input, which the form's page loads) with its hint or problem beside it. */
+export function formulaField(o: FormulaFieldOptions): TemplateResult {
+  const id = fieldId(o.name);
+  return html`<label for=${id}>${o.label}</label>
+    <rb-formula-input
+      id=${id}
+      data-field=${o.name}
+      .label=${o.label}
+      .value=${o.value}
+      .names=${o.names}
+      .placeholder=${o.placeholder}
+      ?invalid=${Boolean(o.problem)}
+      @formula-input=${(ev: CustomEvent<{ value: string }>) => o.onInput(ev.detail.value)}
+    ></rb-formula-input>
+    ${o.problem
+      ? html`<span class="problem" data-problem-for=${o.name} role="alert">${o.problem}</span>`
+      : html`<span class="hint">${o.hint}</span>`}`;
 }
 
 export function group(title: string): TemplateResult {

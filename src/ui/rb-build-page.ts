@@ -10,7 +10,7 @@ import { ROLES, VARIANT_PARAMS } from '../domain/params.ts';
 import type { FamilyResolution } from '../engine/family.ts';
 import { BookController } from './book-context.ts';
 import { CostingService } from './costing-service.ts';
-import { field, fieldId, focusFirstProblem, nothingSaved } from './form-fields.ts';
+import { field, fieldId, focusFirstProblem, formulaField, nothingSaved } from './form-fields.ts';
 import type { FieldProblems } from './record-forms.ts';
 import { buildLineDraft, lineOutcomes, moveLine, orderedLines, trialLine, validateBuildLine } from './rb-build-rules.ts';
 import type { BuildLineDraft, LineOutcome } from './rb-build-rules.ts';
@@ -312,23 +312,8 @@ export class RbBuildPage extends LitElement {
       this.editing = { ...this.editing, draft: { ...this.editing.draft, ...patch } };
       this.schedulePreview();
     };
-    const formula = (name: 'partRule' | 'qtyRule' | 'appliesWhen', label: string, hint: string, placeholder: string) => {
-      const id = fieldId(name);
-      return html`<label for=${id}>${label}</label>
-        <rb-formula-input
-          id=${id}
-          data-field=${name}
-          .label=${label}
-          .value=${d[name]}
-          .names=${this.names}
-          .placeholder=${placeholder}
-          ?invalid=${Boolean(p[name])}
-          @formula-input=${(ev: CustomEvent<{ value: string }>) => set({ [name]: ev.detail.value })}
-        ></rb-formula-input>
-        ${p[name]
-          ? html`<span class="problem" data-problem-for=${name} role="alert">${p[name]}</span>`
-          : html`<span class="hint">${hint}</span>`}`;
-    };
+    const formula = (name: 'partRule' | 'qtyRule' | 'appliesWhen', label: string, hint: string, placeholder: string) =>
+      formulaField({ name, label, value: d[name], names: this.names, problem: p[name], hint, placeholder, onInput: (v) => set({ [name]: v }) });
     const mpns = [...book.parts].sort((a, b) => a.mpn.localeCompare(b.mpn));
     return html`<section class="sheet" aria-labelledby="line-form-h">
       <h2 id="line-form-h">${e.line ? `Edit build line ${e.line.designators}` : 'New build line'}</h2>

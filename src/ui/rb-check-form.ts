@@ -12,7 +12,7 @@ import type { CheckResult } from '../engine/family.ts';
 import { formulaBody, nameKey, tokenizeFormula } from '../engine/formula-names.ts';
 import { guardFormula } from '../engine/formula-guard.ts';
 import { BookController } from './book-context.ts';
-import { field, fieldId, nothingSaved } from './form-fields.ts';
+import { field, formulaField, nothingSaved } from './form-fields.ts';
 import type { FieldProblems } from './record-forms.ts';
 import { checkFormulaNames } from './rb-formula-input.ts';
 import type { NameHint } from './rb-formula-input.ts';
@@ -229,23 +229,8 @@ export class RbCheckForm extends LitElement {
       this.draft = { ...this.draft, ...patch };
       this.schedulePreview();
     };
-    const formula = (name: keyof CheckDraft, label: string, hint: string, placeholder = '') => {
-      const id = fieldId(name);
-      return html`<label for=${id}>${label}</label>
-        <rb-formula-input
-          id=${id}
-          data-field=${name}
-          .label=${label}
-          .value=${d[name]}
-          .names=${this.names}
-          .placeholder=${placeholder}
-          ?invalid=${Boolean(p[name])}
-          @formula-input=${(e: CustomEvent<{ value: string }>) => set({ [name]: e.detail.value })}
-        ></rb-formula-input>
-        ${p[name]
-          ? html`<span class="problem" data-problem-for=${name} role="alert">${p[name]}</span>`
-          : html`<span class="hint">${hint}</span>`}`;
-    };
+    const formula = (name: keyof CheckDraft, label: string, hint: string, placeholder = '') =>
+      formulaField({ name, label, value: d[name], names: this.names, problem: p[name], hint, placeholder, onInput: (v) => set({ [name]: v }) });
     const c = this.check;
     return html`<form class="record" novalidate aria-label="Check" @submit=${(e: Event) => this.submit(e)}>
       ${this.saveError ? html`<p class="notice" role="alert" style="grid-column: 1 / -1">${this.saveError}</p>` : ''}
