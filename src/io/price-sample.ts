@@ -2,6 +2,7 @@
 // default) and for speed-sensitive tests. Deterministic: the same seed gives the same bytes.
 import { emptyBook } from '../domain/book.ts';
 import type { Book, Part, Quote } from '../domain/book.ts';
+import { seededRandom } from '../domain/refamily.ts';
 
 export interface PriceSample {
   book: Book;
@@ -21,25 +22,14 @@ export interface PriceSampleOptions {
   quotedShare?: number;
 }
 
-/** Small seeded generator (mulberry32): benchmark files must not change between runs. */
-function random(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
 const BREAK_QTYS = [1, 10, 100, 1000, 5000, 10000, 25000, 50000];
 
 /** The benchmark's price file: wide layout, comma separated, decimal point, one row per part. */
 export function samplePriceFile(options: PriceSampleOptions = {}): PriceSample {
   const rows = options.rows ?? 50_000;
   const breaks = Math.min(options.breaks ?? 4, BREAK_QTYS.length);
-  const rnd = random(options.seed ?? 1);
+  // Seeded, so benchmark files do not change between runs.
+  const rnd = seededRandom(options.seed ?? 1);
   const quotedShare = options.quotedShare ?? 0.5;
   const book = emptyBook();
   book.settings.rates = { EUR: 1, USD: 0.92 };
