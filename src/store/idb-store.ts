@@ -1,7 +1,7 @@
 // The Book kept in IndexedDB: one database per Book, every change in one transaction with revision checks.
 import { unwrap, wrap } from 'idb';
 import type { IDBPDatabase, IDBPTransaction } from 'idb';
-import { BOOK_FORMAT, BOOK_VERSION, COLLECTIONS, defaultSettings, mpnKey } from '../domain/book.ts';
+import { COLLECTIONS, defaultSettings, emptyBook, mpnKey } from '../domain/book.ts';
 import type { Book, CollectionName, CollectionRecord, Part, Settings } from '../domain/book.ts';
 import { bumped, revisionMatches, touchedCollections } from '../domain/book-ops.ts';
 import type { BookChange } from '../domain/book-ops.ts';
@@ -160,19 +160,10 @@ export class IdbBookStore implements BookStore {
     ]);
     await tx.done;
     const book: Book = {
-      format: BOOK_FORMAT,
-      version: BOOK_VERSION,
+      ...emptyBook(),
       // rev 0: nothing stored yet, so the first save of settings is a new record.
       settings: settings ?? { ...defaultSettings(), rev: 0 },
       parts: parts.map(fromStoredPart),
-      suppliers: [],
-      quotes: [],
-      variants: [],
-      buildLines: [],
-      checks: [],
-      runs: [],
-      importBatches: [],
-      pages: [],
     };
     for (const [c, list] of rest) (book as unknown as Record<string, unknown>)[c] = list;
     return book;
