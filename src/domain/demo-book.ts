@@ -6,7 +6,6 @@ import type {
   CostCategory,
   NotebookPage,
   Part,
-  PartKind,
   PriceBreak,
   Quote,
   Run,
@@ -86,20 +85,11 @@ const OSTREL = 'Ostrel Boards';
 const YARVELLE = 'Yarvelle Packaging';
 const TARNWICK = 'Tarnwick Air Controls';
 
-interface PartRow {
-  id: string;
-  mpn: string;
-  maker: string;
-  description: string;
-  kind: PartKind;
-  value?: number;
-  unit?: string;
-  ratings: Record<string, number>;
-  package: string;
+/** A demo part as written below: a Part without its revision, placements always given. */
+type PartRow = Omit<Part, 'rev' | 'placements'> & {
   /** Placements for labour; 0 for parts fitted by hand outside the board (enclosure, screws, packaging). */
   placements: number;
-  notes?: string;
-}
+};
 
 function part(r: PartRow): Part {
   const p: Part = {
