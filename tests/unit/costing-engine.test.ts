@@ -2,17 +2,12 @@
 import { describe, expect, it } from 'vitest';
 import { referenceFamily } from '../../src/domain/refamily.ts';
 import { costVariantRun, prepareCosting } from '../../src/domain/costing.ts';
-import type { CostingContext, ResolvedLine, Result } from '../../src/domain/costing.ts';
+import type { CostingContext, ResolvedLine } from '../../src/domain/costing.ts';
 import { CostingWorkbook, fixedResolution, resolutionFromFamily } from '../../src/engine/costing.ts';
 import { resolveFamily } from '../../src/engine/family.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import type { Book } from '../../src/domain/book.ts';
-import { part, smallBook } from './costing-fixtures.ts';
-
-function value<T>(r: Result<T>): T {
-  if (!r.ok) throw new Error(`expected a value, got error: ${r.error}`);
-  return r.value;
-}
+import { part, smallBook, value } from './costing-fixtures.ts';
 
 function pureUnitCosts(book: Book, resolution: Map<string, readonly ResolvedLine[]>, ctx?: CostingContext): Map<string, number> {
   const c = ctx ?? value(prepareCosting(book));

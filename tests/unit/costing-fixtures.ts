@@ -1,6 +1,7 @@
 // Small invented Books for the costing tests: one builder, so each test states only the figures it is about.
 import { emptyBook } from '../../src/domain/book.ts';
 import type { Book, BuildLine, Part, PriceBreak, Quote, Settings } from '../../src/domain/book.ts';
+import type { Result } from '../../src/domain/costing.ts';
 
 export interface QuoteSpec {
   id?: string;
@@ -88,4 +89,10 @@ export function smallBook(opts: {
     }),
   );
   return book;
+}
+
+/** The value of a result the test expects to succeed; a refusal fails the test with its message. */
+export function value<T>(r: Result<T>): T {
+  if (!r.ok) throw new Error(`expected a value, got error: ${r.error}`);
+  return r.value;
 }

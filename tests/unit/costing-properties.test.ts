@@ -13,15 +13,10 @@ import {
   toCents,
   toTenThousandths,
 } from '../../src/domain/costing.ts';
-import type { PreparedQuote, Result } from '../../src/domain/costing.ts';
+import type { PreparedQuote } from '../../src/domain/costing.ts';
 import type { PriceBreak } from '../../src/domain/book.ts';
-import { part, quote, smallBook } from './costing-fixtures.ts';
+import { part, quote, smallBook, value } from './costing-fixtures.ts';
 import type { LineSpec, QuoteSpec } from './costing-fixtures.ts';
-
-function value<T>(r: Result<T>): T {
-  if (!r.ok) throw new Error(`expected a value, got error: ${r.error}`);
-  return r.value;
-}
 
 /** Prices with up to 4 decimals, as suppliers quote them. */
 const priceArb = fc.integer({ min: 0, max: 500_000 }).map((n) => n / 10_000);

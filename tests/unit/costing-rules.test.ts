@@ -12,15 +12,10 @@ import {
   resolveFixedLines,
   roundMoney,
 } from '../../src/domain/costing.ts';
-import type { CostedBom, CostingContext, Result } from '../../src/domain/costing.ts';
-import { part, smallBook } from './costing-fixtures.ts';
+import type { CostedBom, CostingContext } from '../../src/domain/costing.ts';
+import { part, smallBook, value } from './costing-fixtures.ts';
 import type { LineSpec, QuoteSpec } from './costing-fixtures.ts';
 import type { Part, Settings } from '../../src/domain/book.ts';
-
-function value<T>(r: Result<T>): T {
-  if (!r.ok) throw new Error(`expected a value, got error: ${r.error}`);
-  return r.value;
-}
 
 /** Breaks of the REFERENCES all-units example (operations-management texts). */
 const REF_BREAKS = [

@@ -12,13 +12,9 @@ import { freezeRun } from '../../src/domain/freeze.ts';
 import { purchaseList } from '../../src/domain/purchase.ts';
 import { costedBomCsv, exportBytes, purchaseListCsv, runCosting } from '../../src/io/run-export.ts';
 import type { ExportOptions } from '../../src/io/run-export.ts';
+import { value } from './costing-fixtures.ts';
 
 let dir = '';
-
-function value<T>(r: { ok: true; value: T } | { ok: false; error: string }): T {
-  if (!r.ok) throw new Error(r.error);
-  return r.value;
-}
 
 const CHOICES: [string[], ExportOptions][] = [
   [[], { delimiter: 'comma', decimal: 'point', bom: false }],

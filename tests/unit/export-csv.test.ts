@@ -20,11 +20,7 @@ import {
   runCosting,
 } from '../../src/io/run-export.ts';
 import type { ExportOptions, RunCosting } from '../../src/io/run-export.ts';
-
-function value<T>(r: { ok: true; value: T } | { ok: false; error: string }): T {
-  if (!r.ok) throw new Error(r.error);
-  return r.value;
-}
+import { value } from './costing-fixtures.ts';
 
 function parse(text: string, delimiter = ','): string[][] {
   const body = text.startsWith('\uFEFF') ? text.slice(1) : text;

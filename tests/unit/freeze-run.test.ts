@@ -5,12 +5,7 @@ import { costVariantRun, prepareCosting, resolveFixedLines } from '../../src/dom
 import type { Book } from '../../src/domain/book.ts';
 import { compareCostings, freezeRun, readSnapshot, runDraft, unfreezeRun, validateRun } from '../../src/domain/freeze.ts';
 import { parseBookFile, serializeBook } from '../../src/io/book-file.ts';
-import { part, smallBook } from './costing-fixtures.ts';
-
-function value<T>(r: { ok: true; value: T } | { ok: false; error: string }): T {
-  if (!r.ok) throw new Error(r.error);
-  return r.value;
-}
+import { part, smallBook, value } from './costing-fixtures.ts';
 
 function costed(book: Book, run: number) {
   const ctx = value(prepareCosting(book));
