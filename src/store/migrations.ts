@@ -175,10 +175,9 @@ export const MIGRATIONS: readonly Migration[] = [
       parts.createIndex('byMpnKey', 'mpnKey');
       parts.createIndex('byKind', 'kind');
       db.createObjectStore('suppliers', { keyPath: 'id' }).createIndex('byName', 'name');
-      const quotes = db.createObjectStore('quotes', { keyPath: 'id' });
-      quotes.createIndex('byPart', 'partId');
-      quotes.createIndex('bySupplier', 'supplierId');
-      quotes.createIndex('byBatch', 'batchId');
+      // Quotes carry no indexes: the app reads whole stores, and every index entry is one more write per quote in a
+      // 50,000-row import.
+      db.createObjectStore('quotes', { keyPath: 'id' });
       db.createObjectStore('variants', { keyPath: 'id' }).createIndex('byCode', 'code', { unique: true });
       const lines = db.createObjectStore('buildLines', { keyPath: 'id' });
       lines.createIndex('byPart', 'partId');

@@ -18,7 +18,7 @@ export interface MetaRecord {
 export interface RungbookDB extends DBSchema {
   parts: { key: string; value: StoredPart; indexes: { byMpnKey: string; byKind: string } };
   suppliers: { key: string; value: Supplier; indexes: { byName: string } };
-  quotes: { key: string; value: Quote; indexes: { byPart: string; bySupplier: string; byBatch: string } };
+  quotes: { key: string; value: Quote };
   variants: { key: string; value: Variant; indexes: { byCode: string } };
   buildLines: { key: string; value: BuildLine; indexes: { byPart: string; byPosition: number } };
   checks: { key: string; value: Check; indexes: { byName: string } };
