@@ -111,6 +111,17 @@ export class AppUnderTest {
   }
 }
 
+/** Moves to `path` (a page's hash such as `#/parts`) through its link in the rail, as a person would. */
+export async function railTo(page: Page, path: string): Promise<void> {
+  await page.locator(`nav a[href="${path}"]`).click();
+}
+
+/** Waits until a page has loaded its code and drawn: its heading (when it has a title) shows, "Loading…" is gone. */
+export async function pageLoaded(page: Page, title?: string): Promise<void> {
+  if (title) await page.locator('main header h1', { hasText: title }).waitFor();
+  await page.locator('main p.muted', { hasText: 'Loading…' }).waitFor({ state: 'detached' });
+}
+
 /** Waits until the last change is written (the save state in the rail says so). */
 export async function saved(page: Page): Promise<void> {
   await page.locator('rb-save-state [data-state="saved"]').waitFor();

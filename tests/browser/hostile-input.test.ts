@@ -6,7 +6,7 @@ import type { Book } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { serializeBook } from '../../src/io/book-file.ts';
 import { PAGES, notebookRoute } from '../../src/ui/pages.ts';
-import { AppUnderTest } from './harness.ts';
+import { AppUnderTest, pageLoaded, railTo } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 
@@ -82,16 +82,15 @@ describe('hostile text in a Book', () => {
 
     const tour = [...PAGES.map((p) => ({ href: `#/${p.slug}`, title: p.title })), { href: notebookRoute('page_hostile'), title: '' }];
     for (const stop of tour) {
-      await page.locator(`nav a[href="${stop.href}"]`).click();
-      if (stop.title) await page.locator('main header h1', { hasText: stop.title }).waitFor();
-      await page.locator('main p.muted', { hasText: 'Loading…' }).waitFor({ state: 'detached' });
+      await railTo(page, stop.href);
+      await pageLoaded(page, stop.title);
       const m = await made(page);
       expect(m, stop.href).toEqual({ imgX: 0, scripts: 0, handlers: 0, svg: 0, ran: undefined });
     }
     // The notebook page shows its title, heading, text and cells as text.
     await page.locator('main h1', { hasText: `Notes ${IMG}` }).waitFor();
     for (const text of [SCRIPT, SVG]) await page.locator('main', { hasText: text }).waitFor();
-    await page.locator('nav a[href="#/suppliers"]').click();
+    await railTo(page, '#/suppliers');
     await page.locator('[data-testid="suppliers-table"] tbody tr', { hasText: SCRIPT }).waitFor();
 
     await page.reload();

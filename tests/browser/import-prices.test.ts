@@ -8,7 +8,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { mpnKey } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { AppUnderTest, saved, text } from './harness.ts';
+import { AppUnderTest, railTo, saved, text } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
@@ -31,10 +31,6 @@ function writeTemp(name: string, text: string): string {
   const path = join(tmp, name);
   writeFileSync(path, text, 'utf8');
   return path;
-}
-
-async function goTo(page: Page, slug: string): Promise<void> {
-  await page.locator(`nav a[href="#/${slug}"]`).click();
 }
 
 /** Rows of the quotes table (the demo Book has fewer quotes than one screenful, so all of them are drawn). */
@@ -71,7 +67,7 @@ describe('price file import through the app', () => {
     expect(before).toBe(demo.quotes.length);
     expect(await page.locator(`[data-testid="quotes-table"] tbody tr`, { hasText: DEMO_FILE }).count()).toBe(0);
 
-    await goTo(page, 'import');
+    await railTo(page, '#/import');
     await readFile(page, DEMO_PATH);
     await expect(page.locator('[data-testid="file-name"]').textContent()).resolves.toBe(DEMO_FILE);
     await expect(page.locator('[data-testid="found-delimiter"]').textContent()).resolves.toContain('comma');
@@ -97,7 +93,7 @@ describe('price file import through the app', () => {
       new RegExp(`${matched.length} new quotes, ${replaced.length} quotes? superseded`),
     );
 
-    await goTo(page, 'quotes');
+    await railTo(page, '#/quotes');
     const fromFile = page.locator('[data-testid="quotes-table"] tbody tr', { hasText: DEMO_FILE });
     await fromFile.first().waitFor();
     // New quotes are added; the ones they replace stay in the Book, marked superseded.
@@ -221,11 +217,11 @@ describe('price file import through the app', () => {
     await saved(page);
     await expect(text(page, '[data-testid="import-done"]')).resolves.toMatch(/1 new quote, 0 quotes superseded, 1 new part/);
 
-    await goTo(page, 'quotes');
+    await railTo(page, '#/quotes');
     const row = page.locator('[data-testid="quotes-table"] tbody tr', { hasText: 'ZZ-HTML-01' });
     await row.waitFor();
     await expect(row.locator('.part-desc').textContent()).resolves.toBe(payload);
-    await goTo(page, 'parts');
+    await railTo(page, '#/parts');
     await expect(page.locator('[data-testid="parts-table"] tbody tr', { hasText: 'ZZ-HTML-01' }).textContent()).resolves.toContain(payload);
     expect(await page.locator('img[src="x"]').count()).toBe(0);
     await expect(page.evaluate(() => (window as unknown as { __pwned?: unknown }).__pwned)).resolves.toBeUndefined();
@@ -246,7 +242,7 @@ describe('price file import through the app', () => {
     const before = await quoteRows(page);
     const summaryBefore = await page.locator('[data-testid="quotes-summary"]').textContent();
 
-    await goTo(page, 'import');
+    await railTo(page, '#/import');
     await readFile(page, path);
     const problems = page.locator('[data-testid="problems-table"] tbody tr');
     await problems.first().waitFor();
@@ -260,7 +256,7 @@ describe('price file import through the app', () => {
     await page.getByRole('button', { name: /Import only the valid rows/ }).waitFor();
     await page.screenshot({ path: '/tmp/rungbook-import-problems.png', fullPage: true });
 
-    await goTo(page, 'quotes');
+    await railTo(page, '#/quotes');
     expect(await quoteRows(page)).toBe(before);
     await expect(page.locator('[data-testid="quotes-summary"]').textContent()).resolves.toBe(summaryBefore);
     await page.reload();

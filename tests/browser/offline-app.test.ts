@@ -4,7 +4,7 @@ import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { PAGES } from '../../src/ui/pages.ts';
-import { AppUnderTest, partRows, saved } from './harness.ts';
+import { AppUnderTest, pageLoaded, partRows, railTo, saved } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
@@ -45,13 +45,12 @@ describe('the app offline', () => {
     expect(await partRows(page)).toBe(demo.parts.length);
     // Every page of the rail loads its code from the worker's store.
     for (const p of PAGES) {
-      await page.locator(`nav a[href="#/${p.slug}"]`).click();
-      await page.locator('main header h1', { hasText: p.title }).waitFor();
-      await page.locator('main p.muted', { hasText: 'Loading…' }).waitFor({ state: 'detached' });
+      await railTo(page, `#/${p.slug}`);
+      await pageLoaded(page, p.title);
     }
     await expect(page.locator('[data-testid="notice"]').count()).resolves.toBe(0);
 
-    await page.locator('nav a[href="#/parts"]').click();
+    await railTo(page, '#/parts');
     await page.getByRole('button', { name: 'Add a part' }).click();
     await page.locator('#f-mpn').fill('ZZ-OFFLINE-1');
     await page.locator('#f-maker').fill('Invented Test Works');

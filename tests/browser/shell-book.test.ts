@@ -3,7 +3,7 @@
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { PAGES } from '../../src/ui/pages.ts';
-import { AppUnderTest, partRows, saved } from './harness.ts';
+import { AppUnderTest, partRows, railTo, saved } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
@@ -90,7 +90,7 @@ describe('app shell with the Book in IndexedDB', () => {
     // Pages are built one by one; while one is not, it says what it will hold instead of showing a fake.
     const unbuilt = PAGES.find((p) => !p.tag);
     if (unbuilt) {
-      await page.locator(`nav a[href="#/${unbuilt.slug}"]`).click();
+      await railTo(page, `#/${unbuilt.slug}`);
       await page.locator('[data-testid="page-plan"]').waitFor();
       await expect(page.locator('[data-testid="page-plan"] p').textContent()).resolves.toBe(unbuilt.plan);
       expect(new URL(page.url()).hash).toBe(`#/${unbuilt.slug}`);

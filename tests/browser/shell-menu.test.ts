@@ -5,7 +5,7 @@ import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { parseBookFile } from '../../src/io/book-file.ts';
-import { AppUnderTest } from './harness.ts';
+import { AppUnderTest, railTo } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
@@ -86,12 +86,12 @@ describe('Book menu', () => {
     await page.locator('rb-family-page .empty', { hasText: 'No variants yet' }).waitFor();
     await page.reload();
     await page.locator('rb-family-page .empty', { hasText: 'No variants yet' }).waitFor();
-    await page.locator('nav a[href="#/parts"]').click();
+    await railTo(page, '#/parts');
     await page.locator('rb-parts-page .empty', { hasText: 'No parts yet' }).waitFor();
 
     await page.getByRole('button', { name: 'Put the demo Book back…' }).click();
     await confirm(page, 'Load the demo Book');
-    await page.locator('nav a[href="#/family"]').click();
+    await railTo(page, '#/family');
     await page.locator('[data-testid="family-table"]').waitFor();
     expect(await familyRows(page)).toBe(demo.variants.length);
     expect(errors).toEqual([]);
