@@ -322,6 +322,9 @@ export class RbFamilyPage extends LitElement {
             ${this.notice.text}
           </p>`
         : ''}
+      ${variants.length === 0
+        ? html`<p class="empty">No variants yet. Add the first one with the button above, type a code on the + new line, or paste rows there.</p>`
+        : ''}
       ${checksProblem ? html`<p class="note problem" role="alert">Checks: ${checksProblem}.</p>` : ''}
       ${costProblem ? html`<p class="note problem" role="alert">Unit costs cannot be worked out: ${costProblem}.</p>` : ''}
       <rb-grid
