@@ -2,13 +2,13 @@
 import { unwrap, wrap } from 'idb';
 import type { IDBPDatabase, IDBPTransaction } from 'idb';
 import { COLLECTIONS, defaultSettings, emptyBook, mpnKey } from '../domain/book.ts';
-import type { Book, CollectionName, CollectionRecord, Part, Settings } from '../domain/book.ts';
+import type { Book, CollectionName, CollectionRecord, Part, Quote, Settings } from '../domain/book.ts';
 import { bumped, revisionMatches, touchedCollections } from '../domain/book-ops.ts';
 import type { BookChange } from '../domain/book-ops.ts';
 import { MIGRATIONS, runMigrations } from './migrations.ts';
 import type { Migration, UpgradeDb, UpgradeTx } from './migrations.ts';
-import { idbVersionOf, schemaVersionOf } from './schema.ts';
-import type { RungbookDB, StoredPart } from './schema.ts';
+import { bucketQuotes, idbVersionOf, quoteBucketKey, schemaVersionOf, unbucketQuotes } from './schema.ts';
+import type { QuoteBucket, RungbookDB, StoredPart } from './schema.ts';
 import { RevisionConflict, StorageFull, StoreWriteFailed } from './types.ts';
 import type { BookStore } from './types.ts';
 
@@ -165,7 +165,7 @@ export class IdbBookStore implements BookStore {
       settings: settings ?? { ...defaultSettings(), rev: 0 },
       parts: parts.map(fromStoredPart),
     };
-    for (const [c, list] of rest) (book as unknown as Record<string, unknown>)[c] = list;
+    for (const [c, list] of rest) (book as unknown as Record<string, unknown>)[c] = c === 'quotes' ? unbucketQuotes(list as QuoteBucket[]) : list;
     return book;
   }
 
@@ -178,10 +178,20 @@ export class IdbBookStore implements BookStore {
     if (shape) throw new StoreWriteFailed(shape);
 
     const tx = this.db.transaction(stores, 'readwrite');
-    let failedAdd: { c: CollectionName; id: string; e: unknown } | undefined;
+    let failedAdd: { c: Exclude<CollectionName, 'quotes'>; id: string; e: unknown } | undefined;
     try {
       const reads: Promise<RevisionConflict | undefined>[] = [];
+      let quoteBuckets: Map<string, Map<string, Quote>> | undefined;
       for (const c of collections) {
+        if (c === 'quotes') {
+          reads.push(
+            readQuoteBuckets(tx, change).then(({ buckets, conflict }) => {
+              quoteBuckets = buckets;
+              return conflict;
+            }),
+          );
+          continue;
+        }
         // New records (rev 0) are written with add(), which fails on an existing key: no read needed, which keeps
         // a 50,000-quote import to one request per record.
         const edited = (change.put?.[c] ?? []).filter((r) => r.rev !== 0);
@@ -222,10 +232,13 @@ export class IdbBookStore implements BookStore {
 
       const writes = requests();
       for (const c of collections) {
+        if (c === 'quotes') continue;
         const store = tx.objectStore(c);
         for (const id of change.delete?.[c] ?? []) writes.add(store.delete(id));
       }
+      if (quoteBuckets) writeQuoteBuckets(tx, quoteBuckets, change, writes);
       for (const c of collections) {
+        if (c === 'quotes') continue;
         const store = tx.objectStore(c);
         for (const r of change.put?.[c] ?? []) {
           const stored = toStored(c, bumped(r)) as never;
@@ -243,7 +256,7 @@ export class IdbBookStore implements BookStore {
   }
 
   /** An add() of a new record failed: a record with that id already exists (a conflict), or a unique index broke. */
-  private async addFailure(c: CollectionName, id: string, error: Error): Promise<Error> {
+  private async addFailure(c: Exclude<CollectionName, 'quotes'>, id: string, error: Error): Promise<Error> {
     if (!(error instanceof StoreWriteFailed)) return error;
     const existing = await this.db.get(c, id).catch(() => undefined);
     return existing ? new RevisionConflict(c, id, existing.rev, 0) : error;
@@ -259,9 +272,11 @@ export class IdbBookStore implements BookStore {
       for (const c of COLLECTIONS) writes.add(tx.objectStore(c).clear());
       writes.add(tx.objectStore('settings').clear());
       for (const c of COLLECTIONS) {
+        if (c === 'quotes') continue;
         const store = tx.objectStore(c);
         for (const r of book[c]) writes.add(store.put(toStored(c, r) as never));
       }
+      for (const b of bucketQuotes(book.quotes)) writes.add(tx.objectStore('quotes').put(b));
       writes.add(tx.objectStore('settings').put(book.settings));
       await writes.all();
       await tx.done;
@@ -282,8 +297,45 @@ export class IdbBookStore implements BookStore {
   }
 }
 
+type WriteTx = IDBPTransaction<RungbookDB, StoreName[], 'readwrite'>;
+
+/**
+ * Reads the buckets a change's quotes live in and checks their revisions as for any record: an edited quote must be
+ * stored at the revision it carries, a new one (rev 0) must not exist yet.
+ */
+async function readQuoteBuckets(
+  tx: WriteTx,
+  change: BookChange,
+): Promise<{ buckets: Map<string, Map<string, Quote>>; conflict: RevisionConflict | undefined }> {
+  const keys = new Set<string>();
+  for (const q of change.put?.quotes ?? []) keys.add(quoteBucketKey(q.id));
+  for (const id of change.delete?.quotes ?? []) keys.add(quoteBucketKey(id));
+  const store = tx.objectStore('quotes');
+  const found = await Promise.all([...keys].map(async (k) => [k, await store.get(k)] as const));
+  const buckets = new Map(found.map(([k, b]) => [k, new Map((b?.quotes ?? []).map((q) => [q.id, q] as const))] as const));
+  let conflict: RevisionConflict | undefined;
+  for (const q of change.put?.quotes ?? []) {
+    const stored = buckets.get(quoteBucketKey(q.id))!.get(q.id);
+    if (!revisionMatches(stored?.rev, q.rev)) {
+      conflict = new RevisionConflict('quotes', q.id, stored?.rev ?? 0, q.rev);
+      break;
+    }
+  }
+  return { buckets, conflict };
+}
+
+/** Applies a change's quote deletes and puts to the buckets read for it and writes each touched bucket once. */
+function writeQuoteBuckets(tx: WriteTx, buckets: Map<string, Map<string, Quote>>, change: BookChange, writes: ReturnType<typeof requests>): void {
+  for (const id of change.delete?.quotes ?? []) buckets.get(quoteBucketKey(id))!.delete(id);
+  for (const q of change.put?.quotes ?? []) buckets.get(quoteBucketKey(q.id))!.set(q.id, bumped(q));
+  const store = tx.objectStore('quotes');
+  for (const [id, quotes] of buckets) {
+    writes.add(quotes.size === 0 ? store.delete(id) : store.put({ id, quotes: [...quotes.values()] }));
+  }
+}
+
 /** Aborts the transaction if it is still running, waits for it to end, and returns the error to report. */
-async function failed(tx: IDBPTransaction<RungbookDB, StoreName[], 'readwrite'>, e: unknown): Promise<Error> {
+async function failed(tx: WriteTx, e: unknown): Promise<Error> {
   const raw = unwrap(tx);
   try {
     raw.abort();

@@ -3,6 +3,7 @@
 import type { IDBPDatabase, IDBPTransaction } from 'idb';
 import { defaultSettings, mpnKey, PART_KINDS } from '../domain/book.ts';
 import type { Part, PartKind, PriceBreak, Quote, Settings, Supplier, Variant } from '../domain/book.ts';
+import { bucketQuotes } from './schema.ts';
 import type { MetaRecord, StoredPart } from './schema.ts';
 
 export type UpgradeDb = IDBPDatabase<unknown>;
@@ -175,8 +176,7 @@ export const MIGRATIONS: readonly Migration[] = [
       parts.createIndex('byMpnKey', 'mpnKey');
       parts.createIndex('byKind', 'kind');
       db.createObjectStore('suppliers', { keyPath: 'id' }).createIndex('byName', 'name');
-      // Quotes carry no indexes: the app reads whole stores, and every index entry is one more write per quote in a
-      // 50,000-row import.
+      // Quotes are kept in buckets (see QuoteBucket), with no indexes: the app reads whole stores.
       db.createObjectStore('quotes', { keyPath: 'id' });
       db.createObjectStore('variants', { keyPath: 'id' }).createIndex('byCode', 'code', { unique: true });
       const lines = db.createObjectStore('buildLines', { keyPath: 'id' });
@@ -198,7 +198,7 @@ export const MIGRATIONS: readonly Migration[] = [
         const withId = (r: Record<string, unknown>): boolean => typeof r.id === 'string' && r.id !== '';
         for (const p of proto.parts.filter(withId)) writes.push(tx.objectStore('parts').put(convertPart(p)));
         for (const s of proto.suppliers.filter(withId)) writes.push(tx.objectStore('suppliers').put(convertSupplier(s, base)));
-        for (const q of proto.quotes.filter(withId)) writes.push(tx.objectStore('quotes').put(convertQuote(q, base)));
+        for (const b of bucketQuotes(proto.quotes.filter(withId).map((q) => convertQuote(q, base)))) writes.push(tx.objectStore('quotes').put(b));
         // The prototype did not enforce unique codes; a repeated code keeps its first variant's code and gets the id.
         const codes = new Set<string>();
         for (const v of proto.variants.filter(withId)) {

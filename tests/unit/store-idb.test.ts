@@ -4,7 +4,8 @@ import 'fake-indexeddb/auto';
 import { IDBFactory } from 'fake-indexeddb';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { COLLECTIONS, defaultSettings, emptyBook } from '../../src/domain/book.ts';
-import type { Book, Part, Variant } from '../../src/domain/book.ts';
+import type { Book, Part, Quote, Variant } from '../../src/domain/book.ts';
+import { QUOTE_BUCKETS, quoteBucketKey } from '../../src/store/schema.ts';
 import { applyChange } from '../../src/domain/book-ops.ts';
 import type { BookChange } from '../../src/domain/book-ops.ts';
 import { deleteBook, listBooks, openBookStore } from '../../src/store/idb-store.ts';
@@ -212,6 +213,68 @@ describe('apply', () => {
     await expect(store.apply({ put: { parts: [bad] } })).rejects.toThrow(/no valid revision/);
     await expect(store.apply({ put: { parts: [{ ...newPart('', 'KT-X') }] } })).rejects.toThrow(/has no id/);
     expect((await store.load()).parts).toEqual([]);
+  });
+});
+
+describe('quotes kept in buckets', () => {
+  function quote(id: string, rev = 0): Quote {
+    return {
+      id, rev, partId: 'part_r47k', supplierId: 'sup_a', supplierCode: `SC-${id}`, currency: 'EUR',
+      breaks: [{ qty: 1, price: 0.05 }, { qty: 1000, price: 0.012 }], moq: 1, pack: 1, leadDays: 5, date: '2026-01-01', source: 'test.csv',
+    };
+  }
+
+  it('spreads 3,000 quotes over at most QUOTE_BUCKETS records and reads them back in id order', async () => {
+    const { store, factory } = await fresh('rungbook-buckets');
+    await store.replaceAll(sampleBook());
+    const added = Array.from({ length: 3000 }, (_, i) => quote(`q_${String(i).padStart(5, '0')}`));
+    await store.apply({ put: { quotes: [...added].reverse() } });
+    const book = await store.load();
+    const ids = book.quotes.map((q) => q.id);
+    expect(ids).toEqual([...ids].sort());
+    expect(book.quotes.filter((q) => q.id.startsWith('q_'))).toEqual(added.map((q) => ({ ...q, rev: 1 })));
+    // Raw look at the store: buckets, not one record per quote.
+    const raw = await new Promise<IDBDatabase>((res, rej) => {
+      const r = factory.open('rungbook-buckets');
+      r.onsuccess = () => res(r.result);
+      r.onerror = () => rej(r.error);
+    });
+    const count = await new Promise<number>((res) => {
+      const r = raw.transaction('quotes').objectStore('quotes').count();
+      r.onsuccess = () => res(r.result);
+    });
+    raw.close();
+    expect(count).toBeGreaterThan(1);
+    expect(count).toBeLessThanOrEqual(QUOTE_BUCKETS);
+  });
+
+  it('edits, deletes and refuses stale or already-held quotes exactly as for any record', async () => {
+    const { store } = await fresh();
+    await store.replaceAll(sampleBook());
+    await store.apply({ put: { quotes: [quote('q_a'), quote('q_b'), quote('q_c')] } });
+    const before = await store.load();
+    const a = before.quotes.find((q) => q.id === 'q_a')!;
+    await store.apply({ put: { quotes: [{ ...a, moq: 50 }] }, delete: { quotes: ['q_b'] } });
+    const after = await store.load();
+    expect(after.quotes.find((q) => q.id === 'q_a')).toEqual({ ...a, moq: 50, rev: 2 });
+    expect(after.quotes.some((q) => q.id === 'q_b')).toBe(false);
+
+    const stale = await store.apply({ put: { quotes: [{ ...a, moq: 70 }] } }).catch((e: unknown) => e);
+    expect(stale).toBeInstanceOf(RevisionConflict);
+    expect((stale as RevisionConflict).storedRev).toBe(2);
+    const held = await store.apply({ put: { quotes: [quote('q_c')], parts: [newPart('part_z', 'KT-Z')] } }).catch((e: unknown) => e);
+    expect(held).toBeInstanceOf(RevisionConflict);
+    expect((held as RevisionConflict).recordId).toBe('q_c');
+    const gone = await store.apply({ put: { quotes: [{ ...before.quotes.find((q) => q.id === 'q_b')!, moq: 9 }] } }).catch((e: unknown) => e);
+    expect(gone).toBeInstanceOf(RevisionConflict);
+    expect((gone as RevisionConflict).storedRev).toBe(0);
+    expect(await store.load()).toEqual(after);
+  });
+
+  it('finds a quote\'s bucket from its id alone, the same every time', () => {
+    expect(quoteBucketKey('q_a')).toBe(quoteBucketKey('q_a'));
+    const keys = new Set(Array.from({ length: 2000 }, (_, i) => quoteBucketKey(`quote_${i}`)));
+    expect(keys.size).toBe(QUOTE_BUCKETS);
   });
 });
 
