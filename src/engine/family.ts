@@ -19,6 +19,7 @@ import { PART_RATINGS } from '../domain/params.ts';
 import { CHECK_STATUS, judge } from '../domain/check-status.ts';
 import type { CheckStatus, CheckValue, RuleLimits } from '../domain/check-status.ts';
 import { ENGINE_DEFAULTS, registerRungbookFunctions } from './create.ts';
+import { columnLetters } from './cells.ts';
 import { guardFormula } from './formula-guard.ts';
 import { TOKEN_KIND, constantNumber, formulaNames, nameKey, rewriteFormula, soleName, tokenizeFormula, formulaBody } from './formula-names.ts';
 
@@ -77,17 +78,6 @@ const MISSING = '#N/A';
 const ROW_MARK = '\u0001';
 const SHEET = 'family';
 const MEMO_SHEET = 'rules';
-
-function colLetters(col: number): string {
-  let s = '';
-  let n = col + 1;
-  while (n > 0) {
-    const r = (n - 1) % 26;
-    s = String.fromCharCode(65 + r) + s;
-    n = Math.floor((n - 1) / 26);
-  }
-  return s;
-}
 
 /**
  * Where a compiled rule or check part is read for a row: a constant that needs no cell, a memo (below), or a column
@@ -329,7 +319,7 @@ export class FamilyWorkbook {
 
   private ref(key: string): string | undefined {
     const col = this.cols.get(key);
-    return col === undefined ? undefined : `${colLetters(col)}${ROW_MARK}`;
+    return col === undefined ? undefined : `${columnLetters(col)}${ROW_MARK}`;
   }
 
   /**
@@ -356,7 +346,7 @@ export class FamilyWorkbook {
       const inputs = c.names.filter((k) => lookup(k) !== undefined);
       const m = this.compile(formula, (k) => {
         const i = inputs.indexOf(k);
-        return i < 0 ? undefined : `${colLetters(i + 1)}${ROW_MARK}`;
+        return i < 0 ? undefined : `${columnLetters(i + 1)}${ROW_MARK}`;
       });
       if (!m.ok) return m;
       const key = `${inputs.join(',')}|${m.text}`;

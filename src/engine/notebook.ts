@@ -1,5 +1,6 @@
 // Evaluates the user's own notebook pages: each section's small grid becomes one engine sheet (Section1, Section2…,
 // so a cell may read another section as Section2!B3), and the book functions (VAR, CHECK, PART_PRICE…) read the Book.
+import { columnLetters } from './cells.ts';
 import type { CellValue } from 'hyperformula';
 import { DetailedCellError } from 'hyperformula';
 import type { Book, NotebookPage, ParamValue, Variant } from '../domain/book.ts';
@@ -185,12 +186,5 @@ export function evaluateNotebookPage(book: Book, page: NotebookPage, options: Bo
 
 /** Address of a cell as formulas write it: column letters then the 1-based row (B3). */
 export function cellAddress(row: number, col: number): string {
-  let s = '';
-  let n = col + 1;
-  while (n > 0) {
-    const r = (n - 1) % 26;
-    s = String.fromCharCode(65 + r) + s;
-    n = Math.floor((n - 1) / 26);
-  }
-  return `${s}${row + 1}`;
+  return `${columnLetters(col)}${row + 1}`;
 }

@@ -7,21 +7,14 @@ import { chromium } from 'playwright-core';
 import type { BrowserContext, Page } from 'playwright-core';
 import { preview } from 'vite';
 import type { PreviewServer } from 'vite';
-import { CHROMIUM_PATH } from '../browser/harness.ts';
+import { CHROMIUM_FLAGS, CHROMIUM_PATH } from '../browser/harness.ts';
 import { PROJECT_ROOT, builtApp, scratchDir, viteBuild } from './bundle.ts';
 import type { BenchOptions, BenchSection, Figures } from './harness.ts';
 import { IMPORT_SAMPLE } from './import.ts';
 import { median, oneLine, round } from './stats.ts';
 
 const FLAGS = [
-  '--headless',
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-quic',
-  '--no-first-run',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
+  ...CHROMIUM_FLAGS,
   // window.gc and exact performance.memory, for heap figures taken after a full collection.
   '--js-flags=--expose-gc',
   '--enable-precise-memory-info',

@@ -7,7 +7,8 @@ import { join } from 'node:path';
 
 export const CHROMIUM_PATH = process.env.RUNGBOOK_CHROMIUM ?? '/usr/bin/chromium';
 
-const FLAGS = [
+/** Chromium's flags for a headless run on a closed network (no background requests, no downloads). */
+export const CHROMIUM_FLAGS = [
   '--headless',
   '--no-sandbox',
   '--disable-gpu',
@@ -34,7 +35,7 @@ export async function openSession(baseUrl: string): Promise<Session> {
   const context = await chromium.launchPersistentContext(dir, {
     executablePath: CHROMIUM_PATH,
     headless: true,
-    args: FLAGS,
+    args: CHROMIUM_FLAGS,
     acceptDownloads: true,
   });
   const page = context.pages()[0] ?? (await context.newPage());
