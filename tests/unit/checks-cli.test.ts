@@ -3,11 +3,10 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { main } from '../../src/cli/main.ts';
-import type { CliIo } from '../../src/cli/command.ts';
 import type { CheckJson } from '../../src/cli/commands/check.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { serializeBook } from '../../src/io/book-file.ts';
+import { runCli } from './cli-helpers.ts';
 
 let dir = '';
 let demoFile = '';
@@ -28,12 +27,8 @@ afterAll(() => {
   if (dir) rmSync(dir, { recursive: true, force: true });
 });
 
-async function run(...argv: string[]): Promise<{ code: number; out: string; err: string }> {
-  const out: string[] = [];
-  const err: string[] = [];
-  const io: CliIo = { out: (t) => out.push(t), err: (t) => err.push(t) };
-  const code = await main(['check', ...argv], io);
-  return { code, out: out.join('\n'), err: err.join('\n') };
+function run(...argv: string[]): Promise<{ code: number; out: string; err: string }> {
+  return runCli(['check', ...argv]);
 }
 
 describe('rungbook check', () => {
