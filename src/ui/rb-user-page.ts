@@ -282,14 +282,14 @@ export class RbUserPage extends LitElement {
       <rb-mains-caution></rb-mains-caution>
       ${this.message ? html`<p class="notice" role="alert">${this.message}</p>` : ''}
       ${page.sections.length === 0 ? html`<p class="empty">This page has no sections yet.</p>` : ''}
-      ${page.sections.map((s, i) => this.renderSection(s, i, result))}
+      ${page.sections.map((s, i) => this.renderSection(s, i, result, i === page.sections.length - 1))}
       <div class="toolbar">
         <button type="button" class="primary" @click=${() => void this.addSection(false)}>Add a text section</button>
         <button type="button" class="primary" @click=${() => void this.addSection(true)}>Add a section with a grid</button>
       </div>`;
   }
 
-  private renderSection(s: NotebookSection, i: number, result: NotebookResult): TemplateResult {
+  private renderSection(s: NotebookSection, i: number, result: NotebookResult, last: boolean): TemplateResult {
     const editing = this.sectionEdit?.section === i ? this.sectionEdit : undefined;
     const grid = result.sections[i]?.grid ?? [];
     return html`<section class="sheet" data-section=${i}>
@@ -318,6 +318,7 @@ export class RbUserPage extends LitElement {
               <button type="button" class="quiet" @click=${() => void this.resize(i, -1, 0)}>− last row</button>
               <button type="button" class="quiet" @click=${() => void this.resize(i, 0, -1)}>− last column</button>`}
         ${i > 0 ? html`<button type="button" class="quiet" @click=${() => void this.move(i, -1)}>move up</button>` : ''}
+        ${last ? '' : html`<button type="button" class="quiet" @click=${() => void this.move(i, 1)}>move down</button>`}
         ${this.confirm?.kind === 'section' && this.confirm.section === i
           ? html`<span
               >Delete “${s.heading || 'this section'}”?

@@ -71,6 +71,29 @@ describe('notebook pages of the user’s own', () => {
     expect(errors).toEqual([]);
   });
 
+  it('moves a section down and up, and keeps the order across a reload', async () => {
+    const { page, errors } = await app.open('#/family');
+    await page.getByRole('button', { name: '+ New notebook page' }).click();
+    await page.locator('rb-user-page h1').waitFor();
+    await page.getByRole('button', { name: 'Add a text section' }).click();
+    await saved(page);
+    // A grid section's heading also shows the sheet name its cells are read by (Section1): keep the first word.
+    const headings = () => page.locator('rb-user-page section h2').allTextContents().then((t) => t.map((x) => x.trim().split(/\s|(?=Section\d)/)[0]));
+    await expect.poll(headings).toEqual(['Calculation', 'Notes']);
+    // Only the first section offers "move down", only the last "move up".
+    expect(await page.getByRole('button', { name: 'move down' }).count()).toBe(1);
+    expect(await page.getByRole('button', { name: 'move up' }).count()).toBe(1);
+    await page.getByRole('button', { name: 'move down' }).click();
+    await saved(page);
+    await expect.poll(headings).toEqual(['Notes', 'Calculation']);
+    await page.reload();
+    await expect.poll(headings).toEqual(['Notes', 'Calculation']);
+    await page.getByRole('button', { name: 'move up' }).click();
+    await saved(page);
+    await expect.poll(headings).toEqual(['Calculation', 'Notes']);
+    expect(errors).toEqual([]);
+  });
+
   it('recalculates when a variant changes elsewhere, and can be deleted', async () => {
     const { page, errors } = await app.open('#/family');
     await page.getByRole('button', { name: '+ New notebook page' }).click();
