@@ -12,6 +12,7 @@
 // - Rounding is half away from zero, with a tolerance of 1e-7 of the last digit that absorbs binary float error
 //   (1.005 × 100 is 100.49999999999999 in doubles, and 1.005 must round to 1.01).
 import type { Book, BuildLine, CurrencyCode, Part, PriceBreak, Quote, Settings, Supplier, Variant } from './book.ts';
+import { isIsoDate, todayIso } from './dates.ts';
 
 export type Result<T> = { ok: true; value: T } | { ok: false; error: string };
 
@@ -243,15 +244,6 @@ export interface CostingContext {
   quotesByPart: Map<string, PreparedQuote[]>;
 }
 
-const ISO_DATE = /^\d{4}-\d{2}-\d{2}$/;
-
-/** Today as an ISO date in local time. */
-export function todayIso(): string {
-  const d = new Date();
-  const p = (n: number): string => String(n).padStart(2, '0');
-  return `${d.getFullYear()}-${p(d.getMonth() + 1)}-${p(d.getDate())}`;
-}
-
 /** Why the Book's cost settings are unusable, or undefined. */
 export function settingsProblem(s: Settings): string | undefined {
   const nonNeg: [string, number][] = [
@@ -297,7 +289,7 @@ export function prepareCosting(book: Book, options: { date?: string } = {}): Res
   const bad = settingsProblem(settings);
   if (bad) return fail(`cost settings: ${bad}`);
   const date = options.date ?? settings.costingDate ?? todayIso();
-  if (!ISO_DATE.test(date)) return fail(`costing date must be YYYY-MM-DD, got ${date}`);
+  if (!isIsoDate(date)) return fail(`costing date must be YYYY-MM-DD, got ${date}`);
   const parts = new Map(book.parts.map((p) => [p.id, p] as const));
   const suppliers = new Map(book.suppliers.map((s) => [s.id, s] as const));
   const lines = new Map(book.buildLines.map((l) => [l.id, l] as const));

@@ -4,7 +4,7 @@
 import type { Book, FrozenRun, Part, Quote, Run, Settings } from './book.ts';
 import type { CostedBom, CostedLine, Result } from './costing.ts';
 import { toCents, toTenThousandths } from './costing.ts';
-import { isIsoDate } from './purchase.ts';
+import { isIsoDate } from './dates.ts';
 
 // ---------------------------------------------------------------------------------------------------------------
 // Run drafts

@@ -3,23 +3,7 @@
 import type { CurrencyCode } from './book.ts';
 import type { CostedBom, CostedLine } from './costing.ts';
 import { toCents } from './costing.ts';
-
-const ISO_DATE = /^\d{4}-\d{2}-\d{2}$/;
-const DAY_MS = 86_400_000;
-
-/** True for a real calendar date written YYYY-MM-DD (2026-02-30 is not one). */
-export function isIsoDate(text: string): boolean {
-  if (!ISO_DATE.test(text)) return false;
-  const t = Date.parse(`${text}T00:00:00Z`);
-  return !Number.isNaN(t) && new Date(t).toISOString().slice(0, 10) === text;
-}
-
-/** date − days as an ISO date, in calendar days (UTC, so no daylight-saving step). Undefined for a bad date. */
-export function daysBefore(date: string, days: number): string | undefined {
-  if (!isIsoDate(date) || !Number.isInteger(days)) return undefined;
-  const d = new Date(Date.parse(`${date}T00:00:00Z`) - days * DAY_MS);
-  return Number.isNaN(d.getTime()) ? undefined : d.toISOString().slice(0, 10);
-}
+import { daysBefore, isIsoDate } from './dates.ts';
 
 /** Why the order quantity is larger than the need: the MOQ, whole packs, or buying up to a cheaper break. */
 export const ORDER_REASONS = { need: 'need', moq: 'moq', pack: 'pack', breakUp: 'break' } as const;

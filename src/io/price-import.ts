@@ -2,6 +2,7 @@
 // benchmark; the app runs the same steps split between its worker (analysePriceFile) and the store (planImport).
 import type { Book, ColumnMapping, Supplier } from '../domain/book.ts';
 import { applyChange } from '../domain/book-ops.ts';
+import { todayIso } from '../domain/dates.ts';
 import type { DateOrder, Decimal, PriceProblem, PriceUnit } from './price-map.ts';
 import { planImport } from './price-plan.ts';
 import type { ImportPlan, UnmatchedDecision } from './price-plan.ts';
@@ -105,7 +106,7 @@ export async function importPrices(book: Book, bytes: Uint8Array, options: Impor
   const analyseOptions: AnalyseOptions = {
     defaultCurrency: supplier.currency,
     knownCurrencies: knownCurrencies(book),
-    today: now.toISOString().slice(0, 10),
+    today: todayIso(now),
   };
   const mapping = options.mapping ?? supplier.mapping;
   if (mapping) analyseOptions.mapping = mapping;

@@ -2,6 +2,7 @@
 // mapping, wide (several quantity/price pairs per row) or long (one row per break) layouts; plus the cell readers
 // for numbers (decimal comma or point, decided once per file), currencies, lead times and dates.
 import type { ColumnMapping } from '../domain/book.ts';
+import { isIsoDate } from '../domain/dates.ts';
 
 export const PRICE_FIELDS = [
   'mpn',
@@ -525,10 +526,9 @@ const DATE_DOTTED = /^(\d{1,2})\.(\d{1,2})\.(\d{4})$/;
 const DATE_SLASHED = /^(\d{1,2})[/-](\d{1,2})[/-](\d{4})$/;
 
 function isoDate(y: number, m: number, d: number): string | undefined {
-  if (m < 1 || m > 12 || d < 1 || d > 31 || y < 1900 || y > 2999) return undefined;
-  const t = new Date(Date.UTC(y, m - 1, d));
-  if (t.getUTCMonth() !== m - 1 || t.getUTCDate() !== d) return undefined;
-  return `${String(y).padStart(4, '0')}-${String(m).padStart(2, '0')}-${String(d).padStart(2, '0')}`;
+  if (y < 1900 || y > 2999) return undefined;
+  const iso = `${String(y).padStart(4, '0')}-${String(m).padStart(2, '0')}-${String(d).padStart(2, '0')}`;
+  return isIsoDate(iso) ? iso : undefined;
 }
 
 /** Reads a date as YYYY-MM-DD; day.month.year with dots; day and month with slashes in the file's order. */

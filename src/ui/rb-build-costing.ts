@@ -6,6 +6,7 @@ import { COST_CATEGORIES, PART_KINDS } from '../domain/book.ts';
 import type { BookChange } from '../domain/book-ops.ts';
 import { perUnitFromCents, toCents, toTenThousandths } from '../domain/costing.ts';
 import type { CostedBom, Result } from '../domain/costing.ts';
+import { isIsoDate } from '../domain/dates.ts';
 import type { CostingWorkbook } from '../engine/costing.ts';
 import type { FamilyResolution } from '../engine/family.ts';
 import type { FieldProblems, FormResult } from './record-forms.ts';
@@ -254,7 +255,6 @@ export interface SettingsDraft {
 }
 
 const CURRENCY_RE = /^[A-Z]{3}$/;
-const ISO_DATE = /^(\d{4})-(\d{2})-(\d{2})$/;
 
 /** Currencies a Book uses: base, rates, suppliers and quotes, base first then by code. */
 export function currenciesInUse(book: Book): string[] {
@@ -288,13 +288,6 @@ export function settingsDraft(book: Book): SettingsDraft {
     attrition,
     costingDate: s.costingDate ?? '',
   };
-}
-
-function validDate(text: string): boolean {
-  const m = ISO_DATE.exec(text);
-  if (!m) return false;
-  const d = new Date(Date.UTC(Number(m[1]), Number(m[2]) - 1, Number(m[3])));
-  return d.getUTCFullYear() === Number(m[1]) && d.getUTCMonth() === Number(m[2]) - 1 && d.getUTCDate() === Number(m[3]);
 }
 
 /** Checks a settings draft; gives the new settings (same rev as read) or messages keyed by field. */
@@ -350,7 +343,7 @@ export function validateSettings(d: SettingsDraft, book: Book): FormResult<Setti
   }
 
   const date = d.costingDate.trim();
-  if (date !== '' && !validDate(date)) problems.costingDate = 'a date as YYYY-MM-DD, or blank for today';
+  if (date !== '' && !isIsoDate(date)) problems.costingDate = 'a date as YYYY-MM-DD, or blank for today';
 
   if (Object.keys(problems).length > 0) return { ok: false, problems };
   const record: Settings = {

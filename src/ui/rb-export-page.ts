@@ -6,7 +6,8 @@ import { customElement, state } from 'lit/decorators.js';
 import type { Book } from '../domain/book.ts';
 import type { Result } from '../domain/costing.ts';
 import { MAX_RUN_QUANTITY } from '../domain/freeze.ts';
-import { isIsoDate, purchaseList } from '../domain/purchase.ts';
+import { isIsoDate } from '../domain/dates.ts';
+import { purchaseList } from '../domain/purchase.ts';
 import { bookFileName, serializeBook } from '../io/book-file.ts';
 import {
   DEFAULT_EXPORT_OPTIONS,

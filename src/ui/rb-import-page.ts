@@ -6,7 +6,7 @@ import { customElement, state } from 'lit/decorators.js';
 import { live } from 'lit/directives/live.js';
 import type { Book, ColumnMapping, Supplier } from '../domain/book.ts';
 import { newId } from '../domain/book.ts';
-import { todayIso } from '../domain/costing.ts';
+import { todayIso } from '../domain/dates.ts';
 import type { Decimal, DateOrder, PriceUnit } from '../io/price-map.ts';
 import { knownCurrencies } from '../io/price-import.ts';
 import { planImport } from '../io/price-plan.ts';

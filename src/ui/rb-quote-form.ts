@@ -6,7 +6,7 @@ import { customElement, property, state } from 'lit/decorators.js';
 import { live } from 'lit/directives/live.js';
 import type { Book, Quote } from '../domain/book.ts';
 import { newId } from '../domain/book.ts';
-import { todayIso } from '../domain/costing.ts';
+import { todayIso } from '../domain/dates.ts';
 import { field, group, nothingSaved } from './form-fields.ts';
 import type { QuoteDraft, QuoteProblems } from './rb-quote-text.ts';
 import { quoteDraft, validateQuote } from './rb-quote-text.ts';

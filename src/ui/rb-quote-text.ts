@@ -1,6 +1,7 @@
 // How quotes read on screen (price breaks, lead times, status in words and symbols) and the pure rules that turn a
 // quote form's draft into a Quote or into messages keyed by field. No DOM here, so the rules run anywhere.
 import type { Book, PriceBreak, Quote } from '../domain/book.ts';
+import { isIsoDate } from '../domain/dates.ts';
 import { parseLeadDays } from '../io/price-map.ts';
 
 /** A price in the quote's currency: up to six significant figures, no trailing zeros ("0.0035", "2.2"). */
@@ -112,16 +113,8 @@ export function quoteDraft(q: Quote | undefined, today: string): QuoteDraft {
   };
 }
 
-const ISO_DATE = /^(\d{4})-(\d{2})-(\d{2})$/;
 const WHOLE = /^\d+$/;
 const DECIMAL = /^(?:\d+(?:\.\d*)?|\.\d+)$/;
-
-function isIsoDate(s: string): boolean {
-  const m = ISO_DATE.exec(s);
-  if (!m) return false;
-  const t = new Date(Date.UTC(Number(m[1]), Number(m[2]) - 1, Number(m[3])));
-  return t.getUTCFullYear() === Number(m[1]) && t.getUTCMonth() === Number(m[2]) - 1 && t.getUTCDate() === Number(m[3]);
-}
 
 /** Quantity cells may carry grouping spaces or commas ("10 000", "1,000"); prices use a decimal point. */
 function readWhole(text: string): number | undefined {

@@ -3,7 +3,7 @@
 import { LitElement, css, html } from 'lit';
 import { customElement, state } from 'lit/decorators.js';
 import type { Book, Part, Quote, Supplier } from '../domain/book.ts';
-import { todayIso } from '../domain/costing.ts';
+import { todayIso } from '../domain/dates.ts';
 import { currentQuoteIndex, supersede } from '../domain/quotes.ts';
 import { BookController } from './book-context.ts';
 import { rowActions } from './form-fields.ts';

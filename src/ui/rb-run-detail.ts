@@ -6,7 +6,7 @@ import type { TemplateResult } from 'lit';
 import { customElement, property } from 'lit/decorators.js';
 import type { Book, Run } from '../domain/book.ts';
 import type { Result } from '../domain/costing.ts';
-import { todayIso } from '../domain/costing.ts';
+import { todayIso } from '../domain/dates.ts';
 import { compareCostings, freezeRun, unfreezeRun } from '../domain/freeze.ts';
 import type { CostingComparison, LineChange } from '../domain/freeze.ts';
 import { purchaseList } from '../domain/purchase.ts';

@@ -9,7 +9,7 @@ import { captureIo, writeBook } from './cli-helpers.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { CostingWorkbook, resolutionFromFamily } from '../../src/engine/costing.ts';
 import { resolveFamily } from '../../src/engine/family.ts';
-import { daysBefore } from '../../src/cli/commands/buy.ts';
+import { daysBefore } from '../../src/domain/dates.ts';
 
 let dir = '';
 let demoFile = '';

@@ -3,7 +3,8 @@
 import { describe, expect, it } from 'vitest';
 import { costVariantRun, prepareCosting, resolveFixedLines, toCents } from '../../src/domain/costing.ts';
 import type { Book } from '../../src/domain/book.ts';
-import { daysBefore, isIsoDate, orderReason, purchaseList } from '../../src/domain/purchase.ts';
+import { daysBefore, isIsoDate } from '../../src/domain/dates.ts';
+import { orderReason, purchaseList } from '../../src/domain/purchase.ts';
 import { part, smallBook } from './costing-fixtures.ts';
 
 function costed(book: Book, run: number) {

@@ -1,14 +1,13 @@
 // `rungbook buy FILE --variant CODE --run N`: the purchase list of a production run, grouped by supplier, with order
 // quantities in packs and units, prices, lead times and the latest date to order each line.
 import type { Book, Variant } from '../../domain/book.ts';
-import { daysBefore, isIsoDate, purchaseList } from '../../domain/purchase.ts';
+import { isIsoDate } from '../../domain/dates.ts';
+import { purchaseList } from '../../domain/purchase.ts';
 import { purchaseListCsv } from '../../io/run-export.ts';
 import { parseArgs } from '../command.ts';
 import type { CliCommand, CliIo, ParsedArgs } from '../command.ts';
 import { COSTING_FLAGS, COSTING_VALUES, CSV_CHOICES, costFromArgs, fmt, table } from './cost.ts';
 import { MAINS_CAUTION } from './info.ts';
-
-export { daysBefore };
 
 const HELP = `usage: rungbook buy FILE --variant CODE --run N [--wanted YYYY-MM-DD] [--csv [CSV CHOICES]] [--date YYYY-MM-DD] [--fresh]
 

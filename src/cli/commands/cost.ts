@@ -2,6 +2,7 @@
 // as a table, JSON or CSV. The numbers come from the same costing workbook the app uses.
 import type { Book, Variant } from '../../domain/book.ts';
 import type { CostedBom } from '../../domain/costing.ts';
+import { isIsoDate } from '../../domain/dates.ts';
 import { costedBomCsv, costVariant, frozenCosting, parseExportOptions } from '../../io/run-export.ts';
 import type { ExportOptions, RunCosting } from '../../io/run-export.ts';
 import { parseArgs } from '../command.ts';
@@ -93,7 +94,7 @@ export async function costFromArgs(name: string, parsed: ParsedArgs, help: strin
     return 2;
   }
   const date = parsed.options.get('date');
-  if (date !== undefined && (typeof date !== 'string' || !/^\d{4}-\d{2}-\d{2}$/.test(date))) {
+  if (date !== undefined && (typeof date !== 'string' || !isIsoDate(date))) {
     io.err(`rungbook ${name}: --date must be YYYY-MM-DD`);
     return 2;
   }

@@ -1,6 +1,7 @@
 // The benchmark's page in Chromium: runs the costing measurements (costing-core.ts) and the price import the app
 // makes (file → Web Worker → plan → save through the Book service into IndexedDB), for tests/bench/browser.ts.
 import { applyChange } from '../../../src/domain/book-ops.ts';
+import { todayIso } from '../../../src/domain/dates.ts';
 import { findSupplier, knownCurrencies } from '../../../src/io/price-import.ts';
 import { planImport } from '../../../src/io/price-plan.ts';
 import { samplePriceFile } from '../../../src/io/price-sample.ts';
@@ -46,7 +47,7 @@ async function importPrices(options: PriceSampleOptions): Promise<Figures> {
     const analyse: AnalyseOptions = {
       defaultCurrency: supplier.currency,
       knownCurrencies: knownCurrencies(book),
-      today: new Date().toISOString().slice(0, 10),
+      today: todayIso(),
     };
     if (supplier.mapping) analyse.mapping = supplier.mapping;
 
