@@ -5,6 +5,7 @@ import { readFileSync, readdirSync, statSync, writeFileSync } from 'node:fs';
 import { join, relative, resolve } from 'node:path';
 import { defineConfig } from 'vite';
 import type { Plugin, ResolvedConfig } from 'vite';
+import { CONTENT_SECURITY_POLICY } from './scripts/security-headers.mjs';
 
 const SW_SOURCE = resolve(import.meta.dirname, 'src/ui/service-worker.ts');
 const SW_FILE = 'sw.js';
@@ -57,8 +58,24 @@ function offlineApp(): Plugin {
   };
 }
 
+const CSP_MARK = '__RB_CONTENT_SECURITY_POLICY__';
+
+/** Writes the one Content-Security-Policy (scripts/security-headers.mjs) into index.html's meta tag. */
+function contentSecurityPolicy(): Plugin {
+  return {
+    name: 'rungbook-csp',
+    transformIndexHtml: {
+      order: 'pre',
+      handler(html) {
+        if (!html.includes(CSP_MARK)) throw new Error(`index.html has no ${CSP_MARK} for the Content-Security-Policy`);
+        return html.replaceAll(CSP_MARK, CONTENT_SECURITY_POLICY);
+      },
+    },
+  };
+}
+
 export default defineConfig({
-  plugins: [offlineApp()],
+  plugins: [contentSecurityPolicy(), offlineApp()],
   build: {
     target: 'es2022',
     sourcemap: false,
