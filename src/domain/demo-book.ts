@@ -35,7 +35,7 @@ function settings(): Settings {
     overheadPct: 18,
     marginPct: 30,
     // Fractions. Chip passives 1–2 %, larger parts 0.5–1 %, ICs a few spares per run
-    // (REFERENCES.md "Attrition allowances", common practice).
+    // (attrition allowances: common practice).
     attrition: {
       resistor: 0.02,
       capacitor: 0.015,
@@ -229,7 +229,7 @@ function parts(): Part[] {
 /**
  * Variants. Component values are on E12 (IEC 60063). The stepped divider is r_top over the step resistor of the
  * selected step, feeding the timer's control pin: a larger step resistor gives a higher control voltage and so a
- * longer high time (REFERENCES.md, 555-type astable with the control pin held).
+ * longer high time (textbook 555-type astable with the control pin held, from memory).
  */
 function variants(): Variant[] {
   const v = (id: string, code: string, name: string, params: Variant['params'], notes: string): Variant => ({

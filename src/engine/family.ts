@@ -1,7 +1,7 @@
 // Compiles a Book's family into ONE engine table — a row per variant, a column per name — so check formulas and
 // build rules can say `load_w` or `switch_v_max` and mean "this variant's". Resolves build lines and evaluates checks.
 //
-// Layout (DESIGN.md measured it well ahead of sheet-scoped named expressions): the family sheet's columns are every
+// Layout (our engine prototypes measured it well ahead of sheet-scoped named expressions): the family sheet's columns are every
 // variant parameter, the role names (`<role>_<rating>`, `<role>_value`) some check reads, every check value (so
 // checks may read each other by name), then the check limits that read check values. Formulas that read only
 // parameters and role names (every build rule, most applies rules and limits) are evaluated once per distinct

@@ -30,8 +30,8 @@ describe('notebook pages of the user’s own', () => {
     expect(new URL(page.url()).hash).toMatch(/^#\/notebook\//);
     await expect(page.locator('rb-user-page rb-mains-caution p').textContent()).resolves.toMatch(/can kill/);
 
-    // Demo Book: FR5-75-CD is rated 75 W; its 1 MΩ bleeder fails the 34 V-in-1 s rule (IEC 60335-1 22.5 via
-    // REFERENCES.md: 38.74 V remain after 1 s).
+    // Demo Book: FR5-75-CD is rated 75 W; its 1 MΩ bleeder fails the 34 V-in-1 s rule (IEC 60335-1 cl. 22.5 as
+    // quoted in secondary sources: 38.74 V remain after 1 s).
     await write(page, 'A1', '=VAR("FR5-75-CD", "load_w") * 2');
     await expect.poll(() => shown(page, 'A1').textContent()).toMatch(/^\s*150\s*$/);
     await write(page, 'B1', '=CHECK_STATUS("FR5-75-CD", "bleeder_time")');
@@ -42,7 +42,7 @@ describe('notebook pages of the user’s own', () => {
       'PART_PRICE: no part with maker part number "NO-SUCH-PART" in the Book',
     );
     // An engineering value typed with its unit is a number: 0.47 µF at 230 V 50 Hz draws 33.96 mA
-    // (capacitive dropper, REFERENCES.md).
+    // (capacitive dropper, basic circuit theory, from memory).
     await write(page, 'B2', '0.47 uF');
     await page.getByRole('button', { name: '+ column' }).click();
     await saved(page);

@@ -27,7 +27,7 @@ describe('Checks page', () => {
   it('shows every check on every demo variant with word and symbol, and the mains caution', async () => {
     const { page, errors } = await open('#/checks');
     await expect(page.locator('rb-mains-caution p').textContent()).resolves.toMatch(/can kill.*not a certification/s);
-    // Demo Book notes: FR5-75-CD's 1 MΩ bleeder fails (IEC 60335-1 22.5: 38.74 V left after 1 s, REFERENCES.md);
+    // Demo Book notes: FR5-75-CD's 1 MΩ bleeder fails (IEC 60335-1 cl. 22.5 as quoted in secondary sources: 38.74 V left after 1 s);
     // FR5-150-RT has a transformer supply, so the dropper checks do not apply.
     expect(await status(page, 'FR5-75-CD', 'bleeder_time')).toBe('fail');
     await expect(cell(page, 'FR5-75-CD', 'bleeder_time').textContent()).resolves.toMatch(/✗\s*fail/);
@@ -37,7 +37,7 @@ describe('Checks page', () => {
     await cell(page, 'FR4-60-CD', 'switch_v_stress').click();
     const detail = page.locator('[data-testid="check-detail"]');
     await detail.waitFor();
-    // IEC 60038 via REFERENCES.md: √2 · 230 V · 1.1 = 357.8 V, shown to 3 figures.
+    // IEC 60038:2009, table 1: √2 · 230 V · 1.1 = 357.8 V, shown to 3 figures.
     await expect(detail.locator('[data-testid="detail-value"]').textContent()).resolves.toContain('358 V');
     await expect(detail.textContent()).resolves.toContain('MAINS_PEAK(mains_v, mains_tol)');
     await page.screenshot({ path: '/tmp/rungbook-checks.png', fullPage: true });
@@ -52,7 +52,7 @@ describe('Checks page', () => {
     await load.fill('1500 W');
     await load.press('Enter');
     // 1500 W / (230 V · 0.92) = 7.089 A > 6 A of the largest demo MOSFET; 0.9003 · 7.089 A = 6.382 A > 2 A bridge
-    // (load current I = P/(V·PF) and the rectified mean 0.9003 · I_rms, REFERENCES.md).
+    // (load current I = P/(V·PF) and the rectified mean 0.9003 · I_rms, basic circuit theory, from memory).
     await expect.poll(() => status(page, 'FR5-150-RT', 'load_i')).toBe('fail');
     expect(await status(page, 'FR5-150-RT', 'bridge_i')).toBe('fail');
     expect(await status(page, 'FR5-150-RT', 'bridge_loss')).toBe('fail');
@@ -106,7 +106,7 @@ describe('Checks page', () => {
     await page.screenshot({ path: '/tmp/rungbook-check-form.png', fullPage: true });
     await page.getByRole('button', { name: 'Add the check' }).click();
     await cell(page, 'FR4-60-CD', 'peak_margin').waitFor();
-    // 357.8 V at 230 V +10 % and 186.7 V at 120 V +10 % (REFERENCES.md, IEC 60038): both under 400 V by more
+    // 357.8 V at 230 V +10 % and 186.7 V at 120 V +10 % (IEC 60038:2009, table 1): both under 400 V by more
     // than the 5 % band (380 V), so every variant passes.
     expect(await status(page, 'FR4-60-CD', 'peak_margin')).toBe('pass');
     expect(await status(page, 'FR3-60-CD-U', 'peak_margin')).toBe('pass');

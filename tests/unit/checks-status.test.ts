@@ -4,7 +4,7 @@ import fc from 'fast-check';
 import { CHECK_STATUS, STATUS_SEVERITY, STATUS_SYMBOL, judge, worstOf } from '../../src/domain/check-status.ts';
 
 describe('judge', () => {
-  it('max: 80 % voltage derating of a 600 V switch at 230 V +10 % (REFERENCES: 357.8 V against 480 V)', () => {
+  it('max: 80 % voltage derating of a 600 V switch at 230 V +10 % (IEC 60038:2009 table 1, common-practice derating: 357.8 V against 480 V)', () => {
     // 480 V limit with a 10 % band: pass up to 432 V, margin from there to 480 V, fail above.
     expect(judge(357.8, { kind: 'max', limit: 'x', margin: 0.1 }, { limit: 480 }).status).toBe('pass');
     expect(judge(447.2, { kind: 'max', limit: 'x', margin: 0.1 }, { limit: 480 }).status).toBe('margin');

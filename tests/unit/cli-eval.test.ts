@@ -8,7 +8,7 @@ function run(...argv: string[]): Promise<{ code: number; out: string; err: strin
 }
 
 describe('rungbook eval', () => {
-  it('prints a number at full precision: MAINS_PEAK(230, 0.1) = 357.8 V (IEC 60038 +10 %, REFERENCES.md)', async () => {
+  it('prints a number at full precision: MAINS_PEAK(230, 0.1) = 357.8 V (IEC 60038:2009 table 1, +10 %)', async () => {
     const r = await run('MAINS_PEAK(230, 0.1)');
     expect(r.code).toBe(0);
     expect(r.err).toBe('');
@@ -21,10 +21,10 @@ describe('rungbook eval', () => {
     const b = await run('XCAP_AMPS(0.47e-6, 230, 50)');
     expect(a.code).toBe(0);
     expect(a.out).toBe(b.out);
-    expect(Number(a.out)).toBeCloseTo(33.96e-3, 5); // 2π · 50 · 0.47 µF · 230 V (REFERENCES.md, Capacitive dropper)
+    expect(Number(a.out)).toBeCloseTo(33.96e-3, 5); // 2π · 50 · 0.47 µF · 230 V (basic circuit theory, from memory)
   });
   it('shows every digit of the double, not the engine display rounding: 100 * 1.1', async () => {
-    expect((await run('100 * 1.1')).out).toBe('110.00000000000001'); // IEEE double, REFERENCES.md costing trap
+    expect((await run('100 * 1.1')).out).toBe('110.00000000000001'); // IEEE 754 binary64: the costing float trap
     expect((await run('NEED_QTY(1, 100, 0.1)')).out).toBe('110');
   });
   it('prints text as is and logical values as TRUE/FALSE', async () => {

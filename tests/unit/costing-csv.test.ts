@@ -1,10 +1,10 @@
-// CSV export writer: RFC 4180 quoting and formula-injection neutralising (REFERENCES.md "CSV").
+// CSV export writer: RFC 4180 quoting and formula-injection neutralising (RFC 4180 §2; OWASP CSV injection guidance).
 import { describe, expect, it } from 'vitest';
 import Papa from 'papaparse';
 import { csvField, toCsv } from '../../src/io/csv-write.ts';
 
 describe('csv writer', () => {
-  it('neutralises a formula: =1+1 → "\'=1+1" (REFERENCES, OWASP guidance)', () => {
+  it('neutralises a formula: =1+1 → "\'=1+1" (OWASP CSV injection guidance)', () => {
     expect(csvField('=1+1')).toBe(`"'=1+1"`);
   });
   it('neutralises every dangerous first character: + - @ tab CR NUL', () => {
@@ -15,7 +15,7 @@ describe('csv writer', () => {
     expect(csvField('\rx')).toBe(`"'\rx"`);
     expect(csvField('\0x')).toBe(`"'\0x"`);
   });
-  it('quotes a field with a comma and doubles inner quotes (REFERENCES, RFC 4180 §2)', () => {
+  it('quotes a field with a comma and doubles inner quotes (RFC 4180 §2)', () => {
     expect(csvField('He said "hi", ok')).toBe(`"He said ""hi"", ok"`);
     expect(csvField('two\nlines')).toBe(`"two\nlines"`);
   });

@@ -118,7 +118,7 @@ describe('costing workbook', () => {
   });
 
   it('lets a user override a cost cell with a formula, and the unit cost and price follow', () => {
-    // Material 1.85, labour 0.12 h × 15.00 = 1.80, overhead 100 % of labour = 1.80 → 5.45 (REFERENCES standard cost).
+    // Material 1.85, labour 0.12 h × 15.00 = 1.80, overhead 100 % of labour = 1.80 → 5.45 (standard cost, cost-accounting texts, from memory).
     const book = smallBook({
       parts: [part('p1')],
       quotes: { p1: [{ breaks: [{ qty: 1, price: 1.85 }] }] },

@@ -1,4 +1,4 @@
-// Every costing function resolves by name in an engine and gives the worked values of REFERENCES.md "Costing".
+// Every costing function resolves by name in an engine and gives the worked costing values (operations-management and cost-accounting texts, from memory).
 import { describe, expect, it } from 'vitest';
 import { HyperFormula } from 'hyperformula';
 import { COSTING_FUNCTION_DOCS, CostingPlugin, registerCostingFunctions } from '../../src/engine/costing-functions.ts';
@@ -8,7 +8,7 @@ function engine(): HyperFormula {
   registerCostingFunctions();
   return HyperFormula.buildFromSheets(
     {
-      // REFERENCES all-units example as one quote row: rate 1, MOQ 1, pack 10, then break qty/price pairs.
+      // The all-units worked example as one quote row: rate 1, MOQ 1, pack 10, then break qty/price pairs.
       Quotes: [[1, 1, 10, 1, 0.3, 100, 0.2, 500, 0.15, 1000, 0.12, 2500, 0.09]],
       // Standard-cost example settings: 15.00/h, 7.2 min (0.12 h) per unit, no placement minutes, no test, 100 %, 20 %.
       Settings: [[15, 7.2, 0, 0, 100, 20]],
@@ -26,9 +26,9 @@ describe('costing functions', () => {
     const hf = engine();
     const sheet = hf.getSheetId('Quotes')!;
     const calc = (f: string): unknown => hf.calculateFormula(f, sheet);
-    // REFERENCES buy-up: need 909, pack 10 → 1000 × 0.12 = 120.00 beats 910 × 0.15 = 136.50 → 12000 cents.
+    // All-units buy-up (operations-management texts, from memory): need 909, pack 10 → 1000 × 0.12 = 120.00 beats 910 × 0.15 = 136.50 → 12000 cents.
     expect(calc('=COST_BEST(909, Quotes!A1:M1)')).toBe(12000);
-    // REFERENCES standard cost: material 1850.00 over 1000 units = 1.85; labour 0.12 h × 15.00 = 1.80; overhead 1.80.
+    // Standard cost (cost-accounting texts, from memory): material 1850.00 over 1000 units = 1.85; labour 0.12 h × 15.00 = 1.80; overhead 1.80.
     expect(calc('=COST_MATERIAL(1000, 185000)')).toBe(1.85);
     expect(calc('=COST_LABOUR(0, 15, 7.2, 0)')).toBe(1.8);
     expect(calc('=COST_OVERHEAD(1.8, 100)')).toBe(1.8);

@@ -1,4 +1,4 @@
-// Run costing rules checked against worked examples (REFERENCES.md "Costing") and by hand, with the steps shown.
+// Run costing rules checked against worked examples (operations-management and cost-accounting texts, from memory) and by hand, with the steps shown.
 import { describe, expect, it } from 'vitest';
 import {
   bestBuy,
@@ -17,7 +17,7 @@ import { part, smallBook, value } from './costing-fixtures.ts';
 import type { LineSpec, QuoteSpec } from './costing-fixtures.ts';
 import type { Part, Settings } from '../../src/domain/book.ts';
 
-/** Breaks of the REFERENCES all-units example (operations-management texts). */
+/** Breaks of the all-units worked example (operations-management texts, from memory). */
 const REF_BREAKS = [
   { qty: 1, price: 0.3 },
   { qty: 100, price: 0.2 },
@@ -33,12 +33,12 @@ function costOne(opts: { parts: Part[]; quotes: Record<string, QuoteSpec[]>; lin
 }
 
 describe('need quantity', () => {
-  it('rounds away the float trap before rounding up (REFERENCES: 100 × 1.1 = 110.00000000000001)', () => {
+  it('rounds away the float trap before rounding up (IEEE 754 binary64: 100 × 1.1 = 110.00000000000001)', () => {
     // 1 per unit × 100 units × (1 + 0.10) = 110 exactly; a naive ceil of the double gives 111.
     expect(Math.ceil(1 * 100 * (1 + 0.1))).toBe(111); // the trap itself
     expect(value(needQty(1, 100, 0.1))).toBe(110);
   });
-  it('gives 909 for 2 per unit × 450 units with 1 % attrition (REFERENCES costing example)', () => {
+  it('gives 909 for 2 per unit × 450 units with 1 % attrition (all-units worked example, operations-management texts, from memory)', () => {
     // 2 × 450 = 900; × 1.01 = 909.
     expect(value(needQty(2, 450, 0.01))).toBe(909);
   });
@@ -53,7 +53,7 @@ describe('need quantity', () => {
 });
 
 describe('buy quantity', () => {
-  it('rounds the need up to whole packs: 909 in packs of 10 → 910 (REFERENCES costing example)', () => {
+  it('rounds the need up to whole packs: 909 in packs of 10 → 910 (all-units worked example, operations-management texts, from memory)', () => {
     expect(value(buyQty(909, 1, 10))).toBe(910);
   });
   it('lifts a need below the MOQ to the MOQ, then to whole packs (by hand)', () => {
@@ -72,7 +72,7 @@ describe('buy quantity', () => {
 });
 
 describe('price breaks (all-units)', () => {
-  it('prices exactly at, one below and one above a break (by hand from the REFERENCES break table)', () => {
+  it('prices exactly at, one below and one above a break (by hand from the all-units break table)', () => {
     expect(value(breakPrice(REF_BREAKS, 99)).price).toBe(0.3); // highest break ≤ 99 is 1
     expect(value(breakPrice(REF_BREAKS, 100)).price).toBe(0.2); // exactly at 100
     expect(value(breakPrice(REF_BREAKS, 101)).price).toBe(0.2); // highest break ≤ 101 is 100
@@ -95,14 +95,14 @@ describe('price breaks (all-units)', () => {
 });
 
 describe('best buy from one quote', () => {
-  it('buys up to 1000 when that costs less (REFERENCES: 910 × 0.15 = 136.50 but 1000 × 0.12 = 120.00)', () => {
+  it('buys up to 1000 when that costs less (operations-management texts, from memory: 910 × 0.15 = 136.50 but 1000 × 0.12 = 120.00)', () => {
     const need = value(needQty(2, 450, 0.01)); // 909
     const b = value(bestBuy({ moq: 1, pack: 10, breaks: REF_BREAKS }, need));
     // Candidates: 910 × 0.15 = 136.50; 1000 × 0.12 = 120.00; 2500 × 0.09 = 225.00 → 1000 wins.
     expect(b.buy).toBe(1000);
     expect(b.unitPrice).toBe(0.12);
     expect(b.extended).toBe(120);
-    // REFERENCES counts 90 spare against the 910 pack-rounded order; our leftover is buy − need = 1000 − 909.
+    // The worked example counts 90 spare against the 910 pack-rounded order; our leftover is buy − need = 1000 − 909.
     expect(b.leftover).toBe(91);
   });
   it('stays at the plain quantity when buying up costs more (by hand)', () => {
@@ -214,7 +214,7 @@ describe('choice of quote', () => {
 });
 
 describe('costed BOM', () => {
-  it('reproduces the standard-cost example: 1.85 + 1.80 + 1.80 = 5.45 (REFERENCES, cost-accounting texts)', () => {
+  it('reproduces the standard-cost example: 1.85 + 1.80 + 1.80 = 5.45 (cost-accounting texts, from memory)', () => {
     // Material 1.85 per unit: one part at 1.85, run 1000, no attrition → 1850.00 / 1000 = 1.85.
     // Labour 0.12 h × 15.00/h = 1.80: 0.12 h = 7.2 minutes per unit, no placement minutes.
     // Overhead 240,000 / 16,000 h = 15.00 per labour hour; on our labour-cost base that is 15.00 / 15.00 = 100 %

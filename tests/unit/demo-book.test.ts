@@ -1,5 +1,5 @@
 // The demo Book is complete and consistent, its rules resolve for every variant, and each variant lands on the
-// check status its comment promises when worked by the published formulas of REFERENCES.md.
+// check status its comment promises when worked by the formulas the check notes cite.
 import { describe, expect, it } from 'vitest';
 import { HyperFormula } from 'hyperformula';
 import Papa from 'papaparse';
@@ -200,7 +200,7 @@ describe('demo Book contents', () => {
   });
 
   it('holds a quote where buying up to the next break costs less', () => {
-    // All-units breaks (REFERENCES.md "Costing"): 2,000 units × 1 per unit × 1.015 attrition = 2,030, pack 10 → 2,030;
+    // All-units breaks (operations-management texts, from memory): 2,000 units × 1 per unit × 1.015 attrition = 2,030, pack 10 → 2,030;
     // 2,030 × 0.12 = 243.60 but 2,500 × 0.09 = 225.00.
     const q = book.quotes.find((x) => x.id === 'quote_halvern_xcap_470n')!;
     expect(q.breaks).toEqual([
@@ -288,8 +288,8 @@ describe('demo variants meet the check status their comments promise', () => {
   const dropper = book.variants.filter((v) => v.params.supply === 'dropper');
 
   it('discharge after unplugging: only FR5-75-CD leaves more than 34 V after 1 s', () => {
-    // IEC 60335-1 clause 22.5 as quoted in REFERENCES.md: ≤ 34 V within 1 s from the mains peak.
-    // V(1 s) = V0 · exp(−1 / (R·C)). REFERENCES.md: 1 MΩ with 0.47 µF from 325.3 V leaves 38.74 V.
+    // IEC 60335-1 clause 22.5 as quoted in secondary sources: ≤ 34 V within 1 s from the mains peak.
+    // V(1 s) = V0 · exp(−1 / (R·C)) (basic circuit theory): 1 MΩ with 0.47 µF from 325.3 V leaves 38.74 V.
     const left = (v: Variant) => Math.SQRT2 * num(v, 'mains_v') * Math.exp(-1 / (num(v, 'r_bleed') * num(v, 'c_drop')));
     expect(left(variantByCode.get('FR5-75-CD')!)).toBeCloseTo(38.74, 2);
     for (const v of dropper) {
@@ -302,7 +302,7 @@ describe('demo variants meet the check status their comments promise', () => {
 
   it('zener dissipation with twice the worst case: FR6-100-CD at margin, the rest pass', () => {
     // Half-wave dropper, zener resets the capacitor: I = f·C·(2·V_pk − V_z − V_f), at high mains and high C
-    // (REFERENCES.md "Capacitive dropper"; 253 V, 0.517 µF, 12 V → 18.17 mA, 0.2308 W with V_f = 0.7 V).
+    // (basic circuit theory, from memory; 253 V, 0.517 µF, 12 V → 18.17 mA, 0.2308 W with V_f = 0.7 V).
     // With no load the zener carries that mean current in reverse at V_z and forward (resetting the capacitor) at
     // V_f, so it dissipates I·(V_z + V_f): 18.17 mA × 12.7 V = 0.2308 W. Doubled for margin (common practice).
     const worst = (v: Variant) => {
@@ -323,7 +323,7 @@ describe('demo variants meet the check status their comments promise', () => {
   });
 
   it('dropper current at low mains and low capacitance: FR6-75-CD-U at margin, the rest pass', () => {
-    // Same half-wave charge balance at −10 % mains and −tolerance capacitance (REFERENCES.md "Capacitive dropper";
+    // Same half-wave charge balance at −10 % mains and −tolerance capacitance (basic circuit theory, from memory;
     // the form is checked against its worked example: 230 V, 0.47 µF, 12 V → 14.99 mA with V_f = 0.7 V).
     const amps = (vRms: number, f: number, c: number, vz: number, vf: number) => f * c * (2 * Math.SQRT2 * vRms - vz - vf);
     expect(amps(230, 50, 0.47e-6, 12, 0.7) * 1000).toBeCloseTo(14.99, 2);
@@ -347,19 +347,19 @@ describe('demo variants meet the check status their comments promise', () => {
       const sw = partForRole(bom, 'switch')!;
       const sink = partForRole(bom, 'heatsink')!;
       const vPeakMax = Math.SQRT2 * num(v, 'mains_v') * (1 + num(v, 'mains_tol'));
-      // Keep voltage stress ≤ 80 % of rating (REFERENCES.md "Mains"; 230 V +10 % needs 447.2 V).
+      // Keep voltage stress ≤ 80 % of rating (common practice; 230 V +10 % needs 447.2 V).
       expect(sw.ratings.v_max!, v.code).toBeGreaterThanOrEqual(vPeakMax / 0.8);
-      // Load current I = P / (V · PF) (REFERENCES.md "Power stage and heat").
+      // Load current I = P / (V · PF) (basic circuit theory, from memory).
       const iRms = num(v, 'load_w') / (num(v, 'mains_v') * num(v, 'pf'));
       expect(sw.ratings.i_max!, v.code).toBeGreaterThan(iRms * 2);
       if (v.params.stage === 'mosfet') {
         expect(num(v, 'vcc'), v.code).toBeGreaterThanOrEqual(sw.ratings.vgs_full!);
-        // Conduction loss I²·R_on with R_on doubled for a hot die (rule of thumb in REFERENCES.md); thermal chain
-        // T_j = T_a + P·(Rθ_jc + Rθ_cs + Rθ_sa) (power electronics textbooks).
+        // Conduction loss I²·R_on with R_on doubled for a hot die (rule of thumb, from memory); thermal chain
+        // T_j = T_a + P·(Rθ_jc + Rθ_cs + Rθ_sa) (power electronics textbooks, from memory).
         const p = iRms ** 2 * 2 * sw.ratings.rds_on!;
         const tj = num(v, 't_amb') + p * (sw.ratings.rth_jc! + sink.ratings.rth_cs! + sink.ratings.rth_sa!);
         expect(statusMax(tj, sw.ratings.tj_max!), v.code).toBe('pass');
-        // Bridge average current 0.9003 · I_rms for a sine (REFERENCES.md).
+        // Bridge average current 0.9003 · I_rms for a sine (2√2/π, basic circuit theory, from memory).
         const bridge = partForRole(bom, 'bridge')!;
         expect(bridge.ratings.i_max!).toBeGreaterThan(0.9003 * iRms);
         expect(bridge.ratings.v_max!).toBeGreaterThanOrEqual(vPeakMax / 0.8);
@@ -368,7 +368,7 @@ describe('demo variants meet the check status their comments promise', () => {
   });
 
   it('snubber resistor dissipation C·V_pk²·f stays within its rating', () => {
-    // P = C·V²·f with the peak voltage, the conservative form (REFERENCES.md: 10 nF, 230 V, 1 kHz → 1.058 W).
+    // P = C·V²·f with the peak voltage, the conservative form (basic circuit theory, from memory: 10 nF, 230 V, 1 kHz → 1.058 W).
     const watts = (c: number, vRms: number, f: number) => c * (Math.SQRT2 * vRms) ** 2 * f;
     expect(watts(10e-9, 230, 1000)).toBeCloseTo(1.058, 3);
     for (const v of book.variants) {
@@ -383,7 +383,7 @@ describe('demo variants meet the check status their comments promise', () => {
   });
 
   it('astable frequency stays within f_pwm_min…f_pwm_max and duty rises with every step', () => {
-    // Control pin held at V_c: t_H = (R_A+R_B)·C·ln((V_cc − V_c/2)/(V_cc − V_c)), t_L = ln2·R_B·C (REFERENCES.md;
+    // Control pin held at V_c: t_H = (R_A+R_B)·C·ln((V_cc − V_c/2)/(V_cc − V_c)), t_L = ln2·R_B·C (textbook 555 formulas, from memory;
     // worked example R_A 1 kΩ, R_B 10 kΩ, C 10 µF, V_cc 10 V, V_c 9.5 V → t_H 0.2587 s). The divider is taken as
     // ideal (the timer's own control-pin network is left out).
     const tHigh = (ra: number, rb: number, c: number, vcc: number, vc: number) => (ra + rb) * c * Math.log((vcc - vc / 2) / (vcc - vc));
@@ -407,7 +407,7 @@ describe('demo variants meet the check status their comments promise', () => {
   });
 
   it('debounce RC reaches half the supply after the longest bounce', () => {
-    // t = R·C·ln(V_cc / (V_cc − V_th)); 100 kΩ × 100 nF to ½V_cc → 6.931 ms (REFERENCES.md "Debounce").
+    // t = R·C·ln(V_cc / (V_cc − V_th)); 100 kΩ × 100 nF to ½V_cc → 6.931 ms (RC charge, basic circuit theory, from memory).
     for (const v of book.variants.filter((x) => x.params.selector === 'button')) {
       const t = num(v, 'r_db') * num(v, 'c_db') * Math.log(2);
       expect(t).toBeCloseTo(6.931e-3, 6);

@@ -136,7 +136,7 @@ describe('costed BOM CSV', () => {
   });
 });
 
-describe('formula-injection safety (OWASP CSV injection guidance; REFERENCES "CSV")', () => {
+describe('formula-injection safety (OWASP CSV injection guidance; OWASP ASVS 5.0 1.2.10)', () => {
   const dangerous = ['=', '+', '-', '@', '\t', '\r'];
 
   it('neutralises parts whose descriptions start with each dangerous character, in both files', () => {

@@ -161,7 +161,7 @@ describe('evaluateFormula gives error values with words, never an exception', ()
   });
 
   it('our own functions still answer through the guard', () => {
-    // 0.47 µF at 230 V / 50 Hz: I = 2π·50·0.47e-6·230 = 33.96 mA (REFERENCES.md, capacitive dropper worked example).
+    // 0.47 µF at 230 V / 50 Hz: I = 2π·50·0.47e-6·230 = 33.96 mA (capacitive dropper, basic circuit theory, from memory).
     const r = evaluateFormula(hf, 'XCAP_AMPS(0.47e-6, 230, 50)', sheet);
     expect(r.ok).toBe(true);
     if (r.ok) expect(r.value as number).toBeCloseTo(0.03396, 5);

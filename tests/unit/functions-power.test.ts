@@ -1,11 +1,11 @@
-// Power-stage and thermal formula functions against published worked values (REFERENCES.md, Power stage and heat).
+// Power-stage and thermal formula functions against published worked values (power electronics textbooks and basic circuit theory, from memory).
 import { describe, expect, it } from 'vitest';
 import { formulaSheet, near4 } from './functions-helpers.ts';
 
 const { calc, fails } = formulaSheet('power');
 
 describe('LOAD_AMPS (I = P / (V · PF))', () => {
-  it('60 W at 230 V, PF 0.9 draws 0.2899 A (REFERENCES.md)', () => {
+  it('60 W at 230 V, PF 0.9 draws 0.2899 A (basic circuit theory, from memory)', () => {
     near4(calc('=LOAD_AMPS(60, 230, 0.9)'), 0.2899);
   });
   it('refuses a power factor of 0 or above 1 and a voltage of 0', () => {
@@ -19,10 +19,10 @@ describe('COND_LOSS and BRIDGE_LOSS', () => {
   it('conduction loss I²·R: 2 A through 0.5 Ω is 2 W (by hand: 2² × 0.5)', () => {
     expect(calc('=COND_LOSS(2, 0.5)')).toBe(2);
   });
-  it('R_on roughly doubling from 25 °C to 125 °C doubles the loss (REFERENCES.md, rule of thumb)', () => {
+  it('R_on roughly doubling from 25 °C to 125 °C doubles the loss (rule of thumb, from memory)', () => {
     expect(calc('=COND_LOSS(0.29, 2 * 1.2) / COND_LOSS(0.29, 1.2)')).toBeCloseTo(2, 12);
   });
-  it('bridge loss 2·V_f·I_avg with I_avg = 0.9003·I_rms: 0.5 A rms, 1.0 V → 0.9003 W (REFERENCES.md)', () => {
+  it('bridge loss 2·V_f·I_avg with I_avg = 0.9003·I_rms: 0.5 A rms, 1.0 V → 0.9003 W (basic circuit theory, from memory)', () => {
     near4(calc('=BRIDGE_LOSS(0.9003 * 0.5, 1.0)'), 0.9003);
     // The sine's average-to-RMS ratio 2√2/π, computed rather than typed:
     near4(calc('=BRIDGE_LOSS(2 * SQRT(2) / PI() * 0.5, 1.0)'), 0.9003);
@@ -34,7 +34,7 @@ describe('COND_LOSS and BRIDGE_LOSS', () => {
 });
 
 describe('SNUB_WATTS (P = C·V²·f)', () => {
-  it('10 nF, 230 V rms, 1 kHz: 0.529 W; with the peak voltage 1.058 W (REFERENCES.md)', () => {
+  it('10 nF, 230 V rms, 1 kHz: 0.529 W; with the peak voltage 1.058 W (basic circuit theory, from memory)', () => {
     near4(calc('=SNUB_WATTS(10e-9, 230, 1000)'), 0.529);
     near4(calc('=SNUB_WATTS(10e-9, MAINS_PEAK(230), 1000)'), 1.058);
   });
@@ -44,7 +44,7 @@ describe('SNUB_WATTS (P = C·V²·f)', () => {
 });
 
 describe('JUNCTION_C and SINK_RTH_MAX (thermal chain T_j = T_a + P·ΣRθ; power electronics textbooks)', () => {
-  it('5 W through 3 + 1 + 8 K/W at 25 °C: 85 °C (REFERENCES.md)', () => {
+  it('5 W through 3 + 1 + 8 K/W at 25 °C: 85 °C (power electronics textbooks, from memory)', () => {
     expect(calc('=JUNCTION_C(5, 25, 3 + 1 + 8)')).toBe(85);
   });
   it('the largest heatsink for 85 °C at 5 W, 25 °C, 3 and 1 K/W is 8 K/W: the same chain solved for Rθ_sa', () => {

@@ -1,9 +1,9 @@
-// Purchasing functions: need with attrition, buy in MOQ and packs, all-units price breaks (REFERENCES.md, Costing).
+// Purchasing functions: need with attrition, buy in MOQ and packs, all-units price breaks (operations-management texts, from memory).
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { formulaSheet } from './functions-helpers.ts';
 
-// The operations-management example of REFERENCES.md: breaks 1 @ 0.30, 100 @ 0.20, 500 @ 0.15, 1000 @ 0.12,
+// The operations-management worked example (from memory): breaks 1 @ 0.30, 100 @ 0.20, 500 @ 0.15, 1000 @ 0.12,
 // 2500 @ 0.09, in A1:B5, with a sixth, empty break row for quotes with fewer breaks.
 const { value, fails } = formulaSheet('purchasing', [
   [1, 0.3],
@@ -18,10 +18,10 @@ const { value, fails } = formulaSheet('purchasing', [
 ]);
 
 describe('NEED_QTY', () => {
-  it('2 per unit × 450 units × 1.01 = 909 (REFERENCES.md, Costing)', () => {
+  it('2 per unit × 450 units × 1.01 = 909 (all-units worked example)', () => {
     expect(value('=NEED_QTY(2, 450, 0.01)')).toBe(909);
   });
-  it('100 × 1.1 is 110, not 111: the IEEE double 110.00000000000001 is not ceiled up (REFERENCES.md trap)', () => {
+  it('100 × 1.1 is 110, not 111: the IEEE 754 double 110.00000000000001 is not ceiled up', () => {
     expect(100 * 1.1).toBeGreaterThan(110); // the trap itself
     expect(value('=NEED_QTY(1, 100, 0.1)')).toBe(110);
   });
@@ -36,7 +36,7 @@ describe('NEED_QTY', () => {
 });
 
 describe('BUY_QTY', () => {
-  it('909 needed, pack 10 → 910 (REFERENCES.md, Costing)', () => {
+  it('909 needed, pack 10 → 910 (all-units worked example)', () => {
     expect(value('=BUY_QTY(909, 1, 10)')).toBe(910);
   });
   it('the MOQ lifts a small need, rounded to whole packs: need 30, MOQ 100, pack 40 → 120 (by hand)', () => {
@@ -63,12 +63,12 @@ describe('BUY_QTY', () => {
   });
 });
 
-describe('BREAK_PRICE (all-units price breaks; operations-management texts via REFERENCES.md)', () => {
+describe('BREAK_PRICE (all-units price breaks; operations-management texts, from memory)', () => {
   it('910 pieces are priced at the 500 break, 0.15; 1000 pieces at 0.12', () => {
     expect(value('=BREAK_PRICE(A1:A5, B1:B5, 910)')).toBe(0.15);
     expect(value('=BREAK_PRICE(A1:A5, B1:B5, 1000)')).toBe(0.12);
   });
-  it('buying 1000 costs 120.00, less than 910 at 136.50 (REFERENCES.md)', () => {
+  it('buying 1000 costs 120.00, less than 910 at 136.50 (all-units worked example)', () => {
     expect(value('=ROUND(910 * BREAK_PRICE(A1:A5, B1:B5, 910), 2)')).toBe(136.5);
     expect(value('=ROUND(1000 * BREAK_PRICE(A1:A5, B1:B5, 1000), 2)')).toBe(120);
   });

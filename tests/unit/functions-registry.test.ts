@@ -7,7 +7,7 @@ import { createEngine, registerRungbookFunctions } from '../../src/engine/create
 import { FUNCTION_AREAS, FUNCTION_DOCS, functionDoc, functionSignature } from '../../src/engine/functions/index.ts';
 import { FUNCTION_PLUGINS } from '../../src/engine/functions/index.ts';
 
-/** The names DESIGN.md lists, plus the ones the engine issue added. */
+/** The function names the README lists under Formulas. */
 const REQUIRED = [
   'MAINS_PEAK', 'XCAP_AMPS', 'XCAP_FOR', 'BLEED_TIME', 'DIVIDER_OUT', 'ASTABLE_HIGH', 'ASTABLE_LOW', 'ASTABLE_HZ',
   'ASTABLE_DUTY', 'RC_REACH', 'COND_LOSS', 'BRIDGE_LOSS', 'SNUB_WATTS', 'JUNCTION_C', 'SINK_RTH_MAX', 'E_NEAR',

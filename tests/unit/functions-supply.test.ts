@@ -1,17 +1,17 @@
-// Mains and logic-supply formula functions against published worked values (REFERENCES.md) and bad arguments.
+// Mains and logic-supply formula functions against worked values (IEC 60038:2009, IEC 60335-1 cl. 22.5; circuit theory from memory) and bad arguments.
 import { describe, expect, it } from 'vitest';
 import { formulaSheet, near4 } from './functions-helpers.ts';
 
 const { calc, fails } = formulaSheet('supply');
 
 describe('MAINS_PEAK', () => {
-  it('√2 · V_rms · (1 + tol): IEC 60038 nominal and +10 % (REFERENCES.md, Mains)', () => {
+  it('√2 · V_rms · (1 + tol): IEC 60038:2009 table 1 nominal and +10 %', () => {
     near4(calc('=MAINS_PEAK(230)'), 325.3);
     near4(calc('=MAINS_PEAK(230, 0.1)'), 357.8);
     near4(calc('=MAINS_PEAK(240, 10%)'), 373.4);
     near4(calc('=MAINS_PEAK(120, 0.1)'), 186.7);
   });
-  it('derived switch rating at 80 % derating: 230 V +10 % needs ≥ 447.2 V (REFERENCES.md, common guidance)', () => {
+  it('derived switch rating at 80 % derating: 230 V +10 % needs ≥ 447.2 V (common practice)', () => {
     near4(calc('=MAINS_PEAK(230, 0.1) / 0.8'), 447.2);
   });
   it('refuses a negative voltage and a tolerance of -100 % or less, naming the argument', () => {
@@ -20,7 +20,7 @@ describe('MAINS_PEAK', () => {
   });
 });
 
-describe('XCAP_AMPS and XCAP_FOR (basic circuit theory; REFERENCES.md, Capacitive dropper)', () => {
+describe('XCAP_AMPS and XCAP_FOR (basic circuit theory, from memory)', () => {
   it('0.47 µF at 230 V 50 Hz passes 33.96 mA; 0.22 µF 15.90 mA; 1.0 µF 72.26 mA; 0.47 µF at 120 V 60 Hz 21.26 mA', () => {
     near4(calc('=XCAP_AMPS(0.47e-6, 230, 50)'), 33.96e-3);
     near4(calc('=XCAP_AMPS(0.22e-6, 230, 50)'), 15.9e-3);
@@ -53,7 +53,7 @@ describe('XCAP_AMPS and XCAP_FOR (basic circuit theory; REFERENCES.md, Capacitiv
   });
 });
 
-describe('BLEED_TIME (RC discharge; IEC 60335-1 cl. 22.5 as quoted in REFERENCES.md)', () => {
+describe('BLEED_TIME (RC discharge; IEC 60335-1 cl. 22.5 as quoted in secondary sources)', () => {
   it('942.2 kΩ with 0.47 µF takes 1.000 s from 325.3 V to 34 V: the largest passing bleeder', () => {
     // τ = 942.2 kΩ · 0.47 µF = 0.4428 s; ln(325.3 / 34) = 2.2584; t = 0.4428 · 2.2584 = 1.000 s.
     near4(calc('=BLEED_TIME(942.2e3, 0.47e-6, 325.3, 34)'), 1.0);
@@ -63,7 +63,7 @@ describe('BLEED_TIME (RC discharge; IEC 60335-1 cl. 22.5 as quoted in REFERENCES
     near4(calc('=BLEED_TIME(1e6, 0.47e-6, 325.3, 34)'), 1.061);
     expect(calc('=BLEED_TIME(1e6, 0.47e-6, 325.3, 34)')).toBeGreaterThan(1);
   });
-  it('and leaves 38.74 V after 1 s, the failing case of REFERENCES.md', () => {
+  it('and leaves 38.74 V after 1 s, the failing case under IEC 60335-1 cl. 22.5', () => {
     near4(calc('=325.3 * EXP(-1 / (1e6 * 0.47e-6))'), 38.74);
   });
   it('is 0 when the start is already at or below the end voltage; refuses 0 V targets', () => {
@@ -72,13 +72,13 @@ describe('BLEED_TIME (RC discharge; IEC 60335-1 cl. 22.5 as quoted in REFERENCES
   });
 });
 
-describe('DROP_DC and ZENER_WORST (charge balance; REFERENCES.md, Capacitive dropper)', () => {
+describe('DROP_DC and ZENER_WORST (charge balance; basic circuit theory, from memory)', () => {
   it('230 V 50 Hz, 0.47 µF, 12 V zener, 0.7 V diode: half-wave 14.99 mA, full-wave 29.32 mA', () => {
     near4(calc('=DROP_DC(0.47e-6, 230, 50, 12, 0.7)'), 14.99e-3);
     near4(calc('=DROP_DC(0.47e-6, 230, 50, 12, 0.7, FALSE())'), 14.99e-3);
     near4(calc('=DROP_DC(0.47e-6, 230, 50, 12, 0.7, TRUE())'), 29.32e-3);
   });
-  it('with an ideal clamp (v_z = v_f = 0) is 0.4502 · I_rms half-wave and 0.9003 · I_rms full-wave (REFERENCES.md ≈ 0.45 / 0.90)', () => {
+  it('with an ideal clamp (v_z = v_f = 0) is 0.4502 · I_rms half-wave and 0.9003 · I_rms full-wave (≈ 0.45 / 0.90, basic circuit theory, from memory)', () => {
     // By hand: half-wave fC · 2√2·V over 2πfC·V = √2/π = 0.4502; full-wave 4fC·√2·V over 2πfC·V = 2√2/π = 0.9003.
     near4(calc('=DROP_DC(0.47e-6, 230, 50, 0, 0) / XCAP_AMPS(0.47e-6, 230, 50)'), 0.4502);
     near4(calc('=DROP_DC(0.47e-6, 230, 50, 0, 0, TRUE()) / XCAP_AMPS(0.47e-6, 230, 50)'), 0.9003);

@@ -5,7 +5,7 @@ import { formulaSheet, near4 } from './functions-helpers.ts';
 
 const { calc, fails } = formulaSheet('timing');
 
-describe('555-type astable (textbook formulas; REFERENCES.md, 555-type astable)', () => {
+describe('555-type astable (textbook 555 formulas, from memory)', () => {
   it('R_A 1 kΩ, R_B 10 kΩ, C 10 nF: t_H 76.25 µs, t_L 69.31 µs, f 6.870 kHz, D 52.38 %', () => {
     near4(calc('=ASTABLE_HIGH(1000, 10000, 10e-9)'), 76.25e-6);
     near4(calc('=ASTABLE_LOW(10000, 10e-9)'), 69.31e-6);
@@ -67,7 +67,7 @@ describe('555-type astable (textbook formulas; REFERENCES.md, 555-type astable)'
   });
 });
 
-describe('RC_REACH (RC charge to a threshold; REFERENCES.md, Debounce)', () => {
+describe('RC_REACH (RC charge to a threshold; basic circuit theory, from memory)', () => {
   it('100 kΩ × 100 nF reaches ½ V_cc in 6.931 ms and ⅔ V_cc in 10.99 ms', () => {
     near4(calc('=RC_REACH(100e3, 100e-9, 5, 2.5)'), 6.931e-3);
     near4(calc('=RC_REACH(100e3, 100e-9, 12, 8)'), 10.99e-3);
@@ -87,7 +87,7 @@ describe('DIVIDER_OUT (unloaded divider, basic circuit theory)', () => {
   });
 });
 
-describe('CTL_NODE (Kirchhoff node equation; internal source ⅔ V_cc behind 3.33 kΩ, REFERENCES.md from memory)', () => {
+describe('CTL_NODE (Kirchhoff node equation; internal source ⅔ V_cc behind 3.33 kΩ, from memory)', () => {
   it('12 V, 10 kΩ / 10 kΩ: 7.2 V, by two hand methods', () => {
     // Nodal: (12/10k + 8/3.333k) / (1/10k + 1/10k + 1/3.333k) = (1.2 + 2.4) mA / 0.5 mS = 7.2 V.
     // Thévenin: the divider is 6 V behind 5 kΩ; with 8 V behind 3.333 kΩ: (6·3.333 + 8·5) / 8.333 = 7.2 V.

@@ -1,4 +1,4 @@
-// E-series and RKM functions in formulas (IEC 60063, IEC 60062 examples in REFERENCES.md).
+// E-series and RKM functions in formulas (IEC 60063 preferred values, IEC 60062 RKM code examples).
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { formulaSheet } from './functions-helpers.ts';
@@ -7,7 +7,7 @@ import { E_SERIES } from '../../src/domain/eseries.ts';
 const { value, fails } = formulaSheet('values');
 
 describe('E_NEAR, E_UP, E_DOWN', () => {
-  it('nearest to 5 kΩ: E12 4.7k, E24 5.1k, E96 4.99k (REFERENCES.md)', () => {
+  it('nearest to 5 kΩ: E12 4.7k, E24 5.1k, E96 4.99k (IEC 60063)', () => {
     expect(value('=E_NEAR(5000, 12)')).toBe(4700);
     expect(value('=E_NEAR(5000, 24)')).toBe(5100);
     expect(value('=E_NEAR(5000, 96)')).toBe(4990);
@@ -59,7 +59,7 @@ describe('RKM and RKM_TEXT', () => {
     ['2n2', 2.2e-9],
     ['1µ0', 1e-6],
     ['4K7K', 4700], // 4.7 kΩ ±10 %: the tolerance letter does not change the value
-  ])('RKM("%s") = %d (IEC 60062, REFERENCES.md)', (code, expected) => {
+  ])('RKM("%s") = %d (IEC 60062)', (code, expected) => {
     expect(value(`=RKM("${code}")`)).toBe(expected);
   });
   it('RKM_TEXT writes resistance by default and capacitance with "C"', () => {

@@ -1,22 +1,22 @@
-// The step ladder designer against hand-worked values from the 555 control-voltage form (REFERENCES.md).
+// The step ladder designer against hand-worked values from the 555 control-voltage form (textbook 555 formulas, from memory).
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { astableDuty, bottomForCtl, ctlForDuty, ctlNode, designLadder, ladderParams, CTL_R_INT } from '../../src/domain/ladder.ts';
 
-describe('astable duty with the control pin held (REFERENCES.md, 555-type astable)', () => {
-  it('matches the published sweep at Vcc 12 V, RA 1 kΩ, RB 10 kΩ', () => {
-    // REFERENCES.md: V_c = 2/4/6/8/10/11 V → D = 13.14/26.15/39.15/52.38/66.53/74.81 %.
+describe('astable duty with the control pin held (textbook 555 formulas, from memory)', () => {
+  it('matches the hand-worked sweep at Vcc 12 V, RA 1 kΩ, RB 10 kΩ', () => {
+    // Worked by hand from the control-voltage form: V_c = 2/4/6/8/10/11 V → D = 13.14/26.15/39.15/52.38/66.53/74.81 %.
     const want = [0.1314, 0.2615, 0.3915, 0.5238, 0.6653, 0.7481];
     [2, 4, 6, 8, 10, 11].forEach((vc, i) => expect(astableDuty(1000, 10000, 12, vc)).toBeCloseTo(want[i]!, 4));
   });
 
   it('matches the worked example Vcc 10 V, Vc 9.5 V (t_H 0.2587 s, t_L 0.06931 s with C = 10 µF)', () => {
-    // REFERENCES.md worked example; duty = t_H / (t_H + t_L) = 0.2587 / 0.32801 = 0.7887.
+    // Worked example (textbook 555 formulas, from memory); duty = t_H / (t_H + t_L) = 0.2587 / 0.32801 = 0.7887.
     expect(astableDuty(1000, 10000, 10, 9.5)).toBeCloseTo(0.2587 / (0.2587 + 0.06931), 3);
   });
 
   it('inverts duty back to the control voltage: 52.38 % at Vcc 12 V needs 8 V', () => {
-    // REFERENCES.md sweep: V_c = 8 V → 52.38 % (= ⅔·Vcc, the textbook 11/21).
+    // Hand-worked sweep: V_c = 8 V → 52.38 % (= ⅔·Vcc, the textbook 11/21).
     expect(ctlForDuty(11 / 21, 1000, 10000, 12)).toBeCloseTo(8, 9);
   });
 
@@ -32,7 +32,7 @@ describe('astable duty with the control pin held (REFERENCES.md, 555-type astabl
   });
 });
 
-describe('control-pin node equation (REFERENCES.md: pin at ⅔Vcc behind ≈3.33 kΩ, from memory)', () => {
+describe('control-pin node equation (pin at ⅔Vcc behind ≈3.33 kΩ, from memory)', () => {
   it('a 10 kΩ top and 5 kΩ bottom at Vcc 12 V put the pin at 6 V, and 6 V needs 5 kΩ back', () => {
     // By hand: currents in = 12/10k + 8/3.333k = 1.2 mA + 2.4 mA = 3.6 mA;
     // conductance = 1/10k + 1/5k + 1/3.333k = 0.1 + 0.2 + 0.3 mS = 0.6 mS → 3.6 / 0.6 = 6 V.
@@ -48,10 +48,10 @@ describe('designLadder', () => {
     expect(r.ok).toBe(true);
     if (!r.ok) return;
     const s = r.steps[0]!;
-    // 39.15 % is the published duty at 6 V (REFERENCES sweep), and 6 V needs 5 kΩ (node equation above).
+    // 39.15 % is the hand-worked duty at 6 V (sweep above), and 6 V needs 5 kΩ (node equation above).
     expect(s.idealCtl).toBeCloseTo(6, 2);
     expect(s.idealR / 5000).toBeCloseTo(1, 2);
-    // IEC 60063 (REFERENCES.md): nearest E12 value to 5 kΩ is 4.7 kΩ.
+    // IEC 60063: nearest E12 value to 5 kΩ is 4.7 kΩ.
     expect(s.chosenR).toBe(4700);
     // By hand with 4.7 kΩ: conductance 0.4 mS + 1/4.7k = 0.61277 mS; Vc = 3.6 mA / 0.61277 mS = 5.875 V.
     expect(s.achievedCtl).toBeCloseTo(5.875, 6);
@@ -62,7 +62,7 @@ describe('designLadder', () => {
   });
 
   it('snaps to the series chosen: E24 gives 5.1 kΩ and E96 4.99 kΩ for the same step', () => {
-    // IEC 60063 (REFERENCES.md): nearest to 5 kΩ is E24 5.1 k, E96 4.99 k.
+    // IEC 60063: nearest to 5 kΩ is E24 5.1 k, E96 4.99 k.
     const e24 = designLadder({ vcc: 12, ra: 1000, rb: 10000, rTop: 10000, duties: [0.3915], series: 24 });
     const e96 = designLadder({ vcc: 12, ra: 1000, rb: 10000, rTop: 10000, duties: [0.3915], series: 96 });
     expect(e24.ok && e24.steps[0]!.chosenR).toBe(5100);

@@ -1,4 +1,4 @@
-// Keeps the layering of DESIGN.md: domain imports nothing of ours but domain; nothing imports ui or cli;
+// Keeps the project's layering (README, Layout): domain imports nothing of ours but domain; nothing imports ui or cli;
 // engine does not reach into store, io or ui.
 import { describe, expect, it } from 'vitest';
 import { readdirSync, readFileSync, statSync } from 'node:fs';
@@ -43,7 +43,7 @@ const FORBIDDEN_PACKAGES: Record<string, RegExp> = {
   io: /^(lit|idb)(\/|$)/,
 };
 
-describe('layering (DESIGN.md architecture)', () => {
+describe('layering (the architecture in README, Layout)', () => {
   const all = files(SRC);
   it('finds the source tree', () => {
     expect(all.length).toBeGreaterThan(5);

@@ -1,5 +1,5 @@
 // The book functions (VAR, CHECK, CHECK_STATUS, PART_PRICE, PART_COST) read the open Book by name: checked against
-// published worked values (REFERENCES.md) on small Books built for the test, and against plain lookups of the demo Book.
+// worked values (IEC 60038:2009, IEC 60335-1 cl. 22.5, all-units breaks) on small Books built for the test, and against plain lookups of the demo Book.
 import { describe, expect, it } from 'vitest';
 import { DetailedCellError } from 'hyperformula';
 import type { Book, NotebookPage, Part, Quote } from '../../src/domain/book.ts';
@@ -21,7 +21,7 @@ function calc(book: Book, formula: string): NotebookCell {
   return evaluateNotebookPage(book, page, { date: '2026-06-01' }).sections[0]!.grid[0]![0]!;
 }
 
-/** A Book with one invented part and one quote, the price breaks of the REFERENCES.md costing example. */
+/** A Book with one invented part and one quote, the price breaks of the all-units costing example. */
 function quotedBook(overrides: Partial<Quote> = {}): Book {
   const book = emptyBook();
   const part: Part = {
@@ -77,7 +77,7 @@ describe('VAR', () => {
 describe('CHECK and CHECK_STATUS', () => {
   it('give a check figure on a variant: the mains peak at +10 % is 357.8 V on 230 V and 186.7 V on 120 V', () => {
     const book = demoWithChecks();
-    // REFERENCES.md, IEC 60038: √2 · 230 · 1.1 = 357.8 V; √2 · 120 · 1.1 = 186.7 V.
+    // IEC 60038:2009, table 1: √2 · 230 · 1.1 = 357.8 V; √2 · 120 · 1.1 = 186.7 V.
     expect(calc(book, '=CHECK("FR4-60-CD", "switch_v_stress")').value).toBeCloseTo(357.8, 1);
     expect(calc(book, '=CHECK("FR3-60-CD-U", "switch_v_stress")').value).toBeCloseTo(186.7, 1);
     expect(calc(book, '=CHECK_STATUS("FR4-60-CD", "switch_v_stress")').value).toBe('pass');
@@ -85,7 +85,7 @@ describe('CHECK and CHECK_STATUS', () => {
 
   it('report the failing bleeder of FR5-75-CD: 1 MΩ on 0.47 µF is too slow to reach 34 V within 1 s', () => {
     const book = demoWithChecks();
-    // IEC 60335-1 cl. 22.5 via REFERENCES.md: 1 MΩ with 0.47 µF leaves 38.74 V after 1 s, so the check fails.
+    // IEC 60335-1 cl. 22.5, as quoted in secondary sources: 1 MΩ with 0.47 µF leaves 38.74 V after 1 s, so the check fails.
     expect(calc(book, '=CHECK_STATUS("FR5-75-CD", "bleeder_time")').value).toBe('fail');
     expect(calc(book, '=CHECK("FR5-75-CD", "bleeder_time")').value as number).toBeGreaterThan(1);
   });
@@ -115,7 +115,7 @@ describe('CHECK and CHECK_STATUS', () => {
 
 describe('PART_PRICE and PART_COST', () => {
   it('buy up to a cheaper break: 909 parts in packs of 10 cost 120.00 as 1000 at 0.12, not 136.50 as 910 at 0.15', () => {
-    // Operations-management texts, all-units price breaks (worked in REFERENCES.md, Costing):
+    // Operations-management texts, all-units price breaks (from memory):
     // 910 × 0.15 = 136.50 but 1000 × 0.12 = 120.00, so buy 1000.
     const book = quotedBook();
     expect(calc(book, '=PART_COST("ZT-R1K-06", 909)').value).toBeCloseTo(120, 10);

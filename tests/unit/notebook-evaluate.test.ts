@@ -16,7 +16,7 @@ describe('evaluating a notebook page', () => {
   it('computes a dropper current from values typed with units, referring to cells by address', () => {
     const p = page(grid('dropper', [['0.47 uF', '230 V', '50', '=XCAP_AMPS(A1, B1, C1)', '=2*PI()*C1*A1*B1']]));
     const row = evaluateNotebookPage(book, p).sections[0]!.grid[0]!;
-    // REFERENCES.md (capacitive dropper, basic circuit theory): 0.47 µF at 230 V / 50 Hz draws 33.96 mA.
+    // Capacitive dropper (basic circuit theory, from memory): 0.47 µF at 230 V / 50 Hz draws 33.96 mA.
     expect(row[3]!.value).toBeCloseTo(0.03396, 5);
     // Worked by hand in the grid itself: 2π · 50 · 0.47e-6 · 230 = 0.033960 A.
     expect(row[4]!.value).toBeCloseTo(0.03396, 5);
@@ -29,7 +29,7 @@ describe('evaluating a notebook page', () => {
       { heading: 'words only', text: 'no grid here', grid: [] },
       grid('result', [['=Section1!A1 / 230 / 0.9']]),
     );
-    // Load current I = P/(V·PF) (REFERENCES.md: 60 W at 230 V, PF 0.9 → 0.2899 A).
+    // Load current I = P/(V·PF) (basic circuit theory, from memory: 60 W at 230 V, PF 0.9 → 0.2899 A).
     expect(evaluateNotebookPage(book, p).sections[2]!.grid[0]![0]!.value).toBeCloseTo(0.2899, 4);
     const heavier = structuredClone(book);
     heavier.variants.find((v) => v.code === 'FR4-60-CD')!.params.load_w = 120;

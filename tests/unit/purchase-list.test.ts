@@ -16,7 +16,7 @@ function costed(book: Book, run: number) {
   return r.value;
 }
 
-// REFERENCES "Costing", all-units price breaks (operations-management texts): 2 per unit × 450 units × 1.01 = 909,
+// All-units price breaks (operations-management texts, from memory): 2 per unit × 450 units × 1.01 = 909,
 // pack 10 → 910; 910 × 0.15 = 136.50 but 1000 × 0.12 = 120.00, so buy 1000 (90 spare).
 const textbookBreaks = [
   { qty: 1, price: 0.3 },

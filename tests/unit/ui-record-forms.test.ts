@@ -73,7 +73,7 @@ describe('part form', () => {
   });
 
   it('reads an RKM code as the value of a resistor', () => {
-    // IEC 60062 RKM code: "4K7" = 4.7 kΩ (REFERENCES.md, preferred values and RKM code).
+    // IEC 60062 RKM code: "4K7" = 4.7 kΩ (IEC 60062).
     const d = { ...partDraft(), mpn: 'R-NEW', maker: 'M', description: 'd', kind: 'resistor', value: '4k7' };
     const r = validatePart(d, book(), undefined, ids);
     expect(r.ok).toBe(true);

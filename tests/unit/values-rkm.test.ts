@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { formatRkm, parseRkm, toRkm } from '../../src/domain/rkm.ts';
 
-describe('parseRkm reads the IEC 60062 examples (REFERENCES.md, Preferred values and RKM code)', () => {
+describe('parseRkm reads the IEC 60062 examples', () => {
   it.each([
     ['R47', 0.47, 'resistance'],
     ['4R7', 4.7, 'resistance'],
@@ -25,7 +25,7 @@ describe('parseRkm reads the IEC 60062 examples (REFERENCES.md, Preferred values
     expect(parseRkm('100n')).toEqual({ ok: true, value: 1e-7, kind: 'capacitance' });
   });
 
-  it('reads a final tolerance letter: "4K7K" is 4.7 kΩ ±10 % (REFERENCES.md, IEC 60062)', () => {
+  it('reads a final tolerance letter: "4K7K" is 4.7 kΩ ±10 % (IEC 60062)', () => {
     expect(parseRkm('4K7K')).toEqual({ ok: true, value: 4700, kind: 'resistance', tolerance: 0.1 });
   });
 

@@ -48,7 +48,7 @@ describe('parseValue reads SI prefixes (SI Brochure, 9th ed., table 7: p 1e-12 �
   });
 });
 
-describe('parseValue delegates RKM codes (IEC 60062 examples in REFERENCES.md)', () => {
+describe('parseValue delegates RKM codes (IEC 60062 examples)', () => {
   it.each([
     ['4k7', 4700, 'Ω'],
     ['4K7', 4700, 'Ω'],
@@ -99,7 +99,7 @@ describe('formatValue writes engineering notation', () => {
     [4700, 'Ω', '4.7 kΩ'],
     [330e-9, 'F', '330 nF'],
     [0.01823, 'A', '18.2 mA'],
-    [325.27, 'V', '325 V'], // √2 · 230 V (IEC 60038 nominal), REFERENCES.md
+    [325.27, 'V', '325 V'], // √2 · 230 V (IEC 60038:2009, table 1 nominal)
     [0.47e-6, 'F', '470 nF'],
     [2.2e6, 'ohm', '2.2 MΩ'],
     [50, 'Hz', '50 Hz'],

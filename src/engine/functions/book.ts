@@ -124,7 +124,7 @@ const PART_PRICE = defineFunction({
   name: 'PART_PRICE',
   area: 'book',
   returns: 'base currency',
-  doc: 'Unit price in the Book’s currency of the cheapest current quote for qty of a part (MOQ, packs, all-units breaks).',
+  doc: 'Unit price in the Book’s currency of the cheapest current quote for qty of a part (MOQ, packs, all-units breaks: operations-management texts, from memory).',
   args: [
     { name: 'mpn', unit: 'text', kind: 'text' },
     { name: 'qty', unit: '', rule: 'positive' },
@@ -136,7 +136,7 @@ const PART_COST = defineFunction({
   name: 'PART_COST',
   area: 'book',
   returns: 'base currency',
-  doc: 'Cost in the Book’s currency of the cheapest order covering qty of a part, buying up to a better break if cheaper.',
+  doc: 'Cost in the Book’s currency of the cheapest order covering qty of a part, buying up to a better break if cheaper (all-units breaks: operations-management texts, from memory).',
   args: [
     { name: 'mpn', unit: 'text', kind: 'text' },
     { name: 'qty', unit: '', rule: 'positive' },

@@ -7,7 +7,7 @@ const LOAD_AMPS = defineFunction({
   name: 'LOAD_AMPS',
   area: 'power',
   returns: 'A',
-  doc: 'RMS current of a load: p / (v · pf).',
+  doc: 'RMS current of a load: p / (v · pf) (basic circuit theory, from memory).',
   args: [
     { name: 'p', unit: 'W', rule: 'nonNegative' },
     { name: 'v', unit: 'V', rule: 'positive' },
@@ -20,7 +20,7 @@ const COND_LOSS = defineFunction({
   name: 'COND_LOSS',
   area: 'power',
   returns: 'W',
-  doc: 'Conduction loss i_rms² · r_on (use r_on at the working temperature: it roughly doubles from 25 °C to 125 °C).',
+  doc: 'Conduction loss i_rms² · r_on (use r_on at the working temperature: it roughly doubles from 25 °C to 125 °C: rule of thumb, from memory).',
   args: [
     { name: 'i_rms', unit: 'A' },
     { name: 'r_on', unit: 'Ω', rule: 'nonNegative' },
@@ -32,7 +32,7 @@ const BRIDGE_LOSS = defineFunction({
   name: 'BRIDGE_LOSS',
   area: 'power',
   returns: 'W',
-  doc: 'Diode bridge loss 2 · v_f · i_avg (two diodes conduct at a time; i_avg = 0.9003 · i_rms for a sine).',
+  doc: 'Diode bridge loss 2 · v_f · i_avg (two diodes conduct at a time; i_avg = 0.9003 · i_rms for a sine; basic circuit theory, from memory).',
   args: [
     { name: 'i_avg', unit: 'A', rule: 'nonNegative' },
     { name: 'v_f', unit: 'V', rule: 'nonNegative' },
@@ -44,7 +44,7 @@ const SNUB_WATTS = defineFunction({
   name: 'SNUB_WATTS',
   area: 'power',
   returns: 'W',
-  doc: 'RC snubber resistor dissipation c · v² · f (pass the peak voltage for the conservative figure).',
+  doc: 'RC snubber resistor dissipation c · v² · f (pass the peak voltage for the conservative figure; basic circuit theory, from memory).',
   args: [
     { name: 'c', unit: 'F', rule: 'nonNegative' },
     { name: 'v', unit: 'V' },
@@ -57,7 +57,7 @@ const JUNCTION_C = defineFunction({
   name: 'JUNCTION_C',
   area: 'power',
   returns: '°C',
-  doc: 'Junction temperature t_amb + p · rth_total, rth_total being junction-to-ambient (case + interface + heatsink).',
+  doc: 'Junction temperature t_amb + p · rth_total, rth_total being junction-to-ambient (case + interface + heatsink; power electronics textbooks, from memory).',
   args: [
     { name: 'p', unit: 'W', rule: 'nonNegative' },
     { name: 't_amb', unit: '°C' },
@@ -72,7 +72,7 @@ const SINK_RTH_MAX = defineFunction({
   returns: 'K/W',
   doc:
     'Largest heatsink thermal resistance keeping the junction at or below tj_max: (tj_max − t_amb)/p − rth_jc − rth_cs; ' +
-    'a negative result means no heatsink is enough.',
+    'a negative result means no heatsink is enough (power electronics textbooks, from memory).',
   args: [
     { name: 'p', unit: 'W', rule: 'nonNegative' },
     { name: 'tj_max', unit: '°C' },

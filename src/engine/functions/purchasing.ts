@@ -12,7 +12,7 @@ const NEED_QTY = defineFunction({
   name: 'NEED_QTY',
   area: 'purchasing',
   returns: '',
-  doc: 'Parts needed for a run: ceil(per_unit · run · (1 + attrition)), float noise such as 100 × 1.1 ignored.',
+  doc: 'Parts needed for a run: ceil(per_unit · run · (1 + attrition)), IEEE 754 float noise such as 100 × 1.1 ignored (common practice).',
   args: [
     { name: 'per_unit', unit: '' },
     { name: 'run', unit: '' },
@@ -28,7 +28,7 @@ const BUY_QTY = defineFunction({
   name: 'BUY_QTY',
   area: 'purchasing',
   returns: '',
-  doc: 'Quantity to order: ceil(max(need, moq) / pack) · pack; 0 when need is 0.',
+  doc: 'Quantity to order: ceil(max(need, moq) / pack) · pack; 0 when need is 0 (common practice).',
   args: [
     { name: 'need', unit: '' },
     { name: 'moq', unit: '' },
@@ -71,7 +71,7 @@ const BREAK_PRICE = defineFunction({
   name: 'BREAK_PRICE',
   area: 'purchasing',
   returns: '',
-  doc: 'All-units unit price at qty: the price of the highest break quantity ≤ qty; an error below the lowest break.',
+  doc: 'All-units unit price at qty: the price of the highest break quantity ≤ qty; an error below the lowest break (operations-management texts, from memory).',
   args: [
     { name: 'break_qtys', unit: 'range', kind: 'range' },
     { name: 'break_prices', unit: 'range', kind: 'range' },

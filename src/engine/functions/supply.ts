@@ -10,7 +10,7 @@ const MAINS_PEAK = defineFunction({
   name: 'MAINS_PEAK',
   area: 'supply',
   returns: 'V',
-  doc: 'Peak mains voltage √2 · v_rms · (1 + tol); tol is the high tolerance as a fraction (0.1 for +10 %).',
+  doc: 'Peak mains voltage √2 · v_rms · (1 + tol); tol is the high tolerance as a fraction (0.1 for +10 %; IEC 60038:2009, table 1).',
   args: [
     { name: 'v_rms', unit: 'V', rule: 'nonNegative' },
     { name: 'tol', unit: '', rule: 'tol', optional: true, default: 0 },
@@ -22,7 +22,7 @@ const XCAP_AMPS = defineFunction({
   name: 'XCAP_AMPS',
   area: 'supply',
   returns: 'A',
-  doc: 'RMS current through a series dropper capacitor with the load neglected: 2π · f · c · v_rms.',
+  doc: 'RMS current through a series dropper capacitor with the load neglected: 2π · f · c · v_rms (basic circuit theory, from memory).',
   args: [
     { name: 'c', unit: 'F', rule: 'nonNegative' },
     { name: 'v_rms', unit: 'V', rule: 'nonNegative' },
@@ -35,7 +35,7 @@ const XCAP_FOR = defineFunction({
   name: 'XCAP_FOR',
   area: 'supply',
   returns: 'F',
-  doc: 'Dropper capacitance that passes i_rms at v_rms and f: i_rms / (2π · f · v_rms).',
+  doc: 'Dropper capacitance that passes i_rms at v_rms and f: i_rms / (2π · f · v_rms) (basic circuit theory, from memory).',
   args: [
     { name: 'i_rms', unit: 'A', rule: 'nonNegative' },
     { name: 'v_rms', unit: 'V', rule: 'positive' },
@@ -48,7 +48,7 @@ const BLEED_TIME = defineFunction({
   name: 'BLEED_TIME',
   area: 'supply',
   returns: 's',
-  doc: 'Time for an RC discharge from v0 to v_end: r · c · ln(v0 / v_end); 0 when v0 is already at or below v_end.',
+  doc: 'Time for an RC discharge from v0 to v_end: r · c · ln(v0 / v_end); 0 when v0 is already at or below v_end (basic circuit theory, from memory).',
   args: [
     { name: 'r', unit: 'Ω', rule: 'nonNegative' },
     { name: 'c', unit: 'F', rule: 'nonNegative' },
@@ -85,7 +85,7 @@ const DROP_DC = defineFunction({
   returns: 'A',
   doc:
     'Mean DC current from a capacitive dropper into a v_z clamp by charge balance: half-wave fC(2Vpk − v_z − v_f), ' +
-    'full_wave TRUE 4fC(Vpk − v_z − 2v_f); Vpk = √2 · v_rms.',
+    'full_wave TRUE 4fC(Vpk − v_z − 2v_f); Vpk = √2 · v_rms (basic circuit theory, from memory).',
   args: dropperArgs,
   compute: dropperDc,
 });
@@ -96,7 +96,7 @@ const ZENER_WORST = defineFunction({
   returns: 'W',
   doc:
     'Zener dissipation when the logic draws nothing (pass high mains and high capacitance): the whole dropper ' +
-    'current at v_z, plus, half-wave, the same mean current forward through the zener at v_f on the other half cycle.',
+    'current at v_z, plus, half-wave, the same mean current forward through the zener at v_f on the other half cycle (basic circuit theory, from memory).',
   args: dropperArgs,
   compute: (c: number, vRms: number, f: number, vz: number, vf: number, fullWave: boolean) => {
     const i = dropperDc(c, vRms, f, vz, vf, fullWave);

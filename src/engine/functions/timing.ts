@@ -26,7 +26,7 @@ const ASTABLE_HIGH = defineFunction({
   name: 'ASTABLE_HIGH',
   area: 'timing',
   returns: 's',
-  doc: '555-type astable high time (ra + rb) · c · ln((vcc − vctl/2)/(vcc − vctl)); ln 2 when vctl is ⅔ vcc (the default).',
+  doc: '555-type astable high time (ra + rb) · c · ln((vcc − vctl/2)/(vcc − vctl)); ln 2 when vctl is ⅔ vcc (the default; textbook 555 formulas, from memory).',
   args: [
     { name: 'ra', unit: 'Ω', rule: 'nonNegative' },
     { name: 'rb', unit: 'Ω', rule: 'positive' },
@@ -43,7 +43,7 @@ const ASTABLE_LOW = defineFunction({
   name: 'ASTABLE_LOW',
   area: 'timing',
   returns: 's',
-  doc: '555-type astable low time ln 2 · rb · c (the control voltage does not change it).',
+  doc: '555-type astable low time ln 2 · rb · c (the control voltage does not change it; textbook 555 formulas, from memory).',
   args: [
     { name: 'rb', unit: 'Ω', rule: 'positive' },
     { name: 'c', unit: 'F', rule: 'positive' },
@@ -55,7 +55,7 @@ const ASTABLE_HZ = defineFunction({
   name: 'ASTABLE_HZ',
   area: 'timing',
   returns: 'Hz',
-  doc: '555-type astable frequency 1 / (high time + low time), with the optional control voltage.',
+  doc: '555-type astable frequency 1 / (high time + low time), with the optional control voltage (textbook 555 formulas, from memory).',
   args: [
     { name: 'ra', unit: 'Ω', rule: 'nonNegative' },
     { name: 'rb', unit: 'Ω', rule: 'positive' },
@@ -73,7 +73,7 @@ const ASTABLE_DUTY = defineFunction({
   name: 'ASTABLE_DUTY',
   area: 'timing',
   returns: '',
-  doc: '555-type astable duty cycle high / (high + low) as a fraction, with the optional control voltage.',
+  doc: '555-type astable duty cycle high / (high + low) as a fraction, with the optional control voltage (textbook 555 formulas, from memory).',
   args: [{ name: 'ra', unit: 'Ω', rule: 'nonNegative' }, { name: 'rb', unit: 'Ω', rule: 'positive' }, ...optionalSupply],
   compute(ra: number, rb: number, vcc?: number, vctl?: number) {
     const k = highLog(vcc, vctl);
@@ -87,7 +87,7 @@ const RC_REACH = defineFunction({
   name: 'RC_REACH',
   area: 'timing',
   returns: 's',
-  doc: 'Time for an RC charging from 0 towards v_supply to reach v_threshold: r · c · ln(v_supply / (v_supply − v_threshold)).',
+  doc: 'Time for an RC charging from 0 towards v_supply to reach v_threshold: r · c · ln(v_supply / (v_supply − v_threshold)) (basic circuit theory, from memory).',
   args: [
     { name: 'r', unit: 'Ω', rule: 'nonNegative' },
     { name: 'c', unit: 'F', rule: 'nonNegative' },
@@ -104,7 +104,7 @@ const DIVIDER_OUT = defineFunction({
   name: 'DIVIDER_OUT',
   area: 'timing',
   returns: 'V',
-  doc: 'Unloaded resistor divider output (v_in − v_drop) · r_bottom / (r_top + r_bottom); v_drop is a series diode, 0 if left out.',
+  doc: 'Unloaded resistor divider output (v_in − v_drop) · r_bottom / (r_top + r_bottom); v_drop is a series diode, 0 if left out (basic circuit theory, from memory).',
   args: [
     { name: 'v_in', unit: 'V' },
     { name: 'r_top', unit: 'Ω', rule: 'nonNegative' },
@@ -126,7 +126,7 @@ const CTL_NODE = defineFunction({
   returns: 'V',
   doc:
     'Voltage at a 555-type control pin driven by a divider (r_top to vcc, r_bottom to ground), solving the node with ' +
-    'the pin\'s own source v_int (⅔ vcc) behind r_int (3.33 kΩ).',
+    'the pin\'s own source v_int (⅔ vcc) behind r_int (3.33 kΩ, from memory; Kirchhoff’s current law).',
   args: [
     { name: 'vcc', unit: 'V', rule: 'positive' },
     { name: 'r_top', unit: 'Ω', rule: 'positive' },
