@@ -14,5 +14,5 @@ export type { ImportPricesOptions, ImportPricesResult, ImportSummary } from './p
 export { runPriceImportInWorker } from './price-worker-client.ts';
 export type { PriceProgress } from './price-worker-client.ts';
 export { samplePriceFile } from './price-sample.ts';
-export { toCsv, csvField } from './csv-write.ts';
-export type { CsvCell } from './csv-write.ts';
+export { exportText, exportField, exportBytes, parseExportOptions, DELIMITERS, DECIMAL_STYLES } from './csv-write.ts';
+export type { ExportCell, ExportOptions } from './csv-write.ts';

@@ -1,12 +1,7 @@
-// The files a production run leaves Rungbook as: the costed BOM and the purchase list, as CSV text and bytes. The app's
-// Export and Runs pages and the CLI's `cost --csv` and `buy --csv` all take their bytes from here, so the same run
-// and the same settings give the same file wherever it is made.
-//
-// CSV (RFC 4180 §2): every record ends in CRLF; a field holding the delimiter, a quote, CR or LF is quoted with inner
-// quotes doubled. Formula injection (OWASP CSV injection guidance): a text cell starting with = + - @ tab, CR or NUL
-// gets a leading ' and is quoted, as in csv-write.ts; numbers we write ourselves are never text, so a negative number
-// stays a plain number. Choices: delimiter (comma, semicolon, tab), decimal point or comma (a comma decimal needs
-// another delimiter), UTF-8 with or without a byte-order mark.
+// The files a production run leaves Rungbook as: the costed BOM and the purchase list, as rows and CSV text. The app's
+// Export and Runs pages and the CLI's `cost --csv` and `buy --csv` all take their bytes from here, written by the one
+// CSV writer (csv-write.ts: quoting, formula-injection neutralising, delimiter, decimal and byte-order-mark choices),
+// so the same run and the same settings give the same file wherever it is made.
 //
 // Rounding (the costing module's one rule, domain/costing.ts): amounts are cents, per-unit figures 4 decimals, both
 // written from integer cents / ten-thousandths so the digits are exact; unit prices are written as quoted. The run
@@ -22,128 +17,28 @@ import type { PurchaseList } from '../domain/purchase.ts';
 import { formatValue } from '../domain/units.ts';
 import { CostingWorkbook, resolutionFromFamily } from '../engine/costing.ts';
 import { resolveFamily } from '../engine/family.ts';
+import { DEFAULT_EXPORT_OPTIONS, NUMBER_KINDS, exportOptionsProblem, exportText } from './csv-write.ts';
+import type { ExportCell, ExportOptions, NumberCell } from './csv-write.ts';
 
-// ---------------------------------------------------------------------------------------------------------------
-// Options
-
-export const DELIMITERS = { comma: ',', semicolon: ';', tab: '\t' } as const;
-export type DelimiterName = keyof typeof DELIMITERS;
-export const DECIMAL_STYLES = { point: '.', comma: ',' } as const;
-export type DecimalStyle = keyof typeof DECIMAL_STYLES;
-
-export interface ExportOptions {
-  delimiter: DelimiterName;
-  decimal: DecimalStyle;
-  /** Start the file with a UTF-8 byte-order mark (some spreadsheet programs need it to read UTF-8). */
-  bom: boolean;
-}
-
-export const DEFAULT_EXPORT_OPTIONS: ExportOptions = { delimiter: 'comma', decimal: 'point', bom: false };
-
-/** Reads export choices given as words (CLI options, form values). Unknown words and clashes give a message. */
-export function parseExportOptions(given: { delimiter?: string | undefined; decimal?: string | undefined; bom?: boolean | undefined }): Result<ExportOptions> {
-  const delimiter = (given.delimiter ?? DEFAULT_EXPORT_OPTIONS.delimiter).trim().toLowerCase();
-  const decimal = (given.decimal ?? DEFAULT_EXPORT_OPTIONS.decimal).trim().toLowerCase();
-  if (!Object.hasOwn(DELIMITERS, delimiter)) {
-    return { ok: false, error: `delimiter must be one of ${Object.keys(DELIMITERS).join(', ')}, got “${given.delimiter ?? ''}”` };
-  }
-  if (!Object.hasOwn(DECIMAL_STYLES, decimal)) {
-    return { ok: false, error: `decimal style must be one of ${Object.keys(DECIMAL_STYLES).join(', ')}, got “${given.decimal ?? ''}”` };
-  }
-  const options: ExportOptions = { delimiter: delimiter as DelimiterName, decimal: decimal as DecimalStyle, bom: given.bom ?? false };
-  const clash = exportOptionsProblem(options);
-  return clash ? { ok: false, error: clash } : { ok: true, value: options };
-}
-
-/** Why a set of choices cannot make a readable file, or undefined. */
-export function exportOptionsProblem(o: ExportOptions): string | undefined {
-  if (o.decimal === 'comma' && o.delimiter === 'comma') {
-    return 'with a decimal comma the delimiter cannot also be a comma: choose semicolon or tab';
-  }
-  return undefined;
-}
-
-// ---------------------------------------------------------------------------------------------------------------
-// Cells
-
-/** How a number is written: a whole quantity, money (2 decimals), a per-unit figure (4), or a price as quoted. */
-export const NUMBER_KINDS = { qty: 'qty', money: 'money', unit: 'unit', price: 'price' } as const;
-export type NumberKind = (typeof NUMBER_KINDS)[keyof typeof NUMBER_KINDS];
-
-export interface NumberCell {
-  n: number;
-  kind: NumberKind;
-}
-
-/** A text cell, a number cell, or empty. */
-export type ExportCell = string | NumberCell | undefined;
+// The export pages and commands take the choices and the number writing from here with the rows they shape.
+export {
+  DECIMAL_STYLES,
+  DEFAULT_EXPORT_OPTIONS,
+  DELIMITERS,
+  NUMBER_KINDS,
+  exportBytes,
+  exportField,
+  exportOptionsProblem,
+  exportText,
+  numberText,
+  parseExportOptions,
+} from './csv-write.ts';
+export type { DecimalStyle, DelimiterName, ExportCell, ExportOptions, NumberCell, NumberKind } from './csv-write.ts';
 
 const qty = (n: number): NumberCell => ({ n, kind: NUMBER_KINDS.qty });
 const money = (n: number): NumberCell => ({ n, kind: NUMBER_KINDS.money });
 const unit = (n: number): NumberCell => ({ n, kind: NUMBER_KINDS.unit });
 const price = (n: number): NumberCell => ({ n, kind: NUMBER_KINDS.price });
-
-/** Writes integer units of 10^-dp as a decimal with exactly dp digits, from integer arithmetic only. */
-function fixedFromInteger(units: number, dp: number): string {
-  const sign = units < 0 ? '-' : '';
-  const abs = Math.abs(units);
-  const scale = 10 ** dp;
-  const whole = Math.floor(abs / scale);
-  const frac = String(abs - whole * scale).padStart(dp, '0');
-  return `${sign}${whole}.${frac}`;
-}
-
-/** A number as the file shows it, with a point; callers swap the decimal sign. Non-finite numbers are empty. */
-export function numberText(cell: NumberCell): string {
-  const n = cell.n;
-  if (!Number.isFinite(n)) return '';
-  switch (cell.kind) {
-    case 'qty':
-      return Number.isInteger(n) ? String(n) : plainDecimal(n, 0);
-    case 'money':
-      return fixedFromInteger(toCents(n), 2);
-    case 'unit':
-      return fixedFromInteger(toTenThousandths(n), 4);
-    case 'price':
-      return plainDecimal(n, 2);
-  }
-}
-
-/** The shortest text that reads back as the same double, never in exponent form, with at least `minDp` decimals. */
-function plainDecimal(n: number, minDp: number): string {
-  let s = String(Math.abs(n));
-  if (/e/i.test(s)) s = Math.abs(n).toFixed(12).replace(/0+$/, '').replace(/\.$/, '');
-  const dp = s.includes('.') ? s.length - s.indexOf('.') - 1 : 0;
-  if (dp < minDp) s += (dp === 0 ? '.' : '') + '0'.repeat(minDp - dp);
-  return (n < 0 ? '-' : '') + s;
-}
-
-const DANGEROUS_START = /^[=+\-@\t\r\0]/;
-
-/** One field as it appears in the file under the given choices. */
-export function exportField(cell: ExportCell, o: ExportOptions): string {
-  if (cell === undefined) return '';
-  if (typeof cell !== 'string') {
-    const t = numberText(cell);
-    return o.decimal === 'comma' ? t.replace('.', ',') : t;
-  }
-  const delimiter = DELIMITERS[o.delimiter];
-  if (DANGEROUS_START.test(cell)) return `"'${cell.replace(/"/g, '""')}"`;
-  return cell.includes(delimiter) || /["\r\n]/.test(cell) ? `"${cell.replace(/"/g, '""')}"` : cell;
-}
-
-/** Rows to CSV text (a byte-order mark first when chosen; every record, the last too, ended by CRLF). */
-export function exportText(rows: readonly (readonly ExportCell[])[], o: ExportOptions): string {
-  const delimiter = DELIMITERS[o.delimiter];
-  let out = o.bom ? '\uFEFF' : '';
-  for (const row of rows) out += row.map((c) => exportField(c, o)).join(delimiter) + '\r\n';
-  return out;
-}
-
-/** The file's bytes: the text in UTF-8 (the byte-order mark, when chosen, is EF BB BF). */
-export function exportBytes(text: string): Uint8Array {
-  return new TextEncoder().encode(text);
-}
 
 // ---------------------------------------------------------------------------------------------------------------
 // Costing a run

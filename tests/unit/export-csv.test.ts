@@ -107,13 +107,13 @@ describe('costed BOM CSV', () => {
       expect(rows[i + 1]![at]).toMatch(/^\d+,\d{2}$/);
       expect(cents(rows[i + 1]![at]!, ',')).toBe(toCents(l.extendedBase));
     });
-    // A description holding a comma is not quoted: the comma is no delimiter here.
-    expect(text).toContain('Fuse 1.6 A time-lag, 250 V AC, radial;');
+    // A description holding a comma is quoted even here: a program that guesses a comma delimiter keeps it whole.
+    expect(text).toContain('"Fuse 1.6 A time-lag, 250 V AC, radial";');
   });
 
-  it('writes tabs, quoting only fields that hold a tab, a quote or a line break', () => {
+  it('writes tabs, quoting fields that hold any delimiter (tab, comma, semicolon), a quote or a line break', () => {
     const text = exportText([['a\tb', 'c, d', 'e'], [{ n: 2, kind: 'qty' }, 'say "x"', undefined]], { delimiter: 'tab', decimal: 'point', bom: false });
-    expect(text).toBe('"a\tb"\tc, d\te\r\n2\t"say ""x"""\t\r\n');
+    expect(text).toBe('"a\tb"\t"c, d"\te\r\n2\t"say ""x"""\t\r\n');
   });
 
   it('starts with the UTF-8 byte-order mark EF BB BF only when asked (Unicode standard §23.8)', () => {
