@@ -1,6 +1,7 @@
 // Status of one check on one variant, its symbol and word, and the pure pass / margin / fail judgement of a
 // CheckRule (src/domain/book.ts) once the value and its limits are numbers.
 import type { CheckRule } from './book.ts';
+import { significant } from './format.ts';
 
 export const CHECK_STATUS = {
   pass: 'pass',
@@ -54,10 +55,6 @@ export interface Judgement {
   message: string;
 }
 
-function fmt(n: number): string {
-  return Number.isInteger(n) ? String(n) : n.toPrecision(4).replace(/\.?0+(e|$)/, '$1');
-}
-
 function badLimit(what: string, v: number | undefined): Judgement | null {
   if (v === undefined) return { status: CHECK_STATUS.error, message: `the rule has no ${what}` };
   if (!Number.isFinite(v)) return { status: CHECK_STATUS.error, message: `the rule's ${what} is not a finite number` };
@@ -100,17 +97,17 @@ export function judge(value: CheckValue, rule: CheckRule, limits: RuleLimits): J
     const limit = limits.limit!;
     const status = side(value, limit, margin, rule.kind === 'max');
     const word = rule.kind === 'max' ? 'at most' : 'at least';
-    return { status, message: `${fmt(value)} against ${word} ${fmt(limit)}` };
+    return { status, message: `${significant(value)} against ${word} ${significant(limit)}` };
   }
   const badLow = badLimit('low limit', limits.low) ?? badLimit('high limit', limits.high);
   if (badLow) return badLow;
   const low = limits.low!;
   const high = limits.high!;
-  if (low > high) return { status: CHECK_STATUS.error, message: `low limit ${fmt(low)} is above high limit ${fmt(high)}` };
+  if (low > high) return { status: CHECK_STATUS.error, message: `low limit ${significant(low)} is above high limit ${significant(high)}` };
   const a = side(value, low, margin, false);
   const b = side(value, high, margin, true);
   const status = STATUS_SEVERITY[a] >= STATUS_SEVERITY[b] ? a : b;
-  return { status, message: `${fmt(value)} against ${fmt(low)} … ${fmt(high)}` };
+  return { status, message: `${significant(value)} against ${significant(low)} … ${significant(high)}` };
 }
 
 function describe(value: CheckValue): string {

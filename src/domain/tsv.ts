@@ -1,5 +1,6 @@
 // Tab-separated text as programs put it on the clipboard: cells split by tabs, rows by CRLF, LF or CR; a cell that
 // holds a tab, a line break or a quote comes wrapped in double quotes with its inner quotes doubled. Pure.
+import { grouped } from './format.ts';
 
 /** Largest paste we accept; beyond it the text is refused with a message rather than freezing the page. */
 export const TSV_LIMITS = {
@@ -19,7 +20,7 @@ const isBreak = (c: string | undefined): boolean => c === '\t' || c === '\n' || 
 export function parseTsv(text: string): TsvResult {
   if (typeof text !== 'string') return { ok: false, error: 'the pasted content is not text' };
   if (text.length > TSV_LIMITS.chars) {
-    return { ok: false, error: `the pasted text is ${text.length.toLocaleString('en')} characters; at most ${TSV_LIMITS.chars.toLocaleString('en')} are read at once` };
+    return { ok: false, error: `the pasted text is ${grouped(text.length)} characters; at most ${grouped(TSV_LIMITS.chars)} are read at once` };
   }
   const rows: string[][] = [];
   if (text === '') return { ok: true, rows };
@@ -61,7 +62,7 @@ export function parseTsv(text: string): TsvResult {
     }
     row.push(cell);
     cells += 1;
-    if (cells > TSV_LIMITS.cells) return { ok: false, error: `the pasted text has more than ${TSV_LIMITS.cells.toLocaleString('en')} cells; paste it in parts` };
+    if (cells > TSV_LIMITS.cells) return { ok: false, error: `the pasted text has more than ${grouped(TSV_LIMITS.cells)} cells; paste it in parts` };
     if (i >= n) {
       rows.push(row);
       break;

@@ -18,6 +18,7 @@ import { mpnKey } from '../domain/book.ts';
 import { PART_RATINGS } from '../domain/params.ts';
 import { CHECK_STATUS, judge } from '../domain/check-status.ts';
 import type { CheckStatus, CheckValue, RuleLimits } from '../domain/check-status.ts';
+import { significant } from '../domain/format.ts';
 import { ENGINE_DEFAULTS, registerRungbookFunctions } from './create.ts';
 import { columnLetters } from './cells.ts';
 import { guardFormula } from './formula-guard.ts';
@@ -144,10 +145,6 @@ interface CheckCells {
 
 type Row = RawCellContent[];
 
-function fmtNumber(n: number): string {
-  return Number.isInteger(n) ? String(n) : Number(n.toPrecision(4)).toString();
-}
-
 interface EngineError {
   value: string;
   message: string;
@@ -230,7 +227,7 @@ function sortedLines(book: Book): BuildLine[] {
 }
 
 function limitText(rule: CheckRule, limits: RuleLimits): string {
-  const f = (n: number | undefined): string => (n === undefined ? '?' : fmtNumber(n));
+  const f = (n: number | undefined): string => (n === undefined ? '?' : significant(n));
   switch (rule.kind) {
     case 'max':
       return `≤ ${f(limits.limit)}`;
@@ -730,7 +727,7 @@ export class FamilyWorkbook {
         else qty = q.value;
       }
       if (qty < 0) {
-        problem(line.id, `quantity per unit is negative (${fmtNumber(qty)})`);
+        problem(line.id, `quantity per unit is negative (${significant(qty)})`);
         qty = 0;
       }
       if (partId !== null && line.role) {

@@ -23,11 +23,6 @@ export const chartStyles = css`
     }
 `;
 
-/** A figure on a chart: grouped, with exactly `digits` decimals. */
-export function chartFigure(n: number, digits: number): string {
-  return n.toLocaleString('en-GB', { minimumFractionDigits: digits, maximumFractionDigits: digits });
-}
-
 /** Round step for an axis: 1, 2 or 5 times a power of ten giving about `count` ticks up to `max`. */
 export function niceStep(max: number, count = 5): number {
   if (!(max > 0)) return 1;

@@ -130,19 +130,6 @@ export function variantDifference(book: Book, family: FamilyResolution, a: Coste
   };
 }
 
-/** A money figure with grouping and a fixed number of decimals (the currency is named in headings). */
-export function money(amount: number, digits = 4): string {
-  if (!Number.isFinite(amount)) return '—';
-  return amount.toLocaleString('en-GB', { minimumFractionDigits: digits, maximumFractionDigits: digits });
-}
-
-/** A signed money figure for differences: "+0.1234", "−0.0500", "0.0000". */
-export function signedMoney(amount: number, digits = 4): string {
-  const r = Number(amount.toFixed(digits));
-  if (r === 0) return money(0, digits);
-  return `${r > 0 ? '+' : '−'}${money(Math.abs(r), digits)}`;
-}
-
 // ---------------------------------------------------------------------------------------------------------------
 // What-if edits
 

@@ -4,7 +4,8 @@
 import { LitElement, css, html, svg } from 'lit';
 import type { SVGTemplateResult, TemplateResult } from 'lit';
 import { customElement, property } from 'lit/decorators.js';
-import { chartFigure, chartStyles, niceStep } from './chart-parts.ts';
+import { fixed } from '../domain/format.ts';
+import { chartStyles, niceStep } from './chart-parts.ts';
 
 export interface BarSeries {
   key: string;
@@ -131,7 +132,7 @@ export class RbChartBars extends LitElement {
   private readonly uid = `bars${++instance}`;
 
   private fmt(n: number): string {
-    return chartFigure(n, this.digits);
+    return fixed(n, this.digits);
   }
 
   override render(): TemplateResult {

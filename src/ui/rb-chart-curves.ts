@@ -4,7 +4,8 @@
 import { LitElement, css, html, svg } from 'lit';
 import type { SVGTemplateResult, TemplateResult } from 'lit';
 import { customElement, property } from 'lit/decorators.js';
-import { chartFigure, chartStyles, niceStep } from './chart-parts.ts';
+import { fixed, grouped } from '../domain/format.ts';
+import { chartStyles, niceStep } from './chart-parts.ts';
 
 export interface CurvePoint {
   x: number;
@@ -92,7 +93,7 @@ export class RbChartCurves extends LitElement {
   @property({ type: Number }) digits = 2;
 
   private fmt(n: number): string {
-    return chartFigure(n, this.digits);
+    return fixed(n, this.digits);
   }
 
   override render(): TemplateResult {
@@ -130,7 +131,7 @@ export class RbChartCurves extends LitElement {
       )}
       ${logTicks(x0, x1).map(
         (t) => svg`<line class="grid" x1=${lx(t)} x2=${lx(t)} y1=${top} y2=${top + plotH}></line>
-          <text class="num" x=${lx(t)} y=${top + plotH + 15} text-anchor="middle">${t.toLocaleString('en-GB')}</text>`,
+          <text class="num" x=${lx(t)} y=${top + plotH + 15} text-anchor="middle">${grouped(t)}</text>`,
       )}
       ${this.marks
         .filter((m) => m >= x0 && m <= x1)
@@ -155,7 +156,7 @@ export class RbChartCurves extends LitElement {
         const end = [...s.points].reverse().find((p) => Number.isFinite(p.y));
         return svg`<g data-series=${s.label}>
           ${segments.map((d) => svg`<path d=${d} fill="none" stroke=${tone} stroke-width="2" stroke-dasharray=${DASHES[i % DASHES.length]!}></path>`)}
-          ${s.points.filter((p) => Number.isFinite(p.y)).map((p) => svg`<g>${marker(i, lx(p.x), ly(p.y), tone)}<title>${s.label} at ${p.x.toLocaleString('en-GB')}: ${this.fmt(p.y)}</title></g>`)}
+          ${s.points.filter((p) => Number.isFinite(p.y)).map((p) => svg`<g>${marker(i, lx(p.x), ly(p.y), tone)}<title>${s.label} at ${grouped(p.x)}: ${this.fmt(p.y)}</title></g>`)}
           ${end
             ? svg`${marker(i, left + plotW + 12, labelYs[i]!, tone)}<text class="name" x=${left + plotW + 20} y=${labelYs[i]! + 4}>${s.label}</text>`
             : ''}

@@ -10,6 +10,7 @@ import type { Book, Quote, Variant } from '../domain/book.ts';
 import { STATUS_SYMBOL } from '../domain/check-status.ts';
 import type { CheckStatus } from '../domain/check-status.ts';
 import type { CostedBom, Result } from '../domain/costing.ts';
+import { grouped, money, signedMoney } from '../domain/format.ts';
 import type { CostingWorkbook } from '../engine/costing.ts';
 import type { FamilyResolution } from '../engine/family.ts';
 import { BookController } from './book-context.ts';
@@ -24,9 +25,7 @@ import {
   curveRunSizes,
   emptyWhatIf,
   keepWhatIf,
-  money,
   readRunSizes,
-  signedMoney,
   variantDifference,
   whatIfCount,
 } from './rb-build-costing.ts';
@@ -420,7 +419,7 @@ export class RbComparePage extends LitElement {
                   const finite = row.map((f) => f.value).filter((x) => Number.isFinite(x));
                   const low = finite.length > 1 ? Math.min(...finite) : NaN;
                   return html`<tr class="cost ${k === 0 ? 'first' : ''}">
-                    <th scope="row">unit cost at ${run.toLocaleString('en-GB')} (${base})</th>
+                    <th scope="row">unit cost at ${grouped(run)} (${base})</th>
                     ${row.map((f, i) =>
                       Number.isFinite(f.value)
                         ? html`<td class="num" data-testid="unit-cost" data-variant=${chosen[i]!.code} data-run=${run} data-value=${f.value}>
@@ -432,7 +431,7 @@ export class RbComparePage extends LitElement {
                 })}
                 ${runs.map(
                   (run, k) => html`<tr>
-                    <th scope="row">price at ${run.toLocaleString('en-GB')} (${margin} % margin)</th>
+                    <th scope="row">price at ${grouped(run)} (${margin} % margin)</th>
                     ${costs[k]!.map((f) => html`<td class="num">${Number.isFinite(f.value) ? money(f.value / (1 - margin / 100)) : '—'}</td>`)}
                   </tr>`,
                 )}
@@ -572,7 +571,7 @@ export class RbComparePage extends LitElement {
           )}
         </select>
         <select aria-label="Price break" @change=${(e: Event) => (this.wiBreak = Number((e.target as HTMLSelectElement).value))}>
-          ${q.breaks.map((x, i) => html`<option value=${i} ?selected=${i === b}>from ${x.qty.toLocaleString('en-GB')}</option>`)}
+          ${q.breaks.map((x, i) => html`<option value=${i} ?selected=${i === b}>from ${grouped(x.qty)}</option>`)}
         </select>
       </div>
       <span class="hint">${q.expires && q.expires < (book.settings.costingDate ?? '') ? 'expired: not used in costing' : `in ${q.currency}`}</span>
@@ -594,7 +593,7 @@ export class RbComparePage extends LitElement {
         ? html`<span class="problem" role="alert">${problem}</span>`
         : applied !== undefined
           ? html`<span class="was">what-if; the quote has ${held}</span>`
-          : html`<span class="hint">at the break from ${q.breaks[b]!.qty.toLocaleString('en-GB')}</span>`}`;
+          : html`<span class="hint">at the break from ${grouped(q.breaks[b]!.qty)}</span>`}`;
   }
 
   /** Reads a typed number; a bad one is shown beside its field and changes nothing. */
@@ -692,7 +691,7 @@ export class RbComparePage extends LitElement {
     return html`<label
       >${label}
       <select aria-label=${label} @change=${(e: Event) => (this.splitRun = Number((e.target as HTMLSelectElement).value))}>
-        ${this.runSizes(book).map((r) => html`<option value=${r} ?selected=${r === this.splitRun}>${r.toLocaleString('en-GB')}</option>`)}
+        ${this.runSizes(book).map((r) => html`<option value=${r} ?selected=${r === this.splitRun}>${grouped(r)}</option>`)}
       </select></label
     >`;
   }
@@ -739,7 +738,7 @@ export class RbComparePage extends LitElement {
     return html`<section class="sheet" aria-labelledby="curves-h">
       <h2 id="curves-h">Cost against run size</h2>
       <p class="why">
-        Unit cost in ${base} from ${runs[0]!.toLocaleString('en-GB')} to ${runs[runs.length - 1]!.toLocaleString('en-GB')} units on a
+        Unit cost in ${base} from ${grouped(runs[0]!)} to ${grouped(runs[runs.length - 1]!)} units on a
         logarithmic axis. Steps come from price breaks, minimum orders and packs; dotted guides mark the run sizes compared above.
       </p>
       <rb-chart-curves
@@ -820,7 +819,7 @@ export class RbComparePage extends LitElement {
       <h2 id="diff-h">What makes two variants differ</h2>
       <p class="why">
         Build lines fitted in one variant and not the other, or with another part or quantity, with their cost per unit at
-        a run of ${this.splitRun.toLocaleString('en-GB')} units. The rows below them
+        a run of ${grouped(this.splitRun)} units. The rows below them
         account for the rest, so the effects add up to the difference in unit cost.
       </p>
       <div class="toolbar">

@@ -6,6 +6,7 @@ import { customElement, query, state } from 'lit/decorators.js';
 import type { Book, Variant } from '../domain/book.ts';
 import { newId } from '../domain/book.ts';
 import { STATUS_SYMBOL } from '../domain/check-status.ts';
+import { currencyMoney, grouped } from '../domain/format.ts';
 import { VARIANT_PARAMS } from '../domain/params.ts';
 import { guardText } from '../domain/tsv.ts';
 import { formatValue } from '../domain/units.ts';
@@ -34,16 +35,6 @@ function shown(name: string, v: Variant['params'][string] | undefined): string {
   if (typeof v === 'string') return v;
   const { unit } = paramInfo(name, v);
   return unit === '' ? String(Number(v.toPrecision(4))) : formatValue(v, unit);
-}
-
-function moneyFormat(currency: string): (n: number) => string {
-  let f: Intl.NumberFormat;
-  try {
-    f = new Intl.NumberFormat('en', { style: 'currency', currency, minimumFractionDigits: 2, maximumFractionDigits: 2 });
-  } catch {
-    f = new Intl.NumberFormat('en', { minimumFractionDigits: 2, maximumFractionDigits: 2 });
-  }
-  return (n) => f.format(n);
 }
 
 @customElement('rb-family-page')
@@ -190,7 +181,7 @@ export class RbFamilyPage extends LitElement {
     grid.push({ key: STATUS_KEY, label: 'checks', editable: false, title: 'the worst status of the variant’s checks (see the Checks page)' });
     family.push({ key: STATUS_KEY, kind: COLUMN_KINDS.computed });
     for (const run of runs) {
-      grid.push({ key: costKey(run), label: `unit cost @ ${run.toLocaleString('en')}`, unit: currency, num: true, editable: false, title: `cost per unit in a run of ${run}` });
+      grid.push({ key: costKey(run), label: `unit cost @ ${grouped(run)}`, unit: currency, num: true, editable: false, title: `cost per unit in a run of ${run}` });
       family.push({ key: costKey(run), kind: COLUMN_KINDS.computed });
     }
     this.columnCache = { sig, grid, family };
@@ -266,7 +257,7 @@ export class RbFamilyPage extends LitElement {
     const runs = book.settings.runSizes;
     const currency = book.settings.baseCurrency;
     const { grid, sig: colSig } = this.columns(book, runs, currency, used);
-    const money = moneyFormat(currency);
+    const money = (n: number): string => currencyMoney(n, currency);
     const rows = variants.map((v) => this.rowFor(v, this.paramCells(v, used, colSig), pending ? undefined : this.figureCells(v, costing, runs, money), runs));
     if (this.rowCache.size > variants.length * 2) {
       const ids = new Set(variants.map((v) => v.id));
@@ -282,7 +273,7 @@ export class RbFamilyPage extends LitElement {
       <p class="why">
         ${variants.length} variants. Each parameter column is read by the checks and build rules by its name; a blank cell
         means the variant does not set it. The checks column is the worst of the variant's checks; unit costs are for
-        runs of ${runs.map((r) => r.toLocaleString('en')).join(', ')} from the current quotes, in ${currency}.
+        runs of ${runs.map((r) => grouped(r)).join(', ')} from the current quotes, in ${currency}.
       </p>
       <p class="keys">
         <kbd>↑</kbd><kbd>↓</kbd><kbd>←</kbd><kbd>→</kbd> move (with <kbd>Shift</kbd> to mark a block) · <kbd>Enter</kbd> or typing edits ·
@@ -355,7 +346,7 @@ export class RbFamilyPage extends LitElement {
           <tr>
             <th scope="col">code</th>
             <th scope="col">checks</th>
-            ${runs.map((r) => html`<th scope="col" class="num">unit cost @ ${r.toLocaleString('en')}</th>`)}
+            ${runs.map((r) => html`<th scope="col" class="num">unit cost @ ${grouped(r)}</th>`)}
           </tr>
         </thead>
         <tbody>

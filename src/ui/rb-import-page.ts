@@ -7,6 +7,7 @@ import { live } from 'lit/directives/live.js';
 import type { Book, ColumnMapping, Supplier } from '../domain/book.ts';
 import { newId } from '../domain/book.ts';
 import { todayIso } from '../domain/dates.ts';
+import { grouped } from '../domain/format.ts';
 import type { Decimal, DateOrder, PriceUnit } from '../io/price-map.ts';
 import { knownCurrencies } from '../io/price-import.ts';
 import { planImport } from '../io/price-plan.ts';
@@ -77,7 +78,7 @@ function countLines(bytes: Uint8Array): number {
 }
 
 function plural(n: number, one: string, many = `${one}s`): string {
-  return `${n.toLocaleString('en')} ${n === 1 ? one : many}`;
+  return `${grouped(n)} ${n === 1 ? one : many}`;
 }
 
 @customElement('rb-import-page')
@@ -321,7 +322,7 @@ export class RbImportPage extends LitElement {
       const max = Math.max(this.source?.lines ?? 1, p.rows, 1);
       return html`<div class="progress" role="status" data-testid="import-progress">
         <progress max=${max} value=${p.rows} aria-label="Rows read"></progress>
-        <span>${plural(p.rows, 'row')} read · ${p.rowsPerSecond.toLocaleString('en')} rows/s</span>
+        <span>${plural(p.rows, 'row')} read · ${grouped(p.rowsPerSecond)} rows/s</span>
         <button type="button" @click=${() => this.cancel()}>Stop</button>
       </div>`;
     }
@@ -329,7 +330,7 @@ export class RbImportPage extends LitElement {
       const rate = p.seconds > 0 ? Math.round(p.analysis.dataRows / p.seconds) : 0;
       return html`<div class="progress" data-testid="import-progress">
         <progress max="1" value="1" aria-label="Rows read"></progress>
-        <span>${plural(p.analysis.dataRows, 'row')} read and checked in ${p.seconds.toFixed(2)} s${rate ? ` · ${rate.toLocaleString('en')} rows/s` : ''}</span>
+        <span>${plural(p.analysis.dataRows, 'row')} read and checked in ${p.seconds.toFixed(2)} s${rate ? ` · ${grouped(rate)} rows/s` : ''}</span>
       </div>`;
     }
     if (p.kind === 'failed') return html`<p class="notice" role="alert">${p.message}</p>`;
@@ -536,7 +537,7 @@ export class RbImportPage extends LitElement {
       <div class="toolbar">
         <button type="button" @click=${() => setAll('create')}>Create all as new parts</button>
         <button type="button" @click=${() => setAll('skip')}>Skip all</button>
-        <span class="muted" data-testid="unmatched-choice">${plural(plan.unmatched.length, 'row')}: ${creating.toLocaleString('en')} to create, ${(plan.unmatched.length - creating).toLocaleString('en')} to skip</span>
+        <span class="muted" data-testid="unmatched-choice">${plural(plan.unmatched.length, 'row')}: ${grouped(creating)} to create, ${grouped(plan.unmatched.length - creating)} to skip</span>
       </div>
       <div class="scroll">
         <table class="records" data-testid="unmatched-table">

@@ -4,6 +4,7 @@ import { LitElement, css, html } from 'lit';
 import { customElement, state } from 'lit/decorators.js';
 import type { Book, Part, Quote, Supplier } from '../domain/book.ts';
 import { todayIso } from '../domain/dates.ts';
+import { grouped } from '../domain/format.ts';
 import { currentQuoteIndex, supersede } from '../domain/quotes.ts';
 import { BookController } from './book-context.ts';
 import { rowActions } from './form-fields.ts';
@@ -16,7 +17,7 @@ import { pageStyles } from './styles.ts';
 type Editing = { quote: Quote | undefined; saveError?: string };
 
 function n(count: number): string {
-  return count.toLocaleString('en');
+  return grouped(count);
 }
 
 /** Rows drawn at once; a Book with tens of thousands of imported quotes stays quick to show. */

@@ -6,6 +6,7 @@ import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Locator, Page } from 'playwright-core';
 import type { Book } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
+import { currencyMoney } from '../../src/domain/format.ts';
 import { formatTsv } from '../../src/domain/tsv.ts';
 import { CostingWorkbook, resolutionFromFamily } from '../../src/engine/costing.ts';
 import { resolveFamily } from '../../src/engine/family.ts';
@@ -52,7 +53,7 @@ function costText(book: Book, variantId: string, run: number): string {
   if (!wb.ok) throw new Error(wb.error);
   const u = wb.value.unitCost(variantId, run);
   wb.value.close();
-  return new Intl.NumberFormat('en', { style: 'currency', currency: book.settings.baseCurrency, minimumFractionDigits: 2, maximumFractionDigits: 2 }).format(u);
+  return currencyMoney(u, book.settings.baseCurrency);
 }
 
 describe('Family grid', () => {

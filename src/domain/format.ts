@@ -1,0 +1,51 @@
+// How numbers are written for people to read, in the app, the CLI and the engine's messages: one locale, grouped
+// counts, fixed decimals, money with or without its currency, and short figures for messages.
+
+/** The one locale for figures shown to people (grouping with commas, a decimal point, £ and US$ as written in the UK). */
+export const LOCALE = 'en-GB';
+
+/** A count or other whole number with grouping: 12,500. */
+export function grouped(n: number): string {
+  return n.toLocaleString(LOCALE);
+}
+
+/** A figure with grouping and exactly `digits` decimals: 1,234.50. */
+export function fixed(n: number, digits: number): string {
+  return n.toLocaleString(LOCALE, { minimumFractionDigits: digits, maximumFractionDigits: digits });
+}
+
+/** A money figure with grouping and a fixed number of decimals (the currency is named in headings); — when not a number. */
+export function money(amount: number, digits = 4): string {
+  if (!Number.isFinite(amount)) return '—';
+  return fixed(amount, digits);
+}
+
+/** A signed money figure for differences: "+0.1234", "−0.0500", "0.0000". */
+export function signedMoney(amount: number, digits = 4): string {
+  const r = Number(amount.toFixed(digits));
+  if (r === 0) return money(0, digits);
+  return `${r > 0 ? '+' : '−'}${money(Math.abs(r), digits)}`;
+}
+
+const currencyFormats = new Map<string, Intl.NumberFormat>();
+
+/** Money with its currency sign, grouped, `digits` decimals: €1,234.50. A code the platform does not know is left out. */
+export function currencyMoney(amount: number, currency: string, digits = 2): string {
+  const key = `${currency} ${digits}`;
+  let f = currencyFormats.get(key);
+  if (!f) {
+    const decimals = { minimumFractionDigits: digits, maximumFractionDigits: digits };
+    try {
+      f = new Intl.NumberFormat(LOCALE, { style: 'currency', currency, ...decimals });
+    } catch {
+      f = new Intl.NumberFormat(LOCALE, decimals);
+    }
+    currencyFormats.set(key, f);
+  }
+  return f.format(amount);
+}
+
+/** A number in a message: whole numbers as they are, others to `digits` significant digits without trailing zeros. */
+export function significant(n: number, digits = 4): string {
+  return Number.isInteger(n) ? String(n) : String(Number(n.toPrecision(digits)));
+}
