@@ -5,6 +5,7 @@ import type { Book, FrozenRun, Part, Quote, Run, Settings } from './book.ts';
 import type { CostedBom, CostedLine, Result } from './costing.ts';
 import { toCents, toTenThousandths } from './costing.ts';
 import { isIsoDate } from './dates.ts';
+import { grouped } from './format.ts';
 
 // ---------------------------------------------------------------------------------------------------------------
 // Run drafts
@@ -52,7 +53,7 @@ export function validateRun(draft: RunDraft, book: Book, editing?: Run, newId?: 
   const quantity = /^\d+$/.test(qtyText) ? Number(qtyText) : NaN;
   if (draft.quantity.trim() === '') problems.quantity = 'quantity is required';
   else if (!Number.isSafeInteger(quantity) || quantity < 1) problems.quantity = `quantity must be a whole number of units ≥ 1, got “${draft.quantity.trim()}”`;
-  else if (quantity > MAX_RUN_QUANTITY) problems.quantity = `quantity must be at most ${MAX_RUN_QUANTITY.toLocaleString('en')}`;
+  else if (quantity > MAX_RUN_QUANTITY) problems.quantity = `quantity must be at most ${grouped(MAX_RUN_QUANTITY)}`;
   const date = draft.dateWanted.trim();
   if (date === '') problems.dateWanted = 'date wanted is required';
   else if (!isIsoDate(date)) problems.dateWanted = `date wanted must be a calendar date YYYY-MM-DD, got “${date}”`;
