@@ -1,5 +1,7 @@
-// Builds the app once and serves it from dist/ on a free loopback port for the browser tests.
-import { build, preview } from 'vite';
+// Builds the app once and serves it from dist/ on a free loopback port for the browser tests, through the same server
+// as `npm start` (scripts/serve.mjs), so the tests see the headers users get.
+import { build } from 'vite';
+import { serveApp } from '../../scripts/serve.mjs';
 import type { TestProject } from 'vitest/node';
 import type {} from 'vitest';
 
@@ -18,11 +20,11 @@ export default async function setup(project: TestProject): Promise<() => Promise
   } finally {
     process.env.NODE_ENV = nodeEnv;
   }
-  const server = await preview({ preview: { port: 0, host: '127.0.0.1', strictPort: false }, logLevel: 'warn' });
-  const address = server.httpServer.address();
-  if (!address || typeof address === 'string') throw new Error('preview server has no port');
-  project.provide('baseUrl', `http://127.0.0.1:${address.port}/`);
+  const { server, url } = await serveApp({ port: 0 });
+  project.provide('baseUrl', url);
   return async () => {
-    await server.close();
+    const closed = new Promise<void>((done) => server.close(() => done()));
+    server.closeAllConnections();
+    await closed;
   };
 }
