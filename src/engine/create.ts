@@ -2,7 +2,7 @@
 // so no engine can exist before our function names are registered.
 import { HyperFormula } from 'hyperformula';
 import type { ConfigParams } from 'hyperformula';
-import { FUNCTION_PLUGINS } from './functions/index.ts';
+import { ENGINE_OVERRIDES, FUNCTION_PLUGINS, boundTextOperator } from './functions/index.ts';
 
 /** Languages whose function names we have added, so later calls only extend languages registered since. */
 const translated = new Set<string>();
@@ -22,6 +22,8 @@ export function registerRungbookFunctions(): void {
     // Registering a plugin again replaces its own entries, so this also adds names for newly registered languages.
     HyperFormula.registerFunctionPlugin(plugin, Object.fromEntries(languages.map((code) => [code, names])));
   }
+  // Bounded versions of the engine's own text functions keep their names, so they need no translations.
+  if (!registered) for (const plugin of ENGINE_OVERRIDES) HyperFormula.registerFunctionPlugin(plugin);
   for (const code of languages) translated.add(code);
   registered = true;
 }
@@ -38,5 +40,7 @@ export const ENGINE_DEFAULTS: Partial<ConfigParams> = {
 /** A new empty engine with Rungbook's functions; `config` overrides the defaults above. */
 export function createEngine(config: Partial<ConfigParams> = {}): HyperFormula {
   registerRungbookFunctions();
-  return HyperFormula.buildEmpty({ ...ENGINE_DEFAULTS, ...config });
+  const hf = HyperFormula.buildEmpty({ ...ENGINE_DEFAULTS, ...config });
+  boundTextOperator(hf);
+  return hf;
 }

@@ -20,6 +20,7 @@ import { CHECK_STATUS, judge } from '../domain/check-status.ts';
 import type { CheckStatus, CheckValue, RuleLimits } from '../domain/check-status.ts';
 import { significant } from '../domain/format.ts';
 import { ENGINE_DEFAULTS, registerRungbookFunctions } from './create.ts';
+import { boundTextOperator } from './functions/text.ts';
 import { columnLetters } from './cells.ts';
 import { guardFormula } from './formula-guard.ts';
 import { TOKEN_KIND, constantNumber, formulaNames, nameKey, rewriteFormula, soleName, tokenizeFormula, formulaBody } from './formula-names.ts';
@@ -504,6 +505,8 @@ export class FamilyWorkbook {
     }
     registerRungbookFunctions();
     const hf = HyperFormula.buildFromSheets({ [SHEET]: rows, [MEMO_SHEET]: memoRows }, ENGINE_DEFAULTS);
+    // Checks read each other by name, so "&" could double text from check to check: bound it before they are added.
+    boundTextOperator(hf);
     this.hf = hf;
     this.sheet = hf.getSheetId(SHEET)!;
     this.memoSheet = hf.getSheetId(MEMO_SHEET)!;

@@ -1,7 +1,7 @@
 // The gate every formula a person types passes before the engine sees it: refuses text that could freeze the page
 // or overflow the engine's parser (overlong text, deep nesting, huge ranges, functions whose cost is known only when
 // they run), and turns the engine's error values and exceptions into sentences a person can act on.
-import { DetailedCellError } from 'hyperformula';
+import { CellError, DetailedCellError, ErrorType } from 'hyperformula';
 import type { CellValue, HyperFormula } from 'hyperformula';
 
 /**
@@ -253,6 +253,40 @@ export function guardFormula(text: string, overrides: Partial<FormulaLimits> = {
     }
   }
   return { ok: true, formula: `=${body.trim()}` };
+}
+
+/**
+ * Cells in every range a formula names (0 for text that is not a formula), counted the way the guard counts them, so
+ * a page of many formulas can bound the cells they read together.
+ */
+export function formulaRangeCells(text: string): number {
+  const t = text.trim();
+  if (!t.startsWith('=')) return 0;
+  const blanked = blankQuoted(t.slice(1));
+  if (!blanked.ok) return 0;
+  return rangesIn(blanked.code, FORMULA_LIMITS).reduce((sum, r) => sum + r.cells, 0);
+}
+
+/**
+ * Gives one engine a time budget, counted from now: once `ms` have passed, every formula it goes on to evaluate is an
+ * error value with a message, so a page's evaluation ends soon after instead of freezing the page. The engine has no
+ * option for this, so its interpreter's evaluation step is wrapped on this instance; it is checked once per formula
+ * part, which costs a clock read.
+ */
+export function limitEvaluationTime(hf: HyperFormula, ms: number, now: () => number = () => Date.now()): void {
+  const interpreter = hf.evaluator.interpreter;
+  const evaluate = interpreter.evaluateAst.bind(interpreter);
+  const deadline = now() + ms;
+  let stopped: CellError | undefined;
+  interpreter.evaluateAst = (ast, state) => {
+    if (stopped === undefined && now() >= deadline) {
+      stopped = new CellError(
+        ErrorType.ERROR,
+        `calculation stopped after ${grouped(ms)} ms so the page stays responsive; make the formulas read fewer cells or split the page`,
+      );
+    }
+    return stopped ?? evaluate(ast, state);
+  };
 }
 
 /** The engine's error kinds, in words. The engine's own message, when it has one, follows. */

@@ -9,6 +9,7 @@ import { TIMING_FUNCTIONS, TimingPlugin } from './timing.ts';
 import { VALUES_FUNCTIONS, ValuesPlugin } from './values.ts';
 
 export { FUNCTION_AREAS } from './define.ts';
+export { ENGINE_OVERRIDES, MAX_TEXT_LENGTH, boundTextOperator } from './text.ts';
 export type { FunctionArea, FunctionSpec } from './define.ts';
 
 /** One plugin per area, with the specs it implements. */
