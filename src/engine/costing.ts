@@ -40,6 +40,7 @@ import {
 import type { CostedBom, CostingContext, ResolvedLine, Result } from '../domain/costing.ts';
 import { registerCostingFunctions } from './costing-functions.ts';
 import { ENGINE_DEFAULTS, registerRungbookFunctions } from './create.ts';
+import type { FamilyResolution } from './family.ts';
 
 /** Each variant's resolved lines by variant id. */
 export type Resolution = Map<string, readonly ResolvedLine[]>;
@@ -66,33 +67,9 @@ export interface ChangedCost {
   run: number;
 }
 
-/** The shape of the family resolver's answer (src/engine/family.ts), read structurally. */
-export interface FamilyResolutionLike {
-  variants: {
-    variantId: string;
-    lines: { lineId: string; partId: string | null; qtyPerUnit: number; applies: boolean }[];
-    problems: { lineId: string; message: string }[];
-  }[];
-}
-
-/** Turns the family resolver's answer into costing's resolved lines (a line with a problem carries its message). */
-export function resolutionFromFamily(family: FamilyResolutionLike): Resolution {
-  const out: Resolution = new Map();
-  for (const v of family.variants) {
-    const errors = new Map<string, string>();
-    for (const p of v.problems) errors.set(p.lineId, errors.has(p.lineId) ? `${errors.get(p.lineId)}; ${p.message}` : p.message);
-    out.set(
-      v.variantId,
-      v.lines.map((l): ResolvedLine => {
-        const base: ResolvedLine = { lineId: l.lineId, qtyPerUnit: l.qtyPerUnit, applies: l.applies };
-        if (l.partId !== null) base.partId = l.partId;
-        const e = errors.get(l.lineId);
-        if (e !== undefined) base.error = e;
-        return base;
-      }),
-    );
-  }
-  return out;
+/** The family resolver's lines by variant id. */
+export function resolutionFromFamily(family: FamilyResolution): Resolution {
+  return new Map(family.variants.map((v) => [v.variantId, v.lines] as const));
 }
 
 /** Resolution for Books whose build rules are all constants (no formula engine needed). */

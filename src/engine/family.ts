@@ -14,6 +14,7 @@
 import { HyperFormula } from 'hyperformula';
 import type { CellValue, RawCellContent } from 'hyperformula';
 import type { Book, BuildLine, Check, CheckRule, ParamValue, Part, Variant } from '../domain/book.ts';
+import type { ResolvedLine } from '../domain/costing.ts';
 import { mpnKey } from '../domain/book.ts';
 import { PART_RATINGS } from '../domain/params.ts';
 import { CHECK_STATUS, judge } from '../domain/check-status.ts';
@@ -25,15 +26,6 @@ import { columnLetters } from './cells.ts';
 import { guardFormula } from './formula-guard.ts';
 import { TOKEN_KIND, constantNumber, formulaNames, nameKey, rewriteFormula, soleName, tokenizeFormula, formulaBody } from './formula-names.ts';
 
-/** One build line as it stands for one variant. `partId` is null where no part could be chosen. */
-export interface ResolvedLine {
-  lineId: string;
-  partId: string | null;
-  /** Parts per finished unit; 0 where the line does not apply or its rule failed. */
-  qtyPerUnit: number;
-  applies: boolean;
-}
-
 export interface ResolveProblem {
   variantId: string;
   variantCode: string;
@@ -44,7 +36,7 @@ export interface ResolveProblem {
 export interface VariantResolution {
   variantId: string;
   variantCode: string;
-  /** Every build line of the Book, in `position` order. */
+  /** Every build line of the Book, in `position` order; a line with a problem carries its messages as `error`. */
   lines: ResolvedLine[];
   /** Role names this variant's applying lines give (`switch_v_max`, `xcap_value`…), by lower-case name. */
   roleNames: Record<string, number>;
@@ -704,19 +696,19 @@ export class FamilyWorkbook {
       let applies = true;
       if (lc.problems.length > 0) {
         for (const p of lc.problems) problem(line.id, p);
-        return { lineId: line.id, partId: line.partId ?? null, qtyPerUnit: 0, applies: false };
+        return { lineId: line.id, partId: line.partId, qtyPerUnit: 0, applies: false };
       }
       if (lc.applies) {
         const a = this.read(r, lc.applies);
         if (!a.ok) {
           problem(line.id, `applies-when rule: ${a.error}`);
-          return { lineId: line.id, partId: null, qtyPerUnit: 0, applies: false };
+          return { lineId: line.id, qtyPerUnit: 0, applies: false };
         }
         if (typeof a.value === 'boolean') applies = a.value;
         else if (typeof a.value === 'number') applies = a.value !== 0;
         else {
           problem(line.id, `applies-when rule gave ${a.value === null ? 'nothing' : `text "${a.value}"`}, not TRUE or FALSE`);
-          return { lineId: line.id, partId: null, qtyPerUnit: 0, applies: false };
+          return { lineId: line.id, qtyPerUnit: 0, applies: false };
         }
       }
       // Lines that do not apply are not checked: their rules may read parameters only other variants have.
@@ -733,7 +725,7 @@ export class FamilyWorkbook {
         problem(line.id, `quantity per unit is negative (${significant(qty)})`);
         qty = 0;
       }
-      if (partId !== null && line.role) {
+      if (partId !== undefined && line.role) {
         const role = nameKey(line.role);
         const first = roleLine.get(role);
         if (first) problem(line.id, `role ${role} is already given by line ${first.designators || first.id}; this line's part is not read by checks`);
@@ -748,34 +740,40 @@ export class FamilyWorkbook {
       }
       return { lineId: line.id, partId, qtyPerUnit: qty, applies };
     });
+    const errors = new Map<string, string>();
+    for (const p of problems) errors.set(p.lineId, errors.has(p.lineId) ? `${errors.get(p.lineId)}; ${p.message}` : p.message);
+    for (const l of lines) {
+      const e = errors.get(l.lineId);
+      if (e !== undefined) l.error = e;
+    }
     return { variantId: v.id, variantCode: v.code, lines, roleNames, problems };
   }
 
-  private resolvePart(lc: LineCells, r: number, problem: (m: string) => void): string | null {
+  private resolvePart(lc: LineCells, r: number, problem: (m: string) => void): string | undefined {
     if (lc.part) {
       const p = this.read(r, lc.part);
       if (!p.ok) {
         problem(`part rule: ${p.error}`);
-        return null;
+        return undefined;
       }
       if (typeof p.value !== 'string' || p.value.trim() === '') {
         problem(`part rule gave ${p.value === null || p.value === '' ? 'nothing' : String(p.value)}, not a maker part number`);
-        return null;
+        return undefined;
       }
       const part = this.partsByKey.get(mpnKey(p.value));
       if (!part) {
         problem(`unknown part number ${p.value}`);
-        return null;
+        return undefined;
       }
       return part.id;
     }
     if (!lc.line.partId) {
       problem('the line has neither a part nor a part rule');
-      return null;
+      return undefined;
     }
     if (!this.partsById.has(lc.line.partId)) {
       problem(`part ${lc.line.partId} is not in the Book`);
-      return null;
+      return undefined;
     }
     return lc.line.partId;
   }

@@ -3,7 +3,7 @@ export { createEngine, registerRungbookFunctions, ENGINE_DEFAULTS } from './crea
 export { FUNCTION_DOCS, FUNCTION_AREAS, functionDoc, functionSignature } from './functions/index.ts';
 export type { FunctionArea, FunctionArgDoc, FunctionDoc } from './functions/index.ts';
 export { FamilyWorkbook, CheckSession, resolveFamily, evaluateChecks } from './family.ts';
-export type { CheckResult, EditResult, FamilyResolution, ResolvedLine, ResolveProblem, VariantResolution } from './family.ts';
+export type { CheckResult, EditResult, FamilyResolution, ResolveProblem, VariantResolution } from './family.ts';
 export { builtInChecks, addBuiltInChecks, parseCheckSheet, parseRule, formatRule, checkFromSheet } from './sheets.ts';
 export type { SheetCheck, SheetProblem, SheetResult } from './sheets.ts';
 export { guardFormula, evaluateFormula, describeFormulaError, FORMULA_LIMITS, FORMULA_REFUSALS } from './formula-guard.ts';

@@ -5,7 +5,7 @@ import type { Book, CostCategory, CurrencyCode, Quote, Settings } from '../domai
 import { COST_CATEGORIES, PART_KINDS } from '../domain/book.ts';
 import type { BookChange } from '../domain/book-ops.ts';
 import { perUnitFromCents, toCents, toTenThousandths } from '../domain/costing.ts';
-import type { CostedBom, Result } from '../domain/costing.ts';
+import type { CostedBom, ResolvedLine, Result } from '../domain/costing.ts';
 import { isIsoDate } from '../domain/dates.ts';
 import type { CostingWorkbook } from '../engine/costing.ts';
 import type { FamilyResolution } from '../engine/family.ts';
@@ -104,7 +104,7 @@ export function variantDifference(book: Book, family: FamilyResolution, a: Coste
   const byB = new Map((rb?.lines ?? []).map((l) => [l.lineId, l] as const));
   const costA = lineCosts(a, (id) => byA.get(id)?.qtyPerUnit ?? 0);
   const costB = lineCosts(b, (id) => byB.get(id)?.qtyPerUnit ?? 0);
-  const shown = (l: { applies: boolean; partId: string | null; qtyPerUnit: number } | undefined): string =>
+  const shown = (l: ResolvedLine | undefined): string =>
     !l || !l.applies || !(l.qtyPerUnit > 0) ? '' : `${l.partId ? (mpn.get(l.partId) ?? l.partId) : '(no part)'} × ${Number(l.qtyPerUnit.toPrecision(6))}`;
   const lines: LineDifference[] = [];
   const ids = [...new Set([...byA.keys(), ...byB.keys()])].sort(

@@ -86,7 +86,7 @@ describe('resolveFamily', () => {
       ['gone', 'part p_missing is not in the Book'],
     ]);
     const lines = res.variants[0]!.lines;
-    expect(lines[0]).toEqual({ lineId: 'sw', partId: null, qtyPerUnit: 1, applies: true });
+    expect(lines[0]).toEqual({ lineId: 'sw', qtyPerUnit: 1, applies: true, error: 'unknown part number TW-NOPE' });
     expect(lines[1]!.qtyPerUnit).toBe(0);
   });
 
