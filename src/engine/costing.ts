@@ -41,6 +41,7 @@ import type { CostedBom, CostingContext, ResolvedLine, Result } from '../domain/
 import { registerCostingFunctions } from './costing-functions.ts';
 import { ENGINE_DEFAULTS, registerRungbookFunctions } from './create.ts';
 import type { FamilyResolution } from './family.ts';
+import { columnLetters } from './cells.ts';
 
 /** Each variant's resolved lines by variant id. */
 export type Resolution = Map<string, readonly ResolvedLine[]>;
@@ -84,17 +85,6 @@ const EXP_LABOUR = 0;
 const EXP_TEST = 1;
 const EXP_OVERHEAD = 2;
 const EXP_MATERIAL = 3;
-
-function col(n: number): string {
-  let s = '';
-  let c = n + 1;
-  while (c > 0) {
-    const r = (c - 1) % 26;
-    s = String.fromCharCode(65 + r) + s;
-    c = Math.floor((c - 1) / 26);
-  }
-  return s;
-}
 
 function quoteFormulaText(text: string): string {
   return text.replace(/"/g, '""');
@@ -194,7 +184,7 @@ export class CostingWorkbook {
     for (const q of book.quotes) if (quoteProblem(q, ctx.date, 1) === undefined) usable.push(q);
     usable.sort((a, b) => (a.partId < b.partId ? -1 : a.partId > b.partId ? 1 : a.supplierId < b.supplierId ? -1 : a.supplierId > b.supplierId ? 1 : 0));
     const maxBreaks = usable.reduce((m, q) => Math.max(m, q.breaks.length), 1);
-    const lastQuoteCol = col(2 + 2 * maxBreaks);
+    const lastQuoteCol = columnLetters(2 + 2 * maxBreaks);
     const quoteRows: (string | number | null)[][] = [];
     const quoteRow = new Map<string, { row: number; breaks: number }>();
     /** Rows [start, end] of each part's quotes, and of each part+supplier. */
@@ -393,8 +383,8 @@ export class CostingWorkbook {
     const R = this.runCount;
     const n = row + 1;
     const p = this.plan[row]!;
-    const ref = (c: number): string => `${col(R + c)}${n}`;
-    const s = (c: number): string => `${SHEETS.settings}!$${col(c)}$1`;
+    const ref = (c: number): string => `${columnLetters(R + c)}${n}`;
+    const s = (c: number): string => `${SHEETS.settings}!$${columnLetters(c)}$1`;
     const sheet = this.sheet.variants;
     this.hf.batch(() => {
       this.hf.setCellContents({ sheet, row, col: R + EXP_LABOUR }, `=COST_LABOUR(${p.placements},${s(0)},${s(1)},${s(2)})`);

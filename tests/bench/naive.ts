@@ -7,18 +7,8 @@ import { HyperFormula } from 'hyperformula';
 import type { Book } from '../../src/domain/book.ts';
 import { attritionFor, placementsPerUnit, prepareCosting, quoteProblem } from '../../src/domain/costing.ts';
 import type { ResolvedLine } from '../../src/domain/costing.ts';
+import { columnLetters } from '../../src/engine/cells.ts';
 import { ENGINE_DEFAULTS } from '../../src/engine/create.ts';
-
-function col(n: number): string {
-  let s = '';
-  let c = n + 1;
-  while (c > 0) {
-    const r = (c - 1) % 26;
-    s = String.fromCharCode(65 + r) + s;
-    c = Math.floor((c - 1) / 26);
-  }
-  return s;
-}
 
 export function buildNaive(
   book: Book,
@@ -63,19 +53,19 @@ export function buildNaive(
       const bases: string[] = [];
       (rowsOfPart.get(l.partId) ?? []).forEach((qr, j) => {
         const q = qr + 1;
-        const buy = `${col(1 + 3 * j)}${lr}`;
-        const price = `${col(2 + 3 * j)}${lr}`;
+        const buy = `${columnLetters(1 + 3 * j)}${lr}`;
+        const price = `${columnLetters(2 + 3 * j)}${lr}`;
         cells.push(
           `=CEILING(MAX($A${lr},Quotes!$B$${q})/Quotes!$C$${q},1)*Quotes!$C$${q}`,
-          `=IFERROR(INDEX(Quotes!$${col(3 + maxB)}$${q}:$${col(2 + 2 * maxB)}$${q},1,MATCH(${buy},Quotes!$D$${q}:$${col(2 + maxB)}$${q},1)),999999999999)`,
+          `=IFERROR(INDEX(Quotes!$${columnLetters(3 + maxB)}$${q}:$${columnLetters(2 + 2 * maxB)}$${q},1,MATCH(${buy},Quotes!$D$${q}:$${columnLetters(2 + maxB)}$${q},1)),999999999999)`,
           `=ROUND(ROUND(${buy}*${price},2)*Quotes!$A$${q}*100,0)`,
         );
-        bases.push(`${col(3 + 3 * j)}${lr}`);
+        bases.push(`${columnLetters(3 + 3 * j)}${lr}`);
       });
       while (cells.length < costCol) cells.push(null);
       cells.push(`=MIN(${bases.join(',') || '0'})`);
       lineRows.push(cells);
-      costRefs.push(`Lines!$${col(costCol)}$${lr}`);
+      costRefs.push(`Lines!$${columnLetters(costCol)}$${lr}`);
     }
     const placements = placementsPerUnit(ctx, lines);
     variantRows.push([
