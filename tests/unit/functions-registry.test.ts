@@ -4,8 +4,7 @@ import { describe, expect, it } from 'vitest';
 import { DetailedCellError, HyperFormula } from 'hyperformula';
 import enUS from 'hyperformula/i18n/languages/enUS';
 import { createEngine, registerRungbookFunctions } from '../../src/engine/create.ts';
-import { FUNCTION_AREAS, FUNCTION_DOCS, functionDoc, functionSignature } from '../../src/engine/functions/index.ts';
-import { FUNCTION_PLUGINS } from '../../src/engine/functions/index.ts';
+import { FUNCTION_AREAS, FUNCTION_DOCS, FUNCTION_PLUGINS, functionDoc, functionSignature } from '../../src/engine/functions/index.ts';
 
 /** The function names the README lists under Formulas. */
 const REQUIRED = [

@@ -1,12 +1,11 @@
 // Purchasing functions over the costing rules of src/domain/costing.ts, so a formula gives the same quantities and
 // prices as a costed BOM: need with attrition, buy in MOQ and whole packs, all-units price breaks.
-import { ErrorType } from 'hyperformula';
+import { CellError, EmptyValue, ErrorType } from 'hyperformula';
 import type { SimpleRangeValue } from 'hyperformula';
 import type { PriceBreak } from '../../domain/book.ts';
 import { breakPrice, buyQty, needQty } from '../../domain/costing.ts';
 import { buildPlugin, defineFunction, fnError, numError, plainNumber, valueError } from './define.ts';
 import type { FunctionSpec } from './define.ts';
-import { CellError, EmptyValue } from 'hyperformula';
 
 const NEED_QTY = defineFunction({
   name: 'NEED_QTY',
