@@ -13,6 +13,8 @@
 //   (1.005 × 100 is 100.49999999999999 in doubles, and 1.005 must round to 1.01).
 import type { Book, BuildLine, CurrencyCode, Part, PriceBreak, Quote, Settings, Supplier, Variant } from './book.ts';
 import { isIsoDate, todayIso } from './dates.ts';
+import type { CostedBom, CostedLine, CostProblem } from './schema.ts';
+export type { CostedBom, CostedLine, CostProblem } from './schema.ts';
 
 export type Result<T> = { ok: true; value: T } | { ok: false; error: string };
 
@@ -212,7 +214,7 @@ export function baseCents(cents: number, rate: number): number {
 // ---------------------------------------------------------------------------------------------------------------
 // Book-level preparation
 
-/** One build line resolved for one variant (the shape the family resolver gives). */
+/** One build line resolved for one variant, as the family resolver gives it and costing reads it. */
 export interface ResolvedLine {
   lineId: string;
   partId?: string;
@@ -322,13 +324,6 @@ export interface Demand {
   qtyPerUnit: number;
   /** Sum of the merged lines' needs, each with its own attrition. */
   need: number;
-}
-
-export interface CostProblem {
-  lineId?: string;
-  designators?: string;
-  partId?: string;
-  message: string;
 }
 
 /** The parts one variant needs for a run, in build-line order; unusable lines come back as problems. */
@@ -446,60 +441,7 @@ export function chooseQuote(quotes: readonly PreparedQuote[], need: number, what
 // ---------------------------------------------------------------------------------------------------------------
 // The costed BOM
 
-export interface CostedLine {
-  lineId: string;
-  lineIds: string[];
-  designators: string;
-  partId: string;
-  mpn: string;
-  description: string;
-  qtyPerUnit: number;
-  need: number;
-  buy: number;
-  supplierId: string;
-  supplier: string;
-  supplierCode: string;
-  quoteId: string;
-  moq: number;
-  pack: number;
-  leadDays: number;
-  breakQty: number;
-  unitPrice: number;
-  /** Quote currency. */
-  currency: CurrencyCode;
-  /** buy × unitPrice rounded to cents, quote currency. */
-  extended: number;
-  /** extended × rate rounded to cents, base currency. */
-  extendedBase: number;
-  leftover: number;
-  /** leftover × unit price × rate, rounded to cents, base currency (shown, not credited). */
-  leftoverValue: number;
-}
 
-export interface CostedBom {
-  variantId: string;
-  variant: string;
-  run: number;
-  /** Base currency of every total. */
-  currency: CurrencyCode;
-  date: string;
-  lines: CostedLine[];
-  placements: number;
-  /** Per unit, 4 decimals. */
-  material: number;
-  labour: number;
-  test: number;
-  overhead: number;
-  unitCost: number;
-  price: number;
-  /** Run amounts, cents. */
-  materialRun: number;
-  runTotal: number;
-  leftoverValue: number;
-  /** False when some line could not be priced; totals then cover the priced lines only. */
-  complete: boolean;
-  problems: CostProblem[];
-}
 
 /** Labour per unit: (minutes per unit + minutes per placement × placements) / 60 × hourly rate, 4 decimals. */
 export function labourPerUnit(settings: Settings, placements: number): number {

@@ -1,10 +1,12 @@
 // Production run records: the checks that turn a form draft into a Run, freezing a run's costing (a snapshot that
 // keeps the prices, quotes and rates it was costed with), reading a snapshot back, and comparing a frozen costing
 // with a fresh one ("what would change if re-costed today"), line by line and in the totals.
-import type { Book, FrozenRun, Part, Quote, Run, Settings } from './book.ts';
+import type { Book, FrozenRun, Run, Settings } from './book.ts';
 import type { CostedBom, CostedLine, Result } from './costing.ts';
 import { toCents, toTenThousandths } from './costing.ts';
 import { isIsoDate } from './dates.ts';
+import { checkWith, FrozenSnapshotSchema, LIMITS, SNAPSHOT_FORMAT, SNAPSHOT_VERSION } from './schema.ts';
+import type { FrozenSettings, FrozenSnapshot } from './schema.ts';
 import { grouped } from './format.ts';
 
 // ---------------------------------------------------------------------------------------------------------------
@@ -24,7 +26,7 @@ export type RunProblems = Partial<Record<keyof RunDraft, string>>;
 export type RunFormResult = { ok: true; record: Run } | { ok: false; problems: RunProblems };
 
 /** Largest run accepted: far above any run of a small maker, low enough that every figure stays exact. */
-export const MAX_RUN_QUANTITY = 10_000_000;
+export const MAX_RUN_QUANTITY = LIMITS.runQuantity;
 const MAX_NAME = 120;
 const MAX_NOTES = 4000;
 
@@ -79,25 +81,8 @@ export function validateRun(draft: RunDraft, book: Book, editing?: Run, newId?: 
 // ---------------------------------------------------------------------------------------------------------------
 // Snapshots
 
-export const SNAPSHOT_FORMAT = 'rungbook-frozen-costing' as const;
-export const SNAPSHOT_VERSION = 1 as const;
-
-/** The cost settings a frozen costing was made with. */
-export type FrozenSettings = Pick<
-  Settings,
-  'baseCurrency' | 'rates' | 'labourRatePerHour' | 'labourMinutesPerUnit' | 'labourMinutesPerPlacement' | 'testCostPerUnit' | 'overheadPct' | 'marginPct'
->;
-
-export interface FrozenSnapshot {
-  format: typeof SNAPSHOT_FORMAT;
-  version: typeof SNAPSHOT_VERSION;
-  bom: CostedBom;
-  /** The quotes the costing chose, whole, as they stood when frozen (breaks, MOQ, pack, lead time, validity). */
-  quotes: Quote[];
-  /** The parts of the lines, as they stood (so the frozen BOM still reads after a part is edited or deleted). */
-  parts: Part[];
-  settings: FrozenSettings;
-}
+export { SNAPSHOT_FORMAT, SNAPSHOT_VERSION } from './schema.ts';
+export type { FrozenSettings, FrozenSnapshot } from './schema.ts';
 
 function frozenSettings(s: Settings): FrozenSettings {
   return {
@@ -149,99 +134,15 @@ export function unfreezeRun(run: Run): Run {
   return rest;
 }
 
-type Check = (v: unknown) => boolean;
-const isNum: Check = (v) => typeof v === 'number' && Number.isFinite(v);
-const isStr: Check = (v) => typeof v === 'string';
-const isBool: Check = (v) => typeof v === 'boolean';
-const isObj = (v: unknown): v is Record<string, unknown> => typeof v === 'object' && v !== null && !Array.isArray(v);
-
-const LINE_FIELDS: [keyof CostedLine, Check][] = [
-  ['lineId', isStr],
-  ['designators', isStr],
-  ['partId', isStr],
-  ['mpn', isStr],
-  ['description', isStr],
-  ['qtyPerUnit', isNum],
-  ['need', isNum],
-  ['buy', isNum],
-  ['supplierId', isStr],
-  ['supplier', isStr],
-  ['supplierCode', isStr],
-  ['quoteId', isStr],
-  ['moq', isNum],
-  ['pack', isNum],
-  ['leadDays', isNum],
-  ['breakQty', isNum],
-  ['unitPrice', isNum],
-  ['currency', isStr],
-  ['extended', isNum],
-  ['extendedBase', isNum],
-  ['leftover', isNum],
-  ['leftoverValue', isNum],
-];
-
-const BOM_FIELDS: [keyof CostedBom, Check][] = [
-  ['variantId', isStr],
-  ['variant', isStr],
-  ['run', isNum],
-  ['currency', isStr],
-  ['date', isStr],
-  ['placements', isNum],
-  ['material', isNum],
-  ['labour', isNum],
-  ['test', isNum],
-  ['overhead', isNum],
-  ['unitCost', isNum],
-  ['price', isNum],
-  ['materialRun', isNum],
-  ['runTotal', isNum],
-  ['leftoverValue', isNum],
-  ['complete', isBool],
-];
-
-const SETTINGS_FIELDS: [keyof FrozenSettings, Check][] = [
-  ['baseCurrency', isStr],
-  ['labourRatePerHour', isNum],
-  ['labourMinutesPerUnit', isNum],
-  ['labourMinutesPerPlacement', isNum],
-  ['testCostPerUnit', isNum],
-  ['overheadPct', isNum],
-  ['marginPct', isNum],
-];
-
 /**
  * Reads a frozen run's snapshot (it comes from storage or a Book file, so it is checked, not trusted). A snapshot
  * this version cannot read gives an error naming the first bad field; nothing is guessed.
  */
 export function readSnapshot(frozen: FrozenRun): Result<FrozenSnapshot> {
-  const bad = (where: string): Result<FrozenSnapshot> => ({ ok: false, error: `the frozen costing cannot be read: ${where}` });
-  const s = frozen.snapshot;
-  if (!isObj(s)) return bad('it is not an object');
-  if (s['format'] !== SNAPSHOT_FORMAT) return bad(`format is ${JSON.stringify(s['format'])}, not ${SNAPSHOT_FORMAT}`);
-  if (s['version'] !== SNAPSHOT_VERSION) return bad(`version ${JSON.stringify(s['version'])} is not one this Rungbook reads (${SNAPSHOT_VERSION})`);
-  const bom = s['bom'];
-  if (!isObj(bom)) return bad('bom is missing');
-  for (const [k, ok] of BOM_FIELDS) if (!ok(bom[k])) return bad(`bom.${k} is missing or of the wrong type`);
-  if (!Number.isInteger(bom['run']) || (bom['run'] as number) < 1) return bad('bom.run is not a whole number ≥ 1');
-  const lines = bom['lines'];
-  if (!Array.isArray(lines)) return bad('bom.lines is not a list');
-  for (let i = 0; i < lines.length; i++) {
-    const l: unknown = lines[i];
-    if (!isObj(l)) return bad(`bom.lines[${i}] is not an object`);
-    for (const [k, ok] of LINE_FIELDS) if (!ok(l[k])) return bad(`bom.lines[${i}].${k} is missing or of the wrong type`);
-    if (!Array.isArray(l['lineIds']) || !l['lineIds'].every(isStr)) return bad(`bom.lines[${i}].lineIds is not a list of ids`);
-    if (!(l['pack'] as number >= 1)) return bad(`bom.lines[${i}].pack is below 1`);
-  }
-  if (!Array.isArray(bom['problems'])) return bad('bom.problems is not a list');
-  const quotes = s['quotes'];
-  if (!Array.isArray(quotes) || !quotes.every((q) => isObj(q) && isStr(q['id']) && Array.isArray(q['breaks']))) return bad('quotes is not a list of quotes');
-  const parts = s['parts'];
-  if (!Array.isArray(parts) || !parts.every((p) => isObj(p) && isStr(p['id']) && isStr(p['mpn']))) return bad('parts is not a list of parts');
-  const settings = s['settings'];
-  if (!isObj(settings)) return bad('settings is missing');
-  for (const [k, ok] of SETTINGS_FIELDS) if (!ok(settings[k])) return bad(`settings.${k} is missing or of the wrong type`);
-  if (!isObj(settings['rates'])) return bad('settings.rates is missing');
-  return { ok: true, value: s as unknown as FrozenSnapshot };
+  const r = checkWith(FrozenSnapshotSchema, frozen.snapshot);
+  if (r.ok) return { ok: true, value: r.value };
+  const p = r.problems[0]!;
+  return { ok: false, error: `the frozen costing cannot be read: ${p.path ? `${p.path} ` : ''}${p.message}` };
 }
 
 // ---------------------------------------------------------------------------------------------------------------

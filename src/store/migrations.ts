@@ -3,6 +3,7 @@
 import type { IDBPDatabase, IDBPTransaction } from 'idb';
 import { defaultSettings, mpnKey, PART_KINDS } from '../domain/book.ts';
 import type { Part, PartKind, PriceBreak, Quote, Settings, Supplier, Variant } from '../domain/book.ts';
+import { isPartValueUnit } from '../domain/schema.ts';
 import { bucketQuotes } from './schema.ts';
 import type { MetaRecord, StoredPart } from './schema.ts';
 
@@ -112,7 +113,7 @@ function convertPart(p: Record<string, unknown>): StoredPart {
     package: str(p.package),
   };
   if (typeof p.value === 'number' && Number.isFinite(p.value)) part.value = p.value;
-  if (typeof p.unit === 'string') part.unit = p.unit;
+  if (typeof p.unit === 'string' && isPartValueUnit(p.unit)) part.unit = p.unit;
   if (typeof p.notes === 'string') part.notes = p.notes;
   return { ...part, mpnKey: mpnKey(part.mpn) };
 }

@@ -2,7 +2,8 @@
 // messages keyed by field (shown beside that field). No DOM here, so the rules are tested in Node.
 import type { Book, ParamValue, Part, PartKind, Settings, Supplier, Variant } from '../domain/book.ts';
 import { PART_KINDS, mpnKey } from '../domain/book.ts';
-import { MAX_STEPS, PART_RATINGS, VARIANT_PARAMS } from '../domain/params.ts';
+import { PART_VALUE_UNITS, isPartValueUnit } from '../domain/schema.ts';
+import { MAX_STEPS, PART_RATINGS, VARIANT_PARAMS, ownValue, paramNameProblem } from '../domain/params.ts';
 import { formatValue, parseValue } from '../domain/units.ts';
 
 /** Field name → message for that field. Empty when the draft is good. */
@@ -42,7 +43,6 @@ export function readNumber(text: string, unit: string): { ok: true; value: numbe
 }
 
 const CODE_RE = /^[A-Za-z0-9][A-Za-z0-9._/-]*$/;
-const PARAM_NAME_RE = /^[a-z][a-z0-9_]*$/;
 const CURRENCY_RE = /^[A-Z]{3}$/;
 
 function required(problems: FieldProblems, field: string, text: string, label: string): string {
@@ -98,12 +98,13 @@ export function validatePart(draft: PartDraft, book: Book, editing?: Part, newId
   if (!(PART_KINDS as readonly string[]).includes(kind)) problems.kind = 'Choose a kind';
 
   let value: number | undefined;
-  let unit: string | undefined;
+  let unit: Part['unit'];
   if (draft.value.trim() !== '') {
     const expected = KIND_VALUE_UNITS[kind as PartKind];
     const r = parseValue(draft.value, expected);
     if (!r.ok) problems.value = r.error;
     else if (r.unit === '') problems.value = 'Give the unit too, for example 12 V or 2 A';
+    else if (!isPartValueUnit(r.unit)) problems.value = `A part's value is in one of ${PART_VALUE_UNITS.join(', ')}, not ${r.unit}`;
     else {
       value = r.value;
       unit = r.unit;
@@ -266,7 +267,7 @@ export function paramText(name: string, value: ParamValue | undefined): string {
 
 export function variantDraft(book: Book, variant?: Variant): VariantDraft {
   const params: Record<string, string> = {};
-  for (const name of paramNames(book)) params[name] = paramText(name, variant?.params[name]);
+  for (const name of paramNames(book)) params[name] = paramText(name, ownValue(variant?.params, name));
   return {
     code: variant?.code ?? '',
     name: variant?.name ?? '',
@@ -306,7 +307,7 @@ export function validateVariant(draft: VariantDraft, book: Book, editing?: Varia
   for (const [pname, text] of Object.entries(draft.params)) {
     const t = text.trim();
     if (t === '') continue;
-    const info = paramInfo(pname, editing?.params[pname]);
+    const info = paramInfo(pname, ownValue(editing?.params, pname));
     if (info.kind === 'text') {
       params[pname] = t;
       continue;
@@ -337,9 +338,10 @@ export function validateVariant(draft: VariantDraft, book: Book, editing?: Varia
   const newName = draft.newParamName.trim();
   const newText = draft.newParamValue.trim();
   if (newName !== '' || newText !== '') {
-    if (!PARAM_NAME_RE.test(newName)) {
-      problems.newParamName = 'Lower-case letters, digits and _; starts with a letter (formulas use it by this name)';
-    } else if (newName in draft.params) {
+    const nameProblem = paramNameProblem(newName);
+    if (nameProblem !== undefined) {
+      problems.newParamName = nameProblem;
+    } else if (Object.hasOwn(draft.params, newName)) {
       problems.newParamName = `${newName} is already a parameter; fill in its own field`;
     } else if (newText === '') {
       problems.newParamValue = 'Give a value for the new parameter';

@@ -3,7 +3,7 @@
 import { describe, expect, it } from 'vitest';
 import { BOOK_VERSION, COLLECTIONS } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { bookFileName, bookFileSizeProblem, MAX_REPORTED_PROBLEMS, parseBookFile, serializeBook } from '../../src/io/book-file.ts';
+import { bookFileName, bookFileSizeProblem, MAX_BOOK_FILE_BYTES, MAX_REPORTED_PROBLEMS, parseBookFile, serializeBook } from '../../src/io/book-file.ts';
 import type { BookFileProblem, BookFileResult } from '../../src/io/book-file.ts';
 import { sampleBook } from '../fixtures/sample-book.ts';
 
@@ -43,7 +43,10 @@ describe('writing and reading back', () => {
 
   it('writes the marker, version and time first, keys in a stable order, with two-space indent', () => {
     const text = serializeBook(sampleBook(), { savedAt: SAVED });
-    expect(text.startsWith(`{\n  "format": "rungbook-book",\n  "version": ${BOOK_VERSION},\n  "savedAt": "${SAVED}",\n  "settings": {\n    "id": "settings",\n    "rev": 3,`)).toBe(true);
+    expect(text.startsWith(`{\n  "format": "rungbook-book",\n  "version": ${BOOK_VERSION},\n  "savedAt": "${SAVED}",\n  "settings": {"id":"settings","rev":3,`)).toBe(true);
+    // one record per line, price breaks as [quantity, price] pairs
+    expect(text).toContain('\n  "parts": [\n    {"id":"part_r47k","rev":2,');
+    expect(text).toContain('"breaks":[[1,0.05],[100,0.012],[5000,0.004]]');
     // the same Book with its object keys inserted in another order writes the same text
     const shuffled = sampleBook();
     shuffled.parts = shuffled.parts.map((p) => Object.fromEntries(Object.entries(p).reverse()) as typeof p);
@@ -232,7 +235,7 @@ describe('malformed files are refused with the expected message', () => {
   });
 
   it('a number too large to hold', () => {
-    const text = serializeBook(sampleBook(), { savedAt: SAVED }).replace('"quantity": 500', '"quantity": 1e400');
+    const text = serializeBook(sampleBook(), { savedAt: SAVED }).replace('"quantity":500', '"quantity":1e400');
     expect(refused(text)).toEqual([{ path: 'runs[0].quantity', message: 'must be a finite number, not a number' }]);
   });
 
@@ -245,13 +248,13 @@ describe('malformed files are refused with the expected message', () => {
     expect(problems).toContainEqual({ path: 'checks', message: 'must be a list, not an object' });
   });
 
-  it('50 MB of junk, by its size before any parsing', () => {
-    const junk = 'x'.repeat(50 * 1024 * 1024);
+  it('300 MB of junk, by its size before any parsing', () => {
+    const junk = 'x'.repeat(300 * 1024 * 1024);
     expect(refused(junk)).toEqual([
-      { path: '', message: 'the file is 50.0 MB; a Book file may be at most 20 MB, so this is not a Book file' },
+      { path: '', message: 'the file is 300.0 MB (314,572,800 bytes); a Book file may be at most 256 MB, so this is not a Book file' },
     ]);
-    expect(bookFileSizeProblem(50 * 1024 * 1024)?.message).toMatch(/at most 20 MB/);
-    expect(bookFileSizeProblem(1024)).toBeUndefined();
+    expect(bookFileSizeProblem(MAX_BOOK_FILE_BYTES + 1)?.message).toMatch(/at most 256 MB/);
+    expect(bookFileSizeProblem(MAX_BOOK_FILE_BYTES)).toBeUndefined();
   });
 
   it('lists the first problems and counts the rest', () => {

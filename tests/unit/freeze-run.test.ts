@@ -118,16 +118,16 @@ describe('freezing', () => {
     const snap = frozen.snapshot as Record<string, unknown>;
     const bom = snap['bom'] as Record<string, unknown>;
     const cases: [unknown, RegExp][] = [
-      ['text', /not an object/],
-      [{ ...snap, format: 'other' }, /format is "other"/],
-      [{ ...snap, version: 9 }, /version 9/],
+      ['text', /must be an object, not text/],
+      [{ ...snap, format: 'other' }, /format must be "rungbook-frozen-costing", not "other"/],
+      [{ ...snap, version: 9 }, /version 9 is not a version/],
       [{ ...snap, bom: { ...bom, runTotal: 'lots' } }, /bom\.runTotal/],
       [{ ...snap, bom: { ...bom, lines: [{ ...(bom['lines'] as object[])[0], need: null }] } }, /bom\.lines\[0\]\.need/],
-      [{ ...snap, parts: 'none' }, /parts is not a list/],
+      [{ ...snap, parts: 'none' }, /parts must be a list, not text/],
       [{ ...snap, settings: { ...(snap['settings'] as object), marginPct: '30' } }, /settings\.marginPct/],
     ];
     for (const [snapshot, message] of cases) {
-      expect(readSnapshot({ at: frozen.at, snapshot })).toMatchObject({ ok: false, error: expect.stringMatching(message) });
+      expect(readSnapshot({ at: frozen.at, snapshot: snapshot as never })).toMatchObject({ ok: false, error: expect.stringMatching(message) });
     }
   });
 });
