@@ -1,6 +1,6 @@
 // Costing functions of the engine: whole-row kernels that let the costing workbook compute a unit cost with a few
 // cells per variant. Each calls the same pure rule as src/domain/costing.ts, so engine and TypeScript agree exactly.
-import { CellError, ErrorType, FunctionArgumentType, FunctionPlugin, HyperFormula } from 'hyperformula';
+import { CellError, ErrorType, FunctionArgumentType, FunctionPlugin } from 'hyperformula';
 import type { SimpleRangeValue } from 'hyperformula';
 import {
   baseCents,
@@ -205,20 +205,3 @@ export class CostingPlugin extends FunctionPlugin {
   }
 }
 
-let registered = false;
-
-const translated = new Set<string>();
-
-/**
- * Registers the costing functions, with their names in every language registered so far (a function without a name
- * in the engine's language evaluates to a name error). Cheap to call again; it only acts for new languages.
- */
-export function registerCostingFunctions(): void {
-  const languages = HyperFormula.getRegisteredLanguagesCodes().filter((code) => !translated.has(code));
-  if (registered && languages.length === 0) return;
-  const names: Record<string, string> = {};
-  for (const n of Object.keys(CostingPlugin.implementedFunctions)) names[n] = n;
-  HyperFormula.registerFunctionPlugin(CostingPlugin, Object.fromEntries(languages.map((code) => [code, names])));
-  for (const code of languages) translated.add(code);
-  registered = true;
-}

@@ -19,8 +19,7 @@
 // them. Validity (superseded, expired, bad breaks) is decided at open: edit those fields and reopen. The Demand key
 // uses the need computed at open, so editing quantities, attrition or rules also means reopening; prices, rates,
 // cost settings and overrides are live. The price is derived on reading: unit cost / (1 − margin).
-import { HyperFormula } from 'hyperformula';
-import type { CellValue, ExportedChange, SimpleCellAddress } from 'hyperformula';
+import type { CellValue, ExportedChange, HyperFormula, SimpleCellAddress } from 'hyperformula';
 import type { Book, CurrencyCode, Quote } from '../domain/book.ts';
 import {
   costVariantRun,
@@ -38,8 +37,7 @@ import {
   variantDemands,
 } from '../domain/costing.ts';
 import type { CostedBom, CostingContext, ResolvedLine, Result } from '../domain/costing.ts';
-import { registerCostingFunctions } from './costing-functions.ts';
-import { ENGINE_DEFAULTS, registerRungbookFunctions } from './create.ts';
+import { createEngine } from './create.ts';
 import type { FamilyResolution } from './family.ts';
 import { columnLetters } from './cells.ts';
 
@@ -162,9 +160,6 @@ export class CostingWorkbook {
     }
     if (new Set(runSizes).size !== runSizes.length) return { ok: false, error: 'run sizes are listed twice' };
     const res = resolution ?? fixedResolution(book);
-    // Rungbook's own functions too, so a user's override formula may use any of them.
-    registerRungbookFunctions();
-    registerCostingFunctions();
 
     // Rates: every currency the settings or a quote name.
     const currencies = new Set<string>([book.settings.baseCurrency, ...Object.keys(book.settings.rates), ...book.quotes.map((q) => q.currency)]);
@@ -333,7 +328,10 @@ export class CostingWorkbook {
       variantRows.push(row);
     });
 
-    const hf = HyperFormula.buildFromSheets(
+    const hf = createEngine(
+      // Exact results (our functions round money themselves), no undo history (the app keeps its own), and room for
+      // a large family's Demand sheet.
+      { smartRounding: false, undoLimit: 0, useArrayArithmetic: false, maxRows: 1_000_000 },
       {
         [SHEETS.rates]: rateRows,
         [SHEETS.settings]: settingsRows,
@@ -342,9 +340,6 @@ export class CostingWorkbook {
         [SHEETS.blocks]: blockRows.length ? blockRows : [[]],
         [SHEETS.variants]: variantRows.length ? variantRows : [[]],
       },
-      // Exact results (our functions round money themselves), no undo history (the app keeps its own), and room for
-      // a large family's Demand sheet.
-      { ...ENGINE_DEFAULTS, smartRounding: false, undoLimit: 0, useArrayArithmetic: false, maxRows: 1_000_000 },
     );
     const wb = new CostingWorkbook(hf, book, res, ctx.date, [...runSizes], quotes);
     for (const [k, v] of variantRow) wb.variantRow.set(k, v);

@@ -1,22 +1,27 @@
 // Builds formula engines with Rungbook's functions. Every engine in the app, the CLI and the tests comes from here,
 // so no engine can exist before our function names are registered.
 import { HyperFormula } from 'hyperformula';
-import type { ConfigParams } from 'hyperformula';
+import type { ConfigParams, Sheets } from 'hyperformula';
+import { CostingPlugin } from './costing-functions.ts';
 import { ENGINE_OVERRIDES, FUNCTION_PLUGINS, boundTextOperator } from './functions/index.ts';
+
+/** Every plugin of ours with function names: the formula functions by area, then the costing workbook's kernels. */
+const PLUGINS = [...FUNCTION_PLUGINS.map(({ plugin }) => plugin), CostingPlugin];
 
 /** Languages whose function names we have added, so later calls only extend languages registered since. */
 const translated = new Set<string>();
 let registered = false;
 
 /**
- * Registers every Rungbook function plugin with HyperFormula, with its English names in every registered language
+ * The one registration step: every Rungbook function plugin (the formula functions and the costing kernels, which a
+ * user's override formula in the costing workbook may call alongside them) with its English names in every registered language
  * (a function without a name in the engine's language silently evaluates to #NAME?). Safe to call any number of
  * times; call it again after registering another language to give that language our names too.
  */
 export function registerRungbookFunctions(): void {
   const languages = HyperFormula.getRegisteredLanguagesCodes().filter((code) => !translated.has(code));
   if (registered && languages.length === 0) return;
-  for (const { plugin } of FUNCTION_PLUGINS) {
+  for (const plugin of PLUGINS) {
     const names: Record<string, string> = {};
     for (const name of Object.keys(plugin.implementedFunctions)) names[name] = name;
     // Registering a plugin again replaces its own entries, so this also adds names for newly registered languages.
@@ -33,14 +38,18 @@ export function registerRungbookFunctions(): void {
  * point as decimal, 14-significant-digit result rounding that hides float noise such as 100 × 1.1) except:
  * - licenseKey 'gpl-v3': Rungbook is GPL-3.0 software, which is the free licence the engine offers.
  */
-export const ENGINE_DEFAULTS: Partial<ConfigParams> = {
+const ENGINE_DEFAULTS: Partial<ConfigParams> = {
   licenseKey: 'gpl-v3',
 };
 
-/** A new empty engine with Rungbook's functions; `config` overrides the defaults above. */
-export function createEngine(config: Partial<ConfigParams> = {}): HyperFormula {
+/**
+ * A new engine with Rungbook's functions and a bounded text operator, empty or holding `sheets` (built in one pass,
+ * far quicker than adding them to an empty engine); `config` overrides the defaults above.
+ */
+export function createEngine(config: Partial<ConfigParams> = {}, sheets?: Sheets): HyperFormula {
   registerRungbookFunctions();
-  const hf = HyperFormula.buildEmpty({ ...ENGINE_DEFAULTS, ...config });
+  const settings = { ...ENGINE_DEFAULTS, ...config };
+  const hf = sheets === undefined ? HyperFormula.buildEmpty(settings) : HyperFormula.buildFromSheets(sheets, settings);
   boundTextOperator(hf);
   return hf;
 }

@@ -11,8 +11,7 @@
 // copied down instead of parsed again per row; results are kept per row and an edit recomputes its row only.
 // A name a variant lacks reads as #N/A; when a result is an error and its formula used such a name, the result says
 // "unknown name x" instead of the engine's error.
-import { HyperFormula } from 'hyperformula';
-import type { CellValue, RawCellContent } from 'hyperformula';
+import type { CellValue, HyperFormula, RawCellContent } from 'hyperformula';
 import type { Book, BuildLine, Check, CheckRule, ParamValue, Part, Variant } from '../domain/book.ts';
 import type { ResolvedLine } from '../domain/costing.ts';
 import { mpnKey } from '../domain/book.ts';
@@ -20,8 +19,7 @@ import { PART_RATINGS } from '../domain/params.ts';
 import { CHECK_STATUS, judge } from '../domain/check-status.ts';
 import type { CheckStatus, CheckValue, RuleLimits } from '../domain/check-status.ts';
 import { significant } from '../domain/format.ts';
-import { ENGINE_DEFAULTS, registerRungbookFunctions } from './create.ts';
-import { boundTextOperator } from './functions/text.ts';
+import { createEngine } from './create.ts';
 import { columnLetters } from './cells.ts';
 import { guardFormula } from './formula-guard.ts';
 import { TOKEN_KIND, constantNumber, formulaNames, nameKey, rewriteFormula, soleName, tokenizeFormula, formulaBody } from './formula-names.ts';
@@ -495,10 +493,8 @@ export class FamilyWorkbook {
       m.rowEntry = new Int32Array(this.book.variants.length);
       if (!m.roles) own.forEach((params, r) => (m.rowEntry[r] = this.memoEntry(m, params, memoRows)));
     }
-    registerRungbookFunctions();
-    const hf = HyperFormula.buildFromSheets({ [SHEET]: rows, [MEMO_SHEET]: memoRows }, ENGINE_DEFAULTS);
-    // Checks read each other by name, so "&" could double text from check to check: bound it before they are added.
-    boundTextOperator(hf);
+    // Checks read each other by name, so "&" could double text from check to check: the engine comes with it bounded.
+    const hf = createEngine({}, { [SHEET]: rows, [MEMO_SHEET]: memoRows });
     this.hf = hf;
     this.sheet = hf.getSheetId(SHEET)!;
     this.memoSheet = hf.getSheetId(MEMO_SHEET)!;

@@ -3,12 +3,12 @@
 // Per variant and line: need; per quote: buy, unit price, base-currency cents; the line's cheapest. Per variant:
 // labour, overhead, material, unit cost, price. It costs ONE run size and does not buy up to higher breaks, so it
 // does less work than the costing workbook (which costs every run size with buy-up): open_vs_naive is conservative.
-import { HyperFormula } from 'hyperformula';
+import type { HyperFormula } from 'hyperformula';
 import type { Book } from '../../src/domain/book.ts';
 import { attritionFor, placementsPerUnit, prepareCosting, quoteProblem } from '../../src/domain/costing.ts';
 import type { ResolvedLine } from '../../src/domain/costing.ts';
 import { columnLetters } from '../../src/engine/cells.ts';
-import { ENGINE_DEFAULTS } from '../../src/engine/create.ts';
+import { createEngine } from '../../src/engine/create.ts';
 
 export function buildNaive(
   book: Book,
@@ -76,10 +76,7 @@ export function buildNaive(
       `=ROUND(D${vr}/(1-Settings!$F$1/100),4)`,
     ]);
   }
-  const hf = HyperFormula.buildFromSheets(
-    { Rates: rates, Settings: settings, Quotes: quoteRows, Lines: lineRows, Variants: variantRows },
-    { ...ENGINE_DEFAULTS, undoLimit: 0, maxRows: 1_000_000 },
-  );
+  const hf = createEngine({ undoLimit: 0, maxRows: 1_000_000 }, { Rates: rates, Settings: settings, Quotes: quoteRows, Lines: lineRows, Variants: variantRows });
   const sheet = hf.getSheetId('Variants')!;
   return { hf, cells: variantRows.map((_, row) => ({ sheet, row, col: 3 })) };
 }

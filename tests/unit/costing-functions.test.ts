@@ -1,19 +1,18 @@
 // Every costing function resolves by name in an engine and gives the worked costing values (operations-management and cost-accounting texts, from memory).
 import { describe, expect, it } from 'vitest';
-import { HyperFormula } from 'hyperformula';
-import { COSTING_FUNCTION_DOCS, CostingPlugin, registerCostingFunctions } from '../../src/engine/costing-functions.ts';
-import { ENGINE_DEFAULTS } from '../../src/engine/create.ts';
+import type { HyperFormula } from 'hyperformula';
+import { COSTING_FUNCTION_DOCS, CostingPlugin } from '../../src/engine/costing-functions.ts';
+import { createEngine } from '../../src/engine/create.ts';
 
 function engine(): HyperFormula {
-  registerCostingFunctions();
-  return HyperFormula.buildFromSheets(
+  return createEngine(
+    { smartRounding: false },
     {
       // The all-units worked example as one quote row: rate 1, MOQ 1, pack 10, then break qty/price pairs.
       Quotes: [[1, 1, 10, 1, 0.3, 100, 0.2, 500, 0.15, 1000, 0.12, 2500, 0.09]],
       // Standard-cost example settings: 15.00/h, 7.2 min (0.12 h) per unit, no placement minutes, no test, 100 %, 20 %.
       Settings: [[15, 7.2, 0, 0, 100, 20]],
     },
-    { ...ENGINE_DEFAULTS, smartRounding: false },
   );
 }
 
