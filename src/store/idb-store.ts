@@ -9,7 +9,8 @@ import { MIGRATIONS, runMigrations } from './migrations.ts';
 import type { Migration, UpgradeDb, UpgradeTx } from './migrations.ts';
 import { bucketQuotes, idbVersionOf, quoteBucketKey, schemaVersionOf, unbucketQuotes } from './schema.ts';
 import type { QuoteBucket, RungbookDB, StoredPart } from './schema.ts';
-import { RevisionConflict, StorageFull, StoreWriteFailed } from './types.ts';
+import { checkBook } from '../domain/schema.ts';
+import { RevisionConflict, StorageFull, StoredBookInvalid, StoreWriteFailed } from './types.ts';
 import type { BookStore } from './types.ts';
 
 export const DEFAULT_BOOK_DB = 'rungbook';
@@ -166,7 +167,11 @@ export class IdbBookStore implements BookStore {
       parts: parts.map(fromStoredPart),
     };
     for (const [c, list] of rest) (book as unknown as Record<string, unknown>)[c] = c === 'quotes' ? unbucketQuotes(list as QuoteBucket[]) : list;
-    return book;
+    // What comes out of storage is checked like a file: another tab, an older build or a damaged profile may have
+    // written it. A problem is reported with its place, never guessed around.
+    const checked = checkBook(book);
+    if (!checked.ok) throw new StoredBookInvalid(checked.problems);
+    return checked.value;
   }
 
   async apply(change: BookChange): Promise<void> {

@@ -70,7 +70,7 @@ export interface RungbookDB extends DBSchema {
   meta: { key: 'schema'; value: MetaRecord };
 }
 
-/** Schema version of the stored Book data (the same number as the Book file version). */
+/** Schema version of the stored Book data (its own numbered steps; the Book file format has its own version). */
 export const SCHEMA_VERSION = 1 as const;
 
 /**

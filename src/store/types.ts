@@ -1,6 +1,7 @@
 // The storage interface the rest of the app sees; IndexedDB details stay behind it.
 import type { Book, CollectionName } from '../domain/book.ts';
 import type { BookChange } from '../domain/book-ops.ts';
+import type { SchemaProblem } from '../domain/schema.ts';
 
 /** Records to write and ids to delete (defined beside its in-memory twin `applyChange` in domain/book-ops.ts). */
 export type { BookChange } from '../domain/book-ops.ts';
@@ -37,6 +38,16 @@ export class StoreWriteFailed extends Error {
   constructor(detail: string, cause?: unknown) {
     super(`The change could not be saved and nothing of it was written: ${detail}`, { cause });
     this.name = 'StoreWriteFailed';
+  }
+}
+
+/** Rejection of a load whose stored records do not fit the Book schema; each problem names its place. */
+export class StoredBookInvalid extends Error {
+  constructor(readonly problems: readonly SchemaProblem[]) {
+    const shown = problems.slice(0, 5).map((p) => (p.path ? `${p.path}: ${p.message}` : p.message));
+    const more = problems.length > 5 ? ` (and ${problems.length - 5} more)` : '';
+    super(`The Book kept in this browser does not read as a Book, so it was not opened: ${shown.join('; ')}${more}`);
+    this.name = 'StoredBookInvalid';
   }
 }
 
