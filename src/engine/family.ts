@@ -941,37 +941,3 @@ export function evaluateChecks(book: Book, checks: readonly Check[] = book.check
     wb.close();
   }
 }
-
-/** A live check session for the Checks page: the engine stays open and every edit re-evaluates at once. */
-export class CheckSession {
-  private wb: FamilyWorkbook;
-
-  constructor(book: Book, checks: readonly Check[] = book.checks) {
-    this.wb = FamilyWorkbook.open(book, checks);
-  }
-
-  setParam(variantId: string, name: string, value: ParamValue): EditResult {
-    return this.wb.setParam(variantId, name, value);
-  }
-
-  setCheckFormula(checkId: string, formula: string): EditResult {
-    return this.wb.setCheckFormula(checkId, formula);
-  }
-
-  results(): CheckResult[] {
-    return this.wb.results();
-  }
-
-  resolution(): FamilyResolution {
-    return this.wb.resolve();
-  }
-
-  /** The Book with the session's edits, to save. */
-  book(): Book {
-    return this.wb.currentBook();
-  }
-
-  close(): void {
-    this.wb.close();
-  }
-}

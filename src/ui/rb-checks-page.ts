@@ -9,7 +9,7 @@ import type { Book, Check, ParamValue, Variant } from '../domain/book.ts';
 import { CHECK_STATUS, STATUS_SYMBOL, worstOf } from '../domain/check-status.ts';
 import type { CheckStatus } from '../domain/check-status.ts';
 import { formatValue } from '../domain/units.ts';
-import { CheckSession } from '../engine/family.ts';
+import { FamilyWorkbook } from '../engine/family.ts';
 import type { CheckResult } from '../engine/family.ts';
 import { formulaNames, nameKey } from '../engine/formula-names.ts';
 import { formatRule } from '../engine/sheets.ts';
@@ -282,7 +282,7 @@ export class RbChecksPage extends LitElement {
   ];
 
   private readonly books = new BookController(this);
-  private session: CheckSession | undefined;
+  private session: FamilyWorkbook | undefined;
   /** The Book the session was built from (or adopted after our own save). */
   private sessionBook: Book | undefined;
   /** Saves of ours in flight: the Book they bring back is adopted without rebuilding the session. */
@@ -323,7 +323,7 @@ export class RbChecksPage extends LitElement {
   /** A fresh session for the Book (opened elsewhere, or changed by another page or tab), with kept formula drafts. */
   private rebuild(book: Book): void {
     this.session?.close();
-    this.session = new CheckSession(book);
+    this.session = FamilyWorkbook.open(book);
     this.sessionBook = book;
     this.names = checkFormulaNames(book);
     for (const [checkId, text] of this.formulaDrafts) {

@@ -5,7 +5,7 @@
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { seededRandom } from '../../src/domain/refamily.ts';
 import type { Book, Variant } from '../../src/domain/book.ts';
-import { CheckSession } from '../../src/engine/family.ts';
+import { FamilyWorkbook } from '../../src/engine/family.ts';
 import type { CheckResult } from '../../src/engine/family.ts';
 import { loadBuiltInChecks } from '../../src/cli/sheets-fs.ts';
 import type { BenchOptions, BenchSection, Figures } from './harness.ts';
@@ -36,11 +36,11 @@ function statusCounts(results: readonly CheckResult[]): string {
 }
 
 /** Opens a session and reads every result: what the Checks page waits for before it can draw. */
-function openAndRead(book: Book): { session: CheckSession; results: CheckResult[]; ms: number } {
-  let session: CheckSession | undefined;
+function openAndRead(book: Book): { session: FamilyWorkbook; results: CheckResult[]; ms: number } {
+  let session: FamilyWorkbook | undefined;
   let results: CheckResult[] = [];
   const ms = timeMs(() => {
-    session = new CheckSession(book);
+    session = FamilyWorkbook.open(book);
     results = session.results();
   });
   return { session: session!, results, ms };

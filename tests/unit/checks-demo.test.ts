@@ -2,7 +2,7 @@
 // calculations from the sources each check note names; and raising a load past the switch's rating turns the current checks to fail.
 import { describe, expect, it } from 'vitest';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { CheckSession, evaluateChecks } from '../../src/engine/family.ts';
+import { FamilyWorkbook, evaluateChecks } from '../../src/engine/family.ts';
 import type { CheckResult } from '../../src/engine/family.ts';
 import { loadBuiltInChecks } from '../../src/cli/sheets-fs.ts';
 
@@ -148,7 +148,7 @@ describe('built-in checks on the demo Book', () => {
 describe('raising a load past the switch rating', () => {
   it('turns the current checks of a MOSFET variant to fail, and back', () => {
     const book = demoBook();
-    const s = new CheckSession(book, CHECKS);
+    const s = FamilyWorkbook.open(book, CHECKS);
     try {
       const id = book.variants.find((v) => v.code === 'FR5-150-RT')!.id;
       const status = (name: string): string => s.results().find((r) => r.variantId === id && r.checkName === name)!.status;

@@ -3,7 +3,7 @@
 import { describe, expect, it } from 'vitest';
 import { emptyBook } from '../../src/domain/book.ts';
 import type { Book, Check } from '../../src/domain/book.ts';
-import { CheckSession, evaluateChecks } from '../../src/engine/family.ts';
+import { FamilyWorkbook, evaluateChecks } from '../../src/engine/family.ts';
 
 function check(name: string, formula: string): Check {
   return { id: `c_${name}`, rev: 1, name, title: name, formula, unit: 'V', rule: { kind: 'max', limit: '400' }, appliesWhen: '', note: 'test', builtIn: false, group: 'test' };
@@ -34,7 +34,7 @@ describe('formula guard in the family workbook', () => {
   });
 
   it('refuses a typed check formula nested 500 deep and keeps the old one', () => {
-    const session = new CheckSession(book([check('peak', 'MAINS_PEAK(mains_v, mains_tol)')]));
+    const session = FamilyWorkbook.open(book([check('peak', 'MAINS_PEAK(mains_v, mains_tol)')]));
     const edit = session.setCheckFormula('c_peak', DEEP);
     expect(edit.ok).toBe(false);
     if (!edit.ok) expect(edit.error).toMatch(/nest|deep/i);

@@ -7,7 +7,7 @@ import fc from 'fast-check';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { emptyBook } from '../../src/domain/book.ts';
 import type { Book, Check, Variant } from '../../src/domain/book.ts';
-import { CheckSession, evaluateChecks, resolveFamily } from '../../src/engine/family.ts';
+import { FamilyWorkbook, evaluateChecks, resolveFamily } from '../../src/engine/family.ts';
 import type { CheckResult } from '../../src/engine/family.ts';
 import { loadBuiltInChecks } from '../../src/cli/sheets-fs.ts';
 
@@ -119,7 +119,7 @@ describe('family workbook shortcuts', () => {
     };
     fc.assert(
       fc.property(fc.array(edit, { minLength: 1, maxLength: 6 }), (edits) => {
-        const s = new CheckSession(base);
+        const s = FamilyWorkbook.open(base);
         try {
           s.results();
           for (const e of edits) {
@@ -130,10 +130,10 @@ describe('family workbook shortcuts', () => {
               expect(s.setCheckFormula(`check_${e.check}`, formulas[e.check]![e.pick]!)).toEqual({ ok: true });
             }
           }
-          const fresh = new CheckSession(s.book());
+          const fresh = FamilyWorkbook.open(s.currentBook());
           try {
             expect(s.results()).toEqual(fresh.results());
-            expect(s.resolution()).toEqual(fresh.resolution());
+            expect(s.resolve()).toEqual(fresh.resolve());
           } finally {
             fresh.close();
           }

@@ -3,7 +3,7 @@
 import { describe, expect, it } from 'vitest';
 import { emptyBook } from '../../src/domain/book.ts';
 import type { Book, Check, Variant } from '../../src/domain/book.ts';
-import { CheckSession, evaluateChecks } from '../../src/engine/family.ts';
+import { FamilyWorkbook, evaluateChecks } from '../../src/engine/family.ts';
 import { constantNumber, formulaNames, rewriteFormula, splitAtWord, tokenizeFormula } from '../../src/engine/formula-names.ts';
 
 function check(name: string, formula: string, rule: Check['rule'], appliesWhen = ''): Check {
@@ -143,9 +143,9 @@ describe('checks read variant parameters by name', () => {
   });
 });
 
-describe('CheckSession', () => {
+describe('an open family workbook', () => {
   it('re-evaluates at once after a parameter edit, and refuses a bad value without changing anything', () => {
-    const s = new CheckSession(book([check('peak', 'MAINS_PEAK(mains_v, mains_tol)', { kind: 'max', limit: '400' })]));
+    const s = FamilyWorkbook.open(book([check('peak', 'MAINS_PEAK(mains_v, mains_tol)', { kind: 'max', limit: '400' })]));
     try {
       expect(s.results()[0]!.status).toBe('pass');
       expect(s.setParam('v1', 'mains_v', 260)).toEqual({ ok: true });
@@ -155,14 +155,14 @@ describe('CheckSession', () => {
       expect(s.setParam('nope', 'mains_v', 1).ok).toBe(false);
       expect(s.setParam('v1', 'peak', 1)).toMatchObject({ ok: false });
       expect(s.results()[0]!.value).toBeCloseTo(404.5, 1);
-      expect(s.book().variants[0]!.params.mains_v).toBe(260);
+      expect(s.currentBook().variants[0]!.params.mains_v).toBe(260);
     } finally {
       s.close();
     }
   });
 
   it('adds a parameter no variant had, which clears an unknown name', () => {
-    const s = new CheckSession(book([check('doubled', 'legs * 2', { kind: 'max', limit: '10' })]));
+    const s = FamilyWorkbook.open(book([check('doubled', 'legs * 2', { kind: 'max', limit: '10' })]));
     try {
       expect(s.results()[0]!.status).toBe('error');
       expect(s.setParam('v1', 'legs', 3)).toEqual({ ok: true });
@@ -176,7 +176,7 @@ describe('CheckSession', () => {
   });
 
   it('replaces a check formula and re-evaluates every variant; an unreadable formula changes nothing', () => {
-    const s = new CheckSession(book([check('peak', 'MAINS_PEAK(mains_v, mains_tol)', { kind: 'max', limit: '400' })]));
+    const s = FamilyWorkbook.open(book([check('peak', 'MAINS_PEAK(mains_v, mains_tol)', { kind: 'max', limit: '400' })]));
     try {
       expect(s.setCheckFormula('c_peak', '=MAINS_PEAK(mains_v)')).toEqual({ ok: true });
       // IEC 60038:2009, table 1: 230 V nominal, peak 325.3 V.
@@ -187,7 +187,7 @@ describe('CheckSession', () => {
       expect(s.results()[0]!.message).toMatch(/^unknown name volts/);
       expect(s.setCheckFormula('c_peak', 'mains_v')).toEqual({ ok: true });
       expect(s.results().map((r) => r.value)).toEqual([230, 120]);
-      expect(s.book().checks[0]!.formula).toBe('mains_v');
+      expect(s.currentBook().checks[0]!.formula).toBe('mains_v');
     } finally {
       s.close();
     }
