@@ -3,7 +3,7 @@
 // open of a 2,000-variant family. The family repeats the demo Book's variants with varied load and ambient, so
 // every check has real parameters to work on and the statuses are a mix of pass, margin, fail and n/a.
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { seededRandom } from '../../src/domain/refamily.ts';
+import { seededRandom } from '../fixtures/seeded-random.ts';
 import type { Book, Variant } from '../../src/domain/book.ts';
 import { FamilyWorkbook } from '../../src/engine/family.ts';
 import type { CheckResult } from '../../src/engine/family.ts';

@@ -1,6 +1,6 @@
 // The costing measurements of the benchmark, written once and run both in Node (tests/bench/costing.ts) and in
 // Chromium (tests/bench/page), so the two columns of the table time the same code on the same family.
-import { LARGE_FAMILY, REFERENCE_FAMILY, referenceFamily } from '../../src/domain/refamily.ts';
+import { LARGE_FAMILY, REFERENCE_FAMILY, referenceFamily } from '../fixtures/reference-family.ts';
 import { CostingWorkbook } from '../../src/engine/costing.ts';
 import type { Resolution } from '../../src/engine/costing.ts';
 import type { Book } from '../../src/domain/book.ts';

@@ -1,7 +1,7 @@
 // Price import figures in Node: the 50,000-row, 4-break sample file read, validated, matched, planned and applied to
 // an in-memory Book (importPrices, the CLI's path). The browser path (worker + IndexedDB) is in browser.ts.
 import { importPrices } from '../../src/io/price-import.ts';
-import { samplePriceFile } from '../../src/io/price-sample.ts';
+import { samplePriceFile } from '../fixtures/price-sample.ts';
 import type { BenchOptions, BenchSection, Figures } from './harness.ts';
 import { median, round } from './stats.ts';
 

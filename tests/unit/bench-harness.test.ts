@@ -6,7 +6,7 @@ import { join } from 'node:path';
 import { createHash } from 'node:crypto';
 import { gunzipSync, gzipSync } from 'node:zlib';
 import { afterEach, describe, expect, it } from 'vitest';
-import { samplePriceFile } from '../../src/io/price-sample.ts';
+import { samplePriceFile } from '../fixtures/price-sample.ts';
 import { TARGETS, targetsMet, withHeadlines } from '../bench/harness.ts';
 import { builtAssets, bundleFigures } from '../bench/bundle.ts';
 import { IMPORT_SAMPLE } from '../bench/import.ts';

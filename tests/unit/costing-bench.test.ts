@@ -1,7 +1,7 @@
 // The benchmark's fixtures are sound: the reference family generator is deterministic, and the plain TypeScript
 // baseline computes the same unit costs as the engine, so engine_vs_plain compares equal work.
 import { describe, expect, it } from 'vitest';
-import { REFERENCE_FAMILY, referenceFamily } from '../../src/domain/refamily.ts';
+import { REFERENCE_FAMILY, referenceFamily } from '../fixtures/reference-family.ts';
 import { CostingWorkbook } from '../../src/engine/costing.ts';
 import { planPlain, plainUnitCosts } from '../bench/plain.ts';
 import { engineUnitCosts } from '../bench/costing.ts';

@@ -1,6 +1,6 @@
 // The costing workbook gives the same numbers as the pure costing rules, to the cent, and live edits behave.
 import { describe, expect, it } from 'vitest';
-import { referenceFamily } from '../../src/domain/refamily.ts';
+import { referenceFamily } from '../fixtures/reference-family.ts';
 import { costVariantRun, prepareCosting } from '../../src/domain/costing.ts';
 import type { CostingContext, ResolvedLine } from '../../src/domain/costing.ts';
 import { CostingWorkbook, fixedResolution, resolutionFromFamily } from '../../src/engine/costing.ts';

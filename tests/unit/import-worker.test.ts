@@ -5,7 +5,7 @@ import { handlePriceWorkerRequest } from '../../src/io/price-worker.ts';
 import type { PriceWorkerMessage, PriceWorkerRequest } from '../../src/io/price-worker.ts';
 import { runPriceImportInWorker } from '../../src/io/price-worker-client.ts';
 import type { PriceWorkerLike } from '../../src/io/price-worker-client.ts';
-import { samplePriceFile } from '../../src/io/price-sample.ts';
+import { samplePriceFile } from '../fixtures/price-sample.ts';
 import { importPrices } from '../../src/io/price-import.ts';
 import { BASE_OPTIONS, bytesOf } from './import-helpers.ts';
 
