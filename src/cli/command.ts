@@ -1,14 +1,21 @@
 // Shape of one CLI command and the small argument parser they share.
 
 export interface CliIo {
+  /** A line (or lines) for people; a newline is added when missing. */
   out(text: string): void;
+  /** A message for people on stderr. */
   err(text: string): void;
+  /** Data written byte for byte to stdout (CSV); `out` when missing. */
+  data?(text: string): void;
 }
+
+/** What a command is given: `out` and `err` already terminal-safe (terminal.ts), `data` byte for byte. */
+export type CommandIo = Required<CliIo>;
 
 export interface CliCommand {
   name: string;
   help: string;
-  run(args: string[], io: CliIo): Promise<number>;
+  run(args: string[], io: CommandIo): Promise<number>;
 }
 
 export interface ParsedArgs {

@@ -1,5 +1,6 @@
 // The `rungbook` command line: dispatches to one module per command. Runs in Node with no DOM and no IndexedDB.
 import type { CliCommand, CliIo } from './command.ts';
+import { nodeIo, terminalIo } from './terminal.ts';
 
 /** Commands by name, loaded on demand so `rungbook eval` does not pay for the importer. */
 const COMMANDS: Record<string, () => Promise<{ command: CliCommand }>> = {
@@ -19,15 +20,9 @@ function usage(): string {
   return lines.join('\n');
 }
 
-export function nodeIo(): CliIo {
-  return {
-    out: (text) => process.stdout.write(text.endsWith('\n') ? text : text + '\n'),
-    err: (text) => process.stderr.write(text.endsWith('\n') ? text : text + '\n'),
-  };
-}
-
 /** Runs the CLI and returns the exit status. */
-export async function main(argv: string[], io: CliIo = nodeIo()): Promise<number> {
+export async function main(argv: string[], given: CliIo = nodeIo()): Promise<number> {
+  const io = terminalIo(given);
   const [name, ...rest] = argv;
   if (!name || name === '--help' || name === '-h' || name === 'help') {
     io.out(usage());

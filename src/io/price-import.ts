@@ -3,6 +3,7 @@
 import type { Book, ColumnMapping, Supplier } from '../domain/book.ts';
 import { applyChange } from '../domain/book-ops.ts';
 import { todayIso } from '../domain/dates.ts';
+import type { EncodingChoice } from './price-decode.ts';
 import type { DateOrder, Decimal, PriceProblem, PriceUnit } from './price-map.ts';
 import { planImport } from './price-plan.ts';
 import type { ImportPlan, UnmatchedDecision } from './price-plan.ts';
@@ -18,6 +19,8 @@ export interface ImportPricesOptions {
   decimal?: Decimal;
   dateOrder?: DateOrder;
   priceUnit?: PriceUnit;
+  /** How to read the file's bytes (default: find out). */
+  encoding?: EncodingChoice;
   validRowsOnly?: boolean;
   createParts?: boolean;
   decisions?: Record<string, UnmatchedDecision>;
@@ -113,6 +116,7 @@ export async function importPrices(book: Book, bytes: Uint8Array, options: Impor
   if (options.decimal) analyseOptions.decimal = options.decimal;
   if (options.dateOrder) analyseOptions.dateOrder = options.dateOrder;
   if (options.priceUnit) analyseOptions.priceUnit = options.priceUnit;
+  if (options.encoding) analyseOptions.encoding = options.encoding;
   const analysis = await analysePriceFile(bytes, analyseOptions, options.onRows);
   const plan = planImport(book, analysis, {
     supplierId: supplier.id,

@@ -4,7 +4,7 @@
 import type { ColumnMapping, PriceBreak } from '../domain/book.ts';
 import { mpnKey } from '../domain/book.ts';
 import { decodePriceBytes } from './price-decode.ts';
-import type { EncodingName } from './price-decode.ts';
+import type { EncodingChoice, EncodingName } from './price-decode.ts';
 import {
   dateOrderVote,
   decimalVote,
@@ -41,6 +41,8 @@ export interface PriceOffer {
 }
 
 export interface AnalyseOptions {
+  /** How to read the bytes (default: find out). */
+  encoding?: EncodingChoice;
   /** Saved or confirmed mapping; its headers win over guesses. */
   mapping?: ColumnMapping;
   /** Overrides the decimal mark decided from the data. */
@@ -63,6 +65,9 @@ export interface PriceAnalysis {
   /** False when the file could not be read at all (empty, binary, no header): there is nothing to preview. */
   readable: boolean;
   encoding?: EncodingName;
+  /** Set when some letters may be wrong: which lines are not in the file's encoding (also in nonUtf8Lines). */
+  encodingWarning?: string;
+  nonUtf8Lines?: number[];
   delimiter?: Delimiter;
   delimiterName?: string;
   headerLine: number;
@@ -121,17 +126,20 @@ export async function analysePriceFile(
   onRows?: (rows: number) => void,
 ): Promise<PriceAnalysis> {
   const hash = await sha256Hex(bytes);
-  const decoded = decodePriceBytes(bytes);
+  const decoded = decodePriceBytes(bytes, options.encoding);
   if (!decoded.ok) return emptyAnalysis(hash, bytes.length, [{ row: 0, column: '', value: '', reason: decoded.reason }]);
   const readOptions: Parameters<typeof readPriceTable>[1] = {};
   if (options.mapping) readOptions.mapping = options.mapping;
   if (options.delimiter) readOptions.delimiter = options.delimiter;
   if (onRows) readOptions.onRows = onRows;
   const read = readPriceTable(decoded.text, readOptions);
+  const decodeNotes: Pick<PriceAnalysis, 'encodingWarning' | 'nonUtf8Lines'> = {};
+  if (decoded.warning) decodeNotes.encodingWarning = decoded.warning;
+  if (decoded.nonUtf8Lines) decodeNotes.nonUtf8Lines = decoded.nonUtf8Lines;
   if (!read.ok) {
     const a = emptyAnalysis(hash, bytes.length, read.problems);
     a.encoding = decoded.encoding;
-    return a;
+    return { ...a, ...decodeNotes };
   }
   const t = read.table;
   const map = resolveMapping(t.headers, t.headerLine, options.mapping);
@@ -147,6 +155,7 @@ export async function analysePriceFile(
   return {
     readable: true,
     encoding: decoded.encoding,
+    ...decodeNotes,
     delimiter: t.delimiter,
     delimiterName: DELIMITER_NAMES[t.delimiter],
     headerLine: t.headerLine,

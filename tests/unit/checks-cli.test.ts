@@ -75,7 +75,7 @@ describe('rungbook check', () => {
     writeFileSync(junk, '{"format": "something else"}');
     const bad = await run(junk);
     expect(bad.code).toBe(2);
-    expect(bad.err).toMatch(/is not a valid Book file/);
+    expect(bad.err).toMatch(/cannot be used as a Book file/);
     const variant = await run(demoFile, '--variant', 'XX-1');
     expect(variant.code).toBe(2);
     expect(variant.err).toMatch(/no variant with code XX-1; the Book has FR3-40-CD, /);

@@ -112,7 +112,7 @@ describe('rungbook import', () => {
     const notBook = prices('x.json', 'not json');
     const r = await cli(notBook, resolve(__dirname, '../../public/demo/kelvaro-quote-2026-08.csv'), '--supplier', 'x');
     expect(r.code).toBe(1);
-    expect(r.err).toMatch(/not a usable Book file/);
+    expect(r.err).toMatch(/cannot be used as a Book file/);
   });
 
   it('prints help', async () => {

@@ -5,7 +5,8 @@ import { isIsoDate } from '../../domain/dates.ts';
 import { purchaseList } from '../../domain/purchase.ts';
 import { purchaseListCsv } from '../../io/run-export.ts';
 import { parseArgs } from '../command.ts';
-import type { CliCommand, CliIo, ParsedArgs } from '../command.ts';
+import type { CliCommand, CommandIo, ParsedArgs } from '../command.ts';
+import { shown } from '../terminal.ts';
 import { COSTING_FLAGS, COSTING_VALUES, CSV_CHOICES, costFromArgs, fmt, table } from './cost.ts';
 import { MAINS_CAUTION } from './info.ts';
 
@@ -40,7 +41,7 @@ function wantedDate(book: Book, variant: Variant, run: number, parsed: ParsedArg
 export const command: CliCommand = {
   name: 'buy',
   help: HELP,
-  async run(args: string[], io: CliIo): Promise<number> {
+  async run(args: string[], io: CommandIo): Promise<number> {
     let parsed: ParsedArgs;
     try {
       parsed = parseArgs(args, { flags: ['csv', ...COSTING_FLAGS], values: [...COSTING_VALUES, 'wanted'] });
@@ -64,29 +65,30 @@ export const command: CliCommand = {
         io.err(`rungbook buy: ${text.error}`);
         return 2;
       }
-      io.out(text.value);
+      io.data(text.value);
       io.err(MAINS_CAUTION);
     } else {
       const out: string[] = [];
-      out.push(`Purchase list for ${bom.variant} — ${job.variant.name}: run of ${bom.run}, quotes valid on ${bom.date}`);
+      const cur = shown(bom.currency);
+      out.push(`Purchase list for ${shown(bom.variant)} — ${shown(job.variant.name)}: run of ${bom.run}, quotes valid on ${shown(bom.date)}`);
       if (job.costing.frozen) out.push(`Frozen ${job.costing.frozen.at}: the prices and quotes of that day, not today's.`);
       out.push(wanted === undefined ? 'No date wanted (give --wanted YYYY-MM-DD, or add a Run to the Book): latest order dates are left out.' : `Units wanted by ${wanted}; latest order date = that date − lead time.`);
       for (const o of list.orders) {
-        out.push('', `${o.supplier} (${o.currency})${o.orderBy ? `, order by ${o.orderBy}` : ''}`);
-        const rows = [['code', 'mpn', 'packs × pack', 'order qty', 'moq', 'unit price', 'line price', `in ${bom.currency}`, 'lead days', 'order by', 'why']];
+        out.push('', `${shown(o.supplier)} (${shown(o.currency)})${o.orderBy ? `, order by ${o.orderBy}` : ''}`);
+        const rows = [['code', 'mpn', 'packs × pack', 'order qty', 'moq', 'unit price', 'line price', `in ${cur}`, 'lead days', 'order by', 'why']];
         for (const p of o.lines) {
           const l = p.line;
-          rows.push([l.supplierCode, l.mpn, `${p.packs} × ${l.pack}`, fmt.qty(l.buy), fmt.qty(l.moq), fmt.price(l.unitPrice), fmt.money(l.extended), fmt.money(l.extendedBase), fmt.qty(l.leadDays), p.latestOrderDate ?? '', p.reason]);
+          rows.push([shown(l.supplierCode), shown(l.mpn), `${p.packs} × ${l.pack}`, fmt.qty(l.buy), fmt.qty(l.moq), fmt.price(l.unitPrice), fmt.money(l.extended), fmt.money(l.extendedBase), fmt.qty(l.leadDays), p.latestOrderDate ?? '', shown(p.reason)]);
         }
         rows.push(['total', '', '', '', '', '', fmt.money(o.total), fmt.money(o.totalBase), '', '', '']);
         out.push(...table(rows, [false, false, true, true, true, true, true, true, true, false, false]).map((x) => `  ${x}`));
       }
-      out.push('', `all suppliers (${bom.currency})  ${fmt.money(list.totalBase)}`);
-      for (const p of bom.problems) out.push(`NOT ON THE LIST ${p.designators || p.lineId || ''}: ${p.message}`);
+      out.push('', `all suppliers (${cur})  ${fmt.money(list.totalBase)}`);
+      for (const p of bom.problems) out.push(`NOT ON THE LIST ${shown(p.designators || p.lineId || '')}: ${shown(p.message)}`);
       out.push('', MAINS_CAUTION);
       io.out(out.join('\n'));
     }
-    for (const p of bom.problems) io.err(`rungbook buy: not priced: ${p.designators || p.lineId || ''}: ${p.message}`);
+    for (const p of bom.problems) io.err(`rungbook buy: not priced: ${shown(p.designators || p.lineId || '')}: ${shown(p.message)}`);
     return bom.complete ? 0 : 1;
   },
 };

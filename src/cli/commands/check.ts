@@ -1,6 +1,5 @@
 // `rungbook check FILE`: evaluates every engineering check of every variant of a Book file (the Book's own checks
 // plus the built-in ones it does not have yet) and prints them as a table or as JSON.
-import { readFile } from 'node:fs/promises';
 import type { Book } from '../../domain/book.ts';
 import { STATUS_SYMBOL, worstOf } from '../../domain/check-status.ts';
 import type { CheckValue } from '../../domain/check-status.ts';
@@ -8,10 +7,11 @@ import { formatValue } from '../../domain/units.ts';
 import { FamilyWorkbook } from '../../engine/family.ts';
 import type { CheckResult } from '../../engine/family.ts';
 import { addBuiltInChecks, formatRule } from '../../engine/sheets.ts';
-import { parseBookFile } from '../../io/book-file.ts';
+import { loadBook } from '../book-read.ts';
 import type { CliCommand, CliIo } from '../command.ts';
 import { parseArgs } from '../command.ts';
 import { loadBuiltInChecks } from '../sheets-fs.ts';
+import { jsonText, shown } from '../terminal.ts';
 
 export const MAINS_CAUTION =
   'Caution: live, non-isolated mains circuits can kill. These figures are a design aid, not a certification; ' +
@@ -63,23 +63,6 @@ function table(rows: string[][]): string[] {
   return rows.map((r) => r.map((cell, c) => (c === r.length - 1 ? cell : cell.padEnd(widths[c]!))).join('  ').trimEnd());
 }
 
-async function readBook(path: string, io: CliIo): Promise<Book | null> {
-  let text: string;
-  try {
-    text = await readFile(path, 'utf8');
-  } catch (e) {
-    io.err(`rungbook check: cannot read ${path}: ${e instanceof Error ? e.message : String(e)}`);
-    return null;
-  }
-  const parsed = parseBookFile(text);
-  if (!parsed.ok) {
-    io.err(`rungbook check: ${path} is not a valid Book file (${parsed.total} problem${parsed.total === 1 ? '' : 's'}):`);
-    for (const p of parsed.problems) io.err(`  ${p.path || '(file)'}: ${p.message}`);
-    return null;
-  }
-  return parsed.book;
-}
-
 export const command: CliCommand = {
   name: 'check',
   help: HELP,
@@ -95,14 +78,15 @@ export const command: CliCommand = {
       io.err(`rungbook check: give exactly one Book file\n${HELP}`);
       return 2;
     }
-    const book = await readBook(parsed.positional[0]!, io);
-    if (!book) return 2;
+    const read = await loadBook('check', parsed.positional[0]!, io);
+    if (!read) return 2;
+    const book = read.book;
     const code = parsed.options.get('variant');
     let variants = book.variants;
     if (typeof code === 'string') {
       variants = book.variants.filter((v) => v.code === code);
       if (variants.length === 0) {
-        io.err(`rungbook check: no variant with code ${code}; the Book has ${book.variants.map((v) => v.code).join(', ') || 'no variants'}`);
+        io.err(`rungbook check: no variant with code ${code}; the Book has ${book.variants.map((v) => shown(v.code)).join(', ') || 'no variants'}`);
         return 2;
       }
     }
@@ -116,7 +100,7 @@ export const command: CliCommand = {
     const checksById = new Map(subject.checks.map((c) => [c.id, c]));
     const json = parsed.options.get('json') === true;
 
-    for (const p of problems) io.err(`warning: ${p.variantCode} line ${p.lineId}: ${p.message}`);
+    for (const p of problems) io.err(`warning: ${shown(p.variantCode)} line ${shown(p.lineId)}: ${shown(p.message)}`);
     if (json) {
       const out: CheckJson[] = results.map((r) => ({
         variant: r.variantCode,
@@ -128,18 +112,19 @@ export const command: CliCommand = {
         limit: r.limit,
         message: r.message,
       }));
-      io.out(JSON.stringify(out, null, 2));
+      io.out(jsonText(out));
       io.err(MAINS_CAUTION);
     } else {
       io.out(MAINS_CAUTION);
       for (const v of variants) {
         const mine = results.filter((r) => r.variantId === v.id);
         io.out('');
-        io.out(`${v.code} — ${v.name}: ${summary(mine)}`);
+        io.out(`${shown(v.code)} — ${shown(v.name)}: ${summary(mine)}`);
         const rows = [['check', 'value', 'status', 'limit', 'note']];
         for (const r of mine) {
           const note = r.status === 'n/a' ? '' : r.status === 'error' ? r.message : checksById.get(r.checkId)!.title;
-          rows.push([r.checkName, showValue(r.value, r.unit), `${STATUS_SYMBOL[r.status]} ${r.status}`, showLimit(r), note]);
+          // Names, text values and notes come from the Book: shown with control characters made visible.
+          rows.push([shown(r.checkName), shown(showValue(r.value, r.unit)), `${STATUS_SYMBOL[r.status]} ${r.status}`, shown(showLimit(r)), shown(note)]);
         }
         for (const line of table(rows)) io.out(`  ${line}`);
       }

@@ -5,9 +5,11 @@ import type { CostedBom } from '../../domain/costing.ts';
 import { isIsoDate } from '../../domain/dates.ts';
 import { costedBomCsv, costVariant, frozenCosting, parseExportOptions } from '../../io/run-export.ts';
 import type { ExportOptions, RunCosting } from '../../io/run-export.ts';
+import { loadBook } from '../book-read.ts';
 import { parseArgs } from '../command.ts';
-import type { CliCommand, CliIo, ParsedArgs } from '../command.ts';
-import { formatProblems, MAINS_CAUTION, readBookFile } from './info.ts';
+import type { CliCommand, CliIo, CommandIo, ParsedArgs } from '../command.ts';
+import { jsonText, shown } from '../terminal.ts';
+import { MAINS_CAUTION } from './info.ts';
 
 /** The CSV choices shared by `cost` and `buy`. */
 export const CSV_CHOICES = `CSV choices (with --csv):
@@ -100,26 +102,22 @@ export async function costFromArgs(name: string, parsed: ParsedArgs, help: strin
   }
   const csv = csvChoices(name, parsed, io);
   if (typeof csv === 'number') return csv;
-  const file = parsed.positional[0]!;
-  const read = await readBookFile(file);
-  if (!read.ok) {
-    io.err(`rungbook ${name}: ${file} cannot be used as a Book file:\n${formatProblems(read.problems, read.total)}`);
-    return 2;
-  }
+  const read = await loadBook(name, parsed.positional[0]!, io);
+  if (!read) return 2;
   const book = read.book;
   const variant = book.variants.find((v) => v.code === code);
   if (!variant) {
-    io.err(`rungbook ${name}: no variant with code ${code}; the Book has ${book.variants.map((v) => v.code).join(', ') || 'no variants'}`);
+    io.err(`rungbook ${name}: no variant with code ${code}; the Book has ${book.variants.map((v) => shown(v.code)).join(', ') || 'no variants'}`);
     return 2;
   }
   const frozenRun = book.runs.find((r) => r.variantId === variant.id && r.quantity === run && r.frozen);
   const useFrozen = frozenRun !== undefined && !parsed.options.has('fresh') && date === undefined;
   const costing = useFrozen ? frozenCosting(frozenRun) : costVariant(book, variant.id, run, typeof date === 'string' ? { date } : {});
   if (!costing.ok) {
-    io.err(`rungbook ${name}: ${useFrozen ? `frozen run ${frozenRun.name}: ` : ''}${costing.error}`);
+    io.err(`rungbook ${name}: ${useFrozen ? `frozen run ${shown(frozenRun.name)}: ` : ''}${shown(costing.error)}`);
     return 2;
   }
-  if (useFrozen) io.err(`rungbook ${name}: run ${frozenRun.name} is frozen (${frozenRun.frozen!.at}): prices and quotes as frozen; give --fresh to cost with today's quotes`);
+  if (useFrozen) io.err(`rungbook ${name}: run ${shown(frozenRun.name)} is frozen (${frozenRun.frozen!.at}): prices and quotes as frozen; give --fresh to cost with today's quotes`);
   return { book, variant, run, bom: costing.value.bom, costing: costing.value, csv };
 }
 
@@ -182,7 +180,7 @@ export function costJson(bom: CostedBom): Record<string, unknown> {
 }
 
 function totals(bom: CostedBom, marginPct: number): [string, string][] {
-  const c = bom.currency;
+  const c = shown(bom.currency);
   return [
     [`material per unit (${c})`, fmt.unit(bom.material)],
     [`labour per unit (${c})`, fmt.unit(bom.labour)],
@@ -199,20 +197,21 @@ function totals(bom: CostedBom, marginPct: number): [string, string][] {
 function tableOut(job: CostJob): string[] {
   const { bom } = job;
   const out: string[] = [];
-  out.push(`${bom.variant} — ${job.variant.name}: run of ${bom.run}, quotes valid on ${bom.date}, totals in ${bom.currency}`);
+  const cur = shown(bom.currency);
+  out.push(`${shown(bom.variant)} — ${shown(job.variant.name)}: run of ${bom.run}, quotes valid on ${shown(bom.date)}, totals in ${cur}`);
   if (job.costing.frozen) out.push(`Frozen ${job.costing.frozen.at}: the prices and quotes of that day, not today's.`);
   out.push('');
-  const rows = [['designators', 'mpn', 'need', 'buy', 'supplier', 'break', 'unit price', 'cur', 'extended', `ext ${bom.currency}`, 'leftover', `value ${bom.currency}`]];
+  const rows = [['designators', 'mpn', 'need', 'buy', 'supplier', 'break', 'unit price', 'cur', 'extended', `ext ${cur}`, 'leftover', `value ${cur}`]];
   for (const l of bom.lines) {
     rows.push([
-      l.designators,
-      l.mpn,
+      shown(l.designators),
+      shown(l.mpn),
       fmt.qty(l.need),
       fmt.qty(l.buy),
-      l.supplier,
+      shown(l.supplier),
       fmt.qty(l.breakQty),
       fmt.price(l.unitPrice),
-      l.currency,
+      shown(l.currency),
       fmt.money(l.extended),
       fmt.money(l.extendedBase),
       fmt.qty(l.leftover),
@@ -220,7 +219,7 @@ function tableOut(job: CostJob): string[] {
     ]);
   }
   out.push(...table(rows, [false, false, true, true, false, true, true, false, true, true, true, true]));
-  for (const p of bom.problems) out.push(`NOT PRICED ${p.designators || p.lineId || ''}: ${p.message}`);
+  for (const p of bom.problems) out.push(`NOT PRICED ${shown(p.designators || p.lineId || '')}: ${shown(p.message)}`);
   out.push('');
   const t = totals(bom, job.costing.marginPct);
   out.push(...table(t.map(([a, b]) => [a, b]), [false, true]));
@@ -232,7 +231,7 @@ function tableOut(job: CostJob): string[] {
 export const command: CliCommand = {
   name: 'cost',
   help: HELP,
-  async run(args: string[], io: CliIo): Promise<number> {
+  async run(args: string[], io: CommandIo): Promise<number> {
     let parsed: ParsedArgs;
     try {
       parsed = parseArgs(args, { flags: ['json', 'csv', ...COSTING_FLAGS], values: COSTING_VALUES });
@@ -248,7 +247,7 @@ export const command: CliCommand = {
     if (typeof job === 'number') return job;
     const { bom } = job;
     if (parsed.options.has('json')) {
-      io.out(JSON.stringify(costJson(bom), null, 2));
+      io.out(jsonText(costJson(bom)));
       io.err(MAINS_CAUTION);
     } else if (parsed.options.has('csv')) {
       const text = costedBomCsv(job.costing, job.csv);
@@ -256,12 +255,12 @@ export const command: CliCommand = {
         io.err(`rungbook cost: ${text.error}`);
         return 2;
       }
-      io.out(text.value);
+      io.data(text.value);
       io.err(MAINS_CAUTION);
     } else {
       io.out(tableOut(job).join('\n'));
     }
-    for (const p of bom.problems) io.err(`rungbook cost: not priced: ${p.designators || p.lineId || ''}: ${p.message}`);
+    for (const p of bom.problems) io.err(`rungbook cost: not priced: ${shown(p.designators || p.lineId || '')}: ${shown(p.message)}`);
     return bom.complete ? 0 : 1;
   },
 };

@@ -7,8 +7,9 @@ import { addBuiltInChecks } from '../../engine/sheets.ts';
 import { parseBookFile, serializeBook } from '../../io/book-file.ts';
 import { parseArgs } from '../command.ts';
 import type { CliCommand, CliIo } from '../command.ts';
+import { formatProblems } from '../book-read.ts';
 import { loadBuiltInChecks } from '../sheets-fs.ts';
-import { formatProblems, MAINS_CAUTION } from './info.ts';
+import { MAINS_CAUTION } from './info.ts';
 
 const HELP = `usage: rungbook demo --out FILE [--force]
 

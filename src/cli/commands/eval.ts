@@ -4,6 +4,7 @@ import type { CellValue } from 'hyperformula';
 import { createEngine } from '../../engine/create.ts';
 import { FORMULA_REFUSALS, engineFailure, guardFormula } from '../../engine/formula-guard.ts';
 import type { CliCommand, CliIo } from '../command.ts';
+import { shown } from '../terminal.ts';
 
 const HELP = `usage: rungbook eval 'FORMULA'
 
@@ -73,7 +74,8 @@ export const command: CliCommand = {
         io.err(errorText(firstError));
         return 1;
       }
-      io.out(rows.map((row) => row.map(scalarText).join('\t')).join('\n'));
+      // Tabs and line breaks lay out an array; inside a value they, and any control character, are shown as escapes.
+      io.out(rows.map((row) => row.map((v) => shown(scalarText(v))).join('\t')).join('\n'));
       if (firstError) {
         io.err(errorText(firstError));
         return 1;

@@ -1,18 +1,24 @@
 // `rungbook import`: brings a supplier price file into a Book file, all rows or none, with the app's own import code.
-import { readFile, rename, writeFile } from 'node:fs/promises';
-import { basename } from 'node:path';
-import { parseBookFile, serializeBook } from '../../io/book-file.ts';
+import { readFile, rename, rm, writeFile } from 'node:fs/promises';
+import { basename, dirname, join } from 'node:path';
+import { COLLECTIONS } from '../../domain/book.ts';
+import type { Book } from '../../domain/book.ts';
+import { serializeBook } from '../../io/book-file.ts';
+import { parseEncodingChoice } from '../../io/price-decode.ts';
 import { parseColumnMapping } from '../../io/price-map.ts';
 import type { PriceProblem } from '../../io/price-map.ts';
 import { importPrices } from '../../io/price-import.ts';
 import type { ImportPricesOptions, ImportSummary } from '../../io/price-import.ts';
+import { formatProblems, loadBook, readBookFile } from '../book-read.ts';
 import { parseArgs } from '../command.ts';
 import type { CliCommand, CliIo } from '../command.ts';
+import { shown } from '../terminal.ts';
 
 const HELP = `usage: rungbook import BOOK.rungbook.json PRICES.csv --supplier NAME [options]
 
 Imports a supplier price file into the Book: every row is checked first, and on any problem nothing is written
-(row errors go to stderr, exit status 1). Otherwise the new Book is written and a summary printed.
+(row errors go to stderr, exit status 1). Otherwise the new Book is written and a summary printed. The new Book
+is written beside the target, read back and checked, and only then put in its place.
 
 options:
   --supplier NAME      supplier the prices come from (name or id; required)
@@ -22,21 +28,24 @@ options:
   --valid-rows-only    import the rows without problems even when other rows have some
   --create-parts       create a new part for each row whose part is not in the Book (default: skip them)
   --decimal point|comma  decimal mark of the numbers, when the file cannot tell
+  --encoding auto|utf-8|windows-1252
+                       how to read the price file (default auto: UTF-8, else Windows-1252; lines of a UTF-8
+                       file that are not UTF-8 are read as Windows-1252 and named in a warning)
   --allow-reimport     import a file already imported for this supplier`;
 
 function formatProblem(p: PriceProblem): string {
   const where = p.row > 0 ? `line ${p.row}` : 'file';
-  const col = p.column ? `, column "${p.column}"` : '';
-  const value = p.value ? `, value "${p.value.length > 60 ? p.value.slice(0, 57) + '...' : p.value}"` : '';
-  return `${where}${col}${value}: ${p.reason}`;
+  const col = p.column ? `, column "${shown(p.column)}"` : '';
+  const value = p.value ? `, value "${shown(p.value.length > 60 ? p.value.slice(0, 57) + '...' : p.value)}"` : '';
+  return `${where}${col}${value}: ${shown(p.reason)}`;
 }
 
 function formatSummary(s: ImportSummary, outPath: string): string {
   const lines = [
-    `imported ${s.fileName} for ${s.supplier} into ${outPath}`,
+    `imported ${shown(s.fileName)} for ${shown(s.supplier)} into ${outPath}`,
     `  read: ${s.encoding}, ${s.delimiter}-separated, header on line ${s.headerLine}, ${s.dataRows} data row(s), ${s.layout} layout`,
     `  numbers: ${s.decimal}`,
-    `  columns: ${Object.entries(s.columns).map(([k, v]) => `${k}="${v}"`).join(', ')}`,
+    `  columns: ${Object.entries(s.columns).map(([k, v]) => `${k}="${shown(v)}"`).join(', ')}`,
     `  matched: ${s.matchedByMpn} by maker part number, ${s.matchedByCode} by supplier code`,
     `  quotes: ${s.newQuotes} new, ${s.supersededQuotes} older superseded (kept in history); ${s.newParts} new part(s)`,
   ];
@@ -44,10 +53,10 @@ function formatSummary(s: ImportSummary, outPath: string): string {
   const skipped = s.unmatched.filter((u) => u.decision === 'skip');
   if (skipped.length) {
     lines.push(`  skipped, no such part in the Book (use --create-parts to add them): ${skipped.length}`);
-    for (const u of skipped.slice(0, 20)) lines.push(`    line ${u.line}: ${u.mpn || u.supplierCode}${u.note ? ` (${u.note})` : ''}`);
+    for (const u of skipped.slice(0, 20)) lines.push(`    line ${u.line}: ${shown(u.mpn || u.supplierCode)}${u.note ? ` (${shown(u.note)})` : ''}`);
     if (skipped.length > 20) lines.push(`    … and ${skipped.length - 20} more`);
   }
-  for (const n of s.notes) lines.push(`  note: ${n}`);
+  for (const n of s.notes) lines.push(`  note: ${shown(n)}`);
   if (s.batchId) lines.push(`  batch: ${s.batchId}`);
   return lines.join('\n');
 }
@@ -57,7 +66,7 @@ async function run(args: string[], io: CliIo): Promise<number> {
   try {
     parsed = parseArgs(args, {
       flags: ['valid-rows-only', 'create-parts', 'allow-reimport'],
-      values: ['supplier', 'mapping', 'out', 'decimal'],
+      values: ['supplier', 'mapping', 'out', 'decimal', 'encoding'],
     });
   } catch (e) {
     io.err(`rungbook import: ${(e as Error).message}\n\n${HELP}`);
@@ -74,25 +83,21 @@ async function run(args: string[], io: CliIo): Promise<number> {
     io.err('rungbook import: --decimal must be "point" or "comma"');
     return 2;
   }
-
-  let bookText: string;
-  let priceBytes: Uint8Array;
-  try {
-    bookText = await readFile(bookPath, 'utf8');
-  } catch (e) {
-    io.err(`rungbook import: cannot read the Book file ${bookPath}: ${(e as NodeJS.ErrnoException).code ?? (e as Error).message}`);
-    return 1;
+  const encodingOpt = parsed.options.get('encoding');
+  const encoding = typeof encodingOpt === 'string' ? parseEncodingChoice(encodingOpt) : undefined;
+  if (encodingOpt !== undefined && encoding === undefined) {
+    io.err('rungbook import: --encoding must be "auto", "utf-8" or "windows-1252"');
+    return 2;
   }
+
+  // The Book is read as every command reads it: a file `info` or `check` would refuse is refused here too.
+  const book = await loadBook('import', bookPath, io);
+  if (!book) return 1;
+  let priceBytes: Uint8Array;
   try {
     priceBytes = new Uint8Array(await readFile(pricesPath));
   } catch (e) {
     io.err(`rungbook import: cannot read the price file ${pricesPath}: ${(e as NodeJS.ErrnoException).code ?? (e as Error).message}`);
-    return 1;
-  }
-  const book = parseBookFile(bookText);
-  if (!book.ok) {
-    io.err(`rungbook import: ${bookPath} is not a usable Book file:`);
-    for (const p of book.problems) io.err(`  ${p.path || 'file'}: ${p.message}`);
     return 1;
   }
 
@@ -104,6 +109,7 @@ async function run(args: string[], io: CliIo): Promise<number> {
     allowReimport: parsed.options.has('allow-reimport'),
   };
   if (decimalOpt) options.decimal = decimalOpt === 'comma' ? ',' : '.';
+  if (encoding) options.encoding = encoding;
   const mappingPath = parsed.options.get('mapping');
   if (typeof mappingPath === 'string') {
     let json: unknown;
@@ -122,25 +128,47 @@ async function run(args: string[], io: CliIo): Promise<number> {
   }
 
   const result = await importPrices(book.book, priceBytes, options);
+  const encodingWarning = result.analysis?.encodingWarning;
+  if (encodingWarning) io.err(`rungbook import: warning: ${basename(pricesPath)}: ${encodingWarning}`);
   if (!result.ok || !result.book) {
-    io.err(`rungbook import: nothing imported from ${basename(pricesPath)}: ${result.reason ?? 'unknown reason'}`);
+    io.err(`rungbook import: nothing imported from ${basename(pricesPath)}: ${shown(result.reason ?? 'unknown reason')}`);
     for (const p of result.problems) io.err(`  ${formatProblem(p)}`);
     return 1;
   }
   for (const p of result.problems) io.err(`rungbook import: left out ${formatProblem(p)}`);
 
   const outPath = typeof parsed.options.get('out') === 'string' ? (parsed.options.get('out') as string) : bookPath;
-  // Write beside the target and rename, so an interrupted write never leaves half a Book.
-  const temp = `${outPath}.${process.pid}.tmp`;
-  try {
-    await writeFile(temp, serializeBook(result.book), 'utf8');
-    await rename(temp, outPath);
-  } catch (e) {
-    io.err(`rungbook import: cannot write ${outPath}: ${(e as Error).message}`);
+  const written = await writeBookSafely(outPath, result.book);
+  if (written) {
+    io.err(`rungbook import: nothing written, ${outPath} is as it was: ${written}`);
     return 1;
   }
   io.out(formatSummary(result.summary, outPath));
+  if (encodingWarning) io.out(`  warning: ${shown(encodingWarning)}`);
   return 0;
+}
+
+/**
+ * Writes `book` to `path` so that a good file is never replaced by a damaged one: the text goes to a temporary file in
+ * the same folder, which is read back with the very reader every command uses and must give a Book with every record;
+ * only then is it renamed over `path` (a rename within one folder replaces the file whole). Returns why not, or
+ * undefined when written.
+ */
+async function writeBookSafely(path: string, book: Book): Promise<string | undefined> {
+  const temp = join(dirname(path), `.${basename(path)}.${process.pid}.tmp`);
+  try {
+    await writeFile(temp, serializeBook(book), 'utf8');
+    const back = await readBookFile(temp);
+    if (!back.ok) return `the new Book does not read back:\n${formatProblems(back.problems, back.total)}`;
+    const lost = COLLECTIONS.filter((c) => back.book[c].length !== book[c].length);
+    if (lost.length) return `the new Book reads back with other counts of ${lost.join(', ')}`;
+    await rename(temp, path);
+    return undefined;
+  } catch (e) {
+    return `cannot write it: ${e instanceof Error ? e.message : String(e)}`;
+  } finally {
+    await rm(temp, { force: true });
+  }
 }
 
 export const command: CliCommand = { name: 'import', help: HELP, run };

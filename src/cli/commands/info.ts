@@ -1,11 +1,10 @@
 // `rungbook info FILE`: what a Book file holds (counts and a summary), or why it cannot be read.
-import { readFile, stat } from 'node:fs/promises';
 import { COLLECTIONS } from '../../domain/book.ts';
 import type { Book, CollectionName } from '../../domain/book.ts';
-import { bookFileSizeProblem, parseBookFile } from '../../io/book-file.ts';
-import type { BookFileProblem, BookFileResult } from '../../io/book-file.ts';
+import { loadBook } from '../book-read.ts';
 import { parseArgs } from '../command.ts';
 import type { CliCommand, CliIo } from '../command.ts';
+import { jsonText, shown } from '../terminal.ts';
 
 export const MAINS_CAUTION =
   'Caution: mains regulators are live, non-isolated circuits that can kill. These figures are a design aid, not a ' +
@@ -32,39 +31,6 @@ problems, each with its place in the file; the exit status is then 1.
 
 options:
   --json   print the counts and summary as JSON`;
-
-/** Reads and validates a Book file from disk; the size is checked before anything is read. */
-export async function readBookFile(path: string): Promise<BookFileResult> {
-  let size: number;
-  try {
-    const s = await stat(path);
-    if (!s.isFile()) return refuse(`${path} is not a file`);
-    size = s.size;
-  } catch (e) {
-    return refuse(`cannot read ${path}: ${(e as NodeJS.ErrnoException).code === 'ENOENT' ? 'no such file' : String(e)}`);
-  }
-  const tooBig = bookFileSizeProblem(size);
-  if (tooBig) return { ok: false, problems: [tooBig], total: 1 };
-  const bytes = await readFile(path);
-  let text: string;
-  try {
-    text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
-  } catch {
-    return refuse('the file is not UTF-8 text, so it is not a Book file');
-  }
-  return parseBookFile(text);
-}
-
-function refuse(message: string): BookFileResult {
-  return { ok: false, problems: [{ path: '', message }], total: 1 };
-}
-
-/** The problems of a refused file, one per line, with a count of those not listed. */
-export function formatProblems(problems: readonly BookFileProblem[], total: number): string {
-  const lines = problems.map((p) => (p.path ? `  ${p.path}: ${p.message}` : `  ${p.message}`));
-  if (total > problems.length) lines.push(`  … and ${total - problems.length} more problem${total - problems.length === 1 ? '' : 's'}`);
-  return lines.join('\n');
-}
 
 export interface BookSummary {
   bookName: string;
@@ -97,14 +63,15 @@ export function formatSummary(s: BookSummary): string {
   const others = Object.keys(s.rates)
     .filter((c) => c !== base)
     .sort()
-    .map((c) => `${c} at ${s.rates[c]} ${base}`);
+    .map((c) => `${shown(c)} at ${s.rates[c]} ${shown(base)}`);
+  // Every name and code comes from the file: shown with its control characters made visible.
   const rows: [string, string][] = [
-    ['book', s.bookName],
-    ['company', s.company || '(none)'],
-    ...(s.savedAt ? ([['saved', s.savedAt]] as [string, string][]) : []),
-    ['base currency', base],
-    ['currencies', [`${base} (base)`, ...others].join(', ')],
-    ['variant codes', s.variantCodes.length ? s.variantCodes.join(', ') : '(none)'],
+    ['book', shown(s.bookName)],
+    ['company', shown(s.company) || '(none)'],
+    ...(s.savedAt ? ([['saved', shown(s.savedAt)]] as [string, string][]) : []),
+    ['base currency', shown(base)],
+    ['currencies', [`${shown(base)} (base)`, ...others].join(', ')],
+    ['variant codes', s.variantCodes.length ? s.variantCodes.map(shown).join(', ') : '(none)'],
     ['', ''],
     ...COLLECTIONS.map((c): [string, string] => [LABELS[c], String(s.counts[c])]),
   ];
@@ -121,14 +88,10 @@ export const command: CliCommand = {
       io.err(`rungbook info: give exactly one Book file\n\n${HELP}`);
       return 2;
     }
-    const file = positional[0]!;
-    const result = await readBookFile(file);
-    if (!result.ok) {
-      io.err(`rungbook info: ${file} cannot be used as a Book file:\n${formatProblems(result.problems, result.total)}`);
-      return 1;
-    }
+    const result = await loadBook('info', positional[0]!, io);
+    if (!result) return 1;
     const summary = summarize(result.book, result.savedAt);
-    if (options.has('json')) io.out(JSON.stringify(summary, null, 2));
+    if (options.has('json')) io.out(jsonText(summary));
     else io.out(`${formatSummary(summary)}\n\n${MAINS_CAUTION}`);
     return 0;
   },
