@@ -554,35 +554,3 @@ export function costVariantRun(
     problems,
   });
 }
-
-// ---------------------------------------------------------------------------------------------------------------
-// A minimal resolver for Books whose rules are constants (used until a formula resolver is supplied)
-
-const TRUE_WORDS = new Set(['', 'TRUE', '=TRUE', '=TRUE()', 'TRUE()', '1']);
-const FALSE_WORDS = new Set(['FALSE', '=FALSE', '=FALSE()', 'FALSE()', '0']);
-
-/**
- * Resolves build lines whose part is fixed, quantity rule a number and applies-when empty/TRUE/FALSE. Lines with
- * formulas come back with an error saying so, so costing reports them instead of guessing.
- */
-export function resolveFixedLines(book: Book, variant: Variant): ResolvedLine[] {
-  void variant;
-  return book.buildLines.map((line): ResolvedLine => {
-    const base = { lineId: line.id, qtyPerUnit: 0, applies: false };
-    const when = line.appliesWhen.trim().toUpperCase();
-    let applies: boolean;
-    if (TRUE_WORDS.has(when)) applies = true;
-    else if (FALSE_WORDS.has(when)) applies = false;
-    else return { ...base, error: `applies-when rule "${line.appliesWhen}" needs the formula resolver` };
-    if (!applies) return base;
-    const qtyText = line.qtyRule.trim().replace(/^=/, '');
-    const qty = qtyText === '' ? NaN : Number(qtyText);
-    if (!Number.isFinite(qty)) return { ...base, error: `quantity rule "${line.qtyRule}" needs the formula resolver` };
-    if (line.partRule && line.partRule.trim() !== '' && !line.partId) {
-      return { ...base, error: `part rule "${line.partRule}" needs the formula resolver` };
-    }
-    return line.partId === undefined
-      ? { lineId: line.id, qtyPerUnit: qty, applies: true, error: 'the line has no part' }
-      : { lineId: line.id, partId: line.partId, qtyPerUnit: qty, applies: true };
-  });
-}

@@ -33,7 +33,6 @@ import {
   roundUnit,
   toTenThousandths,
   unitCostOf,
-  resolveFixedLines,
   variantDemands,
 } from '../domain/costing.ts';
 import type { CostedBom, CostingContext, ResolvedLine, Result } from '../domain/costing.ts';
@@ -69,11 +68,6 @@ export interface ChangedCost {
 /** The family resolver's lines by variant id. */
 export function resolutionFromFamily(family: FamilyResolution): Resolution {
   return new Map(family.variants.map((v) => [v.variantId, v.lines] as const));
-}
-
-/** Resolution for Books whose build rules are all constants (no formula engine needed). */
-export function fixedResolution(book: Book): Resolution {
-  return new Map(book.variants.map((v) => [v.id, resolveFixedLines(book, v)] as const));
 }
 
 const SETTINGS_RANGE = 'Settings!$A$1:$F$1';
@@ -146,10 +140,10 @@ export class CostingWorkbook {
   }
 
   /**
-   * Builds the workbook for a Book. `resolution` gives each variant's resolved lines (from the family resolver);
-   * without it only constant build rules are understood. Bad settings or run sizes give an error, nothing is built.
+   * Builds the workbook for a Book. `resolution` gives each variant's resolved lines (from the family resolver).
+   * Bad settings or run sizes give an error, nothing is built.
    */
-  static open(book: Book, resolution?: Resolution, options: { date?: string } = {}): Result<CostingWorkbook> {
+  static open(book: Book, resolution: Resolution, options: { date?: string } = {}): Result<CostingWorkbook> {
     const prepared = prepareCosting(book, options);
     if (!prepared.ok) return prepared;
     const ctx = prepared.value;
@@ -159,7 +153,6 @@ export class CostingWorkbook {
       if (!Number.isInteger(r) || r < 1) return { ok: false, error: `run sizes must be whole numbers ≥ 1, got ${r}` };
     }
     if (new Set(runSizes).size !== runSizes.length) return { ok: false, error: 'run sizes are listed twice' };
-    const res = resolution ?? fixedResolution(book);
 
     // Rates: every currency the settings or a quote name.
     const currencies = new Set<string>([book.settings.baseCurrency, ...Object.keys(book.settings.rates), ...book.quotes.map((q) => q.currency)]);
@@ -205,8 +198,8 @@ export class CostingWorkbook {
     // Blocks: build lines that split the family the same way (common to all, by steps, by stage…) are costed together,
     // and lines sharing a part always land in one block so that a variant's lines of one part merge into one purchase.
     const variants = book.variants;
-    const lineIds = [...new Set(variants.flatMap((v) => (res.get(v.id) ?? []).map((l) => l.lineId)))];
-    const byVariant = variants.map((v) => new Map((res.get(v.id) ?? []).map((l) => [l.lineId, l] as const)));
+    const lineIds = [...new Set(variants.flatMap((v) => (resolution.get(v.id) ?? []).map((l) => l.lineId)))];
+    const byVariant = variants.map((v) => new Map((resolution.get(v.id) ?? []).map((l) => [l.lineId, l] as const)));
     const optionKey = (l: ResolvedLine | undefined): string =>
       !l || l.error !== undefined || !l.applies || !(l.qtyPerUnit > 0) || l.partId === undefined ? '-' : `${l.partId}|${l.qtyPerUnit}`;
     const groupOf = new Map<string, number>();
@@ -315,7 +308,7 @@ export class CostingWorkbook {
     variants.forEach((v, i) => {
       variantRow.set(v.id, variantRows.length);
       variantAt.push(v.id);
-      const placements = placementsPerUnit(ctx, res.get(v.id) ?? []);
+      const placements = placementsPerUnit(ctx, resolution.get(v.id) ?? []);
       const row: string[] = [];
       const material: string[] = [];
       for (let k = 0; k < runSizes.length; k++) {
@@ -341,7 +334,7 @@ export class CostingWorkbook {
         [SHEETS.variants]: variantRows.length ? variantRows : [[]],
       },
     );
-    const wb = new CostingWorkbook(hf, book, res, ctx.date, [...runSizes], quotes);
+    const wb = new CostingWorkbook(hf, book, resolution, ctx.date, [...runSizes], quotes);
     for (const [k, v] of variantRow) wb.variantRow.set(k, v);
     wb.plan.push(...plan);
     wb.variantAt.push(...variantAt);

@@ -1,9 +1,10 @@
 // The costing workbook gives the same numbers as the pure costing rules, to the cent, and live edits behave.
 import { describe, expect, it } from 'vitest';
+import { fixedResolution } from '../fixtures/fixed-lines.ts';
 import { referenceFamily } from '../fixtures/reference-family.ts';
 import { costVariantRun, prepareCosting } from '../../src/domain/costing.ts';
 import type { CostingContext, ResolvedLine } from '../../src/domain/costing.ts';
-import { CostingWorkbook, fixedResolution, resolutionFromFamily } from '../../src/engine/costing.ts';
+import { CostingWorkbook, resolutionFromFamily } from '../../src/engine/costing.ts';
 import { resolveFamily } from '../../src/engine/family.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import type { Book } from '../../src/domain/book.ts';
@@ -159,6 +160,6 @@ describe('costing workbook', () => {
 
   it('refuses to open with bad run sizes', () => {
     const book = smallBook({ parts: [], quotes: {}, lines: [], settings: { runSizes: [100, 0] } });
-    expect(CostingWorkbook.open(book)).toEqual({ ok: false, error: expect.stringMatching(/run sizes/) });
+    expect(CostingWorkbook.open(book, fixedResolution(book))).toEqual({ ok: false, error: expect.stringMatching(/run sizes/) });
   });
 });

@@ -9,12 +9,12 @@ import {
   chooseQuote,
   costVariantRun,
   prepareCosting,
-  resolveFixedLines,
   toCents,
   toTenThousandths,
 } from '../../src/domain/costing.ts';
 import type { PreparedQuote } from '../../src/domain/costing.ts';
 import type { PriceBreak } from '../../src/domain/book.ts';
+import { resolveFixedLines } from '../fixtures/fixed-lines.ts';
 import { part, quote, smallBook, value } from './costing-fixtures.ts';
 import type { LineSpec, QuoteSpec } from './costing-fixtures.ts';
 
@@ -134,7 +134,7 @@ describe('costing properties', () => {
   it('the unit cost is the exact sum of material, labour, test and overhead', () => {
     fc.assert(
       fc.property(bookArb, ({ book, run }) => {
-        const bom = value(costVariantRun(value(prepareCosting(book)), book.variants[0]!, resolveFixedLines(book, book.variants[0]!), run));
+        const bom = value(costVariantRun(value(prepareCosting(book)), book.variants[0]!, resolveFixedLines(book), run));
         const parts = toTenThousandths(bom.material) + toTenThousandths(bom.labour) + toTenThousandths(bom.test) + toTenThousandths(bom.overhead);
         expect(toTenThousandths(bom.unitCost)).toBe(parts);
         // The material share is the run's material spread over the run, to 4 decimals: at most half a
@@ -147,7 +147,7 @@ describe('costing properties', () => {
   it('run material equals the sum of the line amounts to the cent, and the run total adds the conversion cost', () => {
     fc.assert(
       fc.property(bookArb, ({ book, run }) => {
-        const bom = value(costVariantRun(value(prepareCosting(book)), book.variants[0]!, resolveFixedLines(book, book.variants[0]!), run));
+        const bom = value(costVariantRun(value(prepareCosting(book)), book.variants[0]!, resolveFixedLines(book), run));
         const lineCents = bom.lines.reduce((s, l) => s + toCents(l.extendedBase), 0);
         expect(toCents(bom.materialRun)).toBe(lineCents);
         const conversion = toTenThousandths(bom.labour) + toTenThousandths(bom.test) + toTenThousandths(bom.overhead);

@@ -9,10 +9,10 @@ import {
   needQty,
   prepareCosting,
   priceFor,
-  resolveFixedLines,
   roundMoney,
 } from '../../src/domain/costing.ts';
 import type { CostedBom, CostingContext } from '../../src/domain/costing.ts';
+import { resolveFixedLines } from '../fixtures/fixed-lines.ts';
 import { part, smallBook, value } from './costing-fixtures.ts';
 import type { LineSpec, QuoteSpec } from './costing-fixtures.ts';
 import type { Part, Settings } from '../../src/domain/book.ts';
@@ -29,7 +29,7 @@ const REF_BREAKS = [
 function costOne(opts: { parts: Part[]; quotes: Record<string, QuoteSpec[]>; lines: LineSpec[]; settings?: Partial<Settings> }, run: number): CostedBom {
   const book = smallBook(opts);
   const ctx: CostingContext = value(prepareCosting(book));
-  return value(costVariantRun(ctx, book.variants[0]!, resolveFixedLines(book, book.variants[0]!), run));
+  return value(costVariantRun(ctx, book.variants[0]!, resolveFixedLines(book), run));
 }
 
 describe('need quantity', () => {

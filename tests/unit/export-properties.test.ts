@@ -3,11 +3,12 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import Papa from 'papaparse';
-import { costVariantRun, prepareCosting, resolveFixedLines, toCents } from '../../src/domain/costing.ts';
+import { costVariantRun, prepareCosting, toCents } from '../../src/domain/costing.ts';
 import type { PriceBreak } from '../../src/domain/book.ts';
 import { purchaseList } from '../../src/domain/purchase.ts';
 import { COSTED_LEFTOVER_COLUMN, COSTED_TOTAL_COLUMN, DELIMITERS, costedBomCsv, costedTotalLabels, purchaseListCsv } from '../../src/io/run-export.ts';
 import type { ExportOptions } from '../../src/io/run-export.ts';
+import { resolveFixedLines } from '../fixtures/fixed-lines.ts';
 import { part, smallBook } from './costing-fixtures.ts';
 import type { LineSpec, QuoteSpec } from './costing-fixtures.ts';
 
@@ -80,7 +81,7 @@ describe('exported totals', () => {
         const ctx = prepareCosting(book);
         if (!ctx.ok) throw new Error(ctx.error);
         const variant = book.variants[0]!;
-        const r = costVariantRun(ctx.value, variant, resolveFixedLines(book, variant), c.run);
+        const r = costVariantRun(ctx.value, variant, resolveFixedLines(book), c.run);
         if (!r.ok) throw new Error(r.error);
         const bom = r.value;
         const text = costedBomCsv({ bom, marginPct: c.margin, parts }, c.options);

@@ -1,16 +1,17 @@
 // Runs: form drafts checked against the Book; a frozen costing keeps the prices and quotes it was made with; the
 // comparison with a fresh costing names what changed per line and in the totals; bad snapshots are refused.
 import { describe, expect, it } from 'vitest';
-import { costVariantRun, prepareCosting, resolveFixedLines } from '../../src/domain/costing.ts';
+import { costVariantRun, prepareCosting } from '../../src/domain/costing.ts';
 import type { Book } from '../../src/domain/book.ts';
 import { compareCostings, freezeRun, readSnapshot, runDraft, unfreezeRun, validateRun } from '../../src/domain/freeze.ts';
 import { parseBookFile, serializeBook } from '../../src/io/book-file.ts';
+import { resolveFixedLines } from '../fixtures/fixed-lines.ts';
 import { part, smallBook, value } from './costing-fixtures.ts';
 
 function costed(book: Book, run: number) {
   const ctx = value(prepareCosting(book));
   const v = book.variants[0]!;
-  return value(costVariantRun(ctx, v, resolveFixedLines(book, v), run));
+  return value(costVariantRun(ctx, v, resolveFixedLines(book), run));
 }
 
 function small(priceA = 0.1, priceB = 2): Book {

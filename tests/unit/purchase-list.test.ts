@@ -1,17 +1,18 @@
 // Purchase list: orders grouped by supplier, packs × pack = order quantity, the MOQ and buy-up noted, supplier totals
 // equal to their lines, latest order date = date wanted − lead days.
 import { describe, expect, it } from 'vitest';
-import { costVariantRun, prepareCosting, resolveFixedLines, toCents } from '../../src/domain/costing.ts';
+import { costVariantRun, prepareCosting, toCents } from '../../src/domain/costing.ts';
 import type { Book } from '../../src/domain/book.ts';
 import { daysBefore, isIsoDate } from '../../src/domain/dates.ts';
 import { orderReason, purchaseList } from '../../src/domain/purchase.ts';
+import { resolveFixedLines } from '../fixtures/fixed-lines.ts';
 import { part, smallBook } from './costing-fixtures.ts';
 
 function costed(book: Book, run: number) {
   const ctx = prepareCosting(book);
   if (!ctx.ok) throw new Error(ctx.error);
   const v = book.variants[0]!;
-  const r = costVariantRun(ctx.value, v, resolveFixedLines(book, v), run);
+  const r = costVariantRun(ctx.value, v, resolveFixedLines(book), run);
   if (!r.ok) throw new Error(r.error);
   return r.value;
 }
