@@ -60,3 +60,41 @@ export const PART_RATINGS: readonly NameDoc[] = [
 
 /** Roles a build line can give its part, read by the built-in checks. */
 export const ROLES = ['switch', 'bridge', 'xcap', 'bleeder', 'zener', 'snubber_r', 'snubber_c', 'timer', 'heatsink', 'supply_diode'] as const;
+
+// ---------------------------------------------------------------------------------------------------------------
+// Names the user gives: parameters, part ratings, currencies and other keys of the Book's own records.
+
+/**
+ * Names every JavaScript object carries built in (constructor, toString, __proto__, valueOf…). A record keyed by the
+ * user's names must not use one: a lookup would find the object's own machinery instead of a value, and assigning
+ * `__proto__` would silently drop the entry.
+ */
+export const RESERVED_NAMES: ReadonlySet<string> = new Set(['__proto__', 'prototype', ...Object.getOwnPropertyNames(Object.prototype)]);
+
+/** Why `name` cannot key a user's record (it is a built-in name of every object), or undefined when it can. */
+export function reservedNameProblem(name: string): string | undefined {
+  return RESERVED_NAMES.has(name) ? `“${name}” is a name every object has built in; choose another` : undefined;
+}
+
+/** The shape of a parameter name: a lower-case letter, then lower-case letters, digits and _. */
+export const PARAM_NAME_SHAPE = /^[a-z][a-z0-9_]*$/;
+
+/**
+ * Why `name` cannot be a variant parameter's name, or undefined when it can: the one rule for every way a parameter
+ * is named (the variant form, a grid header, a Book file). Lower-case letters, digits and _, starting with a letter
+ * (formulas use it by this name), and not a built-in name of every object.
+ */
+export function paramNameProblem(name: string): string | undefined {
+  if (!PARAM_NAME_SHAPE.test(name)) {
+    return `“${name}” is not a parameter name. Lower-case letters, digits and _, starting with a letter (formulas use it by this name)`;
+  }
+  return reservedNameProblem(name);
+}
+
+/**
+ * The value a user-keyed record holds under `key`, or undefined: only the record's own entries count, so a key such
+ * as "constructor" never finds what every object inherits.
+ */
+export function ownValue<T>(record: Readonly<Record<string, T>> | undefined, key: string): T | undefined {
+  return record !== undefined && Object.hasOwn(record, key) ? record[key] : undefined;
+}

@@ -1,6 +1,7 @@
 // Tab-separated text as programs put it on the clipboard: cells split by tabs, rows by CRLF, LF or CR; a cell that
 // holds a tab, a line break or a quote comes wrapped in double quotes with its inner quotes doubled. Pure.
 import { grouped } from './format.ts';
+import { PARAM_NAME_SHAPE } from './params.ts';
 
 /** Largest paste we accept; beyond it the text is refused with a message rather than freezing the page. */
 export const TSV_LIMITS = {
@@ -142,7 +143,7 @@ export function matchHeader(row: readonly string[], known: ReadonlySet<string>):
       continue;
     }
     if (known.has(k)) matched += 1;
-    else if (!/^[a-z][a-z0-9_]*$/.test(k)) return undefined;
+    else if (!PARAM_NAME_SHAPE.test(k)) return undefined;
     keys.push(k);
   }
   return matched > 0 ? keys : undefined;

@@ -355,7 +355,7 @@ export class CostingService extends EventTarget {
   private editParams(pairs: [Variant, Variant][]): boolean {
     const family = this.family!;
     for (const [a, b] of pairs) {
-      for (const k of Object.keys(a.params)) if (!(k in b.params)) return false;
+      for (const k of Object.keys(a.params)) if (!Object.hasOwn(b.params, k)) return false;
       for (const [k, v] of Object.entries(b.params)) {
         if (a.params[k] === v) continue;
         if (!family.setParam(b.id, k, v).ok) return false;

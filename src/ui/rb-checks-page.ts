@@ -8,6 +8,7 @@ import { live } from 'lit/directives/live.js';
 import type { Book, Check, ParamValue, Variant } from '../domain/book.ts';
 import { CHECK_STATUS, STATUS_SYMBOL, worstOf } from '../domain/check-status.ts';
 import type { CheckStatus } from '../domain/check-status.ts';
+import { ownValue } from '../domain/params.ts';
 import { formatValue } from '../domain/units.ts';
 import { FamilyWorkbook } from '../engine/family.ts';
 import type { CheckResult } from '../engine/family.ts';
@@ -576,7 +577,7 @@ export class RbChecksPage extends LitElement {
   }
 
   private renderParam(v: Variant, name: string): TemplateResult {
-    const value = v.params[name];
+    const value = ownValue(v.params, name);
     const info = paramInfo(name, value);
     const key = `${v.id}\u0000${name}`;
     const text = this.paramDrafts.get(key) ?? paramText(name, value);
@@ -615,7 +616,7 @@ export class RbChecksPage extends LitElement {
     const v = service?.book.variants.find((x) => x.id === variantId);
     if (!service || !session || !v) return;
     const key = `${v.id}\u0000${name}`;
-    const old = v.params[name];
+    const old = ownValue(v.params, name);
     const info = paramInfo(name, old);
     let value: ParamValue;
     if (info.kind === 'text') {
@@ -635,7 +636,7 @@ export class RbChecksPage extends LitElement {
     const ok = await this.saveOwn(() => {
       const fresh = service.book.variants.find((x) => x.id === variantId);
       if (!fresh) return Promise.resolve({ ok: false, message: `${v.code} was deleted elsewhere; nothing was saved.` });
-      if (fresh.params[name] === value) return Promise.resolve({ ok: true });
+      if (ownValue(fresh.params, name) === value) return Promise.resolve({ ok: true });
       return service.save({ put: { variants: [{ ...fresh, params: { ...fresh.params, [name]: value } }] } });
     });
     if (ok) {

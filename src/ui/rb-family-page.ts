@@ -7,7 +7,7 @@ import type { Book, Variant } from '../domain/book.ts';
 import { newId } from '../domain/book.ts';
 import { STATUS_SYMBOL } from '../domain/check-status.ts';
 import { currencyMoney, grouped } from '../domain/format.ts';
-import { VARIANT_PARAMS } from '../domain/params.ts';
+import { VARIANT_PARAMS, ownValue } from '../domain/params.ts';
 import { guardText } from '../domain/tsv.ts';
 import { formatValue } from '../domain/units.ts';
 import { BookController } from './book-context.ts';
@@ -170,7 +170,7 @@ export class RbFamilyPage extends LitElement {
       { key: 'name', kind: COLUMN_KINDS.name },
     ];
     for (const n of used) {
-      const info = paramInfo(n, book.variants.find((v) => v.params[n] !== undefined)?.params[n]);
+      const info = paramInfo(n, ownValue(book.variants.find((v) => ownValue(v.params, n) !== undefined)?.params, n));
       const std = VARIANT_PARAMS.find((p) => p.name === n);
       const col: GridColumn = { key: n, label: n, num: info.kind === 'number', editable: true };
       if (info.unit) col.unit = info.unit;
@@ -197,7 +197,7 @@ export class RbFamilyPage extends LitElement {
       { text: v.name, copy: guardText(v.name) },
     ];
     for (const n of used) {
-      const p = v.params[n];
+      const p = ownValue(v.params, n);
       const edit = paramText(n, p);
       cells.push({ text: shown(n, p), edit, copy: typeof p === 'string' ? guardText(p) : edit });
     }
@@ -253,7 +253,7 @@ export class RbFamilyPage extends LitElement {
     if (pending) this.queueSync(costing);
     const variants = [...book.variants].sort((a, b) => a.code.localeCompare(b.code));
     this.order = variants;
-    const used = paramNames(book).filter((n) => variants.some((v) => v.params[n] !== undefined));
+    const used = paramNames(book).filter((n) => variants.some((v) => ownValue(v.params, n) !== undefined));
     const runs = book.settings.runSizes;
     const currency = book.settings.baseCurrency;
     const { grid, sig: colSig } = this.columns(book, runs, currency, used);
@@ -629,9 +629,9 @@ export class RbFamilyPage extends LitElement {
         ${group('parameters')}
         ${Object.keys(d.params).map((n) => {
           const std = VARIANT_PARAMS.find((p) => p.name === n);
-          const info = paramInfo(n, e.variant?.params[n]);
+          const info = paramInfo(n, ownValue(e.variant?.params, n));
           const hint = std ? `${std.doc}${std.unit ? ` (${std.unit})` : ''}` : info.unit ? `(${info.unit})` : 'a parameter of this Book';
-          return field({ name: `param:${n}`, label: n, value: d.params[n] ?? '', problem: e.problems[`param:${n}`], hint, onInput: (v) => setParam(n, v) });
+          return field({ name: `param:${n}`, label: n, value: ownValue(d.params, n) ?? '', problem: e.problems[`param:${n}`], hint, onInput: (v) => setParam(n, v) });
         })}
         ${group('a parameter of your own')}
         ${field({

@@ -2,7 +2,7 @@
 // each value is read and checked exactly as the variant form does (record-forms), and a paste is refused whole with
 // the row and column of the first problem. Pure (no DOM), so it is tested in Node.
 import type { Book, Variant } from '../domain/book.ts';
-import { MAX_STEPS, VARIANT_PARAMS } from '../domain/params.ts';
+import { MAX_STEPS, VARIANT_PARAMS, paramNameProblem } from '../domain/params.ts';
 import { matchHeader, unguardText } from '../domain/tsv.ts';
 import type { VariantDraft } from './record-forms.ts';
 import { validateVariant } from './record-forms.ts';
@@ -20,8 +20,12 @@ export interface FamilyColumn {
 /** Most rows one paste may bring. */
 export const MAX_PASTE_ROWS = 5000;
 
-const PARAM_NAME = /^[a-z][a-z0-9_]*$/;
 const CODE_CHARS = /^[A-Za-z0-9][A-Za-z0-9._/-]*$/;
+
+/** Column key → cell text, with no inherited keys: a column named like an object's built-ins stays a plain entry. */
+function cellTexts(): Record<string, string> {
+  return Object.create(null) as Record<string, string>;
+}
 
 export type VariantEdit = { ok: true; record: Variant } | { ok: false; key: string; message: string };
 
@@ -33,9 +37,9 @@ export function editVariant(book: Book, variant: Variant | undefined, texts: Rea
   const params: Record<string, string> = {};
   for (const [k, t] of Object.entries(texts)) {
     if (k === 'code' || k === 'name' || k === 'notes') continue;
-    if (!PARAM_NAME.test(k)) {
-      return { ok: false, key: k, message: `“${k}” is not a parameter name: lower-case letters, digits and _, starting with a letter` };
-    }
+    // A name the rule refuses may still be blanked, so a Book that already holds one can be put right.
+    const problem = t.trim() === '' ? undefined : paramNameProblem(k);
+    if (problem !== undefined) return { ok: false, key: k, message: problem };
     params[k] = t;
   }
   const code = texts.code ?? variant?.code ?? '';
@@ -159,7 +163,7 @@ export function planPaste(book: Book, target: PasteTarget, input: readonly (read
   let edited = 0;
   for (let i = 0; i < rows.length; i++) {
     const cells = rows[i]!;
-    const texts: Record<string, string> = {};
+    const texts = cellTexts();
     keys.forEach((k, j) => {
       if (k !== undefined && j < cells.length) texts[k] = cells[j]!;
     });
@@ -209,7 +213,7 @@ export function planClear(book: Book, target: PasteTarget, newId: () => string):
   for (let r = target.row; r <= Math.min(target.lastRow, target.order.length - 1); r++) {
     const v = book.variants.find((x) => x.id === target.order[r]!.id);
     if (!v) continue;
-    const texts: Record<string, string> = {};
+    const texts = cellTexts();
     for (const k of keys) texts[k] = '';
     const e = editVariant(book, v, texts, newId);
     if (!e.ok) return { ok: false, message: `${v.code}, ${e.key}: ${e.message}. Nothing was changed.` };

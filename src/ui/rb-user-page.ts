@@ -7,7 +7,7 @@ import { customElement, property, state } from 'lit/decorators.js';
 import { live } from 'lit/directives/live.js';
 import type { Book, NotebookPage, NotebookSection } from '../domain/book.ts';
 import { formatValue } from '../domain/units.ts';
-import { NOTEBOOK_LIMITS, cellAddress, evaluateNotebookPage, sectionSheetName } from '../engine/notebook.ts';
+import { CELL_KIND, NOTEBOOK_LIMITS, cellAddress, evaluateNotebookPage, notebookCellProblem, sectionSheetName } from '../engine/notebook.ts';
 import type { NotebookCell, NotebookResult } from '../engine/notebook.ts';
 import { BookController } from './book-context.ts';
 import { PAGES } from './pages.ts';
@@ -17,7 +17,8 @@ import './rb-formula-input.ts';
 import './rb-mains-caution.ts';
 
 type Selected = { section: number; row: number; col: number };
-type SectionEdit = { section: number; heading: string; text: string; problem?: string };
+/** `from`: the page as the person saw it when the form opened; the save is made from it, so the Book service merges. */
+type SectionEdit = { section: number; heading: string; text: string; problem?: string; from?: NotebookPage };
 
 /** How a computed cell reads: numbers to 6 figures, truth values as words, errors as their code. */
 export function cellText(c: NotebookCell): string {
@@ -33,6 +34,30 @@ export function cellText(c: NotebookCell): string {
   return v;
 }
 
+/**
+ * What the page shows when its grids cannot be calculated at all: each cell as typed, each formula with the reason,
+ * so the page and its controls stay usable.
+ */
+function uncalculatedPage(page: NotebookPage, why: string): NotebookResult {
+  return {
+    sections: page.sections.map((s, i) => ({
+      sheet: sectionSheetName(i),
+      grid: s.grid.map((row) =>
+        row.map((input): NotebookCell => {
+          const t = input.trim();
+          if (t === '') return { input, kind: CELL_KIND.empty, value: null };
+          if (t.startsWith('=')) return { input, kind: CELL_KIND.formula, value: null, error: '#ERROR!', message: why };
+          return { input, kind: CELL_KIND.value, value: input };
+        }),
+      ),
+    })),
+  };
+}
+
+function gridCount(page: NotebookPage): number {
+  return page.sections.filter((s) => s.grid.length > 0).length;
+}
+
 /** A grid widened to `cols` columns, every row the same length. */
 function squared(grid: string[][], cols: number): string[][] {
   return grid.map((r) => Array.from({ length: cols }, (_, i) => r[i] ?? ''));
@@ -41,6 +66,8 @@ function squared(grid: string[][], cols: number): string[][] {
 function width(grid: string[][]): number {
   return grid.reduce((m, r) => Math.max(m, r.length), 0);
 }
+
+const GRIDS_FULL = `A page holds at most ${NOTEBOOK_LIMITS.gridSections} grids; start another page for more. Nothing was saved.`;
 
 const BOOK_NAMES: readonly NameHint[] = [
   { name: 'Section1', doc: 'another section’s grid: Section2!B3 reads cell B3 of the second section', kind: 'name' },
@@ -190,6 +217,8 @@ export class RbUserPage extends LitElement {
   @state() private message: string | undefined;
   private readonly books = new BookController(this);
   private writes: Promise<unknown> = Promise.resolve();
+  /** The page as shown when typing in the selected cell began: the cell's save is made from it. */
+  private cellFrom: NotebookPage | undefined;
   private evaluated: { book: Book; page: NotebookPage; result: NotebookResult } | undefined;
 
   private page(book: Book): NotebookPage | undefined {
@@ -200,7 +229,13 @@ export class RbUserPage extends LitElement {
   private result(book: Book, page: NotebookPage): NotebookResult {
     const e = this.evaluated;
     if (e && e.book === book && e.page === page) return e.result;
-    const result = evaluateNotebookPage(book, page);
+    let result: NotebookResult;
+    try {
+      result = evaluateNotebookPage(book, page);
+    } catch (e) {
+      // Evaluation answers bad cells in the cells; should it fail as a whole, the page still shows with its controls.
+      result = uncalculatedPage(page, `the page could not be calculated: ${e instanceof Error ? e.message : String(e)}`);
+    }
     this.evaluated = { book, page, result };
     return result;
   }
@@ -218,12 +253,14 @@ export class RbUserPage extends LitElement {
 
   /**
    * Saves a change to this page, one after another, each made from the page as stored when it runs (so quick edits
-   * never reuse a revision). `change` returns the new page, or a message and nothing is saved.
+   * never reuse a revision). `change` returns the new page, or a message and nothing is saved. An edit that sets
+   * what the person typed is made `from` the page as they saw it: the Book service merges it with changes saved
+   * since (here or in another tab) field by field, or refuses it naming the field both changed.
    */
-  private edit(change: (p: NotebookPage) => NotebookPage | string): Promise<boolean> {
+  private edit(change: (p: NotebookPage) => NotebookPage | string, from?: NotebookPage): Promise<boolean> {
     const run = this.writes.then(async () => {
       const service = this.books.service;
-      const page = service ? this.page(service.book) : undefined;
+      const page = from ?? (service ? this.page(service.book) : undefined);
       if (!service || !page) {
         this.message = 'This page is no longer in the Book; nothing was saved.';
         return false;
@@ -234,7 +271,7 @@ export class RbUserPage extends LitElement {
         return false;
       }
       const r = await service.save({ put: { pages: [next] } });
-      this.message = r.ok ? undefined : r.message;
+      this.message = r.ok ? r.merged : r.message;
       return r.ok;
     });
     this.writes = run;
@@ -310,9 +347,15 @@ export class RbUserPage extends LitElement {
             ${s.text ? html`<p class="text">${s.text}</p>` : ''}`}
       ${s.grid.length > 0 ? this.renderGrid(s, i, grid) : ''}
       <div class="tools">
-        ${editing ? '' : html`<button type="button" class="quiet" @click=${() => (this.sectionEdit = { section: i, heading: s.heading, text: s.text })}>edit heading and text</button>`}
+        ${editing ? '' : html`<button type="button" class="quiet" @click=${() => (this.sectionEdit = { section: i, heading: s.heading, text: s.text, from: this.page(this.books.book!) })}>edit heading and text</button>`}
         ${s.grid.length === 0
-          ? html`<button type="button" class="quiet" @click=${() => void this.edit(this.withSection(i, (x) => ({ ...x, grid: [['', ''], ['', '']] })))}>add a grid</button>`
+          ? html`<button
+              type="button"
+              class="quiet"
+              @click=${() => void this.edit((p) => (gridCount(p) >= NOTEBOOK_LIMITS.gridSections ? GRIDS_FULL : this.withSection(i, (x) => ({ ...x, grid: [['', ''], ['', '']] }))(p)))}
+            >
+              add a grid
+            </button>`
           : html`<button type="button" class="quiet" @click=${() => void this.resize(i, 1, 0)}>+ row</button>
               <button type="button" class="quiet" @click=${() => void this.resize(i, 0, 1)}>+ column</button>
               <button type="button" class="quiet" @click=${() => void this.resize(i, -1, 0)}>− last row</button>
@@ -344,7 +387,10 @@ export class RbUserPage extends LitElement {
                 .value=${this.cellDraft ?? raw}
                 .names=${BOOK_NAMES}
                 placeholder="a value, text, or =formula"
-                @formula-input=${(e: CustomEvent<{ value: string }>) => (this.cellDraft = e.detail.value)}
+                @formula-input=${(e: CustomEvent<{ value: string }>) => {
+                  if (this.cellDraft === undefined) this.cellFrom = this.books.book && this.page(this.books.book);
+                  this.cellDraft = e.detail.value;
+                }}
                 @formula-commit=${(e: CustomEvent<{ value: string }>) => void this.commitCell(e.detail.value)}
               ></rb-formula-input>
               <span class="muted">Enter keeps it</span>
@@ -393,7 +439,8 @@ export class RbUserPage extends LitElement {
     const sel = this.selected;
     if (!sel || this.cellDraft === undefined) return;
     this.cellDraft = undefined;
-    await this.edit(
+    await this.edit((p) =>
+      notebookCellProblem(p, sel.section, sel.row, sel.col, value) ??
       this.withSection(sel.section, (s) => {
         const cols = Math.max(width(s.grid), sel.col + 1);
         const grid = squared(s.grid, cols);
@@ -401,7 +448,8 @@ export class RbUserPage extends LitElement {
         if ((grid[sel.row]![sel.col] ?? '') === value) return s;
         grid[sel.row]![sel.col] = value;
         return { ...s, grid };
-      }),
+      })(p),
+      this.cellFrom,
     );
   }
 
@@ -436,10 +484,13 @@ export class RbUserPage extends LitElement {
   }
 
   private async addSection(withGrid: boolean): Promise<void> {
-    await this.edit((p) => ({
-      ...p,
-      sections: [...p.sections, { heading: withGrid ? 'Calculation' : 'Notes', text: '', grid: withGrid ? [['', ''], ['', '']] : [] }],
-    }));
+    await this.edit((p) => {
+      if (withGrid && gridCount(p) >= NOTEBOOK_LIMITS.gridSections) return GRIDS_FULL;
+      return {
+        ...p,
+        sections: [...p.sections, { heading: withGrid ? 'Calculation' : 'Notes', text: '', grid: withGrid ? [['', ''], ['', '']] : [] }],
+      };
+    });
   }
 
   private async saveSection(e: Event): Promise<void> {
@@ -450,7 +501,7 @@ export class RbUserPage extends LitElement {
       this.sectionEdit = { ...ed, problem: 'A section needs a heading.' };
       return;
     }
-    const ok = await this.edit(this.withSection(ed.section, (s) => ({ ...s, heading: ed.heading.trim(), text: ed.text })));
+    const ok = await this.edit(this.withSection(ed.section, (s) => ({ ...s, heading: ed.heading.trim(), text: ed.text })), ed.from);
     if (ok) this.sectionEdit = undefined;
   }
 

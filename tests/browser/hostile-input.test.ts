@@ -6,7 +6,7 @@ import type { Book } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { serializeBook } from '../../src/io/book-file.ts';
 import { PAGES, notebookRoute } from '../../src/ui/pages.ts';
-import { AppUnderTest, pageLoaded, railTo } from './harness.ts';
+import { AppUnderTest, pageLoaded, railTo, readerText } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 
@@ -132,5 +132,60 @@ describe('hostile text in a Book', () => {
     });
     expect(ran).toBeUndefined();
     expect(errors.some((e) => /Content Security Policy/.test(e))).toBe(true);
+  });
+});
+
+describe('hostile formulas and names', () => {
+  it('a notebook page whose cells double text shows the error in the cell and keeps its controls', async () => {
+    const session = await app.start();
+    const { page, errors } = session;
+    await page.goto(`${baseUrl}#/parts`);
+    await page.locator('[data-testid="parts-table"]').waitFor();
+    const book = demoBook();
+    // A1 = "xx", each cell below joins the one above to itself: 2^41 characters at the end, were nothing to stop it.
+    const rows = [['xx'], ...Array.from({ length: 40 }, (_, i) => [`=A${i + 1}&A${i + 1}`])];
+    book.pages = [{ id: 'page_doubling', rev: 0, title: 'Doubling', position: 0, sections: [{ heading: 'Growth', text: '', grid: rows }] }];
+    await openFile(page, 'doubling.rungbook.json', serializeBook(book));
+    await railTo(page, notebookRoute('page_doubling'));
+    await page.locator('main h1', { hasText: 'Doubling' }).waitFor();
+    const cell = (address: string) => page.locator(`rb-user-page button[data-cell="${address}"]`);
+    // 2 · 2^13 = 16,384 characters in A14; A15 would pass the 32,767-character limit.
+    await expect.poll(async () => readerText(await cell('A15').textContent())).toBe('#VALUE!');
+    expect(await cell('A15').getAttribute('title')).toMatch(/the result would be 32,768 characters long/);
+    expect(readerText(await cell('A41').textContent())).toBe('#VALUE!');
+    expect(await cell('A14').getAttribute('aria-label')).toMatch(/^A14: x{16384}$/);
+
+    // The page's own controls still work: it can be deleted.
+    await page.getByRole('button', { name: 'delete page' }).click();
+    await page.getByRole('button', { name: 'Delete the page' }).click();
+    await expect.poll(() => page.locator(`nav a[href="${notebookRoute('page_doubling')}"]`).count()).toBe(0);
+    expect(errors).toEqual([]);
+  });
+
+  it('the Family page refuses a pasted constructor column with a message and keeps working', async () => {
+    const { page, errors } = await app.open('#/family');
+    const grid = '[data-testid="family-table"]';
+    await page.locator(`${grid} tbody tr`).first().waitFor();
+    const demo = demoBook();
+    await page.locator(grid).evaluate((el, t) => {
+      const data = new DataTransfer();
+      data.setData('text/plain', t);
+      el.dispatchEvent(new ClipboardEvent('paste', { clipboardData: data, bubbles: true, cancelable: true, composed: true }));
+    }, 'code\tname\tconstructor\r\nPX-1\tOne\t5\r\n');
+    await expect
+      .poll(async () => readerText(await page.locator('rb-grid .message').textContent()))
+      .toBe('Row 1 of the paste (a new variant), constructor: “constructor” is a name every object has built in; choose another. Nothing was pasted.');
+    expect(await page.locator(`${grid} tbody tr`).count()).toBe(demo.variants.length);
+
+    // The page still draws and works: a sound paste into the same grid goes in.
+    await page.locator(grid).evaluate((el, t) => {
+      const data = new DataTransfer();
+      data.setData('text/plain', t);
+      el.dispatchEvent(new ClipboardEvent('paste', { clipboardData: data, bubbles: true, cancelable: true, composed: true }));
+    }, 'code\tname\tload_w\r\nPX-1\tOne\t60\r\n');
+    await expect.poll(() => page.locator(`${grid} tbody tr`).count()).toBe(demo.variants.length + 1);
+    const keys = await page.locator(`${grid} thead th`).evaluateAll((ths) => ths.map((th) => th.getAttribute('data-key')));
+    expect(keys).not.toContain('constructor');
+    expect(errors).toEqual([]);
   });
 });

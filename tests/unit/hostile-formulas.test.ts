@@ -6,13 +6,18 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { emptyBook } from '../../src/domain/book.ts';
-import type { Book, Check, NotebookPage, NotebookSection } from '../../src/domain/book.ts';
+import type { Book, Check, NotebookPage, NotebookSection, Variant } from '../../src/domain/book.ts';
+import { RESERVED_NAMES, ownValue, paramNameProblem, reservedNameProblem } from '../../src/domain/params.ts';
+import { matchHeader, parseTsv } from '../../src/domain/tsv.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { createEngine } from '../../src/engine/create.ts';
 import { evaluateChecks } from '../../src/engine/family.ts';
 import { evaluateFormula, guardFormula } from '../../src/engine/formula-guard.ts';
 import { MAX_TEXT_LENGTH } from '../../src/engine/functions/text.ts';
 import { NOTEBOOK_LIMITS, evaluateNotebookPage, notebookCellProblem } from '../../src/engine/notebook.ts';
+import { planClear, planPaste } from '../../src/ui/rb-grid-edits.ts';
+import type { FamilyColumn, PasteTarget } from '../../src/ui/rb-grid-edits.ts';
+import { validateVariant, variantDraft } from '../../src/ui/record-forms.ts';
 import { runCli, writeBook } from './cli-helpers.ts';
 
 /** The probe's formula: thirty SUBSTITUTEs, each doubling "xx" (2^31 characters at the end), in 634 characters. */
@@ -199,5 +204,80 @@ describe('a notebook page cannot blank itself or freeze the app', () => {
     expect(notebookCellProblem(crowded, 2, 0, 26, '5')).toMatch(/at most 5,000 filled cells/);
     // Changing a filled cell of a full page is still fine.
     expect(notebookCellProblem(crowded, 0, 0, 0, '5')).toBeUndefined();
+  });
+});
+
+describe('parameter names that every object has built in', () => {
+  const PROTOTYPE_NAMES = ['constructor', 'toString', '__proto__', 'hasOwnProperty', 'valueOf', 'prototype', 'isPrototypeOf', 'toLocaleString'];
+
+  function familyBook(): Book {
+    const variants: Variant[] = [
+      { id: 'v_a', rev: 1, code: 'A-40', name: 'Forty', params: { steps: 3, load_w: 40 } },
+      { id: 'v_b', rev: 1, code: 'B-60', name: 'Sixty', params: { steps: 4, load_w: 60 } },
+    ];
+    return { ...emptyBook(), variants };
+  }
+  const columns: FamilyColumn[] = [
+    { key: 'code', kind: 'code' },
+    { key: 'name', kind: 'name' },
+    { key: 'steps', kind: 'param' },
+    { key: 'load_w', kind: 'param' },
+  ];
+  const target = (b: Book, row: number, col: number): PasteTarget => ({ order: b.variants, columns, row, col, lastRow: row, lastCol: col });
+  const rows = (text: string): string[][] => {
+    const r = parseTsv(text);
+    if (!r.ok) throw new Error(r.error);
+    return r.rows;
+  };
+  const ids = (): string => 'var_new';
+
+  it('one rule names every refusal: shape, and the built-in names of every object', () => {
+    for (const name of PROTOTYPE_NAMES) expect(paramNameProblem(name), name).toBeDefined();
+    expect(paramNameProblem('constructor')).toBe('“constructor” is a name every object has built in; choose another');
+    expect(paramNameProblem('prototype')).toContain('built in');
+    expect(paramNameProblem('Load W')).toBe('“Load W” is not a parameter name. Lower-case letters, digits and _, starting with a letter (formulas use it by this name)');
+    for (const name of ['load_w', 'r_s1', 'my_param2', 'constructor_v']) expect(paramNameProblem(name), name).toBeUndefined();
+    for (const name of Object.getOwnPropertyNames(Object.prototype)) expect(RESERVED_NAMES.has(name), name).toBe(true);
+    expect(reservedNameProblem('EUR')).toBeUndefined();
+    expect(reservedNameProblem('__proto__')).toContain('built in');
+  });
+
+  it('a lookup finds only what the record itself holds', () => {
+    const params: Record<string, number> = { load_w: 40 };
+    for (const name of PROTOTYPE_NAMES) expect(ownValue(params, name), name).toBeUndefined();
+    expect(ownValue(params, 'load_w')).toBe(40);
+    expect(ownValue(undefined, 'load_w')).toBeUndefined();
+  });
+
+  it('a pasted header naming constructor is refused whole with the rule’s message, and nothing changes', () => {
+    const b = familyBook();
+    const before = structuredClone(b);
+    const plan = planPaste(b, target(b, 0, 0), rows('code\tconstructor\r\nA-40\t5\r\n'), ids);
+    expect(plan).toEqual({ ok: false, message: 'Row 1 of the paste (A-40), constructor: “constructor” is a name every object has built in; choose another. Nothing was pasted.' });
+    expect(b).toEqual(before);
+    // A header cell with a capital letter is no parameter name, so the row reads as data and lands in code and name.
+    expect(matchHeader(['code', 'toString'], new Set(['code']))).toEqual(['code', 'tostring']);
+  });
+
+  it('the variant form refuses a new parameter named constructor', () => {
+    const b = familyBook();
+    const draft = { ...variantDraft(b, b.variants[0]), newParamName: 'constructor', newParamValue: '5' };
+    const r = validateVariant(draft, b, b.variants[0], ids);
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.problems.newParamName).toBe('“constructor” is a name every object has built in; choose another');
+  });
+
+  it('a Book already holding a constructor parameter reads as blank where a variant lacks it, and the column can be cleared', () => {
+    const b = familyBook();
+    b.variants[0] = { ...b.variants[0]!, params: { ...b.variants[0]!.params, constructor: 5 } };
+    // The other variant has no such parameter: its field is blank, not the text of a function.
+    expect(variantDraft(b, b.variants[1]).params.constructor).toBe('');
+    expect(variantDraft(b, b.variants[0]).params.constructor).toBe('5');
+    const draft = variantDraft(b, b.variants[1]);
+    expect(validateVariant(draft, b, b.variants[1], ids)).toMatchObject({ ok: true, record: { params: { steps: 4, load_w: 60 } } });
+    const wide: PasteTarget = { order: b.variants, columns: [...columns, { key: 'constructor', kind: 'param' }], row: 0, col: 4, lastRow: 1, lastCol: 4 };
+    const cleared = planClear(b, wide, ids);
+    expect(cleared.ok).toBe(true);
+    if (cleared.ok) for (const c of cleared.changes) expect(Object.hasOwn(c.after.params, 'constructor')).toBe(false);
   });
 });
