@@ -30,7 +30,10 @@ export interface ImportPricesOptions {
   onRows?: (rows: number) => void;
 }
 
-export interface ImportSummary {
+/** The plan's counts, as they are reported after an import. */
+type PlanCounts = Pick<ImportPlan, 'matchedByMpn' | 'matchedByCode' | 'newQuotes' | 'supersededQuotes' | 'newParts' | 'skippedOffers'>;
+
+export interface ImportSummary extends PlanCounts {
   fileName: string;
   supplier: string;
   encoding: string;
@@ -40,12 +43,6 @@ export interface ImportSummary {
   headerLine: number;
   dataRows: number;
   columns: Record<string, string>;
-  matchedByMpn: number;
-  matchedByCode: number;
-  newQuotes: number;
-  supersededQuotes: number;
-  newParts: number;
-  skippedOffers: number;
   rejectedOffers: number;
   unmatched: { line: number; mpn: string; supplierCode: string; decision: UnmatchedDecision; note?: string }[];
   notes: string[];
