@@ -8,6 +8,7 @@ import type { Book, ColumnMapping, Supplier } from '../domain/book.ts';
 import { newId } from '../domain/book.ts';
 import { todayIso } from '../domain/dates.ts';
 import { grouped } from '../domain/format.ts';
+import type { EncodingChoice } from '../io/price-decode.ts';
 import type { Decimal, DateOrder, PriceUnit } from '../io/price-map.ts';
 import { knownCurrencies } from '../io/price-import.ts';
 import { planImport } from '../io/price-plan.ts';
@@ -48,6 +49,8 @@ interface Source {
 }
 
 interface Overrides {
+  /** Unset: found automatically (UTF-8, else Windows-1252, line by line when a UTF-8 file has a few that are not). */
+  encoding?: EncodingChoice;
   decimal?: Decimal;
   delimiter?: Delimiter;
   priceUnit?: PriceUnit;
@@ -348,6 +351,11 @@ export class RbImportPage extends LitElement {
         <h2 id="import-unreadable-h">The file could not be read</h2>
         <p class="why">Nothing can be imported from it. Check it is the supplier’s price list saved as CSV or text.</p>
         ${this.renderProblems(a.problems)}
+        ${this.overrides.encoding
+          ? html`<button type="button" data-testid="encoding-auto" @click=${() => this.reanalyse({ overrides: { ...this.overrides, encoding: undefined } })}>
+              Read it again with the encoding found automatically
+            </button>`
+          : ''}
       </section>`;
     }
     const plan = this.previewPlan(book, supplier, a, this.source.name);
@@ -404,7 +412,14 @@ export class RbImportPage extends LitElement {
       <dl class="found overrides" data-testid="file-format">
         <dt>encoding</dt>
         <dd data-testid="found-encoding">${a.encoding ?? 'unknown'}</dd>
-        <dd></dd>
+        <dd>
+          ${select<EncodingChoice>(
+            'ov-encoding',
+            o.encoding,
+            [['utf-8', 'UTF-8'], ['windows-1252', 'Windows-1252']] as const,
+            (v) => setOverride({ encoding: v }),
+          )}
+        </dd>
         <dt>delimiter</dt>
         <dd data-testid="found-delimiter">${a.delimiterName ?? 'unknown'}${a.headerLine > 1 ? `; header on line ${a.headerLine}` : ''}</dd>
         <dd>
@@ -432,6 +447,7 @@ export class RbImportPage extends LitElement {
         <dd>${a.dateOrder === 'dmy' ? 'day before month (31/12/2026)' : 'month before day (12/31/2026)'} where written with slashes</dd>
         <dd>${select<DateOrder>('ov-date-order', o.dateOrder, [['dmy', 'day first'], ['mdy', 'month first']] as const, (v) => setOverride({ dateOrder: v }))}</dd>
       </dl>
+      ${a.encodingWarning ? html`<p class="warn" role="status" data-testid="encoding-warning">⚠ ${a.encodingWarning}</p>` : ''}
       ${a.notes.length ? html`<ul class="notes">${a.notes.map((n) => html`<li>${n}</li>`)}</ul>` : ''}
     </section>`;
   }
@@ -778,6 +794,7 @@ export class RbImportPage extends LitElement {
     const mapping = this.mappingForAnalysis(supplier);
     if (mapping) options.mapping = mapping;
     const o = this.overrides;
+    if (o.encoding) options.encoding = o.encoding;
     if (o.decimal) options.decimal = o.decimal;
     if (o.delimiter) options.delimiter = o.delimiter;
     if (o.priceUnit) options.priceUnit = o.priceUnit;

@@ -15,7 +15,11 @@ import { decodePriceBytes, ENCODINGS } from '../../src/io/price-decode.ts';
 import { runCosting } from '../../src/io/run-export.ts';
 import { runCli, writeBook } from './cli-helpers.ts';
 import { value } from './costing-fixtures.ts';
-import { analyse, SUPPLIER_NAME, testBook } from './import-helpers.ts';
+import { handlePriceWorkerRequest } from '../../src/io/price-worker.ts';
+import type { PriceWorkerMessage } from '../../src/io/price-worker.ts';
+import { runPriceImportInWorker } from '../../src/io/price-worker-client.ts';
+import type { PriceWorkerLike } from '../../src/io/price-worker-client.ts';
+import { analyse, BASE_OPTIONS, SUPPLIER_NAME, testBook } from './import-helpers.ts';
 
 const ROOT = resolve(__dirname, '../..');
 let dir = '';
@@ -257,6 +261,26 @@ describe('a UTF-8 price file with a few Windows-1252 lines', () => {
     const chosen = await analyse(mixed, { encoding: 'utf-8' });
     expect(chosen.readable).toBe(false);
     expect(chosen.problems[0]!.reason).toMatch(/line 3 is not valid UTF-8/);
+  });
+
+  it('reaches the app the same way: its worker honours the encoding chosen on the import page', async () => {
+    const worker = (): PriceWorkerLike => {
+      const w: PriceWorkerLike = {
+        onmessage: null,
+        onerror: null,
+        postMessage(message) {
+          void handlePriceWorkerRequest(structuredClone(message), (m) => w.onmessage?.({ data: structuredClone(m) } as MessageEvent<PriceWorkerMessage>));
+        },
+        terminate: () => undefined,
+      };
+      return w;
+    };
+    const auto = await runPriceImportInWorker(mixed.slice(), BASE_OPTIONS, undefined, undefined, worker);
+    expect(auto.encodingWarning).toMatch(/line 3/);
+    expect(auto.offers.map((o) => o.description)).toContain('Résistance neuve');
+    const utf8Only = await runPriceImportInWorker(mixed.slice(), { ...BASE_OPTIONS, encoding: 'utf-8' }, undefined, undefined, worker);
+    expect(utf8Only.readable).toBe(false);
+    expect(utf8Only.problems[0]!.reason).toMatch(/line 3 is not valid UTF-8/);
   });
 
   it('warns in the CLI with the line, imports the right letters, and refuses under --encoding utf-8', async () => {
