@@ -18,6 +18,8 @@ export const MAX_BOOK_FILE_BYTES = 256 * 1024 * 1024;
 /** How many problems a rejected file reports (the rest are counted). */
 export const MAX_REPORTED_PROBLEMS = 20;
 
+const MB = 1024 * 1024;
+
 export type BookFileProblem = SchemaProblem;
 
 export type BookFileResult =
@@ -32,20 +34,68 @@ export type BookFileResult =
  * the rest sorted, so a file changes line by line as the Book does.
  */
 export function serializeBook(book: Book, opts: { savedAt?: string } = {}): string {
-  const out: string[] = [
+  const out: string[] = [];
+  for (const piece of bookFilePieces(book, opts)) out.push(piece);
+  return out.join('');
+}
+
+/**
+ * The Book file text in pieces (the header, then one piece per record, then the closing lines) that join to
+ * exactly serializeBook's text: the app writes a large Book a slice at a time between frames (serializeBookSliced).
+ */
+export function* bookFilePieces(book: Book, opts: { savedAt?: string } = {}): Generator<string, void, undefined> {
+  yield [
     '{',
     `  "format": ${JSON.stringify(BOOK_FORMAT)},`,
     `  "version": ${BOOK_VERSION},`,
     `  "savedAt": ${JSON.stringify(opts.savedAt ?? new Date().toISOString())},`,
-    `  "settings": ${JSON.stringify(ordered(book.settings))}${COLLECTIONS.length ? ',' : ''}`,
-  ];
-  COLLECTIONS.forEach((c, ci) => {
-    const records = (book[c] as object[]).map((r) => JSON.stringify(ordered(c === 'quotes' ? encodeQuote(r as Quote) : r)));
+    `  "settings": ${JSON.stringify(ordered(book.settings))}${COLLECTIONS.length ? ',' : ''}\n`,
+  ].join('\n');
+  for (const [ci, c] of COLLECTIONS.entries()) {
+    const records = book[c] as object[];
     const end = ci < COLLECTIONS.length - 1 ? ',' : '';
-    out.push(records.length ? `  ${JSON.stringify(c)}: [\n    ${records.join(',\n    ')}\n  ]${end}` : `  ${JSON.stringify(c)}: []${end}`);
-  });
-  out.push('}', '');
-  return out.join('\n');
+    if (records.length === 0) {
+      yield `  ${JSON.stringify(c)}: []${end}\n`;
+      continue;
+    }
+    yield `  ${JSON.stringify(c)}: [\n`;
+    for (let i = 0; i < records.length; i++) {
+      const r = records[i]!;
+      yield `    ${JSON.stringify(ordered(c === 'quotes' ? encodeQuote(r as Quote) : r))}${i < records.length - 1 ? ',' : ''}\n`;
+    }
+    yield `  ]${end}\n`;
+  }
+  yield '}\n';
+}
+
+/** Why a Book written as `bytes` bytes could not be opened again, or undefined when it can. */
+export function bookFileWriteProblem(bytes: number): string | undefined {
+  if (bytes <= MAX_BOOK_FILE_BYTES) return undefined;
+  return `this Book would be a ${(bytes / MB).toFixed(1)} MB file (${bytes.toLocaleString('en-GB')} bytes); a Book file may be at most ${MAX_BOOK_FILE_BYTES / MB} MB, so it could not be opened again. Nothing was written.`;
+}
+
+/**
+ * serializeBook's text as pieces, made a slice at a time: after each `sliceMs` of work it awaits `pause` (the app
+ * lets the page draw and answer clicks there). The pieces join to exactly serializeBook's text.
+ */
+export async function serializeBookSliced(
+  book: Book,
+  opts: { savedAt?: string; sliceMs?: number; pause?: () => Promise<void> } = {},
+): Promise<string[]> {
+  const pause = opts.pause ?? ((): Promise<void> => new Promise((resolve) => setTimeout(resolve, 0)));
+  const sliceMs = opts.sliceMs ?? 12;
+  const pieces: string[] = [];
+  let sliceStart = performance.now();
+  let n = 0;
+  for (const piece of bookFilePieces(book, opts.savedAt === undefined ? {} : { savedAt: opts.savedAt })) {
+    pieces.push(piece);
+    // Reading the clock every 64 records keeps its cost out of the figure.
+    if ((++n & 63) === 0 && performance.now() - sliceStart > sliceMs) {
+      await pause();
+      sliceStart = performance.now();
+    }
+  }
+  return pieces;
 }
 
 function encodeQuote(q: Quote): unknown {
@@ -79,8 +129,6 @@ export function bookFileName(book: Book): string {
 
 // ---------------------------------------------------------------------------------------------------------------
 // Reading
-
-const MB = 1024 * 1024;
 
 /** A size check to run before reading a file at all (the CLI and the app know the size up front). */
 export function bookFileSizeProblem(bytes: number): BookFileProblem | undefined {

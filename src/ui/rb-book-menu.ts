@@ -1,10 +1,13 @@
 // The Book menu: start an empty Book, put the demo Book back, download the Book as a file, open a Book file.
 // Anything that replaces the Book asks first; a file with problems is refused whole and the Book stays as it was.
 import { LitElement, css, html } from 'lit';
-import { customElement, query } from 'lit/decorators.js';
+import { customElement, query, state } from 'lit/decorators.js';
 import type { Book } from '../domain/book.ts';
-import { bookFileName, bookFileSizeProblem, parseBookFile, serializeBook } from '../io/book-file.ts';
+import { bookFileSizeProblem } from '../io/book-file.ts';
+import { openBookFileInWorker } from '../io/book-worker-client.ts';
+import type { BookFileStage } from '../io/book-worker-client.ts';
 import { BookController } from './book-context.ts';
+import { downloadBookFile } from './book-download.ts';
 import type { RbConfirm } from './rb-confirm.ts';
 import './rb-confirm.ts';
 import { pageStyles } from './styles.ts';
@@ -18,6 +21,13 @@ export interface NoticeDetail {
 
 /** How many problems of a refused file are listed; the rest are counted. */
 const PROBLEMS_SHOWN = 8;
+
+const STAGE_TEXT: Record<BookFileStage | 'writing' | 'saving', string> = {
+  reading: 'Reading the Book file…',
+  checking: 'Checking the Book file…',
+  saving: 'Saving the opened Book…',
+  writing: 'Writing the Book file…',
+};
 
 function counts(book: Book): string {
   return `${book.variants.length} variants, ${book.parts.length} parts, ${book.suppliers.length} suppliers, ${book.quotes.length} quotes`;
@@ -58,20 +68,29 @@ export class RbBookMenu extends LitElement {
       input[type='file'] {
         display: none;
       }
+      .busy {
+        margin: 0.3rem 0 0;
+        font-size: 0.85rem;
+        color: var(--rb-accent-ink);
+      }
     `,
   ];
 
   private readonly books = new BookController(this);
   @query('rb-confirm') private confirm!: RbConfirm;
   @query('input[type=file]') private fileInput!: HTMLInputElement;
+  /** What the menu is doing with a Book file, shown while it works (the page stays usable meanwhile). */
+  @state() private busy: BookFileStage | 'writing' | 'saving' | undefined;
 
   override render() {
+    const busy = this.busy !== undefined;
     return html`<ul>
-        <li><button class="item" type="button" @click=${this._onDownload}>Download this Book as a file</button></li>
-        <li><button class="item" type="button" @click=${this._onPickFile}>Open a Book file…</button></li>
-        <li><button class="item" type="button" @click=${this._onEmpty}>Start an empty Book…</button></li>
-        <li><button class="item" type="button" @click=${this._onDemo}>Put the demo Book back…</button></li>
+        <li><button class="item" type="button" ?disabled=${busy} @click=${this._onDownload}>Download this Book as a file</button></li>
+        <li><button class="item" type="button" ?disabled=${busy} @click=${this._onPickFile}>Open a Book file…</button></li>
+        <li><button class="item" type="button" ?disabled=${busy} @click=${this._onEmpty}>Start an empty Book…</button></li>
+        <li><button class="item" type="button" ?disabled=${busy} @click=${this._onDemo}>Put the demo Book back…</button></li>
       </ul>
+      ${busy ? html`<p class="busy" role="status" data-testid="book-file-progress">${STAGE_TEXT[this.busy!]}</p>` : ''}
       <input type="file" accept=".json,application/json" aria-label="Book file to open" @change=${this._onFile} />
       <rb-confirm></rb-confirm>`;
   }
@@ -83,14 +102,18 @@ export class RbBookMenu extends LitElement {
   private async _onDownload(): Promise<void> {
     const service = this.books.service;
     if (!service) return;
-    const book = service.book;
-    const blob = new Blob([serializeBook(book)], { type: 'application/json' });
-    const url = URL.createObjectURL(blob);
-    const a = document.createElement('a');
-    a.href = url;
-    a.download = bookFileName(book);
-    a.click();
-    setTimeout(() => URL.revokeObjectURL(url), 10_000);
+    if (this.busy) return;
+    this.busy = 'writing';
+    let problem: string | undefined;
+    try {
+      problem = await downloadBookFile(service.book);
+    } finally {
+      this.busy = undefined;
+    }
+    if (problem) {
+      this.notify({ tone: 'problem', title: 'The Book was not downloaded', lines: [problem] });
+      return;
+    }
     const result = await service.markExported();
     if (!result.ok) this.notify({ tone: 'problem', title: 'The file was made, but the export date was not saved', lines: [result.message] });
   }
@@ -109,14 +132,18 @@ export class RbBookMenu extends LitElement {
       this.notify({ tone: 'problem', title: `${file.name} was not opened: the Book in this browser is unchanged`, lines: [tooBig.message] });
       return;
     }
-    let text: string;
+    if (this.busy) return;
+    // Reading, JSON.parse and validation run in a worker: the page keeps drawing and shows which stage it is in.
+    this.busy = 'reading';
+    let parsed: Awaited<ReturnType<typeof openBookFileInWorker>>;
     try {
-      text = await file.text();
+      parsed = await openBookFileInWorker(file, (stage) => (this.busy = stage));
     } catch (e) {
-      this.notify({ tone: 'problem', title: `Could not read ${file.name}`, lines: [String(e)] });
+      this.notify({ tone: 'problem', title: `Could not read ${file.name}: the Book in this browser is unchanged`, lines: [e instanceof Error ? e.message : String(e)] });
       return;
+    } finally {
+      this.busy = undefined;
     }
-    const parsed = parseBookFile(text);
     if (!parsed.ok) {
       const shown = parsed.problems.slice(0, PROBLEMS_SHOWN).map((p) => `${p.path || '(whole file)'}: ${p.message}`);
       const more = Math.max(parsed.total, parsed.problems.length) - shown.length;
@@ -134,7 +161,13 @@ export class RbBookMenu extends LitElement {
       confirmLabel: 'Replace with the file',
     });
     if (!yes) return;
-    const result = await service.replaceBook(parsed.book);
+    this.busy = 'saving';
+    let result: Awaited<ReturnType<typeof service.replaceBook>>;
+    try {
+      result = await service.replaceBook(parsed.book);
+    } finally {
+      this.busy = undefined;
+    }
     this.notify(
       result.ok
         ? { tone: 'done', title: `Opened ${file.name}`, lines: [counts(parsed.book)] }

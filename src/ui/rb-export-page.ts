@@ -8,7 +8,7 @@ import type { Result } from '../domain/costing.ts';
 import { MAX_RUN_QUANTITY } from '../domain/freeze.ts';
 import { isIsoDate } from '../domain/dates.ts';
 import { purchaseList } from '../domain/purchase.ts';
-import { bookFileName, serializeBook } from '../io/book-file.ts';
+import { bookFileName } from '../io/book-file.ts';
 import {
   DEFAULT_EXPORT_OPTIONS,
   costVariant,
@@ -21,6 +21,7 @@ import {
 } from '../io/run-export.ts';
 import type { DecimalStyle, DelimiterName, ExportOptions, RunCosting } from '../io/run-export.ts';
 import { BookController } from './book-context.ts';
+import { downloadBookFile } from './book-download.ts';
 import type { NoticeDetail } from './rb-book-menu.ts';
 import { pageStyles } from './styles.ts';
 
@@ -277,7 +278,11 @@ export class RbExportPage extends LitElement {
   private async downloadBook(book: Book): Promise<void> {
     const service = this.books.service;
     if (!service) return;
-    downloadFile(new TextEncoder().encode(serializeBook(book)), bookFileName(book), 'application/json');
+    const problem = await downloadBookFile(book);
+    if (problem) {
+      this.notify({ tone: 'problem', title: 'The Book was not downloaded', lines: [problem] });
+      return;
+    }
     const result = await service.markExported();
     if (!result.ok) this.notify({ tone: 'problem', title: 'The file was made, but the export date was not saved', lines: [result.message] });
   }
