@@ -1,7 +1,9 @@
-// Starts Debian's headless Chromium through playwright-core with a fresh profile; collects console errors. Also the
-// steps every browser test shares: open the built app at a page, wait for a save, read text as a reader sees it.
-import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
-import { mkdtempSync, rmSync } from 'node:fs';
+// Debian's headless Chromium through playwright-core: one browser per test file (launched before its first test,
+// closed after its last), a fresh browser context per test, so each test has its own storage (IndexedDB, service
+// worker, cache) as a fresh profile would. Also the steps every browser test shares: open the built app at a page,
+// wait for a save, read text as a reader sees it. When a test fails, every page it had open is saved as a screenshot.
+import { chromium, type Browser, type BrowserContext, type BrowserContextOptions, type Page } from 'playwright-core';
+import { TestRunner, afterAll, beforeAll, inject } from 'vitest';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 
@@ -19,6 +21,14 @@ export const CHROMIUM_FLAGS = [
   '--disable-sync',
 ];
 
+/** Starts Chromium with the flags above; playwright-core gives it a fresh profile directory of its own. */
+export function launchChromium(): Promise<Browser> {
+  return chromium.launch({ executablePath: CHROMIUM_PATH, headless: true, args: CHROMIUM_FLAGS });
+}
+
+/** Storage of the app as its first start left it (the demo Book in IndexedDB), taken once by the global setup. */
+export type SeededState = Exclude<BrowserContextOptions['storageState'], string | undefined>;
+
 export interface Session {
   context: BrowserContext;
   page: Page;
@@ -29,16 +39,24 @@ export interface Session {
   close(): Promise<void>;
 }
 
-/** A persistent context so IndexedDB and the service worker behave as for a person; one profile per session. */
-export async function openSession(baseUrl: string): Promise<Session> {
-  const dir = mkdtempSync(join(tmpdir(), 'rungbook-chromium-'));
-  const context = await chromium.launchPersistentContext(dir, {
-    executablePath: CHROMIUM_PATH,
-    headless: true,
-    args: CHROMIUM_FLAGS,
+/** How a test wants its storage to begin. */
+export interface StartOptions {
+  /**
+   * `'first'`: empty storage, so the app goes through its first start (writes the demo Book). By default the
+   * context begins with the storage a first start leaves, which saves that work where the test is about anything else.
+   */
+  storage?: 'first' | 'seeded';
+  /** Window size, for tests whose checks depend on the layout (wide tables, charts). */
+  viewport?: { width: number; height: number };
+}
+
+/** A fresh browser context (storage of its own) in `browser`, watched for console errors and foreign requests. */
+export async function openSession(browser: Browser, baseUrl: string, options: StartOptions & { storageState?: SeededState } = {}): Promise<Session> {
+  const context = await browser.newContext({
     acceptDownloads: true,
+    ...(options.viewport ? { viewport: options.viewport } : {}),
+    ...(options.storageState ? { storageState: options.storageState } : {}),
   });
-  const page = context.pages()[0] ?? (await context.newPage());
   const errors: string[] = [];
   const foreignRequests: string[] = [];
   const origin = new URL(baseUrl).origin;
@@ -48,12 +66,12 @@ export async function openSession(baseUrl: string): Promise<Session> {
     });
     p.on('pageerror', (e) => errors.push(String(e)));
   };
-  watch(page);
   context.on('page', watch);
   context.on('request', (r) => {
     const url = r.url();
     if (!url.startsWith(origin) && !url.startsWith('data:') && !url.startsWith('blob:')) foreignRequests.push(url);
   });
+  const page = await context.newPage();
   return {
     context,
     page,
@@ -61,7 +79,6 @@ export async function openSession(baseUrl: string): Promise<Session> {
     foreignRequests,
     async close() {
       await context.close();
-      rmSync(dir, { recursive: true, force: true });
     },
   };
 }
@@ -70,32 +87,57 @@ export async function openSession(baseUrl: string): Promise<Session> {
 export const WIDE_VIEWPORT = { width: 1400, height: 1000 } as const;
 
 /** How a test wants a page of the app shown. */
-export interface ShowOptions {
-  /** Window size, for tests whose checks depend on the layout (wide tables, charts). */
-  viewport?: { width: number; height: number };
+export interface ShowOptions extends StartOptions {
   /** A selector that shows the page has drawn its data; waited for once the page has loaded. */
   ready?: string;
 }
 
+/** Where a failed test's screenshots go: one file per open page, named after the test. */
+function failureShot(testName: string, i: number): string {
+  const slug = testName.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 80);
+  return join(tmpdir(), `rungbook-failed-${slug}${i ? `-${i + 1}` : ''}.png`);
+}
+
 /**
- * The one browser session a test has open on the built app. A test file makes one and closes it after each test
- * (`afterEach(() => app.close())`), so a failing test never leaves Chromium running.
+ * The built app under test in one test file. Made at the top of the file, it launches Chromium before the file's
+ * first test and closes it after the last; each test gets a fresh context from `start` or `open`, which the file
+ * closes after each test (`afterEach(() => app.close())`), so no test sees another's storage.
  */
 export class AppUnderTest {
+  private browser: Browser | undefined;
   private session: Session | undefined;
+  private test: ReturnType<typeof TestRunner.getCurrentTest>;
+  private readonly seeded: SeededState | undefined;
 
-  constructor(readonly baseUrl: string) {}
+  constructor(readonly baseUrl: string) {
+    this.seeded = inject('seededState');
+    beforeAll(async () => {
+      await this.launch();
+    });
+    afterAll(async () => {
+      await this.close();
+      await this.browser?.close();
+      this.browser = undefined;
+    });
+  }
 
-  /** A fresh profile with no page loaded yet. */
-  async start(): Promise<Session> {
-    this.session = await openSession(this.baseUrl);
+  private async launch(): Promise<Browser> {
+    if (!this.browser?.isConnected()) this.browser = await launchChromium();
+    return this.browser;
+  }
+
+  /** A fresh context with no page loaded yet: seeded with the demo Book unless `storage: 'first'`. */
+  async start(options: StartOptions = {}): Promise<Session> {
+    await this.close();
+    this.test = TestRunner.getCurrentTest();
+    const storageState = options.storage === 'first' ? undefined : this.seeded;
+    this.session = await openSession(await this.launch(), this.baseUrl, { ...options, storageState });
     return this.session;
   }
 
-  /** A fresh profile showing `path` of the app (a page's hash such as `#/parts`). */
+  /** A fresh context showing `path` of the app (a page's hash such as `#/parts`). */
   async open(path: string, options: ShowOptions = {}): Promise<Session> {
-    const session = await this.start();
-    if (options.viewport) await session.page.setViewportSize(options.viewport);
+    const session = await this.start(options);
     await this.goto(session.page, path, options.ready);
     return session;
   }
@@ -106,9 +148,27 @@ export class AppUnderTest {
     if (ready !== undefined) await page.locator(ready).waitFor();
   }
 
+  /** Closes the test's context; when the test failed, saves a screenshot of each page it had open first. */
   async close(): Promise<void> {
-    await this.session?.close();
+    const session = this.session;
+    const test = this.test;
     this.session = undefined;
+    this.test = undefined;
+    if (!session) return;
+    try {
+      if (test?.result?.state === 'fail') {
+        const pages = session.context.pages();
+        for (const [i, p] of pages.entries()) {
+          const path = failureShot(test.fullName, i);
+          await p.screenshot({ path, fullPage: true, timeout: 10_000 }).then(
+            () => console.error(`screenshot of the failed test: ${path}`),
+            () => undefined,
+          );
+        }
+      }
+    } finally {
+      await session.close();
+    }
   }
 }
 
