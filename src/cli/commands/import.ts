@@ -114,7 +114,8 @@ async function run(args: string[], io: CliIo): Promise<number> {
   if (typeof mappingPath === 'string') {
     let json: unknown;
     try {
-      json = JSON.parse(await readFile(mappingPath, 'utf8'));
+      // Decoded strictly, so a mapping that is not UTF-8 is refused rather than saved on the supplier with U+FFFD.
+      json = JSON.parse(new TextDecoder('utf-8', { fatal: true }).decode(await readFile(mappingPath)));
     } catch (e) {
       io.err(`rungbook import: cannot read the mapping ${mappingPath}: ${(e as Error).message}`);
       return 1;
