@@ -1,5 +1,6 @@
 // The vocabulary of variant parameters and part ratings that check formulas and build rules refer to by name.
 // All numbers are SI base units (V, A, W, Ω, F, s, Hz, K/W, °C) unless the entry says otherwise.
+import { reservedNameProblem } from './schema.ts';
 
 export interface NameDoc {
   name: string;
@@ -64,17 +65,8 @@ export const ROLES = ['switch', 'bridge', 'xcap', 'bleeder', 'zener', 'snubber_r
 // ---------------------------------------------------------------------------------------------------------------
 // Names the user gives: parameters, part ratings, currencies and other keys of the Book's own records.
 
-/**
- * Names every JavaScript object carries built in (constructor, toString, __proto__, valueOf…). A record keyed by the
- * user's names must not use one: a lookup would find the object's own machinery instead of a value, and assigning
- * `__proto__` would silently drop the entry.
- */
-export const RESERVED_NAMES: ReadonlySet<string> = new Set(['__proto__', 'prototype', ...Object.getOwnPropertyNames(Object.prototype)]);
-
-/** Why `name` cannot key a user's record (it is a built-in name of every object), or undefined when it can. */
-export function reservedNameProblem(name: string): string | undefined {
-  return RESERVED_NAMES.has(name) ? `“${name}” is a name every object has built in; choose another` : undefined;
-}
+// Names every object carries built in may not key a user's record: the one rule lives with the Book schema.
+export { RESERVED_NAMES, reservedNameProblem } from './schema.ts';
 
 /** The shape of a parameter name: a lower-case letter, then lower-case letters, digits and _. */
 export const PARAM_NAME_SHAPE = /^[a-z][a-z0-9_]*$/;

@@ -83,8 +83,9 @@ export const DECIMAL_MARKS = ['.', ','] as const;
 export const PRICE_UNITS = ['unit', 'per100', 'per1000', 'pack'] as const;
 
 /**
- * Names that may not key a user's map (parameters, ratings, rates, columns): the names every JavaScript object
- * inherits. A parameter called `constructor` would otherwise read the object's own machinery.
+ * Names every JavaScript object carries built in (constructor, toString, __proto__, valueOf…). A map keyed by the
+ * user's names (parameters, ratings, rates, columns) must not use one: a lookup would find the object's own
+ * machinery instead of a value, and assigning `__proto__` would silently drop the entry.
  */
 export const RESERVED_NAMES: ReadonlySet<string> = new Set([
   '__proto__',
@@ -94,7 +95,7 @@ export const RESERVED_NAMES: ReadonlySet<string> = new Set([
 
 /** Why `name` cannot key a user's map, or undefined when it can. */
 export function reservedNameProblem(name: string): string | undefined {
-  return RESERVED_NAMES.has(name) ? `the name ${JSON.stringify(name)} is reserved (every object has it built in); choose another` : undefined;
+  return RESERVED_NAMES.has(name) ? `“${name}” is a name every object has built in; choose another` : undefined;
 }
 
 // ---------------------------------------------------------------------------------------------------------------
