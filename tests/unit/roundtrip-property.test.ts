@@ -152,4 +152,25 @@ describe('round trip of every accepted Book', () => {
       { numRuns: 25 },
     );
   });
+
+  it('through the IndexedDB store as new records of one change is strictly equal, each at revision 1', async () => {
+    let n = 0;
+    await fc.assert(
+      fc.asyncProperty(books, async (book) => {
+        const store = await openBookStore(`rungbook-property-apply-${++n}`, { factory: new IDBFactory() });
+        try {
+          const asNew = (list: readonly { rev: number }[]): { rev: number }[] => list.map((r) => ({ ...r, rev: 0 }));
+          // A new database holds default settings at revision 1: the Book's settings are an edit of those.
+          await store.apply({ put: Object.fromEntries(COLLECTIONS.map((c) => [c, asNew(book[c])])), settings: { ...book.settings, rev: 1 } });
+          const expected = inIdOrder(structuredClone(book));
+          for (const c of COLLECTIONS) for (const r of expected[c] as { rev: number }[]) r.rev = 1;
+          expected.settings.rev = 2;
+          expect(await store.load()).toStrictEqual(expected);
+        } finally {
+          store.close();
+        }
+      }),
+      { numRuns: 25 },
+    );
+  });
 });
