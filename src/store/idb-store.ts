@@ -170,7 +170,7 @@ export class IdbBookStore implements BookStore {
     // What comes out of storage is checked like a file: another tab, an older build or a damaged profile may have
     // written it. A problem is reported with its place, never guessed around.
     const checked = checkBook(book);
-    if (!checked.ok) throw new StoredBookInvalid(checked.problems);
+    if (!checked.ok) throw new StoredBookInvalid(checked.problems, book);
     return checked.value;
   }
 

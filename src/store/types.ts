@@ -43,7 +43,11 @@ export class StoreWriteFailed extends Error {
 
 /** Rejection of a load whose stored records do not fit the Book schema; each problem names its place. */
 export class StoredBookInvalid extends Error {
-  constructor(readonly problems: readonly SchemaProblem[]) {
+  constructor(
+    readonly problems: readonly SchemaProblem[],
+    /** The records as stored, unchecked, so a person can save them and repair them by hand. */
+    readonly stored: unknown,
+  ) {
     const shown = problems.slice(0, 5).map((p) => (p.path ? `${p.path}: ${p.message}` : p.message));
     const more = problems.length > 5 ? ` (and ${problems.length - 5} more)` : '';
     super(`The Book kept in this browser does not read as a Book, so it was not opened: ${shown.join('; ')}${more}`);
