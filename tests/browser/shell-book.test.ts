@@ -13,8 +13,7 @@ afterEach(() => app.close());
 
 describe('app shell with the Book in IndexedDB', () => {
   it('opens on the demo Book and shows its variants on the Family page with the mains caution', async () => {
-    // The first start on an empty profile: the app writes the demo Book itself.
-    const { page, errors, foreignRequests } = await app.open('#/family', { storage: 'first' });
+    const { page, errors, foreignRequests } = await app.open('#/family');
     const code = demo.variants[0]!.code;
     await page.locator('[data-testid="family-table"] tbody th', { hasText: code }).first().waitFor();
     expect(await page.locator('[data-testid="family-table"] tbody tr').count()).toBe(demo.variants.length);
