@@ -43,7 +43,6 @@ describe('Build page', () => {
     await page.locator('#f-attrition').fill('2 %');
     // The preview tries the line on every variant as it is typed.
     await page.locator('[data-testid="line-preview"] span', { hasText: 'FR5-75-CD' }).waitFor();
-    await page.screenshot({ path: '/tmp/rungbook-build-form.png', fullPage: false });
     await page.getByRole('button', { name: 'Add the line' }).click();
     await page.locator('[data-testid="build-lines"] tbody tr', { hasText: 'R90, R91' }).waitFor();
     await saved(page);
@@ -73,7 +72,6 @@ describe('Build page', () => {
     // Kept across a reload: it is in the Book, not only on screen.
     await page.reload();
     await page.locator('[data-testid="build-lines"] tbody tr', { hasText: 'R90, R91' }).waitFor();
-    await page.screenshot({ path: '/tmp/rungbook-build.png', fullPage: true });
     expect(errors).toEqual([]);
   });
 

@@ -63,7 +63,6 @@ describe('notebook pages of the user’s own', () => {
     await page.getByRole('button', { name: 'Rename', exact: true }).click();
     await page.locator('nav a', { hasText: 'Bleeder sums' }).waitFor();
     await saved(page);
-    await page.screenshot({ path: '/tmp/rungbook-notebook.png', fullPage: true });
 
     await page.reload();
     await expect.poll(() => shown(page, 'A1').textContent()).toMatch(/^\s*150\s*$/);

@@ -40,7 +40,6 @@ describe('Checks page', () => {
     // IEC 60038:2009, table 1: √2 · 230 V · 1.1 = 357.8 V, shown to 3 figures.
     await expect(detail.locator('[data-testid="detail-value"]').textContent()).resolves.toContain('358 V');
     await expect(detail.textContent()).resolves.toContain('MAINS_PEAK(mains_v, mains_tol)');
-    await page.screenshot({ path: '/tmp/rungbook-checks.png', fullPage: true });
     expect(errors).toEqual([]);
   });
 
@@ -57,7 +56,6 @@ describe('Checks page', () => {
     expect(await status(page, 'FR5-150-RT', 'bridge_i')).toBe('fail');
     expect(await status(page, 'FR5-150-RT', 'bridge_loss')).toBe('fail');
     await saved(page);
-    await page.screenshot({ path: '/tmp/rungbook-checks-fail.png', fullPage: false });
 
     // The change is in the Book: it survives a reload.
     await page.reload();
@@ -103,7 +101,6 @@ describe('Checks page', () => {
     await limit.fill('400');
     await page.locator('rb-check-form #f-margin').fill('5');
     await page.locator('rb-check-form #f-note').fill('IEC 60038 peak with +10 %, test check.');
-    await page.screenshot({ path: '/tmp/rungbook-check-form.png', fullPage: true });
     await page.getByRole('button', { name: 'Add the check' }).click();
     await cell(page, 'FR4-60-CD', 'peak_margin').waitFor();
     // 357.8 V at 230 V +10 % and 186.7 V at 120 V +10 % (IEC 60038:2009, table 1): both under 400 V by more
@@ -143,7 +140,6 @@ describe('Checks page', () => {
     await ladder.locator('#ladder-series').selectOption('12');
     const rows = ladder.locator('[data-testid="ladder-table"] tbody tr');
     await expect.poll(() => rows.count()).toBe(3);
-    await page.screenshot({ path: '/tmp/rungbook-ladder.png', fullPage: true });
     await ladder.getByRole('button', { name: /Use these for FR3-40-CD/ }).click();
     await ladder.locator('[data-testid="ladder-message"]').waitFor();
     await expect(ladder.locator('[data-testid="ladder-message"]').textContent()).resolves.toMatch(/Saved r_s1…r_s3 for FR3-40-CD/);

@@ -78,7 +78,6 @@ describe('Compare page', () => {
     } finally {
       wb.close();
     }
-    await page.screenshot({ path: '/tmp/rungbook-compare.png', fullPage: true });
     expect(errors).toEqual([]);
   });
 
@@ -178,7 +177,6 @@ describe('Compare page', () => {
     const a = shown.find((s) => s.code === codes[0] && s.run === 2000)!.value;
     const b = shown.find((s) => s.code === codes[1] && s.run === 2000)!.value;
     expect(Number(total)).toBeCloseTo(b - a, 4);
-    await page.screenshot({ path: '/tmp/rungbook-compare-whatif.png', fullPage: true });
     expect(errors).toEqual([]);
   });
 });

@@ -33,7 +33,6 @@ describe('Rates page', () => {
       await page.locator(`[data-problem-for="${name}"]`).waitFor();
     }
     await expect(page.locator('[data-problem-for="rate:USD"]').textContent()).resolves.toMatch(/quotes are in USD/);
-    await page.screenshot({ path: '/tmp/rungbook-rates-bad.png', fullPage: false });
     await page.reload();
     await page.locator('form[aria-label="Costing settings"]').waitFor();
     await expect(page.locator('#f-marginPct').inputValue()).resolves.toBe(String(demo.settings.marginPct));

@@ -90,7 +90,6 @@ describe('Family grid', () => {
     const want = costText(edited, v.id, run);
     expect(want).not.toBe(before);
     await expect.poll(() => cellText(page, v.code, heading)).toBe(want);
-    await page.screenshot({ path: '/tmp/rungbook-family-grid.png' });
     expect(errors).toEqual([]);
   });
 
@@ -135,7 +134,6 @@ describe('Family grid', () => {
     const want = await cellText(page, src.code, heading);
     for (const code of codes) await expect(cellText(page, code, heading)).resolves.toBe(want);
     await expect(cellText(page, 'PX-2', 'name')).resolves.toBe('Pasted second');
-    await page.screenshot({ path: '/tmp/rungbook-family-pasted.png' });
 
     await page.locator('[data-testid="undo"]').click();
     await expect.poll(() => page.locator(`${grid} tbody tr`).count()).toBe(demo.variants.length);
@@ -194,7 +192,6 @@ describe('Family grid', () => {
     await page.keyboard.press('Enter');
     await expect(readerText(await page.locator('rb-grid .message').textContent())).toMatch(/^load_w: /);
     await expect(editor.isVisible()).resolves.toBe(true);
-    await page.screenshot({ path: '/tmp/rungbook-family-refused.png' });
     await page.keyboard.press('Escape');
     expect(readerText(await target.textContent())).toBe(original);
 

@@ -84,7 +84,6 @@ describe('price file import through the app', () => {
     await expect(importAll.isDisabled()).resolves.toBe(true);
     await page.getByRole('button', { name: 'Confirm this mapping' }).click();
     await page.locator('[data-testid="mapping-confirmed"]').waitFor();
-    await page.screenshot({ path: '/tmp/rungbook-import-read.png', fullPage: true });
     await expect(importAll.isEnabled()).resolves.toBe(true);
     await importAll.click();
     await page.locator('[data-testid="import-done"]').waitFor();
@@ -105,7 +104,6 @@ describe('price file import through the app', () => {
       await expect(old.getAttribute('data-state')).resolves.toBe('superseded');
       await expect(old.textContent()).resolves.toContain('↷ superseded');
     }
-    await page.screenshot({ path: '/tmp/rungbook-quotes-after-import.png', fullPage: true });
 
     // The batch is listed with its file and rows; undo takes its quotes away and restores the replaced ones.
     const batch = page.locator('[data-testid="batches-table"] tbody tr', { hasText: DEMO_FILE });
@@ -143,7 +141,6 @@ describe('price file import through the app', () => {
     await notice.waitFor();
     await expect(notice.textContent()).resolves.toContain(DEMO_FILE);
     await expect(page.getByRole('button', { name: 'Import all', exact: true }).isDisabled()).resolves.toBe(true);
-    await page.screenshot({ path: '/tmp/rungbook-import-again.png', fullPage: true });
     expect(errors).toEqual([]);
   });
 
@@ -191,7 +188,6 @@ describe('price file import through the app', () => {
     await page.locator('#ov-decimal').selectOption('.');
     await page.locator('[data-testid="problems-table"]').waitFor();
     await expect(text(page, '[data-testid="found-decimal"]')).resolves.toMatch(/decimal point as you chose/);
-    await page.screenshot({ path: '/tmp/rungbook-import-override.png' });
     await page.locator('#ov-decimal').selectOption('');
     await page.locator('[data-testid="no-problems"]').waitFor();
     expect(errors).toEqual([]);
@@ -254,7 +250,6 @@ describe('price file import through the app', () => {
     await expect(text(page, '[data-testid="import-why"]')).resolves.toMatch(/1 problem must be fixed/);
     // Importing the rest is offered only as its own, separate choice; it is not taken here.
     await page.getByRole('button', { name: /Import only the valid rows/ }).waitFor();
-    await page.screenshot({ path: '/tmp/rungbook-import-problems.png', fullPage: true });
 
     await railTo(page, '#/quotes');
     expect(await quoteRows(page)).toBe(before);

@@ -42,7 +42,6 @@ describe('Quotes page', () => {
     await expect.poll(() => page.locator('[data-testid="quotes-table"] tbody tr').count()).toBe(expected);
     const suppliersShown = await page.locator('[data-testid="quotes-table"] tbody tr td:nth-child(2)').allTextContents();
     expect(new Set(suppliersShown)).toEqual(new Set([supplier.name]));
-    await page.screenshot({ path: '/tmp/rungbook-quotes-filtered.png' });
     expect(errors).toEqual([]);
   });
 
@@ -64,7 +63,6 @@ describe('Quotes page', () => {
     await expect(text(page, '[data-problem-for="pack"]')).resolves.toMatch(/1 or more/);
     await expect(text(page, '[data-problem-for="expires"]')).resolves.toMatch(/YYYY-MM-DD/);
     await expect(page.locator('#f-pack').getAttribute('aria-invalid')).resolves.toBe('true');
-    await page.locator('rb-quote-form').screenshot({ path: '/tmp/rungbook-quote-problems.png' });
     await expect(text(page, `tr[data-id="${q.id}"]`)).resolves.toBe(before);
 
     // Corrected: breaks rise again, one more break added, a pack and an expiry that read.
@@ -121,7 +119,6 @@ describe('Quotes page', () => {
     await expect(fresh.count()).resolves.toBe(1);
     // 3 weeks is 21 days (7 days a week).
     await expect(fresh.locator('td').nth(7).textContent()).resolves.toBe('21 d (3 wk)');
-    await page.screenshot({ path: '/tmp/rungbook-quotes-superseded.png' });
 
     await fresh.getByRole('button', { name: 'delete' }).click();
     await fresh.getByRole('button', { name: 'Delete', exact: true }).click();

@@ -78,7 +78,6 @@ describe('runs, exports and the run sheet in the browser', () => {
     await page.locator('#x-delimiter').selectOption('comma');
     await expect(page.locator('.choices .problem[role="alert"]').textContent()).resolves.toMatch(/decimal comma/);
     expect(await page.getByRole('button', { name: 'Download costed BOM CSV' }).isDisabled()).toBe(true);
-    await page.screenshot({ path: '/tmp/rungbook-export.png', fullPage: true });
     expect(errors).toEqual([]);
     expect(foreignRequests).toEqual([]);
   });
@@ -117,7 +116,6 @@ describe('runs, exports and the run sheet in the browser', () => {
     await page.reload();
     await chooseDemoRun(page);
     await page.locator('[data-testid="run-comparison"]').waitFor();
-    await page.screenshot({ path: '/tmp/rungbook-runs.png', fullPage: true });
     expect(errors).toEqual([]);
   });
 
@@ -154,8 +152,6 @@ describe('runs, exports and the run sheet in the browser', () => {
       // Nothing of the app around the sheet is printed.
       expect(all).not.toContain('Download this Book as a file');
     }
-    await page.emulateMedia({ media: 'print' });
-    await page.screenshot({ path: '/tmp/rungbook-run-sheet.png', fullPage: true });
     expect(errors).toEqual([]);
   });
 });

@@ -19,7 +19,6 @@ describe('app shell with the Book in IndexedDB', () => {
     expect(await page.locator('[data-testid="family-table"] tbody tr').count()).toBe(demo.variants.length);
     await expect(page.locator('rb-mains-caution p').textContent()).resolves.toMatch(/can kill.*not a certification/s);
     await expect(page.locator('[data-testid="book-name"]').textContent()).resolves.toContain(demo.settings.bookName);
-    await page.screenshot({ path: '/tmp/rungbook-family.png', fullPage: false });
     expect(errors).toEqual([]);
     expect(foreignRequests).toEqual([]);
   });
@@ -36,7 +35,6 @@ describe('app shell with the Book in IndexedDB', () => {
     await page.locator('#f-value').fill('4k7');
     await page.locator('#f-package').fill('0603');
     await page.locator('[id="f-rating_p_max"]').fill('100 mW');
-    await page.screenshot({ path: '/tmp/rungbook-part-form.png', fullPage: true });
     await page.getByRole('button', { name: 'Add the part' }).click();
     const row = page.locator('[data-testid="parts-table"] tbody tr', { hasText: 'ZZ-TEST-4K7' });
     await row.waitFor();
@@ -72,7 +70,6 @@ describe('app shell with the Book in IndexedDB', () => {
     // The message sits in the same form row as its field: right after the input it describes.
     await expect(page.locator('#f-value').getAttribute('aria-describedby')).resolves.toBe('f-value-problem');
     await expect(page.locator('#f-value').getAttribute('aria-invalid')).resolves.toBe('true');
-    await page.screenshot({ path: '/tmp/rungbook-part-problems.png', fullPage: true });
     expect(await partRows(page)).toBe(before);
 
     await page.reload();

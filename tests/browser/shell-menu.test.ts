@@ -65,7 +65,6 @@ describe('Book menu', () => {
     const text = (await notice.textContent()) ?? '';
     expect(text).toContain('broken.rungbook.json was not opened');
     expect(text).toContain('quotes[0].partId');
-    await page.screenshot({ path: '/tmp/rungbook-bad-file.png' });
     expect(await familyRows(page)).toBe(demo.variants.length);
     await page.reload();
     expect(await familyRows(page)).toBe(demo.variants.length);
