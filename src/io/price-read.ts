@@ -3,6 +3,7 @@
 // 1-based file line so problems point at the line a user sees in a text editor.
 import Papa from 'papaparse';
 import type { ColumnMapping } from '../domain/book.ts';
+import { LIMITS } from '../domain/schema.ts';
 import { headerWordScore } from './price-map.ts';
 import type { PriceProblem } from './price-map.ts';
 
@@ -37,6 +38,23 @@ export interface ReadOptions {
   onRows?: (rows: number) => void;
 }
 
+/**
+ * Bounds real price files never reach, so a hostile file is refused quickly instead of freezing the page (the
+ * mapping offers every header for every field: columns × fields grows fast). Each refusal names its limit.
+ */
+export const PRICE_FILE_LIMITS = {
+  /** Columns in the header row. */
+  columns: 200,
+  /** Characters in one header cell: a remembered mapping stores headers as names. */
+  headerCell: LIMITS.name,
+  /** Characters in one row (a 10,000-character description still fits). */
+  rowChars: 65_536,
+  /** Data rows: every row is at most one quote. */
+  rows: LIMITS.quotes,
+} as const;
+
+const n = (x: number): string => x.toLocaleString('en-GB');
+
 /** How many leading lines may hold titles and comments before the header. */
 const HEADER_SEARCH_LINES = 100;
 const PROGRESS_EVERY = 2000;
@@ -67,6 +85,17 @@ function splitLine(line: string, d: string): string[] {
   return cells;
 }
 
+/** Columns of text[from, to) under the delimiter that splits it most (quotes ignored: only for a message). */
+function widestSplit(text: string, from: number, to: number, forced?: Delimiter): number {
+  const counts = new Map<number, number>((forced ? [forced] : DELIMITERS).map((d) => [d.charCodeAt(0), 0]));
+  for (let i = from; i < to; i++) {
+    const c = text.charCodeAt(i);
+    const k = counts.get(c);
+    if (k !== undefined) counts.set(c, k + 1);
+  }
+  return Math.max(...counts.values()) + 1;
+}
+
 function isCommentLine(line: string): boolean {
   return /^\s*(#|\/\/|--|;;|rem\s)/i.test(line);
 }
@@ -83,7 +112,8 @@ function scoreLine(line: string, d: Delimiter, saved: Set<string>): { score: num
   const cells = splitLine(line, d);
   if (cells.length < 2) return { score: 0, cells: cells.length };
   let score = 0;
-  for (const c of cells) {
+  // A line wider than any real header is scored on its first columns only; readPriceTable then refuses it.
+  for (const c of cells.length > PRICE_FILE_LIMITS.columns ? cells.slice(0, PRICE_FILE_LIMITS.columns) : cells) {
     const t = c.trim();
     score += saved.has(t.toLowerCase()) ? 2 : headerWordScore(t);
   }
@@ -91,8 +121,9 @@ function scoreLine(line: string, d: Delimiter, saved: Set<string>): { score: num
 }
 
 /** Finds the header: the leading line whose cells read most like header words, under the delimiter that splits it so. */
-function findHeader(text: string, saved: Set<string>, forced?: Delimiter): HeaderGuess | undefined {
+function findHeader(text: string, saved: Set<string>, forced?: Delimiter): { best?: HeaderGuess; overlong?: { line: number; columns: number } } {
   let best: HeaderGuess | undefined;
+  let overlong: { line: number; columns: number } | undefined;
   let offset = 0;
   for (let lineNo = 1; lineNo <= HEADER_SEARCH_LINES && offset < text.length; lineNo++) {
     let end = text.indexOf('\n', offset);
@@ -105,6 +136,11 @@ function findHeader(text: string, saved: Set<string>, forced?: Delimiter): Heade
       end = cr;
       next = text[cr + 1] === '\n' ? cr + 2 : cr + 1;
     } else next = end + 1;
+    if (end - offset > PRICE_FILE_LIMITS.rowChars) {
+      overlong ??= { line: lineNo, columns: widestSplit(text, offset, end, forced) };
+      offset = next;
+      continue;
+    }
     const line = text.slice(offset, end);
     if (line.trim() !== '' && !isCommentLine(line)) {
       for (const d of forced ? [forced] : DELIMITERS) {
@@ -117,7 +153,7 @@ function findHeader(text: string, saved: Set<string>, forced?: Delimiter): Heade
     }
     offset = next;
   }
-  return best;
+  return best ? { best } : overlong === undefined ? {} : { overlong };
 }
 
 /** Counts line breaks in text[from, to): CRLF and LF count once each, a lone CR (old files) counts too. */
@@ -131,9 +167,30 @@ function countBreaks(text: string, from: number, to: number): number {
   return n;
 }
 
+/** Why a header row is beyond the limits, or undefined. */
+function headerLimitProblem(headers: readonly string[]): string | undefined {
+  if (headers.length > PRICE_FILE_LIMITS.columns) {
+    return `the header row has ${n(headers.length)} columns; a price file may have at most ${n(PRICE_FILE_LIMITS.columns)}`;
+  }
+  const long = headers.findIndex((h) => h.trim().length > PRICE_FILE_LIMITS.headerCell);
+  if (long >= 0) {
+    return `column ${long + 1} of the header row is ${n(headers[long]!.trim().length)} characters long; a column header may be at most ${n(PRICE_FILE_LIMITS.headerCell)}`;
+  }
+  return undefined;
+}
+
 export function readPriceTable(text: string, options: ReadOptions = {}): ReadResult {
   const saved = new Set(Object.values(options.mapping?.columns ?? {}).map((h) => h.trim().toLowerCase()));
-  const header = findHeader(text, saved, options.delimiter);
+  const found = findHeader(text, saved, options.delimiter);
+  const header = found.best;
+  if (!header && found.overlong !== undefined) {
+    const { line, columns } = found.overlong;
+    const reason =
+      columns > PRICE_FILE_LIMITS.columns
+        ? `line ${line} has ${n(columns)} columns; a price file may have at most ${n(PRICE_FILE_LIMITS.columns)}`
+        : `line ${line} is longer than ${n(PRICE_FILE_LIMITS.rowChars)} characters, the most a price file row may hold, and no header row was found before it`;
+    return { ok: false, problems: [{ row: line, column: '', value: '', reason }] };
+  }
   if (!header) {
     return {
       ok: false,
@@ -168,12 +225,14 @@ export function readPriceTable(text: string, options: ReadOptions = {}): ReadRes
   let rowStart = 0;
   let lineAtStart = header.line;
   let lastNonEmpty = -1;
+  let refused: PriceProblem | undefined;
   Papa.parse<string[]>(body, {
     delimiter,
     quoteChar: '"',
     skipEmptyLines: false,
-    step: (result) => {
+    step: (result, parser) => {
       const cursor = result.meta.cursor;
+      const rowChars = cursor - rowStart;
       const line = lineAtStart;
       lineAtStart += countBreaks(body, rowStart, cursor);
       rowStart = cursor;
@@ -185,6 +244,22 @@ export function readPriceTable(text: string, options: ReadOptions = {}): ReadRes
       }
       if (!headers) {
         headers = cells.map((c) => c.trim());
+        // Checked before any data row is read.
+        const p = headerLimitProblem(headers);
+        if (p) {
+          refused = { row: line, column: '', value: '', reason: p };
+          parser.abort();
+        }
+        return;
+      }
+      if (rowChars > PRICE_FILE_LIMITS.rowChars) {
+        // Kept out of the rows (it could hold anything); named as a problem, so the file is not imported whole.
+        problems.push({
+          row: line,
+          column: '',
+          value: cells.join(delimiter).slice(0, 80),
+          reason: `the row is ${n(rowChars)} characters long; a price file row may hold at most ${n(PRICE_FILE_LIMITS.rowChars)}`,
+        });
         return;
       }
       let empty = true;
@@ -205,11 +280,23 @@ export function readPriceTable(text: string, options: ReadOptions = {}): ReadRes
           reason: `the row has ${cells.length} cells but the header has ${headers.length}: a field holding the ${DELIMITER_NAMES[delimiter]} must be in double quotes`,
         });
       }
-      rows.push({ line, cells });
+      if (rows.length >= PRICE_FILE_LIMITS.rows) {
+        refused = {
+          row: line,
+          column: '',
+          value: '',
+          reason: `the file has more than ${n(PRICE_FILE_LIMITS.rows)} data rows, the most a price file may hold; split it into smaller files`,
+        };
+        parser.abort();
+        return;
+      }
+      // Cells beyond the header's are only named as a problem above; they are not kept.
+      rows.push({ line, cells: cells.length > headers.length + 1 ? cells.slice(0, headers.length + 1) : cells });
       lastNonEmpty = rows.length;
       if (options.onRows && rows.length % PROGRESS_EVERY === 0) options.onRows(rows.length);
     },
   });
+  if (refused) return { ok: false, problems: [refused] };
   if (!headers) return { ok: false, problems: [{ row: header.line, column: '', value: '', reason: 'the header row could not be read' }] };
   if (lastNonEmpty < 0) {
     return {

@@ -3,6 +3,7 @@
 // no Book, only the currencies the Book can convert, so it runs unchanged in a Web Worker and in Node.
 import type { ColumnMapping, PriceBreak } from '../domain/book.ts';
 import { mpnKey } from '../domain/book.ts';
+import { LIMITS } from '../domain/schema.ts';
 import { decodePriceBytes } from './price-decode.ts';
 import type { EncodingChoice, EncodingName } from './price-decode.ts';
 import {
@@ -263,7 +264,7 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
 
   const cell = (r: TableRow, col: number | undefined): string => (col === undefined ? '' : (r.cells[col] ?? '').trim());
   const problem = (r: TableRow, col: number | undefined, reason: string): false => {
-    problems.push({ row: r.line, column: col === undefined ? '' : headers[col]!, value: col === undefined ? '' : cell(r, col), reason });
+    problems.push({ row: r.line, column: col === undefined ? '' : headers[col]!, value: col === undefined ? '' : cell(r, col).slice(0, 200), reason });
     return false;
   };
 
@@ -292,6 +293,10 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
       unit: fixedUnit ?? 'unit',
     };
     if (c.mpn === '' && c.supplierCode === '') ok = problem(r, f.mpn ?? f.supplierCode, 'no maker part number or supplier code on this row');
+    // The Book's own limits: an offer the Book file reader would refuse is never imported.
+    for (const [field, max] of [['mpn', LIMITS.name], ['supplierCode', LIMITS.name], ['maker', LIMITS.name], ['description', LIMITS.description]] as const) {
+      if (c[field].length > max) ok = problem(r, f[field], `is ${c[field].length.toLocaleString('en-GB')} characters long; at most ${max.toLocaleString('en-GB')} are allowed`);
+    }
     if (f.currency !== undefined && cell(r, f.currency) !== '') {
       const raw = cell(r, f.currency);
       const code = ({ '€': 'EUR', $: 'USD', '£': 'GBP' } as Record<string, string>)[raw] ?? raw.toUpperCase();
@@ -301,16 +306,19 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
     if (f.moq !== undefined && cell(r, f.moq) !== '') {
       const n = parseQty(cell(r, f.moq), decimal);
       if (n === undefined || !Number.isInteger(n) || n <= 0) ok = problem(r, f.moq, 'MOQ must be a whole number above zero');
+      else if (n > LIMITS.quantity) ok = problem(r, f.moq, `MOQ must be at most ${LIMITS.quantity.toLocaleString('en-GB')}`);
       else c.moq = n;
     }
     if (f.pack !== undefined && cell(r, f.pack) !== '') {
       const n = parseQty(cell(r, f.pack), decimal);
       if (n === undefined || !Number.isInteger(n) || n <= 0) ok = problem(r, f.pack, 'pack quantity must be a whole number above zero');
+      else if (n > LIMITS.quantity) ok = problem(r, f.pack, `pack quantity must be at most ${LIMITS.quantity.toLocaleString('en-GB')}`);
       else c.pack = n;
     }
     if (f.leadTime !== undefined && cell(r, f.leadTime) !== '') {
       const n = parseLeadDays(cell(r, f.leadTime), decimal, leadUnit);
       if (n === undefined || n < 0) ok = problem(r, f.leadTime, "lead time must be a number of days or weeks ('28', '28 days', '4 wk')");
+      else if (n > LIMITS.leadDays) ok = problem(r, f.leadTime, `lead time must be at most ${LIMITS.leadDays.toLocaleString('en-GB')} days`);
       else c.leadDays = n;
     }
     if (f.date !== undefined && cell(r, f.date) !== '') {
@@ -352,6 +360,7 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
       if (c.pack === undefined) return void problem(r, col, 'prices are per pack but the row gives no pack quantity');
       price = tidy(n / c.pack);
     } else price = UNIT_DIVISOR[c.unit] === 1 ? n : tidy(n / UNIT_DIVISOR[c.unit]);
+    if (!(price <= LIMITS.price)) return void problem(r, col, `a unit price must be at most ${LIMITS.price.toLocaleString('en-GB')}, not ${price}`);
     return { price, currency };
   };
 
@@ -362,6 +371,7 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
     if (n === undefined) return void problem(r, col, 'break quantity is not a number');
     if (n <= 0) return void problem(r, col, 'break quantity must be above zero');
     if (!Number.isInteger(n)) return void problem(r, col, 'break quantity must be a whole number');
+    if (n > LIMITS.quantity) return void problem(r, col, `break quantity must be at most ${LIMITS.quantity.toLocaleString('en-GB')}`);
     return n;
   };
 
@@ -371,6 +381,7 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
 
   const finish = (c: Common, key: string, breaks: PriceBreak[], currencies: string[], line: number, lines: number[], r: TableRow, firstCol: number | undefined): boolean => {
     if (breaks.length === 0) return problem(r, firstCol, 'no price break on this row');
+    if (breaks.length > LIMITS.breaks) return problem(r, firstCol, `${breaks.length} price breaks for one part; a quote may have at most ${LIMITS.breaks}`);
     const distinct = [...new Set(currencies)];
     if (distinct.length > 1) return problem(r, firstCol, `price breaks of one part in different currencies (${distinct.join(', ')})`);
     if (c.date && c.expires && c.expires < c.date) return problem(r, f.expires, `expires (${c.expires}) before the quote date (${c.date})`);

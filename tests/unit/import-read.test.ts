@@ -1,6 +1,7 @@
 // The awkward-file corpus for reading: delimiters, line endings, quoting (RFC 4180 §2), lines before the header,
 // trailing blank rows, duplicate and missing headers, inert formula-looking and HTML text, very long fields.
 import { describe, expect, it } from 'vitest';
+import { LIMITS } from '../../src/domain/schema.ts';
 import { readPriceTable } from '../../src/io/price-read.ts';
 import { analyse } from './import-helpers.ts';
 
@@ -141,11 +142,17 @@ describe('reading price files: hostile and unusual cell text stays inert text', 
     expect(a.offers[0]!.description).toBe(html);
   });
 
-  it('reads a 10,000-character field whole', async () => {
-    const long = 'x'.repeat(10_000);
+  it('reads a description as long as the Book allows whole, and names a longer one as a problem of its row', async () => {
+    const long = 'x'.repeat(LIMITS.description);
     const a = await analyse(`MPN,Description,Price\nQT-R10K-06,"${long}",0.05\nQT-C100N-50,short,0.10\n`);
     expect(a.problems).toEqual([]);
-    expect(a.offers[0]!.description).toHaveLength(10_000);
+    expect(a.offers[0]!.description).toHaveLength(LIMITS.description);
     expect(a.offers[1]!.line).toBe(3);
+    const over = await analyse(`MPN,Description,Price\nQT-R10K-06,"${'x'.repeat(10_000)}",0.05\nQT-C100N-50,short,0.10\n`);
+    expect(over.problems).toEqual([
+      expect.objectContaining({ row: 2, column: 'Description', reason: 'is 10,000 characters long; at most 4,000 are allowed' }),
+    ]);
+    expect(over.problems[0]!.value.length).toBeLessThanOrEqual(200);
+    expect(over.offers.map((o) => o.line)).toEqual([3]);
   });
 });
