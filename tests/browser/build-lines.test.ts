@@ -1,10 +1,10 @@
 // The Build page in real Chromium: a build line added through the form shows in a variant's resolved BOM with the
 // quantity its rule gives; a rule that fails for some variants is refused with the reason beside its field; lines
-// move up and are deleted. The pure draft rules behind the form are checked in Node alongside.
+// move up and are deleted. The pure draft rules behind the form are checked in Node (tests/unit/ui-build-rules.test.ts).
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { buildLineDraft, moveLine, orderedLines, validateBuildLine } from '../../src/ui/rb-build-rules.ts';
+import { orderedLines } from '../../src/ui/rb-build-rules.ts';
 import { AppUnderTest, WIDE_VIEWPORT, saved } from './harness.ts';
 import type { Session } from './harness.ts';
 
@@ -124,36 +124,5 @@ describe('Build page', () => {
     await saved(page);
     await expect.poll(() => lineCount(page)).toBe(order.length - 1);
     expect(errors).toEqual([]);
-  });
-});
-
-describe('build-line drafts', () => {
-  it('stores attrition typed in percent as a fraction and keeps the part by its part number', () => {
-    const d = { ...buildLineDraft(demo), designators: 'R1', part: 'av-r06-100r', qtyRule: '=steps', category: 'electronics', attrition: '2.5 %' };
-    const r = validateBuildLine(d, demo, undefined, () => 'line_new');
-    expect(r.ok).toBe(true);
-    if (!r.ok) return;
-    expect(r.record.attrition).toBe(0.025);
-    expect(r.record.partId).toBe(demo.parts.find((p) => p.mpn === 'AV-R06-100R')!.id);
-    expect(r.record.qtyRule).toBe('steps');
-    expect(r.record.rev).toBe(0);
-    expect(r.record.position).toBeGreaterThan(Math.max(...demo.buildLines.map((l) => l.position)));
-  });
-
-  it('needs a part or a part rule, a category, and attrition below 100 %', () => {
-    const d = { ...buildLineDraft(demo), designators: 'R1', qtyRule: '1', attrition: '100', role: 'Bad Role' };
-    const r = validateBuildLine(d, demo, undefined, () => 'line_new');
-    expect(r.ok).toBe(false);
-    if (r.ok) return;
-    expect(Object.keys(r.problems).sort()).toEqual(['attrition', 'category', 'part', 'role']);
-  });
-
-  it('moving the first line up changes nothing; moving the second up swaps the two', () => {
-    const lines = orderedLines(demo);
-    expect(moveLine(demo, lines[0]!.id, -1)).toEqual([]);
-    const moved = moveLine(demo, lines[1]!.id, -1);
-    expect(moved.map((l) => l.id).sort()).toEqual([lines[0]!.id, lines[1]!.id].sort());
-    const pos = new Map(moved.map((l) => [l.id, l.position] as const));
-    expect(pos.get(lines[1]!.id)!).toBeLessThan(pos.get(lines[0]!.id)!);
   });
 });

@@ -1,0 +1,38 @@
+// The pure draft rules behind the Build page's form: attrition typed in percent, the part kept by its part number,
+// the fields a build line needs, and moving lines up. (The page itself is driven in tests/browser/build-lines.test.ts.)
+import { describe, expect, it } from 'vitest';
+import { demoBook } from '../../src/domain/demo-book.ts';
+import { buildLineDraft, moveLine, orderedLines, validateBuildLine } from '../../src/ui/rb-build-rules.ts';
+
+const demo = demoBook();
+
+describe('build-line drafts', () => {
+  it('stores attrition typed in percent as a fraction and keeps the part by its part number', () => {
+    const d = { ...buildLineDraft(demo), designators: 'R1', part: 'av-r06-100r', qtyRule: '=steps', category: 'electronics', attrition: '2.5 %' };
+    const r = validateBuildLine(d, demo, undefined, () => 'line_new');
+    expect(r.ok).toBe(true);
+    if (!r.ok) return;
+    expect(r.record.attrition).toBe(0.025);
+    expect(r.record.partId).toBe(demo.parts.find((p) => p.mpn === 'AV-R06-100R')!.id);
+    expect(r.record.qtyRule).toBe('steps');
+    expect(r.record.rev).toBe(0);
+    expect(r.record.position).toBeGreaterThan(Math.max(...demo.buildLines.map((l) => l.position)));
+  });
+
+  it('needs a part or a part rule, a category, and attrition below 100 %', () => {
+    const d = { ...buildLineDraft(demo), designators: 'R1', qtyRule: '1', attrition: '100', role: 'Bad Role' };
+    const r = validateBuildLine(d, demo, undefined, () => 'line_new');
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    expect(Object.keys(r.problems).sort()).toEqual(['attrition', 'category', 'part', 'role']);
+  });
+
+  it('moving the first line up changes nothing; moving the second up swaps the two', () => {
+    const lines = orderedLines(demo);
+    expect(moveLine(demo, lines[0]!.id, -1)).toEqual([]);
+    const moved = moveLine(demo, lines[1]!.id, -1);
+    expect(moved.map((l) => l.id).sort()).toEqual([lines[0]!.id, lines[1]!.id].sort());
+    const pos = new Map(moved.map((l) => [l.id, l.position] as const));
+    expect(pos.get(lines[1]!.id)!).toBeLessThan(pos.get(lines[0]!.id)!);
+  });
+});
