@@ -53,11 +53,21 @@ interface Outcome {
   conflicts: FieldConflict[];
 }
 
+/** The innermost fields in which `b` differs from `a` (a list that changed length counts as one field). */
+function changedPaths(a: unknown, b: unknown, path: FieldPath): FieldPath[] {
+  if (sameValue(a, b)) return [];
+  if (isPlain(a) && isPlain(b)) {
+    return [...new Set([...Object.keys(a), ...Object.keys(b)])].flatMap((k) => changedPaths(a[k], b[k], [...path, k]));
+  }
+  if (Array.isArray(a) && Array.isArray(b) && a.length === b.length) return a.flatMap((x, i) => changedPaths(x, b[i], [...path, i]));
+  return [path];
+}
+
 function mergeValue(base: unknown, mine: unknown, theirs: unknown, path: FieldPath): Outcome {
   const none = { mine: [], theirs: [], conflicts: [] };
   if (sameValue(mine, theirs)) return { value: theirs, ...none };
-  if (sameValue(base, mine)) return { value: theirs, ...none, theirs: [path] };
-  if (sameValue(base, theirs)) return { value: mine, ...none, mine: [path] };
+  if (sameValue(base, mine)) return { value: theirs, ...none, theirs: changedPaths(base, theirs, path) };
+  if (sameValue(base, theirs)) return { value: mine, ...none, mine: changedPaths(base, mine, path) };
   // Both changed the field: look inside when all three have the same shape, so different parts of it can merge.
   if (isPlain(base) && isPlain(mine) && isPlain(theirs)) {
     const out: Plain = Object.create(Object.getPrototypeOf(theirs) as object | null) as Plain;

@@ -1,9 +1,14 @@
 // The open Book for the app: opens the IndexedDB Book, keeps it in memory, writes every change through the store
 // and reports save state, storage use, conflicts, schema upgrades in other tabs and edits made in other tabs.
-import type { Book } from '../domain/book.ts';
+import type { Book, CollectionName } from '../domain/book.ts';
 import { COLLECTIONS, defaultSettings, emptyBook } from '../domain/book.ts';
-import { applyChange } from '../domain/book-ops.ts';
+import { applyChange, revisionMatches } from '../domain/book-ops.ts';
 import { demoBook } from '../domain/demo-book.ts';
+import { mergeRecord } from '../domain/merge.ts';
+import type { FieldConflict, FieldPath } from '../domain/merge.ts';
+import { columnLetters } from '../engine/cells.ts';
+import { parseBookFile } from '../io/book-file.ts';
+import type { BookFileResult } from '../io/book-file.ts';
 import { openBookStore } from '../store/idb-store.ts';
 import { requestPersistence, storageEstimate } from '../store/storage.ts';
 import type { BookChange, BookStore, StorageEstimate } from '../store/types.ts';
@@ -25,9 +30,31 @@ export interface SaveStatus {
   conflict?: boolean;
   /** When the Book was last written successfully. */
   at?: Date;
+  /** A save was merged with a change made in another tab: what was kept from each side, until dismissed. */
+  merged?: string;
 }
 
-export type SaveResult = { ok: true } | { ok: false; message: string; conflict: boolean };
+/** `merged` says what a save kept from another tab's change to the same record, when it had to merge. */
+export type SaveResult = { ok: true; merged?: string } | { ok: false; message: string; conflict: boolean };
+
+/**
+ * A save refused because the user and another tab changed the same field of a record; the message names each field
+ * and both values.
+ */
+export class EditConflict extends RevisionConflict {
+  constructor(collection: CollectionName | 'settings', recordId: string, storedRev: number, givenRev: number, message: string) {
+    super(collection, recordId, storedRev, givenRev);
+    this.message = message;
+    this.name = 'EditConflict';
+  }
+}
+
+/** How many earlier versions of records a tab remembers, to merge an edit made from one of them. */
+const REMEMBERED_VERSIONS = 2000;
+/** Tries of a merged save before it is refused (each try follows another tab's newer write). */
+const MERGE_TRIES = 4;
+
+type AnyRecord = { id: string; rev: number } & Record<string, unknown>;
 
 /** Why the service stopped accepting writes until the tab reloads. */
 export const BLOCKED = {
@@ -62,6 +89,13 @@ export class BookService extends EventTarget {
   private channel: BroadcastChannel | undefined;
   private writes: Promise<unknown> = Promise.resolve();
   private inFlight = 0;
+  /**
+   * Records as this tab held them before they were replaced, by collection, id and revision: what a person may have
+   * seen and edited. A save from one of them that finds the record stored at a newer revision is merged from it.
+   */
+  private readonly earlier = new Map<string, AnyRecord>();
+  /** Record revisions this tab wrote itself, so merging over its own earlier saves needs no notice. */
+  private readonly ownRevisions = new Set<string>();
 
   private constructor(
     private store: BookStore,
@@ -92,18 +126,135 @@ export class BookService extends EventTarget {
     return service;
   }
 
+  /**
+   * Replaces the Book kept in this browser with a Book file, without opening the stored one: the way out when the
+   * stored Book does not read (see StoredBookInvalid). The file is checked first; a bad file changes nothing.
+   */
+  static async replaceStored(text: string, dbName: string = DEFAULT_DB_NAME): Promise<BookFileResult> {
+    const parsed = parseBookFile(text);
+    if (!parsed.ok) return parsed;
+    const store = await openBookStore(dbName);
+    try {
+      await store.replaceAll(parsed.book);
+    } finally {
+      store.close();
+    }
+    return parsed;
+  }
+
   get name(): string {
     return this.store.name;
   }
 
-  /** Writes a change in one transaction and, once stored, applies it to the Book in memory. */
+  /**
+   * Writes a change in one transaction and, once stored, applies it to the Book in memory. Each record carries the
+   * revision it was read at (as the user saw it). When another tab saved the record since, the user's edit is merged
+   * field by field into the stored record (domain/merge.ts): saved with a notice naming what came from the other
+   * tab, or refused, naming each field both changed and the other tab's value.
+   */
   save(change: BookChange): Promise<SaveResult> {
     return this.enqueue(async () => {
-      await this.store.apply(change);
-      const next = applyChange(this.book, change);
+      const { written, merged } = await this.writeMerging(change);
+      const next = applyChange(this.book, written);
       // The store accepted the change, so a mismatch here means memory fell behind (another tab): re-read it.
-      this.book = next.ok ? next.book : await this.store.load();
+      this.adopt(next.ok ? next.book : await this.store.load());
+      this.noteOwn(written);
+      return merged;
     });
+  }
+
+  /** Drops the notice of the last merged save. */
+  dismissMerged(): void {
+    if (this.status.merged === undefined) return;
+    const { merged: _gone, ...rest } = this.status;
+    this.status = rest;
+    this.emit('status');
+  }
+
+  /** Stores a change; on a stale revision, merges each stale record from the version the tab held and tries again. */
+  private async writeMerging(change: BookChange): Promise<{ written: BookChange; merged: string | undefined }> {
+    let written = change;
+    let notes: string[] = [];
+    for (let attempt = 1; ; attempt++) {
+      try {
+        await this.store.apply(written);
+        return { written, merged: notes.length ? notes.join(' ') : undefined };
+      } catch (e) {
+        if (!(e instanceof RevisionConflict) || e instanceof EditConflict || attempt >= MERGE_TRIES) throw e;
+        const stored = await this.store.load();
+        const rebased = this.rebase(change, stored);
+        written = rebased.change;
+        notes = rebased.notes;
+      }
+    }
+  }
+
+  /**
+   * The change with every record whose stored revision moved on merged into the stored record, from the version this
+   * tab held at the revision the record carries. Throws the conflict when a record cannot be merged.
+   */
+  private rebase(change: BookChange, stored: Book): { change: BookChange; notes: string[] } {
+    const notes: string[] = [];
+    const one = <R extends AnyRecord>(c: CollectionName | 'settings', mine: R, held: R | undefined): R => {
+      if (revisionMatches(held?.rev, mine.rev)) return mine;
+      const base = mine.rev === 0 ? undefined : this.heldVersion(c, mine.id, mine.rev);
+      if (!held || !base) throw refusedFor(c, mine, held);
+      const m = mergeRecord<R>(base as R, mine, held);
+      if (!m.ok) throw new EditConflict(c, mine.id, held.rev, mine.rev, conflictMessage(c, held, m.conflicts));
+      if (m.theirs.length > 0 && !this.allOwn(c, mine.id, base.rev, held.rev)) notes.push(mergedMessage(c, held, m.theirs, m.mine));
+      return { ...m.merged, rev: held.rev };
+    };
+    const out: BookChange = { ...change };
+    if (change.put) {
+      const put: Record<string, AnyRecord[]> = {};
+      for (const [c, list] of Object.entries(change.put) as [CollectionName, AnyRecord[] | undefined][]) {
+        if (!list) continue;
+        const held = new Map((stored[c] as unknown as AnyRecord[]).map((r) => [r.id, r] as const));
+        put[c] = list.map((r) => one(c, r, held.get(r.id)));
+      }
+      out.put = put as BookChange['put'];
+    }
+    if (change.settings) out.settings = one('settings', change.settings as unknown as AnyRecord, stored.settings as unknown as AnyRecord) as never;
+    return { change: out, notes };
+  }
+
+  /** The record as this tab held it at revision `rev`: in its copy of the Book now, or remembered from before. */
+  private heldVersion(c: CollectionName | 'settings', id: string, rev: number): AnyRecord | undefined {
+    const now = (c === 'settings' ? [this.book.settings] : this.book[c]) as readonly AnyRecord[];
+    return now.find((r) => r.id === id && r.rev === rev) ?? this.earlier.get(versionKey(c, id, rev));
+  }
+
+  /** True when every revision after `fromRev` up to `toRev` of the record was written by this tab. */
+  private allOwn(c: string, id: string, fromRev: number, toRev: number): boolean {
+    for (let rev = fromRev + 1; rev <= toRev; rev++) if (!this.ownRevisions.has(versionKey(c, id, rev))) return false;
+    return true;
+  }
+
+  private noteOwn(change: BookChange): void {
+    for (const [c, list] of Object.entries(change.put ?? {}) as [string, AnyRecord[] | undefined][]) {
+      for (const r of list ?? []) this.ownRevisions.add(versionKey(c, r.id, r.rev + 1));
+    }
+    if (change.settings) this.ownRevisions.add(versionKey('settings', 'settings', change.settings.rev + 1));
+  }
+
+  /** Takes a newer Book as the tab's copy, remembering each record it replaces as the tab held it. */
+  private adopt(next: Book): void {
+    const prev = this.book;
+    for (const c of COLLECTIONS) {
+      if (prev[c] === next[c]) continue;
+      const now = new Map<string, number>();
+      for (const r of next[c]) now.set(r.id, r.rev);
+      for (const r of prev[c] as readonly AnyRecord[]) if (now.get(r.id) !== r.rev) this.remember(c, r);
+    }
+    if (prev.settings.rev !== next.settings.rev) this.remember('settings', prev.settings as unknown as AnyRecord);
+    this.book = next;
+  }
+
+  private remember(c: string, r: AnyRecord): void {
+    const key = versionKey(c, r.id, r.rev);
+    this.earlier.delete(key);
+    this.earlier.set(key, r);
+    if (this.earlier.size > REMEMBERED_VERSIONS) this.earlier.delete(this.earlier.keys().next().value!);
   }
 
   /** Records that a Book file was just downloaded: the date goes into the settings, the edit count restarts. */
@@ -122,6 +273,9 @@ export class BookService extends EventTarget {
     return this.enqueue(async () => {
       await this.store.replaceAll(book);
       this.book = await this.store.load();
+      // A replaced Book may reuse ids and revisions with other content: nothing earlier is merged from.
+      this.earlier.clear();
+      this.ownRevisions.clear();
     });
   }
 
@@ -141,7 +295,7 @@ export class BookService extends EventTarget {
 
   /** Re-reads the Book from storage, dropping the memory copy (after a conflict or another tab's edit). */
   async reload(): Promise<void> {
-    this.book = await this.store.load();
+    this.adopt(await this.store.load());
     this.status = { state: SAVE_STATES.saved, at: new Date() };
     this.emit('book');
     this.emit('status');
@@ -170,7 +324,7 @@ export class BookService extends EventTarget {
     }
   }
 
-  private enqueue(write: () => Promise<void>): Promise<SaveResult> {
+  private enqueue(write: () => Promise<string | void>): Promise<SaveResult> {
     if (this.blocked) {
       const message = 'Rungbook was updated in another tab; reload this tab before making changes.';
       return Promise.resolve({ ok: false, message, conflict: false });
@@ -180,15 +334,18 @@ export class BookService extends EventTarget {
     this.emit('status');
     const run = this.writes.then(async (): Promise<SaveResult> => {
       try {
-        await write();
+        const merged = await write();
         this.inFlight -= 1;
         this.editsSinceExport += 1;
-        if (this.inFlight === 0) this.status = { state: SAVE_STATES.saved, at: new Date() };
+        // A merge notice stays until dismissed, so a quick next save does not hide it.
+        const note = merged || this.status.merged;
+        if (this.inFlight === 0) this.status = { state: SAVE_STATES.saved, at: new Date(), ...(note ? { merged: note } : {}) };
+        else if (merged) this.status = { ...this.status, merged };
         this.emit('book');
         this.emit('status');
         this.tellOtherTabs();
         void this.refreshStorage();
-        return { ok: true };
+        return merged ? { ok: true, merged } : { ok: true };
       } catch (e) {
         this.inFlight -= 1;
         const conflict = e instanceof RevisionConflict;
@@ -217,7 +374,7 @@ export class BookService extends EventTarget {
       // Wait for our own writes so a reload does not race them.
       this.writes = this.writes.then(async () => {
         try {
-          this.book = await this.store.load();
+          this.adopt(await this.store.load());
           this.lastRemoteChange = new Date();
           this.emit('book');
         } catch {
@@ -257,6 +414,7 @@ function starterBook(): Book {
 
 /** Turns a storage failure into a sentence a user can act on. */
 export function describeWriteError(e: unknown): string {
+  if (e instanceof EditConflict) return e.message;
   if (e instanceof RevisionConflict) {
     return 'Not saved: this record was changed in another tab or window since you opened it. Reload to see the newer version, then make your change again.';
   }
@@ -270,4 +428,72 @@ export function describeWriteError(e: unknown): string {
   }
   const detail = e instanceof Error ? e.message : String(e);
   return `Not saved: ${detail}`;
+}
+
+function versionKey(c: string, id: string, rev: number): string {
+  return `${c}\u0000${id}\u0000${rev}`;
+}
+
+/** The conflict for a record that cannot be merged: deleted elsewhere, a new record whose id is taken, no base held. */
+function refusedFor(c: CollectionName | 'settings', mine: AnyRecord, held: AnyRecord | undefined): RevisionConflict {
+  if (!held && mine.rev > 0) {
+    const message = `Not saved: ${recordName(c, mine)} was deleted in another tab or window since you opened it. Reload to see the Book as it is now.`;
+    return new EditConflict(c, mine.id, 0, mine.rev, message);
+  }
+  return new RevisionConflict(c, mine.id, held?.rev ?? 0, mine.rev);
+}
+
+/** How a person names a record in a notice: its code, part number, title or name. */
+function recordName(c: CollectionName | 'settings', r: AnyRecord): string {
+  if (c === 'settings') return 'the costing settings';
+  for (const k of ['code', 'mpn', 'title', 'name']) {
+    const v = r[k];
+    if (typeof v === 'string' && v.trim() !== '') return v;
+  }
+  return `${c} record ${r.id}`;
+}
+
+/** A field's path in words: ["sections", 0, "grid", 1, 2] → "cell C2 of section 1"; ["params", "vf"] → "parameter vf". */
+export function fieldName(path: FieldPath): string {
+  const parts: string[] = [];
+  for (let i = 0; i < path.length; i++) {
+    const p = path[i]!;
+    const next = path[i + 1];
+    if (p === 'sections' && typeof next === 'number') {
+      parts.push(`section ${next + 1}`);
+      i += 1;
+    } else if (p === 'grid' && typeof next === 'number' && typeof path[i + 2] === 'number') {
+      parts.push(`cell ${columnLetters(path[i + 2] as number)}${next + 1}`);
+      i += 2;
+    } else if (p === 'params' && typeof next === 'string') {
+      parts.push(`parameter ${next}`);
+      i += 1;
+    } else if (typeof p === 'number') {
+      parts.push(`${parts.pop() ?? 'entry'} #${p + 1}`);
+    } else {
+      parts.push(p);
+    }
+  }
+  return parts.length ? parts.reverse().join(' of ') : 'the whole record';
+}
+
+function shownValue(v: unknown): string {
+  if (v === undefined) return 'nothing (removed)';
+  const text = typeof v === 'string' ? `“${v}”` : typeof v === 'number' || typeof v === 'boolean' ? String(v) : JSON.stringify(v);
+  return text.length > 80 ? `${text.slice(0, 77)}…` : text;
+}
+
+function conflictMessage(c: CollectionName | 'settings', theirs: AnyRecord, conflicts: readonly FieldConflict[]): string {
+  const fields = conflicts.map((f) => `${fieldName(f.path)} is now ${shownValue(f.theirs)} there (yours: ${shownValue(f.mine)})`);
+  return (
+    `Not saved: ${recordName(c, theirs)} was changed in another tab or window since you opened it, in the same ` +
+    `${conflicts.length === 1 ? 'field' : 'fields'} as your edit: ${fields.join('; ')}. ` +
+    'Reload to see the newer version, then make your change again if it is still needed.'
+  );
+}
+
+function mergedMessage(c: CollectionName | 'settings', theirs: AnyRecord, fromThem: readonly FieldPath[], fromMe: readonly FieldPath[]): string {
+  const list = (paths: readonly FieldPath[]) => [...new Set(paths.map(fieldName))].join(', ');
+  const mine = fromMe.length ? `; your change to ${list(fromMe)} was saved over it` : '';
+  return `${recordName(c, theirs)} was also changed in another tab: kept its ${list(fromThem)}${mine}.`;
 }

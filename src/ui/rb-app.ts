@@ -4,6 +4,8 @@ import { ContextProvider } from '@lit/context';
 import { LitElement, css, html, nothing } from 'lit';
 import type { TemplateResult } from 'lit';
 import { customElement, state } from 'lit/decorators.js';
+import { BOOK_FILE_EXTENSION } from '../io/book-file.ts';
+import { StoredBookInvalid } from '../store/types.ts';
 import { bookContext } from './book-context.ts';
 import { BookService } from './book-service.ts';
 import { PAGES, notebookRoute, parseRoute } from './pages.ts';
@@ -15,7 +17,10 @@ import './rb-user-page.ts';
 import './rb-user-page-new.ts';
 import './rb-save-state.ts';
 
-type Phase = { kind: 'opening' } | { kind: 'open'; service: BookService } | { kind: 'failed'; message: string };
+type Phase =
+  | { kind: 'opening' }
+  | { kind: 'open'; service: BookService }
+  | { kind: 'failed'; message: string; /** Set when the stored Book does not read: its records, to save and repair. */ stored?: StoredBookInvalid };
 
 @customElement('rb-app')
 export class RbApp extends LitElement {
@@ -207,6 +212,8 @@ export class RbApp extends LitElement {
   @state() private route: Route = parseRoute(location.hash);
   @state() private notice: NoticeDetail | undefined;
   @state() private pageElement: HTMLElement | undefined;
+  /** Problems of a corrected Book file opened from the repair view. */
+  @state() private repairProblems: string[] = [];
   private readonly provider = new ContextProvider(this, { context: bookContext });
   private readonly pageElements = new Map<string, HTMLElement>();
   private readonly onHash = (): void => this.go(parseRoute(location.hash));
@@ -235,6 +242,10 @@ export class RbApp extends LitElement {
       this.go(this.route);
     } catch (e) {
       const detail = e instanceof Error ? e.message : String(e);
+      if (e instanceof StoredBookInvalid) {
+        this.phase = { kind: 'failed', message: detail, stored: e };
+        return;
+      }
       this.phase = {
         kind: 'failed',
         message: `The Book could not be opened in this browser: ${detail}. Rungbook keeps Books in the browser's own storage (IndexedDB); private windows and some settings turn it off.`,
@@ -275,11 +286,40 @@ export class RbApp extends LitElement {
       return html`<div class="failed" role="alert">
         <h1>Rungbook</h1>
         <p>${phase.message}</p>
+        ${phase.stored ? this.renderRepair(phase.stored) : nothing}
       </div>`;
     }
     const service = phase.service;
     return html`${this.renderRail(service)}
       <main>${this.renderBanners(service)}${this.renderRoute(service)}</main>`;
+  }
+
+  /** The way out when the stored Book does not read: save its records as they are, then open a repaired file. */
+  private renderRepair(stored: StoredBookInvalid): TemplateResult {
+    const download = (): void => {
+      const blob = new Blob([JSON.stringify(stored.stored, null, 1)], { type: 'application/json' });
+      const a = document.createElement('a');
+      a.href = URL.createObjectURL(blob);
+      a.download = `stored-book${BOOK_FILE_EXTENSION}`;
+      a.click();
+      setTimeout(() => URL.revokeObjectURL(a.href), 10_000);
+    };
+    const open = async (e: Event): Promise<void> => {
+      const file = (e.target as HTMLInputElement).files?.[0];
+      if (!file) return;
+      const result = await BookService.replaceStored(await file.text());
+      if (result.ok) location.reload();
+      else this.repairProblems = result.problems.map((p) => (p.path ? `${p.path}: ${p.message}` : p.message));
+    };
+    return html`<p>Nothing has been changed or deleted. Save the stored records as a file, correct the places named
+        above in a text editor, and open the corrected file here; it replaces the stored Book once it reads whole.</p>
+      <p>
+        <button type="button" data-testid="repair-download" @click=${download}>Save the stored records as a file</button>
+        <label>Open a corrected Book file <input type="file" accept=".json,application/json" data-testid="repair-open" @change=${open} /></label>
+      </p>
+      ${this.repairProblems.length
+        ? html`<ul data-testid="repair-problems">${this.repairProblems.map((p) => html`<li>${p}</li>`)}</ul>`
+        : nothing}`;
   }
 
   private renderRail(service: BookService): TemplateResult {
@@ -351,6 +391,13 @@ export class RbApp extends LitElement {
               : ''}
           </div>`
         : '';
+    const merged =
+      s.state !== 'failed' && s.merged
+        ? html`<div class="banner done" role="status" data-testid="merge-notice">
+            <strong>Saved, merged with another tab's change.</strong> ${s.merged}
+            <button type="button" class="plain" @click=${() => service.dismissMerged()}>Dismiss</button>
+          </div>`
+        : '';
     const n = this.notice;
     const notice = n
       ? html`<div class="banner ${n.tone}" role=${n.tone === 'problem' ? 'alert' : 'status'} data-testid="notice">
@@ -359,7 +406,7 @@ export class RbApp extends LitElement {
           ${n.lines.length ? html`<ul>${n.lines.map((l) => html`<li>${l}</li>`)}</ul>` : ''}
         </div>`
       : '';
-    return html`${blocked}${failed}${notice}`;
+    return html`${blocked}${failed}${merged}${notice}`;
   }
 
   private renderRoute(service: BookService): TemplateResult {

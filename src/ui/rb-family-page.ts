@@ -4,6 +4,8 @@
 import { LitElement, css, html } from 'lit';
 import { customElement, query, state } from 'lit/decorators.js';
 import type { Book, Variant } from '../domain/book.ts';
+import type { BookChange } from '../domain/book-ops.ts';
+import { mergeRecord } from '../domain/merge.ts';
 import { newId } from '../domain/book.ts';
 import { STATUS_SYMBOL } from '../domain/check-status.ts';
 import { currencyMoney, grouped } from '../domain/format.ts';
@@ -14,7 +16,7 @@ import { BookController } from './book-context.ts';
 import { CostingService } from './costing-service.ts';
 import { field, focusFirstProblem, group, nothingSaved, saveRefusal } from './form-fields.ts';
 import './rb-grid.ts';
-import type { GridCell, GridClearDetail, GridColumn, GridCommitDetail, GridPasteDetail, GridRow, RbGrid } from './rb-grid.ts';
+import type { GridCell, GridClearDetail, GridColumn, GridCommitDetail, GridEditDetail, GridPasteDetail, GridRow, RbGrid } from './rb-grid.ts';
 import { COLUMN_KINDS, duplicateVariants, editVariant, planClear, planPaste } from './rb-grid-edits.ts';
 import type { FamilyColumn, PastePlan, PasteTarget } from './rb-grid-edits.ts';
 import type { FieldProblems, VariantDraft } from './record-forms.ts';
@@ -25,6 +27,22 @@ import type { Direction, UndoStep } from './undo.ts';
 
 type Editing = { variant: Variant | undefined; draft: VariantDraft; problems: FieldProblems; saveError?: string; conflict?: boolean };
 type Notice = { text: string; problem: boolean };
+/** A saving step: the undo step and what it says when done; `change`, when given, is saved as it is (see enqueue). */
+type Made = { step: UndoStep<Variant>; done: string; change?: BookChange };
+
+/**
+ * A cell edit saved from the variant as the person saw it (`before`), as the undo stack keeps it: after as stored,
+ * before as stored with only the person's own change taken back, so an undo keeps what another tab merged in.
+ */
+function asSaved(step: UndoStep<Variant>, book: Book): UndoStep<Variant> {
+  const changes = step.changes.map((c) => {
+    const stored = book.variants.find((v) => v.id === c.id);
+    if (!c.before || !c.after || !stored) return { ...c, after: stored ?? c.after };
+    const back = mergeRecord(c.after, c.before, stored);
+    return { id: c.id, before: back.ok ? back.merged : c.before, after: stored };
+  });
+  return { ...step, changes };
+}
 
 const STATUS_KEY = 'checks';
 const costKey = (run: number): string => `cost_${run}`;
@@ -133,6 +151,8 @@ export class RbFamilyPage extends LitElement {
   private syncQueued = false;
   private columnCache: { sig: string; grid: GridColumn[]; family: FamilyColumn[] } | undefined;
   private order: Variant[] = [];
+  /** The variant as it was when editing of a grid cell began; the cell's save is made from it. */
+  private editFrom: Variant | undefined;
 
   @state() private editing: Editing | undefined;
   @state() private confirmDelete: Variant[] | undefined;
@@ -324,6 +344,7 @@ export class RbFamilyPage extends LitElement {
         newRow="+ new"
         .columns=${grid}
         .rows=${rows}
+        @rb-grid-edit=${this._onEditStart}
         @rb-grid-commit=${this._onCommit}
         @rb-grid-paste=${this._onPaste}
         @rb-grid-clear=${this._onClear}
@@ -384,7 +405,7 @@ export class RbFamilyPage extends LitElement {
   // ---- saving steps
 
   /** Runs a save after the ones before it; `make` builds the step from the Book as it is then. */
-  private enqueue(make: (book: Book) => { step: UndoStep<Variant>; done: string } | { problem: string }): Promise<void> {
+  private enqueue(make: (book: Book) => Made | { problem: string }): Promise<void> {
     const service = this.books.service;
     if (!service) return Promise.resolve();
     this.busy += 1;
@@ -395,7 +416,9 @@ export class RbFamilyPage extends LitElement {
           this.notice = { text: made.problem, problem: true };
           return;
         }
-        const plan = stepChange(service.book, 'variants', made.step, DIRECTIONS.redo, (v) => v.code);
+        // A change made from the record as the person saw it goes to the Book service as it is, which merges it
+        // with what was saved since or refuses it naming the field.
+        const plan = made.change ? { ok: true as const, change: made.change } : stepChange(service.book, 'variants', made.step, DIRECTIONS.redo, (v) => v.code);
         if (!plan.ok) {
           this.notice = { text: plan.message, problem: true };
           return;
@@ -405,8 +428,9 @@ export class RbFamilyPage extends LitElement {
           this.notice = { text: result.message, problem: true };
           return;
         }
-        this.history.record(made.step);
-        this.notice = made.done ? { text: made.done, problem: false } : undefined;
+        this.history.record(made.change ? asSaved(made.step, service.book) : made.step);
+        const done = result.merged ?? made.done;
+        this.notice = done ? { text: done, problem: false } : undefined;
       } finally {
         this.busy -= 1;
       }
@@ -430,6 +454,11 @@ export class RbFamilyPage extends LitElement {
     return this.order.map((v) => byId.get(v.id) ?? v);
   }
 
+  private readonly _onEditStart = (ev: CustomEvent<GridEditDetail>): void => {
+    const id = ev.detail.rowId;
+    this.editFrom = id === undefined ? undefined : this.books.book?.variants.find((v) => v.id === id);
+  };
+
   private readonly _onCommit = (ev: CustomEvent<GridCommitDetail>): void => {
     const book = this.books.book;
     const d = ev.detail;
@@ -446,13 +475,14 @@ export class RbFamilyPage extends LitElement {
       return;
     }
     const id = check.record.id;
+    const seen = variant && this.editFrom?.id === variant.id ? this.editFrom : variant;
     void this.enqueue((now) => {
       const v = variant ? now.variants.find((x) => x.id === variant.id) : undefined;
       if (variant && !v) return { problem: `${variant.code} was deleted elsewhere; the edit was not saved.` };
-      const r = editVariant(now, v, texts, () => id);
+      const r = editVariant(now, v && seen, texts, () => id);
       if (!r.ok) return { problem: `${v?.code ?? 'New variant'}, ${r.key}: ${r.message}. Nothing was saved.` };
       const label = v ? `edit ${d.key} of ${v.code}` : `add ${r.record.code}`;
-      return { step: { label, changes: [{ id: r.record.id, before: v, after: r.record }] }, done: '' };
+      return { step: { label, changes: [{ id: r.record.id, before: v && seen, after: r.record }] }, done: '', change: { put: { variants: [r.record] } } };
     });
   };
 

@@ -62,6 +62,12 @@ export interface GridCommitDetail {
   refuse(message: string): void;
 }
 
+/** Editing of a cell began: the page keeps the record as the person saw it, to save the edit from it. */
+export interface GridEditDetail {
+  rowId: string | undefined;
+  key: string;
+}
+
 export interface GridPasteDetail {
   /** Top-left cell of the paste. */
   row: number;
@@ -368,6 +374,8 @@ export class RbGrid extends LitElement {
     const original = cell?.edit ?? cell?.text ?? '';
     this.anchor = { ...this.active };
     this.editing = { rowId: this.rowIdAt(r), col: c, text: replaceWith ?? original, original };
+    const edit: GridEditDetail = { rowId: this.rows[r]?.id, key: col.key };
+    this.dispatchEvent(new CustomEvent<GridEditDetail>('rb-grid-edit', { detail: edit, bubbles: true, composed: true }));
     this.message = undefined;
     this.focusEditor = true;
   }
@@ -711,6 +719,7 @@ declare global {
     'rb-grid': RbGrid;
   }
   interface HTMLElementEventMap {
+    'rb-grid-edit': CustomEvent<GridEditDetail>;
     'rb-grid-commit': CustomEvent<GridCommitDetail>;
     'rb-grid-paste': CustomEvent<GridPasteDetail>;
     'rb-grid-clear': CustomEvent<GridClearDetail>;

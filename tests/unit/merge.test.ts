@@ -83,6 +83,12 @@ describe('three-way merge of a record', () => {
     const mine: V = { id: 'v', rev: 1, params: { load_w: 40, vf: 3 } };
     const r = mergeRecord(b, mine, theirs);
     expect(r.ok && r.merged).toEqual({ id: 'v', rev: 2, params: { load_w: 60, vf: 3, c1: 1e-7 } });
+    expect(r.ok && r.mine).toEqual([['params', 'r1']]);
+    expect(r.ok && r.theirs).toEqual([['params', 'load_w'], ['params', 'c1']]);
+    // Changes made on one side only are named field by field, not as the whole object that holds them.
+    const oneSide = mergeRecord(b, { ...b, params: { ...b.params, vf: 4 } }, { ...b, rev: 2, name: 'x' } as V);
+    expect(oneSide.ok && oneSide.mine).toEqual([['params', 'vf']]);
+    expect(oneSide.ok && oneSide.theirs).toEqual([['name']]);
     const clash = mergeRecord(b, { ...mine, params: { ...b.params, vf: 7 } }, { ...theirs, params: { ...b.params, vf: 5 } });
     expect(clash).toEqual({ ok: false, conflicts: [{ path: ['params', 'vf'], base: 3, mine: 7, theirs: 5 }] });
   });

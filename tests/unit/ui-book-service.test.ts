@@ -95,6 +95,50 @@ describe('Book service', () => {
     expect(b.book.suppliers.find((s) => s.id === original.id)?.notes).toBe('from tab A');
   });
 
+  it('merges a save from an older revision field by field when the other tab changed other fields, with a notice', async () => {
+    const name = `rungbook-ui-${++dbCount}`;
+    const a = await open(name);
+    const b = await open(name);
+    const original = b.book.suppliers[0]!;
+    expect((await a.save({ put: { suppliers: [{ ...original, notes: 'from tab A' }] } })).ok).toBe(true);
+    // Tab B refreshes (as after the other tab's broadcast) but saves the copy its user saw.
+    await b.reload();
+    const r = await b.save({ put: { suppliers: [{ ...original, name: 'Renamed in tab B' }] } });
+    expect(r.ok).toBe(true);
+    if (!r.ok) return;
+    expect(r.merged).toMatch(/also changed in another tab: kept its notes; your change to name was saved over it/);
+    expect(b.status.merged).toBe(r.merged);
+    const stored = b.book.suppliers.find((s) => s.id === original.id)!;
+    expect(stored).toMatchObject({ notes: 'from tab A', name: 'Renamed in tab B', rev: original.rev + 2 });
+    b.dismissMerged();
+    expect(b.status.merged).toBeUndefined();
+  });
+
+  it('refuses a stale save that changed the same field, naming the field and the other value', async () => {
+    const name = `rungbook-ui-${++dbCount}`;
+    const a = await open(name);
+    const b = await open(name);
+    const v = b.book.variants[0]!;
+    const key = Object.keys(v.params)[0]!;
+    expect((await a.save({ put: { variants: [{ ...v, params: { ...v.params, [key]: 11 } }] } })).ok).toBe(true);
+    await b.reload();
+    const r = await b.save({ put: { variants: [{ ...v, params: { ...v.params, [key]: 22 } }] } });
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    expect(r.conflict).toBe(true);
+    expect(r.message).toContain(`parameter ${key} is now 11 there (yours: 22)`);
+    expect(b.book.variants.find((x) => x.id === v.id)?.params[key]).toBe(11);
+  });
+
+  it('merges over its own earlier save without a notice', async () => {
+    const s = await open();
+    const original = s.book.suppliers[0]!;
+    expect((await s.save({ put: { suppliers: [{ ...original, notes: 'first' }] } })).ok).toBe(true);
+    const r = await s.save({ put: { suppliers: [{ ...original, name: 'second' }] } });
+    expect(r).toEqual({ ok: true });
+    expect(s.book.suppliers.find((x) => x.id === original.id)).toMatchObject({ notes: 'first', name: 'second' });
+  });
+
   it('turns a malformed change into a message and writes nothing', async () => {
     const s = await open();
     const before = s.book.parts.length;
