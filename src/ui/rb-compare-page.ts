@@ -28,8 +28,8 @@ import {
   readRunSizes,
   variantDifference,
   whatIfCount,
-} from './rb-build-costing.ts';
-import type { CostSettingName, WhatIf } from './rb-build-costing.ts';
+} from './build-costing.ts';
+import type { CostSettingName, WhatIf } from './build-costing.ts';
 import type { NoticeDetail } from './rb-book-menu.ts';
 import type { BarRow, BarSeries } from './rb-chart-bars.ts';
 import type { CurveSeries } from './rb-chart-curves.ts';

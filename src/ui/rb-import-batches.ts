@@ -5,7 +5,7 @@ import { customElement, state } from 'lit/decorators.js';
 import type { Book, ImportBatch } from '../domain/book.ts';
 import { undoBatch } from '../domain/quotes.ts';
 import { BookController } from './book-context.ts';
-import { timeText } from './rb-quote-text.ts';
+import { timeText } from './quote-text.ts';
 import { pageStyles } from './styles.ts';
 
 /** The earlier batch that imported the same bytes for the same supplier, if any. */

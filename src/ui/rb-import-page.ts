@@ -24,7 +24,7 @@ import { supplierDraft, validateSupplier } from './record-forms.ts';
 import './rb-import-batches.ts';
 import './rb-import-mapping.ts';
 import type { MappingChangeDetail } from './rb-import-mapping.ts';
-import { breaksText, leadText } from './rb-quote-text.ts';
+import { breaksText, leadText } from './quote-text.ts';
 import { pageStyles } from './styles.ts';
 
 /** The invented demo price files shipped in public/demo, each in another layout. */

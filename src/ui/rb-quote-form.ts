@@ -8,8 +8,8 @@ import type { Book, Quote } from '../domain/book.ts';
 import { newId } from '../domain/book.ts';
 import { todayIso } from '../domain/dates.ts';
 import { field, group, nothingSaved } from './form-fields.ts';
-import type { QuoteDraft, QuoteProblems } from './rb-quote-text.ts';
-import { quoteDraft, validateQuote } from './rb-quote-text.ts';
+import type { QuoteDraft, QuoteProblems } from './quote-text.ts';
+import { quoteDraft, validateQuote } from './quote-text.ts';
 import { pageStyles } from './styles.ts';
 
 export type QuoteSubmitDetail = { quote: Quote };

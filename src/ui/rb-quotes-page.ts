@@ -11,7 +11,7 @@ import { rowActions } from './form-fields.ts';
 import './rb-import-batches.ts';
 import './rb-quote-form.ts';
 import type { QuoteSubmitDetail } from './rb-quote-form.ts';
-import { breaksText, leadText, qtyText, quoteStatus } from './rb-quote-text.ts';
+import { breaksText, leadText, qtyText, quoteStatus } from './quote-text.ts';
 import { pageStyles } from './styles.ts';
 
 type Editing = { quote: Quote | undefined; saveError?: string };

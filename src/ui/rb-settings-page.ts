@@ -10,8 +10,8 @@ import { PART_KINDS } from '../domain/book.ts';
 import { BookController } from './book-context.ts';
 import { field, fieldId, focusFirstProblem, group, nothingSaved } from './form-fields.ts';
 import type { FieldProblems } from './record-forms.ts';
-import { COST_SETTINGS, settingsDraft, validateSettings } from './rb-build-costing.ts';
-import type { SettingsDraft } from './rb-build-costing.ts';
+import { COST_SETTINGS, settingsDraft, validateSettings } from './build-costing.ts';
+import type { SettingsDraft } from './build-costing.ts';
 import type { NoticeDetail } from './rb-book-menu.ts';
 import { pageStyles } from './styles.ts';
 

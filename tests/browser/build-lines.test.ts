@@ -4,7 +4,7 @@
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { orderedLines } from '../../src/ui/rb-build-rules.ts';
+import { orderedLines } from '../../src/ui/build-rules.ts';
 import { AppUnderTest, WIDE_VIEWPORT, saved } from './harness.ts';
 import type { Session } from './harness.ts';
 

@@ -2,7 +2,7 @@
 // currency with its rate. (The page itself is driven in tests/browser/compare-rates.test.ts.)
 import { describe, expect, it } from 'vitest';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { readRunSizes, settingsDraft, validateSettings } from '../../src/ui/rb-build-costing.ts';
+import { readRunSizes, settingsDraft, validateSettings } from '../../src/ui/build-costing.ts';
 
 const demo = demoBook();
 

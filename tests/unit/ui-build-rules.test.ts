@@ -2,7 +2,7 @@
 // the fields a build line needs, and moving lines up. (The page itself is driven in tests/browser/build-lines.test.ts.)
 import { describe, expect, it } from 'vitest';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { buildLineDraft, moveLine, orderedLines, validateBuildLine } from '../../src/ui/rb-build-rules.ts';
+import { buildLineDraft, moveLine, orderedLines, validateBuildLine } from '../../src/ui/build-rules.ts';
 
 const demo = demoBook();
 
