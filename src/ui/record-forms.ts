@@ -2,7 +2,8 @@
 // messages keyed by field (shown beside that field). No DOM here, so the rules are tested in Node.
 import type { Book, ParamValue, Part, PartKind, Settings, Supplier, Variant } from '../domain/book.ts';
 import { PART_KINDS, mpnKey } from '../domain/book.ts';
-import { PART_VALUE_UNITS, isPartValueUnit } from '../domain/schema.ts';
+import type * as v from 'valibot';
+import { LIMITS, PART_VALUE_UNITS, PartSchema, SupplierSchema, VariantSchema, checkWith, isPartValueUnit } from '../domain/schema.ts';
 import { MAX_STEPS, PART_RATINGS, VARIANT_PARAMS, ownValue, paramNameProblem } from '../domain/params.ts';
 import { formatValue, parseValue } from '../domain/units.ts';
 
@@ -45,10 +46,42 @@ export function readNumber(text: string, unit: string): { ok: true; value: numbe
 const CODE_RE = /^[A-Za-z0-9][A-Za-z0-9._/-]*$/;
 const CURRENCY_RE = /^[A-Z]{3}$/;
 
-function required(problems: FieldProblems, field: string, text: string, label: string): string {
+function required(problems: FieldProblems, field: string, text: string, label: string, max: number = LIMITS.name): string {
   const t = text.trim();
   if (t === '') problems[field] = `${label} is required`;
+  else limitLength(problems, field, t, max);
   return t;
+}
+
+/** Notes a text longer than the Book's limit for it (LIMITS), so the form says so beside the field. */
+export function limitLength(problems: FieldProblems, field: string, text: string, max: number): void {
+  if (text.length > max && problems[field] === undefined) {
+    problems[field] = `Too long: ${text.length.toLocaleString('en-GB')} characters; at most ${max.toLocaleString('en-GB')} are allowed`;
+  }
+}
+
+/** The form field a schema problem belongs to: `ratings.v_max` → `rating:v_max`, `params.x` → `param:x`, else its first name. */
+function formField(path: string): string {
+  const [head = '', key] = path.split(/[.[\]"]+/).filter((x) => x !== '');
+  if (key !== undefined && (head === 'ratings' || head === 'params')) return `${head === 'ratings' ? 'rating' : 'param'}:${key}`;
+  return head || 'record';
+}
+
+/**
+ * The last check of every form: the record as it would be saved, through the Book schema that reads it back. A
+ * record the Book file reader would refuse is never saved; each problem is keyed by its form field.
+ */
+export function schemaFormResult<S extends v.GenericSchema, R>(
+  schema: S,
+  record: R,
+  fieldOf: (path: string) => string = formField,
+): FormResult<R> {
+  const checked = checkWith(schema, record);
+  if (checked.ok) return { ok: true, record };
+  const problems: FieldProblems = {};
+  // The id and revision are the caller's to give, not a field of the form.
+  for (const p of checked.problems) if (p.path !== 'id' && p.path !== 'rev') problems[fieldOf(p.path)] ??= p.message;
+  return Object.keys(problems).length ? { ok: false, problems } : { ok: true, record };
 }
 
 // ---------------------------------------------------------------------------------------------------------------
@@ -93,7 +126,9 @@ export function validatePart(draft: PartDraft, book: Book, editing?: Part, newId
     if (clash) problems.mpn = `${clash.mpn} is already in the Book (part numbers are compared without case, spaces or dashes)`;
   }
   const maker = required(problems, 'maker', draft.maker, 'Maker');
-  const description = required(problems, 'description', draft.description, 'Description');
+  const description = required(problems, 'description', draft.description, 'Description', LIMITS.description);
+  limitLength(problems, 'package', draft.package.trim(), LIMITS.name);
+  limitLength(problems, 'notes', draft.notes.trim(), LIMITS.notes);
   const kind = draft.kind.trim();
   if (!(PART_KINDS as readonly string[]).includes(kind)) problems.kind = 'Choose a kind';
 
@@ -148,7 +183,7 @@ export function validatePart(draft: PartDraft, book: Book, editing?: Part, newId
   }
   if (placements !== undefined) record.placements = placements;
   if (draft.notes.trim() !== '') record.notes = draft.notes.trim();
-  return { ok: true, record };
+  return schemaFormResult(PartSchema, record);
 }
 
 // ---------------------------------------------------------------------------------------------------------------
@@ -191,6 +226,7 @@ export function validateSupplier(
     const clash = book.suppliers.find((s) => s.id !== editing?.id && s.name.trim().toLowerCase() === name.toLowerCase());
     if (clash) problems.name = `A supplier named ${clash.name} is already in the Book`;
   }
+  limitLength(problems, 'notes', draft.notes.trim(), LIMITS.notes);
   const currency = draft.currency.trim().toUpperCase();
   if (!CURRENCY_RE.test(currency)) problems.currency = 'Three letters, as in ISO 4217 (EUR, USD, GBP…)';
   const base = book.settings.baseCurrency;
@@ -200,6 +236,7 @@ export function validateSupplier(
     const n = t === '' ? NaN : Number(t);
     if (t === '') problems.rate = `Give how many ${base} one ${currency} is worth`;
     else if (!Number.isFinite(n) || n <= 0) problems.rate = `A positive number of ${base} for one ${currency}`;
+    else if (n > LIMITS.rate) problems.rate = `At most ${LIMITS.rate.toLocaleString('en-GB')} ${base} for one ${currency}`;
     else rate = n;
   }
   if (Object.keys(problems).length > 0) return { ok: false, problems };
@@ -211,6 +248,8 @@ export function validateSupplier(
     notes: draft.notes.trim(),
   };
   if (editing?.mapping) record.mapping = editing.mapping;
+  const checked = schemaFormResult(SupplierSchema, record);
+  if (!checked.ok) return checked;
   const result: SupplierResult = { record };
   if (rate !== undefined && book.settings.rates[currency] !== rate) {
     result.settings = { ...book.settings, rates: { ...book.settings.rates, [currency]: rate } };
@@ -302,6 +341,7 @@ export function validateVariant(draft: VariantDraft, book: Book, editing?: Varia
     }
   }
   const name = required(problems, 'name', draft.name, 'Name');
+  limitLength(problems, 'notes', draft.notes.trim(), LIMITS.notes);
 
   const params: Record<string, ParamValue> = {};
   for (const [pname, text] of Object.entries(draft.params)) {
@@ -361,7 +401,11 @@ export function validateVariant(draft: VariantDraft, book: Book, editing?: Varia
     params,
   };
   if (draft.notes.trim() !== '') record.notes = draft.notes.trim();
-  return { ok: true, record };
+  // A parameter typed as a new one is keyed by its own field.
+  return schemaFormResult(VariantSchema, record, (path) => {
+    const f = formField(path);
+    return f === `param:${newName}` && newName !== '' ? 'newParamValue' : f;
+  });
 }
 
 // ---------------------------------------------------------------------------------------------------------------
