@@ -39,6 +39,7 @@ import type { CostedBom, CostingContext, ResolvedLine, Result } from '../domain/
 import { createEngine } from './create.ts';
 import type { FamilyResolution } from './family.ts';
 import { columnLetters } from './cells.ts';
+import { normalizeFormula } from './formula-syntax.ts';
 
 /** Each variant's resolved lines by variant id. */
 export type Resolution = Map<string, readonly ResolvedLine[]>;
@@ -548,8 +549,9 @@ export class CostingWorkbook {
       const text = formula.trim();
       if (text === '') return { ok: false, error: 'an empty override; use clearOverride to go back to the computed figure' };
       if (text.startsWith('=')) {
-        if (!this.hf.validateFormula(text)) return { ok: false, error: `the formula ${text} does not parse` };
-        content = text;
+        const engineText = normalizeFormula(text);
+        if (!this.hf.validateFormula(engineText)) return { ok: false, error: `the formula ${text} does not parse` };
+        content = engineText;
       } else {
         const n = Number(text);
         if (!Number.isFinite(n)) return { ok: false, error: `an override must be a number or a formula starting with =, got ${text}` };

@@ -22,7 +22,8 @@ import { significant } from '../domain/format.ts';
 import { createEngine } from './create.ts';
 import { columnLetters } from './cells.ts';
 import { guardFormula } from './formula-guard.ts';
-import { TOKEN_KIND, constantNumber, formulaNames, nameKey, rewriteFormula, soleName, tokenizeFormula, formulaBody } from './formula-names.ts';
+import { constantNumber, formulaNames, nameKey, rewriteFormula, soleName, tokenizeFormula, formulaBody } from './formula-names.ts';
+import { normalizeFormula } from './formula-syntax.ts';
 
 export interface ResolveProblem {
   variantId: string;
@@ -160,22 +161,6 @@ function atRow(pieces: readonly string[], r: number): string {
   return pieces.join(String(r + 1));
 }
 
-/**
- * Writes number literals the way the engine prints them (0.47e-6 → 4.7e-7, 1.5e3 → 1500): the engine finds a copied
- * formula by its printed form, so a formula written this way can be copied down (see fillDown).
- */
-function canonicalNumbers(formula: string): string {
-  const t = tokenizeFormula(formula);
-  if (!t.ok) return formula;
-  return t.tokens
-    .map((tok) => {
-      if (tok.kind !== TOKEN_KIND.number) return tok.text;
-      const n = Number(tok.text);
-      return Number.isFinite(n) ? String(n) : tok.text;
-    })
-    .join('');
-}
-
 const LIMIT_PARTS = ['limit', 'low', 'high'] as const;
 
 /** A variant's parameters by name key. */
@@ -300,9 +285,10 @@ export class FamilyWorkbook {
     if (!names.ok) return { ok: false, error: names.error };
     // Names nobody has become NA() so an applies rule or an untaken IF branch still decides; the result then
     // explains the name (see missingNames).
-    const r = rewriteFormula(formula, lookup, 'NA()');
+    // Numbers come out as the engine prints them, so a formula copied down the table is found again (see fillDown).
+    const r = rewriteFormula(normalizeFormula(formula), lookup, 'NA()');
     if (!r.ok) return { ok: false, error: r.error };
-    return { ok: true, text: canonicalNumbers(r.formula), names: names.names };
+    return { ok: true, text: r.formula, names: names.names };
   }
 
   private ref(key: string): string | undefined {

@@ -3,6 +3,7 @@
 // they run), and turns the engine's error values and exceptions into sentences a person can act on.
 import { CellError, DetailedCellError, ErrorType } from 'hyperformula';
 import type { CellValue, HyperFormula } from 'hyperformula';
+import { normalizeFormula } from './formula-syntax.ts';
 
 /**
  * Limits on a typed formula. The engine parses and evaluates recursively, so depth and operator chains use the
@@ -57,7 +58,7 @@ export interface FormulaRefusal {
   at?: number;
 }
 
-/** `formula` is the text with exactly one leading "=", ready for the engine. */
+/** `formula` is the text with exactly one leading "=", in the engine's syntax (normalizeFormula), ready for it. */
 export type GuardResult = { ok: true; formula: string } | { ok: false; refusal: FormulaRefusal };
 
 const OPERATOR_CHARS = new Set(['+', '-', '*', '/', '^', '&', '%', '=', '<', '>', ':']);
@@ -252,7 +253,7 @@ export function guardFormula(text: string, overrides: Partial<FormulaLimits> = {
       );
     }
   }
-  return { ok: true, formula: `=${body.trim()}` };
+  return { ok: true, formula: `=${normalizeFormula(body.trim())}` };
 }
 
 /**

@@ -78,7 +78,7 @@ export function formulaBody(formula: string): string {
   return t.startsWith('=') ? t.slice(1).trim() : t;
 }
 
-/** Bare words the engine knows without parentheses; written with them so the engine reads them as functions. */
+/** TRUE and FALSE: values, not names (normalizeFormula writes them as the calls the engine reads). */
 const BARE_LITERALS = new Set(['true', 'false']);
 
 /** The key a name is looked up by: names are matched without regard to case, like function names. */
@@ -102,9 +102,10 @@ export function formulaNames(formula: string): { ok: true; names: string[] } | {
 export type RewriteResult = { ok: true; formula: string } | { ok: false; error: string; unknown: string[] };
 
 /**
- * Rewrites every name of a formula with `lookup(key)` (a cell address or any expression) and returns the engine
- * formula with its leading "=". Names the lookup does not know are reported together, never half-rewritten —
- * unless `unknownAs` is given, which stands in for them (an error expression, so a branch never taken still works).
+ * Rewrites every name of a formula with `lookup(key)` (a cell address or any expression) and returns the formula
+ * with its leading "="; numbers and TRUE/FALSE stay as written (normalizeFormula in formula-syntax.ts makes them
+ * the engine's). Names the lookup does not know are reported together, never half-rewritten — unless `unknownAs`
+ * is given, which stands in for them (an error expression, so a branch never taken still works).
  */
 export function rewriteFormula(
   formula: string,
@@ -118,18 +119,13 @@ export function rewriteFormula(
   const unknown: string[] = [];
   let out = '';
   for (const tok of t.tokens) {
-    if (tok.kind === TOKEN_KIND.number) {
-      // The engine reads an exponent only with a small "e" (1e-7); people write 0.1E-6 as often.
-      out += tok.text.toLowerCase();
-      continue;
-    }
     if (tok.kind !== TOKEN_KIND.name) {
       out += tok.text;
       continue;
     }
     const key = nameKey(tok.text);
     if (BARE_LITERALS.has(key)) {
-      out += `${key.toUpperCase()}()`;
+      out += tok.text;
       continue;
     }
     const target = lookup(key) ?? unknownAs;

@@ -14,6 +14,7 @@ import type { CheckResult } from './family.ts';
 import { engineFailure, formulaRangeCells, guardFormula, limitEvaluationTime } from './formula-guard.ts';
 import { MAX_TEXT_LENGTH } from './functions/text.ts';
 import { nameKey } from './formula-names.ts';
+import { normalizeFormula } from './formula-syntax.ts';
 import type { BookFunctionContext, CheckLookup, Missing, PriceLookup } from './functions/book.ts';
 
 /**
@@ -127,11 +128,11 @@ export function sectionSheetName(index: number): string {
   return `Section${index + 1}`;
 }
 
-/** What the engine is given for a cell: a formula as written, an engineering value as its number, else text. */
+/** What the engine is given for a cell: a formula in the engine's syntax, an engineering value as its number, else text. */
 export function cellInput(raw: string): number | string | null {
   const t = raw.trim();
   if (t === '') return null;
-  if (t.startsWith('=')) return t;
+  if (t.startsWith('=')) return normalizeFormula(t);
   const v = parseValue(t);
   // A leading apostrophe keeps text as text, whatever it looks like.
   return v.ok ? v.value : `'${raw}`;

@@ -36,7 +36,7 @@ describe('formula names', () => {
 
   it('rewrites names to cells and keeps "" inside strings', () => {
     const r = rewriteFormula('IF(stage="say ""hi""", a_1 * 1.5E3, b)', (k) => ({ a_1: 'C7', b: 'D7', stage: 'E7' })[k]);
-    expect(r).toEqual({ ok: true, formula: '=IF(E7="say ""hi""", C7 * 1.5e3, D7)' });
+    expect(r).toEqual({ ok: true, formula: '=IF(E7="say ""hi""", C7 * 1.5E3, D7)' });
   });
 
   it('reports every unknown name together', () => {

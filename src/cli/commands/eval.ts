@@ -54,16 +54,19 @@ export const command: CliCommand = {
       io.err(`rungbook eval: ${guard.refusal.message}`);
       return 1;
     }
+    // What the engine reads: the guard's text, in the one formula syntax (680E-9, bare TRUE); a formula with a
+    // syntax slip goes as typed so the engine's reading message below says what is wrong.
+    const engineText = guard.ok ? guard.formula : formula;
     const hf = createEngine({ smartRounding: false });
     try {
-      if (!hf.validateFormula(formula)) {
+      if (!hf.validateFormula(engineText)) {
         io.err(`rungbook eval: cannot read ${JSON.stringify(formula)} as a formula (check brackets, commas and quotes; write 4.7e3, not 4.7k)`);
         return 1;
       }
       const sheet = hf.getSheetId(hf.addSheet('eval'))!;
       let value: ReturnType<typeof hf.calculateFormula>;
       try {
-        value = hf.calculateFormula(formula, sheet);
+        value = hf.calculateFormula(engineText, sheet);
       } catch (e) {
         io.err(`rungbook eval: the formula could not be evaluated: ${engineFailure(e)}`);
         return 1;
