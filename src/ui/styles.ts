@@ -1,6 +1,7 @@
 // Shared styles for Rungbook pages: the notebook look (headed sections with a line of explanation, ruled tables
 // with tabular numerals, forms whose messages sit beside the field). Elements add these to their own styles.
-import { css } from 'lit';
+import { css, unsafeCSS } from 'lit';
+import type { CSSResult } from 'lit';
 
 export const pageStyles = css`
   :host {
@@ -198,5 +199,51 @@ export const pageStyles = css`
   }
   .muted {
     color: var(--rb-na);
+  }
+`;
+
+/** Buttons that cannot be pressed yet say so by their look. */
+export const disabledButtonStyles = css`
+  button:disabled {
+    opacity: 0.45;
+    cursor: not-allowed;
+  }
+`;
+
+/**
+ * The small ruled input of toolbars and tables (outside record forms): a rule under it in ink, paper behind it.
+ * The selector names which controls take it, since each element places them differently.
+ */
+export function ruledControlStyles(selector: string): CSSResult {
+  return css`
+    ${unsafeCSS(selector)} {
+      font: inherit;
+      font-size: 0.88rem;
+      padding: 0.15rem 0.3rem;
+      border: 1px solid var(--rb-rule);
+      border-bottom: 2px solid var(--rb-ink);
+      background: var(--rb-paper);
+      color: var(--rb-ink);
+    }
+  `;
+}
+
+/** Words that pass or fail: a tick line in the pass colour, a cross line in the fail colour. */
+export const verdictStyles = css`
+  .good {
+    color: var(--rb-pass);
+  }
+  .bad {
+    color: var(--rb-fail);
+  }
+`;
+
+/** A caution in the margin: it does not stop anything, but should be read. */
+export const warnStyles = css`
+  .warn {
+    padding: 0.4rem 0.7rem;
+    border-left: 3px solid var(--rb-margin);
+    background: var(--rb-margin-bg);
+    margin: 0 0 0.8rem;
   }
 `;
