@@ -84,6 +84,13 @@ export function parseValue(text: string, expectedUnit?: string): ValueParseResul
   }
   if ('error' in read) return { ok: false, error: read.error };
   if (!Number.isFinite(read.value)) return { ok: false, error: `"${text.trim()}" is out of range` };
+  if (read.prefix !== undefined && NO_PREFIX_UNITS.has(expected ?? read.unit)) {
+    // "25 K" for a temperature would read as 25 kilo-something, 25,000: a °C or K/W value is written bare.
+    return {
+      ok: false,
+      error: `"${text.trim()}" has the SI prefix ${read.prefix} (${PREFIX_NAMES[read.prefix] ?? 'a multiplier'}), but ${expected ?? read.unit} takes no prefix; write the number alone or with ${expected ?? read.unit}`,
+    };
+  }
   if (expected === undefined) return { ok: true, value: read.value, unit: read.unit };
   if (read.unit === '') return { ok: true, value: read.value, unit: expected };
   if (read.unit !== expected) {
@@ -92,7 +99,10 @@ export function parseValue(text: string, expectedUnit?: string): ValueParseResul
   return { ok: true, value: read.value, unit: read.unit };
 }
 
-type Read = { value: number; unit: string } | { error: string };
+/** A read value; `prefix` is the SI prefix written, when there was one. */
+type Read = { value: number; unit: string; prefix?: string } | { error: string };
+
+const PREFIX_NAMES: Readonly<Record<string, string>> = { p: 'pico', n: 'nano', u: 'micro', '\u00b5': 'micro', '\u03bc': 'micro', m: 'milli', k: 'kilo', K: 'kilo', M: 'mega', G: 'giga' };
 
 /** Number with optional exponent, then optional prefix and unit: "4.7 kΩ", "330n", "1.2e3", "-5", "50Hz". */
 function readPlain(t: string): Read | undefined {
@@ -104,11 +114,11 @@ function readPlain(t: string): Read | undefined {
   if (!parts) return undefined;
   // Compose one decimal text and let Number() round once: "4.7" with prefix k becomes exactly Number("4.7e3").
   const value = Number(`${sign}${digits}e${Number(exp) + parts.exp}`);
-  return { value, unit: parts.unit };
+  return parts.prefix === undefined ? { value, unit: parts.unit } : { value, unit: parts.unit, prefix: parts.prefix };
 }
 
 /** Splits "kΩ" into a prefix exponent and unit; "" is no prefix and no unit; "R" alone is ohms ("10R"). */
-function splitPrefixUnit(rest: string): { exp: number; unit: string } | undefined {
+function splitPrefixUnit(rest: string): { exp: number; unit: string; prefix?: string } | undefined {
   if (rest === '') return { exp: 0, unit: '' };
   for (const alias of ALIASES_BY_LENGTH) {
     if (!rest.endsWith(alias)) continue;
@@ -116,10 +126,10 @@ function splitPrefixUnit(rest: string): { exp: number; unit: string } | undefine
     const prefix = rest.slice(0, rest.length - alias.length).trim();
     if (prefix === '') return { exp: 0, unit };
     const exp = PREFIXES[prefix];
-    if (exp !== undefined && !NO_PREFIX_UNITS.has(unit)) return { exp, unit };
+    if (exp !== undefined && !NO_PREFIX_UNITS.has(unit)) return { exp, unit, prefix };
   }
   const exp = PREFIXES[rest];
-  return exp === undefined ? undefined : { exp, unit: '' };
+  return exp === undefined ? undefined : { exp, unit: '', prefix: rest };
 }
 
 /** RKM code, optionally signed and optionally followed by its unit: "4k7", "-0R22", "2n2 F", "4K7 Ω". */

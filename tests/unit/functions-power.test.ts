@@ -61,4 +61,15 @@ describe('JUNCTION_C and SINK_RTH_MAX (thermal chain T_j = T_a + P·ΣRθ; power
     expect(e.message).toMatch(/any heatsink will do/);
     expect(fails('=JUNCTION_C(5, 25, -1)').message).toMatch(/rth_total \(K\/W\) must be 0 or more/);
   });
+  it('takes temperatures in °C without an SI prefix: "25 K" is refused instead of read as 25,000 °C', () => {
+    // The chain worked above (5 W, 3 + 1 + 8 K/W, 25 °C → 85 °C; power electronics textbooks, from memory), with
+    // the ambient typed as text in its unit.
+    expect(calc('=JUNCTION_C(5, "25 °C", 12)')).toBe(85);
+    expect(calc('=JUNCTION_C(5, "25", "12 K/W")')).toBe(85);
+    const e = fails('=JUNCTION_C(5, "25 K", 12)');
+    expect(e.value).toBe('#VALUE!');
+    expect(e.message).toBe('JUNCTION_C: t_amb: "25 K" has the SI prefix K (kilo), but °C takes no prefix; write the number alone or with °C');
+    expect(fails('=SINK_RTH_MAX(5, "85k", 25, 3, 1)').message).toMatch(/tj_max: "85k" has the SI prefix k \(kilo\), but °C takes no prefix/);
+    expect(fails('=JUNCTION_C(5, 25, "12m")').message).toMatch(/rth_total: "12m" has the SI prefix m \(milli\), but K\/W takes no prefix/);
+  });
 });

@@ -14,9 +14,13 @@ describe('MAINS_PEAK', () => {
   it('derived switch rating at 80 % derating: 230 V +10 % needs ≥ 447.2 V (common practice)', () => {
     near4(calc('=MAINS_PEAK(230, 0.1) / 0.8'), 447.2);
   });
-  it('refuses a negative voltage and a tolerance of -100 % or less, naming the argument', () => {
+  it('refuses a negative voltage and a tolerance outside 0 … 0.5, naming the argument', () => {
     expect(fails('=MAINS_PEAK(-230)').message).toMatch(/MAINS_PEAK: v_rms \(V\) must be 0 or more/);
-    expect(fails('=MAINS_PEAK(230, -1)').message).toMatch(/tol must be greater than -1/);
+    // 10 is a percentage typed as a number: read as a fraction it would make the peak 3,578 V.
+    expect(fails('=MAINS_PEAK(230, 10)').message).toBe('MAINS_PEAK: tol must be a fraction from 0 to 0.5 (0.1 or 10% for ±10 %), got 10');
+    expect(fails('=MAINS_PEAK(230, -0.1)').message).toMatch(/tol must be a fraction from 0 to 0.5/);
+    // The ends are allowed: 0.5 gives √2 · 230 · 1.5 = 487.9 V (worked by hand).
+    near4(calc('=MAINS_PEAK(230, 0.5)'), 487.9);
   });
 });
 

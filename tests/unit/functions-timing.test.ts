@@ -39,10 +39,15 @@ describe('555-type astable (textbook 555 formulas, from memory)', () => {
     expect(fails('=ASTABLE_HIGH(1000, 10000, 10e-9, 0, 5)').message).toMatch(/vcc \(V\) must be greater than 0/);
     expect(fails('=ASTABLE_HZ(1000, 10000, 10e-9, , 5)').message).toMatch(/give vcc together with vctl/);
   });
-  it('refuses R_B or C of zero and a negative R_A', () => {
+  it('refuses R_B or C of zero, and R_A of zero or less with the reason: the discharge pin would short the supply', () => {
     expect(fails('=ASTABLE_HZ(1000, 0, 10e-9)').message).toMatch(/rb \(Ω\) must be greater than 0/);
     expect(fails('=ASTABLE_LOW(10000, 0)').message).toMatch(/c \(F\) must be greater than 0/);
-    expect(fails('=ASTABLE_DUTY(-1, 10000)').message).toMatch(/ra \(Ω\) must be 0 or more/);
+    expect(fails('=ASTABLE_DUTY(-1, 10000)').message).toMatch(/ra \(Ω\) must be greater than 0/);
+    const e = fails('=ASTABLE_DUTY(0, 10000)');
+    expect(e.value).toBe('#NUM!');
+    expect(e.message).toBe('ASTABLE_DUTY: ra (Ω) must be greater than 0, got 0: with RA = 0 the discharge pin shorts the supply each time it turns on');
+    expect(fails('=ASTABLE_HIGH(0, 10000, 10e-9)').message).toMatch(/discharge pin shorts the supply/);
+    expect(fails('=ASTABLE_HZ(0, 10000, 10e-9)').message).toMatch(/discharge pin shorts the supply/);
   });
   it('duty rises with control voltage (property over resistors, supply and two control voltages)', () => {
     fc.assert(
@@ -84,6 +89,18 @@ describe('DIVIDER_OUT (unloaded divider, basic circuit theory)', () => {
   });
   it('refuses both resistors at 0', () => {
     expect(fails('=DIVIDER_OUT(12, 0, 0)').message).toMatch(/both 0/);
+  });
+  it('refuses a diode drop above the input, which would give a negative output (5 V, 10 V drop: −2.5 V)', () => {
+    const e = fails('=DIVIDER_OUT(5, 1000, 1000, 10)');
+    expect(e.value).toBe('#NUM!');
+    expect(e.message).toBe(
+      'DIVIDER_OUT: v_drop (V) 10 exceeds v_in (V) 5: a diode drop above the input leaves the diode off, so the divider has no output',
+    );
+    expect(fails('=DIVIDER_OUT(12, 1000, 1000, -0.7)').message).toMatch(/v_drop \(V\) must be 0 or more/);
+    // A drop equal to the input leaves nothing across the divider: 0 V.
+    expect(calc('=DIVIDER_OUT(5, 1000, 1000, 5)')).toBe(0);
+    // No diode: a negative input divides as usual, (−12) · ½ = −6 V.
+    expect(calc('=DIVIDER_OUT(-12, 10000, 10000)')).toBe(-6);
   });
 });
 

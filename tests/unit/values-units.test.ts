@@ -88,6 +88,14 @@ describe('parseValue refuses bad input with a clear message', () => {
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.error.length).toBeGreaterThan(5);
   });
+  it('refuses an SI prefix on a value in °C or K/W: "25 K" would otherwise read as 25,000 °C', () => {
+    expect(parseValue('25 K', '°C')).toEqual({ ok: false, error: '"25 K" has the SI prefix K (kilo), but °C takes no prefix; write the number alone or with °C' });
+    expect(parseValue('2m', 'K/W')).toEqual({ ok: false, error: '"2m" has the SI prefix m (milli), but K/W takes no prefix; write the number alone or with K/W' });
+    expect(parseValue('25', '°C')).toEqual({ ok: true, value: 25, unit: '°C' });
+    expect(parseValue('-10 °C', '°C')).toEqual({ ok: true, value: -10, unit: '°C' });
+    // Other units keep their prefixes.
+    expect(parseValue('25 k', 'Ω')).toEqual({ ok: true, value: 25000, unit: 'Ω' });
+  });
   it('hints at the decimal point when a comma was used', () => {
     const r = parseValue('4,7k');
     expect(!r.ok && r.error).toMatch(/decimal separator/);

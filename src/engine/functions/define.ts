@@ -4,19 +4,19 @@ import { CellError, EmptyValue, ErrorType, FunctionArgumentType, FunctionPlugin,
 import type { FunctionArgument, FunctionPluginDefinition, ImplementedFunctions } from 'hyperformula';
 import { parseValue } from '../../domain/units.ts';
 
-export const FUNCTION_AREAS = ['values', 'supply', 'timing', 'power', 'purchasing', 'book'] as const;
+export const FUNCTION_AREAS = ['values', 'supply', 'timing', 'power', 'triac', 'transformer', 'surge', 'purchasing', 'book'] as const;
 export type FunctionArea = (typeof FUNCTION_AREAS)[number];
 
 /**
  * Checks on a number argument, each with the words its message uses.
- * 'any' takes every finite number; 'tol' is a fractional change above -1 (0.1 for +10 %);
- * 'pf' is a power factor in (0, 1].
+ * 'any' takes every finite number; 'tol' is a tolerance as a fraction from 0 to 0.5 (0.1 for ±10 %: a value past
+ * 0.5 is almost always a percentage typed as a number, 10 for 10 %); 'pf' is a power factor in (0, 1].
  */
 export const ARG_RULES = {
   any: '',
   positive: 'must be greater than 0',
   nonNegative: 'must be 0 or more',
-  tol: 'must be greater than -1 (a fraction: 0.1 for +10 %)',
+  tol: 'must be a fraction from 0 to 0.5 (0.1 or 10% for ±10 %)',
   pf: 'must be above 0 and at most 1',
 } as const;
 export type ArgRule = keyof typeof ARG_RULES;
@@ -30,7 +30,7 @@ function passes(rule: ArgRule, x: number): boolean {
     case 'nonNegative':
       return x >= 0;
     case 'tol':
-      return x > -1;
+      return x >= 0 && x <= 0.5;
     case 'pf':
       return x > 0 && x <= 1;
   }
@@ -48,6 +48,10 @@ export interface ArgSpec {
   optional?: boolean;
   /** Value used when an optional argument is left out; without one the computation receives `undefined`. */
   default?: number | string | boolean;
+  /** Why the rule holds, added to its refusal ("RA = 0 shorts the discharge pin to the supply"). */
+  why?: string;
+  /** A number argument that, when above 0, may not exceed another one, named, with the reason given when it does. */
+  notAbove?: { arg: string; why: string };
 }
 
 /** What a computation may return: a value, or an error value carrying its message. */
@@ -123,8 +127,23 @@ function checkArg(spec: FunctionSpec, arg: ArgSpec, raw: unknown): unknown {
   if (x === undefined) return valueError(spec.name, `${argLabel(arg)} must be a number, got ${describe(raw)}`);
   if (!Number.isFinite(x)) return numError(spec.name, `${argLabel(arg)} is not a finite number`);
   const rule = arg.rule ?? 'any';
-  if (!passes(rule, x)) return numError(spec.name, `${argLabel(arg)} ${ARG_RULES[rule]}, got ${x}`);
+  if (!passes(rule, x)) return numError(spec.name, `${argLabel(arg)} ${ARG_RULES[rule]}, got ${x}${arg.why ? `: ${arg.why}` : ''}`);
   return x;
+}
+
+/** The first `notAbove` rule the checked arguments break, as an error value; undefined when none is broken. */
+function relationError(spec: FunctionSpec, values: readonly unknown[]): CellError | undefined {
+  for (let i = 0; i < spec.args.length; i++) {
+    const arg = spec.args[i]!;
+    if (!arg.notAbove) continue;
+    const j = spec.args.findIndex((a) => a.name === arg.notAbove!.arg);
+    const x = values[i];
+    const limit = values[j];
+    if (typeof x === 'number' && typeof limit === 'number' && x > 0 && x > limit) {
+      return numError(spec.name, `${argLabel(arg)} ${x} exceeds ${argLabel(spec.args[j]!)} ${limit}: ${arg.notAbove.why}`);
+    }
+  }
+  return undefined;
 }
 
 /** Checks every argument, runs the computation, and refuses a non-finite result. Never throws for bad input. */
@@ -135,6 +154,8 @@ export function callSpec(spec: FunctionSpec, raw: readonly unknown[]): FnResult 
     if (v instanceof CellError) return v;
     values.push(v);
   }
+  const broken = relationError(spec, values);
+  if (broken) return broken;
   const out = (spec.compute as (...a: unknown[]) => FnResult)(...values);
   if (typeof out === 'number' && !Number.isFinite(out)) {
     return numError(spec.name, 'the result is not a finite number; check the arguments');
@@ -192,6 +213,9 @@ export function buildPlugin(area: FunctionArea, specs: readonly FunctionSpec[]):
   }
   for (const spec of specs) {
     if (spec.area !== area) throw new Error(`${spec.name} is declared in area ${spec.area}, not ${area}`);
+    for (const a of spec.args) {
+      if (a.notAbove && !spec.args.some((b) => b.name === a.notAbove!.arg)) throw new Error(`${spec.name}: ${a.name} is bounded by unknown argument ${a.notAbove.arg}`);
+    }
     Object.defineProperty(AreaPlugin.prototype, spec.name, {
       value(this: RungbookPlugin, ast: PluginCall, state: PluginState) {
         return this.evaluateSpec(spec, ast, state);

@@ -17,6 +17,12 @@ function highLog(vcc: number | undefined, vctl: number | undefined): number | st
   return Math.log((vcc - vc / 2) / (vcc - vc));
 }
 
+/**
+ * RA of an astable. With RA = 0 the discharge transistor, turning on, shorts the supply through nothing (textbook
+ * 555 circuit, from memory), so no real astable has it.
+ */
+const RA_ARG = { name: 'ra', unit: 'Ω', rule: 'positive', why: 'with RA = 0 the discharge pin shorts the supply each time it turns on' } as const;
+
 const optionalSupply = [
   { name: 'vcc', unit: 'V', optional: true },
   { name: 'vctl', unit: 'V', optional: true },
@@ -28,7 +34,7 @@ const ASTABLE_HIGH = defineFunction({
   returns: 's',
   doc: '555-type astable high time (ra + rb) · c · ln((vcc − vctl/2)/(vcc − vctl)); ln 2 when vctl is ⅔ vcc (the default; textbook 555 formulas, from memory).',
   args: [
-    { name: 'ra', unit: 'Ω', rule: 'nonNegative' },
+    RA_ARG,
     { name: 'rb', unit: 'Ω', rule: 'positive' },
     { name: 'c', unit: 'F', rule: 'positive' },
     ...optionalSupply,
@@ -57,7 +63,7 @@ const ASTABLE_HZ = defineFunction({
   returns: 'Hz',
   doc: '555-type astable frequency 1 / (high time + low time), with the optional control voltage (textbook 555 formulas, from memory).',
   args: [
-    { name: 'ra', unit: 'Ω', rule: 'nonNegative' },
+    RA_ARG,
     { name: 'rb', unit: 'Ω', rule: 'positive' },
     { name: 'c', unit: 'F', rule: 'positive' },
     ...optionalSupply,
@@ -74,7 +80,7 @@ const ASTABLE_DUTY = defineFunction({
   area: 'timing',
   returns: '',
   doc: '555-type astable duty cycle high / (high + low) as a fraction, with the optional control voltage (textbook 555 formulas, from memory).',
-  args: [{ name: 'ra', unit: 'Ω', rule: 'nonNegative' }, { name: 'rb', unit: 'Ω', rule: 'positive' }, ...optionalSupply],
+  args: [RA_ARG, { name: 'rb', unit: 'Ω', rule: 'positive' }, ...optionalSupply],
   compute(ra: number, rb: number, vcc?: number, vctl?: number) {
     const k = highLog(vcc, vctl);
     if (typeof k === 'string') return numError('ASTABLE_DUTY', k);
@@ -109,7 +115,14 @@ const DIVIDER_OUT = defineFunction({
     { name: 'v_in', unit: 'V' },
     { name: 'r_top', unit: 'Ω', rule: 'nonNegative' },
     { name: 'r_bottom', unit: 'Ω', rule: 'nonNegative' },
-    { name: 'v_drop', unit: 'V', optional: true, default: 0 },
+    {
+      name: 'v_drop',
+      unit: 'V',
+      rule: 'nonNegative',
+      optional: true,
+      default: 0,
+      notAbove: { arg: 'v_in', why: 'a diode drop above the input leaves the diode off, so the divider has no output' },
+    },
   ],
   compute(vIn: number, rTop: number, rBottom: number, vDrop: number) {
     if (rTop + rBottom === 0) return numError('DIVIDER_OUT', 'r_top and r_bottom are both 0');
