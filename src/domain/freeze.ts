@@ -27,8 +27,9 @@ export type RunFormResult = { ok: true; record: Run } | { ok: false; problems: R
 
 /** Largest run accepted: far above any run of a small maker, low enough that every figure stays exact. */
 export const MAX_RUN_QUANTITY = LIMITS.runQuantity;
-const MAX_NAME = 120;
-const MAX_NOTES = 4000;
+/** A run's texts are bounded by the Book's limits, so the form never saves what the Book file reader refuses. */
+const MAX_NAME = LIMITS.name;
+const MAX_NOTES = LIMITS.notes;
 
 export function runDraft(run?: Run): RunDraft {
   return run
@@ -44,7 +45,7 @@ export function validateRun(draft: RunDraft, book: Book, editing?: Run, newId?: 
   const problems: RunProblems = {};
   const name = draft.name.trim();
   if (name === '') problems.name = 'name is required';
-  else if (name.length > MAX_NAME) problems.name = `name is longer than ${MAX_NAME} characters`;
+  else if (name.length > MAX_NAME) problems.name = `name is ${grouped(name.length)} characters long; at most ${grouped(MAX_NAME)} are allowed`;
   else if (book.runs.some((r) => r.id !== editing?.id && r.name.trim().toLowerCase() === name.toLowerCase())) {
     problems.name = `another run is already called ${name}`;
   }
@@ -59,7 +60,7 @@ export function validateRun(draft: RunDraft, book: Book, editing?: Run, newId?: 
   const date = draft.dateWanted.trim();
   if (date === '') problems.dateWanted = 'date wanted is required';
   else if (!isIsoDate(date)) problems.dateWanted = `date wanted must be a calendar date YYYY-MM-DD, got “${date}”`;
-  if (draft.notes.length > MAX_NOTES) problems.notes = `notes are longer than ${MAX_NOTES} characters`;
+  if (draft.notes.trim().length > MAX_NOTES) problems.notes = `notes are ${grouped(draft.notes.trim().length)} characters long; at most ${grouped(MAX_NOTES)} are allowed`;
   if (editing?.frozen) {
     if (!problems.variantId && draft.variantId !== editing.variantId) problems.variantId = 'this run is frozen: unfreeze it before changing the variant';
     if (!problems.quantity && quantity !== editing.quantity) problems.quantity = 'this run is frozen: unfreeze it before changing the quantity';
@@ -125,6 +126,12 @@ export function freezeRun(run: Run, bom: CostedBom, book: Book, at: Date = new D
     parts: copy(book.parts.filter((p) => usedParts.has(p.id))),
     settings: frozenSettings(book.settings),
   };
+  // A snapshot the Book file reader would refuse (figures beyond LIMITS.money at extreme rates) is never saved.
+  const checked = checkWith(FrozenSnapshotSchema, snapshot);
+  if (!checked.ok) {
+    const p = checked.problems[0]!;
+    return { ok: false, error: `the costing is beyond what a Book keeps, so it is not frozen: ${p.path ? `${p.path} ` : ''}${p.message}` };
+  }
   return { ok: true, value: { ...run, frozen: { at: at.toISOString(), snapshot } } };
 }
 

@@ -7,6 +7,7 @@ import type { Book, NotebookPage, ParamValue, Variant } from '../domain/book.ts'
 import { mpnKey } from '../domain/book.ts';
 import { candidateQuotes, chooseQuote, prepareCosting } from '../domain/costing.ts';
 import type { CostingContext, Result } from '../domain/costing.ts';
+import { LIMITS } from '../domain/schema.ts';
 import { parseValue } from '../domain/units.ts';
 import { createEngine } from './create.ts';
 import { evaluateChecks } from './family.ts';
@@ -203,8 +204,10 @@ function planPage(page: NotebookPage, kept: readonly boolean[]): (CellRefusal | 
  * guard refuses are kept and say why in their cell.
  */
 export function notebookCellProblem(page: NotebookPage, section: number, row: number, col: number, value: string): string | undefined {
-  if (value.length > NOTEBOOK_LIMITS.cellText) {
-    return `A cell holds at most ${grouped(NOTEBOOK_LIMITS.cellText)} characters; this text has ${grouped(value.length)}. Nothing was saved.`;
+  // What is typed is stored in the Book, so it is bounded by the Book's limit too (below the engine's text limit).
+  const max = Math.min(NOTEBOOK_LIMITS.cellText, LIMITS.cell);
+  if (value.length > max) {
+    return `A cell holds at most ${grouped(max)} characters; this text has ${grouped(value.length)}. Nothing was saved.`;
   }
   if (value.trim() === '' || (page.sections[section]?.grid[row]?.[col] ?? '').trim() !== '') return undefined;
   let filled = 0;

@@ -2,7 +2,9 @@
 // quote form's draft into a Quote or into messages keyed by field. No DOM here, so the rules run anywhere.
 import type { Book, PriceBreak, Quote } from '../domain/book.ts';
 import { isIsoDate } from '../domain/dates.ts';
+import { LIMITS, QuoteSchema } from '../domain/schema.ts';
 import { parseLeadDays } from '../io/price-map.ts';
+import { limitLength, schemaFormResult } from './record-forms.ts';
 
 /** A price in the quote's currency: up to six significant figures, no trailing zeros ("0.0035", "2.2"). */
 export function priceText(price: number): string {
@@ -140,6 +142,8 @@ export function validateQuote(draft: QuoteDraft, book: Book, editing: Quote | un
 
   const breaks: PriceBreak[] = [];
   if (draft.breaks.length === 0) problems.breaks = 'Give at least one price break';
+  else if (draft.breaks.length > LIMITS.breaks) problems.breaks = `At most ${LIMITS.breaks} price breaks`;
+  limitLength(problems, 'supplierCode', draft.supplierCode.trim(), LIMITS.name);
   let prev: number | undefined;
   draft.breaks.forEach((b, i) => {
     const qty = readWhole(b.qty);
@@ -186,5 +190,12 @@ export function validateQuote(draft: QuoteDraft, book: Book, editing: Quote | un
   if (expires !== '') quote.expires = expires;
   if (editing?.batchId !== undefined) quote.batchId = editing.batchId;
   if (editing?.supersededBy !== undefined) quote.supersededBy = editing.supersededBy;
-  return { ok: true, quote };
+  // The last check: the quote as saved, through the schema the Book file reader uses, each problem by its field.
+  const checked = schemaFormResult(QuoteSchema, quote, (path) => {
+    const b = /^breaks\[(\d+)\]\.(qty|price)/.exec(path);
+    if (b) return `break-${b[2]}-${b[1]}`;
+    const head = path.split(/[.[]/)[0]!;
+    return head === 'leadDays' ? 'lead' : head;
+  });
+  return checked.ok ? { ok: true, quote } : { ok: false, problems: checked.problems };
 }

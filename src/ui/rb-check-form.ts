@@ -13,7 +13,9 @@ import { formulaBody, nameKey, tokenizeFormula } from '../engine/formula-names.t
 import { guardFormula } from '../engine/formula-guard.ts';
 import { BookController } from './book-context.ts';
 import { field, formulaField, nothingSaved } from './form-fields.ts';
+import { CheckSchema, LIMITS } from '../domain/schema.ts';
 import type { FieldProblems } from './record-forms.ts';
+import { limitLength, schemaFormResult } from './record-forms.ts';
 import { checkFormulaNames } from './rb-formula-input.ts';
 import type { NameHint } from './rb-formula-input.ts';
 import { pageStyles } from './styles.ts';
@@ -83,6 +85,11 @@ export function validateCheckDraft(
     if (clash) problems.name = `${name} is a part rating name of a build-line role; choose another name`;
   }
   if (d.title.trim() === '') problems.title = 'title is required';
+  limitLength(problems, 'name', name, LIMITS.name);
+  limitLength(problems, 'title', d.title.trim(), LIMITS.shortText);
+  limitLength(problems, 'group', d.group.trim(), LIMITS.name);
+  limitLength(problems, 'unit', d.unit.trim(), LIMITS.name);
+  limitLength(problems, 'note', d.note.trim(), LIMITS.notes);
   const fp = formulaProblem(d.formula, 'formula', true);
   if (fp) problems.formula = fp;
   const rule: CheckRule = { kind: d.kind };
@@ -108,22 +115,26 @@ export function validateCheckDraft(
   const ap = formulaProblem(d.applies, 'applies-when', false);
   if (ap) problems.applies = ap;
   if (Object.keys(problems).length > 0) return { ok: false, problems };
-  return {
-    ok: true,
-    record: {
-      id: editing?.id ?? makeId(),
-      rev: editing?.rev ?? 0,
-      name,
-      title: d.title.trim(),
-      group: d.group.trim() || 'my checks',
-      formula: formulaBody(d.formula),
-      unit: canonicalUnit(d.unit),
-      rule,
-      appliesWhen: formulaBody(d.applies),
-      note: d.note.trim(),
-      builtIn: editing?.builtIn ?? false,
-    },
+  // The last check: the record as saved, through the schema the Book file reader uses, each problem by its field.
+  const fieldOf = (path: string): string => {
+    const [head = '', sub] = path.split(/[.[]/);
+    if (head === 'rule') return sub === 'margin' || sub === 'low' || sub === 'high' || sub === 'limit' ? sub : 'kind';
+    return head === 'appliesWhen' ? 'applies' : head;
   };
+  const record: Check = {
+    id: editing?.id ?? makeId(),
+    rev: editing?.rev ?? 0,
+    name,
+    title: d.title.trim(),
+    group: d.group.trim() || 'my checks',
+    formula: formulaBody(d.formula),
+    unit: canonicalUnit(d.unit),
+    rule,
+    appliesWhen: formulaBody(d.applies),
+    note: d.note.trim(),
+    builtIn: editing?.builtIn ?? false,
+  };
+  return schemaFormResult(CheckSchema, record, fieldOf);
 }
 
 /** Variants a preview evaluates: enough to show the check at work while typing, however large the family. */

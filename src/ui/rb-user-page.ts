@@ -11,6 +11,7 @@ import { CELL_KIND, NOTEBOOK_LIMITS, cellAddress, evaluateNotebookPage, notebook
 import type { NotebookCell, NotebookResult } from '../engine/notebook.ts';
 import { BookController } from './book-context.ts';
 import { PAGES } from './pages.ts';
+import { notebookPageProblem } from './record-forms.ts';
 import type { NameHint } from './rb-formula-input.ts';
 import { pageStyles } from './styles.ts';
 import './rb-formula-input.ts';
@@ -266,8 +267,10 @@ export class RbUserPage extends LitElement {
         return false;
       }
       const next = change(page);
-      if (typeof next === 'string') {
-        this.message = next;
+      // A page the Book file reader would refuse (a text or cell beyond LIMITS) is never saved.
+      const refused = typeof next === 'string' ? next : notebookPageProblem(next);
+      if (refused !== undefined || typeof next === 'string') {
+        this.message = refused;
         return false;
       }
       const r = await service.save({ put: { pages: [next] } });

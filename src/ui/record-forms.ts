@@ -1,9 +1,9 @@
 // Form drafts for parts, suppliers and variants, and the pure checks that turn a draft into a record or into
 // messages keyed by field (shown beside that field). No DOM here, so the rules are tested in Node.
-import type { Book, ParamValue, Part, PartKind, Settings, Supplier, Variant } from '../domain/book.ts';
+import type { Book, NotebookPage, ParamValue, Part, PartKind, Settings, Supplier, Variant } from '../domain/book.ts';
 import { PART_KINDS, mpnKey } from '../domain/book.ts';
 import type * as v from 'valibot';
-import { LIMITS, PART_VALUE_UNITS, PartSchema, SupplierSchema, VariantSchema, checkWith, isPartValueUnit } from '../domain/schema.ts';
+import { LIMITS, NotebookPageSchema, PART_VALUE_UNITS, PartSchema, SupplierSchema, VariantSchema, checkWith, isPartValueUnit } from '../domain/schema.ts';
 import { MAX_STEPS, PART_RATINGS, VARIANT_PARAMS, ownValue, paramNameProblem } from '../domain/params.ts';
 import { formatValue, parseValue } from '../domain/units.ts';
 
@@ -82,6 +82,21 @@ export function schemaFormResult<S extends v.GenericSchema, R>(
   // The id and revision are the caller's to give, not a field of the form.
   for (const p of checked.problems) if (p.path !== 'id' && p.path !== 'rev') problems[fieldOf(p.path)] ??= p.message;
   return Object.keys(problems).length ? { ok: false, problems } : { ok: true, record };
+}
+
+/**
+ * Why a notebook page may not be saved as it is (a title, heading, text or cell beyond the Book's limits), in one
+ * sentence naming the place, or undefined. The notebook page checks every change with it before saving.
+ */
+export function notebookPageProblem(page: NotebookPage): string | undefined {
+  const checked = checkWith(NotebookPageSchema, page);
+  if (checked.ok) return undefined;
+  const p = checked.problems[0]!;
+  const m = /^sections\[(\d+)\](?:\.(\w+))?(?:\[(\d+)\])?/.exec(p.path);
+  const where = m
+    ? `Section ${Number(m[1]) + 1}${m[2] === 'grid' && m[3] !== undefined ? `, grid row ${Number(m[3]) + 1}` : m[2] ? ` ${m[2]}` : ''}`
+    : `The page ${p.path || 'record'}`;
+  return `${where}: ${p.message}. Nothing was saved.`;
 }
 
 // ---------------------------------------------------------------------------------------------------------------
