@@ -13,6 +13,7 @@
 //   (1.005 × 100 is 100.49999999999999 in doubles, and 1.005 must round to 1.01).
 import type { Book, BuildLine, CurrencyCode, Part, PriceBreak, Quote, Settings, Supplier, Variant } from './book.ts';
 import { isIsoDate, todayIso } from './dates.ts';
+import { usedDesignators } from './designators.ts';
 import type { CostedBom, CostedLine, CostProblem } from './schema.ts';
 export type { CostedBom, CostedLine, CostProblem } from './schema.ts';
 
@@ -358,9 +359,11 @@ export function variantDemands(
     const pin = line?.pinnedSupplierId;
     const key = `${part.id}\u0000${pin ?? ''}`;
     const d = byKey.get(key);
+    // The line names the family's positions; this variant fills as many as it takes.
+    const placed = usedDesignators(designators, r.qtyPerUnit);
     if (d) {
       d.lineIds.push(r.lineId);
-      if (designators) d.designators.push(designators);
+      if (placed) d.designators.push(placed);
       d.qtyPerUnit += r.qtyPerUnit;
       d.need += need;
     } else {
@@ -368,7 +371,7 @@ export function variantDemands(
         partId: part.id,
         pinnedSupplierId: pin,
         lineIds: [r.lineId],
-        designators: designators ? [designators] : [],
+        designators: placed ? [placed] : [],
         qtyPerUnit: r.qtyPerUnit,
         need,
       });
