@@ -247,3 +247,30 @@ export const warnStyles = css`
     margin: 0 0 0.8rem;
   }
 `;
+
+/** A message of what is wrong, in the fail colour behind a cross. */
+export const problemStyles = css`
+  .problem {
+    color: var(--rb-fail);
+    font-size: 0.84rem;
+  }
+  .problem::before {
+    content: '✗ ';
+    font-weight: 700;
+  }
+`;
+
+/** The ruled controls of the Compare views: a little more room inside, and free to shrink in a grid cell. */
+export function roomyControlStyles(selector: string): CSSResult {
+  return css`
+    ${unsafeCSS(selector)} {
+      font: inherit;
+      font-size: 0.88rem;
+      padding: 0.15rem 0.35rem;
+      border: 1px solid var(--rb-rule);
+      border-bottom: 2px solid var(--rb-ink);
+      background: var(--rb-paper);
+      min-width: 0;
+    }
+  `;
+}
