@@ -38,6 +38,13 @@ export const VARIANT_PARAMS: readonly NameDoc[] = [
   { name: 'snub_c', unit: 'F', kind: 'number', doc: 'snubber capacitor' },
   { name: 'f_pwm_min', unit: 'Hz', kind: 'number', doc: 'lowest acceptable PWM frequency' },
   { name: 'f_pwm_max', unit: 'Hz', kind: 'number', doc: 'highest acceptable PWM frequency' },
+  ...[1, 2, 3, 4, 5, 6, 7, 8].map(
+    (k): NameDoc => ({ name: `alpha_s${k}`, unit: 'rad', kind: 'number', doc: `triac firing angle at step ${k}, after each mains zero crossing (π is half a cycle)` }),
+  ),
+  { name: 'fan_v_min', unit: 'V', kind: 'number', doc: 'lowest RMS voltage at which the fan still starts and runs (from its maker)' },
+  { name: 't_amb_min', unit: '°C', kind: 'number', doc: 'coldest ambient temperature the regulator must start in' },
+  { name: 'gate_polarity', unit: '', kind: 'text', doc: 'triac gate drive: negative (quadrants II and III) or positive (I and IV)' },
+  { name: 'surge_v', unit: 'V', kind: 'number', doc: 'surge test level line to line, open-circuit (IEC 61000-4-5: 500, 1000, 2000 or 4000 V)' },
 ];
 
 /** The most steps a variant may have; ladder resistors are r_s1 … r_s{MAX_STEPS}. */
@@ -45,7 +52,7 @@ export const MAX_STEPS = 8;
 
 /** Part rating names. A check reads a role's part rating as `<role>_<rating>`, for example `switch_v_max`. */
 export const PART_RATINGS: readonly NameDoc[] = [
-  { name: 'v_max', unit: 'V', kind: 'number', doc: 'highest working voltage (DC or peak)' },
+  { name: 'v_max', unit: 'V', kind: 'number', doc: 'highest working voltage (DC or peak; for ICs the supply maximum)' },
   { name: 'v_ac', unit: 'V', kind: 'number', doc: 'rated AC voltage, RMS (X capacitors)' },
   { name: 'i_max', unit: 'A', kind: 'number', doc: 'highest continuous current (RMS for triacs, average for bridges)' },
   { name: 'p_max', unit: 'W', kind: 'number', doc: 'rated power dissipation' },
@@ -57,10 +64,33 @@ export const PART_RATINGS: readonly NameDoc[] = [
   { name: 'rth_sa', unit: 'K/W', kind: 'number', doc: 'thermal resistance sink to air (heatsinks)' },
   { name: 'tj_max', unit: '°C', kind: 'number', doc: 'highest junction temperature' },
   { name: 'tol', unit: '', kind: 'number', doc: 'value tolerance as a fraction' },
+  { name: 'v_min', unit: 'V', kind: 'number', doc: 'lowest supply voltage (ICs)' },
+  { name: 'r_ctl', unit: 'Ω', kind: 'number', doc: 'control-pin source resistance of a 555-type timer: its internal divider\'s upper resistor ∥ the lower two (bipolar 3 × 5 kΩ → 3.33 kΩ; CMOS parts far higher)' },
+  { name: 'v_oh_drop', unit: 'V', kind: 'number', doc: 'how far a timer\'s or driver\'s output sits under its supply when high (bipolar 555 about 1.7 V, CMOS near 0)' },
+  { name: 'vt0', unit: 'V', kind: 'number', doc: 'on-state threshold voltage V_T0 of a thyristor or triac (IEC 60747-6)' },
+  { name: 'rt', unit: 'Ω', kind: 'number', doc: 'on-state slope resistance r_T of a thyristor or triac (IEC 60747-6)' },
+  { name: 'igt', unit: 'A', kind: 'number', doc: 'largest gate trigger current at 25 °C in quadrants I, II and III' },
+  { name: 'igt_q4', unit: 'A', kind: 'number', doc: 'largest gate trigger current at 25 °C in quadrant IV' },
+  { name: 'vgt', unit: 'V', kind: 'number', doc: 'largest gate trigger voltage at 25 °C' },
+  { name: 'il', unit: 'A', kind: 'number', doc: 'latching current of a triac' },
+  { name: 'ih', unit: 'A', kind: 'number', doc: 'holding current of a triac' },
+  { name: 'didt_c', unit: 'A/s', kind: 'number', doc: 'critical rate of fall of a triac\'s current at commutation, (dI/dt)c' },
+  { name: 'i2t', unit: 'A²s', kind: 'number', doc: 'I²t: for fusing of a semiconductor (10 ms), or a fuse\'s clearing I²t' },
+  { name: 'v_1ma', unit: 'V', kind: 'number', doc: 'varistor voltage at 1 mA' },
+  { name: 'v_clamp', unit: 'V', kind: 'number', doc: 'varistor clamping voltage at its class current i_clamp (8/20 µs)' },
+  { name: 'i_clamp', unit: 'A', kind: 'number', doc: 'class current at which a varistor\'s clamping voltage is given' },
+  { name: 'i_surge', unit: 'A', kind: 'number', doc: 'largest single 8/20 µs surge current of a varistor' },
+  { name: 'energy', unit: 'J', kind: 'number', doc: 'largest single-pulse energy of a varistor' },
+  { name: 'v_pulse', unit: 'V', kind: 'number', doc: 'rated peak impulse voltage (X capacitors)' },
+  { name: 'v_drop', unit: 'V', kind: 'number', doc: 'dropout voltage of a linear regulator' },
+  { name: 'regulation', unit: '', kind: 'number', doc: 'rise of a transformer\'s secondary from rated load to no load, as a fraction' },
 ];
 
 /** Roles a build line can give its part, read by the built-in checks. */
-export const ROLES = ['switch', 'bridge', 'xcap', 'bleeder', 'zener', 'snubber_r', 'snubber_c', 'timer', 'heatsink', 'supply_diode'] as const;
+export const ROLES = [
+  'switch', 'bridge', 'xcap', 'bleeder', 'zener', 'snubber_r', 'snubber_c', 'timer', 'heatsink', 'supply_diode',
+  'gate_r', 'fuse', 'varistor', 'xfmr', 'logic_bridge', 'regulator', 'smoothing', 'logic_fuse', 'logic',
+] as const;
 
 // ---------------------------------------------------------------------------------------------------------------
 // Names the user gives: parameters, part ratings, currencies and other keys of the Book's own records.

@@ -39,7 +39,7 @@ describe('rungbook check', () => {
     expect(r.out).toContain('FR5-75-CD — Five-step 75 W, push button, dropper: worst fail');
     // 1 MΩ · 0.517 µF · ln(357.8/34) = 1.217 s > 1 s (IEC 60335-1 cl. 22.5 as quoted; worked in checks-demo.test.ts).
     expect(r.out).toMatch(/bleeder_time\s+1\.217 s\s+✗ fail\s+≤ 1 s/);
-    expect(r.out).toMatch(/switch_v_stress\s+357\.8 V\s+✓ pass\s+≤ 480 V/);
+    expect(r.out).toMatch(/switch_v_stress\s+357\.8 V\s+✓ pass\s+≤ 640 V/);
     expect(r.out).toMatch(/ctl_s6\s+– n\/a/);
     expect(r.out).not.toContain('FR3-40-CD');
   });

@@ -144,7 +144,10 @@ describe('built-in sheets', () => {
       expect(c.note.length).toBeGreaterThan(20);
       expect(c.group).not.toBe('');
     }
-    expect(Object.keys(readSheetTexts())).toEqual(['10-mains.checks', '20-power.checks', '30-supply.checks', '40-control.checks']);
+    expect(Object.keys(readSheetTexts())).toEqual([
+      '10-mains.checks', '20-power.checks', '30-supply.checks', '40-control.checks', '50-triac.checks', '60-transformer.checks',
+      '70-surge.checks',
+    ]);
   });
 
   it('throw with file and line when a shipped sheet is broken', () => {

@@ -12,6 +12,9 @@ const REQUIRED = [
   'ASTABLE_DUTY', 'RC_REACH', 'COND_LOSS', 'BRIDGE_LOSS', 'SNUB_WATTS', 'JUNCTION_C', 'SINK_RTH_MAX', 'E_NEAR',
   'E_UP', 'E_DOWN', 'RKM', 'RKM_TEXT', 'NEED_QTY', 'BUY_QTY', 'BREAK_PRICE', 'CTL_NODE', 'DROP_DC', 'ZENER_WORST',
   'LOAD_AMPS',
+  // Triac stage, transformer supply and surge (src/engine/functions/triac.ts, transformer.ts, surge.ts).
+  'PHASE_VRMS', 'TRIAC_LOSS', 'GATE_COLD', 'GATE_AMPS', 'COMMUTATION_DIDT', 'RECT_TROUGH', 'XFMR_VA', 'REG_LOSS',
+  'VDR_CLAMP', 'VDR_SURGE_AMPS', 'VDR_ENERGY',
   // Book functions for notebook pages (src/engine/functions/book.ts).
   'VAR', 'CHECK', 'CHECK_STATUS', 'PART_PRICE', 'PART_COST',
 ];

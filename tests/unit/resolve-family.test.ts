@@ -118,9 +118,10 @@ describe('resolveFamily', () => {
       const l = byCode(res, code).lines.find((x) => x.lineId === lineId)!;
       return book.parts.find((p) => p.id === l.partId)?.mpn;
     };
-    // Demo rule: IF(load_w>100, "QX-N8006", IF(load_w>60, "QX-N6004", "QX-N6002")).
-    expect(mpn('FR3-40-CD', 'line_mosfet')).toBe('QX-N6002');
-    expect(mpn('FR5-75-CD', 'line_mosfet')).toBe('QX-N6004');
+    // Demo rule: IF(load_w>100, "QX-N8006", IF(mains_v>200, "QX-N8003", IF(load_w>60, "QX-N6004", "QX-N6002"))).
+    expect(mpn('FR3-40-CD', 'line_mosfet')).toBe('QX-N8003');
+    expect(mpn('FR3-60-CD-U', 'line_mosfet')).toBe('QX-N6002');
+    expect(mpn('FR6-75-CD-U', 'line_mosfet')).toBe('QX-N6004');
     expect(mpn('FR5-150-RT', 'line_mosfet')).toBe('QX-N8006');
     // Steering diodes: qtyRule "steps".
     expect(byCode(res, 'FR6-100-CD').lines.find((l) => l.lineId === 'line_steering')!.qtyPerUnit).toBe(6);

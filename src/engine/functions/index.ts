@@ -5,7 +5,10 @@ import { BOOK_FUNCTIONS, BookPlugin } from './book.ts';
 import { PURCHASING_FUNCTIONS, PurchasingPlugin } from './purchasing.ts';
 import { POWER_FUNCTIONS, PowerPlugin } from './power.ts';
 import { SUPPLY_FUNCTIONS, SupplyPlugin } from './supply.ts';
+import { SURGE_FUNCTIONS, SurgePlugin } from './surge.ts';
 import { TIMING_FUNCTIONS, TimingPlugin } from './timing.ts';
+import { TRANSFORMER_FUNCTIONS, TransformerPlugin } from './transformer.ts';
+import { TRIAC_FUNCTIONS, TriacPlugin } from './triac.ts';
 import { VALUES_FUNCTIONS, ValuesPlugin } from './values.ts';
 
 export { FUNCTION_AREAS } from './define.ts';
@@ -18,6 +21,9 @@ export const FUNCTION_PLUGINS: readonly { area: FunctionArea; plugin: FunctionPl
   { area: 'supply', plugin: SupplyPlugin, specs: SUPPLY_FUNCTIONS },
   { area: 'timing', plugin: TimingPlugin, specs: TIMING_FUNCTIONS },
   { area: 'power', plugin: PowerPlugin, specs: POWER_FUNCTIONS },
+  { area: 'triac', plugin: TriacPlugin, specs: TRIAC_FUNCTIONS },
+  { area: 'transformer', plugin: TransformerPlugin, specs: TRANSFORMER_FUNCTIONS },
+  { area: 'surge', plugin: SurgePlugin, specs: SURGE_FUNCTIONS },
   { area: 'purchasing', plugin: PurchasingPlugin, specs: PURCHASING_FUNCTIONS },
   { area: 'book', plugin: BookPlugin, specs: BOOK_FUNCTIONS },
 ];
