@@ -274,3 +274,26 @@ export function roomyControlStyles(selector: string): CSSResult {
     }
   `;
 }
+
+/** A check's status in its colours, as the Checks matrix and a check's detail draw it. */
+export const checkStatusStyles = css`
+  .pass {
+    color: var(--rb-pass);
+  }
+  .margin {
+    color: var(--rb-margin);
+    background: var(--rb-margin-bg);
+  }
+  .fail {
+    color: var(--rb-fail);
+    background: var(--rb-fail-bg);
+    font-weight: 600;
+  }
+  .error {
+    color: var(--rb-fail);
+    border: 1px dashed var(--rb-fail) !important;
+  }
+  .na {
+    color: var(--rb-na);
+  }
+`;
