@@ -2,13 +2,19 @@
 // control-voltage divider for each step, snapped to an IEC 60063 series, with the duty it really gives.
 //
 // Circuit: a 555-type astable (RA, RB) whose control pin is driven by r_top from Vcc and one bottom resistor per
-// step to ground; inside the timer the pin sits at v_int (⅔·Vcc) behind r_int (≈3.33 kΩ). Duty follows the
+// step to ground; inside the timer the pin sits at v_int (⅔·Vcc) behind r_int, the fitted timer's control-pin source
+// resistance (its part's r_ctl rating: about 3.33 kΩ for a bipolar part, far higher for a CMOS one). Duty follows the
 // control-voltage form of the astable (thresholds Vc and Vc/2): t_H = (RA+RB)·C·ln((Vcc − Vc/2)/(Vcc − Vc)),
 // t_L = ln2·RB·C; C cancels in the duty.
 import { eNear } from './eseries.ts';
 
-/** The internal source resistance of a bipolar 555-type control pin (three 5 kΩ resistors: 15k ∥ … ≈ 3.33 kΩ). */
-export const CTL_R_INT = 10000 / 3;
+/**
+ * The control-pin source resistance of a timer whose internal divider is three equal resistors r_div: the upper one
+ * in parallel with the lower two, ⅔·r_div (Thevenin arithmetic). A bipolar 555's 3 × 5 kΩ gives 3.33 kΩ.
+ */
+export function controlPinSource(rDiv: number): number {
+  return (rDiv * 2 * rDiv) / (rDiv + 2 * rDiv);
+}
 
 export interface LadderInput {
   vcc: number;
@@ -21,8 +27,8 @@ export interface LadderInput {
   spread?: { steps: number; min: number; max: number };
   /** IEC 60063 series to snap to: 3, 6, 12, 24, 48, 96 or 192. */
   series: number;
-  /** Control pin source resistance; default CTL_R_INT. */
-  rInt?: number;
+  /** Control-pin source resistance of the fitted timer (its r_ctl rating); no default, since it depends on the part. */
+  rInt: number;
   /** Control pin open-circuit voltage; default ⅔·vcc. */
   vInt?: number;
 }
@@ -58,12 +64,12 @@ export function ctlForDuty(d: number, ra: number, rb: number, vcc: number): numb
 }
 
 /** Voltage at the control pin: node equation of r_top to vcc, r_bottom to ground and the internal v_int behind r_int. */
-export function ctlNode(vcc: number, rTop: number, rBottom: number, rInt = CTL_R_INT, vInt = (2 / 3) * vcc): number {
+export function ctlNode(vcc: number, rTop: number, rBottom: number, rInt: number, vInt = (2 / 3) * vcc): number {
   return (vcc / rTop + vInt / rInt) / (1 / rTop + 1 / rBottom + 1 / rInt);
 }
 
 /** Bottom resistor that puts the control pin at vc: the node equation solved for 1/r_bottom. */
-export function bottomForCtl(vc: number, vcc: number, rTop: number, rInt = CTL_R_INT, vInt = (2 / 3) * vcc): number {
+export function bottomForCtl(vc: number, vcc: number, rTop: number, rInt: number, vInt = (2 / 3) * vcc): number {
   const g = (vcc / rTop + vInt / rInt) / vc - 1 / rTop - 1 / rInt;
   return 1 / g;
 }
@@ -74,14 +80,14 @@ function positive(name: string, v: number | undefined): string | null {
 
 /** Designs the ladder; every input is checked and a bad one gives a message instead of numbers. */
 export function designLadder(input: LadderInput): LadderResult {
-  const rInt = input.rInt ?? CTL_R_INT;
+  const rInt = input.rInt;
   const vInt = input.vInt ?? (2 / 3) * input.vcc;
   for (const [name, v] of [
     ['vcc', input.vcc],
     ['ra', input.ra],
     ['rb', input.rb],
     ['r_top', input.rTop],
-    ['r_int', rInt],
+    ['r_int (the timer part\'s r_ctl rating)', rInt],
     ['v_int', vInt],
   ] as const) {
     const bad = positive(name, v);

@@ -23,17 +23,26 @@ interface Timer {
   rb: number;
   rTop: number;
   steps: number;
+  /** Control-pin source resistance of the timer part the variant's build lines fit (its r_ctl rating). */
+  rInt: number;
 }
+
+/** The rating a variant's timer part gives the ladder: its control-pin source resistance. */
+const TIMER_R_CTL = 'timer_r_ctl';
 
 function num(v: Variant, name: string): number | undefined {
   const x = v.params[name];
   return typeof x === 'number' && Number.isFinite(x) ? x : undefined;
 }
 
-/** The variant's timer and divider values, or what is missing for a ladder. */
-export function timerOf(v: Variant): { ok: true; timer: Timer } | { ok: false; missing: string[] } {
-  const vals = { vcc: num(v, 'vcc'), ra: num(v, 'ra'), rb: num(v, 'rb'), rTop: num(v, 'r_top'), steps: num(v, 'steps') };
-  const missing = Object.entries({ vcc: vals.vcc, ra: vals.ra, rb: vals.rb, r_top: vals.rTop, steps: vals.steps })
+/**
+ * The variant's timer and divider values, or what is missing for a ladder. `roleNames` are the variant's resolved
+ * part ratings (resolveFamily): the control-pin source resistance comes from the timer part fitted, never a constant.
+ */
+export function timerOf(v: Variant, roleNames: Readonly<Record<string, number>>): { ok: true; timer: Timer } | { ok: false; missing: string[] } {
+  const rCtl = roleNames[TIMER_R_CTL];
+  const vals = { vcc: num(v, 'vcc'), ra: num(v, 'ra'), rb: num(v, 'rb'), rTop: num(v, 'r_top'), steps: num(v, 'steps'), rInt: rCtl !== undefined && rCtl > 0 ? rCtl : undefined };
+  const missing = Object.entries({ vcc: vals.vcc, ra: vals.ra, rb: vals.rb, r_top: vals.rTop, steps: vals.steps, [TIMER_R_CTL]: vals.rInt })
     .filter(([, x]) => x === undefined)
     .map(([k]) => k);
   if (missing.length > 0) return { ok: false, missing };
@@ -44,7 +53,7 @@ export function timerOf(v: Variant): { ok: true; timer: Timer } | { ok: false; m
 export function presentDuties(v: Variant, t: Timer): (number | undefined)[] {
   return Array.from({ length: Math.min(t.steps, MAX_STEPS) }, (_, i) => {
     const r = num(v, `r_s${i + 1}`);
-    return r === undefined || r <= 0 ? undefined : astableDuty(t.ra, t.rb, t.vcc, ctlNode(t.vcc, t.rTop, r));
+    return r === undefined || r <= 0 ? undefined : astableDuty(t.ra, t.rb, t.vcc, ctlNode(t.vcc, t.rTop, r, t.rInt));
   });
 }
 
@@ -133,8 +142,22 @@ export class RbLadderDesigner extends LitElement {
   private readonly books = new BookController(this);
   private defaultsFor = '';
 
+  private roles: { book: Book; byVariant: Map<string, Record<string, number>> } | undefined;
+
+  /** Each variant's resolved part ratings, worked out once per Book. */
+  private roleNames(book: Book, v: Variant): Record<string, number> {
+    if (this.roles?.book !== book) {
+      this.roles = { book, byVariant: new Map(resolveFamily(book).variants.map((r) => [r.variantId, r.roleNames])) };
+    }
+    return this.roles.byVariant.get(v.id) ?? {};
+  }
+
+  private timer(book: Book, v: Variant): ReturnType<typeof timerOf> {
+    return timerOf(v, this.roleNames(book, v));
+  }
+
   private eligible(book: Book): Variant[] {
-    return book.variants.filter((v) => timerOf(v).ok);
+    return book.variants.filter((v) => this.timer(book, v).ok);
   }
 
   private current(book: Book): Variant | undefined {
@@ -156,7 +179,7 @@ export class RbLadderDesigner extends LitElement {
   }
 
   private design(t: Timer): LadderResult {
-    const base = { vcc: t.vcc, ra: t.ra, rb: t.rb, rTop: t.rTop, series: this.series };
+    const base = { vcc: t.vcc, ra: t.ra, rb: t.rb, rTop: t.rTop, rInt: t.rInt, series: this.series };
     if (this.mode === 'list') {
       const d = readDuties(this.list);
       if (!d.ok) return d;
@@ -174,7 +197,7 @@ export class RbLadderDesigner extends LitElement {
   override willUpdate(): void {
     const book = this.books.book;
     const v = book ? this.current(book) : undefined;
-    const t = v ? timerOf(v) : undefined;
+    const t = book && v ? this.timer(book, v) : undefined;
     if (v && t?.ok) this.ensureDefaults(v, t.timer);
   }
 
@@ -187,17 +210,21 @@ export class RbLadderDesigner extends LitElement {
       <h2 id="ladder-h">Step ladder</h2>
       <p class="why">
         The duty of the 555-type timer at each speed step is set by the control-pin voltage from r_top over the step's
-        resistor (the pin's own ⅔·Vcc behind about 3.33 kΩ included). Choose target duties; the resistors are snapped
-        to an E-series and the duty they really give is shown.
+        resistor, with the pin's own ⅔·Vcc behind the fitted timer part's source resistance (its r_ctl rating: about
+        3.33 kΩ for a bipolar part, far higher for a CMOS one). Choose target duties; the resistors are snapped to an
+        E-series and the duty they really give is shown.
       </p>
       ${!v
-        ? html`<p class="empty">No variant has a timer and divider (vcc, ra, rb, r_top and steps) to design a ladder for.</p>`
-        : this.renderDesigner(list, v)}
+        ? html`<p class="empty">
+            No variant has a timer and divider (vcc, ra, rb, r_top and steps, and a timer part with its r_ctl rating) to
+            design a ladder for.
+          </p>`
+        : this.renderDesigner(book, list, v)}
     </section>`;
   }
 
-  private renderDesigner(list: Variant[], v: Variant): TemplateResult {
-    const t = timerOf(v);
+  private renderDesigner(book: Book, list: Variant[], v: Variant): TemplateResult {
+    const t = this.timer(book, v);
     if (!t.ok) return html``;
     const result = this.design(t.timer);
     const now = presentDuties(v, t.timer);
@@ -210,7 +237,8 @@ export class RbLadderDesigner extends LitElement {
         >
         <span class="muted"
           >${t.timer.steps} steps · Vcc ${formatValue(t.timer.vcc, 'V')} · RA ${formatValue(t.timer.ra, 'Ω')} · RB
-          ${formatValue(t.timer.rb, 'Ω')} · r_top ${formatValue(t.timer.rTop, 'Ω')}</span
+          ${formatValue(t.timer.rb, 'Ω')} · r_top ${formatValue(t.timer.rTop, 'Ω')} · timer source
+          ${formatValue(t.timer.rInt, 'Ω')}</span
         >
       </div>
       <div class="controls">

@@ -104,26 +104,38 @@ describe('DIVIDER_OUT (unloaded divider, basic circuit theory)', () => {
   });
 });
 
-describe('CTL_NODE (Kirchhoff node equation; internal source ⅔ V_cc behind 3.33 kΩ, from memory)', () => {
+describe('CTL_NODE (Kirchhoff node equation; the pin is ⅔ V_cc behind the timer kind\'s source: bipolar 3.33 kΩ, CMOS 66.67 kΩ for a 3 × 100 kΩ divider — Thevenin arithmetic, divider values from memory)', () => {
   it('12 V, 10 kΩ / 10 kΩ: 7.2 V, by two hand methods', () => {
     // Nodal: (12/10k + 8/3.333k) / (1/10k + 1/10k + 1/3.333k) = (1.2 + 2.4) mA / 0.5 mS = 7.2 V.
     // Thévenin: the divider is 6 V behind 5 kΩ; with 8 V behind 3.333 kΩ: (6·3.333 + 8·5) / 8.333 = 7.2 V.
-    expect(calc('=CTL_NODE(12, 10000, 10000)')).toBeCloseTo(7.2, 10);
+    expect(calc('=CTL_NODE(12, 10000, 10000, 10000/3)')).toBeCloseTo(7.2, 10);
+  });
+  it('a CMOS part (3 × 100 kΩ divider, 66.67 kΩ source) on the same divider: 6.140 V, near the plain divider\'s 6 V', () => {
+    // Nodal: (1.2 + 8/66.667k) mA / (0.1 + 0.1 + 0.015) mS = 1.32 / 0.215 = 6.1395 V.
+    expect(calc('=CTL_NODE(12, 10000, 10000, 200000/3)')).toBeCloseTo(1.32 / 0.215, 10);
+    // Thevenin: R_th = 10 kΩ to ground alone gives 8 · 10k/(10k + R_th): 6.000 V bipolar (worked value), 1.0435 V CMOS.
+    expect(calc('=CTL_NODE(12, 1e300, 10000, 10000/3)')).toBeCloseTo(6, 9);
+    expect(calc('=CTL_NODE(12, 1e300, 10000, 200000/3)')).toBeCloseTo(1.0435, 4);
+  });
+  it('has no default source: without r_int it says to take it from the timer part', () => {
+    const e = fails('=CTL_NODE(12, 10000, 10000)');
+    expect(e.value).toBe('#VALUE!');
+    expect(e.message).toMatch(/^CTL_NODE: give r_int, the timer's control-pin source resistance \(its part's r_ctl rating/);
   });
   it('with no divider pull (r_top and r_bottom very large) the pin rests at ⅔ V_cc', () => {
-    expect(calc('=CTL_NODE(12, 1e15, 1e15)')).toBeCloseTo(8, 6);
+    expect(calc('=CTL_NODE(12, 1e15, 1e15, 10000/3)')).toBeCloseTo(8, 6);
   });
   it('takes an explicit internal source and resistance', () => {
     // (10/10k + 5/5k) / (1/10k + 1/10k + 1/5k) = 2 mA / 0.4 mS = 5 V.
     expect(calc('=CTL_NODE(10, 10000, 10000, 5000, 5)')).toBeCloseTo(5, 10);
   });
   it('is 0 V with the pin shorted to ground, and refuses r_top of 0', () => {
-    expect(calc('=CTL_NODE(12, 10000, 0)')).toBe(0);
-    expect(fails('=CTL_NODE(12, 0, 10000)').message).toMatch(/r_top \(Ω\) must be greater than 0/);
+    expect(calc('=CTL_NODE(12, 10000, 0, 10000/3)')).toBe(0);
+    expect(fails('=CTL_NODE(12, 0, 10000, 10000/3)').message).toMatch(/r_top \(Ω\) must be greater than 0/);
   });
   it('feeds ASTABLE_DUTY: a lower pin voltage gives a lower duty', () => {
-    const hi = calc('=ASTABLE_DUTY(1000, 10000, 12, CTL_NODE(12, 10000, 100000))');
-    const lo = calc('=ASTABLE_DUTY(1000, 10000, 12, CTL_NODE(12, 10000, 4700))');
+    const hi = calc('=ASTABLE_DUTY(1000, 10000, 12, CTL_NODE(12, 10000, 100000, 10000/3))');
+    const lo = calc('=ASTABLE_DUTY(1000, 10000, 12, CTL_NODE(12, 10000, 4700, 10000/3))');
     expect(lo).toBeLessThan(hi);
   });
 });

@@ -1,6 +1,6 @@
 // Control-signal functions: the 555-type astable (times, frequency, duty, with the control-pin voltage form),
 // RC charge time to a threshold (debounce), the resistor divider and the control-pin node it drives.
-import { buildPlugin, defineFunction, numError } from './define.ts';
+import { buildPlugin, defineFunction, numError, valueError } from './define.ts';
 import type { FunctionSpec } from './define.ts';
 
 /**
@@ -130,24 +130,29 @@ const DIVIDER_OUT = defineFunction({
   },
 });
 
-/** A bipolar 555's control pin sits at ⅔ V_cc behind about 3.33 kΩ (5 kΩ ∥ 10 kΩ of its internal divider). */
-const R_INTERNAL = 10_000 / 3;
-
 const CTL_NODE = defineFunction({
   name: 'CTL_NODE',
   area: 'timing',
   returns: 'V',
   doc:
     'Voltage at a 555-type control pin driven by a divider (r_top to vcc, r_bottom to ground), solving the node with ' +
-    'the pin\'s own source v_int (⅔ vcc) behind r_int (3.33 kΩ, from memory; Kirchhoff’s current law).',
+    "the pin's own source v_int (⅔ vcc) behind r_int, the fitted timer's control-pin source resistance (its r_ctl rating: " +
+    'about 3.33 kΩ for a bipolar part, far higher for a CMOS one, from memory; Kirchhoff’s current law).',
   args: [
     { name: 'vcc', unit: 'V', rule: 'positive' },
     { name: 'r_top', unit: 'Ω', rule: 'positive' },
     { name: 'r_bottom', unit: 'Ω', rule: 'nonNegative' },
-    { name: 'r_int', unit: 'Ω', rule: 'positive', optional: true, default: R_INTERNAL },
+    { name: 'r_int', unit: 'Ω', rule: 'positive', optional: true },
     { name: 'v_int', unit: 'V', optional: true },
   ],
-  compute(vcc: number, rTop: number, rBottom: number, rInt: number, vInt?: number) {
+  compute(vcc: number, rTop: number, rBottom: number, rInt?: number, vInt?: number) {
+    // No default: a bipolar part's 3.33 kΩ and a CMOS part's tens of kΩ give very different voltages.
+    if (rInt === undefined) {
+      return valueError(
+        'CTL_NODE',
+        "give r_int, the timer's control-pin source resistance (its part's r_ctl rating: about 3.33 kΩ for a bipolar 555, far higher for a CMOS part)",
+      );
+    }
     if (rBottom === 0) return 0; // pin shorted to ground
     const vi = vInt ?? (2 / 3) * vcc;
     // Kirchhoff's current law at the pin: (vcc − V)/r_top + (0 − V)/r_bottom + (v_int − V)/r_int = 0.
