@@ -101,7 +101,7 @@ describe('what comes out of storage', () => {
     await store.replaceAll(sampleBook());
     store.close();
     // Damage one part as another program (or an older build) might have written it.
-    const db = await wrap(factory.open('rungbook-damaged', idbVersionOf(SCHEMA_VERSION)));
+    const db = (await wrap(factory.open('rungbook-damaged', idbVersionOf(SCHEMA_VERSION))))!;
     const part = await db.get('parts', 'part_r47k');
     await db.put('parts', { ...part, ratings: { p_max: 'a lot' } });
     db.close();
