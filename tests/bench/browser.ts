@@ -11,6 +11,7 @@ import { CHROMIUM_FLAGS, CHROMIUM_PATH } from '../browser/harness.ts';
 import { PROJECT_ROOT, builtApp, scratchDir, viteBuild } from './bundle.ts';
 import type { BenchOptions, BenchSection, Figures } from './harness.ts';
 import { IMPORT_SAMPLE } from './import.ts';
+import { referenceImportBook, writeBookFile } from './book-file.ts';
 import { median, oneLine, round } from './stats.ts';
 
 const FLAGS = [
@@ -83,7 +84,7 @@ interface FirstView {
   costSelector?: string;
 }
 
-async function serve(configFile: string, outDir: string): Promise<{ server: PreviewServer; url: string }> {
+export async function serve(configFile: string, outDir: string): Promise<{ server: PreviewServer; url: string }> {
   const server = await preview({
     configFile,
     root: PROJECT_ROOT,
@@ -136,6 +137,71 @@ async function firstViewFigures(context: BrowserContext, appUrl: string, quick: 
       ? `measured to the first unit cost shown on the Family page (${cold.costSelector})`
       : `the Family page showed no unit cost (${FAMILY_COST_CELLS.map((m) => `${m.container} ${m.cell}`).join(', ')}): measured to the family table's first row`;
   return f;
+}
+
+/** Longest gap between animation frames since the probe was (re)started, in ms: how long the page could not draw. */
+async function startFrameProbe(page: Page): Promise<void> {
+  await page.evaluate(() => {
+    const w = window as unknown as { __rbGap?: { max: number; last: number } };
+    const probe = { max: 0, last: performance.now() };
+    w.__rbGap = probe;
+    const tick = (): void => {
+      const now = performance.now();
+      probe.max = Math.max(probe.max, now - probe.last);
+      probe.last = now;
+      if (w.__rbGap === probe) requestAnimationFrame(tick);
+    };
+    requestAnimationFrame(tick);
+  });
+}
+
+async function frameGap(page: Page): Promise<number> {
+  return page.evaluate(() => {
+    const g = (window as unknown as { __rbGap: { max: number; last: number } }).__rbGap;
+    return Math.max(g.max, performance.now() - g.last);
+  });
+}
+
+/**
+ * Opening a large Book file in the built app: from choosing the file to the question to replace the Book (read,
+ * JSON.parse and validation in the worker), then from the answer to the Family page showing the opened Book (saved
+ * into IndexedDB and read back). The person's time to answer is not counted. The longest frame gap of each stage
+ * says whether the page kept drawing.
+ */
+export async function bookOpenFigures(context: BrowserContext, appUrl: string, quick: boolean, log: (t: string) => void): Promise<Figures> {
+  const book = await referenceImportBook(quick ? QUICK_IMPORT_ROWS : IMPORT_SAMPLE.rows);
+  const file = writeBookFile('open-in-browser.rungbook.json', book);
+  const prefix = quick ? 'book_open_browser_small' : 'book_open_browser';
+  log(`browser: opening a ${round(file.bytes / 1_048_576, 1)} MB Book file (${book.quotes.length} quotes) through the Book menu`);
+  const page = await context.newPage();
+  try {
+    await page.goto(`${appUrl}#/family`);
+    await page.locator('[data-testid="family-table"] tbody tr').first().waitFor({ timeout: 60_000 });
+    await startFrameProbe(page);
+    const t0 = performance.now();
+    await page.locator('rb-book-menu input[type="file"]').setInputFiles(file.path);
+    const dialog = page.locator('rb-book-menu dialog[open]');
+    await dialog.waitFor({ timeout: 180_000 });
+    const read = performance.now() - t0;
+    const readGap = await frameGap(page);
+    await startFrameProbe(page);
+    const t1 = performance.now();
+    await dialog.getByRole('button', { name: 'Replace with the file' }).click();
+    await page.locator('[data-testid="notice"]', { hasText: 'Opened' }).waitFor({ timeout: 180_000 });
+    await page.locator('[data-testid="family-table"] tbody tr').first().waitFor({ timeout: 60_000 });
+    const shown = performance.now() - t1;
+    const shownGap = await frameGap(page);
+    return {
+      [`${prefix}_file`]: `reference family + ${quick ? QUICK_IMPORT_ROWS : IMPORT_SAMPLE.rows}-row import: ${book.quotes.length} quotes, ${round(file.bytes / 1_048_576, 1)} MB`,
+      [`${prefix}_ms`]: round(read + shown),
+      [`${prefix}_read_ms`]: round(read),
+      [`${prefix}_read_max_frame_gap_ms`]: round(readGap),
+      [`${prefix}_save_show_ms`]: round(shown),
+      [`${prefix}_save_show_max_frame_gap_ms`]: round(shownGap),
+    };
+  } finally {
+    await page.close();
+  }
 }
 
 async function benchPageFigures(context: BrowserContext, pageUrl: string, quick: boolean, log: (t: string) => void): Promise<Figures> {
@@ -197,6 +263,10 @@ export const browserSection: BenchSection = {
         await firstViewFigures(context, app.url, quick, log).then(
           (figures) => Object.assign(f, figures),
           (e: unknown) => void problems.push(`first view: ${oneLine(e, 300)}`),
+        );
+        await bookOpenFigures(context, app.url, quick, log).then(
+          (figures) => Object.assign(f, figures),
+          (e: unknown) => void problems.push(`Book file open: ${oneLine(e, 300)}`),
         );
       }
       if (pageBuilt) {

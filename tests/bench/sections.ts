@@ -3,8 +3,9 @@
 import type { BenchSection } from './harness.ts';
 import { costingSection } from './costing.ts';
 import { importSection } from './import.ts';
+import { bookFileSection } from './book-file.ts';
 import { checksSection } from './checks.ts';
 import { bundleSection } from './bundle.ts';
 import { browserSection } from './browser.ts';
 
-export const BENCH_SECTIONS: BenchSection[] = [costingSection, checksSection, importSection, bundleSection, browserSection];
+export const BENCH_SECTIONS: BenchSection[] = [costingSection, checksSection, importSection, bookFileSection, bundleSection, browserSection];
