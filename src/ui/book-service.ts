@@ -13,7 +13,7 @@ import { openBookStore } from '../store/idb-store.ts';
 import { requestPersistence, storageEstimate } from '../store/storage.ts';
 import type { BookChange, BookStore, StorageEstimate } from '../store/types.ts';
 import { RevisionConflict, StorageFull, StoreWriteFailed } from '../store/types.ts';
-import { withBuiltInChecks } from './sheets.ts';
+import { withBuiltInChecks } from './check-sheets.ts';
 
 export const SAVE_STATES = {
   saved: 'saved',

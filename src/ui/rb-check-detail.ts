@@ -9,7 +9,7 @@ import type { Book, Check, ParamValue, Variant } from '../domain/book.ts';
 import { CHECK_STATUS, STATUS_SYMBOL } from '../domain/check-status.ts';
 import { ownValue } from '../domain/params.ts';
 import { formulaNames, nameKey } from '../engine/formula-names.ts';
-import { formatRule } from '../engine/sheets.ts';
+import { formatRule } from '../engine/check-sheets.ts';
 import { BookController } from './book-context.ts';
 import { shownValue, statusClass } from './checks-controller.ts';
 import type { ChecksController } from './checks-controller.ts';

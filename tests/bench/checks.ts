@@ -7,7 +7,7 @@ import { seededRandom } from '../fixtures/seeded-random.ts';
 import type { Book, Variant } from '../../src/domain/book.ts';
 import { FamilyWorkbook } from '../../src/engine/family.ts';
 import type { CheckResult } from '../../src/engine/family.ts';
-import { loadBuiltInChecks } from '../../src/cli/sheets-fs.ts';
+import { loadBuiltInChecks } from '../../src/cli/check-sheets-fs.ts';
 import type { BenchOptions, BenchSection, Figures } from './harness.ts';
 import { median, round, timeMs } from './stats.ts';
 

@@ -4,7 +4,7 @@ import { describe, expect, it } from 'vitest';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { FamilyWorkbook, evaluateChecks } from '../../src/engine/family.ts';
 import type { CheckResult } from '../../src/engine/family.ts';
-import { loadBuiltInChecks } from '../../src/cli/sheets-fs.ts';
+import { loadBuiltInChecks } from '../../src/cli/check-sheets-fs.ts';
 
 const CHECKS = loadBuiltInChecks();
 

@@ -9,7 +9,7 @@ import { emptyBook } from '../../src/domain/book.ts';
 import type { Book, Check, Variant } from '../../src/domain/book.ts';
 import { FamilyWorkbook, evaluateChecks, resolveFamily } from '../../src/engine/family.ts';
 import type { CheckResult } from '../../src/engine/family.ts';
-import { loadBuiltInChecks } from '../../src/cli/sheets-fs.ts';
+import { loadBuiltInChecks } from '../../src/cli/check-sheets-fs.ts';
 
 const CHECKS = loadBuiltInChecks();
 

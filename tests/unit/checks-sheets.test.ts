@@ -3,8 +3,8 @@
 import { describe, expect, it } from 'vitest';
 import { emptyBook } from '../../src/domain/book.ts';
 import type { Check } from '../../src/domain/book.ts';
-import { addBuiltInChecks, builtInChecks, formatRule, parseCheckSheet, parseRule } from '../../src/engine/sheets.ts';
-import { loadBuiltInChecks, readSheetTexts } from '../../src/cli/sheets-fs.ts';
+import { addBuiltInChecks, builtInChecks, formatRule, parseCheckSheet, parseRule } from '../../src/engine/check-sheets.ts';
+import { loadBuiltInChecks, readSheetTexts } from '../../src/cli/check-sheets-fs.ts';
 
 const GOOD = `# a comment
 name: peak

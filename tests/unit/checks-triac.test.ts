@@ -4,8 +4,8 @@ import { describe, expect, it } from 'vitest';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { evaluateChecks } from '../../src/engine/family.ts';
 import type { CheckResult } from '../../src/engine/family.ts';
-import { loadBuiltInChecks, readSheetTexts } from '../../src/cli/sheets-fs.ts';
-import { parseCheckSheet } from '../../src/engine/sheets.ts';
+import { loadBuiltInChecks, readSheetTexts } from '../../src/cli/check-sheets-fs.ts';
+import { parseCheckSheet } from '../../src/engine/check-sheets.ts';
 import { formulaSheet, near4 } from './functions-helpers.ts';
 import { foreignTopology } from './topology-helpers.ts';
 

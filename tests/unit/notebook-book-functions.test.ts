@@ -5,7 +5,7 @@ import { DetailedCellError } from 'hyperformula';
 import type { Book, NotebookPage, Part, Quote } from '../../src/domain/book.ts';
 import { emptyBook } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { loadBuiltInChecks } from '../../src/cli/sheets-fs.ts';
+import { loadBuiltInChecks } from '../../src/cli/check-sheets-fs.ts';
 import { createEngine } from '../../src/engine/create.ts';
 import { functionDoc } from '../../src/engine/functions/index.ts';
 import { bookFunctionContext, evaluateNotebookPage } from '../../src/engine/notebook.ts';

@@ -3,8 +3,8 @@
 import { describe, expect, it } from 'vitest';
 import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
 import { dirname, join, relative, resolve, sep } from 'node:path';
-import { parseCheckSheet } from '../../src/engine/sheets.ts';
-import { readSheetTexts } from '../../src/cli/sheets-fs.ts';
+import { parseCheckSheet } from '../../src/engine/check-sheets.ts';
+import { readSheetTexts } from '../../src/cli/check-sheets-fs.ts';
 import { FUNCTION_DOCS } from '../../src/engine/functions/index.ts';
 
 const ROOT = resolve(__dirname, '../..');
@@ -80,7 +80,7 @@ describe('the project stands alone', () => {
     expect(outsideReferences('README.md', `see [notes](../${'shared'}/notes.txt)`).length).toBeGreaterThan(0);
     expect(outsideReferences('tests/unit/x.test.ts', `// (${'REFER' + 'ENCES'}, Costing)`)).toHaveLength(1);
     expect(outsideReferences('README.md', 'See SOURCES.md and `../../src/engine`.')).toEqual(['points outside the repository: ../../src']);
-    expect(outsideReferences('tests/unit/x.test.ts', "import { a } from '../../src/engine/sheets.ts'; // IEC 60038")).toEqual([]);
+    expect(outsideReferences('tests/unit/x.test.ts', "import { a } from '../../src/engine/check-sheets.ts'; // IEC 60038")).toEqual([]);
   });
 });
 

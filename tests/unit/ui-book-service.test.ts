@@ -6,7 +6,7 @@ import type { Part } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { BookService, isFirstStart } from '../../src/ui/book-service.ts';
 import { emptyBook } from '../../src/domain/book.ts';
-import { checkSheetTexts } from '../../src/ui/sheets.ts';
+import { checkSheetTexts } from '../../src/ui/check-sheets.ts';
 
 const opened: BookService[] = [];
 let dbCount = 0;

@@ -9,8 +9,8 @@ import { demoBook } from '../../src/domain/demo-book.ts';
 import { worstOf } from '../../src/domain/check-status.ts';
 import { CostingWorkbook, resolutionFromFamily } from '../../src/engine/costing.ts';
 import { evaluateChecks, resolveFamily } from '../../src/engine/family.ts';
-import { addBuiltInChecks } from '../../src/engine/sheets.ts';
-import { loadBuiltInChecks } from '../../src/cli/sheets-fs.ts';
+import { addBuiltInChecks } from '../../src/engine/check-sheets.ts';
+import { loadBuiltInChecks } from '../../src/cli/check-sheets-fs.ts';
 import { CostingService } from '../../src/ui/costing-service.ts';
 
 const CHECKS = loadBuiltInChecks();

@@ -6,11 +6,11 @@ import type { CheckValue } from '../../domain/check-status.ts';
 import { formatValue } from '../../domain/units.ts';
 import { FamilyWorkbook } from '../../engine/family.ts';
 import type { CheckResult } from '../../engine/family.ts';
-import { addBuiltInChecks, formatRule } from '../../engine/sheets.ts';
+import { addBuiltInChecks, formatRule } from '../../engine/check-sheets.ts';
 import { loadBook } from '../book-read.ts';
 import type { CliCommand, CliIo } from '../command.ts';
 import { parseArgs } from '../command.ts';
-import { loadBuiltInChecks } from '../sheets-fs.ts';
+import { loadBuiltInChecks } from '../check-sheets-fs.ts';
 import { jsonText, shown } from '../terminal.ts';
 
 export const MAINS_CAUTION =

@@ -3,12 +3,12 @@ import { access, rename, rm, writeFile } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
 import { demoBook } from '../../domain/demo-book.ts';
 import type { Book } from '../../domain/book.ts';
-import { addBuiltInChecks } from '../../engine/sheets.ts';
+import { addBuiltInChecks } from '../../engine/check-sheets.ts';
 import { parseBookFile, serializeBook } from '../../io/book-file.ts';
 import { parseArgs } from '../command.ts';
 import type { CliCommand, CliIo } from '../command.ts';
 import { formatProblems } from '../book-read.ts';
-import { loadBuiltInChecks } from '../sheets-fs.ts';
+import { loadBuiltInChecks } from '../check-sheets-fs.ts';
 import { MAINS_CAUTION } from './info.ts';
 
 const HELP = `usage: rungbook demo --out FILE [--force]

@@ -4,7 +4,7 @@ import { readdirSync, readFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Check } from '../domain/book.ts';
-import { builtInChecks } from '../engine/sheets.ts';
+import { builtInChecks } from '../engine/check-sheets.ts';
 
 /** The sheets/ folder of this checkout or install. */
 export const SHEETS_DIR = resolve(dirname(fileURLToPath(import.meta.url)), '../../sheets');

@@ -1,7 +1,7 @@
 // The built-in check sheets (the text files in sheets/), bundled into the app at build time and added to every
 // new Book.
 import type { Book } from '../domain/book.ts';
-import { addBuiltInChecks, builtInChecks } from '../engine/sheets.ts';
+import { addBuiltInChecks, builtInChecks } from '../engine/check-sheets.ts';
 
 /** File path from the project root (for example "/sheets/supply.checks") → file text. */
 export const SHEET_FILES: Record<string, string> = import.meta.glob<string>('/sheets/**/*', {
