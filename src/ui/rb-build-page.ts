@@ -16,7 +16,7 @@ import { buildLineDraft, lineOutcomes, moveLine, orderedLines, trialLine, valida
 import type { BuildLineDraft, LineOutcome } from './build-rules.ts';
 import type { NoticeDetail } from './rb-book-menu.ts';
 import type { NameHint } from './rb-formula-input.ts';
-import { pageStyles } from './styles.ts';
+import { pageStyles, previewStyles, toolbarSearchStyles } from './styles.ts';
 import './rb-formula-input.ts';
 
 type Editing = {
@@ -49,6 +49,8 @@ function qtyText(n: number): string {
 export class RbBuildPage extends LitElement {
   static override styles = [
     pageStyles,
+    previewStyles,
+    toolbarSearchStyles,
     css`
       td.nowrap {
         white-space: nowrap;
@@ -115,19 +117,6 @@ export class RbBuildPage extends LitElement {
       tr.problem td {
         background: var(--rb-fail-bg);
       }
-      .preview {
-        grid-column: 2 / -1;
-        display: flex;
-        flex-wrap: wrap;
-        gap: 0.3rem 0.5rem;
-        font-size: 0.8rem;
-      }
-      .preview span {
-        font-family: var(--rb-mono);
-        border: 1px solid var(--rb-rule);
-        padding: 0 0.35rem;
-        border-radius: 3px;
-      }
       .preview span.fail {
         color: var(--rb-fail);
         background: var(--rb-fail-bg);
@@ -138,18 +127,6 @@ export class RbBuildPage extends LitElement {
       }
       form.record rb-formula-input {
         min-width: 0;
-      }
-      .toolbar select,
-      .toolbar input[type='search'] {
-        font: inherit;
-        font-size: 0.88rem;
-        padding: 0.15rem 0.4rem;
-        border: 1px solid var(--rb-rule);
-        border-bottom: 2px solid var(--rb-ink);
-        background: var(--rb-paper);
-      }
-      .toolbar label {
-        font-size: 0.88rem;
       }
       button.move {
         padding: 0.05rem 0.4rem;

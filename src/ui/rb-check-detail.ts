@@ -15,7 +15,7 @@ import { shownValue, statusClass } from './checks-controller.ts';
 import type { ChecksController } from './checks-controller.ts';
 import { paramInfo, paramText, readNumber } from './record-forms.ts';
 import './rb-formula-input.ts';
-import { checkStatusStyles, pageStyles, problemStyles } from './styles.ts';
+import { checkStatusStyles, pageStyles, problemStyles, ruledControlStyles } from './styles.ts';
 
 export type CheckEditDetail = { check: Check };
 export type CheckDeletedDetail = { checkId: string };
@@ -26,6 +26,7 @@ export class RbCheckDetail extends LitElement {
     pageStyles,
     checkStatusStyles,
     problemStyles,
+    ruledControlStyles('.edit-grid input', { ink: false }),
     css`
       .panel {
         position: sticky;
@@ -75,14 +76,6 @@ export class RbCheckDetail extends LitElement {
         font-size: 0.78rem;
         color: var(--rb-accent-ink);
         text-align: right;
-      }
-      .edit-grid input {
-        font: inherit;
-        font-size: 0.88rem;
-        padding: 0.15rem 0.3rem;
-        border: 1px solid var(--rb-rule);
-        border-bottom: 2px solid var(--rb-ink);
-        background: var(--rb-paper);
       }
       .edit-grid input[aria-invalid='true'] {
         border-bottom-color: var(--rb-fail);

@@ -18,7 +18,7 @@ import type { FieldProblems } from './record-forms.ts';
 import { limitLength, schemaFormResult } from './record-forms.ts';
 import { checkFormulaNames } from './rb-formula-input.ts';
 import type { NameHint } from './rb-formula-input.ts';
-import { pageStyles } from './styles.ts';
+import { pageStyles, previewStyles } from './styles.ts';
 import './rb-formula-input.ts';
 
 export interface CheckDraft {
@@ -170,22 +170,10 @@ export type CheckSavedDetail = { checkId: string };
 export class RbCheckForm extends LitElement {
   static override styles = [
     pageStyles,
+    previewStyles,
     css`
       :host {
         display: block;
-      }
-      .preview {
-        grid-column: 2 / -1;
-        display: flex;
-        flex-wrap: wrap;
-        gap: 0.3rem 0.5rem;
-        font-size: 0.8rem;
-      }
-      .preview span {
-        font-family: var(--rb-mono);
-        border: 1px solid var(--rb-rule);
-        padding: 0 0.35rem;
-        border-radius: 3px;
       }
       .preview .fail,
       .preview .error {

@@ -13,7 +13,7 @@ import { ChecksController, shownValue, statusClass } from './checks-controller.t
 import './rb-check-detail.ts';
 import './rb-check-form.ts';
 import './rb-ladder-designer.ts';
-import { checkStatusStyles, pageStyles } from './styles.ts';
+import { checkStatusStyles, pageStyles, toolbarSearchStyles } from './styles.ts';
 
 /** Most variant columns drawn at once; a larger family is narrowed with the filter (the rest are counted). */
 const MAX_COLUMNS = 40;
@@ -26,6 +26,7 @@ export class RbChecksPage extends LitElement {
   static override styles = [
     pageStyles,
     checkStatusStyles,
+    toolbarSearchStyles,
     css`
       table.matrix {
         border-collapse: separate;
@@ -123,17 +124,6 @@ export class RbChecksPage extends LitElement {
         background: var(--rb-highlight);
         border-bottom: 2px solid var(--rb-accent);
         padding: 0;
-      }
-      .toolbar input[type='search'] {
-        font: inherit;
-        font-size: 0.88rem;
-        padding: 0.15rem 0.4rem;
-        border: 1px solid var(--rb-rule);
-        border-bottom: 2px solid var(--rb-ink);
-        background: var(--rb-paper);
-      }
-      .toolbar label {
-        font-size: 0.88rem;
       }
       .legend {
         font-size: 0.82rem;

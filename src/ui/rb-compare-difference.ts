@@ -8,14 +8,14 @@ import { grouped, money, signedMoney } from '../domain/format.ts';
 import { variantDifference } from './build-costing.ts';
 import type { CompareController } from './compare-controller.ts';
 import { runSelect } from './rb-compare-split.ts';
-import { pageStyles, problemStyles, roomyControlStyles } from './styles.ts';
+import { pageStyles, problemStyles, ruledControlStyles } from './styles.ts';
 
 @customElement('rb-compare-difference')
 export class RbCompareDifference extends LitElement {
   static override styles = [
     pageStyles,
     problemStyles,
-    roomyControlStyles('.toolbar select'),
+    ruledControlStyles('.toolbar select', { padX: '0.35rem', ink: false, shrink: true }),
     css`
       tr.sum td {
         border-top: 2px solid var(--rb-ink);

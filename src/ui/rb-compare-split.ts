@@ -9,7 +9,7 @@ import { SPLIT_KEYS, categorySplit } from './build-costing.ts';
 import type { CompareController } from './compare-controller.ts';
 import type { BarRow, BarSeries } from './rb-chart-bars.ts';
 import './rb-chart-bars.ts';
-import { pageStyles, problemStyles, roomyControlStyles } from './styles.ts';
+import { pageStyles, problemStyles, ruledControlStyles } from './styles.ts';
 
 const SPLIT_LABELS: Record<(typeof SPLIT_KEYS)[number], string> = {
   electronics: 'electronics',
@@ -42,7 +42,7 @@ export function runSelect(host: HTMLElement, runs: readonly number[], run: numbe
 
 @customElement('rb-compare-split')
 export class RbCompareSplit extends LitElement {
-  static override styles = [pageStyles, problemStyles, roomyControlStyles('.toolbar select')];
+  static override styles = [pageStyles, problemStyles, ruledControlStyles('.toolbar select', { padX: '0.35rem', ink: false, shrink: true })];
 
   @property({ attribute: false }) book: Book | undefined;
   @property({ attribute: false }) chosen: Variant[] = [];

@@ -9,14 +9,14 @@ import { grouped } from '../domain/format.ts';
 import { COST_SETTINGS } from './build-costing.ts';
 import type { CostSettingName } from './build-costing.ts';
 import type { CompareController } from './compare-controller.ts';
-import { pageStyles, problemStyles, roomyControlStyles } from './styles.ts';
+import { pageStyles, problemStyles, ruledControlStyles } from './styles.ts';
 
 @customElement('rb-compare-whatif')
 export class RbCompareWhatif extends LitElement {
   static override styles = [
     pageStyles,
     problemStyles,
-    roomyControlStyles('.wi-grid input, .wi-grid select'),
+    ruledControlStyles('.wi-grid input, .wi-grid select', { padX: '0.35rem', ink: false, shrink: true }),
     css`
       section.whatif {
         border-left-color: var(--rb-margin);

@@ -5,7 +5,7 @@ import { customElement, property } from 'lit/decorators.js';
 import { live } from 'lit/directives/live.js';
 import { PRICE_FIELDS } from '../io/price-map.ts';
 import type { PriceAnalysis } from '../io/price-validate.ts';
-import { pageStyles } from './styles.ts';
+import { pageStyles, ruledControlStyles } from './styles.ts';
 
 export type MappingChangeDetail = { key: string; header: string };
 
@@ -54,15 +54,9 @@ export function mappingKeys(analysis: PriceAnalysis): string[] {
 export class RbImportMapping extends LitElement {
   static override styles = [
     pageStyles,
+    ruledControlStyles('select'),
     css`
       select {
-        font: inherit;
-        font-size: 0.88rem;
-        padding: 0.15rem 0.3rem;
-        border: 1px solid var(--rb-rule);
-        border-bottom: 2px solid var(--rb-ink);
-        background: var(--rb-paper);
-        color: var(--rb-ink);
         max-width: 22rem;
       }
       .from {

@@ -211,22 +211,50 @@ export const disabledButtonStyles = css`
 `;
 
 /**
- * The small ruled input of toolbars and tables (outside record forms): a rule under it in ink, paper behind it.
- * The selector names which controls take it, since each element places them differently.
+ * The small ruled control used outside record forms: a rule under it in ink, paper behind it. The selector names which
+ * controls take it, since each element places them differently; the options keep each page's own look: its side
+ * padding, whether its text takes the ink colour, and whether it may shrink in a grid cell.
  */
-export function ruledControlStyles(selector: string): CSSResult {
+export function ruledControlStyles(selector: string, o: { padX?: string; ink?: boolean; shrink?: boolean } = {}): CSSResult {
+  const { padX = '0.3rem', ink = true, shrink = false } = o;
   return css`
     ${unsafeCSS(selector)} {
       font: inherit;
       font-size: 0.88rem;
-      padding: 0.15rem 0.3rem;
+      padding: 0.15rem ${unsafeCSS(padX)};
       border: 1px solid var(--rb-rule);
       border-bottom: 2px solid var(--rb-ink);
       background: var(--rb-paper);
-      color: var(--rb-ink);
+      ${unsafeCSS(ink ? 'color: var(--rb-ink);' : '')}
+      ${unsafeCSS(shrink ? 'min-width: 0;' : '')}
     }
   `;
 }
+
+/** A toolbar's search box (and choices beside it), with its labels in the toolbar's size. */
+export const toolbarSearchStyles = css`
+  ${ruledControlStyles(".toolbar select, .toolbar input[type='search']", { padX: '0.4rem', ink: false })}
+  .toolbar label {
+    font-size: 0.88rem;
+  }
+`;
+
+/** A row of small tags under a form field: what a draft gives on each variant, before it is saved. */
+export const previewStyles = css`
+  .preview {
+    grid-column: 2 / -1;
+    display: flex;
+    flex-wrap: wrap;
+    gap: 0.3rem 0.5rem;
+    font-size: 0.8rem;
+  }
+  .preview span {
+    font-family: var(--rb-mono);
+    border: 1px solid var(--rb-rule);
+    padding: 0 0.35rem;
+    border-radius: 3px;
+  }
+`;
 
 /** Words that pass or fail: a tick line in the pass colour, a cross line in the fail colour. */
 export const verdictStyles = css`
@@ -259,21 +287,6 @@ export const problemStyles = css`
     font-weight: 700;
   }
 `;
-
-/** The ruled controls of the Compare views: a little more room inside, and free to shrink in a grid cell. */
-export function roomyControlStyles(selector: string): CSSResult {
-  return css`
-    ${unsafeCSS(selector)} {
-      font: inherit;
-      font-size: 0.88rem;
-      padding: 0.15rem 0.35rem;
-      border: 1px solid var(--rb-rule);
-      border-bottom: 2px solid var(--rb-ink);
-      background: var(--rb-paper);
-      min-width: 0;
-    }
-  `;
-}
 
 /** A check's status in its colours, as the Checks matrix and a check's detail draw it. */
 export const checkStatusStyles = css`
