@@ -1,0 +1,441 @@
+// The family as one open engine table: writes the layout plan (family-layout.ts) into an engine from create.ts,
+// applies parameter and check edits to the rows they touch, and reads cells back for line resolution and check judging.
+//
+// Speed comes from doing less per cell: a missing name is the error value #N/A, not a formula; the first row's
+// formulas are copied down instead of parsed again per row; results are kept per row and an edit recomputes its row
+// only. A name a variant lacks reads as #N/A; when a result is an error and its formula used such a name, the result
+// says "unknown name x" instead of the engine's error.
+import type { CellValue, HyperFormula, RawCellContent } from 'hyperformula';
+import type { Book, Check, ParamValue, Variant } from '../domain/book.ts';
+import { createEngine } from './create.ts';
+import { judgeCheck } from './family-checks.ts';
+import type { CheckResult } from './family-checks.ts';
+import { atRow, planFamily, valueCell, valueContent } from './family-layout.ts';
+import type { CellRead, FamilyLayout, FormulaCell, FormulaColumn, Memo, ReadCell } from './family-layout.ts';
+import { indexParts, resolveVariant } from './family-lines.ts';
+import type { FamilyResolution, PartIndex, VariantResolution } from './family-lines.ts';
+import { guardFormula } from './formula-guard.ts';
+import { formulaNames, nameKey, tokenizeFormula, formulaBody } from './formula-names.ts';
+
+export type EditResult = { ok: true } | { ok: false; error: string };
+
+/** A name this variant lacks: the error value itself, so the engine parses no formula for it. */
+const MISSING = '#N/A';
+const SHEET = 'family';
+const MEMO_SHEET = 'rules';
+
+type Row = RawCellContent[];
+
+interface EngineError {
+  value: string;
+  message: string;
+  type: string;
+}
+
+function isEngineError(v: unknown): v is EngineError {
+  return typeof v === 'object' && v !== null && 'type' in v && 'value' in v;
+}
+
+function engineErrorText(e: EngineError): string {
+  if (e.type === 'CYCLE') return 'circular reference: the formula depends on its own result';
+  return e.message ? `${e.value} ${e.message}` : e.value;
+}
+
+function paramCell(v: ParamValue): number | string {
+  // A leading apostrophe keeps text as text, whatever it looks like ("=x", "12", "TRUE").
+  return typeof v === 'number' ? v : `'${v}`;
+}
+
+/** A variant's parameters by name key. */
+function ownParams(v: Variant): Map<string, ParamValue> {
+  return new Map(Object.entries(v.params).map(([k, val]) => [nameKey(k), val] as const));
+}
+
+/**
+ * One string for a memo's input values: kind-tagged so the number 12 and the text "12" differ, texts with their
+ * length so no text can run into the next value.
+ */
+function inputKey(inputs: readonly string[], params: ReadonlyMap<string, ParamValue>): string {
+  let key = '';
+  for (const k of inputs) {
+    const v = params.get(k);
+    key += v === undefined ? '-;' : typeof v === 'number' ? `n${v};` : `s${v.length}:${v}`;
+  }
+  return key;
+}
+
+/**
+ * The family as one engine table. Holds the engine open so edits re-evaluate at once; `close()` frees it.
+ * Build with `FamilyWorkbook.open(book, checks)`.
+ */
+export class FamilyWorkbook {
+  private book: Book;
+  private checks: Check[];
+  private hf: HyperFormula | null = null;
+  private sheet = 0;
+  /** Set by build(), which every way of making a workbook runs first. */
+  private layout!: FamilyLayout;
+  private parts: PartIndex = { byId: new Map(), byKey: new Map() };
+  private resolution: VariantResolution[] = [];
+  private memoSheet = 0;
+  private memoRows = 0;
+  /** Each row's check results as last read; undefined where an edit may have changed them. */
+  private rowResults: (CheckResult[] | undefined)[] = [];
+  private readonly readCell: ReadCell = (row, fc) => this.read(row, fc);
+
+  private constructor(book: Book, checks: Check[]) {
+    this.book = book;
+    this.checks = checks;
+  }
+
+  /** Compiles the Book's family with the given checks (by default the Book's own). */
+  static open(book: Book, checks: readonly Check[] = book.checks): FamilyWorkbook {
+    const wb = new FamilyWorkbook(book, [...checks]);
+    wb.build();
+    return wb;
+  }
+
+  close(): void {
+    this.hf?.destroy();
+    this.hf = null;
+  }
+
+  /** The Book with the edits made through this workbook (parameters and check formulas). */
+  currentBook(): Book {
+    return { ...this.book, checks: this.checks };
+  }
+
+  private engine(): HyperFormula {
+    if (!this.hf) throw new Error('the family workbook is closed');
+    return this.hf;
+  }
+
+  private build(): void {
+    this.hf?.destroy();
+    this.hf = null;
+    this.rowResults = [];
+    this.memoRows = 0;
+    this.parts = indexParts(this.book.parts);
+    const layout = planFamily(this.book, this.checks);
+    this.layout = layout;
+    const { roleStart, checkStart, width } = layout;
+
+    // First pass, in one call: the parameters, and the memos of the build rules and of the check parts that read
+    // parameters only, so each variant's parts are known before the checks read them.
+    const paramEnd = layout.paramKeys.size;
+    const rows: Row[] = this.book.variants.map((v, r) => {
+      const row: Row = new Array<RawCellContent>(roleStart).fill(null);
+      this.writeParams(row, v);
+      if (r === 0) for (const fc of layout.ruleColumns) row[fc.col] = atRow(fc.pieces, 0);
+      return row;
+    });
+    const memoRows: Row[] = [];
+    const own = this.book.variants.map(ownParams);
+    for (const m of layout.memos) {
+      m.rowEntry = new Int32Array(this.book.variants.length);
+      if (!m.roles) own.forEach((params, r) => (m.rowEntry[r] = this.memoEntry(m, params, memoRows)));
+    }
+    // Checks read each other by name, so "&" could double text from check to check: the engine comes with it bounded.
+    const hf = createEngine({}, { [SHEET]: rows, [MEMO_SHEET]: memoRows });
+    this.hf = hf;
+    this.sheet = hf.getSheetId(SHEET)!;
+    this.memoSheet = hf.getSheetId(MEMO_SHEET)!;
+    // Build rules read parameters only, so they all went to memos and this is for completeness.
+    this.fillDown(layout.ruleColumns, paramEnd, roleStart);
+    this.resolution = this.book.variants.map((v, r) => this.resolveRow(v, r));
+
+    // Second pass, in one recalculation: the memos that read role names, role values from the resolved parts,
+    // and the first row's checks; then the checks are copied down.
+    const roleMemoStart = this.memoRows;
+    const roleMemoRows: Row[] = [];
+    const roleMemos = layout.memos.filter((m) => m.roles);
+    if (roleMemos.length > 0) {
+      own.forEach((params, r) => {
+        const inputs = this.withRoles(params, r);
+        for (const m of roleMemos) m.rowEntry[r] = this.memoEntry(m, inputs, roleMemoRows);
+      });
+    }
+    if (roleMemoRows.length > 0) hf.setCellContents({ sheet: this.memoSheet, row: roleMemoStart, col: 0 }, roleMemoRows);
+    if (rows.length === 0 || width === roleStart) return;
+    const block: Row[] = this.book.variants.map((_, r) => {
+      const row: Row = new Array<RawCellContent>((r === 0 ? width : checkStart) - roleStart).fill(null);
+      const roleNames = this.resolution[r]!.roleNames;
+      layout.roleKeys.forEach((key, i) => {
+        const val = roleNames[key];
+        row[i] = val === undefined ? MISSING : val;
+      });
+      if (r > 0) return row;
+      for (const cc of layout.checkCells) {
+        const fc = cc.cells.value;
+        if (fc) row[fc.col - roleStart] = valueContent(fc, 0);
+      }
+      for (const fc of layout.checkColumns) row[fc.col - roleStart] = atRow(fc.pieces, 0);
+      return row;
+    });
+    hf.setCellContents({ sheet: this.sheet, row: 0, col: roleStart }, block);
+    const valueColumns = layout.checkCells.flatMap((cc) => (cc.cells.value?.pieces ? [{ col: cc.cells.value.col, pieces: cc.cells.value.pieces }] : []));
+    this.fillDown([...valueColumns, ...layout.checkColumns], checkStart, width);
+  }
+
+  /**
+   * Gives every other row the first row's cells in columns [from, to); `formulas` are the formula columns among
+   * them. Every formula reads its own row only, so a copy one row down is that row's formula: copying lets the
+   * engine reuse the first row's parsed form instead of reading 200 or 2,000 copies of the same text. The engine
+   * finds a copied formula again by its printed form, so a column whose formula prints differently from the text
+   * written (spacing it drops) is written as text on every row instead.
+   */
+  private fillDown(formulas: readonly FormulaColumn[], from: number, to: number): void {
+    const rows = this.book.variants.length;
+    if (to <= from || rows < 2) return;
+    const hf = this.engine();
+    const byText: FormulaColumn[] = formulas.filter(
+      (fc) => fc.col >= from && fc.col < to && hf.getCellFormula({ sheet: this.sheet, row: 0, col: fc.col }) !== atRow(fc.pieces, 0),
+    );
+    const skip = new Set(byText.map((fc) => fc.col));
+    try {
+      for (let start = from; start < to; ) {
+        if (skip.has(start)) {
+          start++;
+          continue;
+        }
+        let end = start;
+        while (end < to && !skip.has(end)) end++;
+        for (let filled = 1; filled < rows; ) {
+          const n = Math.min(filled, rows - filled);
+          hf.copy({ start: { sheet: this.sheet, row: 0, col: start }, end: { sheet: this.sheet, row: n - 1, col: end - 1 } });
+          hf.paste({ sheet: this.sheet, row: filled, col: start });
+          filled += n;
+        }
+        start = end;
+      }
+    } catch {
+      // The engine could not reuse a parsed formula after all: write every row's text.
+      byText.splice(0, byText.length, ...formulas.filter((fc) => fc.col >= from && fc.col < to));
+    }
+    hf.clearClipboard();
+    // Nothing here is undone through the engine; its undo stack would only hold the pasted blocks.
+    hf.clearUndoStack();
+    if (byText.length === 0) return;
+    hf.batch(() => {
+      for (const fc of byText) {
+        const column: Row[] = [];
+        for (let r = 1; r < rows; r++) column.push([atRow(fc.pieces, r)]);
+        hf.setCellContents({ sheet: this.sheet, row: 1, col: fc.col }, column);
+      }
+    });
+  }
+
+  /** A variant's parameters with its role values, the inputs a memo may read. */
+  private withRoles(params: ReadonlyMap<string, ParamValue>, row: number): Map<string, ParamValue> {
+    const inputs = new Map(params);
+    for (const [k, v] of Object.entries(this.resolution[row]!.roleNames)) inputs.set(k, v);
+    return inputs;
+  }
+
+  /**
+   * The memo sheet row for these parameters: an existing entry with the same inputs, or a new one — appended to
+   * `pending` while the table is being built, written to the engine at once after that.
+   */
+  private memoEntry(m: Memo, params: ReadonlyMap<string, ParamValue>, pending?: Row[]): number {
+    const key = inputKey(m.inputs, params);
+    const found = m.entries.get(key);
+    if (found !== undefined) return found;
+    const row = this.memoRows++;
+    m.entries.set(key, row);
+    const content: Row = [atRow(m.pieces, row)];
+    for (const k of m.inputs) {
+      const val = params.get(k);
+      content.push(val === undefined ? MISSING : paramCell(val));
+    }
+    if (pending) pending.push(content);
+    else this.engine().setCellContents({ sheet: this.memoSheet, row, col: 0 }, [content]);
+    return row;
+  }
+
+  private writeParams(row: Row, v: Variant): void {
+    const own = ownParams(v);
+    for (const key of this.layout.paramKeys) {
+      const val = own.get(key);
+      row[this.layout.cols.get(key)!] = val === undefined ? MISSING : paramCell(val);
+    }
+  }
+
+  private value(row: number, col: number): CellValue {
+    return this.engine().getCellValue({ sheet: this.sheet, row, col });
+  }
+
+  /** Names (transitively through check names) a formula reads that this variant lacks. */
+  private missingNames(row: number, names: readonly string[], seen = new Set<string>()): string[] {
+    const out: string[] = [];
+    for (const key of names) {
+      if (seen.has(key)) continue;
+      seen.add(key);
+      const cc = this.layout.checkByName.get(key);
+      if (cc) {
+        const inner = cc.cells.value;
+        if (inner) out.push(...this.missingNames(row, inner.names, seen));
+        continue;
+      }
+      const col = this.layout.cols.get(key);
+      if (col === undefined) {
+        out.push(key);
+        continue;
+      }
+      const v = this.value(row, col);
+      if (isEngineError(v) && v.type === 'NA' && (this.layout.paramKeys.has(key) || this.layout.roleKeySet.has(key))) out.push(key);
+    }
+    return out;
+  }
+
+  private unknownMessage(key: string, row: number): string {
+    const code = this.book.variants[row]?.code ?? '';
+    if (!this.layout.cols.has(key)) return `unknown name ${key}: no variant parameter, part rating or check has that name`;
+    if (this.layout.roleKeySet.has(key)) {
+      return `unknown name ${key}: no build line that applies to ${code} gives a part with that role and rating`;
+    }
+    return `unknown name ${key}: variant ${code} has no parameter of that name`;
+  }
+
+  /** Reads a formula cell as a check value, or the error explaining why there is none. */
+  private read(row: number, fc: FormulaCell): CellRead {
+    if (fc.constant !== undefined) return { ok: true, value: fc.constant };
+    const v =
+      fc.memo === undefined
+        ? this.value(row, fc.col)
+        : this.engine().getCellValue({ sheet: this.memoSheet, row: this.layout.memos[fc.memo]!.rowEntry[row]!, col: 0 });
+    if (isEngineError(v)) {
+      const missing = this.missingNames(row, fc.names);
+      if (missing.length > 0) return { ok: false, error: this.unknownMessage(missing[0]!, row) };
+      return { ok: false, error: engineErrorText(v) };
+    }
+    if (typeof v === 'number' && !Number.isFinite(v)) return { ok: false, error: 'the result is not a finite number' };
+    if (typeof v === 'number' || typeof v === 'string' || typeof v === 'boolean' || v === null) return { ok: true, value: v };
+    return { ok: false, error: 'the result is a range, not one value' };
+  }
+
+  private resolveRow(v: Variant, r: number): VariantResolution {
+    return resolveVariant(v, r, this.layout.lineCells, this.parts, this.readCell);
+  }
+
+  /** Build lines resolved for every variant, as they stand now. */
+  resolve(): FamilyResolution {
+    const variants = this.resolution;
+    return { variants, problems: variants.flatMap((v) => v.problems) };
+  }
+
+  /** Every check on every variant, variant-major, in the order of the checks. */
+  results(): CheckResult[] {
+    const out: CheckResult[] = [];
+    const checkCells = this.layout.checkCells;
+    this.book.variants.forEach((v, r) => {
+      let row = this.rowResults[r];
+      if (!row) {
+        row = checkCells.map((cc) => judgeCheck(v, r, cc, this.readCell));
+        this.rowResults[r] = row;
+      }
+      for (const result of row) out.push(result);
+    });
+    return out;
+  }
+
+  /**
+   * Sets one parameter of one variant and re-evaluates. A number must be finite; text is kept as text. A name no
+   * variant had before recompiles the table. Bad input changes nothing.
+   */
+  setParam(variantId: string, name: string, value: ParamValue): EditResult {
+    const row = this.book.variants.findIndex((v) => v.id === variantId);
+    if (row < 0) return { ok: false, error: `no variant with id ${variantId}` };
+    const key = nameKey(name.trim());
+    if (!/^[a-z_][a-z0-9_]*$/.test(key)) return { ok: false, error: `parameter name "${name}" must be letters, digits and _, starting with a letter` };
+    if (typeof value === 'number' && !Number.isFinite(value)) return { ok: false, error: `value of ${name} must be a finite number` };
+    if (typeof value !== 'number' && typeof value !== 'string') return { ok: false, error: `value of ${name} must be a number or text` };
+    const layout = this.layout;
+    if (!layout.paramKeys.has(key) && (layout.cols.has(key) || layout.possibleRoleKeys.has(key))) {
+      return { ok: false, error: `${name} is already the name of a check or a part rating; choose another parameter name` };
+    }
+    const old = this.book.variants[row]!;
+    const params: Record<string, ParamValue> = {};
+    let replaced = false;
+    for (const [k, v] of Object.entries(old.params)) {
+      if (nameKey(k) === key) {
+        params[k] = value;
+        replaced = true;
+      } else params[k] = v;
+    }
+    if (!replaced) params[name.trim()] = value;
+    const variants = [...this.book.variants];
+    variants[row] = { ...old, params };
+    this.book = { ...this.book, variants };
+    if (!layout.paramKeys.has(key)) {
+      this.build();
+      return { ok: true };
+    }
+    const hf = this.engine();
+    hf.setCellContents({ sheet: this.sheet, row, col: layout.cols.get(key)! }, [[paramCell(value)]]);
+    const own = ownParams(this.book.variants[row]!);
+    for (const m of layout.memos) if (!m.roles && m.inputs.includes(key)) m.rowEntry[row] = this.memoEntry(m, own);
+    this.refreshRoles(row, own);
+    const inputs = this.withRoles(own, row);
+    for (const m of layout.memos) if (m.roles && m.inputs.includes(key)) m.rowEntry[row] = this.memoEntry(m, inputs);
+    // Every formula reads its own row only, so no other variant's results can have changed.
+    this.rowResults[row] = undefined;
+    return { ok: true };
+  }
+
+  /** Re-resolves one variant's lines after an edit and rewrites its role cells and memos where they changed. */
+  private refreshRoles(row: number, own: ReadonlyMap<string, ParamValue>): void {
+    const v = this.book.variants[row]!;
+    const before = this.resolution[row]!.roleNames;
+    const after = this.resolveRow(v, row);
+    this.resolution[row] = after;
+    const changed = this.layout.roleKeys.filter((k) => before[k] !== after.roleNames[k]);
+    if (changed.length === 0) return;
+    const inputs = this.withRoles(own, row);
+    for (const m of this.layout.memos) if (m.roles && changed.some((k) => m.inputs.includes(k))) m.rowEntry[row] = this.memoEntry(m, inputs);
+    const hf = this.engine();
+    hf.batch(() => {
+      for (const key of changed) {
+        const val = after.roleNames[key];
+        hf.setCellContents({ sheet: this.sheet, row, col: this.layout.cols.get(key)! }, [[val === undefined ? MISSING : val]]);
+      }
+    });
+  }
+
+  /**
+   * Replaces a check's formula and re-evaluates it for every variant. A formula that cannot be read (an open
+   * quote) is refused and changes nothing; one naming something unknown is kept and shows "unknown name x".
+   */
+  setCheckFormula(checkId: string, formula: string): EditResult {
+    const i = this.checks.findIndex((c) => c.id === checkId);
+    if (i < 0) return { ok: false, error: `no check with id ${checkId}` };
+    const body = formulaBody(formula);
+    if (body === '') return { ok: false, error: 'the formula is empty' };
+    const t = tokenizeFormula(body);
+    if (!t.ok) return { ok: false, error: t.error };
+    const guard = guardFormula(body);
+    if (!guard.ok) return { ok: false, error: guard.refusal.message };
+    const updated: Check = { ...this.checks[i]!, formula: body };
+    this.checks = this.checks.map((c, j) => (j === i ? updated : c));
+    const layout = this.layout;
+    const cc = layout.checkCells[i]!;
+    const c = cc.col === undefined ? undefined : valueCell(layout, body, cc.col);
+    const names = formulaNames(body);
+    // A role name no check read before has no column yet.
+    const newRole = names.ok && names.names.some((k) => layout.possibleRoleKeys.has(k) && !layout.roleKeySet.has(k));
+    if (cc.problem !== undefined || !c?.ok || newRole) {
+      // The check could not be evaluated before, or cannot now: compile the table afresh so every part of the
+      // check (applies, limits) is laid out again and the result shows the reason.
+      this.build();
+      return { ok: true };
+    }
+    cc.check = updated;
+    const fc = c.cell;
+    cc.cells.value = fc;
+    if (this.book.variants.length > 0) {
+      this.engine().setCellContents({ sheet: this.sheet, row: 0, col: fc.col }, [[valueContent(fc, 0)]]);
+      this.fillDown(fc.pieces ? [{ col: fc.col, pieces: fc.pieces }] : [], fc.col, fc.col + 1);
+    }
+    this.rowResults = [];
+    return { ok: true };
+  }
+}
