@@ -1,24 +1,17 @@
 // Compare view: each chosen variant's unit cost against run size as a curve on a logarithmic axis, with guides at
 // the run sizes compared.
-import { LitElement, html } from 'lit';
-import { customElement, property } from 'lit/decorators.js';
-import type { Book, Variant } from '../domain/book.ts';
+import { html } from 'lit';
+import { customElement } from 'lit/decorators.js';
 import { grouped } from '../domain/format.ts';
 import { curveRunSizes } from './build-costing.ts';
-import type { CompareController } from './compare-controller.ts';
+import { CompareView } from './compare-view.ts';
 import type { CurveSeries } from './rb-chart-curves.ts';
 import './rb-chart-curves.ts';
 import { pageStyles } from './styles.ts';
 
 @customElement('rb-compare-curves')
-export class RbCompareCurves extends LitElement {
+export class RbCompareCurves extends CompareView {
   static override styles = [pageStyles];
-
-  @property({ attribute: false }) book: Book | undefined;
-  @property({ attribute: false }) chosen: Variant[] = [];
-  @property({ attribute: false }) costs: CompareController | undefined;
-  /** The costs' revision: a new one draws the figures again. */
-  @property({ attribute: false }) revision = 0;
 
   override render() {
     const book = this.book;

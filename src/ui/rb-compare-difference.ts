@@ -1,17 +1,16 @@
 // Compare view: what makes two variants differ — the build lines fitted in one and not the other, or with another part
 // or quantity, with their cost per unit, and the rows that account for the rest of the difference in unit cost.
-import { LitElement, css, html } from 'lit';
+import { css, html } from 'lit';
 import type { TemplateResult } from 'lit';
 import { customElement, property, state } from 'lit/decorators.js';
-import type { Book, Variant } from '../domain/book.ts';
 import { grouped, money, signedMoney } from '../domain/format.ts';
 import { variantDifference } from './build-costing.ts';
-import type { CompareController } from './compare-controller.ts';
+import { CompareView } from './compare-view.ts';
 import { runSelect } from './rb-compare-split.ts';
 import { pageStyles, problemStyles, ruledControlStyles } from './styles.ts';
 
 @customElement('rb-compare-difference')
-export class RbCompareDifference extends LitElement {
+export class RbCompareDifference extends CompareView {
   static override styles = [
     pageStyles,
     problemStyles,
@@ -27,12 +26,6 @@ export class RbCompareDifference extends LitElement {
     `,
   ];
 
-  @property({ attribute: false }) book: Book | undefined;
-  /** The variants compared: the first two are the pair shown until the person picks another. */
-  @property({ attribute: false }) chosen: Variant[] = [];
-  @property({ attribute: false }) costs: CompareController | undefined;
-  /** The costs' revision: a new one draws the figures again. */
-  @property({ attribute: false }) revision = 0;
   @property({ attribute: false }) run = 0;
   @state() private diffA = '';
   @state() private diffB = '';

@@ -1,12 +1,11 @@
 // Compare view: the chosen variants side by side — key parameters, the worst of each one's checks, and the unit cost
 // and price at each run size, with the lowest cost of a row marked.
-import { LitElement, css, html } from 'lit';
-import { customElement, property } from 'lit/decorators.js';
-import type { Book, Variant } from '../domain/book.ts';
+import { css, html } from 'lit';
+import { customElement } from 'lit/decorators.js';
 import { STATUS_SYMBOL } from '../domain/check-status.ts';
 import { grouped, money } from '../domain/format.ts';
 import { whatIfCount } from './build-costing.ts';
-import type { CompareController } from './compare-controller.ts';
+import { CompareView } from './compare-view.ts';
 import { paramText } from './record-forms.ts';
 import { pageStyles } from './styles.ts';
 
@@ -14,7 +13,7 @@ import { pageStyles } from './styles.ts';
 const KEY_PARAMS = ['steps', 'load_w', 'mains_v', 'mains_hz', 'selector', 'stage', 'supply', 'vcc'];
 
 @customElement('rb-compare-side')
-export class RbCompareSide extends LitElement {
+export class RbCompareSide extends CompareView {
   static override styles = [
     pageStyles,
     css`
@@ -86,12 +85,6 @@ export class RbCompareSide extends LitElement {
       }
     `,
   ];
-
-  @property({ attribute: false }) book: Book | undefined;
-  @property({ attribute: false }) chosen: Variant[] = [];
-  @property({ attribute: false }) costs: CompareController | undefined;
-  /** The costs' revision: a new one draws the figures again. */
-  @property({ attribute: false }) revision = 0;
 
   override render() {
     const book = this.book;

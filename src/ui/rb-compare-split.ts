@@ -1,12 +1,11 @@
 // Compare view: each chosen variant's unit cost at one run size as a stacked bar, split into purchased material by
 // build-line category, then labour, test and overhead.
-import { LitElement, html } from 'lit';
+import { html } from 'lit';
 import type { TemplateResult } from 'lit';
 import { customElement, property } from 'lit/decorators.js';
-import type { Book, Variant } from '../domain/book.ts';
 import { grouped } from '../domain/format.ts';
 import { SPLIT_KEYS, categorySplit } from './build-costing.ts';
-import type { CompareController } from './compare-controller.ts';
+import { CompareView } from './compare-view.ts';
 import type { BarRow, BarSeries } from './rb-chart-bars.ts';
 import './rb-chart-bars.ts';
 import { pageStyles, problemStyles, ruledControlStyles } from './styles.ts';
@@ -41,14 +40,9 @@ export function runSelect(host: HTMLElement, runs: readonly number[], run: numbe
 }
 
 @customElement('rb-compare-split')
-export class RbCompareSplit extends LitElement {
+export class RbCompareSplit extends CompareView {
   static override styles = [pageStyles, problemStyles, ruledControlStyles('.toolbar select', { padX: '0.35rem', ink: false, shrink: true })];
 
-  @property({ attribute: false }) book: Book | undefined;
-  @property({ attribute: false }) chosen: Variant[] = [];
-  @property({ attribute: false }) costs: CompareController | undefined;
-  /** The costs' revision: a new one draws the figures again. */
-  @property({ attribute: false }) revision = 0;
   @property({ attribute: false }) run = 0;
 
   override render() {

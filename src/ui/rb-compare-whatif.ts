@@ -1,18 +1,19 @@
 // Compare view: what-if edits — an exchange rate, a cost setting, other run sizes or a quote price — tried on the
 // Compare page's scratch workbook, each field showing the Book's own figure while it differs, or why it was refused.
-import { LitElement, css, html } from 'lit';
+import { css, html } from 'lit';
 import type { TemplateResult } from 'lit';
 import { customElement, property, state } from 'lit/decorators.js';
 import { live } from 'lit/directives/live.js';
-import type { Book, Variant } from '../domain/book.ts';
+import type { Book } from '../domain/book.ts';
 import { grouped } from '../domain/format.ts';
 import { COST_SETTINGS } from './build-costing.ts';
 import type { CostSettingName } from './build-costing.ts';
 import type { CompareController } from './compare-controller.ts';
+import { CompareView } from './compare-view.ts';
 import { pageStyles, problemStyles, ruledControlStyles } from './styles.ts';
 
 @customElement('rb-compare-whatif')
-export class RbCompareWhatif extends LitElement {
+export class RbCompareWhatif extends CompareView {
   static override styles = [
     pageStyles,
     problemStyles,
@@ -68,11 +69,6 @@ export class RbCompareWhatif extends LitElement {
     `,
   ];
 
-  @property({ attribute: false }) book: Book | undefined;
-  @property({ attribute: false }) chosen: Variant[] = [];
-  @property({ attribute: false }) costs: CompareController | undefined;
-  /** The costs' revision: a new one draws the figures again. */
-  @property({ attribute: false }) revision = 0;
   /** The run size whose bought parts offer their quotes for a price edit. */
   @property({ attribute: false }) run = 0;
   @state() private wiQuote = '';
