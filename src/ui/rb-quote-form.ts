@@ -26,34 +26,10 @@ export class RbQuoteForm extends LitElement {
         gap: 0.3rem 0.5rem;
         align-items: baseline;
       }
+      /* Inside form.record, whose shared rules already give the inputs, labels and problems their look. */
       .breaks input {
-        font: inherit;
-        font-size: 0.9rem;
-        padding: 0.2rem 0.35rem;
-        border: 1px solid var(--rb-rule);
-        border-bottom: 2px solid var(--rb-ink);
-        background: var(--rb-paper);
-        color: var(--rb-ink);
-        min-width: 0;
         text-align: right;
         font-variant-numeric: tabular-nums;
-      }
-      .breaks input[aria-invalid='true'] {
-        border-bottom-color: var(--rb-fail);
-        background: var(--rb-fail-bg);
-      }
-      .breaks label {
-        font-family: var(--rb-mono);
-        font-size: 0.78rem;
-        color: var(--rb-accent-ink);
-      }
-      .breaks .problem {
-        font-size: 0.84rem;
-        color: var(--rb-fail);
-      }
-      .breaks .problem::before {
-        content: '✗ ';
-        font-weight: 700;
       }
       .breaks-head {
         text-align: right;
