@@ -21,8 +21,9 @@ export const LIMITS = {
   formula: 4_000,
   pageText: 100_000,
   cell: 4_000,
-  gridRows: 500,
-  gridColumns: 50,
+  /** A notebook grid: side calculations, not tables of data. */
+  gridRows: 100,
+  gridColumns: 26,
   sections: 200,
   keys: 500,
   parts: 100_000,

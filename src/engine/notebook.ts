@@ -13,7 +13,6 @@ import { createEngine } from './create.ts';
 import { evaluateChecks } from './family.ts';
 import type { CheckResult } from './family.ts';
 import { engineFailure, formulaRangeCells, guardFormula, limitEvaluationTime } from './formula-guard.ts';
-import { MAX_TEXT_LENGTH } from './functions/text.ts';
 import { nameKey } from './formula-names.ts';
 import { normalizeFormula } from './formula-syntax.ts';
 import type { BookFunctionContext, CheckLookup, Missing, PriceLookup } from './functions/book.ts';
@@ -23,17 +22,17 @@ import type { BookFunctionContext, CheckLookup, Missing, PriceLookup } from './f
  * or read from a file) can freeze the app: a page of 1,200 formulas each reading 1,200 cells once took 10 s.
  */
 export const NOTEBOOK_LIMITS = {
-  /** Largest grid a section may hold; the grids are for small side calculations, not tables of data. */
-  rows: 100,
-  cols: 26,
+  /** Largest grid a section may hold (the Book's own limit); the grids are for side calculations, not tables of data. */
+  rows: LIMITS.gridRows,
+  cols: LIMITS.gridColumns,
   /** Sections with a grid on one page. */
   gridSections: 50,
   /** Cells that hold something, over every grid of the page. */
   pageCells: 5_000,
   /** Cells read by the ranges of every formula on the page together (one formula alone may read 100,000). */
   pageRangeCells: 100_000,
-  /** Characters in one cell's text, typed or computed (the engine's text limit). */
-  cellText: MAX_TEXT_LENGTH,
+  /** Characters typed in one cell (the Book's own limit; computed text stops at MAX_TEXT_LENGTH in functions/text.ts). */
+  cellText: LIMITS.cell,
   /** Milliseconds one calculation of the page may run before the formulas not yet done stop with an error. */
   calculationMs: 3_000,
 } as const;
@@ -205,7 +204,7 @@ function planPage(page: NotebookPage, kept: readonly boolean[]): (CellRefusal | 
  */
 export function notebookCellProblem(page: NotebookPage, section: number, row: number, col: number, value: string): string | undefined {
   // What is typed is stored in the Book, so it is bounded by the Book's limit too (below the engine's text limit).
-  const max = Math.min(NOTEBOOK_LIMITS.cellText, LIMITS.cell);
+  const max = NOTEBOOK_LIMITS.cellText;
   if (value.length > max) {
     return `A cell holds at most ${grouped(max)} characters; this text has ${grouped(value.length)}. Nothing was saved.`;
   }

@@ -188,7 +188,7 @@ describe('a notebook page cannot blank itself or freeze the app', () => {
     const grids = Array.from({ length: NOTEBOOK_LIMITS.gridSections + 1 }, () => grid([['2']]));
     const result = evaluateNotebookPage(book, page(grid([[long]]), grid(full), grid(full), ...grids));
     expect(result.sections[0]!.grid[0]![0]).toMatchObject({ error: '#LIMIT', value: null });
-    expect(result.sections[0]!.grid[0]![0]!.message).toContain('at most 32,767 characters');
+    expect(result.sections[0]!.grid[0]![0]!.message).toContain(`at most ${NOTEBOOK_LIMITS.cellText.toLocaleString('en-GB')} characters`);
     // 1 + 2,600 + 2,399 cells fill the page; the 5,001st is refused.
     expect(result.sections[2]!.grid[92]![6]!.value).toBe(1);
     expect(result.sections[2]!.grid[92]![7]).toMatchObject({ error: '#LIMIT' });
@@ -196,7 +196,7 @@ describe('a notebook page cannot blank itself or freeze the app', () => {
     expect(result.sections.at(-1)!.grid[0]![0]!.message).toContain(`at most ${NOTEBOOK_LIMITS.gridSections} grids`);
 
     const small = page(grid([['1', '']]));
-    expect(notebookCellProblem(small, 0, 0, 1, long)).toMatch(/at most 32,767 characters.*Nothing was saved/);
+    expect(notebookCellProblem(small, 0, 0, 1, long)).toMatch(new RegExp(`at most ${NOTEBOOK_LIMITS.cellText.toLocaleString('en-GB')} characters.*Nothing was saved`));
     expect(notebookCellProblem(small, 0, 0, 1, '=A1*2')).toBeUndefined();
     const crowded = page(grid(full), grid(full), { heading: 'g', text: '', grid: [Array.from({ length: 26 }, () => '1').concat('')] });
     const filled = 2 * 2_600 + 26;
