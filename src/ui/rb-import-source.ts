@@ -62,11 +62,9 @@ export class RbImportSource extends LitElement {
         height: 0.9rem;
         accent-color: var(--rb-accent);
       }
+      /* The new-supplier form's actions: laid out by the shared form.record rules, and free to wrap. */
       .actions {
-        display: flex;
         flex-wrap: wrap;
-        gap: 0.8rem;
-        align-items: baseline;
       }
     `,
   ];
