@@ -5,6 +5,7 @@ import { COLLECTIONS, defaultSettings, emptyBook } from '../domain/book.ts';
 import { applyChange, revisionMatches } from '../domain/book-ops.ts';
 import { demoBook } from '../domain/demo-book.ts';
 import { mergeRecord } from '../domain/merge.ts';
+import { inVariantOrder } from '../domain/variant-order.ts';
 import type { FieldConflict, FieldPath } from '../domain/merge.ts';
 import { columnLetters } from '../engine/cells.ts';
 import { parseBookFile } from '../io/book-file.ts';
@@ -73,8 +74,17 @@ interface TabMessage {
 }
 
 export class BookService extends EventTarget {
-  book: Book;
+  private held!: Book;
+  /** The open Book, its variants always in the one variant order, so every page lists them alike. */
+  get book(): Book {
+    return this.held;
+  }
+  private set book(next: Book) {
+    this.held = inVariantOrder(next);
+  }
   status: SaveStatus = { state: SAVE_STATES.saved };
+  /** This opening found no Book and wrote the demo Book: the first start in this browser. */
+  startedFresh = false;
   storage: StorageEstimate | undefined;
   blocked: Blocked | undefined;
   /**
@@ -115,12 +125,14 @@ export class BookService extends EventTarget {
       onVersionChange: () => service?.onVersionChange(),
     });
     let book = await store.load();
-    if (isFirstStart(book)) {
+    const fresh = isFirstStart(book);
+    if (fresh) {
       book = starterBook();
       await store.replaceAll(book);
       book = await store.load();
     }
     service = new BookService(store, book);
+    service.startedFresh = fresh;
     service.listenToOtherTabs();
     void service.askForPersistence();
     return service;

@@ -116,6 +116,19 @@ export const PAGES: readonly PageEntry[] = [
   },
 ];
 
+/**
+ * The first view: what Rungbook is for and the first steps. Shown at the first start and linked from the top of the
+ * rail; not one of the Book's pages, so the rail's numbering of those stays as it is.
+ */
+export const START_PAGE: PageEntry = {
+  slug: 'start',
+  title: 'Start here',
+  blurb: 'What Rungbook does, how a Book fits together, and three ways to begin.',
+  tag: 'rb-start-page',
+  load: () => import('./rb-start-page.ts'),
+  mains: true,
+};
+
 /** Route of a user notebook page. */
 export function notebookRoute(pageId: string): string {
   return `#/notebook/${encodeURIComponent(pageId)}`;
@@ -138,6 +151,7 @@ export function parseRoute(hash: string): Route {
       return { kind: 'unknown', hash };
     }
   }
+  if (head === START_PAGE.slug && rest.length === 0) return { kind: 'page', entry: START_PAGE };
   const entry = PAGES.find((p) => p.slug === head && rest.length === 0);
   return entry ? { kind: 'page', entry } : { kind: 'unknown', hash };
 }

@@ -8,9 +8,10 @@ import { BOOK_FILE_EXTENSION } from '../io/book-file.ts';
 import { StoredBookInvalid } from '../store/types.ts';
 import { bookContext } from './book-context.ts';
 import { BookService } from './book-service.ts';
-import { PAGES, notebookRoute, parseRoute } from './pages.ts';
+import { PAGES, START_PAGE, notebookRoute, parseRoute } from './pages.ts';
 import type { PageEntry, Route } from './pages.ts';
 import type { NoticeDetail } from './rb-book-menu.ts';
+import type { BookActionDetail } from './rb-start-page.ts';
 import './rb-book-menu.ts';
 import './rb-mains-caution.ts';
 import './rb-user-page.ts';
@@ -108,6 +109,20 @@ export class RbApp extends LitElement {
       background: var(--rb-paper);
       color: var(--rb-accent-ink);
       font-weight: 600;
+      box-shadow: inset 3px 0 0 var(--rb-accent);
+    }
+    a.start {
+      display: block;
+      padding: 0.3rem 0.5rem;
+      border: 1px solid var(--rb-rule);
+      border-radius: 3px;
+      color: var(--rb-accent-ink);
+      text-decoration: none;
+      font-size: 0.9rem;
+    }
+    a.start:hover,
+    a.start[aria-current='page'] {
+      background: var(--rb-paper);
       box-shadow: inset 3px 0 0 var(--rb-accent);
     }
     ol li a .later {
@@ -223,6 +238,7 @@ export class RbApp extends LitElement {
     super.connectedCallback();
     window.addEventListener('hashchange', this.onHash);
     this.addEventListener('rb-notice', this._onNotice);
+    this.addEventListener('rb-book-action', this._onBookAction);
     void this.open();
   }
 
@@ -230,6 +246,7 @@ export class RbApp extends LitElement {
     super.disconnectedCallback();
     window.removeEventListener('hashchange', this.onHash);
     this.removeEventListener('rb-notice', this._onNotice);
+    this.removeEventListener('rb-book-action', this._onBookAction);
     if (this.phase.kind === 'open') this.phase.service.close();
   }
 
@@ -239,6 +256,11 @@ export class RbApp extends LitElement {
       service.addEventListener('change', this.onServiceChange);
       this.provider.setValue(service);
       this.phase = { kind: 'open', service };
+      // The first start in this browser, opened without a page named: the first view says what the tool is for.
+      if (service.startedFresh && location.hash.replace(/^#\/?/, '') === '') {
+        history.replaceState(null, '', `#/${START_PAGE.slug}`);
+        this.route = parseRoute(location.hash);
+      }
       this.go(this.route);
     } catch (e) {
       const detail = e instanceof Error ? e.message : String(e);
@@ -334,6 +356,9 @@ export class RbApp extends LitElement {
           <small data-testid="book-name">${book.settings.bookName}${book.settings.company ? ` · ${book.settings.company}` : ''}</small>
         </div>
       </div>
+      <a class="start" href="#/${START_PAGE.slug}" aria-current=${current.kind === 'page' && current.entry === START_PAGE ? 'page' : nothing}
+        >Start here: what Rungbook is for</a
+      >
       <div>
         <h2>Pages</h2>
         <ol class="pages">
@@ -441,6 +466,15 @@ export class RbApp extends LitElement {
 
   private readonly _onNotice = (ev: CustomEvent<NoticeDetail>): void => {
     this.notice = ev.detail;
+  };
+
+  /** A Book menu item asked for from a page: the menu's own item runs, so its questions and file checks apply. */
+  private readonly _onBookAction = (ev: CustomEvent<BookActionDetail>): void => {
+    const label = ev.detail.action === 'open' ? 'Open a Book file…' : 'Start an empty Book…';
+    const menu = this.renderRoot.querySelector('rb-book-menu');
+    const item = [...(menu?.shadowRoot?.querySelectorAll('button') ?? [])].find((b) => b.textContent?.trim() === label);
+    if (item) item.click();
+    else this.notice = { tone: 'problem', title: `“${label}” is in the Book menu of the rail`, lines: [] };
   };
 }
 

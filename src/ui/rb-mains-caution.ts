@@ -1,7 +1,12 @@
-// The mains-safety caution carried by every screen about mains circuits.
+// The mains-safety caution carried by every screen about mains circuits: one short line on screen, once per page (a
+// caution met at full length on every page stops being read); the full text on printouts and exported sheets.
 import { LitElement, css, html } from 'lit';
 import { customElement } from 'lit/decorators.js';
 
+/** The caution as the screen shows it: one line, every point of the full text kept. */
+export const MAINS_CAUTION_SHORT = 'Live mains can kill. A design aid, not a certification: local codes and a qualified person’s review apply.';
+
+/** The caution in full, for printouts and exported sheets. */
 export const MAINS_CAUTION =
   'Live, non-isolated mains circuits can kill. These figures are design aids, not a certification: follow local ' +
   'electrical codes and have a qualified person review the design.';
@@ -18,12 +23,21 @@ export class RbMainsCaution extends LitElement {
       display: flex;
       gap: 0.6rem;
       align-items: baseline;
-      padding: 0.45rem 0.8rem;
-      border: 1px solid var(--rb-margin);
-      border-left-width: 4px;
-      background: var(--rb-margin-bg);
-      font-size: 0.9rem;
+      padding: 0.2rem 0.6rem;
+      border-left: 3px solid var(--rb-margin);
+      font-size: 0.84rem;
       max-width: 60rem;
+    }
+    .full {
+      display: none;
+    }
+    @media print {
+      .short {
+        display: none;
+      }
+      .full {
+        display: inline;
+      }
     }
     strong {
       color: var(--rb-margin);
@@ -32,7 +46,9 @@ export class RbMainsCaution extends LitElement {
   `;
 
   override render() {
-    return html`<p role="note" aria-label="Mains safety caution"><strong>⚠ Mains</strong><span>${MAINS_CAUTION}</span></p>`;
+    return html`<p role="note" aria-label="Mains safety caution" title=${MAINS_CAUTION}>
+      <strong>⚠ Mains</strong><span class="short">${MAINS_CAUTION_SHORT}</span><span class="full">${MAINS_CAUTION}</span>
+    </p>`;
   }
 }
 

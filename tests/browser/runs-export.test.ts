@@ -122,8 +122,8 @@ describe('runs, exports and the run sheet in the browser', () => {
   it('prints the run sheet to PDF on A4 and Letter with the variant, the totals, the caution and page numbers', async () => {
     const { page, errors } = await app.open('#/runs');
     await chooseDemoRun(page);
-    // The caution the app shows on the page must be on the sheet word for word.
-    const caution = (await page.locator('rb-mains-caution p span').textContent()) ?? '';
+    // The full caution the app carries for print (the screen shows it short) must be on the sheet word for word.
+    const caution = (await page.locator('rb-mains-caution p span.full').textContent()) ?? '';
     expect(caution).toMatch(/can kill/);
     // The print dialogue would block a headless browser; the test prints with page.pdf() instead.
     await page.evaluate(() => {
