@@ -12,6 +12,7 @@ import { currencyMoney, grouped } from '../domain/format.ts';
 import { VARIANT_PARAMS, ownValue } from '../domain/params.ts';
 import { guardText } from '../domain/tsv.ts';
 import { formatValue } from '../domain/units.ts';
+import { sortVariants } from '../domain/variant-order.ts';
 import { BookController } from './book-context.ts';
 import { CostingService } from './costing-service.ts';
 import { field, focusFirstProblem, group, nothingSaved, saveRefusal } from './form-fields.ts';
@@ -183,7 +184,7 @@ export class RbFamilyPage extends LitElement {
     if (this.columnCache?.sig === sig) return this.columnCache;
     const grid: GridColumn[] = [
       { key: 'code', label: 'code', editable: true, rowHeader: true, title: 'short code, unique in the Book' },
-      { key: 'name', label: 'name', editable: true },
+      { key: 'name', label: 'name', editable: true, title: 'what the variant is called on drawings and run sheets' },
     ];
     const family: FamilyColumn[] = [
       { key: 'code', kind: COLUMN_KINDS.code },
@@ -194,7 +195,7 @@ export class RbFamilyPage extends LitElement {
       const std = VARIANT_PARAMS.find((p) => p.name === n);
       const col: GridColumn = { key: n, label: n, num: info.kind === 'number', editable: true };
       if (info.unit) col.unit = info.unit;
-      if (std) col.title = std.doc;
+      col.title = std ? std.doc : 'a parameter of this Book’s own (formulas read it by this name; no built-in check does)';
       grid.push(col);
       family.push({ key: n, kind: COLUMN_KINDS.param });
     }
@@ -271,7 +272,7 @@ export class RbFamilyPage extends LitElement {
     // Draw first, work out afterwards: a large family's workbooks take a moment to build after a structural change.
     const pending = costing.pending;
     if (pending) this.queueSync(costing);
-    const variants = [...book.variants].sort((a, b) => a.code.localeCompare(b.code));
+    const variants = sortVariants(book.variants);
     this.order = variants;
     const used = paramNames(book).filter((n) => variants.some((v) => ownValue(v.params, n) !== undefined));
     const runs = book.settings.runSizes;
@@ -475,6 +476,8 @@ export class RbFamilyPage extends LitElement {
       return;
     }
     const id = check.record.id;
+    // A new row, or a new code, may sort elsewhere: the cursor goes with the record, not the row number.
+    if (!variant || d.key === 'code') this.grid?.follow(id);
     const seen = variant && this.editFrom?.id === variant.id ? this.editFrom : variant;
     void this.enqueue((now) => {
       const v = variant ? now.variants.find((x) => x.id === variant.id) : undefined;
@@ -538,6 +541,8 @@ export class RbFamilyPage extends LitElement {
     void this.enqueue((now) => {
       const sources = list.map((v) => now.variants.find((x) => x.id === v.id)).filter((v): v is Variant => v !== undefined);
       const copies = duplicateVariants(now, sources, newVariantId);
+      // The cursor goes to the (first) copy, so the next edit lands on it and not on the original.
+      if (copies[0]) this.grid?.follow(copies[0].id, true);
       const label = `duplicate ${sources.map((v) => v.code).join(', ')}`;
       return { step: { label, changes: copies.map((c) => ({ id: c.id, before: undefined, after: c })) }, done: `Added ${copies.map((c) => c.code).join(', ')}.` };
     });

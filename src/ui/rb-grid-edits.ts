@@ -232,13 +232,16 @@ export function copyCode(book: Book, code: string, taken: ReadonlySet<string> = 
   }
 }
 
-/** New variants copied from the given ones, each with a free code and "(copy)" after its name. */
+/**
+ * New variants copied from the given ones, each with a free code, "(copy)" after its name and a note of its own
+ * saying what it was copied from: the original's notes describe the original, not the copy.
+ */
 export function duplicateVariants(book: Book, sources: readonly Variant[], newId: () => string): Variant[] {
   const taken = new Set<string>();
   return sources.map((v) => {
     const code = copyCode(book, v.code, taken);
     taken.add(code);
-    const copy: Variant = { ...v, id: newId(), rev: 0, code, name: `${v.name} (copy)`, params: { ...v.params } };
+    const copy: Variant = { ...v, id: newId(), rev: 0, code, name: `${v.name} (copy)`, notes: `Copy of ${v.code}.`, params: { ...v.params } };
     return copy;
   });
 }

@@ -23,6 +23,7 @@ export interface GridColumn {
   editable: boolean;
   /** The column names the row (shown as a row heading, kept in view when scrolling sideways). */
   rowHeader?: boolean;
+  /** What the column holds, in words: shown on the help line when the column is hovered or holds the active cell. */
   title?: string;
 }
 
@@ -231,6 +232,20 @@ export class RbGrid extends LitElement {
       content: '✗ ';
       font-weight: 700;
     }
+    .colhelp {
+      margin: 0 0 0.3rem;
+      font-size: 0.86rem;
+      min-height: 1.3em;
+      color: var(--rb-ink);
+    }
+    .colhelp b {
+      font-family: var(--rb-mono);
+      font-size: 0.82rem;
+      color: var(--rb-accent-ink);
+    }
+    .colhelp .unit {
+      color: var(--rb-na);
+    }
   `;
 
   @property({ attribute: false }) columns: readonly GridColumn[] = [];
@@ -246,6 +261,10 @@ export class RbGrid extends LitElement {
   @state() private message: { text: string; problem: boolean } | undefined;
   /** The row the active cell is on, so it stays on that record when rows are re-sorted. */
   private activeId: string | undefined;
+  /** The column the pointer is over in the heading, whose meaning the help line shows meanwhile. */
+  @state() private hoverCol: number | undefined;
+  /** A row the active cell goes to once it shows at a new place (an edited row re-sorted, a new or copied row). */
+  private followRow: { id: string; at: number; row: GridRow | undefined; focus: boolean } | undefined;
   private dragging = false;
   private focusEditor = false;
 
@@ -275,6 +294,16 @@ export class RbGrid extends LitElement {
     void this.updateComplete.then(() => this.takeFocus());
   }
 
+  /**
+   * Puts the active cell on row `id` (same column) once that row shows at another place than it does now: a row whose
+   * edit re-sorts it, or a row just being added. The cursor follows the record, never an index. With `focus` the
+   * grid also takes the keyboard there (after a toolbar button made the row).
+   */
+  follow(id: string, focus = false): void {
+    const at = this.rows.findIndex((r) => r.id === id);
+    this.followRow = { id, at, row: this.rows[at], focus };
+  }
+
   /** Shows a line under the grid; a problem is announced. */
   say(text: string | undefined, problem = false): void {
     this.message = text === undefined ? undefined : { text, problem };
@@ -299,6 +328,20 @@ export class RbGrid extends LitElement {
           const dr = at - this.active.r;
           this.active = { ...this.active, r: at };
           this.anchor = { ...this.anchor, r: Math.max(0, Math.min(this.lastRow, this.anchor.r + dr)) };
+        }
+      }
+      const f = this.followRow;
+      const at = f ? this.rows.findIndex((r) => r.id === f.id) : -1;
+      // Settled once the row is drawn anew (saved) or at another place; until then other redraws leave it pending.
+      if (f && at >= 0 && (at !== f.at || this.rows[at] !== f.row)) {
+        this.followRow = undefined;
+        if (at !== f.at) {
+          this.active = { r: at, c: this.active.c };
+          this.anchor = { ...this.active };
+          void this.updateComplete.then(() => {
+            this.cellAt(this.active.r, this.active.c)?.scrollIntoView({ block: 'nearest', inline: 'nearest' });
+            if (f.focus) this.takeFocus();
+          });
         }
       }
       this.clamp();
@@ -624,7 +667,7 @@ export class RbGrid extends LitElement {
 
   override render() {
     const rowsShown = this.rows.length + (this.newRow === undefined ? 0 : 1);
-    return html`<div class="frame">
+    return html`${this.renderColumnHelp()}<div class="frame">
         <table
           role="grid"
           tabindex="0"
@@ -632,6 +675,7 @@ export class RbGrid extends LitElement {
           aria-rowcount=${rowsShown + 1}
           aria-colcount=${this.columns.length}
           aria-multiselectable="true"
+          aria-describedby="colhelp"
           aria-activedescendant=${this.editing ? nothing : `cell-${this.active.r}-${this.active.c}`}
           data-testid=${this.testid || nothing}
           @keydown=${this._onKey}
@@ -646,7 +690,14 @@ export class RbGrid extends LitElement {
             <tr>
               ${this.columns.map(
                 (col) =>
-                  html`<th scope="col" data-key=${col.key} class=${classMap({ num: !!col.num, ro: !col.editable })} title=${col.title ?? nothing}>
+                  html`<th
+                    scope="col"
+                    data-key=${col.key}
+                    class=${classMap({ num: !!col.num, ro: !col.editable })}
+                    title=${col.title ?? nothing}
+                    @mouseenter=${() => (this.hoverCol = this.columns.indexOf(col))}
+                    @mouseleave=${() => (this.hoverCol = undefined)}
+                  >
                     ${col.label}${col.unit ? html`<small>${col.unit}</small>` : nothing}
                   </th>`,
               )}
@@ -665,6 +716,21 @@ export class RbGrid extends LitElement {
       <p class=${classMap({ message: true, problem: !!this.message?.problem })} role=${this.message?.problem ? 'alert' : 'status'}>
         ${this.message?.text ?? ''}
       </p>`;
+  }
+
+  /**
+   * The help line: the name, unit and meaning of the column under the pointer in the heading, else of the column
+   * holding the active cell, so a column's meaning is where the person is, by mouse or by keyboard.
+   */
+  private renderColumnHelp() {
+    const col = this.columns[this.hoverCol ?? this.active.c];
+    return html`<p class="colhelp" id="colhelp" data-testid=${this.testid ? `${this.testid}-column-help` : nothing}>
+      ${col
+        ? html`<b>${col.label}</b>${col.unit ? html` <span class="unit">(${col.unit})</span>` : nothing}${col.title ? html` — ${col.title}` : nothing}${col.editable
+            ? nothing
+            : html` <span class="unit">· worked out, not edited</span>`}`
+        : nothing}
+    </p>`;
   }
 
   /** What of the selection touches row r, as a key: rows whose key and data are unchanged are not drawn again. */
