@@ -1,5 +1,5 @@
 // Quotes page: every supplier offer per part with its price breaks and terms, expired and superseded quotes marked in
-// words and symbols, a filter, add / edit / delete through one Book save each, and the import history with Undo.
+// words and symbols, a search with a choice of supplier and of part, add / edit / delete through one Book save each, and the import history with Undo.
 import { LitElement, css, html } from 'lit';
 import { customElement, state } from 'lit/decorators.js';
 import type { Book, Part, Quote, Supplier } from '../domain/book.ts';
@@ -72,6 +72,20 @@ export class RbQuotesPage extends LitElement {
         color: var(--rb-fail);
         font-size: 0.84rem;
       }
+      .find {
+        display: flex;
+        flex-wrap: wrap;
+        gap: 0.5rem 0.9rem;
+        align-items: baseline;
+        margin: 0 0 0.6rem;
+        font-size: 0.9rem;
+      }
+      .find input[type='search'] {
+        min-width: 16rem;
+      }
+      .find select {
+        max-width: 16rem;
+      }
       label.check {
         font-size: 0.9rem;
       }
@@ -81,6 +95,10 @@ export class RbQuotesPage extends LitElement {
   private readonly books = new BookController(this);
   @state() private editing: Editing | undefined;
   @state() private filter = '';
+  /** Only this supplier's quotes, or every supplier's when ''. */
+  @state() private supplierId = '';
+  /** Only the quotes for this part, or for every part when ''. */
+  @state() private partId = '';
   @state() private hideSuperseded = false;
   @state() private shown = PAGE_ROWS;
   @state() private confirmDelete: string | undefined;
@@ -123,9 +141,11 @@ export class RbQuotesPage extends LitElement {
       </p>
       <div class="toolbar">
         <button type="button" class="primary" @click=${() => this.startEdit(undefined)}>Add a quote</button>
+      </div>
+      <div class="find" role="search" aria-label="Find quotes">
         <input
           type="search"
-          placeholder="Filter by part or supplier…"
+          placeholder="Search part number, description, supplier or code…"
           aria-label="Filter quotes"
           .value=${this.filter}
           @input=${(e: Event) => {
@@ -133,6 +153,22 @@ export class RbQuotesPage extends LitElement {
             this.shown = PAGE_ROWS;
           }}
         />
+        <label
+          >supplier
+          <select aria-label="Supplier" data-testid="quotes-supplier" @change=${(e: Event) => this.choose({ supplierId: (e.target as HTMLSelectElement).value })}>
+            <option value="" ?selected=${this.supplierId === ''}>every supplier</option>
+            ${[...book.suppliers]
+              .sort((a, b) => a.name.localeCompare(b.name))
+              .map((x) => html`<option value=${x.id} ?selected=${x.id === this.supplierId}>${x.name}</option>`)}
+          </select></label
+        >
+        <label
+          >part
+          <select aria-label="Part" data-testid="quotes-part" @change=${(e: Event) => this.choose({ partId: (e.target as HTMLSelectElement).value })}>
+            <option value="" ?selected=${this.partId === ''}>every part</option>
+            ${this.quotedParts(book).map((p) => html`<option value=${p.id} ?selected=${p.id === this.partId}>${p.mpn}</option>`)}
+          </select></label
+        >
         <label class="check"
           ><input
             type="checkbox"
@@ -141,10 +177,13 @@ export class RbQuotesPage extends LitElement {
           />
           hide superseded</label
         >
-        ${f || this.hideSuperseded ? html`<span class="muted" data-testid="quotes-shown">${n(rows.length)} shown</span>` : ''}
+        <span class="muted" data-testid="quotes-shown">${n(rows.length)} of ${n(book.quotes.length)} shown</span>
+        ${f || this.supplierId || this.partId || this.hideSuperseded
+          ? html`<button type="button" class="quiet" @click=${this.clearFind}>show all</button>`
+          : ''}
       </div>
       ${rows.length === 0
-        ? html`<p class="empty">${book.quotes.length === 0 ? 'No quotes yet. Add one above or import a supplier price file.' : 'No quote matches the filter.'}</p>`
+        ? html`<p class="empty">${book.quotes.length === 0 ? 'No quotes yet. Add one above or import a supplier price file.' : 'No quote matches the search and choices above.'}</p>`
         : html`<div class="scroll">
             <table class="records" data-testid="quotes-table">
               <thead>
@@ -180,7 +219,7 @@ export class RbQuotesPage extends LitElement {
 
   /** Filtered and sorted quotes, kept until the Book or the filter changes (typing must not re-sort 50,000 rows). */
   private sortedRows(book: Book, f: string, parts: Map<string, Part>, suppliers: Map<string, Supplier>): Quote[] {
-    const key = [book.quotes, book.parts, book.suppliers, f, this.hideSuperseded];
+    const key = [book.quotes, book.parts, book.suppliers, f, this.hideSuperseded, this.supplierId, this.partId];
     const c = this.rowCache;
     if (c && c.key.every((k, i) => k === key[i])) return c.rows;
     const collator = new Intl.Collator('en', { numeric: true });
@@ -188,6 +227,7 @@ export class RbQuotesPage extends LitElement {
     const supplierName = (q: Quote): string => suppliers.get(q.supplierId)?.name ?? q.supplierId;
     const rows = book.quotes
       .filter((q) => !this.hideSuperseded || q.supersededBy === undefined)
+      .filter((q) => (this.supplierId === '' || q.supplierId === this.supplierId) && (this.partId === '' || q.partId === this.partId))
       .filter((q) => {
         if (!f) return true;
         const p = parts.get(q.partId);
@@ -203,6 +243,27 @@ export class RbQuotesPage extends LitElement {
     this.rowCache = { key, rows };
     return rows;
   }
+
+  /** Parts that have a quote, by part number: the part choice offers only those. */
+  private quotedParts(book: Book): Part[] {
+    const quoted = new Set(book.quotes.map((q) => q.partId));
+    const collator = new Intl.Collator('en', { numeric: true });
+    return book.parts.filter((p) => quoted.has(p.id)).sort((a, b) => collator.compare(a.mpn, b.mpn));
+  }
+
+  private choose(patch: { supplierId?: string; partId?: string }): void {
+    if (patch.supplierId !== undefined) this.supplierId = patch.supplierId;
+    if (patch.partId !== undefined) this.partId = patch.partId;
+    this.shown = PAGE_ROWS;
+  }
+
+  private readonly clearFind = (): void => {
+    this.filter = '';
+    this.supplierId = '';
+    this.partId = '';
+    this.hideSuperseded = false;
+    this.shown = PAGE_ROWS;
+  };
 
   private renderRow(q: Quote, part: Part | undefined, supplier: Supplier | undefined, date: string, byId: Map<string, Quote>) {
     const status = quoteStatus(q, date, q.supersededBy ? byId.get(q.supersededBy) : undefined);
