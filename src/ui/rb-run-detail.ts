@@ -81,8 +81,35 @@ export class RbRunDetail extends LitElement {
       tr.removed td {
         background: var(--rb-margin-bg);
       }
-      td.desc {
-        min-width: 16rem;
+      /* The costed BOM fits a 1,400-pixel window: a part's description and a quote's code and break sit in small type
+         under the figure they belong to, instead of in columns of their own. */
+      .bom td small,
+      .bom th small {
+        display: block;
+        font-size: 0.76rem;
+        color: var(--rb-na);
+        font-weight: normal;
+      }
+      .bom td.part {
+        min-width: 12rem;
+        max-width: 22rem;
+        white-space: normal;
+      }
+      .bom td.part small {
+        font-family: var(--rb-font);
+      }
+      .bom td.refs {
+        max-width: 8rem;
+        white-space: normal;
+      }
+      .bom td.supplier {
+        white-space: nowrap;
+      }
+      .bom th:first-child,
+      .bom td:first-child {
+        position: sticky;
+        left: 0;
+        background: var(--rb-sheet);
       }
       td.why {
         font-size: 0.82rem;
@@ -133,25 +160,37 @@ export class RbRunDetail extends LitElement {
     const variant = book.variants.find((v) => v.id === run.variantId);
     const shown = c.shown;
     const list = shown.ok ? purchaseList(shown.value.bom, { dateWanted: run.dateWanted, today: todayIso() }) : undefined;
+    // One statement of what the costing rests on: the quotes valid on the costing date (the Book's, else today).
+    const date = shown.ok ? shown.value.bom.date : (book.settings.costingDate ?? todayIso());
+    const dateWord = run.frozen ? '' : book.settings.costingDate ? ', the Book’s costing date' : ', today';
     return html`<section class="sheet" aria-labelledby="run-h" data-testid="run-detail">
         <h2 id="run-h">Run ${run.name}</h2>
         <p class="why">
           ${run.frozen
-            ? html`❄ Frozen ${run.frozen.at.slice(0, 16).replace('T', ' ')}: the prices, quotes and rates of that moment stay with the run, whatever the quotes say now.`
-            : html`↻ Live: costed from today’s quotes. Freeze the run when it is decided, so later quotes do not change it.`}
+            ? html`❄ Frozen ${run.frozen.at.slice(0, 16).replace('T', ' ')}, costed from the quotes valid on <b data-testid="run-costing-date">${date}</b>: the
+                prices, quotes and rates of that moment stay with the run, whatever the quotes say now.`
+            : html`↻ Live: costed from the quotes valid on <b data-testid="run-costing-date">${date}</b>${dateWord}. Freeze the run when it is
+                decided, so later quotes do not change it.`}
         </p>
         <div class="facts">
           <span>variant <b>${variant?.code ?? '(missing)'}</b> ${variant?.name ?? ''}</span>
           <span>quantity <b>${run.quantity}</b></span>
           <span>date wanted <b>${run.dateWanted}</b></span>
-          ${shown.ok ? html`<span>quotes valid on <b>${shown.value.bom.date}</b></span>` : ''}
         </div>
         <div class="toolbar">
           ${run.frozen
             ? html`<button type="button" @click=${() => this.unfreeze(run)}>Unfreeze</button>
                 <button type="button" @click=${() => this.freeze(book, run, c.fresh, true)}>Re-cost today and freeze again</button>`
             : html`<button type="button" class="primary" @click=${() => this.freeze(book, run, c.fresh ?? shown, false)}>Freeze the costing</button>`}
-          <button type="button" ?disabled=${!shown.ok} @click=${() => shown.ok && this.print(book, run, shown.value)}>Print run sheet</button>
+          <button type="button" ?disabled=${!shown.ok} @click=${() => shown.ok && this.print(book, run, shown.value, true)}>Print run sheet</button>
+          <button
+            type="button"
+            title="The parts and quantities to kit and build, with no supplier, price or total"
+            ?disabled=${!shown.ok}
+            @click=${() => shown.ok && this.print(book, run, shown.value, false)}
+          >
+            Print shop-floor sheet
+          </button>
           <button type="button" ?disabled=${!shown.ok} @click=${() => shown.ok && this.download(run, variant?.code ?? shown.value.bom.variant, shown.value, 'costed-bom')}>
             Costed BOM CSV
           </button>
@@ -175,25 +214,22 @@ export class RbRunDetail extends LitElement {
     return html`<section class="sheet" aria-labelledby="bom-h">
       <h2 id="bom-h">Costed BOM</h2>
       <p class="why">
-        One row per part bought (lines of the same part together): need with attrition, order quantity after MOQ,
-        whole packs and any cheaper higher break, the quote used, and leftover stock. Amounts are rounded to cents per
-        line; every total is the sum of its rows.
+        One row per part bought (lines of the same part together), with the designators this variant places: need
+        with attrition, order quantity after MOQ, whole packs and any cheaper higher break, the quote used, and leftover
+        stock. Extended amounts are in ${cur} (a quote in another currency shows its own amount under it), rounded to
+        cents per line; every total is the sum of its rows.
       </p>
-      <div class="scroll">
+      <div class="scroll bom">
         <table class="records" data-testid="run-bom">
           <thead>
             <tr>
               <th>designators</th>
-              <th>mpn</th>
-              <th>description</th>
+              <th>part</th>
               <th class="num">per unit</th>
               <th class="num">need</th>
               <th class="num">buy</th>
-              <th>supplier</th>
-              <th>supplier code</th>
-              <th class="num">break</th>
-              <th class="num">unit price</th>
-              <th class="num">extended</th>
+              <th>supplier · code</th>
+              <th class="num">unit price <small>at break</small></th>
               <th class="num">extended ${cur}</th>
               <th class="num">leftover</th>
             </tr>
@@ -201,25 +237,23 @@ export class RbRunDetail extends LitElement {
           <tbody>
             ${bom.lines.map(
               (l) => html`<tr>
-                <td>${l.designators}</td>
-                <td class="code">${l.mpn}</td>
-                <td class="desc">${l.description}</td>
+                <td class="refs">${l.designators}</td>
+                <td class="part"><span class="code">${l.mpn}</span><small>${l.description}</small></td>
                 <td class="num">${l.qtyPerUnit}</td>
                 <td class="num">${l.need}</td>
                 <td class="num">${l.buy}</td>
-                <td>${l.supplier}</td>
-                <td class="code">${l.supplierCode}</td>
-                <td class="num">${l.breakQty}</td>
-                <td class="num">${price(l.unitPrice)} ${l.currency}</td>
-                <td class="num">${money(l.extended)} ${l.currency}</td>
-                <td class="num">${money(l.extendedBase)}</td>
+                <td class="supplier">${l.supplier}<small class="code">${l.supplierCode}</small></td>
+                <td class="num">${price(l.unitPrice)} ${l.currency}<small>from ${l.breakQty}</small></td>
+                <td class="num">
+                  ${money(l.extendedBase)}${l.currency === cur ? '' : html`<small>${money(l.extended)} ${l.currency}</small>`}
+                </td>
                 <td class="num">${l.leftover}</td>
               </tr>`,
             )}
             ${bom.problems.map(
               (p) => html`<tr class="not-priced">
                 <td>${p.designators ?? ''}</td>
-                <td colspan="12">✗ not priced: ${p.message}</td>
+                <td colspan="8">✗ not priced: ${p.message}</td>
               </tr>`,
             )}
           </tbody>
@@ -378,8 +412,8 @@ export class RbRunDetail extends LitElement {
     if (!result.ok) this.notify({ tone: 'problem', title: `${run.name} was not unfrozen`, lines: [result.message] });
   }
 
-  private async print(book: Book, run: Run, costing: RunCosting): Promise<void> {
-    await printRunSheet(runSheetData(book, run, costing, todayIso()));
+  private async print(book: Book, run: Run, costing: RunCosting, prices: boolean): Promise<void> {
+    await printRunSheet(runSheetData(book, run, costing, todayIso(), prices));
   }
 
   private download(run: Run, variantCode: string, costing: RunCosting, what: 'costed-bom' | 'purchase-list'): void {

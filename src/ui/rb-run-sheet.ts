@@ -1,5 +1,5 @@
 // The printable run sheet: header (Book, variant, run, dates), the variant's check summary with the mains caution,
-// the costed BOM and its totals. It lives directly in the document body so the print stylesheet (print.css) can
+// the costed BOM and its totals; or, for the shop floor, the same sheet without a price (what to kit and build). It lives directly in the document body so the print stylesheet (print.css) can
 // print it alone; `printRunSheet` fills it and opens the browser's print dialogue.
 import { LitElement, css, html } from 'lit';
 import type { TemplateResult } from 'lit';
@@ -37,6 +37,8 @@ export interface RunSheetData {
   checks: SheetCheck[];
   /** When the sheet was made (ISO date). */
   printedOn: string;
+  /** False for the shop-floor sheet: parts and quantities to kit, no supplier, price or total. */
+  prices: boolean;
 }
 
 const STATUS_ORDER: CheckStatus[] = [CHECK_STATUS.fail, CHECK_STATUS.error, CHECK_STATUS.margin, CHECK_STATUS.pass, CHECK_STATUS.na];
@@ -61,7 +63,7 @@ export function sheetChecks(book: Book, variantId: string): SheetCheck[] {
 }
 
 /** Everything the sheet shows for a run, gathered once. */
-export function runSheetData(book: Book, run: Run, costing: RunCosting, today: string): RunSheetData {
+export function runSheetData(book: Book, run: Run, costing: RunCosting, today: string, prices = true): RunSheetData {
   const variant = book.variants.find((v) => v.id === run.variantId);
   return {
     bookName: book.settings.bookName,
@@ -75,6 +77,7 @@ export function runSheetData(book: Book, run: Run, costing: RunCosting, today: s
     costing,
     checks: sheetChecks(book, run.variantId),
     printedOn: today,
+    prices,
   };
 }
 
@@ -131,7 +134,7 @@ export class RbRunSheet extends LitElement {
       margin-bottom: 6pt;
     }
     h1 {
-      font-size: 17pt;
+      font-size: 14pt;
       margin: 0;
       font-weight: 600;
     }
@@ -183,7 +186,7 @@ export class RbRunSheet extends LitElement {
     }
     td {
       border-bottom: 0.5pt solid #999;
-      padding: 2pt 3pt;
+      padding: 1pt 3pt;
       vertical-align: top;
     }
     thead {
@@ -200,6 +203,44 @@ export class RbRunSheet extends LitElement {
       font-family: 'DejaVu Sans Mono', monospace;
       font-size: 8pt;
       white-space: nowrap;
+    }
+    /* A part is its number followed by its description in small type, in the widest column, and a supplier keeps
+       its name on one line with the code under it: a line of the BOM takes two lines of the sheet, not four. */
+    table.bom {
+      table-layout: fixed;
+    }
+    table.bom td {
+      line-height: 1.2;
+      overflow-wrap: anywhere;
+    }
+    .desc {
+      font-size: 7.5pt;
+      color: #222;
+    }
+    td.supplier {
+      font-size: 7pt;
+      white-space: nowrap;
+      overflow: hidden;
+      text-overflow: ellipsis;
+    }
+    table.bom th {
+      font-size: 7.5pt;
+    }
+    table.bom td.num {
+      font-size: 8.5pt;
+    }
+    .sub {
+      display: block;
+      font-size: 7pt;
+      color: #333;
+    }
+    td.refs {
+      max-width: 6em;
+      font-size: 8.5pt;
+    }
+    td.tick {
+      width: 2.2em;
+      border-left: 0.5pt solid #999;
     }
     .summary {
       margin: 0 0 3pt;
@@ -239,14 +280,13 @@ export class RbRunSheet extends LitElement {
     const d = this.data;
     if (!d) return html``;
     const bom = d.costing.bom;
-    const c = bom.currency;
     const frozen = d.costing.frozen;
     const counts = STATUS_ORDER.map((s) => [s, d.checks.filter((x) => x.status === s).length] as const).filter(([, n]) => n > 0);
     const notable = d.checks.filter((x) => x.status !== CHECK_STATUS.pass && x.status !== CHECK_STATUS.na);
-    return html`<article aria-label="Run sheet">
+    return html`<article aria-label=${d.prices ? 'Run sheet' : 'Shop-floor sheet'}>
       <header>
         <div>
-          <h1>Run sheet · ${d.runName}</h1>
+          <h1>${d.prices ? 'Run sheet' : 'Shop-floor sheet'} · ${d.runName}</h1>
           <div>${d.variantCode} — ${d.variantName}</div>
         </div>
         <div class="book">${d.bookName}${d.company ? html`<br />${d.company}` : ''}</div>
@@ -258,10 +298,15 @@ export class RbRunSheet extends LitElement {
         <dd>${d.quantity} units</dd>
         <dt>date wanted</dt>
         <dd>${d.dateWanted}</dd>
-        <dt>quotes valid on</dt>
-        <dd>${bom.date}</dd>
-        <dt>costing</dt>
-        <dd>${frozen ? `frozen ${frozen.at.slice(0, 10)}` : 'live (not frozen)'}</dd>
+        ${d.prices
+          ? html`<dt>costed from</dt>
+              <dd>quotes valid on ${bom.date}</dd>
+              <dt>costing</dt>
+              <dd>${frozen ? `frozen ${frozen.at.slice(0, 10)}` : 'live (not frozen)'}</dd>`
+          : html`<dt>lines</dt>
+              <dd>${bom.lines.length} parts</dd>
+              <dt>pieces per unit</dt>
+              <dd>${bom.lines.reduce((n, l) => n + l.qtyPerUnit, 0)}</dd>`}
         <dt>printed</dt>
         <dd>${d.printedOn}</dd>
       </dl>
@@ -293,33 +338,48 @@ export class RbRunSheet extends LitElement {
                 </table>`
               : ''}`}
 
-      <h2>Bill of materials for ${d.quantity} units</h2>
-      <table data-testid="sheet-bom">
+      <h2>${d.prices ? 'Bill of materials' : 'Parts to kit'} for ${d.quantity} units</h2>
+      ${d.prices ? this.renderPriced(d) : this.renderShopFloor(d)}
+      ${d.notes ? html`<h2>Notes</h2><p>${d.notes}</p>` : ''}
+      <div class="sign"><div>kitted by / date</div><div>built by / date</div><div>tested by / date</div></div>
+    </article>`;
+  }
+
+  /** The costed BOM: what each line buys, from whom, at what price, and the run's totals. */
+  private renderPriced(d: RunSheetData): TemplateResult {
+    const bom = d.costing.bom;
+    return html`<table class="bom" data-testid="sheet-bom">
+        <colgroup>
+          <col style="width: 10%" />
+          <col style="width: 30%" />
+          <col style="width: 5.5%" />
+          <col style="width: 6.5%" />
+          <col style="width: 6.5%" />
+          <col style="width: 20%" />
+          <col style="width: 11%" />
+          <col style="width: 10.5%" />
+        </colgroup>
         <thead>
           <tr>
             <th>designators</th>
-            <th>mpn</th>
-            <th>description</th>
+            <th>part</th>
             <th class="num">per unit</th>
             <th class="num">need</th>
             <th class="num">buy</th>
-            <th>supplier</th>
-            <th>code</th>
+            <th>supplier · code</th>
             <th class="num">unit price</th>
-            <th class="num">extended ${c}</th>
+            <th class="num">extended ${bom.currency}</th>
           </tr>
         </thead>
         <tbody>
           ${bom.lines.map(
             (l) => html`<tr>
-              <td>${l.designators}</td>
-              <td class="code">${l.mpn}</td>
-              <td>${l.description}</td>
+              <td class="refs">${l.designators}</td>
+              <td class="part"><span class="code">${l.mpn}</span> <span class="desc">${l.description}</span></td>
               <td class="num">${l.qtyPerUnit}</td>
               <td class="num">${l.need}</td>
               <td class="num">${l.buy}</td>
-              <td>${l.supplier}</td>
-              <td class="code">${l.supplierCode}</td>
+              <td class="supplier">${l.supplier}<span class="sub code">${l.supplierCode}</span></td>
               <td class="num">${price(l.unitPrice)} ${l.currency}</td>
               <td class="num">${money(l.extendedBase)}</td>
             </tr>`,
@@ -327,7 +387,7 @@ export class RbRunSheet extends LitElement {
           ${bom.problems.map(
             (p) => html`<tr>
               <td>${p.designators ?? ''}</td>
-              <td colspan="9" class="problem">NOT PRICED: ${p.message}</td>
+              <td colspan="7" class="problem">NOT PRICED: ${p.message}</td>
             </tr>`,
           )}
         </tbody>
@@ -339,10 +399,47 @@ export class RbRunSheet extends LitElement {
           ${runTotalRows(d.costing)}
         </tbody>
       </table>
-      ${bom.complete ? '' : html`<p class="problem">Incomplete: the lines marked NOT PRICED are missing from every total.</p>`}
-      ${d.notes ? html`<h2>Notes</h2><p>${d.notes}</p>` : ''}
-      <div class="sign"><div>kitted by / date</div><div>built by / date</div><div>tested by / date</div></div>
-    </article>`;
+      ${bom.complete ? '' : html`<p class="problem">Incomplete: the lines marked NOT PRICED are missing from every total.</p>`}`;
+  }
+
+  /** For the shop floor: each part, where it goes and how many to kit, with a box to tick; no supplier or price. */
+  private renderShopFloor(d: RunSheetData): TemplateResult {
+    const bom = d.costing.bom;
+    return html`<table class="bom" data-testid="sheet-kit">
+        <colgroup>
+          <col style="width: 12%" />
+          <col style="width: 58%" />
+          <col style="width: 9%" />
+          <col style="width: 11%" />
+          <col style="width: 10%" />
+        </colgroup>
+        <thead>
+          <tr>
+            <th>designators</th>
+            <th>part</th>
+            <th class="num">per unit</th>
+            <th class="num">to kit</th>
+            <th>kitted</th>
+          </tr>
+        </thead>
+        <tbody>
+          ${bom.lines.map(
+            (l) => html`<tr>
+              <td class="refs">${l.designators}</td>
+              <td class="part"><span class="code">${l.mpn}</span> <span class="desc">${l.description}</span></td>
+              <td class="num">${l.qtyPerUnit}</td>
+              <td class="num">${l.need}</td>
+              <td class="tick"></td>
+            </tr>`,
+          )}
+          ${bom.problems.map(
+            (p) => html`<tr>
+              <td>${p.designators ?? ''}</td>
+              <td colspan="4" class="problem">NOT ON THIS SHEET: ${p.message}</td>
+            </tr>`,
+          )}
+        </tbody>
+      </table>`;
   }
 }
 
