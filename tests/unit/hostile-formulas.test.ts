@@ -15,8 +15,8 @@ import { evaluateChecks } from '../../src/engine/family.ts';
 import { evaluateFormula, guardFormula } from '../../src/engine/formula-guard.ts';
 import { MAX_TEXT_LENGTH } from '../../src/engine/functions/text.ts';
 import { NOTEBOOK_LIMITS, evaluateNotebookPage, notebookCellProblem } from '../../src/engine/notebook.ts';
-import { planClear, planPaste } from '../../src/ui/rb-grid-edits.ts';
-import type { FamilyColumn, PasteTarget } from '../../src/ui/rb-grid-edits.ts';
+import { planClear, planPaste } from '../../src/ui/grid-edits.ts';
+import type { FamilyColumn, PasteTarget } from '../../src/ui/grid-edits.ts';
 import { validateVariant, variantDraft } from '../../src/ui/record-forms.ts';
 import { runCli, writeBook } from './cli-helpers.ts';
 

@@ -5,8 +5,8 @@ import { describe, expect, it } from 'vitest';
 import type { Book, Variant } from '../../src/domain/book.ts';
 import { emptyBook } from '../../src/domain/book.ts';
 import { parseTsv } from '../../src/domain/tsv.ts';
-import { copyCode, duplicateVariants, editVariant, planClear, planPaste } from '../../src/ui/rb-grid-edits.ts';
-import type { FamilyColumn, PasteTarget } from '../../src/ui/rb-grid-edits.ts';
+import { copyCode, duplicateVariants, editVariant, planClear, planPaste } from '../../src/ui/grid-edits.ts';
+import type { FamilyColumn, PasteTarget } from '../../src/ui/grid-edits.ts';
 
 function book(): Book {
   const variants: Variant[] = [
