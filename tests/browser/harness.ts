@@ -45,8 +45,8 @@ export interface StartOptions {
 /**
  * A fresh browser context (empty storage of its own) in `browser`, watched for console errors and foreign requests.
  * On empty storage the app starts as for the first time and writes the demo Book. (Restoring a copy of that storage
- * with playwright's storageState, IndexedDB included, took longer than the app's own first start: about 8.6 s against
- * 5.4 s a test on the 2-core machine.)
+ * with playwright's storageState, IndexedDB included, took longer than the app's own first start: medians of 8.6 s
+ * against 5.4 s a test, measured side by side on the shared 2-core machine.)
  */
 export async function openSession(browser: Browser, baseUrl: string, options: StartOptions = {}): Promise<Session> {
   const context = await browser.newContext({ acceptDownloads: true, ...(options.viewport ? { viewport: options.viewport } : {}) });
