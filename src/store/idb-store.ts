@@ -103,6 +103,16 @@ function toStored<C extends CollectionName>(c: C, record: CollectionRecord<C>): 
   return c === 'parts' ? { ...(record as Part), mpnKey: mpnKey((record as Part).mpn) } : record;
 }
 
+/**
+ * The Book as `load()` gives it back after `replaceAll`: each collection in id order, the order IndexedDB keeps
+ * records in. The Book was checked before it was written, so reading it back to check it again is not needed.
+ */
+function asStored(book: Book): Book {
+  const out = { ...book };
+  for (const c of COLLECTIONS) (out as Record<CollectionName, unknown>)[c] = [...book[c]].sort((a, b) => (a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
+  return out;
+}
+
 function fromStoredPart(p: StoredPart): Part {
   const { mpnKey: _derived, ...part } = p;
   return part;
@@ -267,7 +277,7 @@ export class IdbBookStore implements BookStore {
     return existing ? new RevisionConflict(c, id, existing.rev, 0) : error;
   }
 
-  async replaceAll(book: Book): Promise<void> {
+  async replaceAll(book: Book): Promise<Book> {
     this.ensureOpen();
     const shape = changeShapeProblem({ put: Object.fromEntries(COLLECTIONS.map((c) => [c, book[c]])), settings: book.settings });
     if (shape) throw new StoreWriteFailed(shape);
@@ -288,6 +298,7 @@ export class IdbBookStore implements BookStore {
     } catch (e) {
       throw await failed(tx, e);
     }
+    return asStored(book);
   }
 
   /** Schema version recorded in the `meta` store. */

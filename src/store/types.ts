@@ -70,7 +70,10 @@ export interface BookStore {
    * rev + 1. A stale revision rejects with RevisionConflict and nothing is written.
    */
   apply(change: BookChange): Promise<void>;
-  /** Replaces the whole Book (file import, new empty Book, reload demo) in one transaction. */
-  replaceAll(book: Book): Promise<void>;
+  /**
+   * Replaces the whole Book (file import, new empty Book, reload demo) in one transaction. Resolves with the Book as
+   * a later load gives it back (each collection in the store's order).
+   */
+  replaceAll(book: Book): Promise<Book>;
   close(): void;
 }

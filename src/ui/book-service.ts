@@ -283,8 +283,8 @@ export class BookService extends EventTarget {
   /** Replaces the whole Book (empty Book, demo Book, opened file) in one transaction. */
   replaceBook(book: Book): Promise<SaveResult> {
     return this.enqueue(async () => {
-      await this.store.replaceAll(book);
-      this.book = await this.store.load();
+      // The written Book as the store keeps it: it was checked before it came here, so it is not read back.
+      this.book = await this.store.replaceAll(book);
       // A replaced Book may reuse ids and revisions with other content: nothing earlier is merged from.
       this.earlier.clear();
       this.ownRevisions.clear();
