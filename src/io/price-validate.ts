@@ -457,6 +457,7 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
     }
     const groups = new Map<string, Group>();
     const order: Group[] = [];
+    const moqPerBreak: string[] = [];
     for (const r of rows) {
       const c = readCommon(r);
       const key = cell(r, f.mpn) ? `mpn:${mpnKey(cell(r, f.mpn))}` : `code:${cell(r, f.supplierCode).toUpperCase()}`;
@@ -474,12 +475,18 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
       if (!g.common) g.common = c;
       else if (g.ok) {
         const shared = g.common;
+        const part = cell(g.first, f.mpn) || cell(g.first, f.supplierCode);
         const agree = (field: PriceField, a: unknown, b: unknown): void => {
           if (b === undefined || a === b) return;
           if (a === undefined) return;
-          g!.ok = problem(r, f[field], `differs from line ${g!.first.line} for the same part (${String(a)})`);
+          g!.ok = problem(r, f[field], `differs from line ${g!.first.line} for the same part ${part} (${String(a)})`);
         };
-        agree('moq', shared.moq, c.moq);
+        // Distributor files often give an MOQ per price break: the quote's MOQ is the least one can order, the
+        // smallest of them.
+        if (shared.moq !== undefined && c.moq !== undefined && c.moq !== shared.moq) {
+          moqPerBreak.push(`${part} (line ${g.first.line})`);
+          shared.moq = Math.min(shared.moq, c.moq);
+        }
         agree('pack', shared.pack, c.pack);
         agree('leadTime', shared.leadDays, c.leadDays);
         agree('date', shared.date, c.date);
@@ -500,6 +507,12 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
         continue;
       }
       g.rows.push({ r, qty, price: p.price, currency: p.currency });
+    }
+    const perBreak = [...new Set(moqPerBreak)];
+    if (perBreak.length > 0) {
+      notes.push(
+        `MOQ differs between price breaks for ${perBreak.length} part(s) (${perBreak.slice(0, 3).join(', ')}${perBreak.length > 3 ? ', …' : ''}); each quote takes the smallest MOQ given for it`,
+      );
     }
     for (const g of order) {
       if (!g.ok || !g.common) {

@@ -107,9 +107,18 @@ describe('row checks', () => {
     expect(a.problems).toEqual([{ row: 3, column: 'MPN', value: 'qt-r10k-06', reason: 'the same part is already on line 2' }]);
   });
 
-  it('reports long-layout rows of one part that disagree on MOQ', async () => {
+  it('takes the smallest MOQ when a long-layout file gives one per price break, and says so naming the part', async () => {
     const a = await analyse('MPN,Qty,Price,MOQ\nQT-R10K-06,1,0.05,10\nQT-R10K-06,100,0.04,50\n');
-    expect(a.problems).toEqual([{ row: 3, column: 'MOQ', value: '50', reason: 'differs from line 2 for the same part (10)' }]);
+    expect(a.problems).toEqual([]);
+    expect(a.offers).toHaveLength(1);
+    expect(a.offers[0]).toMatchObject({ moq: 10, breaks: [{ qty: 1, price: 0.05 }, { qty: 100, price: 0.04 }] });
+    expect(a.notes.join('\n')).toContain('MOQ differs between price breaks for 1 part(s) (QT-R10K-06 (line 2))');
+  });
+
+  it('names the part and the line when long-layout rows of one part disagree on the pack quantity', async () => {
+    const a = await analyse('MPN,Qty,Price,Pack\nQT-R10K-06,1,0.05,10\nQT-R10K-06,100,0.04,50\n');
+    expect(a.problems).toEqual([{ row: 3, column: 'Pack', value: '50', reason: 'differs from line 2 for the same part QT-R10K-06 (10)' }]);
+    expect(a.offers).toHaveLength(0);
   });
 
   it('defaults MOQ to the first break, pack to 1 and lead time to 0 when the file is silent', async () => {
