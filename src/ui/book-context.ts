@@ -26,6 +26,8 @@ export class BookController implements ReactiveController {
 
   hostConnected(): void {
     this.service?.addEventListener('change', this.onChange);
+    // A page shown again may have missed changes while it was away (a replaced Book): it draws from the Book now.
+    if (this.service) this.host.requestUpdate();
   }
 
   hostDisconnected(): void {

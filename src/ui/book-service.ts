@@ -92,6 +92,11 @@ export class BookService extends EventTarget {
    * memory only: writing a counter into the settings on every save would make every edit in two tabs collide.
    */
   editsSinceExport = 0;
+  /**
+   * How many times this tab replaced the whole Book (empty Book, demo Book, opened file). Pages keep undo steps and
+   * open forms of records; when this moves, those belong to a Book that is gone.
+   */
+  replacements = 0;
   /** Set when the last reload came from another tab's edit, so the shell can say so. */
   lastRemoteChange: Date | undefined;
 
@@ -280,15 +285,26 @@ export class BookService extends EventTarget {
     return result;
   }
 
-  /** Replaces the whole Book (empty Book, demo Book, opened file) in one transaction. */
-  replaceBook(book: Book): Promise<SaveResult> {
-    return this.enqueue(async () => {
+  /**
+   * Replaces the whole Book (empty Book, demo Book, opened file) in one transaction. `openedFileAt` is given when the
+   * Book comes from a Book file: that file is a copy of it, so the reminder to download one counts from then.
+   */
+  async replaceBook(book: Book, openedFileAt?: Date): Promise<SaveResult> {
+    const written = openedFileAt ? { ...book, settings: { ...book.settings, lastExportAt: openedFileAt.toISOString() } } : book;
+    const result = await this.enqueue(async () => {
       // The written Book as the store keeps it: it was checked before it came here, so it is not read back.
-      this.book = await this.store.replaceAll(book);
+      this.book = await this.store.replaceAll(written);
       // A replaced Book may reuse ids and revisions with other content: nothing earlier is merged from.
       this.earlier.clear();
       this.ownRevisions.clear();
+      // Pages drop what they hold of the old Book (undo steps, open forms) when they see the count move.
+      this.replacements += 1;
     });
+    if (result.ok && openedFileAt) {
+      this.editsSinceExport = 0;
+      this.emit('status');
+    }
+    return result;
   }
 
   /** A fresh copy of the demo Book, with built-in checks. */
@@ -302,7 +318,9 @@ export class BookService extends EventTarget {
    */
   empty(): Book {
     const book = withBuiltInChecks(emptyBook());
-    return { ...book, settings: { ...this.book.settings, editsSinceExport: 0 } };
+    // A new Book: the old one's name and the date of its last file do not belong to it.
+    const { lastExportAt: _old, ...kept } = this.book.settings;
+    return { ...book, settings: { ...kept, bookName: defaultSettings().bookName, editsSinceExport: 0 } };
   }
 
   /** Re-reads the Book from storage, dropping the memory copy (after a conflict or another tab's edit). */

@@ -164,7 +164,8 @@ export class RbBookMenu extends LitElement {
     this.busy = 'saving';
     let result: Awaited<ReturnType<typeof service.replaceBook>>;
     try {
-      result = await service.replaceBook(parsed.book);
+      // The opened file is a copy of the Book as it now is: the reminder to download one counts from here.
+      result = await service.replaceBook(parsed.book, new Date());
     } finally {
       this.busy = undefined;
     }

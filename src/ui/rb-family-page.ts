@@ -171,6 +171,20 @@ export class RbFamilyPage extends LitElement {
     this.removeEventListener('keydown', this._onKey);
   }
 
+  /** The Book replacement this page's undo steps and form belong to (see BookService.replacements). */
+  private replacementSeen = 0;
+
+  override willUpdate(): void {
+    const replaced = this.books.service?.replacements ?? 0;
+    if (replaced === this.replacementSeen) return;
+    // The whole Book was replaced: its variants, their undo steps and an open form belong to a Book that is gone.
+    this.replacementSeen = replaced;
+    this.history.clear();
+    this.editing = undefined;
+    this.editFrom = undefined;
+    this.confirmDelete = undefined;
+  }
+
   override render() {
     const book = this.books.book;
     if (!book) return html``;

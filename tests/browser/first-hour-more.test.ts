@@ -1,0 +1,57 @@
+// More of a practitioner's first hour in real Chromium, one test for each stumble: after "Start an empty Book" the
+// rail kept the old Book's name (the company stays, as the settings do), the variant form still showed a variant of
+// the old Book and undo offered its edits; after opening a Book file the rail said no Book file was downloaded yet.
+import { afterEach, describe, expect, inject, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { defaultSettings } from '../../src/domain/book.ts';
+import { demoBook } from '../../src/domain/demo-book.ts';
+import { AppUnderTest, saved, text } from './harness.ts';
+
+const baseUrl = inject('baseUrl');
+const demo = demoBook();
+
+const app = new AppUnderTest(baseUrl);
+afterEach(() => app.close());
+
+async function confirm(page: Page, label: string): Promise<void> {
+  const dialog = page.locator('rb-book-menu dialog[open]');
+  await dialog.waitFor();
+  await dialog.getByRole('button', { name: label }).click();
+  await page.locator('rb-book-menu dialog[open]').waitFor({ state: 'hidden' });
+}
+
+describe('the first hour, more', () => {
+  it('starts an empty Book with a new name, no form or undo step of the old Book, and counts an opened file as a Book file', async () => {
+    const { page, errors } = await app.open('#/family', { ready: '[data-testid="family-table"] tbody tr >> nth=0' });
+    const family = page.locator('rb-family-page');
+    await expect(text(page, '[data-testid="book-name"]')).resolves.toContain(demo.settings.bookName);
+    // An edit to undo, and the form open on a variant of this Book.
+    await family.getByRole('button', { name: 'Duplicate' }).click();
+    await saved(page);
+    await expect(family.getByTestId('undo').isDisabled()).resolves.toBe(false);
+    await family.getByRole('button', { name: 'Details…' }).click();
+    await family.locator('#variant-form-h', { hasText: 'Edit variant' }).waitFor();
+
+    await page.getByRole('button', { name: 'Start an empty Book…' }).click();
+    await confirm(page, 'Empty the Book');
+    await family.locator('.empty', { hasText: 'No variants yet' }).waitFor();
+    await saved(page);
+    await expect(text(page, '[data-testid="book-name"]')).resolves.toBe(`${defaultSettings().bookName} · ${demo.settings.company}`);
+    await expect(family.locator('#variant-form-h').count()).resolves.toBe(0);
+    await expect(family.getByTestId('undo').isDisabled()).resolves.toBe(true);
+    await expect(family.getByTestId('redo').isDisabled()).resolves.toBe(true);
+    await expect(text(page, '[data-testid="export-reminder"]')).resolves.toMatch(/No Book file downloaded yet/);
+
+    // Opening a Book file: that file is a copy of the Book now, so the rail counts from it.
+    await page.locator('rb-book-menu input[type="file"]').setInputFiles({ name: 'demo.rungbook.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify(demo)) });
+    await confirm(page, 'Replace with the file');
+    await page.locator('[data-testid="notice"]', { hasText: 'Opened demo.rungbook.json' }).waitFor();
+    await saved(page);
+    await expect(text(page, '[data-testid="book-name"]')).resolves.toContain(demo.settings.bookName);
+    await expect(text(page, '[data-testid="export-reminder"]')).resolves.toBe('Last Book file today.');
+    await expect(family.getByTestId('undo').isDisabled()).resolves.toBe(true);
+    await page.reload();
+    await page.locator('[data-testid="export-reminder"]', { hasText: 'Last Book file today' }).waitFor();
+    expect(errors).toEqual([]);
+  });
+});
