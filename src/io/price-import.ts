@@ -106,7 +106,8 @@ export async function importPrices(book: Book, bytes: Uint8Array, options: Impor
   const analyseOptions: AnalyseOptions = {
     defaultCurrency: supplier.currency,
     knownCurrencies: knownCurrencies(book),
-    today: todayIso(now),
+    // A row without a date is quoted on the Book's costing date, else on the day of the import.
+    today: book.settings.costingDate ?? todayIso(now),
   };
   const mapping = options.mapping ?? supplier.mapping;
   if (mapping) analyseOptions.mapping = mapping;

@@ -53,6 +53,11 @@ export interface ImportPlan {
   supersededQuotes: number;
   newParts: number;
   skippedOffers: number;
+  /**
+   * Superseded quotes that had a pack or MOQ above 1 while the file has no column for it: their successors fall back
+   * to pack 1 or the first break, so the person is told before importing.
+   */
+  lostPackOrMoq: number;
   reimportOf?: ImportBatch;
   batchId?: string;
 }
@@ -121,6 +126,7 @@ export function planImport(book: Book, analysis: PriceAnalysis, options: PlanOpt
     supersededQuotes: 0,
     newParts: 0,
     skippedOffers: 0,
+    lostPackOrMoq: 0,
   };
   const supplier = book.suppliers.find((s) => s.id === options.supplierId);
   if (!supplier) return { ...plan, reason: `no supplier with id ${options.supplierId} in the Book` };
@@ -192,6 +198,9 @@ export function planImport(book: Book, analysis: PriceAnalysis, options: PlanOpt
   const index = currentQuoteIndex(book.quotes);
   const quotes: Quote[] = [];
   const old: Quote[] = [];
+  const noPack = analysis.mapping.columns['pack'] === undefined;
+  const noMoq = analysis.mapping.columns['moq'] === undefined;
+  let lostPackOrMoq = 0;
   for (const { offer, part } of chosen) {
     const q: Quote = {
       id: newId('quote'),
@@ -210,7 +219,9 @@ export function planImport(book: Book, analysis: PriceAnalysis, options: PlanOpt
     };
     if (offer.expires) q.expires = offer.expires;
     quotes.push(q);
-    old.push(...supersede(index, q));
+    const replaced = supersede(index, q);
+    old.push(...replaced);
+    if (replaced.some((r) => (noPack && r.pack > 1 && q.pack !== r.pack) || (noMoq && r.moq > 1 && q.moq !== r.moq))) lostPackOrMoq++;
   }
   const batch: ImportBatch = {
     id: batchId,
@@ -237,5 +248,6 @@ export function planImport(book: Book, analysis: PriceAnalysis, options: PlanOpt
     newQuotes: quotes.length,
     supersededQuotes: old.length,
     newParts: parts.length,
+    lostPackOrMoq,
   };
 }

@@ -17,6 +17,12 @@ const UNMATCHED_ROWS = 200;
 /** The choice for every unmatched row, by row key, as it stands after a change here. */
 export type ImportDecisionsDetail = { decisions: Record<string, UnmatchedDecision> };
 
+/** The warning for quotes whose pack or MOQ the import replaces with the defaults, naming the missing columns. */
+export function lostPackOrMoqText(a: PriceAnalysis, count: number): string {
+  const missing = [a.mapping.columns['moq'] === undefined ? 'MOQ' : '', a.mapping.columns['pack'] === undefined ? 'pack' : ''].filter(Boolean);
+  return `⚠ This file has no ${missing.join(' or ')} column: ${plural(count, 'quote')} it supersedes had a pack or MOQ above 1, and the new ${count === 1 ? 'quote' : 'quotes'} will have pack 1 and the first break as MOQ. Map the column if the file has one under another name, or check those quotes after importing.`;
+}
+
 @customElement('rb-import-review')
 export class RbImportReview extends LitElement {
   static override styles = [
@@ -66,6 +72,7 @@ export class RbImportReview extends LitElement {
         ${plan.matchedByCode} by supplier code), ${plural(plan.unmatched.length, 'unmatched row')}.
         ${a.offers.length > rows.length ? `The first ${rows.length} are shown.` : ''}
       </p>
+      ${plan.lostPackOrMoq > 0 ? html`<p class="notice" data-testid="lost-pack-moq">${lostPackOrMoqText(a, plan.lostPackOrMoq)}</p>` : ''}
       ${rows.length === 0
         ? html`<p class="empty">No row could be read into a quote.</p>`
         : html`<div class="scroll">

@@ -223,3 +223,34 @@ describe('re-import and undo', () => {
     expect(undoBatch(after, 'batch_nope')).toEqual({ ok: false, reason: 'no import batch with id batch_nope' });
   });
 });
+
+describe('quote date and lost pack or MOQ', () => {
+  it("dates rows without a date on the Book's costing date, not the day of the import", async () => {
+    const book = testBook();
+    book.settings.costingDate = '2026-06-15';
+    const r = await run(book, 'MPN,Price\nQT-C100N-50,0.1\n');
+    expect(r.ok).toBe(true);
+    expect(r.book!.quotes.find((q) => q.batchId === r.summary.batchId)!.date).toBe('2026-06-15');
+    const dated = await run(book, 'MPN,Price,Quote date\nQT-C100N-50,0.1,2026-03-01\n');
+    expect(dated.book!.quotes.find((q) => q.batchId === dated.summary.batchId)!.date).toBe('2026-03-01');
+    const noCostingDate = await run(testBook(), 'MPN,Price\nQT-C100N-50,0.1\n');
+    expect(noCostingDate.book!.quotes.find((q) => q.batchId === noCostingDate.summary.batchId)!.date).toBe('2026-11-30');
+  });
+
+  it('counts the superseded quotes whose pack or MOQ a file without those columns would lose', async () => {
+    const book = testBook();
+    book.quotes = book.quotes.map((q) =>
+      q.id === 'quote_old_r1' ? { ...q, pack: 50 } : q.id === 'quote_old_d1' ? { ...q, moq: 100, breaks: [{ qty: 100, price: 0.05 }] } : q,
+    );
+    const plain = await analyse('MPN,Price\nQT-R10K-06,0.05\nQT-D400-1A,0.2\nQT-C100N-50,0.1\n');
+    const plan = planImport(book, plain, { supplierId: SUPPLIER_ID, fileName: 'p.csv', at: NOW.toISOString() });
+    expect(plan.ok).toBe(true);
+    expect(plan.supersededQuotes).toBe(2);
+    expect(plan.lostPackOrMoq).toBe(2);
+    // A file that gives pack and MOQ says what they are now: nothing is lost silently.
+    const full = await analyse('MPN,Price,MOQ,Pack\nQT-R10K-06,0.05,1,1\nQT-D400-1A,0.2,1,1\n');
+    expect(planImport(book, full, { supplierId: SUPPLIER_ID, fileName: 'p.csv', at: NOW.toISOString() }).lostPackOrMoq).toBe(0);
+    // Quotes that had pack 1 and MOQ 1 lose nothing.
+    expect(planImport(testBook(), plain, { supplierId: SUPPLIER_ID, fileName: 'p.csv', at: NOW.toISOString() }).lostPackOrMoq).toBe(0);
+  });
+});
