@@ -97,6 +97,11 @@ export class BookService extends EventTarget {
    * open forms of records; when this moves, those belong to a Book that is gone.
    */
   replacements = 0;
+  /**
+   * The run last opened on the Runs page in this tab, so the Export page starts on the run just worked on. Kept in
+   * memory for the session only; it names a run of the Book, which may be gone since (pages check).
+   */
+  openedRunId: string | undefined;
   /** Set when the last reload came from another tab's edit, so the shell can say so. */
   lastRemoteChange: Date | undefined;
 

@@ -3,7 +3,7 @@
 // io/run-export.ts, the same module the CLI writes with.
 import { LitElement, css, html } from 'lit';
 import { customElement, state } from 'lit/decorators.js';
-import type { Book } from '../domain/book.ts';
+import type { Book, Run } from '../domain/book.ts';
 import type { Result } from '../domain/costing.ts';
 import { MAX_RUN_QUANTITY } from '../domain/freeze.ts';
 import { isIsoDate } from '../domain/dates.ts';
@@ -23,6 +23,7 @@ import type { DecimalStyle, DelimiterName, ExportOptions, RunCosting } from '../
 import { BookController } from './book-context.ts';
 import { downloadBookFile } from './book-download.ts';
 import type { NoticeDetail } from './rb-book-menu.ts';
+import { sortRuns } from './run-order.ts';
 import { pageStyles } from './styles.ts';
 
 /** Hands bytes to the browser as a download. */
@@ -132,6 +133,16 @@ export class RbExportPage extends LitElement {
   @state() private source: Source | undefined;
   @state() private options: ExportOptions = { ...DEFAULT_EXPORT_OPTIONS };
   private cache: { book: Book; key: string; subject: Subject } | undefined;
+  /** The run opened on the Runs page when this page last chose its source (see BookService.openedRunId). */
+  private openedRunSeen: string | undefined;
+
+  override willUpdate(): void {
+    const opened = this.books.service?.openedRunId;
+    if (opened === this.openedRunSeen) return;
+    this.openedRunSeen = opened;
+    // A run opened on the Runs page since: a run chosen here gives way to it (a variant and quantity stays).
+    if (this.source?.kind !== 'variant') this.source = undefined;
+  }
 
   override render() {
     const book = this.books.book;
@@ -224,14 +235,24 @@ export class RbExportPage extends LitElement {
       ${dateProblem ? html`<span class="problem">${dateProblem}</span>` : html`<span class="hint">optional: gives the purchase list its latest order dates</span>`}`;
   }
 
+  /** The run last opened on the Runs page, else the one that page shows first (wanted soonest). */
+  private defaultRun(book: Book): Run | undefined {
+    const opened = this.books.service?.openedRunId;
+    return book.runs.find((r) => r.id === opened) ?? sortRuns(book.runs)[0];
+  }
+
   private defaultSource(book: Book): Source | undefined {
-    if (book.runs.length > 0) return { kind: 'run', runId: book.runs[0]!.id };
+    const run = this.defaultRun(book);
+    if (run) return { kind: 'run', runId: run.id };
     if (book.variants.length > 0) return { kind: 'variant', variantId: book.variants[0]!.id, quantity: String(book.settings.runSizes[0] ?? 1000), dateWanted: '' };
     return undefined;
   }
 
   private pickSource(book: Book, kind: Source['kind']): void {
-    if (kind === 'run') this.source = book.runs[0] ? { kind: 'run', runId: book.runs[0].id } : undefined;
+    if (kind === 'run') {
+      const run = this.defaultRun(book);
+      this.source = run ? { kind: 'run', runId: run.id } : undefined;
+    }
     else if (book.variants[0]) this.source = { kind: 'variant', variantId: book.variants[0].id, quantity: String(book.settings.runSizes[0] ?? 1000), dateWanted: '' };
   }
 

@@ -9,12 +9,8 @@ import type { RunDraft, RunProblems } from '../domain/freeze.ts';
 import { BookController } from './book-context.ts';
 import { field, focusFirstProblem, nothingSaved, rowActions, saveRefusal } from './form-fields.ts';
 import './rb-run-detail.ts';
+import { sortRuns } from './run-order.ts';
 import { pageStyles } from './styles.ts';
-
-/** Runs by date wanted, then name. */
-function sortRuns(runs: readonly Run[]): Run[] {
-  return [...runs].sort((a, b) => a.dateWanted.localeCompare(b.dateWanted) || a.name.localeCompare(b.name));
-}
 
 type Editing = { run: Run | undefined; draft: RunDraft; problems: RunProblems; saveError?: string; conflict?: boolean };
 
@@ -49,6 +45,8 @@ export class RbRunsPage extends LitElement {
     if (!book) return html``;
     // Without a choice, the run wanted soonest (the first row of the list).
     const chosen = book.runs.find((r) => r.id === this.chosen) ?? sortRuns(book.runs)[0];
+    // The run shown here is the one being worked on: the Export page starts on it.
+    if (this.books.service) this.books.service.openedRunId = chosen?.id;
     return html`${this.editing ? this.renderForm(book, this.editing) : ''} ${this.renderList(book, chosen)}
     ${chosen ? html`<rb-run-detail .runId=${chosen.id}></rb-run-detail>` : ''}`;
   }

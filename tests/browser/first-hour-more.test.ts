@@ -1,11 +1,12 @@
 // More of a practitioner's first hour in real Chromium, one test for each stumble: after "Start an empty Book" the
 // rail kept the old Book's name (the company stays, as the settings do), the variant form still showed a variant of
-// the old Book and undo offered its edits; after opening a Book file the rail said no Book file was downloaded yet.
+// the old Book and undo offered its edits; after opening a Book file the rail said no Book file was downloaded yet;
+// the Export page started on another run than the one just opened on the Runs page.
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { defaultSettings } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { AppUnderTest, saved, text } from './harness.ts';
+import { AppUnderTest, pageLoaded, railTo, saved, text } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
@@ -52,6 +53,32 @@ describe('the first hour, more', () => {
     await expect(family.getByTestId('undo').isDisabled()).resolves.toBe(true);
     await page.reload();
     await page.locator('[data-testid="export-reminder"]', { hasText: 'Last Book file today' }).waitFor();
+    expect(errors).toEqual([]);
+  });
+
+  it('starts the Export page on the run last opened on the Runs page', async () => {
+    const { page, errors } = await app.open('#/runs', { ready: '[data-testid="runs-table"]' });
+    const runs = [...demo.runs].sort((a, b) => a.dateWanted.localeCompare(b.dateWanted));
+    const later = runs[runs.length - 1]!;
+    const sooner = runs[0]!;
+    const open = async (name: string): Promise<void> => {
+      await railTo(page, '#/runs');
+      await pageLoaded(page, 'Runs');
+      await page.locator('[data-testid="runs-table"] button.quiet', { hasText: name }).click();
+      await page.locator('[data-testid="runs-table"] button[aria-pressed="true"]', { hasText: name }).waitFor();
+    };
+    const exported = async (): Promise<string> => {
+      await railTo(page, '#/export');
+      await pageLoaded(page, 'Export');
+      await page.locator('#x-run').waitFor();
+      return page.locator('#x-run').inputValue();
+    };
+    // With no run opened yet, the run the Runs page shows first: the one wanted soonest.
+    await expect(exported()).resolves.toBe(sooner.id);
+    await open(later.name);
+    await expect(exported()).resolves.toBe(later.id);
+    await open(sooner.name);
+    await expect(exported()).resolves.toBe(sooner.id);
     expect(errors).toEqual([]);
   });
 });
