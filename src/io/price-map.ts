@@ -249,7 +249,7 @@ export function parseColumnMapping(json: unknown): { ok: true; mapping: ColumnMa
  * Resolves columns: entries of the given mapping whose header is in the file come first, then header guesses fill
  * the rest. Duplicate headers are reported; a duplicate that a field depends on blocks the import.
  */
-export function resolveMapping(headers: string[], headerLine: number, given?: ColumnMapping): ResolvedMapping {
+export function resolveMapping(headers: string[], headerLine: number, given?: ColumnMapping, unused: readonly string[] = []): ResolvedMapping {
   const notes: string[] = [];
   const problems: PriceProblem[] = [];
   const fields: Partial<Record<PriceField, number>> = {};
@@ -296,12 +296,18 @@ export function resolveMapping(headers: string[], headerLine: number, given?: Co
       else assign(col, what);
     }
   }
+  // A key set to "not used" stays so: its header words are not guessed again.
+  const notUsed = new Set(unused);
   headers.forEach((h, col) => {
     if (used.has(col) || h.trim() === '') return;
     const b = breakHeader(h);
-    if (b) return assign(col, b);
+    if (b) {
+      const keys = b.kind === 'fixed' ? [`price@${b.qty}`] : b.kind === 'price' ? [`price${b.index}`, `price@${b.index}`] : [`qty${b.index}`];
+      if (!keys.some((k) => notUsed.has(k))) assign(col, b);
+      return;
+    }
     const f = guessField(h);
-    if (f) assign(col, { field: f });
+    if (f && !notUsed.has(f)) assign(col, { field: f });
   });
 
   // "Price 3" without a "Qty 3" beside it names the break quantity itself.

@@ -60,6 +60,8 @@ export interface AnalyseOptions {
   knownCurrencies: readonly string[];
   /** Quote date used when the file gives none (YYYY-MM-DD). */
   today: string;
+  /** Mapping keys the person set to "not used": never guessed from header words. */
+  unused?: readonly string[];
 }
 
 export interface PriceAnalysis {
@@ -143,7 +145,7 @@ export async function analysePriceFile(
     return { ...a, ...decodeNotes };
   }
   const t = read.table;
-  const map = resolveMapping(t.headers, t.headerLine, options.mapping);
+  const map = resolveMapping(t.headers, t.headerLine, options.mapping, options.unused);
   // Until the columns are settled (no price or part column, an ambiguous duplicate), checking rows would only
   // repeat the same complaint on every line: report the mapping problems alone.
   const mappingBlocked = map.problems.length > 0;

@@ -18,7 +18,24 @@ export interface FieldOptions {
   choices?: readonly string[];
   multiline?: boolean;
   size?: 'short' | 'long';
+  /** A pre-filled value that is usually replaced: focusing the input selects it, so typing replaces it. */
+  selectOnFocus?: boolean;
 }
+
+/** Selects the whole text when the input takes focus; the click that focused it does not undo the selection. */
+const selectOnFocus = {
+  focus(ev: FocusEvent): void {
+    const input = ev.target as HTMLInputElement;
+    input.select();
+    input.dataset['selectedOnFocus'] = '1';
+  },
+  mouseup(ev: MouseEvent): void {
+    const input = ev.target as HTMLInputElement;
+    if (input.dataset['selectedOnFocus'] !== '1') return;
+    delete input.dataset['selectedOnFocus'];
+    ev.preventDefault();
+  },
+};
 
 /** Ids for inputs inside one form's shadow root: the field name made safe for an id. */
 export function fieldId(name: string): string {
@@ -62,6 +79,8 @@ export function field(o: FieldOptions): TemplateResult {
           aria-invalid=${o.problem ? 'true' : 'false'}
           aria-describedby=${described ?? nothing}
           @input=${onInput}
+          @focus=${o.selectOnFocus ? selectOnFocus.focus : nothing}
+          @mouseup=${o.selectOnFocus ? selectOnFocus.mouseup : nothing}
         />`;
   return html`<label for=${id}>${o.label}</label>
     ${control}

@@ -52,6 +52,10 @@ export interface ImportDone {
   skipped: number;
   validOnly: boolean;
   leftOut: number;
+  /** The batch written, to tell when it has been undone. */
+  batchId: string;
+  /** Parts the import created, by id and maker part number: undo removes quotes, not parts. */
+  createdParts: { id: string; mpn: string }[];
 }
 
 export function countLines(bytes: Uint8Array): number {
@@ -65,6 +69,16 @@ export function plural(n: number, one: string, many = `${one}s`): string {
   return `${grouped(n)} ${n === 1 ? one : many}`;
 }
 
+/** Whether a file's resolved columns and layout are exactly the mapping remembered for its supplier. */
+export function sameColumns(remembered: ColumnMapping | undefined, analysis: PriceAnalysis): boolean {
+  if (!remembered || !analysis.readable || analysis.problems.some((p) => p.row === analysis.headerLine)) return false;
+  const a = remembered.columns;
+  const b = analysis.mapping.columns;
+  const keys = Object.keys(a);
+  if (keys.length === 0 || keys.length !== Object.keys(b).length || remembered.layout !== analysis.mapping.layout) return false;
+  return keys.every((k) => b[k] !== undefined && b[k].trim().toLowerCase() === a[k]!.trim().toLowerCase());
+}
+
 export class ImportController implements ReactiveController {
   supplierId = '';
   source: ImportSource | undefined;
@@ -72,7 +86,11 @@ export class ImportController implements ReactiveController {
   overrides: ImportOverrides = {};
   /** Columns chosen on this page; undefined while the supplier's remembered mapping and guesses stand. */
   chosenColumns: Record<string, string> | undefined;
+  /** Keys set to "not used" on this page: they stay so, never guessed again from header words. */
+  unusedKeys: string[] = [];
   mappingConfirmed = false;
+  /** The file's columns are exactly those remembered for the supplier: the mapping stands confirmed without asking. */
+  mappingRemembered = false;
   phase: ImportPhase = { kind: 'idle' };
   decisions: Record<string, UnmatchedDecision> = {};
   allowReimport = false;
@@ -160,6 +178,7 @@ export class ImportController implements ReactiveController {
     for (const [k, h] of Object.entries(columns)) if (h === header && k !== key) delete columns[k];
     if (header === '') delete columns[key];
     else columns[key] = header;
+    this.unusedKeys = header === '' ? [...new Set([...this.unusedKeys, key])] : this.unusedKeys.filter((k) => k !== key);
     this.reanalyse({ chosenColumns: columns });
   }
 
@@ -192,8 +211,10 @@ export class ImportController implements ReactiveController {
   /** Reads the chosen file again with the current supplier, overrides and mapping; any earlier reading is stopped. */
   reanalyse(patch: { chosenColumns?: Record<string, string> | undefined; overrides?: ImportOverrides }): void {
     if ('chosenColumns' in patch) this.chosenColumns = patch.chosenColumns;
+    if (!this.chosenColumns) this.unusedKeys = [];
     if (patch.overrides) this.overrides = patch.overrides;
     this.mappingConfirmed = false;
+    this.mappingRemembered = false;
     this.commitProblem = undefined;
     this.abort?.abort();
     this.host.requestUpdate();
@@ -214,6 +235,7 @@ export class ImportController implements ReactiveController {
     };
     const mapping = this.mappingForAnalysis(supplier);
     if (mapping) options.mapping = mapping;
+    if (this.unusedKeys.length > 0) options.unused = [...this.unusedKeys];
     const o = this.overrides;
     if (o.encoding) options.encoding = o.encoding;
     if (o.decimal) options.decimal = o.decimal;
@@ -240,6 +262,8 @@ export class ImportController implements ReactiveController {
         if (abort.signal.aborted) return;
         this.planCache = undefined;
         this.phase = { kind: 'read', analysis, seconds: (performance.now() - started) / 1000 };
+        this.mappingRemembered = !this.chosenColumns && sameColumns(supplier.mapping, analysis);
+        if (this.mappingRemembered) this.mappingConfirmed = true;
         this.host.requestUpdate();
       },
       (e: unknown) => {
@@ -321,11 +345,14 @@ export class ImportController implements ReactiveController {
       skipped: plan.skippedOffers,
       validOnly: validRowsOnly,
       leftOut: plan.problems.length,
+      batchId: plan.batchId ?? '',
+      createdParts: (plan.change.put?.parts ?? []).map((x) => ({ id: x.id, mpn: x.mpn })),
     };
     // The file is spent: a second click must not import it twice.
     this.source = undefined;
     this.phase = { kind: 'idle' };
     this.chosenColumns = undefined;
+    this.unusedKeys = [];
     this.mappingConfirmed = false;
     this.decisions = {};
     this.allowReimport = false;

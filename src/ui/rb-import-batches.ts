@@ -71,13 +71,13 @@ export class RbImportBatches extends LitElement {
               </tbody>
             </table>
           </div>`}
+      ${this.renderMessage()}
     </section>`;
   }
 
   private renderRow(book: Book, b: ImportBatch) {
     const supplier = book.suppliers.find((s) => s.id === b.supplierId);
     const again = earlierSameFile(book, b);
-    const msg = this.message?.id === b.id ? this.message : undefined;
     return html`<tr data-id=${b.id} class=${b.undone ? 'undone' : ''}>
       <td class="code">${b.fileName}</td>
       <td>${supplier?.name ?? b.supplierId}</td>
@@ -99,9 +99,15 @@ export class RbImportBatches extends LitElement {
                 <button type="button" class="danger" @click=${() => this.undo(b)}>Undo</button>
                 <button type="button" class="quiet" @click=${() => (this.confirming = undefined)}>Keep</button>`
             : html`<button type="button" class="quiet" @click=${() => this.ask(b)}>undo</button>`}
-        ${msg ? html`<div class=${msg.ok ? 'done' : 'problem'} role=${msg.ok ? 'status' : 'alert'}>${msg.ok ? '✓' : '✗'} ${msg.text}</div>` : ''}
       </td>
     </tr>`;
+  }
+
+  /** The outcome of the last undo, under the table where it has the full width (the actions column does not wrap). */
+  private renderMessage() {
+    const msg = this.message;
+    if (!msg) return '';
+    return html`<p class=${msg.ok ? 'done' : 'problem'} role=${msg.ok ? 'status' : 'alert'} data-testid="undo-result">${msg.ok ? '✓' : '✗'} ${msg.text}</p>`;
   }
 
   private ask(b: ImportBatch): void {
@@ -115,14 +121,14 @@ export class RbImportBatches extends LitElement {
     if (!service) return;
     const r = undoBatch(service.book, b.id);
     if (!r.ok) {
-      this.message = { id: b.id, text: `Not undone: ${r.reason}.`, ok: false };
+      this.message = { id: b.id, text: `${b.fileName} not undone: ${r.reason}.`, ok: false };
       return;
     }
     const restored = r.change.put?.quotes?.length ?? 0;
     const removed = r.change.delete?.quotes?.length ?? 0;
     const saved = await service.save(r.change);
     this.message = saved.ok
-      ? { id: b.id, text: `Undone: ${removed} quote(s) removed, ${restored} restored.`, ok: true }
+      ? { id: b.id, text: `Undone the import of ${b.fileName}: ${removed} quote(s) removed, ${restored} restored.`, ok: true }
       : { id: b.id, text: saved.message, ok: false };
   }
 }

@@ -88,7 +88,11 @@ export class RbImportMapping extends LitElement {
   @property({ attribute: false }) remembered: Record<string, string> | undefined;
   /** Columns the person chose here, if any. */
   @property({ attribute: false }) chosen: Record<string, string> | undefined;
+  /** Keys the person set to "not used" here. */
+  @property({ attribute: false }) unused: readonly string[] = [];
   @property({ type: Boolean }) confirmed = false;
+  /** Confirmed because the file's columns are exactly those remembered for the supplier. */
+  @property({ type: Boolean }) matchesRemembered = false;
 
   override render() {
     const a = this.analysis;
@@ -110,10 +114,13 @@ export class RbImportMapping extends LitElement {
       </div>
       <p class="muted">
         Layout: <strong>${a.layout === 'wide' ? 'wide — several quantity / price pairs on one row' : 'long — one row per price break'}</strong>.
-        A field set to “not used” may be guessed again from its header words.
+        A field set to “not used” stays unused until you choose a column for it.
       </p>
       <div class="confirm">
-        ${this.confirmed
+        ${this.confirmed && this.matchesRemembered
+          ? html`<span class="ok" data-testid="mapping-confirmed">✓ Same columns as remembered for this supplier: ready to import</span>
+              <span class="muted">Change any field above to check the mapping again.</span>`
+          : this.confirmed
           ? html`<span class="ok" data-testid="mapping-confirmed">✓ Mapping confirmed</span>`
           : html`<button type="button" class="primary" @click=${this._onConfirm}>Confirm this mapping</button>
               <span class="muted">Check each field reads the right column before importing.</span>`}
@@ -124,7 +131,9 @@ export class RbImportMapping extends LitElement {
     const header = a.mapping.columns[key] ?? '';
     const from =
       header === ''
-        ? { cls: 'none', text: 'not found' }
+        ? this.unused.includes(key)
+          ? { cls: 'chosen', text: 'not used, chosen here' }
+          : { cls: 'none', text: 'not found' }
         : this.chosen?.[key] === header
           ? { cls: 'chosen', text: 'chosen here' }
           : this.remembered?.[key] === header

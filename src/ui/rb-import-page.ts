@@ -31,7 +31,10 @@ export class RbImportPage extends LitElement {
     if (!book) return html``;
     const w = this.work;
     const p = w.phase;
-    return html`${w.done ? html`<rb-import-done .done=${w.done}></rb-import-done>` : ''}
+    const done = w.done;
+    const undone = done !== undefined && book.importBatches.some((b) => b.id === done.batchId && b.undone === true);
+    const remaining = done ? done.createdParts.filter((c) => book.parts.some((x) => x.id === c.id)).map((c) => c.mpn) : [];
+    return html`${done ? html`<rb-import-done .done=${done} ?undone=${undone} .remainingParts=${remaining}></rb-import-done>` : ''}
       <rb-import-source
         .supplierId=${w.supplierId}
         .source=${w.source}
@@ -76,7 +79,9 @@ export class RbImportPage extends LitElement {
           .analysis=${a}
           .remembered=${supplier.mapping?.columns}
           .chosen=${w.chosenColumns}
+          .unused=${w.unusedKeys}
           ?confirmed=${w.mappingConfirmed}
+          .matchesRemembered=${w.mappingRemembered}
           @rb-mapping-change=${(e: HTMLElementEventMap['rb-mapping-change']) => w.mapColumn(e.detail.key, e.detail.header)}
           @rb-mapping-confirm=${() => w.confirmMapping()}
         ></rb-import-mapping>

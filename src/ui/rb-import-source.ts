@@ -158,6 +158,7 @@ export class RbImportSource extends LitElement {
         value: d.currency,
         problem: ns.problems.currency,
         hint: 'prices without a currency are read in this one (ISO 4217)',
+        selectOnFocus: true,
         onInput: (v) => {
           const c = v.trim().toUpperCase();
           const known = c === base ? '1' : book.settings.rates[c];

@@ -136,7 +136,8 @@ describe('price file import through the app', () => {
     await expect(page.locator('[data-testid="supplier-mapping"]').textContent()).resolves.toMatch(/mapping from an earlier import is remembered/);
     await readFile(page, DEMO_PATH);
     await expect(page.locator('[data-key="mpn"] .from').textContent()).resolves.toBe('remembered for this supplier');
-    await page.getByRole('button', { name: 'Confirm this mapping' }).click();
+    // The same columns as remembered: the mapping stands confirmed without asking again.
+    await expect(text(page, '[data-testid="mapping-confirmed"]')).resolves.toMatch(/Same columns as remembered/);
     const notice = page.locator('[data-testid="reimport-notice"]');
     await notice.waitFor();
     await expect(notice.textContent()).resolves.toContain(DEMO_FILE);

@@ -82,6 +82,16 @@ describe('wide layout columns', () => {
     expect(m.saved).toEqual({ layout: 'wide', columns: { mpn: 'MPN', moq: 'MOQ', qty1: 'Qty 1', price1: 'Price 1', qty2: 'Qty 2', price2: 'Price 2' } });
   });
 
+  it('never guesses a field or break the person set to "not used"', async () => {
+    const headers = ['MPN', 'Qty 1', 'Price 1', 'Qty 2', 'Price 2', 'MOQ', 'Pack'];
+    const m = resolveMapping(headers, 1, { layout: 'wide', columns: { mpn: 'MPN' } }, ['moq', 'qty2', 'price2']);
+    expect(m.saved.columns).toEqual({ mpn: 'MPN', pack: 'Pack', qty1: 'Qty 1', price1: 'Price 1' });
+    expect(m.breaks).toEqual([{ qtyCol: 1, priceCol: 2 }]);
+    const a = await analyse('MPN,Qty,Price,MOQ\nQT-R10K-06,1,0.05,10\n', { unused: ['moq'] });
+    expect(a.mapping.columns['moq']).toBeUndefined();
+    expect(a.offers[0]!.moq).toBe(1);
+  });
+
   it('reads a "10+ / 100+ / 1000+" file into three breaks per row', async () => {
     const a = await analyse('MPN,1+,10+,100+\nQT-R10K-06,0.05,0.04,0.03\n');
     expect(a.problems).toEqual([]);
