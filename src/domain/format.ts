@@ -14,14 +14,25 @@ export function fixed(n: number, digits: number): string {
   return n.toLocaleString(LOCALE, { minimumFractionDigits: digits, maximumFractionDigits: digits });
 }
 
+/**
+ * Decimals of money on every page: unit costs, prices, totals and the differences between them, to the cent (as the
+ * Family page, the Runs page's totals and the charts show them).
+ */
+export const MONEY_DIGITS = 2;
+/**
+ * Decimals of a part's cost per finished unit, the one place money keeps more: a cheap part (a resistor at 0.0012 a
+ * unit) would read 0.00 to the cent.
+ */
+export const PART_UNIT_DIGITS = 4;
+
 /** A money figure with grouping and a fixed number of decimals (the currency is named in headings); — when not a number. */
-export function money(amount: number, digits = 4): string {
+export function money(amount: number, digits = MONEY_DIGITS): string {
   if (!Number.isFinite(amount)) return '—';
   return fixed(amount, digits);
 }
 
-/** A signed money figure for differences: "+0.1234", "−0.0500", "0.0000". */
-export function signedMoney(amount: number, digits = 4): string {
+/** A signed money figure for differences: "+0.12", "−0.05", "0.00" (with `digits` 4: "+0.1234"). */
+export function signedMoney(amount: number, digits = MONEY_DIGITS): string {
   const r = Number(amount.toFixed(digits));
   if (r === 0) return money(0, digits);
   return `${r > 0 ? '+' : '−'}${money(Math.abs(r), digits)}`;

@@ -74,8 +74,10 @@ export class RbComparePage extends LitElement {
     if (!book || !service) return;
     this.costs.sync(book);
     const ids = new Set(book.variants.map((v) => v.id));
-    let chosen = (this.chosen ?? []).filter((id) => ids.has(id));
-    if (this.chosen === undefined || (chosen.length === 0 && book.variants.length > 0)) {
+    const had = this.chosen ?? [];
+    let chosen = had.filter((id) => ids.has(id));
+    // The first few when the page opens, or when every chosen variant is gone; "None" chooses none and stays so.
+    if (this.chosen === undefined || (had.length > 0 && chosen.length === 0 && book.variants.length > 0)) {
       chosen = book.variants.slice(0, book.variants.length <= FIRST_FEW + 2 ? book.variants.length : FIRST_FEW).map((v) => v.id);
     }
     if (chosen.length !== this.chosen?.length) this.chosen = chosen;
@@ -94,6 +96,10 @@ export class RbComparePage extends LitElement {
     const onRun = (e: HTMLElementEventMap['rb-compare-run']): void => {
       this.splitRun = e.detail.run;
     };
+    if (chosen.length === 0) {
+      return html`${n > 0 || c.keepError ? this.renderWhatIfBar(n) : ''}${this.renderChoice(book)}
+        <p class="empty" data-testid="compare-none">No variants chosen: tick the variants to compare above.</p>`;
+    }
     return html`${n > 0 || c.keepError ? this.renderWhatIfBar(n) : ''}${this.renderChoice(book)}
       <rb-compare-side .book=${book} .chosen=${chosen} .costs=${c} .revision=${c.revision}></rb-compare-side>
       <rb-compare-whatif .book=${book} .chosen=${chosen} .costs=${c} .revision=${c.revision} .run=${this.splitRun}></rb-compare-whatif>

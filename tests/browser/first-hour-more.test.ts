@@ -1,12 +1,14 @@
 // More of a practitioner's first hour in real Chromium, one test for each stumble: after "Start an empty Book" the
 // rail kept the old Book's name (the company stays, as the settings do), the variant form still showed a variant of
 // the old Book and undo offered its edits; after opening a Book file the rail said no Book file was downloaded yet;
-// the Export page started on another run than the one just opened on the Runs page.
+// the Export page started on another run than the one just opened on the Runs page; on Compare "None" chose the first
+// four, the difference section ignored the ticked variants and took only the Book's run sizes, and money showed four
+// decimals there and two elsewhere.
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { defaultSettings } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { AppUnderTest, pageLoaded, railTo, saved, text } from './harness.ts';
+import { AppUnderTest, WIDE_VIEWPORT, pageLoaded, railTo, readerText, saved, text } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
@@ -79,6 +81,49 @@ describe('the first hour, more', () => {
     await expect(exported()).resolves.toBe(later.id);
     await open(sooner.name);
     await expect(exported()).resolves.toBe(sooner.id);
+    expect(errors).toEqual([]);
+  });
+
+  it('on Compare, chooses none with "None", compares the ticked variants at any run size, and shows money to the cent', async () => {
+    const { page, errors } = await app.open('#/compare', { viewport: WIDE_VIEWPORT, ready: '[data-testid="compare-table"]' });
+    const choices = page.locator('[data-testid="compare-choices"] input[type="checkbox"]');
+    const compare = page.locator('rb-compare-page');
+    await compare.getByRole('button', { name: 'None', exact: true }).click();
+    await page.locator('[data-testid="compare-none"]').waitFor();
+    await expect(choices.evaluateAll((cs) => cs.filter((c) => (c as HTMLInputElement).checked).length)).resolves.toBe(0);
+    await expect(page.locator('[data-testid="compare-table"]').count()).resolves.toBe(0);
+
+    // Tick two variants that are not the first two: the difference section offers just those.
+    const codes = demo.variants.map((v) => v.code);
+    const ticked = [...demo.variants].slice(-2);
+    for (const v of ticked) await page.locator('[data-testid="compare-choices"] label', { hasText: v.code }).locator('input').check();
+    await page.locator('[data-testid="difference-table"]').waitFor();
+    const diff = page.locator('rb-compare-difference');
+    const offered = async (label: string): Promise<string[]> => (await diff.getByLabel(label, { exact: true }).locator('option').allTextContents()).map(readerText);
+    const tickedCodes = ticked.map((v) => v.code).sort();
+    expect(codes.length).toBeGreaterThan(2);
+    expect((await offered('variant A')).sort()).toEqual(tickedCodes);
+    expect((await offered('variant B')).sort()).toEqual(tickedCodes);
+    const [a, b] = await Promise.all(['variant A', 'variant B'].map((l) => diff.getByLabel(l, { exact: true }).inputValue()));
+    expect(new Set([a, b])).toEqual(new Set(ticked.map((v) => v.id)));
+
+    // Any run size, typed beside the Book's run sizes.
+    const before = await text(page, '[data-testid="difference-total"]');
+    await diff.getByTestId('difference-run').fill('3700');
+    await diff.getByTestId('difference-run').press('Enter');
+    await diff.locator('p.why', { hasText: 'a run of 3,700 units' }).waitFor();
+    await expect(diff.getByLabel('run size', { exact: true }).inputValue()).resolves.toBe('3700');
+    expect(await text(page, '[data-testid="difference-total"]')).toMatch(/^[+−]?\d[\d,]*\.\d\d$/);
+    await diff.getByLabel('run size', { exact: true }).selectOption(String(demo.settings.runSizes[0]));
+    await diff.locator('p.why', { hasText: `a run of ${demo.settings.runSizes[0]!.toLocaleString('en-GB')} units` }).waitFor();
+    expect(before).toMatch(/^[+−]?\d[\d,]*\.\d\d$/);
+
+    // Money to the cent as on other pages; a line's part cost per unit keeps four decimals.
+    const costs = (await page.locator('[data-testid="unit-cost"]').allTextContents()).map((t) => readerText(t).replace('▼', '').trim());
+    expect(costs.length).toBeGreaterThan(0);
+    for (const c of costs) expect(c).toMatch(/^\d[\d,]*\.\d\d$/);
+    const line = page.locator('[data-testid="difference-table"] tr[data-line] td.num');
+    if ((await line.count()) > 0) expect(readerText(await line.first().textContent())).toMatch(/^\d[\d,]*\.\d{4}$/);
     expect(errors).toEqual([]);
   });
 });

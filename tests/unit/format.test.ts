@@ -1,7 +1,7 @@
 // The one number formatter: one locale, grouped counts, fixed decimals, money with and without its currency, and
 // short figures for messages.
 import { describe, expect, it } from 'vitest';
-import { LOCALE, currencyMoney, fixed, grouped, money, signedMoney, significant } from '../../src/domain/format.ts';
+import { LOCALE, PART_UNIT_DIGITS, currencyMoney, fixed, grouped, money, signedMoney, significant } from '../../src/domain/format.ts';
 
 describe('format', () => {
   it('writes figures in one locale', () => {
@@ -16,16 +16,19 @@ describe('format', () => {
     expect(fixed(0.12345, 4)).toBe('0.1235');
     expect(fixed(12, 0)).toBe('12');
   });
-  it('writes money to four decimals by default, a dash when it is not a number', () => {
-    expect(money(1.5)).toBe('1.5000');
-    expect(money(1234.5, 2)).toBe('1,234.50');
+  it('writes money to the cent by default, a part’s cost per unit to four decimals, a dash when it is not a number', () => {
+    expect(money(1.5)).toBe('1.50');
+    expect(money(1234.5)).toBe('1,234.50');
+    expect(money(0.0012, PART_UNIT_DIGITS)).toBe('0.0012');
     expect(money(Number.NaN)).toBe('—');
     expect(money(Number.POSITIVE_INFINITY)).toBe('—');
   });
   it('signs a difference with a true minus and no sign for zero', () => {
-    expect(signedMoney(0.1234)).toBe('+0.1234');
-    expect(signedMoney(-0.05)).toBe('−0.0500');
-    expect(signedMoney(-0.00001)).toBe('0.0000');
+    expect(signedMoney(0.1234)).toBe('+0.12');
+    expect(signedMoney(-0.05)).toBe('−0.05');
+    expect(signedMoney(-0.001)).toBe('0.00');
+    expect(signedMoney(0.1234, PART_UNIT_DIGITS)).toBe('+0.1234');
+    expect(signedMoney(-0.00001, PART_UNIT_DIGITS)).toBe('0.0000');
   });
   it('puts the currency sign before money, and leaves out a code the platform does not know', () => {
     expect(currencyMoney(1234.5, 'EUR')).toBe('€1,234.50');
