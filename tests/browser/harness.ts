@@ -4,6 +4,7 @@
 // wait for a save, read text as a reader sees it. When a test fails, every page it had open is saved as a screenshot.
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 import { TestRunner, afterAll, beforeAll } from 'vitest';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 
@@ -195,3 +196,21 @@ export async function partRows(page: Page): Promise<number> {
 }
 
 export type { Browser };
+
+/** Files a test writes to hand to the app (price files, Book files), in a folder of their own removed after each test. */
+export class TempFiles {
+  private dir: string | undefined;
+  constructor(private readonly prefix: string) {}
+
+  write(name: string, text: string): string {
+    this.dir ??= mkdtempSync(join(tmpdir(), `${this.prefix}-`));
+    const path = join(this.dir, name);
+    writeFileSync(path, text, 'utf8');
+    return path;
+  }
+
+  clear(): void {
+    if (this.dir) rmSync(this.dir, { recursive: true, force: true });
+    this.dir = undefined;
+  }
+}

@@ -3,12 +3,11 @@
 // last row is bad commits nothing; a second import of the same file is reported.
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { mpnKey } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { AppUnderTest, railTo, saved, text } from './harness.ts';
+import { AppUnderTest, TempFiles, railTo, saved, text } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
@@ -19,19 +18,12 @@ const DEMO_PATH = join(process.cwd(), 'public', 'demo', DEMO_FILE);
 const HEADER = 'Mfr Part No,Description,Supplier Part,Break Qty,Unit Price (USD),Min Order Qty,Pack Size,Lead Time (weeks),Quoted On';
 
 const app = new AppUnderTest(baseUrl);
-let tmp: string | undefined;
+const files = new TempFiles('rungbook-prices');
 afterEach(async () => {
   await app.close();
-  if (tmp) rmSync(tmp, { recursive: true, force: true });
-  tmp = undefined;
+  files.clear();
 });
-
-function writeTemp(name: string, text: string): string {
-  tmp ??= mkdtempSync(join(tmpdir(), 'rungbook-prices-'));
-  const path = join(tmp, name);
-  writeFileSync(path, text, 'utf8');
-  return path;
-}
+const writeTemp = (name: string, text: string): string => files.write(name, text);
 
 /** Rows of the quotes table (the demo Book has fewer quotes than one screenful, so all of them are drawn). */
 async function quoteRows(page: Page): Promise<number> {

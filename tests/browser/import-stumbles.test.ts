@@ -4,11 +4,8 @@
 // remembered mapping whose columns match standing confirmed.
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { AppUnderTest, saved, text } from './harness.ts';
+import { AppUnderTest, TempFiles, saved, text } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
@@ -19,19 +16,12 @@ const PACKED_MPN = demo.parts.find((p) => p.id === PACKED.partId)!.mpn;
 const NEW_MPN = 'QX-INVENTED-77';
 
 const app = new AppUnderTest(baseUrl);
-let tmp: string | undefined;
+const files = new TempFiles('rungbook-stumbles');
 afterEach(async () => {
   await app.close();
-  if (tmp) rmSync(tmp, { recursive: true, force: true });
-  tmp = undefined;
+  files.clear();
 });
-
-function writeTemp(name: string, body: string): string {
-  tmp ??= mkdtempSync(join(tmpdir(), 'rungbook-stumbles-'));
-  const path = join(tmp, name);
-  writeFileSync(path, body, 'utf8');
-  return path;
-}
+const writeTemp = (name: string, text: string): string => files.write(name, text);
 
 async function readFile(page: Page, path: string): Promise<void> {
   await page.locator('#import-supplier').selectOption(KELVARO.id);
