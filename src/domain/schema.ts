@@ -142,7 +142,8 @@ const objectMessage =
   (issue: Issue): string =>
     issue.path?.[0]?.origin === 'key' && issue.input === undefined ? 'is missing' : `must be ${what}, not ${kindOf(issue.input)}`;
 
-function isObject(x: unknown): x is Record<string, unknown> {
+/** A JSON object: not null, not a list. */
+export function isObject(x: unknown): x is Record<string, unknown> {
   return typeof x === 'object' && x !== null && !Array.isArray(x);
 }
 

@@ -1,6 +1,7 @@
 // Numbered steps of the Book file format, like the store's: each brings parsed file data of version `version - 1` to
 // `version`. A released step is never edited; a new format is one more step at the end. The steps work on raw JSON
 // and leave anything they do not recognise as it is, for the schema to name.
+import { isObject } from '../domain/schema.ts';
 
 export interface FileMigration {
   /** File version this step produces; steps are 2, 3… in order (version 1 is the first format). */
@@ -9,9 +10,6 @@ export interface FileMigration {
   up(raw: Record<string, unknown>): Record<string, unknown>;
 }
 
-function isObject(x: unknown): x is Record<string, unknown> {
-  return typeof x === 'object' && x !== null && !Array.isArray(x);
-}
 
 export const FILE_MIGRATIONS: readonly FileMigration[] = [
   {

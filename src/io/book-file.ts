@@ -4,7 +4,7 @@
 import { COLLECTIONS } from '../domain/book.ts';
 import { isIsoTime } from '../domain/dates.ts';
 import type { Book, Quote } from '../domain/book.ts';
-import { BOOK_FORMAT, BOOK_VERSION, checkBook, short } from '../domain/schema.ts';
+import { BOOK_FORMAT, BOOK_VERSION, checkBook, isObject, short } from '../domain/schema.ts';
 import type { SchemaProblem } from '../domain/schema.ts';
 import { FILE_MIGRATIONS, migrateFile } from './book-file-migrations.ts';
 import { jsonProblemMessage } from './json-locate.ts';
@@ -164,9 +164,6 @@ function fail(problems: BookFileProblem[], total = problems.length): BookFileRes
   return { ok: false, problems: problems.slice(0, MAX_REPORTED_PROBLEMS), total };
 }
 
-function isObject(x: unknown): x is Record<string, unknown> {
-  return typeof x === 'object' && x !== null && !Array.isArray(x);
-}
 
 /** Validates parsed JSON of any released file version and restores it into a Book, filling defaults. */
 export function restoreBook(raw: unknown): BookFileResult {

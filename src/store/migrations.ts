@@ -3,7 +3,7 @@
 import type { IDBPDatabase, IDBPTransaction } from 'idb';
 import { defaultSettings, mpnKey, PART_KINDS } from '../domain/book.ts';
 import type { Part, PartKind, PriceBreak, Quote, Settings, Supplier, Variant } from '../domain/book.ts';
-import { isPartValueUnit } from '../domain/schema.ts';
+import { isObject, isPartValueUnit } from '../domain/schema.ts';
 import { bucketQuotes } from './schema.ts';
 import type { MetaRecord, StoredPart } from './schema.ts';
 
@@ -88,9 +88,6 @@ async function readPrototype(tx: UpgradeTx, present: Set<string>): Promise<Proto
   return { parts, suppliers, quotes, variants, settings: isObject(kv) ? kv : undefined };
 }
 
-function isObject(v: unknown): v is Record<string, unknown> {
-  return typeof v === 'object' && v !== null && !Array.isArray(v);
-}
 const str = (v: unknown, fallback = ''): string => (typeof v === 'string' ? v : fallback);
 const num = (v: unknown, fallback: number): number => (typeof v === 'number' && Number.isFinite(v) ? v : fallback);
 
