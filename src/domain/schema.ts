@@ -142,6 +142,11 @@ const objectMessage =
   (issue: Issue): string =>
     issue.path?.[0]?.origin === 'key' && issue.input === undefined ? 'is missing' : `must be ${what}, not ${kindOf(issue.input)}`;
 
+/** ISO 4217 shape: three capital letters. Whether the Book can convert it is checked against its rates. */
+export function isCurrencyCode(s: string): boolean {
+  return /^[A-Z]{3}$/.test(s);
+}
+
 /** A JSON object: not null, not a list. */
 export function isObject(x: unknown): x is Record<string, unknown> {
   return typeof x === 'object' && x !== null && !Array.isArray(x);
@@ -215,7 +220,7 @@ function oneOf<const T extends readonly string[]>(options: T) {
 const currency = () =>
   v.pipe(
     v.string(want('text')),
-    v.regex(/^[A-Z]{3}$/, (i) => `must be a currency code of three capital letters (ISO 4217), not ${short(i.input)}`),
+    v.check(isCurrencyCode, (i) => `must be a currency code of three capital letters (ISO 4217), not ${short(i.input)}`),
   );
 
 const date = () =>
@@ -527,7 +532,7 @@ export const SNAPSHOT_VERSION = 1 as const;
 
 const rates = () =>
   keyed(num({ min: 0, above: true, max: LIMITS.rate }), (k) =>
-    /^[A-Z]{3}$/.test(k) ? undefined : `a rate must be keyed by a currency code of three capital letters (ISO 4217), not ${short(k)}`,
+    isCurrencyCode(k) ? undefined : `a rate must be keyed by a currency code of three capital letters (ISO 4217), not ${short(k)}`,
   );
 
 /** The cost rates of the settings, bounded by what a workshop's rates can be. */
@@ -794,7 +799,7 @@ export function crossRecordProblems(book: Book): SchemaProblem[] {
   };
   const rated = (path: string, code: string): void => {
     // A malformed code is named by the schema already.
-    if (/^[A-Z]{3}$/.test(code) && !Object.hasOwn(book.settings.rates, code)) add(path, `currency ${code} has no exchange rate in settings.rates`);
+    if (isCurrencyCode(code) && !Object.hasOwn(book.settings.rates, code)) add(path, `currency ${code} has no exchange rate in settings.rates`);
   };
   book.suppliers.forEach((s, i) => rated(`suppliers[${i}].currency`, s.currency));
   book.quotes.forEach((q, i) => {

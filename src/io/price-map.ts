@@ -562,7 +562,3 @@ export function dateOrderVote(raw: string): DateOrder | undefined {
   return undefined;
 }
 
-/** ISO 4217 shape: three capital letters. Whether the Book can convert it is checked against its rates. */
-export function isCurrencyCode(s: string): boolean {
-  return /^[A-Z]{3}$/.test(s);
-}

@@ -3,13 +3,12 @@
 // no Book, only the currencies the Book can convert, so it runs unchanged in a Web Worker and in Node.
 import type { ColumnMapping, PriceBreak } from '../domain/book.ts';
 import { mpnKey } from '../domain/book.ts';
-import { LIMITS } from '../domain/schema.ts';
+import { LIMITS, isCurrencyCode } from '../domain/schema.ts';
 import { decodePriceBytes } from './price-decode.ts';
 import type { EncodingChoice, EncodingName } from './price-decode.ts';
 import {
   dateOrderVote,
   decimalVote,
-  isCurrencyCode,
   parseDate,
   parseLeadDays,
   parseNumber,

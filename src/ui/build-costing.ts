@@ -7,6 +7,7 @@ import type { BookChange } from '../domain/book-ops.ts';
 import { perUnitFromCents, toCents, toTenThousandths } from '../domain/costing.ts';
 import type { CostedBom, ResolvedLine, Result } from '../domain/costing.ts';
 import { isIsoDate } from '../domain/dates.ts';
+import { isCurrencyCode } from '../domain/schema.ts';
 import type { CostingWorkbook } from '../engine/costing.ts';
 import type { FamilyResolution } from '../engine/family.ts';
 import type { FieldProblems, FormResult } from './record-forms.ts';
@@ -241,7 +242,6 @@ export interface SettingsDraft {
   costingDate: string;
 }
 
-const CURRENCY_RE = /^[A-Z]{3}$/;
 
 /** Currencies a Book uses: base, rates, suppliers and quotes, base first then by code. */
 export function currenciesInUse(book: Book): string[] {
@@ -281,9 +281,9 @@ export function settingsDraft(book: Book): SettingsDraft {
 export function validateSettings(d: SettingsDraft, book: Book): FormResult<Settings> {
   const problems: FieldProblems = {};
   const base = d.baseCurrency.trim().toUpperCase();
-  if (!CURRENCY_RE.test(base)) problems.baseCurrency = 'three capital letters, as in ISO 4217 (EUR, USD, GBP…)';
+  if (!isCurrencyCode(base)) problems.baseCurrency = 'three capital letters, as in ISO 4217 (EUR, USD, GBP…)';
   const rates: Record<string, number> = {};
-  if (CURRENCY_RE.test(base)) rates[base] = 1;
+  if (isCurrencyCode(base)) rates[base] = 1;
   const used = new Set([...book.suppliers.map((s) => s.currency), ...book.quotes.map((q) => q.currency)]);
   for (const [c, text] of Object.entries(d.rates)) {
     if (c === base) continue;
@@ -299,7 +299,7 @@ export function validateSettings(d: SettingsDraft, book: Book): FormResult<Setti
   const nc = d.newCurrency.trim().toUpperCase();
   if (nc !== '' || d.newRate.trim() !== '') {
     const n = Number(d.newRate.trim());
-    if (!CURRENCY_RE.test(nc)) problems.newCurrency = 'three capital letters, as in ISO 4217';
+    if (!isCurrencyCode(nc)) problems.newCurrency = 'three capital letters, as in ISO 4217';
     else if (nc in d.rates) problems.newCurrency = `${nc} is listed already; change its rate above`;
     else if (d.newRate.trim() === '' || !Number.isFinite(n) || n <= 0) problems.newRate = `a number above 0: ${base} for one ${nc}`;
     else rates[nc] = n;

@@ -2,7 +2,7 @@
 // quote form's draft into a Quote or into messages keyed by field. No DOM here, so the rules run anywhere.
 import type { Book, PriceBreak, Quote } from '../domain/book.ts';
 import { isIsoDate } from '../domain/dates.ts';
-import { LIMITS, QuoteSchema } from '../domain/schema.ts';
+import { LIMITS, QuoteSchema, isCurrencyCode } from '../domain/schema.ts';
 import { parseLeadDays } from '../io/price-map.ts';
 import { limitLength, schemaFormResult } from './record-forms.ts';
 
@@ -137,7 +137,7 @@ export function validateQuote(draft: QuoteDraft, book: Book, editing: Quote | un
   }
   const currency = draft.currency.trim().toUpperCase();
   const known = new Set([book.settings.baseCurrency, ...Object.keys(book.settings.rates)]);
-  if (!/^[A-Z]{3}$/.test(currency)) problems.currency = 'Three letters, as in ISO 4217 (EUR, USD, GBP…)';
+  if (!isCurrencyCode(currency)) problems.currency = 'Three letters, as in ISO 4217 (EUR, USD, GBP…)';
   else if (!known.has(currency)) problems.currency = `The Book has no exchange rate for ${currency}; add one on the Suppliers page first`;
 
   const breaks: PriceBreak[] = [];

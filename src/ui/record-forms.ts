@@ -3,7 +3,7 @@
 import type { Book, NotebookPage, ParamValue, Part, PartKind, Settings, Supplier, Variant } from '../domain/book.ts';
 import { PART_KINDS, mpnKey } from '../domain/book.ts';
 import type * as v from 'valibot';
-import { LIMITS, NotebookPageSchema, PART_VALUE_UNITS, PartSchema, SupplierSchema, VariantSchema, checkWith, isPartValueUnit } from '../domain/schema.ts';
+import { LIMITS, NotebookPageSchema, PART_VALUE_UNITS, PartSchema, SupplierSchema, VariantSchema, checkWith, isCurrencyCode, isPartValueUnit } from '../domain/schema.ts';
 import { MAX_STEPS, PART_RATINGS, VARIANT_PARAMS, ownValue, paramNameProblem } from '../domain/params.ts';
 import { formatValue, parseValue } from '../domain/units.ts';
 
@@ -44,7 +44,6 @@ export function readNumber(text: string, unit: string): { ok: true; value: numbe
 }
 
 const CODE_RE = /^[A-Za-z0-9][A-Za-z0-9._/-]*$/;
-const CURRENCY_RE = /^[A-Z]{3}$/;
 
 function required(problems: FieldProblems, field: string, text: string, label: string, max: number = LIMITS.name): string {
   const t = text.trim();
@@ -243,10 +242,10 @@ export function validateSupplier(
   }
   limitLength(problems, 'notes', draft.notes.trim(), LIMITS.notes);
   const currency = draft.currency.trim().toUpperCase();
-  if (!CURRENCY_RE.test(currency)) problems.currency = 'Three letters, as in ISO 4217 (EUR, USD, GBP…)';
+  if (!isCurrencyCode(currency)) problems.currency = 'Three letters, as in ISO 4217 (EUR, USD, GBP…)';
   const base = book.settings.baseCurrency;
   let rate: number | undefined;
-  if (CURRENCY_RE.test(currency) && currency !== base) {
+  if (isCurrencyCode(currency) && currency !== base) {
     const t = draft.rate.trim();
     const n = t === '' ? NaN : Number(t);
     if (t === '') problems.rate = `Give how many ${base} one ${currency} is worth`;
