@@ -49,7 +49,7 @@ export function* bookFilePieces(book: Book, opts: { savedAt?: string } = {}): Ge
     `  "format": ${JSON.stringify(BOOK_FORMAT)},`,
     `  "version": ${BOOK_VERSION},`,
     `  "savedAt": ${JSON.stringify(opts.savedAt ?? new Date().toISOString())},`,
-    `  "settings": ${JSON.stringify(ordered(book.settings))}${COLLECTIONS.length ? ',' : ''}\n`,
+    `  "settings": ${JSON.stringify(ordered(book.settings))},\n`,
   ].join('\n');
   for (const [ci, c] of COLLECTIONS.entries()) {
     const records = book[c] as object[];
