@@ -70,7 +70,11 @@ export function perUnitFromCents(cents: number, run: number): number {
  * Preconditions as in `needQty`.
  */
 export function needQtyUnchecked(perUnit: number, run: number, attrition: number): number {
-  const x = perUnit * run * (1 + attrition);
+  return ceilNeed(perUnit * run * (1 + attrition));
+}
+
+/** Rounds an unrounded need up to whole parts; within 1e-9 (relative above 1) of a whole number is that number. */
+export function ceilNeed(x: number): number {
   const n = Math.round(x);
   if (Math.abs(x - n) <= 1e-9 * Math.max(1, Math.abs(x))) return n;
   return Math.ceil(x);
@@ -323,7 +327,10 @@ export interface Demand {
   lineIds: string[];
   designators: string[];
   qtyPerUnit: number;
-  /** Sum of the merged lines' needs, each with its own attrition. */
+  /**
+   * Parts needed: the merged lines' unrounded needs (per unit × run × (1 + the line's attrition)) summed, then
+   * rounded up once, so a part on two lines needs NEED_QTY of its summed per-unit quantity, not two round-ups.
+   */
   need: number;
 }
 
@@ -335,6 +342,7 @@ export function variantDemands(
 ): { demands: Demand[]; problems: CostProblem[] } {
   const problems: CostProblem[] = [];
   const byKey = new Map<string, Demand>();
+  const unrounded = new Map<Demand, number>();
   const ordered = lines
     .map((r) => ({ r, line: ctx.lines.get(r.lineId) }))
     .sort((a, b) => (a.line?.position ?? 0) - (b.line?.position ?? 0));
@@ -355,7 +363,7 @@ export function variantDemands(
       problems.push({ lineId: r.lineId, designators, message: r.partId ? `part ${r.partId} is not in the Book` : 'the line has no part' });
       continue;
     }
-    const need = needQtyUnchecked(r.qtyPerUnit, run, attritionFor(ctx, line, part));
+    const raw = r.qtyPerUnit * run * (1 + attritionFor(ctx, line, part));
     const pin = line?.pinnedSupplierId;
     const key = `${part.id}\u0000${pin ?? ''}`;
     const d = byKey.get(key);
@@ -365,18 +373,21 @@ export function variantDemands(
       d.lineIds.push(r.lineId);
       if (placed) d.designators.push(placed);
       d.qtyPerUnit += r.qtyPerUnit;
-      d.need += need;
+      unrounded.set(d, unrounded.get(d)! + raw);
     } else {
-      byKey.set(key, {
+      const fresh: Demand = {
         partId: part.id,
         pinnedSupplierId: pin,
         lineIds: [r.lineId],
         designators: placed ? [placed] : [],
         qtyPerUnit: r.qtyPerUnit,
-        need,
-      });
+        need: 0,
+      };
+      byKey.set(key, fresh);
+      unrounded.set(fresh, raw);
     }
   }
+  for (const [d, raw] of unrounded) d.need = ceilNeed(raw);
   return { demands: [...byKey.values()], problems };
 }
 

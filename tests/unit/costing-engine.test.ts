@@ -158,6 +158,24 @@ describe('costing workbook', () => {
     wb.close();
   });
 
+  it('prices a part on two lines from its summed per-unit need, as the pure rules do', () => {
+    // 1 + 2 per unit at 1.5 % attrition, run 777: 3 × 777 × 1.015 = 2365.965 → 2366 parts at 0.01 = 23.66.
+    const book = smallBook({
+      parts: [part('p1')],
+      quotes: { p1: [{ breaks: [{ qty: 1, price: 0.01 }] }] },
+      lines: [
+        { partId: 'p1', qty: 1, attrition: 0.015 },
+        { partId: 'p1', qty: 2, attrition: 0.015 },
+      ],
+      settings: { runSizes: [777] },
+    });
+    const wb = value(CostingWorkbook.open(book, fixedResolution(book)));
+    const pure = pureUnitCosts(book, fixedResolution(book));
+    expect(wb.unitCost('v1', 777)).toBe(pure.get('v1@777'));
+    expect(value(wb.costedBom('v1', 777)).materialRun).toBe(23.66);
+    wb.close();
+  });
+
   it('refuses to open with bad run sizes', () => {
     const book = smallBook({ parts: [], quotes: {}, lines: [], settings: { runSizes: [100, 0] } });
     expect(CostingWorkbook.open(book, fixedResolution(book))).toEqual({ ok: false, error: expect.stringMatching(/run sizes/) });

@@ -316,6 +316,24 @@ describe('costed BOM', () => {
     expect(bom.lines[0]!.designators).toBe('R1, R2, R3');
     expect([bom.lines[0]!.need, bom.lines[0]!.buy, bom.lines[0]!.extendedBase]).toEqual([300, 300, 6]);
   });
+  it('gives a part on two lines the need of its summed per-unit quantity, rounded up once (NEED_QTY rule)', () => {
+    // 1 + 2 per unit = 3 per unit, run 777, attrition 1.5 %: 3 × 777 × 1.015 = 2365.965 → 2366 (by hand).
+    // Rounding each line first would give ceil(788.655) + ceil(1577.31) = 789 + 1578 = 2367: one part too many.
+    expect(value(needQty(3, 777, 0.015))).toBe(2366);
+    const bom = costOne(
+      {
+        parts: [part('p1')],
+        quotes: { p1: [{ breaks: [{ qty: 1, price: 0.01 }] }] },
+        lines: [
+          { partId: 'p1', qty: 1, designators: 'R1', attrition: 0.015 },
+          { partId: 'p1', qty: 2, designators: 'R2, R3', attrition: 0.015 },
+        ],
+      },
+      777,
+    );
+    expect(bom.lines).toHaveLength(1);
+    expect(bom.lines[0]!.need).toBe(2366);
+  });
   it('refuses a bad run size and bad settings with a message', () => {
     const book = smallBook({ parts: [part('p1')], quotes: {}, lines: [] });
     const ctx = value(prepareCosting(book));

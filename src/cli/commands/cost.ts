@@ -38,6 +38,10 @@ they were), unless --fresh or --date is given. The CSV has the same bytes as the
 Money: each line's extended price is rounded to cents in the quote's currency, then converted and rounded to
 cents in the base currency; run totals are sums of those. The run pays for all it buys (leftover stock is shown
 with its value, not credited). Overhead is a percentage of labour; price = unit cost / (1 − margin).
+Labour, test and overhead per unit are each rounded to 4 decimals first; the run total is run material plus the
+run size × those rounded figures, rounded to cents, so it re-adds from the figures printed (it can differ from
+the unrounded rates × run by up to half a ten-thousandth per unit per figure). A part on several lines needs
+ceil(its summed per-unit quantity × run × (1 + attrition)), rounded up once.
 Exit status: 0 done, 1 some line has no usable quote (listed; totals cover priced lines only), 2 bad arguments
 or an unreadable Book file.`;
 
