@@ -207,6 +207,32 @@ function place(p: Placing, formula: string, lookup: (key: string) => string | un
   return { ok: true, cell: { col, names: c.names } };
 }
 
+/** What a role name stands for: the rating (or `value`) of the part a line with that role gives. */
+export interface RoleName {
+  role: string;
+  rating: string;
+}
+
+/**
+ * Every `<role>_<rating>` and `<role>_value` the Book's lines and parts could give, by name key, with the role and
+ * rating it reads; a variant parameter of the same name hides it (`paramKeys`).
+ */
+export function roleNames(book: Book, paramKeys: ReadonlySet<string>): Map<string, RoleName> {
+  const ratings = new Set<string>(PART_RATINGS.map((r) => r.name));
+  for (const p of book.parts) for (const k of Object.keys(p.ratings)) ratings.add(nameKey(k));
+  ratings.add('value');
+  const out = new Map<string, RoleName>();
+  for (const line of sortedLines(book)) {
+    const role = line.role ? nameKey(line.role) : '';
+    if (role === '') continue;
+    for (const rating of ratings) {
+      const key = `${role}_${rating}`;
+      if (!paramKeys.has(key) && !out.has(key)) out.set(key, { role, rating });
+    }
+  }
+  return out;
+}
+
 /** Lays out the Book's family with these checks. */
 export function planFamily(book: Book, checks: readonly Check[]): FamilyLayout {
   const layout: FamilyLayout = {
@@ -259,16 +285,7 @@ export function planFamily(book: Book, checks: readonly Check[]): FamilyLayout {
     return lc;
   });
 
-  const ratingNames = new Set<string>(PART_RATINGS.map((r) => r.name));
-  for (const p of book.parts) for (const k of Object.keys(p.ratings)) ratingNames.add(nameKey(k));
-  ratingNames.add('value');
-  const roles = [...new Set(lines.map((l) => (l.role ? nameKey(l.role) : '')).filter((r) => r !== ''))];
-  for (const role of roles) {
-    for (const rating of ratingNames) {
-      const key = `${role}_${rating}`;
-      if (!layout.paramKeys.has(key)) layout.possibleRoleKeys.add(key);
-    }
-  }
+  for (const key of roleNames(book, layout.paramKeys).keys()) layout.possibleRoleKeys.add(key);
   // A role name gets a column only when some check reads it; the rest are many (every rating of every role) and
   // would only hold #N/A or a number nobody reads.
   const read = new Set<string>();

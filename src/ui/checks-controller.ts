@@ -1,16 +1,18 @@
 // The work behind the Checks page: a live FamilyWorkbook of the Book (every check on every variant), its results,
-// formulas typed and not yet kept, and our own saves run one after another so the Book each brings back is adopted
-// instead of recompiled.
+// formulas typed and not yet kept, our own saves run one after another so the Book each brings back is adopted
+// instead of recompiled, and the undo steps of the parameters and part ratings changed from a check's detail.
 import type { ReactiveController, ReactiveControllerHost } from 'lit';
-import type { Book, Check, ParamValue } from '../domain/book.ts';
+import type { Book, Check, ParamValue, Part, Variant } from '../domain/book.ts';
 import { CHECK_STATUS } from '../domain/check-status.ts';
 import type { CheckStatus } from '../domain/check-status.ts';
 import { formatValue } from '../domain/units.ts';
 import { FamilyWorkbook } from '../engine/family.ts';
-import type { CheckResult } from '../engine/family.ts';
+import type { CheckResult, VariantResolution } from '../engine/family.ts';
 import type { BookController } from './book-context.ts';
 import { checkFormulaNames } from './rb-formula-input.ts';
 import type { NameHint } from './rb-formula-input.ts';
+import { UndoStack, stepChange } from './undo.ts';
+import type { Direction, UndoStep } from './undo.ts';
 
 export type SaveOutcome = { ok: true } | { ok: false; message: string };
 
@@ -34,6 +36,10 @@ export class ChecksController implements ReactiveController {
   names: readonly NameHint[] = [];
   /** Moves whenever a result may have changed, so views given this controller know to draw again. */
   revision = 0;
+  /** Edits of variant parameters and part ratings made from a check's detail, undone one at a time. */
+  readonly history = new UndoStack<Variant | Part>();
+  /** The Book replacement the drafts and undo steps belong to (see BookService.replacements). */
+  private replacementSeen = 0;
 
   private session: FamilyWorkbook | undefined;
   /** The Book the session was built from (or adopted after our own save). */
@@ -59,6 +65,13 @@ export class ChecksController implements ReactiveController {
   /** Follows the Book: a Book of our own save is adopted, any other rebuilds the session. */
   sync(book: Book): void {
     if (book === this.sessionBook) return;
+    const replaced = this.books.service?.replacements ?? 0;
+    if (replaced !== this.replacementSeen) {
+      // A replaced Book may reuse the old one's ids: typed formulas and undo steps of the old Book must not apply.
+      this.replacementSeen = replaced;
+      this.formulaDrafts = new Map();
+      this.history.clear();
+    }
     if (this.ownSaves > 0 && this.session) {
       this.sessionBook = book;
       return;
@@ -90,6 +103,43 @@ export class ChecksController implements ReactiveController {
 
   allResults(): IterableIterator<CheckResult> {
     return this.results.values();
+  }
+
+  /** The variant's build lines as the session resolves them now (which part each role's line gives). */
+  resolved(variantId: string): VariantResolution | undefined {
+    return this.session?.resolve().variants.find((r) => r.variantId === variantId);
+  }
+
+  /** Remembers a saved edit of one variant or part, found in the Book as saved, for undo. */
+  recordEdit(collection: 'variants' | 'parts', before: Variant | Part, label: string): void {
+    const list: readonly (Variant | Part)[] = this.books.service?.book[collection] ?? [];
+    const after = list.find((r) => r.id === before.id);
+    if (after) this.history.record({ label, collection, changes: [{ id: before.id, before, after }] });
+  }
+
+  /**
+   * Undoes or redoes the last edit as one save (the session then follows the Book); gives why it could not be,
+   * when it could not — a record changed elsewhere since, whose step is then forgotten.
+   */
+  async step(direction: Direction): Promise<SaveOutcome> {
+    // After our saves in flight, so the step is planned on the Book they leave.
+    await this.writes;
+    const service = this.books.service;
+    const step = this.history.peek(direction);
+    if (!service || !step) return { ok: true };
+    const plan =
+      step.collection === 'parts'
+        ? stepChange(service.book, 'parts', step as UndoStep<Part>, direction, (p) => p.mpn)
+        : stepChange(service.book, 'variants', step as UndoStep<Variant>, direction, (v) => v.code);
+    if (!plan.ok) {
+      this.history.drop(direction);
+      this.host.requestUpdate();
+      return { ok: false, message: plan.message };
+    }
+    const result = await service.save(plan.change);
+    if (result.ok) this.history.settle(direction);
+    this.host.requestUpdate();
+    return result.ok ? { ok: true } : { ok: false, message: result.message };
   }
 
   /** Tries a parameter value in the session (every check re-evaluates at once); gives why it was refused, if it was. */

@@ -1,21 +1,46 @@
 // The detail of one check on one variant, opened under its row on the Checks page: figure, formula, rule, limit and
-// note; the variant's parameters the check reads and the check's formula, both editable in place (the live session
-// re-evaluates every variant at once) and saved in the Book; and the way to edit or delete the whole check.
+// note; everything the check reads, each editable where it lives — the variant's parameters (the live session
+// re-evaluates every variant at once) and the ratings of the parts its lines give (the part record) — with undo;
+// the check's formula, tried on every variant before it is kept; and the way to edit or delete the whole check.
 import { LitElement, css, html } from 'lit';
 import type { TemplateResult } from 'lit';
 import { customElement, property, state } from 'lit/decorators.js';
 import { live } from 'lit/directives/live.js';
-import type { Book, Check, ParamValue, Variant } from '../domain/book.ts';
+import type { Check, ParamValue, Part, Variant } from '../domain/book.ts';
 import { CHECK_STATUS, STATUS_SYMBOL } from '../domain/check-status.ts';
-import { ownValue } from '../domain/params.ts';
-import { formulaNames, nameKey } from '../engine/formula-names.ts';
+import { PART_RATINGS, ownValue } from '../domain/params.ts';
+import { isPartValueUnit } from '../domain/schema.ts';
+import { checkInputs } from '../engine/check-inputs.ts';
+import type { ParamInput, RatingInput } from '../engine/check-inputs.ts';
 import { formatRule } from '../engine/check-sheets.ts';
 import { BookController } from './book-context.ts';
 import { shownValue, statusClass } from './checks-controller.ts';
 import type { ChecksController } from './checks-controller.ts';
-import { paramInfo, paramText, readNumber } from './record-forms.ts';
+import { KIND_VALUE_UNITS, paramInfo, paramText, readNumber, valueText } from './record-forms.ts';
+import { DIRECTIONS } from './undo.ts';
+import type { Direction } from './undo.ts';
 import './rb-formula-input.ts';
 import { checkStatusStyles, pageStyles, problemStyles, ruledControlStyles } from './styles.ts';
+
+/** A build line as the detail names it: its designators, and its role. */
+function lineName(line: { designators: string; role?: string | undefined; id: string }): string {
+  const where = line.designators || line.id;
+  return line.role ? `${where} (${line.role})` : where;
+}
+
+/** The unit a part's value or rating is read in: the part's own unit for its value, the rating's for a rating. */
+function ratingUnit(part: Part, rating: string): string {
+  if (rating === 'value') return part.unit ?? KIND_VALUE_UNITS[part.kind] ?? '';
+  return PART_RATINGS.find((r) => r.name === rating)?.unit ?? '';
+}
+
+/** What the detail says beside a parameter: its unit or that the variant lacks it, and the line it chooses for. */
+function paramHint(v: Variant, input: ParamInput, value: ParamValue | undefined, info: { unit: string; kind: 'number' | 'text' }): string {
+  const about =
+    value === undefined ? `${v.code} does not set ${input.name}` : info.unit ? `in ${info.unit}; engineering notation welcome` : info.kind === 'text' ? 'text' : '';
+  const chooses = input.line ? `chooses the part of line ${lineName(input.line)}` : '';
+  return [about, chooses].filter((t) => t !== '').join('; ');
+}
 
 export type CheckEditDetail = { check: Check };
 export type CheckDeletedDetail = { checkId: string };
@@ -143,7 +168,9 @@ export class RbCheckDetail extends LitElement {
     const r = checks.result(v.id, c.id);
     const status = r?.status ?? CHECK_STATUS.error;
     const draft = checks.formulaDrafts.get(c.id);
-    const params = this.paramsRead(book, c, checks.formulaDrafts);
+    const inputs = checkInputs(book, c, checks.resolved(v.id), (x) => checks.formulaDrafts.get(x.id) ?? x.formula);
+    const undoStep = checks.history.peek(DIRECTIONS.undo);
+    const redoStep = checks.history.peek(DIRECTIONS.redo);
     return html`<div class="panel" data-testid="check-detail" role="region" aria-label="${c.name} on ${v.code}">
       <h3>
         ${c.title} — ${v.code}<span class="st ${statusClass(status)}" data-testid="detail-status">${STATUS_SYMBOL[status]} ${status}</span>
@@ -164,11 +191,27 @@ export class RbCheckDetail extends LitElement {
         <dt>note</dt>
         <dd>${c.note || '—'}</dd>
       </dl>
-      ${params.length > 0
+      ${inputs.params.length > 0
         ? html`<h4>Parameters of ${v.code} this check reads</h4>
-            <div class="edit-grid">
-              ${params.map((name) => this.renderParam(v, name))}
+            <div class="edit-grid" data-testid="detail-params">
+              ${inputs.params.map((p) => this.renderParam(v, p))}
             </div>`
+        : ''}
+      ${inputs.ratings.length > 0
+        ? html`<h4>Part ratings this check reads</h4>
+            <div class="edit-grid" data-testid="detail-ratings">
+              ${inputs.ratings.map((r) => this.renderRating(v, r))}
+            </div>`
+        : ''}
+      ${undoStep || redoStep
+        ? html`<div class="row-actions">
+            <button type="button" data-testid="detail-undo" ?disabled=${!undoStep} @click=${() => void this.step(DIRECTIONS.undo)}>
+              ↶ Undo${undoStep ? html` <span class="muted">${undoStep.label}</span>` : ''}
+            </button>
+            <button type="button" data-testid="detail-redo" ?disabled=${!redoStep} @click=${() => void this.step(DIRECTIONS.redo)}>
+              ↷ Redo${redoStep ? html` <span class="muted">${redoStep.label}</span>` : ''}
+            </button>
+          </div>`
         : ''}
       <h4>Formula, for every variant</h4>
       <div class="formula-row">
@@ -201,34 +244,8 @@ export class RbCheckDetail extends LitElement {
     </div>`;
   }
 
-  /** Parameters a check reads, directly or through the checks it names, that some variant has. */
-  private paramsRead(book: Book, check: Check, drafts: ReadonlyMap<string, string>): string[] {
-    const paramKeys = new Map<string, string>();
-    for (const v of book.variants) for (const k of Object.keys(v.params)) if (!paramKeys.has(nameKey(k))) paramKeys.set(nameKey(k), k);
-    const byName = new Map(book.checks.map((c) => [nameKey(c.name), c] as const));
-    const out: string[] = [];
-    const seen = new Set<string>();
-    const visit = (c: Check): void => {
-      const texts = [drafts.get(c.id) ?? c.formula, c.appliesWhen, c.rule.limit ?? '', c.rule.low ?? '', c.rule.high ?? ''];
-      for (const t of texts) {
-        if (t.trim() === '') continue;
-        const n = formulaNames(t);
-        if (!n.ok) continue;
-        for (const key of n.names) {
-          if (seen.has(key)) continue;
-          seen.add(key);
-          const p = paramKeys.get(key);
-          if (p) out.push(p);
-          const inner = byName.get(key);
-          if (inner) visit(inner);
-        }
-      }
-    };
-    visit(check);
-    return out;
-  }
-
-  private renderParam(v: Variant, name: string): TemplateResult {
+  private renderParam(v: Variant, input: ParamInput): TemplateResult {
+    const name = input.name;
     const value = ownValue(v.params, name);
     const info = paramInfo(name, value);
     const key = `${v.id}\u0000${name}`;
@@ -251,7 +268,77 @@ export class RbCheckDetail extends LitElement {
       />
       ${problem
         ? html`<span class="problem" data-problem-for=${name} role="alert">${problem}</span>`
-        : html`<span class="hint">${value === undefined ? `${v.code} does not set ${name}` : info.unit ? `in ${info.unit}; engineering notation welcome` : info.kind === 'text' ? 'text' : ''}</span>`}`;
+        : html`<span class="hint">${paramHint(v, input, value, info)}</span>`}`;
+  }
+
+  private renderRating(v: Variant, input: RatingInput): TemplateResult {
+    const part = input.part;
+    const id = `rating-${input.key}`;
+    if (!part || !input.line) {
+      return html`<label for=${id}>${input.key}</label>
+        <span id=${id} data-rating=${input.key}>—</span>
+        <span class="hint">no build line that applies to ${v.code} gives a part with the role ${input.role}</span>`;
+    }
+    const unit = ratingUnit(part, input.rating);
+    const figure = input.rating === 'value' ? part.value : ownValue(part.ratings, input.rating);
+    const key = `${part.id}\u0000${input.rating}`;
+    const text = this.paramDrafts.get(key) ?? valueText(figure, unit);
+    const problem = this.paramProblems.get(key);
+    const what = input.rating === 'value' ? 'value' : input.rating;
+    return html`<label for=${id}>${input.key}</label>
+      <input
+        id=${id}
+        data-rating=${input.key}
+        type="text"
+        autocomplete="off"
+        spellcheck="false"
+        .value=${live(text)}
+        aria-invalid=${problem ? 'true' : 'false'}
+        @input=${(e: Event) => {
+          this.paramDrafts = new Map(this.paramDrafts).set(key, (e.target as HTMLInputElement).value);
+        }}
+        @change=${(e: Event) => void this.commitRating(part.id, input.rating, unit, (e.target as HTMLInputElement).value)}
+      />
+      ${problem
+        ? html`<span class="problem" data-problem-for=${input.key} role="alert">${problem}</span>`
+        : html`<span class="hint"
+            >${what} of part ${part.mpn} (line ${lineName(input.line)})${figure === undefined ? ', not set' : ''}: a change edits the part, for every
+            variant and line that use it</span
+          >`}`;
+  }
+
+  /** Saves a part's value or rating to the part record; the checks then follow the Book. Bad input changes nothing. */
+  private async commitRating(partId: string, rating: string, unit: string, text: string): Promise<void> {
+    const service = this.books.service;
+    const checks = this.checks;
+    const fresh = service?.book.parts.find((p) => p.id === partId);
+    if (!service || !checks || !fresh) return;
+    const key = `${partId}\u0000${rating}`;
+    const r = readNumber(text, unit);
+    if (!r.ok) return this.setParamProblem(key, r.error);
+    this.setParamProblem(key, undefined);
+    const old = rating === 'value' ? fresh.value : ownValue(fresh.ratings, rating);
+    if (old === r.value) return this.dropDraft(key);
+    const next: Part =
+      rating === 'value'
+        ? { ...fresh, value: r.value, ...(fresh.unit === undefined && isPartValueUnit(unit) ? { unit } : {}) }
+        : { ...fresh, ratings: { ...fresh.ratings, [rating]: r.value } };
+    const saved = await service.save({ put: { parts: [next] } });
+    this.panelMessage = saved.ok ? undefined : saved.message;
+    if (!saved.ok) return;
+    checks.recordEdit('parts', fresh, `${rating} of ${fresh.mpn}`);
+    this.dropDraft(key);
+  }
+
+  private dropDraft(key: string): void {
+    const drafts = new Map(this.paramDrafts);
+    drafts.delete(key);
+    this.paramDrafts = drafts;
+  }
+
+  private async step(direction: Direction): Promise<void> {
+    const done = await this.checks?.step(direction);
+    this.panelMessage = done && !done.ok ? done.message : undefined;
   }
 
   private setParamProblem(key: string, message: string | undefined): void {
@@ -287,14 +374,13 @@ export class RbCheckDetail extends LitElement {
       const fresh = service.book.variants.find((x) => x.id === variantId);
       if (!fresh) return Promise.resolve({ ok: false, message: `${v.code} was deleted elsewhere; nothing was saved.` });
       if (ownValue(fresh.params, name) === value) return Promise.resolve({ ok: true });
-      return service.save({ put: { variants: [{ ...fresh, params: { ...fresh.params, [name]: value } }] } });
+      return service.save({ put: { variants: [{ ...fresh, params: { ...fresh.params, [name]: value } }] } }).then((result) => {
+        if (result.ok) checks.recordEdit('variants', fresh, `${name} of ${fresh.code}`);
+        return result;
+      });
     });
     this.panelMessage = saved.ok ? undefined : saved.message;
-    if (saved.ok) {
-      const drafts = new Map(this.paramDrafts);
-      drafts.delete(key);
-      this.paramDrafts = drafts;
-    }
+    if (saved.ok) this.dropDraft(key);
   }
 
   private putBack(c: Check): void {

@@ -14,6 +14,8 @@ export interface UndoStep<R> {
   /** What the step did, in words for the Undo and Redo buttons ("edit load_w of FR3-40-CD"). */
   label: string;
   changes: RecordChange<R>[];
+  /** The collection of the records, for a stack whose steps touch more than one. */
+  collection?: CollectionName;
 }
 
 export const DIRECTIONS = { undo: 'undo', redo: 'redo' } as const;
@@ -32,7 +34,7 @@ export class UndoStack<R extends { rev: number }> {
   record(step: UndoStep<R>): void {
     const changes = step.changes.filter((c) => !sameRecord(c.before, c.after));
     if (changes.length === 0) return;
-    this.done.push({ label: step.label, changes });
+    this.done.push({ ...step, changes });
     if (this.done.length > this.limit) this.done.splice(0, this.done.length - this.limit);
     this.undone = [];
   }

@@ -1,6 +1,7 @@
 // The Checks page in real Chromium: the matrix of statuses on the demo Book; raising a variant's load past its
 // switch's rating turns the current checks to fail and lowering it restores them; a check of the user's own can be
-// added and shows a status on every variant; formula help appears while typing; the step ladder writes its resistors.
+// added and shows a status on every variant; formula help appears while typing; the step ladder writes its resistors;
+// a check's detail lists the part values it reads and the parameters choosing those parts, editable with undo.
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { AppUnderTest, saved } from './harness.ts';
@@ -82,6 +83,54 @@ describe('Checks page', () => {
     await load.press('Enter');
     await page.locator('[data-testid="check-detail"] [data-problem-for="load_w"]').waitFor();
     expect(await status(page, 'FR5-150-RT', 'load_i')).toBe('pass');
+    expect(errors).toEqual([]);
+  });
+
+  it('lists the part values a check reads and the parameter that chooses them; each edit turns the status, undo turns it back', async () => {
+    const { page, errors } = await open('#/checks');
+    expect(await status(page, 'FR5-75-CD', 'bleeder_time')).toBe('fail');
+    await cell(page, 'FR5-75-CD', 'bleeder_time').click();
+    const detail = page.locator('[data-testid="check-detail"]');
+    await detail.waitFor();
+    // The bleeder's value comes from the part the bleeder line's part rule picks from r_bleed (1 MΩ on this variant).
+    const rBleed = detail.locator('input[data-param="r_bleed"]');
+    await expect(rBleed.inputValue()).resolves.toMatch(/^1 MΩ$/);
+    await expect(detail.locator('[data-testid="detail-params"]').textContent()).resolves.toMatch(/chooses the part of line R3 \(bleeder\)/);
+    const bleeder = detail.locator('input[data-rating="bleeder_value"]');
+    await expect(bleeder.inputValue()).resolves.toMatch(/^1 MΩ$/);
+    await expect(detail.locator('[data-testid="detail-ratings"]').textContent()).resolves.toContain('AV-MF50-1M0');
+    await expect(detail.locator('input[data-rating="xcap_value"]').inputValue()).resolves.toMatch(/^470 nF$/);
+
+    // t = R·C·ln(V0/34 V) (RC discharge, basic circuit theory, from memory): 470 kΩ · 0.517 µF · ln(357.8/34) = 0.572 s,
+    // under the 0.8 s where the 20 % band before 1 s begins (IEC 60335-1 cl. 22.5, as quoted in secondary sources).
+    await rBleed.fill('470k');
+    await rBleed.press('Enter');
+    await expect.poll(() => status(page, 'FR5-75-CD', 'bleeder_time')).toBe('pass');
+    await expect.poll(() => bleeder.inputValue()).toMatch(/^470 kΩ$/);
+    await saved(page);
+    const undo = detail.locator('[data-testid="detail-undo"]');
+    await expect(undo.textContent()).resolves.toContain('r_bleed of FR5-75-CD');
+    await undo.click();
+    await expect.poll(() => status(page, 'FR5-75-CD', 'bleeder_time')).toBe('fail');
+    await expect.poll(() => rBleed.inputValue()).toMatch(/^1 MΩ$/);
+    await saved(page);
+
+    // The part value is edited on the part record itself: the same arithmetic passes, and undo restores the part.
+    await bleeder.fill('470k');
+    await bleeder.press('Enter');
+    await expect.poll(() => status(page, 'FR5-75-CD', 'bleeder_time')).toBe('pass');
+    await saved(page);
+    await expect(undo.textContent()).resolves.toContain('value of AV-MF50-1M0');
+    await undo.click();
+    await expect.poll(() => status(page, 'FR5-75-CD', 'bleeder_time')).toBe('fail');
+    await expect.poll(() => bleeder.inputValue()).toMatch(/^1 MΩ$/);
+    await saved(page);
+
+    // Bad input is refused beside the field and changes nothing.
+    await bleeder.fill('lots');
+    await bleeder.press('Enter');
+    await detail.locator('[data-problem-for="bleeder_value"]').waitFor();
+    expect(await status(page, 'FR5-75-CD', 'bleeder_time')).toBe('fail');
     expect(errors).toEqual([]);
   });
 
