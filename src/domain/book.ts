@@ -3,7 +3,7 @@
 import { BOOK_FORMAT, BOOK_VERSION } from './schema.ts';
 import type { Book, Settings } from './schema.ts';
 
-export { BOOK_FORMAT, BOOK_VERSION, CHECK_RULE_KINDS, COST_CATEGORIES, PART_KINDS } from './schema.ts';
+export { BOOK_FORMAT, BOOK_VERSION, CHECK_RULE_KINDS, COST_CATEGORIES, INCOTERMS, PART_KINDS } from './schema.ts';
 export type {
   Book,
   BuildLine,
@@ -20,6 +20,7 @@ export type {
   ParamValue,
   Part,
   PartKind,
+  PerOrder,
   PriceBreak,
   Quote,
   Run,

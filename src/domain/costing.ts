@@ -14,6 +14,9 @@
 import type { Book, BuildLine, CurrencyCode, Part, PriceBreak, Quote, Settings, Supplier, Variant } from './book.ts';
 import { isIsoDate, todayIso } from './dates.ts';
 import { usedDesignators } from './designators.ts';
+import { allocateCents, landedChoiceCents, landedLineCents, landedRates, perOrderCents } from './landed.ts';
+import type { LandedRates } from './landed.ts';
+import { roundHalfUp } from './money.ts';
 import type { CostedBom, CostedLine, CostProblem } from './schema.ts';
 export type { CostedBom, CostedLine, CostProblem } from './schema.ts';
 
@@ -29,12 +32,7 @@ function fail<T>(error: string): Result<T> {
 // ---------------------------------------------------------------------------------------------------------------
 // Rounding
 
-const ROUND_EPS = 1e-7;
-
-/** Rounds to an integer, half away from zero, forgiving float error below 1e-7. */
-export function roundHalfUp(x: number): number {
-  return x >= 0 ? Math.floor(x + 0.5 + ROUND_EPS) : -Math.floor(-x + 0.5 + ROUND_EPS);
-}
+export { roundHalfUp };
 
 /** An amount of money as integer cents. */
 export function toCents(amount: number): number {
@@ -237,6 +235,8 @@ export interface PreparedQuote {
   rate: number | undefined;
   /** Why the quote cannot be used; undefined when it can. */
   unusable?: string;
+  /** The landed-cost percentages that fall to us on this quote (domain/landed.ts). */
+  landed: LandedRates;
 }
 
 export interface CostingContext {
@@ -303,7 +303,8 @@ export function prepareCosting(book: Book, options: { date?: string } = {}): Res
   const quotesByPart = new Map<string, PreparedQuote[]>();
   for (const q of book.quotes) {
     const rate = rateOf(settings, q.currency);
-    const prepared: PreparedQuote = { quote: q, supplier: suppliers.get(q.supplierId), rate };
+    const supplier = suppliers.get(q.supplierId);
+    const prepared: PreparedQuote = { quote: q, supplier, rate, landed: landedRates(supplier, q.incoterm) };
     const problem = quoteProblem(q, date, rate);
     if (problem) prepared.unusable = problem;
     const list = quotesByPart.get(q.partId);
@@ -435,7 +436,9 @@ export function chooseQuote(quotes: readonly PreparedQuote[], need: number, what
       reasons.push(`quote ${p.quote.id}: ${b.error}`);
       continue;
     }
-    const cents = baseCents(toCents(b.value.extended), p.rate);
+    const goods = baseCents(toCents(b.value.extended), p.rate);
+    // The percentage landed costs belong to the line, so they take part in the choice (domain/landed.ts).
+    const cents = landedChoiceCents(goods, p.landed);
     const better =
       cents < bestCents ||
       (cents === bestCents &&
@@ -444,7 +447,7 @@ export function chooseQuote(quotes: readonly PreparedQuote[], need: number, what
           (p.quote.leadDays === best.prepared.quote.leadDays && p.quote.id < best.prepared.quote.id)));
     if (better) {
       bestCents = cents;
-      best = { prepared: p, buy: b.value, extendedBase: cents / 100, rate: p.rate };
+      best = { prepared: p, buy: b.value, extendedBase: goods / 100, rate: p.rate };
     }
   }
   if (best) return ok(best);
@@ -485,6 +488,45 @@ export function priceFor(unitCost: number, marginPct: number): number {
   return roundUnit(unitCost / (1 - marginPct / 100));
 }
 
+/**
+ * Adds each supplier's amounts per order to its lines' freight and charges, shared by goods value (domain/landed.ts).
+ * An amount in a currency the Book has no rate for is a problem on the supplier's first line.
+ */
+function shareOrderAmounts(ctx: CostingContext, lines: CostedLine[]): CostProblem[] {
+  const problems: CostProblem[] = [];
+  const bySupplier = new Map<string, number[]>();
+  lines.forEach((l, i) => {
+    const list = bySupplier.get(l.supplierId);
+    if (list) list.push(i);
+    else bySupplier.set(l.supplierId, [i]);
+  });
+  for (const [supplierId, at] of bySupplier) {
+    const s = ctx.suppliers.get(supplierId);
+    if (!s) continue;
+    const rated = (what: 'freight' | 'charges', amount: typeof s.freightPerOrder): number => {
+      const cents = perOrderCents(amount, amount ? rateOf(ctx.settings, amount.currency) : undefined);
+      if (cents !== undefined) return cents;
+      const first = lines[at[0]!]!;
+      problems.push({ lineId: first.lineId, designators: first.designators, partId: first.partId, message: `${s.name}'s ${what} per order is in ${amount!.currency}, which has no exchange rate in the Book` });
+      return 0;
+    };
+    const quoteOf = (i: number): PreparedQuote | undefined => ctx.quotesByPart.get(lines[i]!.partId)?.find((p) => p.quote.id === lines[i]!.quoteId);
+    const carried = at.filter((i) => quoteOf(i)?.landed.carriage === true);
+    const freight = carried.length > 0 ? rated('freight', s.freightPerOrder) : 0;
+    const charges = rated('charges', s.chargesPerOrder);
+    const add = (idx: number[], total: number, field: 'freight' | 'charges'): void => {
+      if (total === 0) return;
+      allocateCents(total, idx.map((i) => toCents(lines[i]!.extendedBase))).forEach((c, k) => {
+        const l = lines[idx[k]!]!;
+        l[field] = (toCents(l[field] ?? 0) + c) / 100;
+      });
+    };
+    add(carried, freight, 'freight');
+    add(at, charges, 'charges');
+  }
+  return problems;
+}
+
 /** Costs one variant for one run from its resolved lines. Bad input (run size, unknown variant) gives an error. */
 export function costVariantRun(
   ctx: CostingContext,
@@ -509,8 +551,8 @@ export function costVariantRun(
     const { prepared, buy, extendedBase, rate } = choice.value;
     const q = prepared.quote;
     const leftoverValue = baseCents(toCents(buy.leftover * buy.unitPrice), rate) / 100;
-    materialCents += toCents(extendedBase);
     leftoverCents += toCents(leftoverValue);
+    const landed = landedLineCents(toCents(extendedBase), prepared.landed);
     out.push({
       lineId: d.lineIds[0]!,
       lineIds: d.lineIds,
@@ -535,7 +577,18 @@ export function costVariantRun(
       extendedBase,
       leftover: buy.leftover,
       leftoverValue,
+      ...(q.incoterm === undefined ? {} : { incoterm: q.incoterm }),
+      freight: landed.freight / 100,
+      duty: landed.duty / 100,
+      charges: landed.charges / 100,
     });
+  }
+  problems.push(...shareOrderAmounts(ctx, out));
+  let landedCents = 0;
+  for (const l of out) {
+    const landed = toCents(l.freight ?? 0) + toCents(l.duty ?? 0) + toCents(l.charges ?? 0);
+    landedCents += landed;
+    materialCents += toCents(l.extendedBase) + landed;
   }
   const s = ctx.settings;
   const placements = placementsPerUnit(ctx, lines);
@@ -562,6 +615,7 @@ export function costVariantRun(
     unitCost,
     price: priceFor(unitCost, s.marginPct),
     materialRun: materialCents / 100,
+    landedRun: landedCents / 100,
     runTotal: (materialCents + conversionCents) / 100,
     leftoverValue: leftoverCents / 100,
     complete: problems.length === 0,

@@ -40,6 +40,10 @@ export const LIMITS = {
   leadDays: 3_650,
   rate: 1e6,
   money: 1e12,
+  /** A landed-cost share (freight, duty, charges) as a percentage of the goods' value. */
+  landedPct: 1_000,
+  /** A price list's markup on cost, in percent. */
+  markupPct: 10_000,
 } as const;
 
 export const PART_KINDS = [
@@ -82,6 +86,16 @@ export function isPartValueUnit(u: string): u is PartValueUnit {
 export const MAPPING_LAYOUTS = ['wide', 'long'] as const;
 export const DECIMAL_MARKS = ['.', ','] as const;
 export const PRICE_UNITS = ['unit', 'per100', 'per1000', 'pack'] as const;
+
+/** Delivery terms of Incoterms 2020 (ICC), in the rules' own order: any mode of transport, then sea and inland waterway. */
+export const INCOTERMS = ['EXW', 'FCA', 'CPT', 'CIP', 'DAP', 'DPU', 'DDP', 'FAS', 'FOB', 'CFR', 'CIF'] as const;
+export type Incoterm = (typeof INCOTERMS)[number];
+
+/** How a price list turns a unit cost into a price: a gross margin on price, or a markup on cost. */
+export const PRICE_BASES = ['margin', 'markup'] as const;
+export type PriceBasis = (typeof PRICE_BASES)[number];
+/** Which way a price list's rounding step goes. */
+export const ROUNDING_MODES = ['nearest', 'up'] as const;
 
 /**
  * Names every JavaScript object carries built in (constructor, toString, __proto__, valueOf…). A map keyed by the
@@ -315,12 +329,35 @@ export const ColumnMappingSchema = obj({
   priceUnit: v.optional(oneOf(PRICE_UNITS)),
 });
 
+/** An amount charged once per order, in a currency of its own (freight or a bank's fee is often not in the goods' currency). */
+export const PerOrderSchema = obj(
+  {
+    amount: num({ min: 0, max: LIMITS.price }),
+    currency: currency(),
+  },
+  'an object with amount and currency',
+);
+
+const landedPct = () => num({ min: 0, max: LIMITS.landedPct });
+
 export const SupplierSchema = obj({
   ...recordBase,
   name: filled(LIMITS.name),
   currency: currency(),
   notes: v.optional(text(LIMITS.notes), ''),
   mapping: v.optional(ColumnMappingSchema),
+  // Landed cost of buying from this supplier, on top of the goods (domain/landed.ts says who pays what under each
+  // quote's delivery term). Percentages are of the goods' value in the base currency.
+  /** Freight charged once per order. */
+  freightPerOrder: v.optional(PerOrderSchema),
+  /** Freight as a share of the goods' value, in percent. */
+  freightPct: v.optional(landedPct()),
+  /** Import duty as a share of the goods' value, in percent. */
+  dutyPct: v.optional(landedPct()),
+  /** Payment and bank charges once per order. */
+  chargesPerOrder: v.optional(PerOrderSchema),
+  /** Payment and bank charges as a share of the goods' value, in percent. */
+  chargesPct: v.optional(landedPct()),
 });
 
 /** Quantity from which a unit price applies (all-units discount), and that unit price in the quote's currency. */
@@ -381,6 +418,8 @@ export const QuoteSchema = obj({
   batchId: v.optional(id()),
   /** Set when a newer quote for the same part and supplier replaced this one. */
   supersededBy: v.optional(id()),
+  /** Delivery term of the offer (Incoterms 2020); absent = the supplier's landed costs all fall to us. */
+  incoterm: v.optional(oneOf(INCOTERMS)),
 });
 
 const paramValue = () =>
@@ -500,6 +539,12 @@ export const CostedLineSchema = obj({
   leftover: amount(),
   /** leftover × unit price × rate, rounded to cents, base currency (shown, not credited). */
   leftoverValue: amount(),
+  // Landed cost of the line, base currency, cents (domain/landed.ts); absent in costings frozen before it existed.
+  /** The quote's delivery term, when it has one. */
+  incoterm: v.optional(text(LIMITS.name)),
+  freight: v.optional(amount()),
+  duty: v.optional(amount()),
+  charges: v.optional(amount()),
 });
 
 export const CostedBomSchema = obj({
@@ -518,8 +563,9 @@ export const CostedBomSchema = obj({
   overhead: amount(),
   unitCost: amount(),
   price: amount(),
-  /** Run amounts, cents. */
+  /** Run amounts, cents. materialRun includes the landed cost, landedRun of it. */
   materialRun: amount(),
+  landedRun: v.optional(amount()),
   runTotal: amount(),
   leftoverValue: amount(),
   /** False when some line could not be priced; totals then cover the priced lines only. */
@@ -685,6 +731,7 @@ export const BookSchema = obj({
 export type CurrencyCode = string;
 export type Part = v.InferOutput<typeof PartSchema>;
 export type ColumnMapping = v.InferOutput<typeof ColumnMappingSchema>;
+export type PerOrder = v.InferOutput<typeof PerOrderSchema>;
 export type Supplier = v.InferOutput<typeof SupplierSchema>;
 export type PriceBreak = v.InferOutput<typeof PriceBreakSchema>;
 export type Quote = v.InferOutput<typeof QuoteSchema>;
@@ -801,7 +848,12 @@ export function crossRecordProblems(book: Book): SchemaProblem[] {
     // A malformed code is named by the schema already.
     if (isCurrencyCode(code) && !Object.hasOwn(book.settings.rates, code)) add(path, `currency ${code} has no exchange rate in settings.rates`);
   };
-  book.suppliers.forEach((s, i) => rated(`suppliers[${i}].currency`, s.currency));
+  book.suppliers.forEach((s, i) => {
+    rated(`suppliers[${i}].currency`, s.currency);
+    if (s.freightPerOrder) rated(`suppliers[${i}].freightPerOrder.currency`, s.freightPerOrder.currency);
+    if (s.chargesPerOrder) rated(`suppliers[${i}].chargesPerOrder.currency`, s.chargesPerOrder.currency);
+  });
+  book.priceLists.forEach((l, i) => rated(`priceLists[${i}].currency`, l.currency));
   book.quotes.forEach((q, i) => {
     ref(`quotes[${i}].partId`, q.partId, 'parts', 'part');
     ref(`quotes[${i}].supplierId`, q.supplierId, 'suppliers', 'supplier');

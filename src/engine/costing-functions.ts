@@ -12,11 +12,18 @@ import {
   roundUnit,
   unitCostOf,
 } from '../domain/costing.ts';
+import { amountBaseCents, landedChoiceCents } from '../domain/landed.ts';
 
 /** One line of doc per function, shown in the app's function list. */
 export const COSTING_FUNCTION_DOCS = {
   COST_BEST:
-    'COST_BEST(need, quote_rows): lowest base-currency cost in cents of buying `need` parts from any quote row (rate, MOQ, pack, then break qty/price pairs), buying up to a higher break where cheaper',
+    'COST_BEST(need, quote_rows): lowest landed base-currency cost in cents of buying `need` parts from any quote row (rate, MOQ, pack, freight %, duty %, charges %, supplier token, lead days, rank, then break qty/price pairs), buying up to a higher break where cheaper',
+  COST_BEST_SUPPLIER:
+    'COST_BEST_SUPPLIER(need, quote_rows): the supplier token of the quote row COST_BEST chooses (supplier number × 2, plus 1 when the carriage is ours; −1 when the supplier charges nothing per order)',
+  COST_SUPPLIERS: 'COST_SUPPLIERS(tokens, …): the distinct supplier tokens of several purchases, as text',
+  COST_ORDERS:
+    'COST_ORDERS(supplier_rows, tokens, …): cents charged once per order by the suppliers a run buys from: freight per order where some line leaves the carriage to us, and charges per order; supplier_rows = freight cents, charges cents',
+  COST_ORDER_CENTS: 'COST_ORDER_CENTS(amount, rate): an amount per order converted to base-currency cents',
   COST_RUN:
     'COST_RUN(run, placements, settings_row, cents, …): unit cost at a run size, 4 decimals: material (cents spent / run) + labour + test + overhead, settings_row = rate/h, min/unit, min/placement, test, overhead %, margin %',
   COST_MATERIAL: 'COST_MATERIAL(run, cents, …): material per unit, 4 decimals, from the cents the run spends on each part',
@@ -38,17 +45,31 @@ function num(v: unknown): number {
 let scratchQty = new Float64Array(16);
 let scratchPrice = new Float64Array(16);
 
-/** Best cents over quote rows [rate, moq, pack, q1, p1, q2, p2, …]; rows with no rate (or rate ≤ 0) are skipped. */
-export function bestCentsOverRows(need: number, rows: readonly (readonly unknown[])[]): number | string {
+/**
+ * Columns of a quote row before its price breaks: rate, MOQ, pack, the landed percentages that fall to us (freight,
+ * duty, charges), the supplier token, lead days, and the quote's rank in id order (the ties rule of chooseQuote).
+ */
+export const QUOTE_ROW_HEAD = 9;
+
+/**
+ * The quote row chosen for `need` parts [rate, moq, pack, freight %, duty %, charges %, token, lead, rank, q1, p1, …]:
+ * the lowest landed cents (goods plus the percentage landed costs), ties to the shorter lead time, then the lower
+ * rank, as chooseQuote decides. Rows with no rate (or rate ≤ 0) are skipped.
+ */
+export function bestRowOverRows(need: number, rows: readonly (readonly unknown[])[]): { cents: number; token: number } | string {
   if (!Number.isInteger(need) || need < 0) return `need must be a whole number ≥ 0, got ${need}`;
-  if (need === 0) return 0;
+  if (need === 0) return { cents: 0, token: -1 };
   let best = Infinity;
+  let bestLead = Infinity;
+  let bestRank = Infinity;
+  let bestToken = -1;
   for (const row of rows) {
     const rate = num(row[0]);
     const moq = num(row[1]);
     const pack = num(row[2]);
     if (!(rate > 0) || !(moq >= 0) || !(pack >= 1)) continue;
-    const pairs = (row.length - 3) >> 1;
+    const H = QUOTE_ROW_HEAD;
+    const pairs = (row.length - H) >> 1;
     if (pairs > scratchQty.length) {
       scratchQty = new Float64Array(pairs);
       scratchPrice = new Float64Array(pairs);
@@ -56,8 +77,8 @@ export function bestCentsOverRows(need: number, rows: readonly (readonly unknown
     let n = 0;
     let valid = true;
     for (let i = 0; i < pairs; i++) {
-      const q = num(row[3 + 2 * i]);
-      const p = num(row[4 + 2 * i]);
+      const q = num(row[H + 2 * i]);
+      const p = num(row[H + 1 + 2 * i]);
       if (Number.isNaN(q)) break; // past the row's last break
       if (!(q >= 1) || !(p >= 0) || (n > 0 && q <= scratchQty[n - 1]!)) {
         valid = false;
@@ -70,10 +91,48 @@ export function bestCentsOverRows(need: number, rows: readonly (readonly unknown
     if (!valid || n === 0) continue;
     const b = bestBuyUnchecked(need, moq, pack, scratchQty, scratchPrice, n);
     if (!b) continue;
-    const cents = baseCents(b.cents, rate);
-    if (cents < best) best = cents;
+    const landed = { freightPct: num(row[3]) || 0, dutyPct: num(row[4]) || 0, chargesPct: num(row[5]) || 0, carriage: false };
+    const cents = landedChoiceCents(baseCents(b.cents, rate), landed);
+    const lead = num(row[7]) || 0;
+    const rank = num(row[8]) || 0;
+    if (cents < best || (cents === best && (lead < bestLead || (lead === bestLead && rank < bestRank)))) {
+      best = cents;
+      bestLead = lead;
+      bestRank = rank;
+      bestToken = num(row[6]);
+    }
   }
-  return best === Infinity ? 'no usable quote (every quote row lacks a rate, or has bad breaks)' : best;
+  return best === Infinity ? 'no usable quote (every quote row lacks a rate, or has bad breaks)' : { cents: best, token: Number.isFinite(bestToken) ? bestToken : -1 };
+}
+
+/** The tokens (supplier number × 2 + carriage) in texts of tokens, distinct and ascending; negatives left out. */
+export function supplierTokens(texts: readonly (string | number)[]): number[] {
+  const set = new Set<number>();
+  for (const t of texts) {
+    for (const w of String(t).split(' ')) {
+      const n = w === '' ? NaN : Number(w);
+      if (Number.isInteger(n) && n >= 0) set.add(n);
+    }
+  }
+  return [...set].sort((a, b) => a - b);
+}
+
+/**
+ * Cents charged once per order by the suppliers behind `tokens`: per supplier, its freight per order (column 0 of
+ * its row) when some token leaves the carriage to us, and its charges per order (column 1).
+ */
+export function orderCentsOverRows(rows: readonly (readonly unknown[])[], tokens: readonly number[]): number | string {
+  const carriage = new Map<number, boolean>();
+  for (const t of tokens) carriage.set(t >> 1, (carriage.get(t >> 1) ?? false) || (t & 1) === 1);
+  let sum = 0;
+  for (const [s, carried] of carriage) {
+    const row = rows[s] ?? [];
+    const freight = carried ? num(row[0]) : 0;
+    const charges = num(row[1]);
+    if (!Number.isFinite(freight) || !Number.isFinite(charges)) return `supplier ${s + 1}'s amount per order has no exchange rate`;
+    sum += freight + charges;
+  }
+  return sum;
 }
 
 /** The whole unit cost of one variant at one run size from a Settings row and the cents of its blocks. */
@@ -101,6 +160,27 @@ export class CostingPlugin extends FunctionPlugin {
       method: 'costBest',
       parameters: [{ argumentType: FunctionArgumentType.NUMBER }, { argumentType: FunctionArgumentType.RANGE }],
       vectorizationForbidden: true,
+    },
+    COST_BEST_SUPPLIER: {
+      method: 'costBestSupplier',
+      parameters: [{ argumentType: FunctionArgumentType.NUMBER }, { argumentType: FunctionArgumentType.RANGE }],
+      vectorizationForbidden: true,
+    },
+    COST_SUPPLIERS: {
+      method: 'costSuppliers',
+      parameters: [{ argumentType: FunctionArgumentType.STRING }],
+      repeatLastArgs: 1,
+      vectorizationForbidden: true,
+    },
+    COST_ORDERS: {
+      method: 'costOrders',
+      parameters: [{ argumentType: FunctionArgumentType.RANGE }, { argumentType: FunctionArgumentType.STRING }],
+      repeatLastArgs: 1,
+      vectorizationForbidden: true,
+    },
+    COST_ORDER_CENTS: {
+      method: 'costOrderCents',
+      parameters: [{ argumentType: FunctionArgumentType.NUMBER, minValue: 0 }, { argumentType: FunctionArgumentType.NUMBER }],
     },
     COST_RUN: {
       method: 'costRun',
@@ -151,9 +231,33 @@ export class CostingPlugin extends FunctionPlugin {
 
   costBest(ast: Ast, state: State): Value {
     return this.runFunction(ast.args, state, this.metadata('COST_BEST'), (need: number, range: SimpleRangeValue) => {
-      const r = bestCentsOverRows(need, range.data);
+      const r = bestRowOverRows(need, range.data);
+      return typeof r === 'string' ? new CellError(ErrorType.VALUE, r) : r.cents;
+    });
+  }
+
+  costBestSupplier(ast: Ast, state: State): Value {
+    return this.runFunction(ast.args, state, this.metadata('COST_BEST_SUPPLIER'), (need: number, range: SimpleRangeValue) => {
+      const r = bestRowOverRows(need, range.data);
+      return typeof r === 'string' ? new CellError(ErrorType.VALUE, r) : r.token;
+    });
+  }
+
+  costSuppliers(ast: Ast, state: State): Value {
+    return this.runFunction(ast.args, state, this.metadata('COST_SUPPLIERS'), (...texts: string[]) => supplierTokens(texts).join(' '));
+  }
+
+  costOrders(ast: Ast, state: State): Value {
+    return this.runFunction(ast.args, state, this.metadata('COST_ORDERS'), (range: SimpleRangeValue, ...texts: string[]) => {
+      const r = orderCentsOverRows(range.data, supplierTokens(texts));
       return typeof r === 'number' ? r : new CellError(ErrorType.VALUE, r);
     });
+  }
+
+  costOrderCents(ast: Ast, state: State): Value {
+    return this.runFunction(ast.args, state, this.metadata('COST_ORDER_CENTS'), (amount: number, rate: number) =>
+      rate > 0 ? amountBaseCents(amount, rate) : new CellError(ErrorType.VALUE, 'the amount per order has no exchange rate'),
+    );
   }
 
   costRun(ast: Ast, state: State): Value {

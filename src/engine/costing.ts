@@ -11,6 +11,11 @@
 //   Blocks    build lines that split the family alike (common to all; by steps; by stage…) are summed once per
 //             distinct choice: =SUM(Demand!A…) → cents. Lines sharing a part always share a block, so a variant's
 //             lines of one part merge into one purchase. A variant then reads a handful of block cells, not 80 lines.
+//   Landed    each quote row carries the landed percentages that fall to us on its term, so COST_BEST chooses by
+//             landed cost. Only when some supplier charges an amount per order: Demand gets a second column (the
+//             chosen row's supplier token), Blocks a second column (their tokens), Suppliers one row per supplier
+//             (freight and charges per order in base cents) and OrderCosts one cell per variant and run size
+//             (=COST_ORDERS: the amounts per order of the suppliers it buys from), added to its cents.
 //   Variants  ONE cell per variant and run size: =COST_RUN(run, placements, Settings!A1:F1, Blocks!A…, …) → unit cost.
 //             The first override on a variant expands its row: labour, test, overhead and material get cells of their
 //             own (same kernels) and the unit cost becomes =COST_UNIT(material, labour, test, overhead).
@@ -36,6 +41,8 @@ import {
   variantDemands,
 } from '../domain/costing.ts';
 import type { CostedBom, CostingContext, ResolvedLine, Result } from '../domain/costing.ts';
+import { hasPerOrder, landedRates } from '../domain/landed.ts';
+import { QUOTE_ROW_HEAD } from './costing-functions.ts';
 import { createEngine } from './create.ts';
 import type { FamilyResolution } from './family.ts';
 import { columnLetters } from './cells.ts';
@@ -72,12 +79,26 @@ export function resolutionFromFamily(family: FamilyResolution): Resolution {
 }
 
 const SETTINGS_RANGE = 'Settings!$A$1:$F$1';
-const SHEETS = { rates: 'Rates', settings: 'Settings', quotes: 'Quotes', demand: 'Demand', blocks: 'Blocks', variants: 'Variants' } as const;
+const SHEETS = {
+  rates: 'Rates',
+  settings: 'Settings',
+  quotes: 'Quotes',
+  demand: 'Demand',
+  blocks: 'Blocks',
+  suppliers: 'Suppliers',
+  orders: 'OrderCosts',
+  variants: 'Variants',
+} as const;
 /** Variants sheet: unit cost per run size in columns 0…R−1; an expanded row adds labour, test, overhead, materials. */
 const EXP_LABOUR = 0;
 const EXP_TEST = 1;
 const EXP_OVERHEAD = 2;
 const EXP_MATERIAL = 3;
+
+/** The supplier-token cell beside a cents cell of the Demand or Blocks sheet (column B beside column A). */
+function tokenRef(centsRef: string): string {
+  return centsRef.replace('!$A$', '!$B$');
+}
 
 function quoteFormulaText(text: string): string {
   return text.replace(/"/g, '""');
@@ -136,6 +157,8 @@ export class CostingWorkbook {
       quotes: id(SHEETS.quotes),
       demand: id(SHEETS.demand),
       blocks: id(SHEETS.blocks),
+      suppliers: id(SHEETS.suppliers),
+      orders: id(SHEETS.orders),
       variants: id(SHEETS.variants),
     };
   }
@@ -156,7 +179,13 @@ export class CostingWorkbook {
     if (new Set(runSizes).size !== runSizes.length) return { ok: false, error: 'run sizes are listed twice' };
 
     // Rates: every currency the settings or a quote name.
-    const currencies = new Set<string>([book.settings.baseCurrency, ...Object.keys(book.settings.rates), ...book.quotes.map((q) => q.currency)]);
+    const perOrderCurrencies = book.suppliers.flatMap((s) => [s.freightPerOrder?.currency, s.chargesPerOrder?.currency]).filter((c) => c !== undefined);
+    const currencies = new Set<string>([
+      book.settings.baseCurrency,
+      ...Object.keys(book.settings.rates),
+      ...book.quotes.map((q) => q.currency),
+      ...perOrderCurrencies,
+    ]);
     const rateRows: (string | number | null)[][] = [];
     const rateRow = new Map<string, number>();
     for (const c of currencies) {
@@ -173,7 +202,11 @@ export class CostingWorkbook {
     for (const q of book.quotes) if (quoteProblem(q, ctx.date, 1) === undefined) usable.push(q);
     usable.sort((a, b) => (a.partId < b.partId ? -1 : a.partId > b.partId ? 1 : a.supplierId < b.supplierId ? -1 : a.supplierId > b.supplierId ? 1 : 0));
     const maxBreaks = usable.reduce((m, q) => Math.max(m, q.breaks.length), 1);
-    const lastQuoteCol = columnLetters(2 + 2 * maxBreaks);
+    const lastQuoteCol = columnLetters(QUOTE_ROW_HEAD - 1 + 2 * maxBreaks);
+    // Amounts per order: a supplier's token is its place in the Book × 2 (+ 1 where the carriage is ours).
+    const perOrder = book.suppliers.some(hasPerOrder);
+    const supplierAt = new Map(book.suppliers.map((x, i) => [x.id, i] as const));
+    const rank = new Map([...usable].sort((a, b) => (a.id < b.id ? -1 : a.id > b.id ? 1 : 0)).map((q, i) => [q.id, i] as const));
     const quoteRows: (string | number | null)[][] = [];
     const quoteRow = new Map<string, { row: number; breaks: number }>();
     /** Rows [start, end] of each part's quotes, and of each part+supplier. */
@@ -186,7 +219,20 @@ export class CostingWorkbook {
     const quotes = new Map<string, Quote>();
     for (const q of usable) {
       const r = quoteRows.length;
-      const row: (string | number | null)[] = [`=${SHEETS.rates}!$B$${rateRow.get(q.currency)! + 1}`, q.moq, q.pack];
+      const supplier = ctx.suppliers.get(q.supplierId);
+      const landed = landedRates(supplier, q.incoterm);
+      const token = supplier && hasPerOrder(supplier) ? 2 * supplierAt.get(supplier.id)! + (landed.carriage ? 1 : 0) : -1;
+      const row: (string | number | null)[] = [
+        `=${SHEETS.rates}!$B$${rateRow.get(q.currency)! + 1}`,
+        q.moq,
+        q.pack,
+        landed.freightPct,
+        landed.dutyPct,
+        landed.chargesPct,
+        token,
+        q.leadDays,
+        rank.get(q.id)!,
+      ];
       for (const b of q.breaks) row.push(b.qty, b.price);
       quoteRows.push(row);
       quoteRow.set(q.id, { row: r, breaks: q.breaks.length });
@@ -284,14 +330,15 @@ export class CostingWorkbook {
             if (dr === undefined) {
               dr = demandRows.length;
               demandIndex.set(dkey, dr);
-              demandRows.push([`=COST_BEST(${d.need},${SHEETS.quotes}!$A$${sp[0] + 1}:$${lastQuoteCol}$${sp[1] + 1})`]);
+              const range = `${SHEETS.quotes}!$A$${sp[0] + 1}:$${lastQuoteCol}$${sp[1] + 1}`;
+              demandRows.push(perOrder ? [`=COST_BEST(${d.need},${range})`, `=COST_BEST_SUPPLIER(${d.need},${range})`] : [`=COST_BEST(${d.need},${range})`]);
             }
             cells.push(`${SHEETS.demand}!$A$${dr + 1}`);
           }
           let ref: string | undefined;
           if (cells.length === 1) ref = cells[0]!;
           else if (cells.length > 1) {
-            blockRows.push([`=SUM(${cells.join(',')})`]);
+            blockRows.push(perOrder ? [`=SUM(${cells.join(',')})`, `=COST_SUPPLIERS(${cells.map(tokenRef).join(',')})`] : [`=SUM(${cells.join(',')})`]);
             ref = `${SHEETS.blocks}!$A$${blockRows.length}`;
           }
           for (const i of members) {
@@ -302,6 +349,11 @@ export class CostingWorkbook {
       }
     }
 
+    // Suppliers: freight and charges per order in base cents, following the rates live.
+    const perOrderCell = (amount: { amount: number; currency: string } | undefined): string | number =>
+      amount && amount.amount > 0 ? `=COST_ORDER_CENTS(${amount.amount},${SHEETS.rates}!$B$${rateRow.get(amount.currency)! + 1})` : 0;
+    const supplierRows = perOrder ? book.suppliers.map((x) => [perOrderCell(x.freightPerOrder), perOrderCell(x.chargesPerOrder)]) : [];
+    const orderRows: string[][] = [];
     const variantRows: (string | number)[][] = [];
     const variantRow = new Map<string, number>();
     const variantAt: string[] = [];
@@ -312,14 +364,21 @@ export class CostingWorkbook {
       const placements = placementsPerUnit(ctx, resolution.get(v.id) ?? []);
       const row: string[] = [];
       const material: string[] = [];
+      const orderRow: string[] = [];
       for (let k = 0; k < runSizes.length; k++) {
         const problem = missing[i]![k];
-        const args = refs[i]![k]!.map((x) => ',' + x).join('');
+        const cents = refs[i]![k]!;
+        if (perOrder) {
+          orderRow.push(`=COST_ORDERS(${SHEETS.suppliers}!$A$1:$B$${supplierRows.length},${cents.length ? cents.map(tokenRef).join(',') : '""'})`);
+          cents.push(`${SHEETS.orders}!$${columnLetters(k)}$${i + 1}`);
+        }
+        const args = cents.map((x) => ',' + x).join('');
         material.push(problem !== undefined ? `=COST_PROBLEM("${quoteFormulaText(problem)}")` : `=COST_MATERIAL(${runSizes[k]}${args})`);
         row.push(problem !== undefined ? material[k]! : `=COST_RUN(${runSizes[k]},${placements},${SETTINGS_RANGE}${args})`);
       }
       plan.push({ placements, material });
       variantRows.push(row);
+      if (perOrder) orderRows.push(orderRow);
     });
 
     const hf = createEngine(
@@ -332,6 +391,8 @@ export class CostingWorkbook {
         [SHEETS.quotes]: quoteRows.length ? quoteRows : [[]],
         [SHEETS.demand]: demandRows.length ? demandRows : [[]],
         [SHEETS.blocks]: blockRows.length ? blockRows : [[]],
+        [SHEETS.suppliers]: supplierRows.length ? supplierRows : [[]],
+        [SHEETS.orders]: orderRows.length ? orderRows : [[]],
         [SHEETS.variants]: variantRows.length ? variantRows : [[]],
       },
     );
@@ -511,7 +572,7 @@ export class CostingWorkbook {
       return { ok: false, error: `quote ${quoteId} has breaks 0 to ${at.breaks - 1}, not ${breakIndex}` };
     }
     if (typeof price !== 'number' || !Number.isFinite(price) || price < 0) return { ok: false, error: `a price must be a number ≥ 0, got ${price}` };
-    const changes = this.hf.setCellContents({ sheet: this.sheet.quotes, row: at.row, col: 4 + 2 * breakIndex }, price);
+    const changes = this.hf.setCellContents({ sheet: this.sheet.quotes, row: at.row, col: QUOTE_ROW_HEAD + 1 + 2 * breakIndex }, price);
     this.quotes.get(quoteId)!.breaks[breakIndex]!.price = price;
     this.ctxCache = undefined;
     return { ok: true, value: this.changedCosts(changes) };

@@ -8,8 +8,19 @@ function engine(): HyperFormula {
   return createEngine(
     { smartRounding: false },
     {
-      // The all-units worked example as one quote row: rate 1, MOQ 1, pack 10, then break qty/price pairs.
-      Quotes: [[1, 1, 10, 1, 0.3, 100, 0.2, 500, 0.15, 1000, 0.12, 2500, 0.09]],
+      // The all-units worked example as one quote row: rate 1, MOQ 1, pack 10, no landed cost (freight, duty and
+      // charges 0 %), supplier token −1, lead 0, rank 0, then break qty/price pairs. The second row is the same offer
+      // with freight 5 %, duty 3.5 % and charges 1 % falling to us, from supplier 2 with the carriage ours (token 5).
+      Quotes: [
+        [1, 1, 10, 0, 0, 0, -1, 0, 0, 1, 0.3, 100, 0.2, 500, 0.15, 1000, 0.12, 2500, 0.09],
+        [1, 1, 10, 5, 3.5, 1, 5, 0, 0, 1, 0.3, 100, 0.2, 500, 0.15, 1000, 0.12, 2500, 0.09],
+      ],
+      // Amounts per order in base cents (freight, charges) of suppliers 0, 1 and 2.
+      Suppliers: [
+        [1500, 0],
+        [0, 250],
+        [4000, 300],
+      ],
       // Standard-cost example settings: 15.00/h, 7.2 min (0.12 h) per unit, no placement minutes, no test, 100 %, 20 %.
       Settings: [[15, 7.2, 0, 0, 100, 20]],
     },
@@ -26,7 +37,19 @@ describe('costing functions', () => {
     const sheet = hf.getSheetId('Quotes')!;
     const calc = (f: string): unknown => hf.calculateFormula(f, sheet);
     // All-units buy-up (operations-management texts, from memory): need 909, pack 10 → 1000 × 0.12 = 120.00 beats 910 × 0.15 = 136.50 → 12000 cents.
-    expect(calc('=COST_BEST(909, Quotes!A1:M1)')).toBe(12000);
+    expect(calc('=COST_BEST(909, Quotes!A1:S1)')).toBe(12000);
+    // Landed (by hand): 12000 goods + 5 % freight 600 + 3.5 % duty 420 + 1 % charges 120 = 13140 cents.
+    expect(calc('=COST_BEST(909, Quotes!A2:S2)')).toBe(13140);
+    // Of the two rows the one without landed cost is cheaper; its supplier token is −1.
+    expect(calc('=COST_BEST_SUPPLIER(909, Quotes!A1:S2)')).toBe(-1);
+    expect(calc('=COST_BEST_SUPPLIER(909, Quotes!A2:S2)')).toBe(5);
+    expect(calc('=COST_SUPPLIERS("3", "2 5", -1, "3")')).toBe('2 3 5');
+    // Tokens 2 and 3 are supplier 1 (carriage ours on one purchase), 4 is supplier 2 without carriage:
+    // supplier 1 freight 0 + charges 250, supplier 2 charges 300 only → 550 cents.
+    expect(calc('=COST_ORDERS(Suppliers!A1:B3, "2 3", 4)')).toBe(550);
+    expect(calc('=COST_ORDERS(Suppliers!A1:B3, 5, 1)')).toBe(4000 + 300 + 1500);
+    // 25.00 at 1.17 base per unit → 2925 cents (by hand).
+    expect(calc('=COST_ORDER_CENTS(25, 1.17)')).toBe(2925);
     // Standard cost (cost-accounting texts, from memory): material 1850.00 over 1000 units = 1.85; labour 0.12 h × 15.00 = 1.80; overhead 1.80.
     expect(calc('=COST_MATERIAL(1000, 185000)')).toBe(1.85);
     expect(calc('=COST_LABOUR(0, 15, 7.2, 0)')).toBe(1.8);
@@ -50,7 +73,8 @@ describe('costing functions', () => {
     };
     expect(err('=COST_PROBLEM("no usable quote for X")')).toBe('no usable quote for X');
     expect(err('=COST_PRICE(5, 100)')).toMatch(/below 100/);
-    expect(err('=COST_BEST(9.5, Quotes!A1:M1)')).toMatch(/whole number/);
+    expect(err('=COST_BEST(9.5, Quotes!A1:S1)')).toMatch(/whole number/);
+    expect(err('=COST_ORDER_CENTS(25, 0)')).toMatch(/no exchange rate/);
     expect(err('=COST_BEST(5, Settings!A1:F1)')).toMatch(/no usable quote|bad breaks/);
     hf.destroy();
   });

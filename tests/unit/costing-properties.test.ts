@@ -14,6 +14,7 @@ import {
 } from '../../src/domain/costing.ts';
 import type { PreparedQuote } from '../../src/domain/costing.ts';
 import type { PriceBreak } from '../../src/domain/book.ts';
+import { NO_LANDED } from '../../src/domain/landed.ts';
 import { resolveFixedLines } from '../fixtures/fixed-lines.ts';
 import { part, quote, smallBook, value } from './costing-fixtures.ts';
 import type { LineSpec, QuoteSpec } from './costing-fixtures.ts';
@@ -84,6 +85,7 @@ describe('costing properties', () => {
           quote: quote('p', { id, breaks: t.breaks, moq: t.moq, pack: t.pack }, 1),
           supplier: undefined,
           rate: r,
+          landed: NO_LANDED,
         });
         const one = value(chooseQuote([prep(a, 'qa', 1)], need, 'p'));
         const two = value(chooseQuote([prep(a, 'qa', 1), prep(b, 'qb', rate)], need, 'p'));
