@@ -86,10 +86,23 @@ function linked(raw: unknown): unknown {
   if ('variants' in book) book.variants = uniqueBy(records(book, 'variants'), 'code');
   if ('checks' in book) book.checks = uniqueBy(records(book, 'checks'), 'name');
 
+  if ('priceLists' in book) {
+    const seen = new Set<string>();
+    book.priceLists = records(book, 'priceLists').filter((l) => {
+      const key = String(l.name).trim().toLowerCase();
+      return seen.has(key) ? false : (seen.add(key), true);
+    });
+    // A margin on price stays below 100 %.
+    for (const l of records(book, 'priceLists')) if (l.basis !== 'markup' && typeof l.pct === 'number') l.pct %= 100;
+  }
+
   const settings = isRec(book.settings) ? book.settings : {};
   const base = typeof settings.baseCurrency === 'string' ? settings.baseCurrency : 'EUR';
   const rates: Rec = isRec(settings.rates) ? { ...settings.rates } : { EUR: 1 };
-  for (const c of ['suppliers', 'quotes']) for (const r of records(book, c)) if (typeof r.currency === 'string') rates[r.currency] ??= 0.5;
+  for (const c of ['suppliers', 'quotes', 'priceLists']) for (const r of records(book, c)) if (typeof r.currency === 'string') rates[r.currency] ??= 0.5;
+  for (const s of records(book, 'suppliers')) {
+    for (const m of [s.freightPerOrder, s.chargesPerOrder]) if (isRec(m) && typeof m.currency === 'string') rates[m.currency] ??= 0.5;
+  }
   rates[base] = 1;
   book.settings = { ...settings, rates };
   return book;
