@@ -92,3 +92,67 @@ function replaceRecords<R extends { id: string; rev: number }>(list: readonly R[
   }
   return out;
 }
+
+/**
+ * What changed between two versions of a Book, to bring a copy held elsewhere (the figures worker) from `prev` to
+ * `next` without copying the whole Book: per collection the records saved or added and the ids deleted, or the
+ * whole list when the order of records moved; the settings when they changed. Records are compared by identity and
+ * revision (every save raises the revision), so a diff costs one pass over the collections that changed.
+ */
+export interface BookDelta {
+  collections: { [C in CollectionName]?: { put: CollectionRecord<C>[]; delete: string[] } | { all: CollectionRecord<C>[] } };
+  settings?: Settings;
+}
+
+export function bookDelta(prev: Book, next: Book): BookDelta {
+  const delta: BookDelta = { collections: {} };
+  for (const c of COLLECTIONS) {
+    const before: readonly { id: string; rev: number }[] = prev[c];
+    const after: readonly { id: string; rev: number }[] = next[c];
+    if (before === after) continue;
+    const held = new Map(before.map((r) => [r.id, r] as const));
+    const put: { id: string; rev: number }[] = [];
+    const kept = new Set<string>();
+    for (const r of after) {
+      const o = held.get(r.id);
+      if (o === undefined || o !== r) put.push(r);
+      kept.add(r.id);
+    }
+    const dels = before.filter((r) => !kept.has(r.id)).map((r) => r.id);
+    if (put.length === 0 && dels.length === 0 && before.length === after.length) continue;
+    // The copy applies deletes then puts (in place, or appended): send the whole list when that would not give
+    // the same order.
+    const order = replaceRecords(before, dels, []).map((r) => r.id);
+    for (const r of put) if (!held.has(r.id)) order.push(r.id);
+    const same = order.length === after.length && order.every((id, i) => id === after[i]!.id);
+    delta.collections[c] = (same ? { put, delete: dels } : { all: [...after] }) as never;
+  }
+  if (prev.settings !== next.settings) delta.settings = next.settings;
+  return delta;
+}
+
+/** Applies a `bookDelta` to the copy it was made against: records as given (no revision rules; they were applied). */
+export function applyBookDelta(book: Book, delta: BookDelta): Book {
+  const next: Book = { ...book };
+  for (const c of COLLECTIONS) {
+    const d = delta.collections[c];
+    if (!d) continue;
+    if ('all' in d) {
+      next[c] = d.all as never;
+      continue;
+    }
+    const gone = new Set(d.delete);
+    const out: { id: string; rev: number }[] = book[c].filter((r: { id: string }) => !gone.has(r.id));
+    const at = new Map(out.map((r, i) => [r.id, i] as const));
+    for (const r of d.put as { id: string; rev: number }[]) {
+      const i = at.get(r.id);
+      if (i === undefined) {
+        at.set(r.id, out.length);
+        out.push(r);
+      } else out[i] = r;
+    }
+    next[c] = out as never;
+  }
+  if (delta.settings) next.settings = delta.settings;
+  return next;
+}

@@ -162,11 +162,15 @@ export function whatIfCount(w: WhatIf): number {
   return w.prices.size + w.rates.size + w.settings.size + (w.runSizes ? 1 : 0);
 }
 
-/** Applies every what-if edit to a workbook (the setters hold the latest value, so applying twice is harmless). */
-export function applyWhatIf(wb: CostingWorkbook, w: WhatIf): string[] {
+/**
+ * Applies every what-if edit to a workbook (the setters hold the latest value, so applying twice is harmless).
+ * `holds` says which quotes the workbook was opened with; price edits of other quotes are left for later.
+ */
+export function applyWhatIf(wb: CostingWorkbook, w: WhatIf, holds: (quoteId: string) => boolean = () => true): string[] {
   const errors: string[] = [];
   for (const [key, price] of w.prices) {
     const [quoteId, at] = key.split('#');
+    if (!holds(quoteId!)) continue;
     const r = wb.setQuotePrice(quoteId!, Number(at), price);
     if (!r.ok) errors.push(r.error);
   }

@@ -1,17 +1,22 @@
-// The work behind the Compare page: a private scratch costing workbook of the Book, the what-if edits tried on it
-// (with the text typed for each while it differs from the figure in use), the figures every view reads from it, and
-// keeping the edits in the Book or discarding them.
+// The work behind the Compare page: a private scratch costing workbook of the chosen variants, the what-if edits
+// tried on it (with the text typed for each while it differs from the figure in use), the figures every view reads
+// from it, and keeping the edits in the Book or discarding them. The scratch holds only the chosen variants and the
+// quotes of the parts they buy, so it opens in a moment on the page's thread however large the family; what each
+// variant is built from comes from the live figures (worked out in the figures worker).
 import type { ReactiveController, ReactiveControllerHost } from 'lit';
 import type { Book, Quote, Variant } from '../domain/book.ts';
 import type { CheckStatus } from '../domain/check-status.ts';
 import type { CostedBom, Result } from '../domain/costing.ts';
-import type { CostingWorkbook } from '../engine/costing.ts';
+import { CostingWorkbook } from '../engine/costing.ts';
 import type { FamilyResolution } from '../engine/family.ts';
 import type { BookController } from './book-context.ts';
 import { applyWhatIf, emptyWhatIf, keepWhatIf, readRunSizes, whatIfCount } from './build-costing.ts';
 import type { WhatIf } from './build-costing.ts';
 import { CostingService } from './costing-service.ts';
 import type { FieldProblems } from './record-forms.ts';
+
+/** Why the scratch is not open yet: what each variant is built from is still being worked out. */
+const WORKING = 'being worked out';
 
 /** A figure, or NaN with why it cannot be had. */
 export type Figure = { value: number; problem?: string };
@@ -27,6 +32,10 @@ export class CompareController implements ReactiveController {
 
   private scratch: Result<CostingWorkbook> | undefined;
   private scratchBook: Book | undefined;
+  /** The chosen variants and the live figures' version the scratch was opened with. */
+  private scratchKey = '';
+  /** Quotes the scratch holds (what-if prices of other quotes cannot move the chosen variants). */
+  private scratchQuotes = new Set<string>();
 
   constructor(
     private readonly host: ReactiveControllerHost,
@@ -39,28 +48,49 @@ export class CompareController implements ReactiveController {
     this.closeScratch();
   }
 
-  /** Opens the scratch workbook again when the Book has changed since it was opened. */
-  sync(book: Book): void {
-    if (book !== this.scratchBook) this.openScratch(book);
+  /** Opens the scratch workbook again when the Book, the chosen variants or the live figures have changed. */
+  sync(book: Book, chosen: readonly string[]): void {
+    const costing = CostingService.for(this.books.service!);
+    costing.sync();
+    const key = `${costing.version}\u0000${chosen.join('\u0001')}`;
+    if (book !== this.scratchBook || key !== this.scratchKey) this.openScratch(book, chosen, key);
   }
 
   private closeScratch(): void {
     if (this.scratch?.ok) this.scratch.value.close();
     this.scratch = undefined;
     this.scratchBook = undefined;
+    this.scratchKey = '';
   }
 
-  /** A private workbook of the Book as it is now, with the what-if edits tried on it again. */
-  private openScratch(book: Book): void {
-    const service = this.books.service!;
+  /** A private workbook of the chosen variants as the Book has them now, with the what-if edits tried on it again. */
+  private openScratch(book: Book, chosen: readonly string[], key: string): void {
+    const costing = CostingService.for(this.books.service!);
     this.closeScratch();
-    this.scratch = CostingService.for(service).scratch();
     this.scratchBook = book;
+    this.scratchKey = key;
     this.revision++;
+    if (costing.pending) {
+      this.scratch = { ok: false, error: WORKING };
+      return;
+    }
+    const lines = new Map(costing.resolution().variants.map((v) => [v.variantId, v.lines] as const));
+    const ids = new Set(chosen);
+    const variants = book.variants.filter((v) => ids.has(v.id) && lines.has(v.id));
+    const parts = new Set<string>();
+    for (const v of variants) for (const l of lines.get(v.id)!) if (l.partId !== undefined) parts.add(l.partId);
+    const quotes = book.quotes.filter((q) => parts.has(q.partId));
+    this.scratchQuotes = new Set(quotes.map((q) => q.id));
+    this.scratch = CostingWorkbook.open({ ...book, variants, quotes }, new Map(variants.map((v) => [v.id, lines.get(v.id)!] as const)));
     if (this.scratch.ok) {
-      const errors = applyWhatIf(this.scratch.value, this.whatIf);
+      const errors = applyWhatIf(this.scratch.value, this.whatIf, (quoteId) => this.scratchQuotes.has(quoteId));
       if (errors.length > 0) this.keepError = `Some what-if edits no longer fit the Book and were not applied: ${errors.join('; ')}`;
     }
+  }
+
+  /** True while the live figures the scratch is opened from are still being worked out. */
+  get working(): boolean {
+    return this.scratch?.ok === false && this.scratch.error === WORKING;
   }
 
   runSizes(book: Book): number[] {
@@ -191,7 +221,8 @@ export class CompareController implements ReactiveController {
 
   discard(): void {
     this.clear();
-    this.openScratch(this.books.book!);
+    // The next draw opens the scratch again without the edits.
+    this.closeScratch();
   }
 
   private clear(): void {

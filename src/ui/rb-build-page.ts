@@ -139,9 +139,11 @@ export class RbBuildPage extends LitElement {
     `,
   ];
 
-  private readonly books = new BookController(this);
+  private readonly books = new BookController(this, { figures: true });
   private family: FamilyResolution | undefined;
   private familyBook: Book | undefined;
+  /** The figures' version the resolved lines were read at (they arrive from the worker after the Book changes). */
+  private familyVersion = -1;
   private names: readonly NameHint[] = [];
   private timer: ReturnType<typeof setTimeout> | undefined;
 
@@ -160,9 +162,13 @@ export class RbBuildPage extends LitElement {
   override willUpdate(): void {
     const book = this.books.book;
     const service = this.books.service;
-    if (!book || !service || book === this.familyBook) return;
+    if (!book || !service) return;
+    const costing = CostingService.for(service);
+    costing.sync();
+    if (book === this.familyBook && costing.version === this.familyVersion) return;
     // The shared service keeps the family resolved as the Book changes; the Family and Compare pages read the same.
-    this.family = CostingService.for(service).resolution();
+    this.family = costing.resolution();
+    this.familyVersion = costing.version;
     this.familyBook = book;
     this.names = ruleNames(book);
     if (!book.variants.some((v) => v.id === this.bomVariant)) this.bomVariant = book.variants[0]?.id ?? '';

@@ -62,7 +62,7 @@ export class RbComparePage extends LitElement {
     `,
   ];
 
-  private readonly books = new BookController(this);
+  private readonly books = new BookController(this, { figures: true });
   private readonly costs = new CompareController(this, this.books);
 
   @state() private chosen: string[] | undefined;
@@ -72,7 +72,6 @@ export class RbComparePage extends LitElement {
     const book = this.books.book;
     const service = this.books.service;
     if (!book || !service) return;
-    this.costs.sync(book);
     const ids = new Set(book.variants.map((v) => v.id));
     const had = this.chosen ?? [];
     let chosen = had.filter((id) => ids.has(id));
@@ -81,6 +80,7 @@ export class RbComparePage extends LitElement {
       chosen = book.variants.slice(0, book.variants.length <= FIRST_FEW + 2 ? book.variants.length : FIRST_FEW).map((v) => v.id);
     }
     if (chosen.length !== this.chosen?.length) this.chosen = chosen;
+    this.costs.sync(book, chosen.slice(0, MAX_SHOWN));
     const runs = this.costs.runSizes(book);
     if (!runs.includes(this.splitRun)) this.splitRun = runs[Math.min(1, runs.length - 1)] ?? 0;
   }
@@ -99,6 +99,10 @@ export class RbComparePage extends LitElement {
     if (chosen.length === 0) {
       return html`${n > 0 || c.keepError ? this.renderWhatIfBar(n) : ''}${this.renderChoice(book)}
         <p class="empty" data-testid="compare-none">No variants chosen: tick the variants to compare above.</p>`;
+    }
+    if (c.working) {
+      return html`${n > 0 || c.keepError ? this.renderWhatIfBar(n) : ''}${this.renderChoice(book)}
+        <p class="empty" role="status" data-testid="compare-working">Working out the figures…</p>`;
     }
     return html`${n > 0 || c.keepError ? this.renderWhatIfBar(n) : ''}${this.renderChoice(book)}
       <rb-compare-side .book=${book} .chosen=${chosen} .costs=${c} .revision=${c.revision}></rb-compare-side>

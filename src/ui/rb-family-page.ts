@@ -142,7 +142,7 @@ export class RbFamilyPage extends LitElement {
     `,
   ];
 
-  private readonly books = new BookController(this);
+  private readonly books = new BookController(this, { figures: true });
   private readonly history = new UndoStack<Variant>();
   /** Saves from this page run one after another, each from the Book as the one before left it. */
   private writes: Promise<unknown> = Promise.resolve();
@@ -398,15 +398,16 @@ export class RbFamilyPage extends LitElement {
     </section>`;
   }
 
+  /** Asks for the figures after this paint; they arrive as a change of the costing service, which draws again. */
   private queueSync(costing: CostingService): void {
     if (this.syncQueued) return;
     this.syncQueued = true;
     setTimeout(() => {
       this.syncQueued = false;
-      costing.sync();
-      this.requestUpdate();
+      if (costing.sync().kind !== 'pending') this.requestUpdate();
     }, 0);
   }
+
 
   private renderConfirm(list: Variant[]) {
     const names = list.length <= 3 ? list.map((v) => v.code).join(', ') : `${list.slice(0, 3).map((v) => v.code).join(', ')} and ${list.length - 3} more`;

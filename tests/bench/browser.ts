@@ -12,6 +12,7 @@ import { PROJECT_ROOT, builtApp, scratchDir, viteBuild } from './bundle.ts';
 import type { BenchOptions, BenchSection, Figures } from './harness.ts';
 import { IMPORT_SAMPLE } from './import.ts';
 import { referenceImportBook, writeBookFile } from './book-file.ts';
+import { responsiveFigures } from './responsive.ts';
 import { median, oneLine, round } from './stats.ts';
 
 const FLAGS = [
@@ -264,6 +265,10 @@ export const browserSection: BenchSection = {
         await bookOpenFigures(context, app.url, quick, log).then(
           (figures) => Object.assign(f, figures),
           (e: unknown) => void problems.push(`Book file open: ${oneLine(e, 300)}`),
+        );
+        await responsiveFigures(context, app.url, log).then(
+          (figures) => Object.assign(f, figures),
+          (e: unknown) => void problems.push(`responsiveness: ${oneLine(e, 300)}`),
         );
       }
       if (pageBuilt) {

@@ -11,7 +11,7 @@ import { formatTsv } from '../../src/domain/tsv.ts';
 import { CostingWorkbook, resolutionFromFamily } from '../../src/engine/costing.ts';
 import { resolveFamily } from '../../src/engine/family.ts';
 import { paramText } from '../../src/ui/record-forms.ts';
-import { AppUnderTest, readerText, saved } from './harness.ts';
+import { AppUnderTest, figuresShown, readerText, saved } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
@@ -59,7 +59,7 @@ function costText(book: Book, variantId: string, run: number): string {
 describe('Family grid', () => {
   it('shows a new unit cost after a quote price is edited on the Quotes page', async () => {
     const { page, errors } = await app.open('#/family');
-    await page.locator(`${grid} tbody tr`).first().waitFor();
+    await figuresShown(page);
     const v = demo.variants[0]!;
     const run = demo.settings.runSizes[0]!;
     const heading = `cost_${run}`;
@@ -96,7 +96,7 @@ describe('Family grid', () => {
   it('repeats every variant\'s worst check and unit costs in the at-a-glance table, equal to a fresh costing', async () => {
     const { page, errors } = await app.open('#/family');
     const glance = page.locator('[data-testid="family-glance"]');
-    await glance.locator('tbody tr').first().waitFor();
+    await figuresShown(page);
     const runs = demo.settings.runSizes;
     for (const v of demo.variants) {
       const row = glance.locator('tbody tr').filter({ has: page.locator('th', { hasText: new RegExp(`^${v.code}$`) }) });

@@ -174,6 +174,32 @@ export async function pageLoaded(page: Page, title?: string): Promise<void> {
   await page.locator('main p.muted', { hasText: 'Loading…' }).waitFor({ state: 'detached' });
 }
 
+/**
+ * Waits until the Family page shows the figures of the Book as it is (they are worked out off the page's thread and
+ * arrive a moment after the rows): no figure cell of the at-a-glance table still says "…".
+ */
+export async function figuresShown(page: Page): Promise<void> {
+  const glance = page.locator('[data-testid="family-glance"]');
+  await glance.locator('tbody tr').first().waitFor();
+  await page.waitForFunction(
+    () => {
+      const deep = (root: ParentNode): Element | null => {
+        const hit = root.querySelector('[data-testid="family-glance"]');
+        if (hit) return hit;
+        for (const el of root.querySelectorAll('*')) {
+          const inner = el.shadowRoot ? deep(el.shadowRoot) : null;
+          if (inner) return inner;
+        }
+        return null;
+      };
+      const table = deep(document);
+      return table !== null && [...table.querySelectorAll('tbody td')].every((td) => td.textContent?.trim() !== '…');
+    },
+    undefined,
+    { timeout: 60_000 },
+  );
+}
+
 /** Waits until the last change is written (the save state in the rail says so). */
 export async function saved(page: Page): Promise<void> {
   await page.locator('rb-save-state [data-state="saved"]').waitFor();

@@ -11,7 +11,11 @@ import { CostingWorkbook, resolutionFromFamily } from '../../src/engine/costing.
 import { evaluateChecks, resolveFamily } from '../../src/engine/family.ts';
 import { addBuiltInChecks } from '../../src/engine/check-sheets.ts';
 import { loadBuiltInChecks } from '../../src/cli/check-sheets-fs.ts';
-import { CostingService } from '../../src/ui/costing-service.ts';
+import { costVariant } from '../../src/io/run-export.ts';
+import { FiguresHost } from '../../src/engine/figures-worker.ts';
+import type { FiguresMessage, FiguresRequest } from '../../src/engine/figures-worker.ts';
+import { CostingService, setFiguresWorker } from '../../src/ui/costing-service.ts';
+import type { FiguresWorkerLike } from '../../src/ui/costing-service.ts';
 
 const CHECKS = loadBuiltInChecks();
 
@@ -64,9 +68,9 @@ describe('CostingService', () => {
     const { holder, costing } = start();
     const v = holder.book.variants[0]!;
     const run = holder.book.settings.runSizes[0]!;
-    const bom = costing.costedBom(v.id, run);
+    const bom = costVariant(holder.book, v.id, run);
     if (!bom.ok) throw new Error(bom.error);
-    const line = bom.value.lines[0]!;
+    const line = bom.value.bom.lines[0]!;
     const quote = holder.book.quotes.find((q) => q.id === line.quoteId)!;
     const i = quote.breaks.findIndex((b) => b.qty === line.breakQty);
     const before = costing.unitCost(v.id, run);
@@ -138,5 +142,116 @@ describe('CostingService', () => {
     holder.change({ settings: { ...holder.book.settings, runSizes: [] } });
     expect(costing.problem).toMatch(/no run sizes/);
     expect(Number.isNaN(costing.unitCost(holder.book.variants[0]!.id, 500))).toBe(true);
+  });
+});
+
+/**
+ * A stand-in for the figures worker: runs exactly what the worker runs (FiguresHost), copies every message as
+ * postMessage does (structured clone) and answers later, as a worker would.
+ */
+class FakeWorker implements FiguresWorkerLike {
+  onmessage: ((e: MessageEvent<FiguresMessage>) => void) | null = null;
+  onerror: ((e: ErrorEvent) => void) | null = null;
+  readonly host = new FiguresHost();
+  readonly sent: FiguresRequest[] = [];
+  crash: string | undefined;
+  terminated = false;
+  postMessage(message: FiguresRequest): void {
+    const copy = structuredClone(message);
+    this.sent.push(copy);
+    setTimeout(() => {
+      if (this.terminated) return;
+      if (this.crash !== undefined) {
+        this.onerror?.({ message: this.crash, preventDefault() {} } as ErrorEvent);
+        return;
+      }
+      this.onmessage?.({ data: structuredClone(this.host.handle(copy)) } as MessageEvent<FiguresMessage>);
+    }, 0);
+  }
+  terminate(): void {
+    this.terminated = true;
+  }
+}
+
+/** Waits until the service holds the figures of the Book as it is now. */
+async function settled(costing: CostingService): Promise<void> {
+  for (let i = 0; i < 200 && (costing.sync(), costing.pending); i++) await new Promise((r) => setTimeout(r, 1));
+  expect(costing.pending).toBe(false);
+}
+
+describe('CostingService with the figures worker', () => {
+  function startInWorker(): { holder: Holder; costing: CostingService; workers: FakeWorker[] } {
+    const workers: FakeWorker[] = [];
+    setFiguresWorker(() => {
+      const w = new FakeWorker();
+      workers.push(w);
+      return w;
+    });
+    try {
+      const holder = new Holder(addBuiltInChecks(demoBook(), CHECKS));
+      return { holder, costing: CostingService.for(holder), workers };
+    } finally {
+      setFiguresWorker(undefined);
+    }
+  }
+
+  it('answers from the worker: pending until the figures arrive, then the same figures as a fresh workbook', async () => {
+    const { holder, costing, workers } = startInWorker();
+    const events: string[] = [];
+    costing.addEventListener('change', (e) => events.push((e as CustomEvent<{ kind: string }>).detail.kind));
+    expect(costing.sync().kind).toBe('pending');
+    expect(costing.pending).toBe(true);
+    // Nothing is made up while the first figures are worked out.
+    expect(Number.isNaN(costing.unitCost(holder.book.variants[0]!.id, 500))).toBe(true);
+    expect(costing.costProblem(holder.book.variants[0]!.id, 500)).toBe('being worked out');
+    await settled(costing);
+    expect(events).toEqual(['rebuilt']);
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+    for (const v of holder.book.variants) expect(costing.worstStatus(v.id)).toBe(freshWorst(holder.book).get(v.id));
+    expect(costing.resolution().variants.map((v) => v.variantId)).toEqual(holder.book.variants.map((v) => v.id));
+    expect(workers).toHaveLength(1);
+    expect(workers[0]!.sent.map((m) => m.type)).toEqual(['book']);
+  });
+
+  it('sends only what changed, catches up with edits made while it was answering, and agrees with a fresh workbook', async () => {
+    const { holder, costing, workers } = startInWorker();
+    await settled(costing);
+    const s = holder.book.settings;
+    const foreign = Object.keys(s.rates).find((c) => c !== s.baseCurrency)!;
+    const quote = holder.book.quotes[0]!;
+    const v = holder.book.variants.find((x) => x.code === 'FR3-40-CD')!;
+    // Three edits in a row: the first is sent at once, the other two wait and go together as one change.
+    holder.change({ put: { quotes: [{ ...quote, breaks: quote.breaks.map((b) => ({ ...b, price: b.price * 1.5 })) }] } });
+    expect(costing.sync().kind).toBe('pending');
+    holder.change({ settings: { ...holder.book.settings, rates: { ...s.rates, [foreign]: s.rates[foreign]! * 1.1 } } });
+    holder.change({ put: { variants: [{ ...v, params: { ...v.params, t_amb: 95 } }] }, delete: { variants: [holder.book.variants[0]!.id] } });
+    costing.sync();
+    await settled(costing);
+    const kinds = workers[0]!.sent.map((m) => m.type);
+    expect(kinds).toEqual(['book', 'delta', 'delta']);
+    // The deltas carry the changed records only, never the whole quote list.
+    const quotesSent = workers[0]!.sent.flatMap((m) => (m.type === 'delta' ? [m.delta.collections.quotes] : []));
+    expect(quotesSent[0]).toEqual({ put: [holder.book.quotes.find((q) => q.id === quote.id)], delete: [] });
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+    for (const x of holder.book.variants) expect(costing.worstStatus(x.id)).toBe(freshWorst(holder.book).get(x.id));
+  });
+
+  it('says why when the worker stops, is not left pending, and starts a new worker on the next change', async () => {
+    const { holder, costing, workers } = startInWorker();
+    await settled(costing);
+    workers[0]!.crash = 'out of memory';
+    holder.change({ settings: { ...holder.book.settings, overheadPct: holder.book.settings.overheadPct + 1 } });
+    costing.sync();
+    await settled(costing);
+    expect(costing.problem).toMatch(/the worker stopped \(out of memory\)/);
+    expect(costing.worstStatus(holder.book.variants[0]!.id)).toBe('error');
+    expect(workers[0]!.terminated).toBe(true);
+    holder.change({ settings: { ...holder.book.settings, overheadPct: holder.book.settings.overheadPct + 1 } });
+    costing.sync();
+    await settled(costing);
+    expect(workers).toHaveLength(2);
+    expect(workers[1]!.sent.map((m) => m.type)).toEqual(['book']);
+    expect(costing.problem).toBeUndefined();
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
   });
 });

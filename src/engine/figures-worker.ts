@@ -1,0 +1,42 @@
+// Web Worker entry for the open Book's live figures: the family and costing workbooks live here, so building them
+// (seconds for a large family) and recomputing after an edit never hold up the page. The page sends the Book once,
+// then only what changed (a BookDelta); each answer is the FiguresUpdate of that step. The page's side is
+// src/ui/costing-service.ts.
+import type { Book } from '../domain/book.ts';
+import { applyBookDelta } from '../domain/book-ops.ts';
+import type { BookDelta } from '../domain/book-ops.ts';
+import { LiveFigures } from './figures.ts';
+import type { FiguresUpdate } from './figures.ts';
+
+export type FiguresRequest = { type: 'book'; seq: number; book: Book } | { type: 'delta'; seq: number; delta: BookDelta };
+
+export type FiguresMessage = { type: 'figures'; seq: number; update: FiguresUpdate } | { type: 'failed'; seq: number; message: string };
+
+/** The worker's whole job, as an object so Node tests run exactly what the worker runs. */
+export class FiguresHost {
+  private readonly live = new LiveFigures();
+
+  handle(request: FiguresRequest): FiguresMessage {
+    const seq = request?.seq ?? -1;
+    try {
+      if (request?.type === 'book') return { type: 'figures', seq, update: this.live.update(request.book) };
+      if (request?.type === 'delta') {
+        const held = this.live.current;
+        if (!held) return { type: 'failed', seq, message: 'the figures worker was sent a change before any Book' };
+        return { type: 'figures', seq, update: this.live.update(applyBookDelta(held, request.delta)) };
+      }
+      return { type: 'failed', seq, message: 'the figures worker was sent something other than a Book or a change' };
+    } catch (e) {
+      // The workbooks may be half-updated: start from the next Book sent.
+      this.live.close();
+      return { type: 'failed', seq, message: `the figures could not be worked out: ${e instanceof Error ? e.message : String(e)}` };
+    }
+  }
+}
+
+// Only inside a dedicated worker: a page or Node importing this module for its types must not grab onmessage.
+const scope = globalThis as unknown as { WorkerGlobalScope?: unknown; onmessage: unknown; postMessage(m: unknown): void };
+if (typeof scope.WorkerGlobalScope !== 'undefined') {
+  const host = new FiguresHost();
+  scope.onmessage = (e: MessageEvent<FiguresRequest>) => scope.postMessage(host.handle(e.data));
+}

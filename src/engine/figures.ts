@@ -1,0 +1,340 @@
+// The open Book's live figures as one engine job: each variant's check results and resolved build lines from one
+// family workbook, and its unit cost at every run size from one costing workbook, kept in step with the Book as it
+// changes. The app runs this in a Web Worker (figures-worker.ts) so the page never waits for the engine; tests and
+// other callers may run it in-process. Either way each step's answer is a `FiguresUpdate`: the figures that moved,
+// small enough to copy to the page.
+//
+// Catching up edits the workbooks in place where the engine allows it — a quote price, an exchange rate, a cost
+// setting, a variant parameter whose build lines resolve as before — and rebuilds them on structural changes
+// (variants added or deleted, parts, build lines, suppliers, run sizes, quote terms other than prices).
+import type { Book, CollectionName, Quote, Settings, Variant } from '../domain/book.ts';
+import { worstOf } from '../domain/check-status.ts';
+import type { CheckStatus } from '../domain/check-status.ts';
+import type { Result } from '../domain/costing.ts';
+import { CostingWorkbook, resolutionFromFamily } from './costing.ts';
+import type { ChangedCost } from './costing.ts';
+import { FamilyWorkbook } from './family.ts';
+import type { CheckResult, VariantResolution } from './family.ts';
+
+/** How a catch-up brought the figures up to date. */
+export const SYNC_KINDS = {
+  /** Nothing that figures depend on changed. */
+  same: 'same',
+  /** Workbooks edited in place; `changed` lists the unit costs that moved. */
+  edited: 'edited',
+  /** Workbooks built again from the Book. */
+  rebuilt: 'rebuilt',
+  /** Sent to the figures worker; its answer arrives as a change event. */
+  pending: 'pending',
+} as const;
+export type SyncKind = (typeof SYNC_KINDS)[keyof typeof SYNC_KINDS];
+
+export interface CostingChangeDetail {
+  kind: SyncKind;
+  /** Unit costs that changed (edited), or every one (rebuilt). */
+  changed: readonly ChangedCost[];
+  /** Check results were evaluated again. */
+  checks: boolean;
+}
+
+/** One unit cost as the page shows it: the value, or NaN and why. */
+export interface UnitCostFigure {
+  variantId: string;
+  run: number;
+  value: number;
+  problem?: string;
+}
+
+/** The figures of one catch-up, to be merged into what the page already holds. */
+export interface FiguresUpdate extends CostingChangeDetail {
+  runSizes: number[];
+  /** Why no unit cost can be computed at all, or undefined. */
+  costingError?: string;
+  /** Why the checks could not be evaluated, or undefined. */
+  familyError?: string;
+  /** Every unit cost (when `costsFull`) or the ones that moved. */
+  costs: UnitCostFigure[];
+  costsFull: boolean;
+  /** Check results and resolved lines of every variant (when `checksFull`) or of the variants whose checks moved. */
+  variants: { variantId: string; results: CheckResult[]; lines: VariantResolution | undefined }[];
+  checksFull: boolean;
+}
+
+/** Cost settings the costing workbook takes live. */
+const LIVE_SETTINGS = ['labourRatePerHour', 'labourMinutesPerUnit', 'labourMinutesPerPlacement', 'testCostPerUnit', 'overheadPct', 'marginPct'] as const;
+/** Settings that change no figure. */
+const QUIET_SETTINGS: ReadonlySet<keyof Settings> = new Set(['id', 'rev', 'bookName', 'company', 'lastExportAt', 'editsSinceExport']);
+
+interface RecordDiff<R> {
+  added: R[];
+  removed: R[];
+  changed: [R, R][];
+}
+
+/** Records added, removed and saved again, by id and revision (every save raises the revision). */
+function diffRecords<R extends { id: string; rev: number }>(before: readonly R[], after: readonly R[]): RecordDiff<R> {
+  const out: RecordDiff<R> = { added: [], removed: [], changed: [] };
+  if (before === after) return out;
+  const old = new Map(before.map((r) => [r.id, r] as const));
+  for (const r of after) {
+    const o = old.get(r.id);
+    if (!o) out.added.push(r);
+    else {
+      if (o.rev !== r.rev || (o !== r && JSON.stringify(o) !== JSON.stringify(r))) out.changed.push([o, r]);
+      old.delete(r.id);
+    }
+  }
+  out.removed = [...old.values()];
+  return out;
+}
+
+const empty = (d: RecordDiff<unknown>): boolean => d.added.length === 0 && d.removed.length === 0 && d.changed.length === 0;
+
+/** Price edits between two versions of a quote, or undefined when anything but break prices changed. */
+function priceEdits(a: Quote, b: Quote): { breakIndex: number; price: number }[] | undefined {
+  if (a.breaks.length !== b.breaks.length) return undefined;
+  const strip = (q: Quote) => JSON.stringify({ ...q, rev: 0, breaks: q.breaks.map((x) => x.qty) });
+  if (strip(a) !== strip(b)) return undefined;
+  const out: { breakIndex: number; price: number }[] = [];
+  a.breaks.forEach((x, i) => {
+    const p = b.breaks[i]!.price;
+    if (x.price !== p) out.push({ breakIndex: i, price: p });
+  });
+  return out;
+}
+
+export class LiveFigures {
+  private book: Book | undefined;
+  private family: FamilyWorkbook | undefined;
+  private costing: CostingWorkbook | undefined;
+  private costingError: string | undefined;
+  private familyError: string | undefined;
+  /** Each variant's resolved lines as JSON, to tell whether a parameter edit changed what it is built from. */
+  private lineKeys = new Map<string, string>();
+
+  /** The workbooks' Book: the last one caught up with. */
+  get current(): Book | undefined {
+    return this.book;
+  }
+
+  /** Brings the figures up to `next`; gives what moved. */
+  update(next: Book): FiguresUpdate {
+    const prev = this.book;
+    if (prev === next) return this.answer({ kind: SYNC_KINDS.same, changed: [], checks: false }, [], false);
+    this.book = next;
+    if (prev && this.family && this.costing) return this.catchUp(prev, next);
+    this.openFamily(next);
+    this.openCosting(next);
+    return this.rebuilt(true, undefined);
+  }
+
+  /**
+   * A private costing workbook of the Book as it is now, for what-if edits that must not reach the live figures
+   * (the caller edits it freely and must `close()` it).
+   */
+  scratch(options: { date?: string } = {}): Result<CostingWorkbook> {
+    if (!this.book || !this.family) return { ok: false, error: this.costingError ?? 'the build lines could not be resolved' };
+    return CostingWorkbook.open(this.book, resolutionFromFamily(this.family.resolve()), options);
+  }
+
+  /** Frees both workbooks; the next update builds them again. */
+  close(): void {
+    this.family?.close();
+    this.costing?.close();
+    this.family = undefined;
+    this.costing = undefined;
+    this.book = undefined;
+  }
+
+  private answer(detail: CostingChangeDetail, costs: UnitCostFigure[], costsFull: boolean, checkVariants?: readonly string[]): FiguresUpdate {
+    const variants: FiguresUpdate['variants'] = [];
+    const checksFull = detail.checks && checkVariants === undefined;
+    if (detail.checks) {
+      const results = new Map<string, CheckResult[]>();
+      const wanted = checkVariants ? new Set(checkVariants) : undefined;
+      for (const r of this.family?.results() ?? []) {
+        if (wanted && !wanted.has(r.variantId)) continue;
+        const list = results.get(r.variantId);
+        if (list) list.push(r);
+        else results.set(r.variantId, [r]);
+      }
+      const lines = new Map((this.family?.resolve().variants ?? []).map((v) => [v.variantId, v] as const));
+      for (const v of this.book?.variants ?? []) {
+        if (wanted && !wanted.has(v.id)) continue;
+        variants.push({ variantId: v.id, results: results.get(v.id) ?? [], lines: lines.get(v.id) });
+      }
+    }
+    const out: FiguresUpdate = {
+      ...detail,
+      runSizes: [...(this.costing?.runSizes ?? this.book?.settings.runSizes ?? [])],
+      costs,
+      costsFull,
+      variants,
+      checksFull,
+    };
+    if (this.costingError !== undefined) out.costingError = this.costingError;
+    if (this.familyError !== undefined) out.familyError = this.familyError;
+    return out;
+  }
+
+  /** Every unit cost of the costing workbook, read in one pass. */
+  private allCosts(): UnitCostFigure[] {
+    if (!this.costing) return [];
+    return this.costing.allUnitCosts().map((r) => {
+      const f: UnitCostFigure = { variantId: r.variantId, run: r.run, value: r.unitCost };
+      if (r.error !== undefined) f.problem = r.error;
+      return f;
+    });
+  }
+
+  private someCosts(changed: readonly ChangedCost[]): UnitCostFigure[] {
+    const c = this.costing;
+    if (!c) return [];
+    return changed.map(({ variantId, run }) => {
+      const f: UnitCostFigure = { variantId, run, value: c.unitCost(variantId, run) };
+      if (!Number.isFinite(f.value)) f.problem = c.problem(variantId, 'unitCost', run) ?? 'cannot be computed';
+      return f;
+    });
+  }
+
+  private rebuilt(checks: boolean, checkVariants: readonly string[] | undefined): FiguresUpdate {
+    const changed: ChangedCost[] = [];
+    for (const v of this.book?.variants ?? []) for (const run of this.costing?.runSizes ?? []) changed.push({ variantId: v.id, run });
+    return this.answer({ kind: SYNC_KINDS.rebuilt, changed, checks }, this.allCosts(), true, checkVariants);
+  }
+
+  private openFamily(book: Book): void {
+    this.family?.close();
+    this.family = undefined;
+    this.familyError = undefined;
+    try {
+      this.family = FamilyWorkbook.open(book);
+    } catch (e) {
+      this.familyError = `the checks could not be evaluated: ${e instanceof Error ? e.message : String(e)}`;
+    }
+    this.readLineKeys();
+  }
+
+  private readLineKeys(): void {
+    this.lineKeys = new Map();
+    for (const v of this.family?.resolve().variants ?? []) this.lineKeys.set(v.variantId, JSON.stringify(v.lines));
+  }
+
+  private openCosting(book: Book): void {
+    this.costing?.close();
+    this.costing = undefined;
+    this.costingError = undefined;
+    if (!this.family) {
+      // Without resolved build lines any figure would leave lines out; show why instead of a wrong cost.
+      this.costingError = `the build lines could not be resolved (${this.familyError ?? 'no family workbook'})`;
+      return;
+    }
+    try {
+      const opened = CostingWorkbook.open(book, resolutionFromFamily(this.family.resolve()));
+      if (opened.ok) this.costing = opened.value;
+      else this.costingError = opened.error;
+    } catch (e) {
+      this.costingError = `costs could not be computed: ${e instanceof Error ? e.message : String(e)}`;
+    }
+  }
+
+  /** Edits the workbooks in place where the change allows it, else rebuilds what depends on it. */
+  private catchUp(prev: Book, next: Book): FiguresUpdate {
+    const diff = <C extends CollectionName>(c: C) => diffRecords<Book[C][number]>(prev[c], next[c]);
+    const variants = diff('variants');
+    const checks = diff('checks');
+    const structural = !empty(diff('parts')) || !empty(diff('buildLines')) || !empty(diff('suppliers'));
+    const familyRebuild = structural || !empty(checks) || variants.added.length > 0 || variants.removed.length > 0;
+
+    let familyTouched = familyRebuild;
+    let costingRebuild = structural || variants.added.length > 0 || variants.removed.length > 0;
+    const oldKeys = this.lineKeys;
+    if (familyRebuild) {
+      this.openFamily(next);
+    } else if (variants.changed.length > 0) {
+      familyTouched = true;
+      if (!this.editParams(variants.changed)) {
+        this.openFamily(next);
+        costingRebuild = true;
+      } else {
+        this.readLineKeys();
+        for (const [, v] of variants.changed) if (oldKeys.get(v.id) !== this.lineKeys.get(v.id)) costingRebuild = true;
+      }
+      // The costed BOM names the variant by its code, which the costing workbook copied at open.
+      if (variants.changed.some(([a, b]) => a.code !== b.code)) costingRebuild = true;
+    }
+    if (familyRebuild && !costingRebuild) {
+      // New checks alone do not change what a variant is built from, but parameters saved with them may.
+      for (const v of next.variants) if (oldKeys.get(v.id) !== this.lineKeys.get(v.id)) costingRebuild = true;
+      if (variants.changed.some(([a, b]) => a.code !== b.code)) costingRebuild = true;
+    }
+    // A parameter edit moves only the edited variants' checks; a rebuilt family moves every variant's.
+    const checkVariants = familyRebuild ? undefined : variants.changed.map(([, v]) => v.id);
+
+    const edits: (() => Result<ChangedCost[]>)[] = [];
+    if (!costingRebuild) {
+      const quotes = diff('quotes');
+      if (quotes.added.length || quotes.removed.length) costingRebuild = true;
+      for (const [a, b] of quotes.changed) {
+        const p = priceEdits(a, b);
+        if (!p) costingRebuild = true;
+        else for (const e of p) edits.push(() => this.costing!.setQuotePrice(b.id, e.breakIndex, e.price));
+      }
+      const s0 = prev.settings;
+      const s1 = next.settings;
+      if (s0 !== s1) {
+        for (const k of Object.keys({ ...s0, ...s1 }) as (keyof Settings)[]) {
+          if (QUIET_SETTINGS.has(k) || k === 'rates' || (LIVE_SETTINGS as readonly string[]).includes(k)) continue;
+          if (JSON.stringify(s0[k]) !== JSON.stringify(s1[k])) costingRebuild = true;
+        }
+        for (const k of LIVE_SETTINGS) if (s0[k] !== s1[k]) edits.push(() => this.costing!.setCostSetting(k, s1[k]));
+        const currencies = new Set([...Object.keys(s0.rates), ...Object.keys(s1.rates)]);
+        for (const c of currencies) {
+          const r = s1.rates[c];
+          if (s0.rates[c] === r) continue;
+          if (r === undefined) costingRebuild = true;
+          else edits.push(() => this.costing!.setRate(c, r));
+        }
+      }
+    }
+
+    const changed: ChangedCost[] = [];
+    if (!costingRebuild) {
+      for (const edit of edits) {
+        const r = edit();
+        if (!r.ok) {
+          // An edit the live workbook cannot take (a currency it does not hold): build it again instead.
+          costingRebuild = true;
+          break;
+        }
+        changed.push(...r.value);
+      }
+    }
+    if (costingRebuild) {
+      this.openCosting(next);
+      return this.rebuilt(familyTouched, checkVariants);
+    }
+    if (changed.length === 0 && !familyTouched && edits.length === 0) return this.answer({ kind: SYNC_KINDS.same, changed, checks: false }, [], false);
+    return this.answer({ kind: SYNC_KINDS.edited, changed, checks: familyTouched }, this.someCosts(changed), false, checkVariants);
+  }
+
+  /** Sets changed parameters in the family workbook; false when a parameter was removed (needs a rebuild). */
+  private editParams(pairs: [Variant, Variant][]): boolean {
+    const family = this.family!;
+    for (const [a, b] of pairs) {
+      for (const k of Object.keys(a.params)) if (!Object.hasOwn(b.params, k)) return false;
+      for (const [k, v] of Object.entries(b.params)) {
+        if (a.params[k] === v) continue;
+        if (!family.setParam(b.id, k, v).ok) return false;
+      }
+    }
+    return true;
+  }
+}
+
+/** The worst status of each variant's checks, from its results. */
+export function worstByVariant(results: ReadonlyMap<string, readonly CheckResult[]>): Map<string, CheckStatus> {
+  const out = new Map<string, CheckStatus>();
+  for (const [id, list] of results) out.set(id, worstOf(list.map((r) => r.status)));
+  return out;
+}

@@ -1,0 +1,210 @@
+// What a person feels in the built app, in Chromium, with the reference family (200 variants × 80 build lines) opened
+// through the Book menu: for each step — the open, a parameter edit in the Family grid, its undo, a quote price edit
+// on the Quotes page, a quantity edit on the Build page, page switches — the time from the person's action to its
+// visible effect, and the longest main-thread task meanwhile (Long Tasks API: tasks of 50 ms or more; none = 0)
+// with the longest gap between painted frames. An edit's effect is shown twice: the edited value itself, and the
+// unit cost on the Family page worked out again from it (for edits made on another page, that includes going back
+// to the Family page through the rail).
+import type { BrowserContext, Page } from 'playwright-core';
+import type { Book } from '../../src/domain/book.ts';
+import { costVariant } from '../../src/io/run-export.ts';
+import { referenceFamily } from '../fixtures/reference-family.ts';
+import { writeBookFile } from './book-file.ts';
+import type { Figures } from './harness.ts';
+import { round } from './stats.ts';
+
+/**
+ * Runs in every document before the app's scripts: records long tasks (start, duration) and, each animation frame,
+ * the longest gap between frames since `__rbMark()` was last called. A string, so no build helper leaks in.
+ */
+export const LONG_TASK_PROBE = `(() => {
+  const long = [];
+  window.__rbLong = long;
+  try {
+    new PerformanceObserver((list) => { for (const e of list.getEntries()) long.push([e.startTime, e.duration]); })
+      .observe({ type: 'longtask', buffered: true });
+  } catch {}
+  const gap = { max: 0, last: performance.now() };
+  window.__rbGapSince = gap;
+  window.__rbMark = () => { gap.max = 0; gap.last = performance.now(); return gap.last; };
+  const tick = () => { const now = performance.now(); gap.max = Math.max(gap.max, now - gap.last); gap.last = now; requestAnimationFrame(tick); };
+  requestAnimationFrame(tick);
+  const deep = (root, sel) => {
+    const hit = root.querySelector(sel);
+    if (hit) return hit;
+    for (const el of root.querySelectorAll('*')) {
+      const inner = el.shadowRoot ? deep(el.shadowRoot, sel) : null;
+      if (inner) return inner;
+    }
+    return null;
+  };
+  window.__rbDeep = (sel) => deep(document, sel);
+  window.__rbGlance = (code, w) => {
+    const table = deep(document, '[data-testid="family-glance"]');
+    const row = table && [...table.querySelectorAll('tbody tr')].find((tr) => tr.querySelector('th')?.textContent?.trim() === code);
+    const text = row?.querySelectorAll('td')[1]?.textContent?.trim() ?? '';
+    const fits = /\\d/.test(text) && (w.is === undefined || text === w.is) && (w.not === undefined || text !== w.not);
+    return fits ? { at: performance.now(), text } : false;
+  };
+  window.__rbUntil = (test, timeout) => new Promise((resolve, reject) => {
+    const end = performance.now() + timeout;
+    const tick = () => {
+      const r = test();
+      if (r) resolve(r);
+      else if (performance.now() > end) reject(new Error('not seen in ' + timeout + ' ms'));
+      else requestAnimationFrame(tick);
+    };
+    tick();
+  });
+  window.__rbText = (sel, want) => (deep(document, sel)?.textContent?.trim() === want ? performance.now() : false);
+})();`;
+
+/** Page time now, and the frame-gap probe started afresh. */
+function mark(page: Page): Promise<number> {
+  return page.evaluate('window.__rbMark()') as Promise<number>;
+}
+
+/** The longest task that overlapped [from, to] in page time (0 when none reached 50 ms), and the longest frame gap. */
+async function strain(page: Page, from: number, to: number): Promise<{ task: number; gap: number }> {
+  return page.evaluate(`(() => {
+    let task = 0;
+    for (const [start, d] of window.__rbLong) if (start < ${to} && start + d > ${from}) task = Math.max(task, d);
+    return { task, gap: Math.max(window.__rbGapSince.max, performance.now() - window.__rbGapSince.last) };
+  })()`) as Promise<{ task: number; gap: number }>;
+}
+
+/**
+ * Waits, checking every frame, until the Family page's at-a-glance row of `code` shows a unit cost (the first run
+ * size) that is `want.is`, or is not `want.not`, or any figure; gives the page time it was first seen.
+ */
+async function glanceCost(page: Page, code: string, want: { is?: string; not?: string } = {}, timeout = 120_000): Promise<{ at: number; text: string }> {
+  return page.evaluate(`window.__rbUntil(() => window.__rbGlance(${JSON.stringify(code)}, ${JSON.stringify(want)}), ${timeout})`) as Promise<{
+    at: number;
+    text: string;
+  }>;
+}
+
+async function rail(page: Page, slug: string): Promise<void> {
+  await page.locator(`nav a[href="#/${slug}"]`).click();
+}
+
+/** The quote and break a variant's dearest costed line buys at, from the same costing as the app. */
+function dearestQuote(book: Book, variantId: string, run: number): { quoteId: string; breakIndex: number; supplierCode: string; price: number } {
+  const r = costVariant(book, variantId, run);
+  if (!r.ok) throw new Error(r.error);
+  const line = [...r.value.bom.lines].sort((a, b) => b.extendedBase - a.extendedBase)[0]!;
+  const quote = book.quotes.find((q) => q.id === line.quoteId)!;
+  const breakIndex = quote.breaks.findIndex((b) => b.qty === line.breakQty);
+  return { quoteId: quote.id, breakIndex, supplierCode: quote.supplierCode, price: quote.breaks[breakIndex]!.price };
+}
+
+export async function responsiveFigures(context: BrowserContext, appUrl: string, log: (t: string) => void): Promise<Figures> {
+  const book = referenceFamily().book;
+  const file = writeBookFile('reference-family.rungbook.json', book);
+  const first = book.variants.map((v) => v.code).sort()[0]!;
+  const variant = book.variants.find((v) => v.code === first)!;
+  const run = book.settings.runSizes[0]!;
+  const f: Figures = {};
+  const record = async (name: string, page: Page, t0: number, seen: { visible?: number; cost?: number }): Promise<void> => {
+    const end = Math.max(seen.visible ?? 0, seen.cost ?? 0);
+    const s = await strain(page, t0, end);
+    if (seen.visible !== undefined) f[`ui_${name}_visible_ms`] = round(seen.visible - t0);
+    if (seen.cost !== undefined) f[`ui_${name}_cost_ms`] = round(seen.cost - t0);
+    f[`ui_${name}_longest_task_ms`] = round(s.task);
+    f[`ui_${name}_max_frame_gap_ms`] = round(s.gap);
+  };
+
+  const page = await context.newPage();
+  try {
+    await page.addInitScript({ content: LONG_TASK_PROBE });
+    await page.goto(`${appUrl}#/family`);
+    await page.locator('[data-testid="family-table"] tbody tr').first().waitFor({ timeout: 60_000 });
+
+    log(`browser: responsiveness with the reference family (${book.variants.length} variants × ${book.buildLines.length} lines)`);
+    await page.locator('rb-book-menu input[type="file"]').setInputFiles(file.path);
+    const dialog = page.locator('rb-book-menu dialog[open]');
+    await dialog.waitFor({ timeout: 120_000 });
+    let t0 = await mark(page);
+    await dialog.getByRole('button', { name: 'Replace with the file' }).click();
+    const opened = await glanceCost(page, first);
+    await record('open', page, t0, { cost: opened.at });
+
+    // A parameter edit in the Family grid: one more step on the first variant.
+    const keys = await page.locator('[data-testid="family-table"] thead th').evaluateAll((ths) => ths.map((th) => th.getAttribute('data-key')));
+    const codes = await page.locator('[data-testid="family-table"] tbody th').allTextContents();
+    const r = codes.map((c) => c.trim()).indexOf(first);
+    const cell = page.locator(`[data-testid="family-table"] [data-r="${r}"][data-c="${keys.indexOf('steps')}"]`);
+    const steps = Number(variant.params['steps']);
+    const next = steps >= 8 ? steps - 1 : steps + 1;
+    await cell.click();
+    await page.keyboard.press('Enter');
+    await page.keyboard.press('Control+A');
+    await page.keyboard.type(String(next));
+    t0 = await mark(page);
+    await page.keyboard.press('Enter');
+    const cellSel = `[data-testid="family-table"] [data-r="${r}"][data-c="${keys.indexOf('steps')}"]`;
+    const shownValue = (await page.evaluate(`window.__rbUntil(() => window.__rbText(${JSON.stringify(cellSel)}, ${JSON.stringify(String(next))}), 60000)`)) as number;
+    const paramCost = await glanceCost(page, first, { not: opened.text });
+    await record('param_edit', page, t0, { visible: shownValue, cost: paramCost.at });
+
+    // Its undo, from the Family page's own button.
+    t0 = await mark(page);
+    await page.getByRole('button', { name: '↶ Undo' }).click();
+    const undone = await glanceCost(page, first, { is: opened.text });
+    await record('undo', page, t0, { cost: undone.at });
+
+    // A quote price edit on the Quotes page, then back to the Family page for the new unit cost.
+    const q = dearestQuote(book, variant.id, run);
+    t0 = await mark(page);
+    await rail(page, 'quotes');
+    await page.locator('[data-testid="quotes-table"]').waitFor();
+    const quotesShown = await mark(page);
+    await record('switch_to_quotes', page, t0, { visible: quotesShown });
+    await page.getByLabel('Filter quotes').fill(q.supplierCode);
+    await page.locator(`[data-testid="quotes-table"] tbody tr[data-id="${q.quoteId}"]`).getByRole('button', { name: 'edit' }).click();
+    await page.locator(`#f-break-price-${q.breakIndex}`).fill(String(round(q.price * 3 + 1, 4)));
+    t0 = await mark(page);
+    await page.getByRole('button', { name: 'Save the quote' }).click();
+    await page.locator('rb-quote-form').waitFor({ state: 'detached' });
+    const priceShown = (await page.evaluate('performance.now()')) as number;
+    await rail(page, 'family');
+    const priceCost = await glanceCost(page, first, { not: opened.text });
+    await record('price_edit', page, t0, { visible: priceShown, cost: priceCost.at });
+
+    // A quantity edit on the Build page: the first line the variant buys gets one more part per unit.
+    const line = book.buildLines.find((l) => /^\d+$/.test(l.qtyRule) && l.appliesWhen === '' && l.partId !== undefined)!;
+    t0 = await mark(page);
+    await rail(page, 'build');
+    await page.locator('[data-testid="build-lines"]').waitFor();
+    const buildShown = await mark(page);
+    await record('switch_to_build', page, t0, { visible: buildShown });
+    await page.locator(`[data-testid="build-lines"] tbody tr[data-id="${line.id}"]`).getByRole('button', { name: 'edit' }).click();
+    await page.locator('#f-qtyRule input').fill(String(Number(line.qtyRule) + 1));
+    t0 = await mark(page);
+    await page.getByRole('button', { name: 'Save the line' }).click();
+    await page.locator(`[data-testid="build-lines"] tbody tr[data-id="${line.id}"] code`, { hasText: String(Number(line.qtyRule) + 1) }).first().waitFor();
+    const qtyShown = (await page.evaluate('performance.now()')) as number;
+    await rail(page, 'family');
+    const qtyCost = await glanceCost(page, first, { not: priceCost.text });
+    await record('quantity_edit', page, t0, { visible: qtyShown, cost: qtyCost.at });
+
+    // Page switches with the large family: to Compare and back.
+    t0 = await mark(page);
+    await rail(page, 'compare');
+    await page.locator('[data-testid="compare-table"]').waitFor({ timeout: 60_000 });
+    await record('switch_to_compare', page, t0, { visible: await mark(page) });
+    t0 = await mark(page);
+    await rail(page, 'family');
+    const back = await glanceCost(page, first);
+    await record('switch_to_family', page, t0, { visible: back.at });
+
+    const longest = Object.entries(f)
+      .filter(([k]) => k.endsWith('_longest_task_ms'))
+      .reduce((m, [, v]) => Math.max(m, v as number), 0);
+    f['ui_longest_task_ms'] = longest;
+    f['ui_book'] = `reference family (${book.variants.length} variants × ${book.buildLines.length} lines, ${book.quotes.length} quotes), opened through the Book menu`;
+    return f;
+  } finally {
+    await page.close();
+  }
+}
