@@ -17,6 +17,9 @@ export type {
   ImportBatch,
   NotebookPage,
   NotebookSection,
+  Order,
+  OrderLine,
+  OrderStatus,
   ParamValue,
   Part,
   PartKind,
@@ -24,7 +27,11 @@ export type {
   PriceBreak,
   Quote,
   Run,
+  RunStatus,
   Settings,
+  StockMove,
+  StockMoveKind,
+  StockValuation,
   Supplier,
   Variant,
 } from './schema.ts';
@@ -46,6 +53,8 @@ export const COLLECTIONS = [
   'runs',
   'importBatches',
   'pages',
+  'orders',
+  'stockMoves',
 ] as const;
 export type CollectionName = (typeof COLLECTIONS)[number];
 
@@ -67,6 +76,12 @@ export function defaultSettings(): Settings {
     overheadPct: 0,
     marginPct: 0,
     attrition: { default: 0.01 },
+    orderPrefix: 'ORD-',
+    nextOrderNumber: 1,
+    kittingDays: 5,
+    safetyDays: 2,
+    horizonDays: 90,
+    stockValuation: 'lastPaid',
   };
 }
 
@@ -84,6 +99,8 @@ export function emptyBook(): Book {
     runs: [],
     importBatches: [],
     pages: [],
+    orders: [],
+    stockMoves: [],
   };
 }
 

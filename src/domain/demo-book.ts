@@ -28,6 +28,12 @@ function settings(): Settings {
     // Units of EUR for one unit of each currency.
     rates: { EUR: 1, USD: 0.92, GBP: 1.17 },
     runSizes: [500, 2000, 10000],
+    orderPrefix: 'TAC-',
+    nextOrderNumber: 1,
+    kittingDays: 5,
+    safetyDays: 3,
+    horizonDays: 120,
+    stockValuation: 'lastPaid',
     labourRatePerHour: 24,
     labourMinutesPerUnit: 6,
     labourMinutesPerPlacement: 0.08,
@@ -625,5 +631,7 @@ export function demoBook(): Book {
     runs: runs(),
     importBatches: [],
     pages: pages(),
+    orders: [],
+    stockMoves: [],
   };
 }

@@ -40,6 +40,12 @@ export const LIMITS = {
   leadDays: 3_650,
   rate: 1e6,
   money: 1e12,
+  /** Lines of one supplier order. */
+  orderLines: 1_000,
+  /** Stock movements: a busy store over many seasons. */
+  stockMoves: 1_000_000,
+  /** Days of a planning horizon, kitting or safety allowance. */
+  planDays: 3_650,
   /** A landed-cost share (freight, duty, charges) as a percentage of the goods' value. */
   landedPct: 1_000,
   /** A price list's markup on cost, in percent. */
@@ -84,6 +90,17 @@ export function isPartValueUnit(u: string): u is PartValueUnit {
 }
 
 export const MAPPING_LAYOUTS = ['wide', 'long'] as const;
+
+/** Why stock moved: a count's difference, a receipt from an order, an issue to a run, scrap, a correction. */
+export const STOCK_MOVE_KINDS = ['counted', 'received', 'issued', 'scrapped', 'adjusted'] as const;
+export type StockMoveKind = (typeof STOCK_MOVE_KINDS)[number];
+export const ORDER_STATUSES = ['open', 'part-received', 'received', 'cancelled'] as const;
+export type OrderStatus = (typeof ORDER_STATUSES)[number];
+export const RUN_STATUSES = ['planned', 'built'] as const;
+export type RunStatus = (typeof RUN_STATUSES)[number];
+/** How stock on hand is valued in a run's costing: at the last price paid for it, or at today's best quote. */
+export const STOCK_VALUATIONS = ['lastPaid', 'quote'] as const;
+export type StockValuation = (typeof STOCK_VALUATIONS)[number];
 export const DECIMAL_MARKS = ['.', ','] as const;
 export const PRICE_UNITS = ['unit', 'per100', 'per1000', 'pack'] as const;
 
@@ -624,6 +641,55 @@ export const RunSchema = obj({
   notes: v.optional(text(LIMITS.notes), ''),
   /** When frozen, the costed BOM as computed then; later quote changes do not alter it. */
   frozen: v.optional(FrozenRunSchema),
+  /** A planned run (also when absent) is in the plan; a built run has issued its parts from stock on `builtDate`. */
+  status: v.optional(oneOf(RUN_STATUSES)),
+  builtDate: v.optional(date()),
+});
+
+/**
+ * One movement of stock: on hand of a part is the sum of its movements, never a number kept and overwritten.
+ * In is positive, out negative. A receipt names its order line; an issue names its run.
+ */
+export const StockMoveSchema = obj({
+  ...recordBase,
+  partId: id(),
+  date: date(),
+  /** Whole parts, signed: + into stock, − out of it; never 0. */
+  quantity: num({ min: -LIMITS.quantity, max: LIMITS.quantity, integer: true }),
+  kind: oneOf(STOCK_MOVE_KINDS),
+  /** Why, in the user's words (a count's name, a scrap reason). */
+  reason: v.optional(text(LIMITS.shortText), ''),
+  /** The order a receipt came on, and the index of its line there. */
+  orderId: v.optional(id()),
+  orderLine: v.optional(count(LIMITS.orderLines)),
+  /** The run the parts were issued to. */
+  runId: v.optional(id()),
+});
+
+export const OrderLineSchema = obj({
+  partId: id(),
+  quantity: num({ min: 0, above: true, integer: true, max: LIMITS.quantity }),
+  /** Unit price agreed, in `currency`. */
+  price: num({ min: 0, max: LIMITS.price }),
+  currency: currency(),
+  /** The quote the price came from, as it was when ordered (it may since be superseded or removed). */
+  quoteId: v.optional(id()),
+  /** Parts received so far on this line: the sum of its receipts. */
+  received: v.optional(count(), 0),
+});
+
+/** An order placed with one supplier. Cancelling keeps it, and what was received on it, as history. */
+export const OrderSchema = obj({
+  ...recordBase,
+  /** The order number the supplier sees, unique in the Book. */
+  number: filled(LIMITS.name),
+  supplierId: id(),
+  status: v.optional(oneOf(ORDER_STATUSES), 'open'),
+  orderedDate: date(),
+  /** Date the parts are due in. */
+  dueDate: date(),
+  lines: list(OrderLineSchema, LIMITS.orderLines),
+  notes: v.optional(text(LIMITS.notes), ''),
 });
 
 export const ImportBatchSchema = obj({
@@ -688,6 +754,17 @@ export const SettingsSchema = v.pipe(
     attrition: v.optional(keyed(num({ min: 0, below: 1 })), { default: 0.01 }),
     /** Date used to decide quote expiry; absent = today. */
     costingDate: v.optional(date()),
+    /** Order numbers: the prefix and the next number given. */
+    orderPrefix: v.optional(text(LIMITS.name), 'ORD-'),
+    nextOrderNumber: v.optional(num({ min: 1, integer: true, max: LIMITS.quantity }), 1),
+    /** Days between the parts being in and the finished units being wanted (kitting and assembly). */
+    kittingDays: v.optional(num({ min: 0, integer: true, max: LIMITS.planDays }), 5),
+    /** Days of margin before that, for a late delivery. */
+    safetyDays: v.optional(num({ min: 0, integer: true, max: LIMITS.planDays }), 2),
+    /** Planned runs wanted within this many days of the plan date are planned together. */
+    horizonDays: v.optional(num({ min: 1, integer: true, max: LIMITS.planDays }), 90),
+    /** How a run's costing values parts taken from stock. */
+    stockValuation: v.optional(oneOf(STOCK_VALUATIONS), 'lastPaid'),
     lastExportAt: v.optional(time()),
     editsSinceExport: v.optional(count(Number.MAX_SAFE_INTEGER)),
   }),
@@ -723,6 +800,8 @@ export const BookSchema = obj({
   runs: v.optional(list(RunSchema, LIMITS.records), []),
   importBatches: v.optional(list(ImportBatchSchema, LIMITS.records), []),
   pages: v.optional(list(NotebookPageSchema, LIMITS.sections), []),
+  orders: v.optional(list(OrderSchema, LIMITS.records), []),
+  stockMoves: v.optional(list(StockMoveSchema, LIMITS.stockMoves), []),
 });
 
 // ---------------------------------------------------------------------------------------------------------------
@@ -747,6 +826,9 @@ export type FrozenSettings = v.InferOutput<typeof FrozenSettingsSchema>;
 export type FrozenSnapshot = v.InferOutput<typeof FrozenSnapshotSchema>;
 export type FrozenRun = v.InferOutput<typeof FrozenRunSchema>;
 export type Run = v.InferOutput<typeof RunSchema>;
+export type StockMove = v.InferOutput<typeof StockMoveSchema>;
+export type OrderLine = v.InferOutput<typeof OrderLineSchema>;
+export type Order = v.InferOutput<typeof OrderSchema>;
 export type ImportBatch = v.InferOutput<typeof ImportBatchSchema>;
 export type NotebookSection = v.InferOutput<typeof NotebookSectionSchema>;
 export type NotebookPage = v.InferOutput<typeof NotebookPageSchema>;
@@ -825,7 +907,19 @@ function crossRecordProblemsOf(output: unknown): SchemaProblem[] {
 }
 
 /** Collections of a Book, in file order. */
-const COLLECTION_KEYS = ['parts', 'suppliers', 'quotes', 'variants', 'buildLines', 'checks', 'runs', 'importBatches', 'pages'] as const;
+const COLLECTION_KEYS = [
+  'parts',
+  'suppliers',
+  'quotes',
+  'variants',
+  'buildLines',
+  'checks',
+  'runs',
+  'importBatches',
+  'pages',
+  'orders',
+  'stockMoves',
+] as const;
 
 /** Rules between records: ids unique per collection, references that resolve, rated currencies, unique codes and names. */
 export function crossRecordProblems(book: Book): SchemaProblem[] {
@@ -863,7 +957,12 @@ export function crossRecordProblems(book: Book): SchemaProblem[] {
     if (l.partId !== undefined) ref(`buildLines[${i}].partId`, l.partId, 'parts', 'part');
     if (l.pinnedSupplierId !== undefined) ref(`buildLines[${i}].pinnedSupplierId`, l.pinnedSupplierId, 'suppliers', 'supplier');
   });
-  book.runs.forEach((r, i) => ref(`runs[${i}].variantId`, r.variantId, 'variants', 'variant'));
+  book.runs.forEach((r, i) => {
+    ref(`runs[${i}].variantId`, r.variantId, 'variants', 'variant');
+    if (r.status === 'built' && r.builtDate === undefined) add(`runs[${i}].builtDate`, 'a built run needs the date it was built');
+    if (r.status !== 'built' && r.builtDate !== undefined) add(`runs[${i}].builtDate`, 'only a built run has a date it was built');
+  });
+  problems.push(...stockProblems(book, ids));
   book.importBatches.forEach((b, i) => ref(`importBatches[${i}].supplierId`, b.supplierId, 'suppliers', 'supplier'));
   const unique = <T>(items: readonly T[], c: string, field: string, key: (x: T) => string, what: string): void => {
     const seen = new Map<string, number>();
@@ -876,5 +975,73 @@ export function crossRecordProblems(book: Book): SchemaProblem[] {
   };
   unique(book.variants, 'variants', 'code', (x) => x.code, 'variant code');
   unique(book.checks, 'checks', 'name', (x) => x.name, 'check name');
+  unique(book.orders, 'orders', 'number', (x) => x.number, 'order number');
+  return problems;
+}
+
+/** The sign each kind of stock movement must have: in, out, or either (never 0). */
+const MOVE_SIGN: Record<StockMoveKind, 1 | -1 | 0> = { counted: 0, received: 1, issued: -1, scrapped: -1, adjusted: 0 };
+
+/**
+ * Rules of orders and stock movements: references resolve, signs fit the kind, each order line's `received` is
+ * the sum of its receipts and never more than was ordered, and an order's status says what was received.
+ */
+function stockProblems(book: Book, ids: Record<(typeof COLLECTION_KEYS)[number], Set<string>>): SchemaProblem[] {
+  const problems: SchemaProblem[] = [];
+  const add = (path: string, message: string): void => void problems.push({ path, message });
+  const has = (c: (typeof COLLECTION_KEYS)[number], x: string, path: string, what: string): boolean => {
+    if (ids[c].has(x)) return true;
+    add(path, `refers to ${what} ${short(x)}, which is not in the file`);
+    return false;
+  };
+  const orders = new Map(book.orders.map((o) => [o.id, o] as const));
+  book.orders.forEach((o, i) => {
+    const at = `orders[${i}]`;
+    has('suppliers', o.supplierId, `${at}.supplierId`, 'supplier');
+    if (o.dueDate < o.orderedDate) add(`${at}.dueDate`, `the due date ${o.dueDate} is before the order date ${o.orderedDate}`);
+    if (o.lines.length === 0) add(`${at}.lines`, 'an order needs at least one line');
+    let full = 0;
+    let some = 0;
+    o.lines.forEach((l, k) => {
+      has('parts', l.partId, `${at}.lines[${k}].partId`, 'part');
+      if (isCurrencyCode(l.currency) && !Object.hasOwn(book.settings.rates, l.currency)) {
+        add(`${at}.lines[${k}].currency`, `currency ${l.currency} has no exchange rate in settings.rates`);
+      }
+      if (l.received > l.quantity) add(`${at}.lines[${k}].received`, `${l.received} received is more than the ${l.quantity} ordered`);
+      if (l.received >= l.quantity) full++;
+      if (l.received > 0) some++;
+    });
+    const status = o.status === 'cancelled' ? 'cancelled' : full === o.lines.length && o.lines.length > 0 ? 'received' : some > 0 ? 'part-received' : 'open';
+    if (status !== o.status) add(`${at}.status`, `is ${o.status}, but what its lines received makes it ${status}`);
+  });
+  const receivedOn = new Map<string, number>();
+  book.stockMoves.forEach((m, i) => {
+    const at = `stockMoves[${i}]`;
+    has('parts', m.partId, `${at}.partId`, 'part');
+    const sign = MOVE_SIGN[m.kind];
+    if (m.quantity === 0) add(`${at}.quantity`, 'a movement moves at least one part; 0 is not a movement');
+    else if (sign !== 0 && Math.sign(m.quantity) !== sign) {
+      add(`${at}.quantity`, `a ${m.kind} movement ${sign > 0 ? 'adds to' : 'takes from'} stock, so its quantity must be ${sign > 0 ? 'above' : 'below'} 0, not ${m.quantity}`);
+    }
+    if (m.runId !== undefined) has('runs', m.runId, `${at}.runId`, 'run');
+    if (m.orderLine !== undefined && m.orderId === undefined) add(`${at}.orderLine`, 'an order line needs its order (orderId)');
+    if (m.orderId === undefined || !has('orders', m.orderId, `${at}.orderId`, 'order')) return;
+    if (m.kind !== 'received') add(`${at}.kind`, `only a receipt comes from an order, not a ${m.kind} movement`);
+    const o = orders.get(m.orderId)!;
+    const line = m.orderLine === undefined ? undefined : o.lines[m.orderLine];
+    if (line === undefined) {
+      add(`${at}.orderLine`, `order ${short(o.number)} has lines 0 to ${o.lines.length - 1}; a receipt must name one`);
+      return;
+    }
+    if (line.partId !== m.partId) add(`${at}.partId`, `is ${short(m.partId)}, but line ${m.orderLine} of order ${short(o.number)} is for ${short(line.partId)}`);
+    const key = `${m.orderId}\u0000${m.orderLine}`;
+    receivedOn.set(key, (receivedOn.get(key) ?? 0) + m.quantity);
+  });
+  book.orders.forEach((o, i) =>
+    o.lines.forEach((l, k) => {
+      const moved = receivedOn.get(`${o.id}\u0000${k}`) ?? 0;
+      if (moved !== l.received) add(`orders[${i}].lines[${k}].received`, `is ${l.received}, but the receipts on this line add up to ${moved}`);
+    }),
+  );
   return problems;
 }

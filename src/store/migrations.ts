@@ -209,4 +209,14 @@ export const MIGRATIONS: readonly Migration[] = [
       await Promise.all(writes);
     },
   },
+  {
+    version: 2,
+    title: 'stores for supplier orders and stock movements',
+    async up(db) {
+      const orders = db.createObjectStore('orders', { keyPath: 'id' });
+      orders.createIndex('bySupplier', 'supplierId');
+      orders.createIndex('byNumber', 'number');
+      db.createObjectStore('stockMoves', { keyPath: 'id' }).createIndex('byPart', 'partId');
+    },
+  },
 ];

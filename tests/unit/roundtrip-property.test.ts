@@ -83,6 +83,11 @@ function linked(raw: unknown): unknown {
       .filter(() => suppliers.length > 0)
       .map((b, i) => ({ ...b, supplierId: pick(suppliers, i) }));
   }
+  for (const r of records(book, 'runs')) {
+    if (r.status === 'built') r.builtDate ??= '2025-01-01';
+    else delete r.builtDate;
+  }
+  linkStock(book, parts, suppliers, ids('runs'));
   if ('variants' in book) book.variants = uniqueBy(records(book, 'variants'), 'code');
   if ('checks' in book) book.checks = uniqueBy(records(book, 'checks'), 'name');
 
@@ -103,9 +108,59 @@ function linked(raw: unknown): unknown {
   for (const s of records(book, 'suppliers')) {
     for (const m of [s.freightPerOrder, s.chargesPerOrder]) if (isRec(m) && typeof m.currency === 'string') rates[m.currency] ??= 0.5;
   }
+  for (const o of records(book, 'orders')) for (const l of records(o, 'lines')) if (typeof l.currency === 'string') rates[l.currency] ??= 0.5;
   rates[base] = 1;
   book.settings = { ...settings, rates };
   return book;
+}
+
+const MOVE_SIGN: Record<string, number> = { received: 1, issued: -1, scrapped: -1 };
+
+/**
+ * Orders and stock movements that hold together: orders name a supplier and parts, unique numbers, lines; a
+ * movement naming an order becomes a receipt on one of its lines; each line's `received` is the sum of its
+ * receipts (the ordered quantity raised to it where needed); signs fit the kind; statuses follow what came in.
+ */
+function linkStock(book: Rec, parts: string[], suppliers: string[], runs: string[]): void {
+  const pick = (list: string[], i: number): string | undefined => (list.length ? list[i % list.length] : undefined);
+  const orders = uniqueBy(records(book, 'orders'), 'number')
+    .filter((o) => suppliers.length > 0 && parts.length > 0 && records(o, 'lines').length > 0)
+    .map((o, i): Rec & { lines: (Rec & { received: number })[] } => {
+      const lines = records(o, 'lines').map((l, k) => ({ ...l, partId: pick(parts, i + k), received: 0 }));
+      const dates = [o.orderedDate as string, o.dueDate as string].sort();
+      return { ...o, supplierId: pick(suppliers, i), lines, orderedDate: dates[0], dueDate: dates[1] };
+    });
+  if ('orders' in book) book.orders = orders;
+  const moves = records(book, 'stockMoves')
+    .filter(() => parts.length > 0)
+    .map((m, i) => {
+      const out: Rec = { ...m, partId: pick(parts, i) };
+      delete out.orderId;
+      delete out.orderLine;
+      const order = m.orderId !== undefined ? orders[i % Math.max(1, orders.length)] : undefined;
+      if (order) {
+        const k = i % order.lines.length;
+        const line = order.lines[k]!;
+        Object.assign(out, { kind: 'received', orderId: order.id, orderLine: k, partId: line.partId });
+      }
+      const size = Math.max(1, Math.abs(Math.trunc(Number(m.quantity) || 1)));
+      const sign = MOVE_SIGN[out.kind as string] ?? (Number(m.quantity) < 0 ? -1 : 1);
+      out.quantity = sign * size;
+      if (order) order.lines[out.orderLine as number]!.received += size;
+      if (out.runId !== undefined) {
+        const r = pick(runs, i);
+        if (r === undefined) delete out.runId;
+        else out.runId = r;
+      }
+      return out;
+    });
+  if ('stockMoves' in book) book.stockMoves = moves;
+  for (const o of orders) {
+    for (const l of o.lines) l.quantity = Math.max(Number(l.quantity) || 1, l.received);
+    const full = o.lines.every((l) => l.received >= (l.quantity as number));
+    const some = o.lines.some((l) => l.received > 0);
+    if (o.status !== 'cancelled') o.status = full ? 'received' : some ? 'part-received' : 'open';
+  }
 }
 
 const generated = arbitraryOf(BookSchema as unknown as Node).map(linked);

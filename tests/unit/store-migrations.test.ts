@@ -3,7 +3,8 @@
 import 'fake-indexeddb/auto';
 import { IDBFactory } from 'fake-indexeddb';
 import { describe, expect, it } from 'vitest';
-import { mpnKey } from '../../src/domain/book.ts';
+import { defaultSettings, mpnKey } from '../../src/domain/book.ts';
+import type { Settings } from '../../src/domain/book.ts';
 import { openBookStore } from '../../src/store/idb-store.ts';
 import { MIGRATIONS, migrationProblems, stepsToRun } from '../../src/store/migrations.ts';
 import type { Migration } from '../../src/store/migrations.ts';
@@ -12,6 +13,13 @@ import { buildPrototypeDb } from '../fixtures/store-v0-prototype.ts';
 import { sampleBook } from '../fixtures/sample-book.ts';
 
 const step = (version: number, up: Migration['up'] = async () => {}): Migration => ({ version, title: `step ${version}`, up });
+function planningDefaults(): Partial<Settings> {
+  const { orderPrefix, nextOrderNumber, kittingDays, safetyDays, horizonDays, stockValuation } = defaultSettings();
+  return { orderPrefix, nextOrderNumber, kittingDays, safetyDays, horizonDays, stockValuation };
+}
+/** The newest released schema, and the version a next step would produce. */
+const LAST = MIGRATIONS.length;
+const NEXT = LAST + 1;
 
 function rawOpen(factory: IDBFactory, name: string): Promise<IDBDatabase> {
   return new Promise((resolve, reject) => {
@@ -70,7 +78,7 @@ describe('upgrade from the prototype database (schema 0)', () => {
     await buildPrototypeDb(factory, 'rungbook-proto');
     const store = await openBookStore('rungbook-proto', { factory });
     const book = await store.load();
-    expect(await store.schemaVersion()).toBe(1);
+    expect(await store.schemaVersion()).toBe(LAST);
     store.close();
 
     expect(book.settings).toMatchObject({ rev: 1, bookName: 'Prototype book', company: 'Kestrel Test Works', baseCurrency: 'EUR' });
@@ -99,7 +107,7 @@ describe('upgrade from the prototype database (schema 0)', () => {
     expect(book.variants.every((v) => v.rev === 1)).toBe(true);
 
     const db = await rawOpen(factory, 'rungbook-proto');
-    expect(db.version).toBe(2);
+    expect(db.version).toBe(idbVersionOf(LAST));
     expect(Array.from(db.objectStoreNames)).not.toContain('kv');
     const found = await rawGet(db.transaction('parts').objectStore('parts').index('byMpnKey').getAll(mpnKey('KT-R0603-473')));
     expect(found.map((p: { id: string }) => p.id)).toEqual(['p1']);
@@ -107,28 +115,65 @@ describe('upgrade from the prototype database (schema 0)', () => {
   });
 });
 
+describe('step 2: stores for orders and stock movements', () => {
+  it('adds the two stores to a schema-1 database, keeps every record, and then holds orders and movements', async () => {
+    const factory = new IDBFactory();
+    (await openBookStore('rungbook-step2', { factory, migrations: MIGRATIONS.slice(0, 1) })).close();
+    // Records as schema 1 kept them, written straight into its stores.
+    const sample = sampleBook();
+    const run = { id: 'run_9', rev: 1, name: 'Autumn', variantId: 'var_3', quantity: 200, dateWanted: '2025-09-01', notes: '' };
+    const raw1 = await rawOpen(factory, 'rungbook-step2');
+    expect(Array.from(raw1.objectStoreNames)).not.toContain('orders');
+    const tx = raw1.transaction(['parts', 'suppliers', 'variants', 'runs', 'settings'], 'readwrite');
+    const { orderPrefix: _a, nextOrderNumber: _b, kittingDays: _c, safetyDays: _d, horizonDays: _e, stockValuation: _f, ...settings } = sample.settings;
+    tx.objectStore('settings').put(settings);
+    for (const p of sample.parts) tx.objectStore('parts').put({ ...p, mpnKey: mpnKey(p.mpn) });
+    for (const x of sample.suppliers) tx.objectStore('suppliers').put(x);
+    for (const x of sample.variants) tx.objectStore('variants').put(x);
+    tx.objectStore('runs').put(run);
+    await new Promise((resolve) => (tx.oncomplete = resolve));
+    raw1.close();
+
+    // Step 2 and any later ones run.
+    const v2 = await openBookStore('rungbook-step2', { factory });
+    expect(await v2.schemaVersion()).toBe(LAST);
+    const book = await v2.load();
+    expect([book.parts, book.suppliers, book.variants, book.runs]).toEqual([sample.parts, sample.suppliers, sample.variants, [run]]);
+    expect([book.orders, book.stockMoves]).toEqual([[], []]);
+    // The planning settings a schema-1 Book never had come in at their defaults.
+    expect(book.settings).toEqual({ ...sample.settings, ...planningDefaults() });
+    await v2.replaceAll(sample);
+    expect(await v2.load()).toEqual(sample);
+    v2.close();
+    const db = await rawOpen(factory, 'rungbook-step2');
+    expect(Array.from(db.transaction('stockMoves').objectStore('stockMoves').indexNames)).toEqual(['byPart']);
+    expect(Array.from(db.transaction('orders').objectStore('orders').indexNames)).toEqual(['byNumber', 'bySupplier']);
+    db.close();
+  });
+});
+
 describe('the next schema is one added step', () => {
-  it('runs only the new step on a schema-1 database and keeps every record', async () => {
+  it('runs only the new step on a database at the last schema and keeps every record', async () => {
     const factory = new IDBFactory();
     const v1 = await openBookStore('rungbook-next', { factory });
     await v1.replaceAll(sampleBook());
     v1.close();
 
     const ran: string[] = [];
-    const step2 = step(2, async (db, tx, from) => {
-      ran.push(`2 from ${from}`);
+    const next = step(NEXT, async (db, tx, from) => {
+      ran.push(`${NEXT} from ${from}`);
       // a plausible future change: find runs by the date wanted
       tx.objectStore('runs').createIndex('byDateWanted', 'dateWanted');
       expect(db.objectStoreNames.contains('runs')).toBe(true);
     });
-    const v2 = await openBookStore('rungbook-next', { factory, migrations: [...MIGRATIONS, step2] });
-    expect(ran).toEqual(['2 from 1']);
-    expect(await v2.schemaVersion()).toBe(2);
+    const v2 = await openBookStore('rungbook-next', { factory, migrations: [...MIGRATIONS, next] });
+    expect(ran).toEqual([`${NEXT} from ${LAST}`]);
+    expect(await v2.schemaVersion()).toBe(NEXT);
     expect(await v2.load()).toEqual(sampleBook());
     v2.close();
 
     const db = await rawOpen(factory, 'rungbook-next');
-    expect(db.version).toBe(3);
+    expect(db.version).toBe(idbVersionOf(NEXT));
     expect(Array.from(db.transaction('runs').objectStore('runs').indexNames)).toContain('byDateWanted');
     db.close();
   });
@@ -137,10 +182,10 @@ describe('the next schema is one added step', () => {
     const ran: number[] = [];
     const store = await openBookStore('rungbook-order', {
       factory: new IDBFactory(),
-      migrations: [...MIGRATIONS, step(2, async () => void ran.push(2)), step(3, async () => void ran.push(3))],
+      migrations: [...MIGRATIONS, step(NEXT, async () => void ran.push(NEXT)), step(NEXT + 1, async () => void ran.push(NEXT + 1))],
     });
-    expect(ran).toEqual([2, 3]);
-    expect(await store.schemaVersion()).toBe(3);
+    expect(ran).toEqual([NEXT, NEXT + 1]);
+    expect(await store.schemaVersion()).toBe(NEXT + 1);
     store.close();
   });
 
@@ -149,21 +194,21 @@ describe('the next schema is one added step', () => {
     const v1 = await openBookStore('rungbook-failstep', { factory });
     await v1.replaceAll(sampleBook());
     v1.close();
-    const bad = step(2, async () => {
-      throw new Error('step 2 could not convert a record');
+    const bad = step(NEXT, async () => {
+      throw new Error('the step could not convert a record');
     });
     await expect(openBookStore('rungbook-failstep', { factory, migrations: [...MIGRATIONS, bad] })).rejects.toThrow(
-      /could not be opened: step 2 could not convert a record/,
+      /could not be opened: the step could not convert a record/,
     );
     const again = await openBookStore('rungbook-failstep', { factory });
-    expect(await again.schemaVersion()).toBe(1);
+    expect(await again.schemaVersion()).toBe(LAST);
     expect(await again.load()).toEqual(sampleBook());
     again.close();
   });
 
   it('refuses a database written by a newer schema with a reload message', async () => {
     const factory = new IDBFactory();
-    const newer = await openBookStore('rungbook-newer', { factory, migrations: [...MIGRATIONS, step(2)] });
+    const newer = await openBookStore('rungbook-newer', { factory, migrations: [...MIGRATIONS, step(NEXT)] });
     newer.close();
     await expect(openBookStore('rungbook-newer', { factory })).rejects.toThrow(/saved by a newer Rungbook/);
   });

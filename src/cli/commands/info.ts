@@ -20,14 +20,16 @@ const LABELS: Record<CollectionName, string> = {
   runs: 'runs',
   importBatches: 'import batches',
   pages: 'notebook pages',
+  orders: 'orders',
+  stockMoves: 'stock moves',
 };
 
 const HELP = `usage: rungbook info FILE [--json]
 
 Reads a Book file (.rungbook.json), checks all of it, and prints what it holds: counts of parts, suppliers,
-quotes, variants, build lines, checks, runs, import batches and pages, and a summary (book name, company, base
-currency, currencies with their rates, variant codes). A file that cannot be used is refused with its first
-problems, each with its place in the file; the exit status is then 1.
+quotes, variants, build lines, checks, runs, import batches, pages, orders and stock movements, and a summary
+(book name, company, base currency, currencies with their rates, variant codes). A file that cannot be used is
+refused with its first problems, each with its place in the file; the exit status is then 1.
 
 options:
   --json   print the counts and summary as JSON`;
