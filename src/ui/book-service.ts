@@ -304,6 +304,8 @@ export class BookService extends EventTarget {
       this.ownRevisions.clear();
       // Pages drop what they hold of the old Book (undo steps, open forms) when they see the count move.
       this.replacements += 1;
+      // The run last opened was one of the old Book's, even where the new one has a run of the same id.
+      this.openedRunId = undefined;
     });
     if (result.ok && openedFileAt) {
       this.editsSinceExport = 0;

@@ -38,8 +38,6 @@ export class ChecksController implements ReactiveController {
   revision = 0;
   /** Edits of variant parameters and part ratings made from a check's detail, undone one at a time. */
   readonly history = new UndoStack<Variant | Part>();
-  /** The Book replacement the drafts and undo steps belong to (see BookService.replacements). */
-  private replacementSeen = 0;
 
   private session: FamilyWorkbook | undefined;
   /** The Book the session was built from (or adopted after our own save). */
@@ -65,13 +63,6 @@ export class ChecksController implements ReactiveController {
   /** Follows the Book: a Book of our own save is adopted, any other rebuilds the session. */
   sync(book: Book): void {
     if (book === this.sessionBook) return;
-    const replaced = this.books.service?.replacements ?? 0;
-    if (replaced !== this.replacementSeen) {
-      // A replaced Book may reuse the old one's ids: typed formulas and undo steps of the old Book must not apply.
-      this.replacementSeen = replaced;
-      this.formulaDrafts = new Map();
-      this.history.clear();
-    }
     if (this.ownSaves > 0 && this.session) {
       this.sessionBook = book;
       return;

@@ -4,6 +4,7 @@ import { ContextProvider } from '@lit/context';
 import { LitElement, css, html, nothing } from 'lit';
 import type { TemplateResult } from 'lit';
 import { customElement, state } from 'lit/decorators.js';
+import { keyed } from 'lit/directives/keyed.js';
 import { BOOK_FILE_EXTENSION } from '../io/book-file.ts';
 import { StoredBookInvalid } from '../store/types.ts';
 import { bookContext } from './book-context.ts';
@@ -278,6 +279,11 @@ export class RbApp extends LitElement {
   private go(route: Route): void {
     this.route = route;
     this.notice = undefined;
+    this.show(route);
+  }
+
+  /** Shows the route's page: the element kept from an earlier visit, a new one, or one once its code has loaded. */
+  private show(route: Route): void {
     if (route.kind !== 'page' || !route.entry.tag || !route.entry.load) {
       this.pageElement = undefined;
       return;
@@ -286,6 +292,12 @@ export class RbApp extends LitElement {
     const cached = this.pageElements.get(slug);
     if (cached) {
       this.pageElement = cached;
+      return;
+    }
+    if (customElements.get(tag)) {
+      const el = document.createElement(tag);
+      this.pageElements.set(slug, el);
+      this.pageElement = el;
       return;
     }
     this.pageElement = undefined;
@@ -299,6 +311,20 @@ export class RbApp extends LitElement {
         this.notice = { tone: 'problem', title: `The ${route.entry.title} page could not be loaded`, lines: [String(e)] };
       },
     );
+  }
+
+  /** The Book replacement the kept pages were made for (see BookService.replacements). */
+  private replacementSeen = 0;
+
+  override willUpdate(): void {
+    if (this.phase.kind !== 'open') return;
+    const replaced = this.phase.service.replacements;
+    if (replaced === this.replacementSeen) return;
+    // The whole Book was replaced (empty Book, demo Book, opened file): every page's open forms, selections, drafts,
+    // imports in progress and undo steps belong to a Book that is gone, so every page starts afresh.
+    this.replacementSeen = replaced;
+    this.pageElements.clear();
+    this.show(this.route);
   }
 
   override render() {
@@ -439,7 +465,8 @@ export class RbApp extends LitElement {
     if (route.kind === 'notebook') {
       const page = service.book.pages.find((p) => p.id === route.pageId);
       if (!page) return this.renderMissing(`No notebook page with id “${route.pageId}” in this Book.`);
-      return html`<rb-user-page .pageId=${page.id}></rb-user-page>`;
+      // Keyed by the Book replacement, so a notebook page of a replaced Book starts afresh like the other pages.
+      return html`${keyed(service.replacements, html`<rb-user-page .pageId=${page.id}></rb-user-page>`)}`;
     }
     if (route.kind === 'unknown') return this.renderMissing(`There is no page at “${route.hash}”.`);
     return this.renderPage(route.entry);
