@@ -5,7 +5,7 @@
 //
 // Rounding (the costing module's one rule, domain/costing.ts): amounts are cents, per-unit figures 4 decimals, both
 // written from integer cents / ten-thousandths so the digits are exact; unit prices are written as quoted. The run
-// material row is the sum of the extended base-currency column, the leftover value row the sum of its column, the
+// material row is the sum of the landed base-currency column (goods + freight + duty + charges, domain/landed.ts), the leftover value row the sum of its column, the
 // unit cost the sum of the four per-unit rows, and the run total the run material plus the run's labour, test and
 // overhead row: every total equals the sum of the rows it is made of, to the cent.
 import type { Book, Part, Run } from '../domain/book.ts';
@@ -122,14 +122,24 @@ export function costedBomHeader(currency: string): string[] {
     'currency',
     'extended',
     `extended_${currency}`,
+    'incoterm',
+    `freight_${currency}`,
+    `duty_${currency}`,
+    `charges_${currency}`,
+    `landed_${currency}`,
     'leftover',
     `leftover_value_${currency}`,
   ];
 }
 
-/** Index of the base-currency amount column, where the totals stand. */
-export const COSTED_TOTAL_COLUMN = 14;
-export const COSTED_LEFTOVER_COLUMN = 16;
+/** Index of the landed base-currency amount column (goods + freight + duty + charges), where the totals stand. */
+export const COSTED_TOTAL_COLUMN = 19;
+export const COSTED_LEFTOVER_COLUMN = 21;
+
+/** A line's landed amount in cents: its goods in the base currency plus freight, duty and charges (0 where a costing frozen before landed cost has none). */
+function landedLineCents(l: CostedBom['lines'][number]): number {
+  return toCents(l.extendedBase) + toCents(l.freight ?? 0) + toCents(l.duty ?? 0) + toCents(l.charges ?? 0);
+}
 
 /** Labels of the totals rows, in file order, for a base currency and margin. */
 export function costedTotalLabels(currency: string, marginPct: number) {
@@ -171,6 +181,11 @@ export function costedBomRows(c: RunCosting): ExportCell[][] {
       l.currency,
       money(l.extended),
       money(l.extendedBase),
+      l.incoterm ?? '',
+      money(l.freight ?? 0),
+      money(l.duty ?? 0),
+      money(l.charges ?? 0),
+      money(landedLineCents(l) / 100),
       qty(l.leftover),
       money(l.leftoverValue),
     ]);
@@ -182,7 +197,7 @@ export function costedBomRows(c: RunCosting): ExportCell[][] {
     rows.push(row);
   }
   const labels = costedTotalLabels(bom.currency, c.marginPct);
-  const materialCents = bom.lines.reduce((s, l) => s + toCents(l.extendedBase), 0);
+  const materialCents = bom.lines.reduce((s, l) => s + landedLineCents(l), 0);
   const leftoverCents = bom.lines.reduce((s, l) => s + toCents(l.leftoverValue), 0);
   const conversionCents = toCents(bom.runTotal) - toCents(bom.materialRun);
   const total = (label: string, value: NumberCell, column = COSTED_TOTAL_COLUMN): void => {

@@ -7,6 +7,7 @@ import type { Book, Run } from '../../src/domain/book.ts';
 import { toCents, toTenThousandths } from '../../src/domain/costing.ts';
 import { purchaseList } from '../../src/domain/purchase.ts';
 import {
+  COSTED_LEFTOVER_COLUMN,
   COSTED_TOTAL_COLUMN,
   costedBomCsv,
   costedBomHeader,
@@ -70,6 +71,10 @@ describe('costed BOM CSV', () => {
       expect(num(r[at('unit_price')]!)).toBe(l.unitPrice);
       expect(cents(r[at('extended')]!)).toBe(toCents(l.extended));
       expect(cents(r[at('extended_EUR')]!)).toBe(toCents(l.extendedBase));
+      expect(cents(r[at('freight_EUR')]!)).toBe(toCents(l.freight ?? 0));
+      expect(cents(r[at('duty_EUR')]!)).toBe(toCents(l.duty ?? 0));
+      expect(cents(r[at('charges_EUR')]!)).toBe(toCents(l.charges ?? 0));
+      expect(r[at('incoterm')]).toBe(l.incoterm ?? '');
       expect(cents(r[at('leftover_value_EUR')]!)).toBe(toCents(l.leftoverValue));
     }
   });
@@ -87,7 +92,7 @@ describe('costed BOM CSV', () => {
     const sumCents = (col: number): number => body.reduce((s, r) => s + cents(r[col]!), 0);
     expect(cents(total(labels.materialRun)[COSTED_TOTAL_COLUMN]!)).toBe(toCents(bom.materialRun));
     expect(cents(total(labels.materialRun)[COSTED_TOTAL_COLUMN]!)).toBe(sumCents(COSTED_TOTAL_COLUMN));
-    expect(cents(total(labels.leftoverValue)[16]!)).toBe(sumCents(16));
+    expect(cents(total(labels.leftoverValue)[COSTED_LEFTOVER_COLUMN]!)).toBe(sumCents(COSTED_LEFTOVER_COLUMN));
     expect(cents(total(labels.runTotal)[COSTED_TOTAL_COLUMN]!)).toBe(toCents(bom.runTotal));
     expect(cents(total(labels.runTotal)[COSTED_TOTAL_COLUMN]!)).toBe(
       cents(total(labels.materialRun)[COSTED_TOTAL_COLUMN]!) + cents(total(labels.conversionRun)[COSTED_TOTAL_COLUMN]!),

@@ -37,7 +37,11 @@ they were), unless --fresh or --date is given. The CSV has the same bytes as the
 
 Money: each line's extended price is rounded to cents in the quote's currency, then converted and rounded to
 cents in the base currency; run totals are sums of those. The run pays for all it buys (leftover stock is shown
-with its value, not credited). Overhead is a percentage of labour; price = unit cost / (1 − margin).
+with its value, not credited). Landed cost (freight, duty, payment and bank charges, in the base currency) is
+part of material: percentages of each line's base-currency value, each rounded to cents, and a supplier's
+amounts per order shared among its lines by value (largest remainder); the quote's Incoterms 2020 term decides
+which of freight and duty are ours (DDP: neither; C terms, DAP, DPU: duty only; E and F terms: both).
+Overhead is a percentage of labour; price = unit cost / (1 − margin).
 Labour, test and overhead per unit are each rounded to 4 decimals first; the run total is run material plus the
 run size × those rounded figures, rounded to cents, so it re-adds from the figures printed (it can differ from
 the unrounded rates × run by up to half a ten-thousandth per unit per figure). A part on several lines needs
@@ -60,7 +64,7 @@ export interface CostJob {
 }
 
 /** Reads the CSV choices; they are refused without --csv, so a typo never goes unnoticed. */
-function csvChoices(name: string, parsed: ParsedArgs, io: CliIo): ExportOptions | number {
+export function csvChoices(name: string, parsed: ParsedArgs, io: CliIo): ExportOptions | number {
   const o = parsed.options;
   const given = o.has('delimiter') || o.has('decimal') || o.has('bom');
   if (given && !o.has('csv')) {
@@ -166,6 +170,10 @@ export function costJson(bom: CostedBom): Record<string, unknown> {
       currency: l.currency,
       extended: l.extended,
       extendedBase: l.extendedBase,
+      incoterm: l.incoterm ?? null,
+      freight: l.freight ?? 0,
+      duty: l.duty ?? 0,
+      charges: l.charges ?? 0,
       leftover: l.leftover,
       leftoverValue: l.leftoverValue,
     })),
@@ -176,6 +184,7 @@ export function costJson(bom: CostedBom): Record<string, unknown> {
     unitCost: bom.unitCost,
     price: bom.price,
     materialRun: bom.materialRun,
+    landedRun: bom.landedRun ?? 0,
     runTotal: bom.runTotal,
     leftoverValue: bom.leftoverValue,
     complete: bom.complete,
@@ -193,6 +202,7 @@ function totals(bom: CostedBom, marginPct: number): [string, string][] {
     [`unit cost (${c})`, fmt.unit(bom.unitCost)],
     [`price at ${marginPct} % margin (${c})`, fmt.unit(bom.price)],
     [`run material (${c})`, fmt.money(bom.materialRun)],
+    [`  of which landed cost (${c})`, fmt.money(bom.landedRun ?? 0)],
     [`run total (${c})`, fmt.money(bom.runTotal)],
     [`leftover stock value (${c})`, fmt.money(bom.leftoverValue)],
   ];
@@ -205,7 +215,9 @@ function tableOut(job: CostJob): string[] {
   out.push(`${shown(bom.variant)} — ${shown(job.variant.name)}: run of ${bom.run}, quotes valid on ${shown(bom.date)}, totals in ${cur}`);
   if (job.costing.frozen) out.push(`Frozen ${job.costing.frozen.at}: the prices and quotes of that day, not today's.`);
   out.push('');
-  const rows = [['designators', 'mpn', 'need', 'buy', 'supplier', 'break', 'unit price', 'cur', 'extended', `ext ${cur}`, 'leftover', `value ${cur}`]];
+  const rows = [
+    ['designators', 'mpn', 'need', 'buy', 'supplier', 'break', 'unit price', 'cur', 'extended', `ext ${cur}`, 'term', 'freight', 'duty', 'charges', 'leftover', `value ${cur}`],
+  ];
   for (const l of bom.lines) {
     rows.push([
       shown(l.designators),
@@ -218,11 +230,15 @@ function tableOut(job: CostJob): string[] {
       shown(l.currency),
       fmt.money(l.extended),
       fmt.money(l.extendedBase),
+      shown(l.incoterm ?? ''),
+      fmt.money(l.freight ?? 0),
+      fmt.money(l.duty ?? 0),
+      fmt.money(l.charges ?? 0),
       fmt.qty(l.leftover),
       fmt.money(l.leftoverValue),
     ]);
   }
-  out.push(...table(rows, [false, false, true, true, false, true, true, false, true, true, true, true]));
+  out.push(...table(rows, [false, false, true, true, false, true, true, false, true, true, false, true, true, true, true, true]));
   for (const p of bom.problems) out.push(`NOT PRICED ${shown(p.designators || p.lineId || '')}: ${shown(p.message)}`);
   out.push('');
   const t = totals(bom, job.costing.marginPct);
