@@ -69,7 +69,8 @@ export const DEFAULT_DB_NAME = 'rungbook';
 
 /** Broadcast between tabs on one Book after a write; the receiver re-reads the Book from storage. */
 interface TabMessage {
-  kind: 'changed';
+  /** `replaced` when the whole Book was replaced (empty Book, demo Book, opened file). */
+  kind: 'changed' | 'replaced';
   from: string;
 }
 
@@ -299,19 +300,24 @@ export class BookService extends EventTarget {
     const result = await this.enqueue(async () => {
       // The written Book as the store keeps it: it was checked before it came here, so it is not read back.
       this.book = await this.store.replaceAll(written);
-      // A replaced Book may reuse ids and revisions with other content: nothing earlier is merged from.
-      this.earlier.clear();
-      this.ownRevisions.clear();
-      // Pages drop what they hold of the old Book (undo steps, open forms) when they see the count move.
-      this.replacements += 1;
-      // The run last opened was one of the old Book's, even where the new one has a run of the same id.
-      this.openedRunId = undefined;
-    });
+      this.forgetReplaced();
+    }, 'replaced');
     if (result.ok && openedFileAt) {
       this.editsSinceExport = 0;
       this.emit('status');
     }
     return result;
+  }
+
+  /** Lets go of what the tab held of a Book that was replaced, here or in another tab. */
+  private forgetReplaced(): void {
+    // A replaced Book may reuse ids and revisions with other content: nothing earlier is merged from.
+    this.earlier.clear();
+    this.ownRevisions.clear();
+    // Pages drop what they hold of the old Book (undo steps, open forms) when they see the count move.
+    this.replacements += 1;
+    // The run last opened was one of the old Book's, even where the new one has a run of the same id.
+    this.openedRunId = undefined;
   }
 
   /** A fresh copy of the demo Book, with built-in checks. */
@@ -361,7 +367,7 @@ export class BookService extends EventTarget {
     }
   }
 
-  private enqueue(write: () => Promise<string | void>): Promise<SaveResult> {
+  private enqueue(write: () => Promise<string | void>, kind: TabMessage['kind'] = 'changed'): Promise<SaveResult> {
     if (this.blocked) {
       const message = 'Rungbook was updated in another tab; reload this tab before making changes.';
       return Promise.resolve({ ok: false, message, conflict: false });
@@ -380,7 +386,7 @@ export class BookService extends EventTarget {
         else if (merged) this.status = { ...this.status, merged };
         this.emit('book');
         this.emit('status');
-        this.tellOtherTabs();
+        this.tellOtherTabs(kind);
         void this.refreshStorage();
         return merged ? { ok: true, merged } : { ok: true };
       } catch (e) {
@@ -407,11 +413,13 @@ export class BookService extends EventTarget {
     if (typeof BroadcastChannel === 'undefined') return;
     this.channel = new BroadcastChannel(`rungbook-book:${this.store.name}`);
     this.channel.onmessage = (ev: MessageEvent<TabMessage>) => {
-      if (ev.data?.kind !== 'changed' || ev.data.from === this.tabId) return;
+      const kind = ev.data?.kind;
+      if ((kind !== 'changed' && kind !== 'replaced') || ev.data.from === this.tabId) return;
       // Wait for our own writes so a reload does not race them.
       this.writes = this.writes.then(async () => {
         try {
           this.adopt(await this.store.load());
+          if (kind === 'replaced') this.forgetReplaced();
           this.lastRemoteChange = new Date();
           this.emit('book');
         } catch {
@@ -421,8 +429,8 @@ export class BookService extends EventTarget {
     };
   }
 
-  private tellOtherTabs(): void {
-    const message: TabMessage = { kind: 'changed', from: this.tabId };
+  private tellOtherTabs(kind: TabMessage['kind']): void {
+    const message: TabMessage = { kind, from: this.tabId };
     this.channel?.postMessage(message);
   }
 

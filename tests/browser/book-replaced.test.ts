@@ -110,4 +110,19 @@ describe('a replaced Book', () => {
     expect(await page.locator('[data-testid="compare-none"]').count()).toBe(0);
     expect(errors).toEqual([]);
   });
+
+  it('leaves no form of the replaced Book open in another tab, which follows the Book replaced in this one', async () => {
+    const { page, context, errors } = await app.open('#/parts', { ready: '[data-testid="export-reminder"]' });
+    await pageLoaded(page, 'Parts');
+    const other = await context.newPage();
+    await app.goto(other, '#/parts');
+    await pageLoaded(other, 'Parts');
+    await other.locator('rb-parts-page tbody tr').first().getByRole('button', { name: 'edit' }).click();
+    await other.locator('rb-parts-page form[aria-label="Part"]').waitFor();
+
+    await menuAction(page, 'Start an empty Book…', 'Empty the Book');
+    await other.locator('rb-parts-page .empty', { hasText: 'No parts yet' }).waitFor();
+    expect(await other.locator('rb-parts-page form[aria-label="Part"]').count()).toBe(0);
+    expect(errors).toEqual([]);
+  });
 });
