@@ -1,0 +1,369 @@
+// Planning across runs (material requirements planning, gross to net): the planned runs wanted within the horizon,
+// each part's gross need by the date it must be in, what is on hand and on order in time, the net need, and the
+// orders to place per supplier with the buy rules (MOQ, pack, buying up to a cheaper break) applied to the
+// combined net need. Derived, never stored: a suggestion becomes an order only when a person accepts it.
+//
+// Dates: parts must be in by  date wanted − kitting and assembly days − safety days  (the need date), and an order
+// must go by  need date − the supplier's lead time  (the order-by date). Netting takes the needs in date order:
+// stock on hand first, then open orders due by the need date; what is left is the net need.
+import type { Book, Order, Run } from './book.ts';
+import type { BookChange } from './book-ops.ts';
+import { candidateQuotes, chooseQuote, toCents, variantDemands } from './costing.ts';
+import type { CostingContext, CostProblem, ResolvedLine } from './costing.ts';
+import { daysAfter, daysBefore } from './dates.ts';
+import { isOpen, outstanding, placeOrder } from './orders.ts';
+import type { OrderInput } from './orders.ts';
+import { onHandByPart } from './stock.ts';
+import type { Outcome } from './stock.ts';
+
+/** One run's need of one part. */
+export interface GrossNeed {
+  runId: string;
+  /** The date the parts must be in. */
+  date: string;
+  qty: number;
+  /** Taken from stock on hand, from open orders due in time, and left to buy (net). */
+  fromStock: number;
+  fromOrders: number;
+  net: number;
+}
+
+/** Parts still to come on one open order line. */
+export interface ScheduledReceipt {
+  orderId: string;
+  number: string;
+  line: number;
+  due: string;
+  qty: number;
+}
+
+export interface PartPlan {
+  partId: string;
+  mpn: string;
+  description: string;
+  onHand: number;
+  /** Needs of the runs in the horizon, in date order. */
+  gross: GrossNeed[];
+  grossTotal: number;
+  /** Open order lines for the part (all of them; `inTime` of the needs counts those due by each need date). */
+  receipts: ScheduledReceipt[];
+  /** Open order quantity that arrived in time for some need and was used. */
+  fromOrders: number;
+  net: number;
+  /** Open orders that come after the need they could have covered: expedite them or buy again. */
+  lateReceipts: ScheduledReceipt[];
+  /** The suggested purchase; absent when nothing is to be bought or no quote can be used (`problem`). */
+  buy?: SuggestedLine;
+  problem?: string;
+}
+
+/** A part to order: the buy rules applied to the part's combined net need. */
+export interface SuggestedLine {
+  partId: string;
+  mpn: string;
+  net: number;
+  /** Order quantity: ≥ net, ≥ MOQ, whole packs, possibly bought up to a cheaper break. */
+  buy: number;
+  supplierId: string;
+  supplier: string;
+  supplierCode: string;
+  quoteId: string;
+  currency: string;
+  unitPrice: number;
+  /** buy × unit price, quote currency, cents. */
+  extended: number;
+  /** Base currency, cents. */
+  extendedBase: number;
+  leadDays: number;
+  moq: number;
+  pack: number;
+  /** Earliest need date of the part with a net need. */
+  needDate: string;
+  orderBy: string;
+  /** The order-by date has passed: ordered today it arrives after the need date. */
+  late: boolean;
+  /** The need date itself has passed: the parts should already be in. */
+  pastDue: boolean;
+}
+
+/** The suggested order to one supplier (in one currency). */
+export interface SupplierSuggestion {
+  key: string;
+  supplierId: string;
+  supplier: string;
+  currency: string;
+  lines: SuggestedLine[];
+  total: number;
+  totalBase: number;
+  /** The earliest order-by date of its lines. */
+  orderBy: string;
+  /** The date it is due if placed today: today + the longest lead time of its lines. */
+  dueIfPlacedToday: string;
+  late: boolean;
+}
+
+export interface RunPlan {
+  run: Run;
+  inHorizon: boolean;
+  /** Date wanted − kitting − safety days: the date its parts must be in. */
+  needDate: string;
+  /** The date wanted has passed. */
+  pastDue: boolean;
+  /** The part that arrives last, when it is in, and the earliest date the run can then be wanted. */
+  limiting?: { partId: string; mpn: string; inDate: string; earliestWanted: string };
+  /** The earliest date it can be wanted is after its date wanted. */
+  late: boolean;
+  /** Per part id: the run's need, and how much of it comes from stock on hand. */
+  needs: Map<string, number>;
+  fromStock: Map<string, number>;
+  problems: CostProblem[];
+}
+
+export interface Plan {
+  today: string;
+  horizonEnd: string;
+  runs: RunPlan[];
+  parts: PartPlan[];
+  suggestions: SupplierSuggestion[];
+}
+
+export interface PlanOptions {
+  /** The plan date (ISO). */
+  today: string;
+  /** Days ahead; default the Book's horizon. */
+  horizonDays?: number;
+}
+
+/** Each variant's resolved lines (from the family resolver). */
+export type RunLines = ReadonlyMap<string, readonly ResolvedLine[]>;
+
+/** Why plan options cannot be used, or undefined. */
+export function planOptionsProblem(o: PlanOptions): string | undefined {
+  if (daysAfter(o.today, 0) === undefined) return `the plan date must be written YYYY-MM-DD, not ${JSON.stringify(o.today)}`;
+  const h = o.horizonDays;
+  if (h !== undefined && (!Number.isInteger(h) || h < 1 || h > 3650)) return `the horizon must be a whole number of days from 1 to 3,650, not ${h}`;
+  return undefined;
+}
+
+/** The plan for the Book's planned runs (runs not built) wanted within the horizon. */
+export function planRuns(book: Book, ctx: CostingContext, lines: RunLines, options: PlanOptions): Outcome<Plan> {
+  const bad = planOptionsProblem(options);
+  if (bad) return { ok: false, error: bad };
+  const s = book.settings;
+  const today = options.today;
+  const horizonEnd = daysAfter(today, options.horizonDays ?? s.horizonDays)!;
+  const lag = s.kittingDays + s.safetyDays;
+  const variants = new Map(book.variants.map((v) => [v.id, v] as const));
+
+  const planned = book.runs.filter((r) => r.status !== 'built').sort((a, b) => (a.dateWanted < b.dateWanted ? -1 : a.dateWanted > b.dateWanted ? 1 : a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
+  const runs: RunPlan[] = [];
+  /** Per part: the needs in run-date order, and a supplier every one of its lines is pinned to (if one). */
+  const byPart = new Map<string, { gross: GrossNeed[]; pin: string | undefined | null }>();
+  for (const run of planned) {
+    const inHorizon = run.dateWanted <= horizonEnd;
+    const rp: RunPlan = {
+      run,
+      inHorizon,
+      needDate: daysBefore(run.dateWanted, lag)!,
+      pastDue: run.dateWanted < today,
+      late: false,
+      needs: new Map(),
+      fromStock: new Map(),
+      problems: [],
+    };
+    runs.push(rp);
+    if (!inHorizon) continue;
+    if (!variants.has(run.variantId)) {
+      rp.problems.push({ message: `the run's variant ${run.variantId} is not in the Book` });
+      continue;
+    }
+    const { demands, problems } = variantDemands(ctx, lines.get(run.variantId) ?? [], run.quantity);
+    rp.problems.push(...problems);
+    for (const d of demands) {
+      rp.needs.set(d.partId, (rp.needs.get(d.partId) ?? 0) + d.need);
+      let p = byPart.get(d.partId);
+      if (!p) byPart.set(d.partId, (p = { gross: [], pin: d.pinnedSupplierId }));
+      else if (p.pin !== d.pinnedSupplierId) p.pin = null;
+    }
+    for (const [partId, qty] of rp.needs) byPart.get(partId)!.gross.push({ runId: run.id, date: rp.needDate, qty, fromStock: 0, fromOrders: 0, net: 0 });
+  }
+
+  const have = onHandByPart(book.stockMoves);
+  const receiptsOf = new Map<string, ScheduledReceipt[]>();
+  for (const o of book.orders) {
+    if (!isOpen(o)) continue;
+    o.lines.forEach((l, line) => {
+      const qty = outstanding(l);
+      if (qty <= 0) return;
+      const r: ScheduledReceipt = { orderId: o.id, number: o.number, line, due: o.dueDate, qty };
+      const list = receiptsOf.get(l.partId);
+      if (list) list.push(r);
+      else receiptsOf.set(l.partId, [r]);
+    });
+  }
+
+  const runById = new Map(runs.map((r) => [r.run.id, r] as const));
+  const parts: PartPlan[] = [];
+  const lineFor = new Map<string, SuggestedLine>();
+  /** Per part: the date its parts for each run are in (stock: today; an order: its due date; to buy: today + lead). */
+  const inDates = new Map<string, Map<string, string>>();
+  for (const [partId, { gross, pin }] of byPart) {
+    const part = ctx.parts.get(partId)!;
+    const receipts = (receiptsOf.get(partId) ?? []).slice().sort((a, b) => (a.due < b.due ? -1 : a.due > b.due ? 1 : 0));
+    const onHand = have.get(partId) ?? 0;
+    let stock = Math.max(0, onHand);
+    let arrived = 0;
+    let next = 0;
+    let lastDue = today;
+    let fromOrders = 0;
+    let net = 0;
+    const late: ScheduledReceipt[] = [];
+    const dates = new Map<string, string>();
+    for (const g of gross) {
+      while (next < receipts.length && receipts[next]!.due <= g.date) {
+        arrived += receipts[next]!.qty;
+        lastDue = receipts[next]!.due > lastDue ? receipts[next]!.due : lastDue;
+        next++;
+      }
+      g.fromStock = Math.min(stock, g.qty);
+      stock -= g.fromStock;
+      g.fromOrders = Math.min(arrived, g.qty - g.fromStock);
+      arrived -= g.fromOrders;
+      g.net = g.qty - g.fromStock - g.fromOrders;
+      fromOrders += g.fromOrders;
+      net += g.net;
+      dates.set(g.runId, g.fromOrders > 0 ? lastDue : today);
+      if (g.net > 0) for (const r of receipts.slice(next)) if (!late.includes(r)) late.push(r);
+      const rp = runById.get(g.runId)!;
+      rp.fromStock.set(partId, (rp.fromStock.get(partId) ?? 0) + g.fromStock);
+    }
+    inDates.set(partId, dates);
+    const pp: PartPlan = {
+      partId,
+      mpn: part.mpn,
+      description: part.description,
+      onHand,
+      gross,
+      grossTotal: gross.reduce((n, g) => n + g.qty, 0),
+      receipts,
+      fromOrders,
+      net,
+      lateReceipts: late,
+    };
+    if (net > 0) {
+      const choice = chooseQuote(candidateQuotes(ctx, partId, pin ?? undefined), net, part.mpn);
+      if (!choice.ok) pp.problem = choice.error;
+      else {
+        const { prepared, buy, extendedBase } = choice.value;
+        const q = prepared.quote;
+        const needDate = gross.find((g) => g.net > 0)!.date;
+        const orderBy = daysBefore(needDate, q.leadDays)!;
+        pp.buy = {
+          partId,
+          mpn: part.mpn,
+          net,
+          buy: buy.buy,
+          supplierId: q.supplierId,
+          supplier: prepared.supplier?.name ?? q.supplierId,
+          supplierCode: q.supplierCode,
+          quoteId: q.id,
+          currency: q.currency,
+          unitPrice: buy.unitPrice,
+          extended: buy.extended,
+          extendedBase,
+          leadDays: q.leadDays,
+          moq: q.moq,
+          pack: q.pack,
+          needDate,
+          orderBy,
+          late: orderBy < today,
+          pastDue: needDate < today,
+        };
+        lineFor.set(partId, pp.buy);
+        const arrival = daysAfter(today, q.leadDays)!;
+        for (const g of gross) if (g.net > 0) dates.set(g.runId, arrival);
+      }
+    }
+    parts.push(pp);
+  }
+  parts.sort((a, b) => a.mpn.localeCompare(b.mpn) || (a.partId < b.partId ? -1 : 1));
+
+  // The part that limits each run: the one in last.
+  const mpnOf = (id: string): string => ctx.parts.get(id)?.mpn ?? id;
+  for (const rp of runs) {
+    let limit: { partId: string; inDate: string } | undefined;
+    for (const partId of rp.needs.keys()) {
+      const d = inDates.get(partId)?.get(rp.run.id);
+      if (d === undefined) continue;
+      if (!limit || d > limit.inDate || (d === limit.inDate && mpnOf(partId) < mpnOf(limit.partId))) limit = { partId, inDate: d };
+    }
+    if (limit) {
+      const earliestWanted = daysAfter(limit.inDate, lag)!;
+      rp.limiting = { partId: limit.partId, mpn: mpnOf(limit.partId), inDate: limit.inDate, earliestWanted };
+      rp.late = earliestWanted > rp.run.dateWanted;
+    }
+  }
+
+  return { ok: true, value: { today, horizonEnd, runs, parts, suggestions: suggestionsFrom([...lineFor.values()], today) } };
+}
+
+/** Suggested lines grouped per supplier and currency; totals are sums of integer cents. */
+function suggestionsFrom(lines: SuggestedLine[], today: string): SupplierSuggestion[] {
+  const by = new Map<string, SupplierSuggestion>();
+  for (const l of lines) {
+    const key = `${l.supplierId}\u0000${l.currency}`;
+    let s = by.get(key);
+    if (!s) {
+      s = { key, supplierId: l.supplierId, supplier: l.supplier, currency: l.currency, lines: [], total: 0, totalBase: 0, orderBy: l.orderBy, dueIfPlacedToday: today, late: false };
+      by.set(key, s);
+    }
+    s.lines.push(l);
+  }
+  const out = [...by.values()].sort((a, b) => a.supplier.localeCompare(b.supplier) || a.currency.localeCompare(b.currency));
+  for (const s of out) {
+    s.lines.sort((a, b) => a.mpn.localeCompare(b.mpn));
+    let cents = 0;
+    let base = 0;
+    let lead = 0;
+    for (const l of s.lines) {
+      cents += toCents(l.extended);
+      base += toCents(l.extendedBase);
+      lead = Math.max(lead, l.leadDays);
+      if (l.orderBy < s.orderBy) s.orderBy = l.orderBy;
+      if (l.late) s.late = true;
+    }
+    s.total = cents / 100;
+    s.totalBase = base / 100;
+    s.dueIfPlacedToday = daysAfter(today, lead)!;
+  }
+  return out;
+}
+
+/** The order a suggestion becomes when accepted on `today`: its lines at the quoted prices, due by its lead time. */
+export function suggestionOrder(s: SupplierSuggestion, today: string): OrderInput {
+  return {
+    supplierId: s.supplierId,
+    orderedDate: today,
+    dueDate: s.dueIfPlacedToday,
+    lines: s.lines.map((l) => ({ partId: l.partId, quantity: l.buy, price: l.unitPrice, currency: l.currency, quoteId: l.quoteId })),
+  };
+}
+
+/** Accepts a suggestion: it becomes an open order with the next order number. */
+export function acceptSuggestion(book: Book, s: SupplierSuggestion, today: string): Outcome<{ change: BookChange; order: Order }> {
+  return placeOrder(book, suggestionOrder(s, today));
+}
+
+/** Accepts several suggestions at once: consecutive order numbers, one change. */
+export function acceptSuggestions(book: Book, list: readonly SupplierSuggestion[], today: string): Outcome<{ change: BookChange; orders: Order[] }> {
+  let b = book;
+  const orders: Order[] = [];
+  for (const s of list) {
+    const r = acceptSuggestion(b, s, today);
+    if (!r.ok) return r;
+    orders.push(r.value.order);
+    b = { ...b, orders: [...b.orders, r.value.order], settings: r.value.change.settings! };
+  }
+  if (orders.length === 0) return { ok: false, error: 'there is no suggested order to accept' };
+  return { ok: true, value: { change: { put: { orders }, settings: { ...b.settings, rev: book.settings.rev } }, orders } };
+}
