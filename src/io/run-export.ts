@@ -151,6 +151,7 @@ export function costedTotalLabels(currency: string, marginPct: number) {
     unitCost: `unit cost (${currency})`,
     price: `price at ${marginPct} % margin (${currency})`,
     materialRun: `run material (${currency})`,
+    landedRun: `of which landed cost: freight, duty, charges (${currency})`,
     conversionRun: `run labour, test and overhead (${currency})`,
     runTotal: `run total (${currency})`,
     leftoverValue: `leftover stock value (${currency})`,

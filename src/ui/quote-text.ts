@@ -2,7 +2,7 @@
 // quote form's draft into a Quote or into messages keyed by field. No DOM here, so the rules run anywhere.
 import type { Book, PriceBreak, Quote } from '../domain/book.ts';
 import { isIsoDate } from '../domain/dates.ts';
-import { LIMITS, QuoteSchema, isCurrencyCode } from '../domain/schema.ts';
+import { INCOTERMS, LIMITS, QuoteSchema, isCurrencyCode } from '../domain/schema.ts';
 import { parseLeadDays } from '../io/price-map.ts';
 import { limitLength, schemaFormResult } from './record-forms.ts';
 
@@ -81,6 +81,8 @@ export interface QuoteDraft {
   lead: string;
   date: string;
   expires: string;
+  /** Incoterms 2020 code, or empty for none. */
+  incoterm: string;
 }
 
 export type QuoteProblems = Record<string, string>;
@@ -99,6 +101,7 @@ export function quoteDraft(q: Quote | undefined, today: string): QuoteDraft {
       lead: '',
       date: today,
       expires: '',
+      incoterm: '',
     };
   }
   return {
@@ -112,6 +115,7 @@ export function quoteDraft(q: Quote | undefined, today: string): QuoteDraft {
     lead: String(q.leadDays),
     date: q.date,
     expires: q.expires ?? '',
+    incoterm: q.incoterm ?? '',
   };
 }
 
@@ -172,6 +176,10 @@ export function validateQuote(draft: QuoteDraft, book: Book, editing: Quote | un
     else if (isIsoDate(date) && expires < date) problems.expires = `Before the quote date (${date})`;
   }
 
+  const term = draft.incoterm.trim().toUpperCase();
+  const incoterm = INCOTERMS.find((t) => t === term);
+  if (term !== '' && incoterm === undefined) problems.incoterm = `An Incoterms 2020 code (${INCOTERMS.join(', ')}), or blank for none`;
+
   if (Object.keys(problems).length > 0) return { ok: false, problems };
   const quote: Quote = {
     id: editing?.id ?? newId(),
@@ -188,6 +196,7 @@ export function validateQuote(draft: QuoteDraft, book: Book, editing: Quote | un
     source: editing?.source ?? 'manual',
   };
   if (expires !== '') quote.expires = expires;
+  if (incoterm !== undefined) quote.incoterm = incoterm;
   if (editing?.batchId !== undefined) quote.batchId = editing.batchId;
   if (editing?.supersededBy !== undefined) quote.supersededBy = editing.supersededBy;
   // The last check: the quote as saved, through the schema the Book file reader uses, each problem by its field.

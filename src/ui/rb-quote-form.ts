@@ -5,7 +5,7 @@ import type { PropertyValues } from 'lit';
 import { customElement, property, state } from 'lit/decorators.js';
 import { live } from 'lit/directives/live.js';
 import type { Book, Quote } from '../domain/book.ts';
-import { newId } from '../domain/book.ts';
+import { INCOTERMS, newId } from '../domain/book.ts';
 import { todayIso } from '../domain/dates.ts';
 import { field, group, nothingSaved } from './form-fields.ts';
 import type { QuoteDraft, QuoteProblems } from './quote-text.ts';
@@ -88,6 +88,15 @@ export class RbQuoteForm extends LitElement {
         ${field({ name: 'lead', label: 'lead time', value: d.lead, problem: this.problems.lead, hint: 'days, or weeks written 4 weeks / 4w', onInput: (v) => set({ lead: v }) })}
         ${field({ name: 'date', label: 'date', value: d.date, problem: this.problems.date, hint: 'the day the quote was given, YYYY-MM-DD', onInput: (v) => set({ date: v }) })}
         ${field({ name: 'expires', label: 'expires', value: d.expires, problem: this.problems.expires, hint: 'last day it is valid; blank = no expiry', onInput: (v) => set({ expires: v }) })}
+        ${field({
+          name: 'incoterm',
+          label: 'delivery term',
+          value: d.incoterm,
+          choices: INCOTERMS,
+          problem: this.problems.incoterm,
+          hint: 'Incoterms 2020; decides whether the supplier’s freight and duty fall to us (— = they do)',
+          onInput: (v) => set({ incoterm: v }),
+        })}
         <div class="actions">
           <button type="submit" class="primary">${q ? 'Save the quote' : 'Add the quote'}</button>
           <button type="button" @click=${this._onCancel}>Cancel</button>

@@ -217,7 +217,8 @@ export class RbRunDetail extends LitElement {
         One row per part bought (lines of the same part together), with the designators this variant places: need
         with attrition, order quantity after MOQ, whole packs and any cheaper higher break, the quote used, and leftover
         stock. Extended amounts are in ${cur} (a quote in another currency shows its own amount under it), rounded to
-        cents per line; every total is the sum of its rows.
+        cents per line; every total is the sum of its rows. Freight, duty and charges are the landed cost that falls to
+        us under the quote's delivery term (shown under the supplier): part of the material cost.
       </p>
       <div class="scroll bom">
         <table class="records" data-testid="run-bom">
@@ -231,6 +232,9 @@ export class RbRunDetail extends LitElement {
               <th>supplier · code</th>
               <th class="num">unit price <small>at break</small></th>
               <th class="num">extended ${cur}</th>
+              <th class="num">freight</th>
+              <th class="num">duty</th>
+              <th class="num">charges</th>
               <th class="num">leftover</th>
             </tr>
           </thead>
@@ -242,18 +246,21 @@ export class RbRunDetail extends LitElement {
                 <td class="num">${l.qtyPerUnit}</td>
                 <td class="num">${l.need}</td>
                 <td class="num">${l.buy}</td>
-                <td class="supplier">${l.supplier}<small class="code">${l.supplierCode}</small></td>
+                <td class="supplier">${l.supplier}<small class="code">${l.supplierCode}${l.incoterm ? ` · ${l.incoterm}` : ''}</small></td>
                 <td class="num">${price(l.unitPrice)} ${l.currency}<small>from ${l.breakQty}</small></td>
                 <td class="num">
                   ${money(l.extendedBase)}${l.currency === cur ? '' : html`<small>${money(l.extended)} ${l.currency}</small>`}
                 </td>
+                <td class="num">${money(l.freight ?? 0)}</td>
+                <td class="num">${money(l.duty ?? 0)}</td>
+                <td class="num">${money(l.charges ?? 0)}</td>
                 <td class="num">${l.leftover}</td>
               </tr>`,
             )}
             ${bom.problems.map(
               (p) => html`<tr class="not-priced">
                 <td>${p.designators ?? ''}</td>
-                <td colspan="8">✗ not priced: ${p.message}</td>
+                <td colspan="11">✗ not priced: ${p.message}</td>
               </tr>`,
             )}
           </tbody>

@@ -108,6 +108,7 @@ export function runTotalRows(costing: RunCosting): TemplateResult {
     <tr class="strong"><td>${labels.unitCost}</td><td class="num">${unit(bom.unitCost)}</td></tr>
     <tr><td>${labels.price}</td><td class="num">${unit(bom.price)}</td></tr>
     <tr><td>${labels.materialRun}</td><td class="num">${money(bom.materialRun)}</td></tr>
+    ${bom.landedRun ? html`<tr><td>${labels.landedRun}</td><td class="num">${money(bom.landedRun)}</td></tr>` : ''}
     <tr class="strong"><td>${labels.runTotal}</td><td class="num">${money(bom.runTotal)}</td></tr>
     <tr><td>${labels.leftoverValue}</td><td class="num">${money(bom.leftoverValue)}</td></tr>`;
 }

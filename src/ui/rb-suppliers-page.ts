@@ -51,6 +51,7 @@ export class RbSuppliersPage extends LitElement {
                   <th>currency</th>
                   <th class="num">rate (${base})</th>
                   <th class="num">quotes</th>
+                  <th>landed cost</th>
                   <th>price file mapping</th>
                   <th>notes</th>
                   <th><span class="muted">actions</span></th>
@@ -73,6 +74,7 @@ export class RbSuppliersPage extends LitElement {
       <td class="code">${s.currency}</td>
       <td class="num">${rate === undefined ? html`<span class="problem">✗ no rate</span>` : String(rate)}</td>
       <td class="num">${quotes}</td>
+      <td>${landedSummary(s)}</td>
       <td>${s.mapping ? `saved (${Object.keys(s.mapping.columns).length} columns, ${s.mapping.layout})` : '—'}</td>
       <td>${s.notes}</td>
       <td class="acts">
@@ -127,6 +129,20 @@ export class RbSuppliersPage extends LitElement {
               onInput: (v) => set({ rate: v }),
             })}
         ${field({ name: 'notes', label: 'notes', value: d.notes, multiline: true, onInput: (v) => set({ notes: v }) })}
+        <div class="group">landed cost</div>
+        <div class="actions">
+          <span class="hint">
+            What buying from them costs on top of the goods. A quote's Incoterms 2020 term decides which of freight and
+            duty fall to us; payment and bank charges always do. Leave a field empty for none.
+          </span>
+        </div>
+        ${field({ name: 'freightPerOrder', label: 'freight per order', value: d.freightPerOrder, problem: e.problems.freightPerOrder, hint: 'charged once per order, shared among its lines by value', onInput: (v) => set({ freightPerOrder: v }) })}
+        ${field({ name: 'freightCurrency', label: 'freight currency', value: d.freightCurrency, problem: e.problems.freightCurrency, hint: `empty: ${cur || 'the supplier’s currency'}`, onInput: (v) => set({ freightCurrency: v }) })}
+        ${field({ name: 'freightPct', label: 'freight %', value: d.freightPct, problem: e.problems.freightPct, hint: 'of the goods’ value', onInput: (v) => set({ freightPct: v }) })}
+        ${field({ name: 'dutyPct', label: 'duty %', value: d.dutyPct, problem: e.problems.dutyPct, hint: 'import duty, of the goods’ value', onInput: (v) => set({ dutyPct: v }) })}
+        ${field({ name: 'chargesPerOrder', label: 'charges per order', value: d.chargesPerOrder, problem: e.problems.chargesPerOrder, hint: 'payment and bank charges once per order', onInput: (v) => set({ chargesPerOrder: v }) })}
+        ${field({ name: 'chargesCurrency', label: 'charges currency', value: d.chargesCurrency, problem: e.problems.chargesCurrency, hint: `empty: ${base}`, onInput: (v) => set({ chargesCurrency: v }) })}
+        ${field({ name: 'chargesPct', label: 'charges %', value: d.chargesPct, problem: e.problems.chargesPct, hint: 'of the goods’ value', onInput: (v) => set({ chargesPct: v }) })}
         <div class="actions">
           <button type="submit" class="primary">${e.supplier ? 'Save the supplier' : 'Add the supplier'}</button>
           <button type="button" @click=${() => (this.editing = undefined)}>Cancel</button>
@@ -199,6 +215,19 @@ export class RbSuppliersPage extends LitElement {
     if (!result.ok) this.rowProblem = { id: s.id, message: result.message };
     if (this.editing?.supplier?.id === s.id) this.editing = undefined;
   }
+}
+
+/** A supplier's landed terms in a few words ("freight 40 USD/order + 2 %, duty 3.5 %"), or a dash. */
+function landedSummary(s: Supplier): string {
+  const parts: string[] = [];
+  const join = (what: string, amount: { amount: number; currency: string } | undefined, pct: number | undefined): void => {
+    const bits = [amount ? `${amount.amount} ${amount.currency}/order` : '', pct ? `${pct} %` : ''].filter((b) => b !== '');
+    if (bits.length) parts.push(`${what} ${bits.join(' + ')}`);
+  };
+  join('freight', s.freightPerOrder, s.freightPct);
+  join('duty', undefined, s.dutyPct);
+  join('charges', s.chargesPerOrder, s.chargesPct);
+  return parts.length ? parts.join(', ') : '—';
 }
 
 declare global {

@@ -209,7 +209,17 @@ export interface SupplierDraft {
   /** Units of the Book's base currency for one unit of `currency`. */
   rate: string;
   notes: string;
+  // Landed cost (domain/landed.ts): amounts per order with their currency, and percentages of the goods' value.
+  freightPerOrder: string;
+  freightCurrency: string;
+  freightPct: string;
+  dutyPct: string;
+  chargesPerOrder: string;
+  chargesCurrency: string;
+  chargesPct: string;
 }
+
+const numText = (n: number | undefined): string => (n === undefined ? '' : String(n));
 
 export function supplierDraft(settings: Settings, supplier?: Supplier): SupplierDraft {
   const currency = supplier?.currency ?? settings.baseCurrency;
@@ -219,7 +229,55 @@ export function supplierDraft(settings: Settings, supplier?: Supplier): Supplier
     currency,
     rate: currency === settings.baseCurrency ? '1' : rate === undefined ? '' : String(rate),
     notes: supplier?.notes ?? '',
+    freightPerOrder: numText(supplier?.freightPerOrder?.amount),
+    freightCurrency: supplier?.freightPerOrder?.currency ?? '',
+    freightPct: numText(supplier?.freightPct),
+    dutyPct: numText(supplier?.dutyPct),
+    chargesPerOrder: numText(supplier?.chargesPerOrder?.amount),
+    chargesCurrency: supplier?.chargesPerOrder?.currency ?? '',
+    chargesPct: numText(supplier?.chargesPct),
   };
+}
+
+/** Reads an optional number field of the landed terms: empty is none; else a number from 0 to `max`. */
+function optionalAmount(problems: FieldProblems, field: string, text: string, max: number, what: string): number | undefined {
+  const t = text.trim().replace(/\s*%$/, '').replace(',', '.');
+  if (t === '') return undefined;
+  const n = /^\d+(?:\.\d+)?$/.test(t) ? Number(t) : NaN;
+  if (!Number.isFinite(n)) problems[field] = `${what}: a number ≥ 0, or empty for none; not “${text.trim()}”`;
+  else if (n > max) problems[field] = `${what}: at most ${max.toLocaleString('en-GB')}`;
+  else return n;
+  return undefined;
+}
+
+/**
+ * The landed terms of a supplier draft: an amount per order takes its currency (default `fallback`), which the
+ * Book must have a rate for (or the rate this same form gives for the supplier's currency).
+ */
+function landedTerms(draft: SupplierDraft, book: Book, problems: FieldProblems, supplierCurrency: string, newRate: boolean): Partial<Supplier> {
+  const out: Partial<Supplier> = {};
+  const rated = (c: string): boolean => c === book.settings.baseCurrency || book.settings.rates[c] !== undefined || (newRate && c === supplierCurrency);
+  const perOrder = (amountField: 'freightPerOrder' | 'chargesPerOrder', currencyField: 'freightCurrency' | 'chargesCurrency', fallback: string, what: string) => {
+    const amount = optionalAmount(problems, amountField, draft[amountField], LIMITS.price, what);
+    if (amount === undefined || amount === 0) return undefined;
+    const c = draft[currencyField].trim().toUpperCase() || fallback;
+    if (!isCurrencyCode(c)) problems[currencyField] = 'Three letters, as in ISO 4217 (EUR, USD, GBP…)';
+    else if (!rated(c)) problems[currencyField] = `The Book has no rate for ${c}; add it in the settings first`;
+    else return { amount, currency: c };
+    return undefined;
+  };
+  const freight = perOrder('freightPerOrder', 'freightCurrency', supplierCurrency, 'Freight per order');
+  const charges = perOrder('chargesPerOrder', 'chargesCurrency', book.settings.baseCurrency, 'Charges per order');
+  const pct = (f: 'freightPct' | 'dutyPct' | 'chargesPct', what: string) => optionalAmount(problems, f, draft[f], LIMITS.landedPct, what);
+  const freightPct = pct('freightPct', 'Freight %');
+  const dutyPct = pct('dutyPct', 'Duty %');
+  const chargesPct = pct('chargesPct', 'Charges %');
+  if (freight) out.freightPerOrder = freight;
+  if (freightPct !== undefined) out.freightPct = freightPct;
+  if (dutyPct !== undefined) out.dutyPct = dutyPct;
+  if (charges) out.chargesPerOrder = charges;
+  if (chargesPct !== undefined) out.chargesPct = chargesPct;
+  return out;
 }
 
 export interface SupplierResult {
@@ -253,6 +311,7 @@ export function validateSupplier(
     else if (n > LIMITS.rate) problems.rate = `At most ${LIMITS.rate.toLocaleString('en-GB')} ${base} for one ${currency}`;
     else rate = n;
   }
+  const landed = landedTerms(draft, book, problems, currency, rate !== undefined);
   if (Object.keys(problems).length > 0) return { ok: false, problems };
   const record: Supplier = {
     id: editing?.id ?? (newId ?? (() => ''))(),
@@ -260,6 +319,7 @@ export function validateSupplier(
     name,
     currency,
     notes: draft.notes.trim(),
+    ...landed,
   };
   if (editing?.mapping) record.mapping = editing.mapping;
   const checked = schemaFormResult(SupplierSchema, record);

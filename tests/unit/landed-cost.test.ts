@@ -11,6 +11,7 @@ import { CostingWorkbook } from '../../src/engine/costing.ts';
 import { fixedResolution, resolveFixedLines } from '../fixtures/fixed-lines.ts';
 import { referenceFamily } from '../fixtures/reference-family.ts';
 import { part, smallBook, value } from './costing-fixtures.ts';
+import { quoteDraft, validateQuote } from '../../src/ui/quote-text.ts';
 
 /**
  * The worked example: two parts bought from one supplier in USD (0.92 EUR per USD), 1,000 units.
@@ -189,6 +190,18 @@ describe('landed cost', () => {
     const back = value(readSnapshot(old));
     expect(back.bom.lines[0]!.freight).toBeUndefined();
     expect(back.bom.materialRun).toBe(786.65);
+  });
+
+  it("takes a quote's delivery term from the quote form, and names a code that is not an Incoterms 2020 rule", () => {
+    const book = workedBook(undefined);
+    const q = book.quotes[0]!;
+    const draft = quoteDraft(q, '2025-06-01');
+    const dap = validateQuote({ ...draft, incoterm: 'dap' }, book, q, () => 'x');
+    expect(dap.ok && dap.quote.incoterm).toBe('DAP');
+    const none = validateQuote({ ...draft, incoterm: '' }, book, q, () => 'x');
+    expect(none.ok && 'incoterm' in none.quote).toBe(false);
+    const bad = validateQuote({ ...draft, incoterm: 'DAT' }, book, q, () => 'x');
+    expect(!bad.ok && bad.problems.incoterm).toMatch(/an Incoterms 2020 code \(EXW, FCA/i);
   });
 
   it('costs the one-line example in the workbook as in the pure rules', () => {

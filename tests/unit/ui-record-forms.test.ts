@@ -158,17 +158,17 @@ describe('supplier form', () => {
   it('wants a three-letter currency code', () => {
     // ISO 4217 alphabetic codes are three letters.
     const b = book();
-    const r = validateSupplier({ name: 'New', currency: 'EURO', rate: '1', notes: '' }, b, undefined, ids);
+    const r = validateSupplier({ ...supplierDraft(b.settings), name: 'New', currency: 'EURO', rate: '1', notes: '' }, b, undefined, ids);
     expect(!r.ok && r.problems.currency).toMatch(/Three letters/);
   });
 
   it('needs a positive rate for a currency other than the Book’s own and stores it in the settings', () => {
     const b = book();
-    const missing = validateSupplier({ name: 'New', currency: 'gbp', rate: '', notes: '' }, b, undefined, ids);
+    const missing = validateSupplier({ ...supplierDraft(b.settings), name: 'New', currency: 'gbp', rate: '', notes: '' }, b, undefined, ids);
     expect(!missing.ok && missing.problems.rate).toMatch(/how many EUR one GBP/);
-    const negative = validateSupplier({ name: 'New', currency: 'GBP', rate: '-2', notes: '' }, b, undefined, ids);
+    const negative = validateSupplier({ ...supplierDraft(b.settings), name: 'New', currency: 'GBP', rate: '-2', notes: '' }, b, undefined, ids);
     expect(!negative.ok && negative.problems.rate).toMatch(/positive/);
-    const r = validateSupplier({ name: 'New', currency: 'gbp', rate: '1.17', notes: '' }, b, undefined, ids);
+    const r = validateSupplier({ ...supplierDraft(b.settings), name: 'New', currency: 'gbp', rate: '1.17', notes: '' }, b, undefined, ids);
     expect(r.ok).toBe(true);
     if (!r.ok) return;
     expect(r.record.record.currency).toBe('GBP');
@@ -178,10 +178,46 @@ describe('supplier form', () => {
 
   it('leaves the settings alone when the rate is unchanged or the currency is the Book’s own', () => {
     const b = book();
-    const same = validateSupplier({ name: 'New', currency: 'USD', rate: '0.9', notes: '' }, b, undefined, ids);
+    const same = validateSupplier({ ...supplierDraft(b.settings), name: 'New', currency: 'USD', rate: '0.9', notes: '' }, b, undefined, ids);
     expect(same.ok && same.record.settings).toBeUndefined();
-    const base = validateSupplier({ name: 'New', currency: 'EUR', rate: '', notes: '' }, b, undefined, ids);
+    const base = validateSupplier({ ...supplierDraft(b.settings), name: 'New', currency: 'EUR', rate: '', notes: '' }, b, undefined, ids);
     expect(base.ok && base.record.settings).toBeUndefined();
+  });
+});
+
+describe('supplier form: landed terms', () => {
+  it('keeps amounts per order with their currency and the percentages, and leaves empty fields out', () => {
+    const b = book();
+    const d = { ...supplierDraft(b.settings), name: 'New', currency: 'USD', rate: '0.9' };
+    const r = validateSupplier({ ...d, freightPerOrder: '40', freightPct: '2,5 %', dutyPct: '3.5', chargesPerOrder: '15', chargesCurrency: 'eur', chargesPct: '' }, b, undefined, ids);
+    expect(r.ok).toBe(true);
+    if (!r.ok) return;
+    const s = r.record.record;
+    // The freight's currency defaults to the supplier's, the charges' to the Book's own.
+    expect([s.freightPerOrder, s.freightPct, s.dutyPct, s.chargesPerOrder, s.chargesPct]).toEqual([
+      { amount: 40, currency: 'USD' },
+      2.5,
+      3.5,
+      { amount: 15, currency: 'EUR' },
+      undefined,
+    ]);
+    // Back into a draft and saved again, the same terms.
+    const again = validateSupplier(supplierDraft(b.settings, s), b, s, ids);
+    expect(again.ok && again.record.record).toEqual(s);
+    const plain = validateSupplier(d, b, undefined, ids);
+    expect(plain.ok && 'freightPct' in plain.record.record).toBe(false);
+  });
+
+  it('names a bad amount, an unrated currency and a share out of bounds beside its field, and saves nothing', () => {
+    const b = book();
+    const d = { ...supplierDraft(b.settings), name: 'New', currency: 'EUR' };
+    const r = validateSupplier({ ...d, freightPerOrder: 'ten', chargesPerOrder: '5', chargesCurrency: 'CHF', dutyPct: '2000', freightPct: '-1' }, b, undefined, ids);
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    expect(r.problems.freightPerOrder).toMatch(/Freight per order: a number ≥ 0/);
+    expect(r.problems.chargesCurrency).toMatch(/no rate for CHF/);
+    expect(r.problems.dutyPct).toMatch(/Duty %: at most 1,000/);
+    expect(r.problems.freightPct).toMatch(/Freight %: a number ≥ 0/);
   });
 });
 
