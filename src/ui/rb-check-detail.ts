@@ -5,6 +5,7 @@
 import { LitElement, css, html } from 'lit';
 import type { TemplateResult } from 'lit';
 import { customElement, property, state } from 'lit/decorators.js';
+import { ifDefined } from 'lit/directives/if-defined.js';
 import { live } from 'lit/directives/live.js';
 import type { Check, ParamValue, Part, Variant } from '../domain/book.ts';
 import { CHECK_STATUS, STATUS_SYMBOL } from '../domain/check-status.ts';
@@ -248,63 +249,57 @@ export class RbCheckDetail extends LitElement {
     const name = input.name;
     const value = ownValue(v.params, name);
     const info = paramInfo(name, value);
-    const key = `${v.id}\u0000${name}`;
-    const text = this.paramDrafts.get(key) ?? paramText(name, value);
-    const problem = this.paramProblems.get(key);
-    const id = `param-${name}`;
-    return html`<label for=${id}>${name}</label>
-      <input
-        id=${id}
-        data-param=${name}
-        type="text"
-        autocomplete="off"
-        spellcheck="false"
-        .value=${live(text)}
-        aria-invalid=${problem ? 'true' : 'false'}
-        @input=${(e: Event) => {
-          this.paramDrafts = new Map(this.paramDrafts).set(key, (e.target as HTMLInputElement).value);
-        }}
-        @change=${(e: Event) => void this.commitParam(v.id, name, (e.target as HTMLInputElement).value)}
-      />
-      ${problem
-        ? html`<span class="problem" data-problem-for=${name} role="alert">${problem}</span>`
-        : html`<span class="hint">${paramHint(v, input, value, info)}</span>`}`;
+    return this.renderField({
+      kind: 'param',
+      name,
+      key: `${v.id}\u0000${name}`,
+      shown: paramText(name, value),
+      hint: paramHint(v, input, value, info),
+      commit: (text) => this.commitParam(v.id, name, text),
+    });
   }
 
   private renderRating(v: Variant, input: RatingInput): TemplateResult {
     const part = input.part;
-    const id = `rating-${input.key}`;
     if (!part || !input.line) {
-      return html`<label for=${id}>${input.key}</label>
-        <span id=${id} data-rating=${input.key}>—</span>
+      return html`<label for=${`rating-${input.key}`}>${input.key}</label>
+        <span id=${`rating-${input.key}`} data-rating=${input.key}>—</span>
         <span class="hint">no build line that applies to ${v.code} gives a part with the role ${input.role}</span>`;
     }
     const unit = ratingUnit(part, input.rating);
     const figure = input.rating === 'value' ? part.value : ownValue(part.ratings, input.rating);
-    const key = `${part.id}\u0000${input.rating}`;
-    const text = this.paramDrafts.get(key) ?? valueText(figure, unit);
-    const problem = this.paramProblems.get(key);
-    const what = input.rating === 'value' ? 'value' : input.rating;
-    return html`<label for=${id}>${input.key}</label>
+    return this.renderField({
+      kind: 'rating',
+      name: input.key,
+      key: `${part.id}\u0000${input.rating}`,
+      shown: valueText(figure, unit),
+      hint: `${input.rating} of part ${part.mpn} (line ${lineName(input.line)})${figure === undefined ? ', not set' : ''}: a change edits the part, for every variant and line that use it`,
+      commit: (text) => this.commitRating(part.id, input.rating, unit, text),
+    });
+  }
+
+  /** One editable input of the detail: its label, the text typed or the figure stored, and its problem or hint. */
+  private renderField(f: { kind: 'param' | 'rating'; name: string; key: string; shown: string; hint: string; commit: (text: string) => Promise<void> }): TemplateResult {
+    const id = `${f.kind}-${f.name}`;
+    const problem = this.paramProblems.get(f.key);
+    return html`<label for=${id}>${f.name}</label>
       <input
         id=${id}
-        data-rating=${input.key}
+        data-param=${ifDefined(f.kind === 'param' ? f.name : undefined)}
+        data-rating=${ifDefined(f.kind === 'rating' ? f.name : undefined)}
         type="text"
         autocomplete="off"
         spellcheck="false"
-        .value=${live(text)}
+        .value=${live(this.paramDrafts.get(f.key) ?? f.shown)}
         aria-invalid=${problem ? 'true' : 'false'}
         @input=${(e: Event) => {
-          this.paramDrafts = new Map(this.paramDrafts).set(key, (e.target as HTMLInputElement).value);
+          this.paramDrafts = new Map(this.paramDrafts).set(f.key, (e.target as HTMLInputElement).value);
         }}
-        @change=${(e: Event) => void this.commitRating(part.id, input.rating, unit, (e.target as HTMLInputElement).value)}
+        @change=${(e: Event) => void f.commit((e.target as HTMLInputElement).value)}
       />
       ${problem
-        ? html`<span class="problem" data-problem-for=${input.key} role="alert">${problem}</span>`
-        : html`<span class="hint"
-            >${what} of part ${part.mpn} (line ${lineName(input.line)})${figure === undefined ? ', not set' : ''}: a change edits the part, for every
-            variant and line that use it</span
-          >`}`;
+        ? html`<span class="problem" data-problem-for=${f.name} role="alert">${problem}</span>`
+        : html`<span class="hint">${f.hint}</span>`}`;
   }
 
   /** Saves a part's value or rating to the part record; the checks then follow the Book. Bad input changes nothing. */
