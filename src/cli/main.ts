@@ -11,6 +11,7 @@ const COMMANDS: Record<string, () => Promise<{ command: CliCommand }>> = {
   import: () => import('./commands/import.ts'),
   cost: () => import('./commands/cost.ts'),
   buy: () => import('./commands/buy.ts'),
+  prices: () => import('./commands/prices.ts'),
 };
 
 function usage(): string {

@@ -3,7 +3,7 @@
 import { BOOK_FORMAT, BOOK_VERSION } from './schema.ts';
 import type { Book, Settings } from './schema.ts';
 
-export { BOOK_FORMAT, BOOK_VERSION, CHECK_RULE_KINDS, COST_CATEGORIES, INCOTERMS, PART_KINDS } from './schema.ts';
+export { BOOK_FORMAT, BOOK_VERSION, CHECK_RULE_KINDS, COST_CATEGORIES, INCOTERMS, PART_KINDS, PRICE_BASES } from './schema.ts';
 export type {
   Book,
   BuildLine,
@@ -25,6 +25,7 @@ export type {
   PartKind,
   PerOrder,
   PriceBreak,
+  PriceList,
   Quote,
   Run,
   RunStatus,
@@ -55,6 +56,7 @@ export const COLLECTIONS = [
   'pages',
   'orders',
   'stockMoves',
+  'priceLists',
 ] as const;
 export type CollectionName = (typeof COLLECTIONS)[number];
 
@@ -101,6 +103,7 @@ export function emptyBook(): Book {
     pages: [],
     orders: [],
     stockMoves: [],
+    priceLists: [],
   };
 }
 

@@ -7,6 +7,7 @@ import type {
   NotebookPage,
   Part,
   PriceBreak,
+  PriceList,
   Quote,
   Run,
   Settings,
@@ -615,6 +616,23 @@ function pages(): NotebookPage[] {
   ];
 }
 
+/** Customer price lists of the invented firm: a home wholesale list and an export list in US dollars. */
+function priceLists(): PriceList[] {
+  return [
+    { id: 'pl_wholesale', rev: 1, name: 'Wholesale', currency: 'EUR', basis: 'margin', pct: 30, notes: 'Distributors and electrical wholesalers.' },
+    {
+      id: 'pl_export_us',
+      rev: 1,
+      name: 'Export (USD)',
+      currency: 'USD',
+      basis: 'markup',
+      pct: 60,
+      rounding: { step: 0.05, mode: 'up' },
+      notes: 'Importers abroad; prices ex works, rounded up to 5 cents.',
+    },
+  ];
+}
+
 /** A fresh copy of the demo Book on every call; ids and values never change between calls. */
 export function demoBook(): Book {
   const supplierList = suppliers();
@@ -631,6 +649,7 @@ export function demoBook(): Book {
     runs: runs(),
     importBatches: [],
     pages: pages(),
+    priceLists: priceLists(),
     orders: [],
     stockMoves: [],
   };

@@ -40,16 +40,16 @@ export const LIMITS = {
   leadDays: 3_650,
   rate: 1e6,
   money: 1e12,
+  /** A landed-cost share (freight, duty, charges) as a percentage of the goods' value. */
+  landedPct: 1_000,
+  /** A price list's markup on cost, in percent. */
+  markupPct: 10_000,
   /** Lines of one supplier order. */
   orderLines: 1_000,
   /** Stock movements: a busy store over many seasons. */
   stockMoves: 1_000_000,
   /** Days of a planning horizon, kitting or safety allowance. */
   planDays: 3_650,
-  /** A landed-cost share (freight, duty, charges) as a percentage of the goods' value. */
-  landedPct: 1_000,
-  /** A price list's markup on cost, in percent. */
-  markupPct: 10_000,
 } as const;
 
 export const PART_KINDS = [
@@ -692,6 +692,38 @@ export const OrderSchema = obj({
   notes: v.optional(text(LIMITS.notes), ''),
 });
 
+const priceRounding = () =>
+  obj(
+    {
+      /** The price is a whole number of steps (0.05, 0.5, 1…), in the list's currency. */
+      step: num({ min: 0, above: true, max: LIMITS.price }),
+      mode: v.optional(oneOf(ROUNDING_MODES), 'nearest'),
+    },
+    'an object with step and mode',
+  );
+
+/** A customer price list: a margin or markup and a currency of its own (wholesale, export…). */
+export const PriceListSchema = v.pipe(
+  obj({
+    ...recordBase,
+    name: filled(LIMITS.name),
+    currency: currency(),
+    basis: v.optional(oneOf(PRICE_BASES), 'margin'),
+    /** Percent: a gross margin on price (below 100) or a markup on cost. */
+    pct: num({ min: 0, max: LIMITS.markupPct }),
+    /** Absent = to the cent, half away from zero. */
+    rounding: v.optional(priceRounding()),
+    notes: v.optional(text(LIMITS.notes), ''),
+  }),
+  v.forward(
+    v.check(
+      (l) => l.basis !== 'margin' || l.pct < 100,
+      (i) => `a margin must be below 100 % (price = cost / (1 − margin)), not ${(i.input as { pct: number }).pct}`,
+    ),
+    ['pct'],
+  ),
+);
+
 export const ImportBatchSchema = obj({
   ...recordBase,
   fileName: filled(LIMITS.shortText),
@@ -802,6 +834,7 @@ export const BookSchema = obj({
   pages: v.optional(list(NotebookPageSchema, LIMITS.sections), []),
   orders: v.optional(list(OrderSchema, LIMITS.records), []),
   stockMoves: v.optional(list(StockMoveSchema, LIMITS.stockMoves), []),
+  priceLists: v.optional(list(PriceListSchema, LIMITS.records), []),
 });
 
 // ---------------------------------------------------------------------------------------------------------------
@@ -832,6 +865,7 @@ export type Order = v.InferOutput<typeof OrderSchema>;
 export type ImportBatch = v.InferOutput<typeof ImportBatchSchema>;
 export type NotebookSection = v.InferOutput<typeof NotebookSectionSchema>;
 export type NotebookPage = v.InferOutput<typeof NotebookPageSchema>;
+export type PriceList = v.InferOutput<typeof PriceListSchema>;
 export type Settings = v.InferOutput<typeof SettingsSchema>;
 export type Book = v.InferOutput<typeof BookSchema>;
 
@@ -919,6 +953,7 @@ const COLLECTION_KEYS = [
   'pages',
   'orders',
   'stockMoves',
+  'priceLists',
 ] as const;
 
 /** Rules between records: ids unique per collection, references that resolve, rated currencies, unique codes and names. */
@@ -975,6 +1010,7 @@ export function crossRecordProblems(book: Book): SchemaProblem[] {
   };
   unique(book.variants, 'variants', 'code', (x) => x.code, 'variant code');
   unique(book.checks, 'checks', 'name', (x) => x.name, 'check name');
+  unique(book.priceLists, 'priceLists', 'name', (x) => x.name.trim().toLowerCase(), 'price list name');
   unique(book.orders, 'orders', 'number', (x) => x.number, 'order number');
   return problems;
 }

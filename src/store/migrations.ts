@@ -219,4 +219,11 @@ export const MIGRATIONS: readonly Migration[] = [
       db.createObjectStore('stockMoves', { keyPath: 'id' }).createIndex('byPart', 'partId');
     },
   },
+  {
+    version: 3,
+    title: 'a store for customer price lists',
+    async up(db) {
+      db.createObjectStore('priceLists', { keyPath: 'id' }).createIndex('byName', 'name');
+    },
+  },
 ];

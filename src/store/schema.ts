@@ -1,6 +1,6 @@
 // The IndexedDB layout of one Book as a typed idb schema, and how schema versions map to IndexedDB versions.
 import type { DBSchema } from 'idb';
-import type { BuildLine, Check, ImportBatch, NotebookPage, Order, Part, Quote, Run, Settings, StockMove, Supplier, Variant } from '../domain/book.ts';
+import type { BuildLine, Check, ImportBatch, NotebookPage, Order, Part, PriceList, Quote, Run, Settings, StockMove, Supplier, Variant } from '../domain/book.ts';
 
 /** A part as stored: with its normalised maker part number, so look-ups by MPN use an index. */
 export interface StoredPart extends Part {
@@ -68,12 +68,13 @@ export interface RungbookDB extends DBSchema {
   pages: { key: string; value: NotebookPage };
   orders: { key: string; value: Order; indexes: { bySupplier: string; byNumber: string } };
   stockMoves: { key: string; value: StockMove; indexes: { byPart: string } };
+  priceLists: { key: string; value: PriceList; indexes: { byName: string } };
   settings: { key: 'settings'; value: Settings };
   meta: { key: 'schema'; value: MetaRecord };
 }
 
 /** Schema version of the stored Book data (its own numbered steps; the Book file format has its own version). */
-export const SCHEMA_VERSION = 2 as const;
+export const SCHEMA_VERSION = 3 as const;
 
 /**
  * IndexedDB versions are integers from 1, and version 1 of the `rungbook` database was used by the unreleased

@@ -89,6 +89,13 @@ export const PAGES: readonly PageEntry[] = [
     mains: true,
   },
   {
+    slug: 'prices',
+    title: 'Price lists',
+    blurb: 'Customer price lists: a margin or markup and a currency each, and every variant’s price at each run size.',
+    tag: 'rb-price-lists-page',
+    load: () => import('./rb-price-lists-page.ts'),
+  },
+  {
     slug: 'import',
     title: 'Import',
     blurb: 'Bring in a supplier’s price file, map its columns once, and review the quotes before they are kept.',

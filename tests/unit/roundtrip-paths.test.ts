@@ -258,7 +258,7 @@ function sampleBookBeforeStock(): Book {
   return { ...book, settings, runs, orders: [], stockMoves: [] };
 }
 
-/** The sample Book as a file written before landed cost: no landed terms on suppliers, quotes or frozen costings. */
+/** The sample Book as a file written before landed cost and price lists: no landed terms, no price lists. */
 function beforeLanded(book: Book): Book {
   const suppliers = book.suppliers.map(({ freightPerOrder: _a, freightPct: _b, dutyPct: _c, chargesPerOrder: _d, chargesPct: _e, ...s }) => s);
   const quote = ({ incoterm: _t, ...q }: Book['quotes'][number]): Book['quotes'][number] => q;
@@ -269,7 +269,7 @@ function beforeLanded(book: Book): Book {
     const snapshot = { ...r.frozen.snapshot, bom: { ...bom, lines }, quotes: r.frozen.snapshot.quotes.map(quote) };
     return { ...r, frozen: { ...r.frozen, snapshot } };
   });
-  return { ...book, suppliers, quotes: book.quotes.map(quote), runs };
+  return { ...book, suppliers, quotes: book.quotes.map(quote), runs, priceLists: [] };
 }
 
 describe('version-1 Book file', () => {

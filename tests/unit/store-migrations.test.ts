@@ -152,6 +152,37 @@ describe('step 2: stores for orders and stock movements', () => {
   });
 });
 
+describe('step 3: a store for customer price lists', () => {
+  it('adds the store to a schema-2 database, keeps every record, and then holds price lists', async () => {
+    const factory = new IDBFactory();
+    const sample = sampleBook();
+    (await openBookStore('rungbook-step3', { factory, migrations: MIGRATIONS.slice(0, 2) })).close();
+    // Records as schema 2 kept them, written straight into its stores.
+    const raw2 = await rawOpen(factory, 'rungbook-step3');
+    expect(Array.from(raw2.objectStoreNames)).not.toContain('priceLists');
+    const tx = raw2.transaction(['parts', 'suppliers', 'variants', 'settings'], 'readwrite');
+    tx.objectStore('settings').put(sample.settings);
+    for (const p of sample.parts) tx.objectStore('parts').put({ ...p, mpnKey: mpnKey(p.mpn) });
+    for (const x of sample.suppliers) tx.objectStore('suppliers').put(x);
+    for (const x of sample.variants) tx.objectStore('variants').put(x);
+    await new Promise((resolve) => (tx.oncomplete = resolve));
+    raw2.close();
+
+    const v3 = await openBookStore('rungbook-step3', { factory });
+    expect(await v3.schemaVersion()).toBe(LAST);
+    const book = await v3.load();
+    expect([book.parts, book.suppliers, book.variants, book.settings]).toEqual([sample.parts, sample.suppliers, sample.variants, sample.settings]);
+    expect(book.priceLists).toEqual([]);
+    // New records (revision 0) are stored at revision 1.
+    await v3.apply({ put: { priceLists: sample.priceLists.map((l) => ({ ...l, rev: 0 })) } });
+    expect((await v3.load()).priceLists).toEqual(sample.priceLists.map((l) => ({ ...l, rev: 1 })));
+    v3.close();
+    const db = await rawOpen(factory, 'rungbook-step3');
+    expect(Array.from(db.transaction('priceLists').objectStore('priceLists').indexNames)).toEqual(['byName']);
+    db.close();
+  });
+});
+
 describe('the next schema is one added step', () => {
   it('runs only the new step on a database at the last schema and keeps every record', async () => {
     const factory = new IDBFactory();

@@ -20,6 +20,7 @@ const LABELS: Record<CollectionName, string> = {
   runs: 'runs',
   importBatches: 'import batches',
   pages: 'notebook pages',
+  priceLists: 'price lists',
   orders: 'orders',
   stockMoves: 'stock moves',
 };
