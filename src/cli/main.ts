@@ -11,6 +11,9 @@ const COMMANDS: Record<string, () => Promise<{ command: CliCommand }>> = {
   import: () => import('./commands/import.ts'),
   cost: () => import('./commands/cost.ts'),
   buy: () => import('./commands/buy.ts'),
+  plan: () => import('./commands/plan.ts'),
+  receive: () => import('./commands/receive.ts'),
+  count: () => import('./commands/count.ts'),
   prices: () => import('./commands/prices.ts'),
 };
 

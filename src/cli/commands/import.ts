@@ -1,15 +1,13 @@
 // `rungbook import`: brings a supplier price file into a Book file, all rows or none, with the app's own import code.
-import { readFile, rename, rm, writeFile } from 'node:fs/promises';
-import { basename, dirname, join } from 'node:path';
-import { COLLECTIONS } from '../../domain/book.ts';
-import type { Book } from '../../domain/book.ts';
-import { serializeBook } from '../../io/book-file.ts';
+import { readFile } from 'node:fs/promises';
+import { basename } from 'node:path';
 import { parseEncodingChoice } from '../../io/price-decode.ts';
 import { parseColumnMapping } from '../../io/price-map.ts';
 import type { PriceProblem } from '../../io/price-map.ts';
 import { importPrices } from '../../io/price-import.ts';
 import type { ImportPricesOptions, ImportSummary } from '../../io/price-import.ts';
-import { formatProblems, loadBook, readBookFile } from '../book-read.ts';
+import { loadBook } from '../book-read.ts';
+import { writeBookSafely } from '../book-write.ts';
 import { parseArgs } from '../command.ts';
 import type { CliCommand, CliIo } from '../command.ts';
 import { shown } from '../terminal.ts';
@@ -147,29 +145,6 @@ async function run(args: string[], io: CliIo): Promise<number> {
   io.out(formatSummary(result.summary, outPath));
   if (encodingWarning) io.out(`  warning: ${shown(encodingWarning)}`);
   return 0;
-}
-
-/**
- * Writes `book` to `path` so that a good file is never replaced by a damaged one: the text goes to a temporary file in
- * the same folder, which is read back with the very reader every command uses and must give a Book with every record;
- * only then is it renamed over `path` (a rename within one folder replaces the file whole). Returns why not, or
- * undefined when written.
- */
-async function writeBookSafely(path: string, book: Book): Promise<string | undefined> {
-  const temp = join(dirname(path), `.${basename(path)}.${process.pid}.tmp`);
-  try {
-    await writeFile(temp, serializeBook(book), 'utf8');
-    const back = await readBookFile(temp);
-    if (!back.ok) return `the new Book does not read back:\n${formatProblems(back.problems, back.total)}`;
-    const lost = COLLECTIONS.filter((c) => back.book[c].length !== book[c].length);
-    if (lost.length) return `the new Book reads back with other counts of ${lost.join(', ')}`;
-    await rename(temp, path);
-    return undefined;
-  } catch (e) {
-    return `cannot write it: ${e instanceof Error ? e.message : String(e)}`;
-  } finally {
-    await rm(temp, { force: true });
-  }
 }
 
 export const command: CliCommand = { name: 'import', help: HELP, run };
