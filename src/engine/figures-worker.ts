@@ -1,35 +1,41 @@
 // Web Worker entry for the open Book's live figures: the family and costing workbooks live here, so building them
 // (seconds for a large family) and recomputing after an edit never hold up the page. The page sends the Book once,
-// then only what changed (a BookDelta); each answer is the FiguresUpdate of that step. The page's side is
-// src/ui/costing-service.ts.
+// then only what changed (a BookDelta); each answer is the FiguresUpdate of that step, posted in parts that each take
+// the page a few milliseconds to receive. The page's side is src/ui/costing-service.ts.
 import type { Book } from '../domain/book.ts';
 import { applyBookDelta } from '../domain/book-ops.ts';
 import type { BookDelta } from '../domain/book-ops.ts';
-import { LiveFigures } from './figures.ts';
+import { LiveFigures, splitUpdate } from './figures.ts';
 import type { FiguresUpdate } from './figures.ts';
 
 export type FiguresRequest = { type: 'book'; seq: number; book: Book } | { type: 'delta'; seq: number; delta: BookDelta };
 
-export type FiguresMessage = { type: 'figures'; seq: number; update: FiguresUpdate } | { type: 'failed'; seq: number; message: string };
+/** One part of an answer (see splitUpdate): `last` says the figures of the Book sent are complete. */
+export type FiguresMessage = { type: 'figures'; seq: number; update: FiguresUpdate; last: boolean } | { type: 'failed'; seq: number; message: string };
 
 /** The worker's whole job, as an object so Node tests run exactly what the worker runs. */
 export class FiguresHost {
   private readonly live = new LiveFigures();
 
-  handle(request: FiguresRequest): FiguresMessage {
+  /** The answer to one request, in parts that are each quick for the page to take. */
+  handle(request: FiguresRequest): FiguresMessage[] {
     const seq = request?.seq ?? -1;
+    const answer = (update: FiguresUpdate): FiguresMessage[] => {
+      const parts = splitUpdate(update);
+      return parts.map((u, i) => ({ type: 'figures', seq, update: u, last: i === parts.length - 1 }));
+    };
     try {
-      if (request?.type === 'book') return { type: 'figures', seq, update: this.live.update(request.book) };
+      if (request?.type === 'book') return answer(this.live.update(request.book));
       if (request?.type === 'delta') {
         const held = this.live.current;
-        if (!held) return { type: 'failed', seq, message: 'the figures worker was sent a change before any Book' };
-        return { type: 'figures', seq, update: this.live.update(applyBookDelta(held, request.delta)) };
+        if (!held) return [{ type: 'failed', seq, message: 'the figures worker was sent a change before any Book' }];
+        return answer(this.live.update(applyBookDelta(held, request.delta)));
       }
-      return { type: 'failed', seq, message: 'the figures worker was sent something other than a Book or a change' };
+      return [{ type: 'failed', seq, message: 'the figures worker was sent something other than a Book or a change' }];
     } catch (e) {
       // The workbooks may be half-updated: start from the next Book sent.
       this.live.close();
-      return { type: 'failed', seq, message: `the figures could not be worked out: ${e instanceof Error ? e.message : String(e)}` };
+      return [{ type: 'failed', seq, message: `the figures could not be worked out: ${e instanceof Error ? e.message : String(e)}` }];
     }
   }
 }
@@ -38,5 +44,7 @@ export class FiguresHost {
 const scope = globalThis as unknown as { WorkerGlobalScope?: unknown; onmessage: unknown; postMessage(m: unknown): void };
 if (typeof scope.WorkerGlobalScope !== 'undefined') {
   const host = new FiguresHost();
-  scope.onmessage = (e: MessageEvent<FiguresRequest>) => scope.postMessage(host.handle(e.data));
+  scope.onmessage = (e: MessageEvent<FiguresRequest>) => {
+    for (const m of host.handle(e.data)) scope.postMessage(m);
+  };
 }

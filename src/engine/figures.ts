@@ -338,3 +338,30 @@ export function worstByVariant(results: ReadonlyMap<string, readonly CheckResult
   for (const [id, list] of results) out.set(id, worstOf(list.map((r) => r.status)));
   return out;
 }
+
+/** Variants (their check results and lines) and unit costs per message: small enough to copy in a few ms. */
+export const VARIANTS_PER_PART = 20;
+export const COSTS_PER_PART = 400;
+
+/**
+ * An update cut into parts that are each quick to copy, so the page never spends long on one message: the first part
+ * says what to reset (`costsFull`, `checksFull`), the last carries the list of what changed; merged in order they
+ * give the whole update.
+ */
+export function splitUpdate(u: FiguresUpdate, variantsPer = VARIANTS_PER_PART, costsPer = COSTS_PER_PART): FiguresUpdate[] {
+  const parts = Math.max(1, Math.ceil(u.variants.length / variantsPer), Math.ceil(u.costs.length / costsPer));
+  if (parts === 1) return [u];
+  const out: FiguresUpdate[] = [];
+  for (let i = 0; i < parts; i++) {
+    const last = i === parts - 1;
+    out.push({
+      ...u,
+      changed: last ? u.changed : [],
+      costs: u.costs.slice(i * costsPer, (i + 1) * costsPer),
+      costsFull: i === 0 && u.costsFull,
+      variants: u.variants.slice(i * variantsPer, (i + 1) * variantsPer),
+      checksFull: i === 0 && u.checksFull,
+    });
+  }
+  return out;
+}

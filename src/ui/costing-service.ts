@@ -236,12 +236,16 @@ export class CostingService extends EventTarget {
 
   private answered(m: FiguresMessage): void {
     if (m.seq !== this.seq) return;
-    this.inFlight = false;
     const book = this.sent!;
     if (m.type === 'figures') {
+      // Parts before the last are merged quietly; the last one completes the figures of the Book sent.
+      this.merge(m.update);
+      if (!m.last) return;
+      this.inFlight = false;
       this.shown = book;
-      this.take(m.update);
+      this.announce(m.update);
     } else {
+      this.inFlight = false;
       // The worker dropped its workbooks: the next request sends the whole Book again.
       this.sent = undefined;
       this.fail(book, m.message);
@@ -257,6 +261,13 @@ export class CostingService extends EventTarget {
 
   /** Merges one update into the figures held and tells the pages. */
   private take(u: FiguresUpdate): void {
+    if (u.kind === SYNC_KINDS.same) return;
+    this.merge(u);
+    this.announce(u);
+  }
+
+  /** Merges one update (or one part of it) into the figures held. */
+  private merge(u: FiguresUpdate): void {
     if (u.kind === SYNC_KINDS.same) return;
     this.runSizesHeld = u.runSizes;
     this.costingError = u.costingError;
@@ -287,6 +298,11 @@ export class CostingService extends EventTarget {
       if (v.lines) this.lines.set(v.variantId, v.lines);
       else this.lines.delete(v.variantId);
     }
+  }
+
+  /** Tells the pages the figures moved. */
+  private announce(u: FiguresUpdate): void {
+    if (u.kind === SYNC_KINDS.same) return;
     this.version += 1;
     const detail: CostingChangeDetail = { kind: u.kind, changed: u.changed, checks: u.checks };
     this.dispatchEvent(new CustomEvent<CostingChangeDetail>('change', { detail }));

@@ -1,7 +1,7 @@
 // Family page: the variants as a keyboard grid — code, name and parameters to edit in place, with each variant's worst
 // check status and unit cost at every run size beside them — plus copy and paste of tab-separated blocks, add,
 // duplicate, delete, a form for notes and parameters of the Book's own, and undo / redo of every step.
-import { LitElement, css, html } from 'lit';
+import { LitElement, css, html, nothing } from 'lit';
 import { customElement, query, state } from 'lit/decorators.js';
 import type { Book, Variant } from '../domain/book.ts';
 import type { BookChange } from '../domain/book-ops.ts';
@@ -20,6 +20,8 @@ import './rb-grid.ts';
 import type { GridCell, GridClearDetail, GridColumn, GridCommitDetail, GridEditDetail, GridPasteDetail, GridRow, RbGrid } from './rb-grid.ts';
 import { COLUMN_KINDS, duplicateVariants, editVariant, planClear, planPaste } from './grid-edits.ts';
 import type { FamilyColumn, PastePlan, PasteTarget } from './grid-edits.ts';
+import { ProgressiveRows } from './progressive.ts';
+import { WINDOW_FROM } from './row-window.ts';
 import type { FieldProblems, VariantDraft } from './record-forms.ts';
 import { paramInfo, paramNames, paramText, validateVariant, variantDraft, variantUsers } from './record-forms.ts';
 import { pageStyles } from './styles.ts';
@@ -143,6 +145,9 @@ export class RbFamilyPage extends LitElement {
   ];
 
   private readonly books = new BookController(this, { figures: true });
+  /** The at-a-glance table draws a slice of rows per frame; a large family's is folded until opened. */
+  private readonly glanceRows = new ProgressiveRows(this);
+  @state() private glanceOpen = false;
   private readonly history = new UndoStack<Variant>();
   /** Saves from this page run one after another, each from the Book as the one before left it. */
   private writes: Promise<unknown> = Promise.resolve();
@@ -374,27 +379,35 @@ export class RbFamilyPage extends LitElement {
    */
   private renderGlance(variants: Variant[], runs: readonly number[], currency: string) {
     if (variants.length === 0) return html``;
+    // A large family's table is long: it folds away (drawn only when opened) and the grid above holds the same figures.
+    const folded = variants.length >= WINDOW_FROM;
+    const table = html`<table class="glance" data-testid="family-glance">
+      <thead>
+        <tr>
+          <th scope="col">code</th>
+          <th scope="col">checks</th>
+          ${runs.map((r) => html`<th scope="col" class="num">unit cost @ ${grouped(r)}</th>`)}
+        </tr>
+      </thead>
+      <tbody>
+        ${this.glanceRows.take(variants).map((v) => {
+          const figs = this.rowCache.get(v.id)?.figures ?? [];
+          return html`<tr>
+            <th scope="row">${v.code}</th>
+            ${figs.map((c, i) => html`<td class="${i > 0 ? 'num' : ''} ${c.tone ?? ''}" title=${c.title ?? ''}>${c.text}</td>`)}
+          </tr>`;
+        })}
+      </tbody>
+    </table>`;
     return html`<section class="sheet" aria-labelledby="glance-h">
       <h2 id="glance-h">Checks and unit cost at a glance</h2>
       <p class="why">The same figures as the grid's last columns: the worst check of each variant and its unit cost, in ${currency}, at each run size.</p>
-      <table class="glance" data-testid="family-glance">
-        <thead>
-          <tr>
-            <th scope="col">code</th>
-            <th scope="col">checks</th>
-            ${runs.map((r) => html`<th scope="col" class="num">unit cost @ ${grouped(r)}</th>`)}
-          </tr>
-        </thead>
-        <tbody>
-          ${variants.map((v) => {
-            const figs = this.rowCache.get(v.id)?.figures ?? [];
-            return html`<tr>
-              <th scope="row">${v.code}</th>
-              ${figs.map((c, i) => html`<td class="${i > 0 ? 'num' : ''} ${c.tone ?? ''}" title=${c.title ?? ''}>${c.text}</td>`)}
-            </tr>`;
-          })}
-        </tbody>
-      </table>
+      ${folded
+        ? html`<details data-testid="family-glance-fold" @toggle=${(e: Event) => (this.glanceOpen = (e.target as HTMLDetailsElement).open)}>
+            <summary>Show all ${grouped(variants.length)} variants</summary>
+            ${this.glanceOpen ? table : nothing}
+          </details>`
+        : table}
     </section>`;
   }
 

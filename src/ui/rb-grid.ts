@@ -11,7 +11,9 @@ import { customElement, property, query, state } from 'lit/decorators.js';
 import { classMap } from 'lit/directives/class-map.js';
 import { guard } from 'lit/directives/guard.js';
 import { live } from 'lit/directives/live.js';
+import { repeat } from 'lit/directives/repeat.js';
 import { formatTsv, parseTsv } from '../domain/tsv.ts';
+import { RowWindow } from './row-window.ts';
 
 export interface GridColumn {
   key: string;
@@ -93,12 +95,21 @@ interface Editing {
 }
 
 const PAGE_ROWS = 20;
+/** Column widths in characters of text: at least, at most (longer text is cut with an ellipsis; the title has it). */
+const MIN_COLUMN_CHARS = 3;
+const MAX_COLUMN_CHARS = 40;
+/** A cell's padding on both sides plus its border, as in the cell styles below. */
+const CELL_PADDING = '1.2rem';
 
 @customElement('rb-grid')
 export class RbGrid extends LitElement {
   static override styles = css`
     :host {
       display: block;
+    }
+    tr.spacer td {
+      padding: 0;
+      border: none;
     }
     .frame {
       overflow: auto;
@@ -107,6 +118,7 @@ export class RbGrid extends LitElement {
       background: var(--rb-sheet);
     }
     table {
+      table-layout: fixed;
       border-collapse: separate;
       border-spacing: 0;
       font-size: 0.88rem;
@@ -152,6 +164,8 @@ export class RbGrid extends LitElement {
       padding: 0.22rem 0.55rem;
       border-bottom: 1px solid var(--rb-rule);
       white-space: nowrap;
+      overflow: hidden;
+      text-overflow: ellipsis;
       text-align: left;
       font-weight: 400;
       user-select: none;
@@ -250,6 +264,8 @@ export class RbGrid extends LitElement {
 
   @property({ attribute: false }) columns: readonly GridColumn[] = [];
   @property({ attribute: false }) rows: readonly GridRow[] = [];
+  /** A long grid draws only the rows in view in its frame. */
+  private readonly window = new RowWindow(this, () => this.renderRoot?.querySelector<HTMLElement>('.frame') ?? null);
   /** When set, a last line (in the table foot) where typing or pasting adds rows; the text labels it. */
   @property() newRow: string | undefined;
   @property() label = 'Records';
@@ -338,6 +354,7 @@ export class RbGrid extends LitElement {
         if (at !== f.at) {
           this.active = { r: at, c: this.active.c };
           this.anchor = { ...this.active };
+          this.window.reach(at);
           void this.updateComplete.then(() => {
             this.cellAt(this.active.r, this.active.c)?.scrollIntoView({ block: 'nearest', inline: 'nearest' });
             if (f.focus) this.takeFocus();
@@ -383,6 +400,7 @@ export class RbGrid extends LitElement {
     this.active = { r: Math.max(0, Math.min(maxR, r)), c: Math.max(0, Math.min(maxC, c)) };
     if (!extend) this.anchor = { ...this.active };
     this.activeId = this.rows[this.active.r]?.id;
+    this.window.reach(this.active.r);
     if (this.message && !this.message.problem) this.message = undefined;
     void this.updateComplete.then(() => this.cellAt(this.active.r, this.active.c)?.scrollIntoView({ block: 'nearest', inline: 'nearest' }));
   }
@@ -667,8 +685,11 @@ export class RbGrid extends LitElement {
 
   override render() {
     const rowsShown = this.rows.length + (this.newRow === undefined ? 0 : 1);
+    const widths = this.columnWidths();
+    const win = this.window.slice(this.rows.length);
     return html`${this.renderColumnHelp()}<div class="frame">
         <table
+          style="width: ${widths.table}"
           role="grid"
           tabindex="0"
           aria-label=${this.label}
@@ -686,6 +707,9 @@ export class RbGrid extends LitElement {
           @mouseover=${this._onMouseOver}
           @dblclick=${this._onDoubleClick}
         >
+          <colgroup>
+            ${widths.cols.map((w) => html`<col style="width: ${w}" />`)}
+          </colgroup>
           <thead>
             <tr>
               ${this.columns.map(
@@ -704,7 +728,13 @@ export class RbGrid extends LitElement {
             </tr>
           </thead>
           <tbody>
-            ${this.rows.map((row, r) => guard([row, this.columns, this.rowState(r)], () => this.renderRow(row.cells, r)))}
+            ${win.before > 0 ? this.renderSpacer(win.before) : nothing}
+            ${repeat(
+              this.rows.slice(win.from, win.to),
+              (row) => row.id,
+              (row, i) => guard([row, this.columns, this.rowState(win.from + i), win.from + i], () => this.renderRow(row.cells, win.from + i)),
+            )}
+            ${win.after > 0 ? this.renderSpacer(win.after) : nothing}
           </tbody>
           ${this.newRow === undefined
             ? nothing
@@ -716,6 +746,29 @@ export class RbGrid extends LitElement {
       <p class=${classMap({ message: true, problem: !!this.message?.problem })} role=${this.message?.problem ? 'alert' : 'status'}>
         ${this.message?.text ?? ''}
       </p>`;
+  }
+
+  private widthCache: { columns: readonly GridColumn[]; rows: readonly GridRow[]; cols: string[]; table: string } | undefined;
+
+  /**
+   * Each column's width from its longest text (heading and cells, at most MAX_COLUMN_CHARS): the table is laid out
+   * with these fixed widths, so an edit or a new slice of rows never makes the browser measure every cell again.
+   */
+  private columnWidths(): { cols: string[]; table: string } {
+    const c = this.widthCache;
+    if (c && c.columns === this.columns && c.rows === this.rows) return c;
+    const chars = this.columns.map((col) => Math.max(col.label.length, col.unit?.length ?? 0, MIN_COLUMN_CHARS));
+    for (const row of this.rows) {
+      row.cells.forEach((cell, i) => {
+        if (i < chars.length && cell.text.length > chars[i]!) chars[i] = Math.min(cell.text.length, MAX_COLUMN_CHARS);
+      });
+    }
+    if (this.newRow !== undefined && chars.length > 0) chars[0] = Math.max(chars[0]!, Math.min(this.newRow.length, MAX_COLUMN_CHARS));
+    const width = (n: number): string => `calc(${n}ch + ${CELL_PADDING})`;
+    const total = chars.reduce((a, b) => a + b, 0);
+    const out = { columns: this.columns, rows: this.rows, cols: chars.map(width), table: `calc(${total}ch + ${chars.length} * ${CELL_PADDING})` };
+    this.widthCache = out;
+    return out;
   }
 
   /**
@@ -740,6 +793,11 @@ export class RbGrid extends LitElement {
     const act = this.active.r === r ? this.active.c : -1;
     const ed = this.editingIndex() === r ? `${this.editing!.col}:${this.editing!.text}` : '';
     return inBlock || act >= 0 || ed ? `${inBlock ? `${s.c0}-${s.c1}` : ''}|${act}|${ed}` : '';
+  }
+
+  /** Stands for rows not drawn (above or below the view) so the frame scrolls as if they were. */
+  private renderSpacer(height: number) {
+    return html`<tr class="spacer" aria-hidden="true"><td colspan=${this.columns.length} style="height: ${height}px"></td></tr>`;
   }
 
   private renderRow(cells: readonly GridCell[], r: number, isNew = false) {

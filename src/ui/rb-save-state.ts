@@ -20,8 +20,11 @@ export function formatBytes(bytes: number): string {
   return `${v.toFixed(digits)} ${units[i]}`;
 }
 
+/** Made once: Date#toLocaleTimeString builds a new formatter on every call (milliseconds each time the rail draws). */
+const CLOCK = new Intl.DateTimeFormat(undefined, { hour: '2-digit', minute: '2-digit', second: '2-digit' });
+
 function clock(d: Date): string {
-  return d.toLocaleTimeString(undefined, { hour: '2-digit', minute: '2-digit', second: '2-digit' });
+  return CLOCK.format(d);
 }
 
 @customElement('rb-save-state')

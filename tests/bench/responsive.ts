@@ -39,10 +39,11 @@ export const LONG_TASK_PROBE = `(() => {
     return null;
   };
   window.__rbDeep = (sel) => deep(document, sel);
-  window.__rbGlance = (code, w) => {
-    const table = deep(document, '[data-testid="family-glance"]');
+  window.__rbCost = (code, run, w) => {
+    const table = deep(document, '[data-testid="family-table"]');
+    const col = table ? [...table.querySelectorAll('thead th')].findIndex((th) => th.getAttribute('data-key') === 'cost_' + run) : -1;
     const row = table && [...table.querySelectorAll('tbody tr')].find((tr) => tr.querySelector('th')?.textContent?.trim() === code);
-    const text = row?.querySelectorAll('td')[1]?.textContent?.trim() ?? '';
+    const text = (col >= 0 && row?.children[col]?.textContent?.trim()) || '';
     const fits = /\\d/.test(text) && (w.is === undefined || text === w.is) && (w.not === undefined || text !== w.not);
     return fits ? { at: performance.now(), text } : false;
   };
@@ -74,11 +75,11 @@ async function strain(page: Page, from: number, to: number): Promise<{ task: num
 }
 
 /**
- * Waits, checking every frame, until the Family page's at-a-glance row of `code` shows a unit cost (the first run
- * size) that is `want.is`, or is not `want.not`, or any figure; gives the page time it was first seen.
+ * Waits, checking every frame, until the Family grid's row of `code` shows a unit cost at `run` that is `want.is`,
+ * or is not `want.not`, or any figure; gives the page time it was first seen.
  */
-async function glanceCost(page: Page, code: string, want: { is?: string; not?: string } = {}, timeout = 120_000): Promise<{ at: number; text: string }> {
-  return page.evaluate(`window.__rbUntil(() => window.__rbGlance(${JSON.stringify(code)}, ${JSON.stringify(want)}), ${timeout})`) as Promise<{
+async function gridCost(page: Page, code: string, run: number, want: { is?: string; not?: string } = {}, timeout = 120_000): Promise<{ at: number; text: string }> {
+  return page.evaluate(`window.__rbUntil(() => window.__rbCost(${JSON.stringify(code)}, ${run}, ${JSON.stringify(want)}), ${timeout})`) as Promise<{
     at: number;
     text: string;
   }>;
@@ -126,7 +127,7 @@ export async function responsiveFigures(context: BrowserContext, appUrl: string,
     await dialog.waitFor({ timeout: 120_000 });
     let t0 = await mark(page);
     await dialog.getByRole('button', { name: 'Replace with the file' }).click();
-    const opened = await glanceCost(page, first);
+    const opened = await gridCost(page, first, run);
     await record('open', page, t0, { cost: opened.at });
 
     // A parameter edit in the Family grid: one more step on the first variant.
@@ -144,13 +145,13 @@ export async function responsiveFigures(context: BrowserContext, appUrl: string,
     await page.keyboard.press('Enter');
     const cellSel = `[data-testid="family-table"] [data-r="${r}"][data-c="${keys.indexOf('steps')}"]`;
     const shownValue = (await page.evaluate(`window.__rbUntil(() => window.__rbText(${JSON.stringify(cellSel)}, ${JSON.stringify(String(next))}), 60000)`)) as number;
-    const paramCost = await glanceCost(page, first, { not: opened.text });
+    const paramCost = await gridCost(page, first, run, { not: opened.text });
     await record('param_edit', page, t0, { visible: shownValue, cost: paramCost.at });
 
     // Its undo, from the Family page's own button.
     t0 = await mark(page);
     await page.getByRole('button', { name: '↶ Undo' }).click();
-    const undone = await glanceCost(page, first, { is: opened.text });
+    const undone = await gridCost(page, first, run, { is: opened.text });
     await record('undo', page, t0, { cost: undone.at });
 
     // A quote price edit on the Quotes page, then back to the Family page for the new unit cost.
@@ -168,7 +169,7 @@ export async function responsiveFigures(context: BrowserContext, appUrl: string,
     await page.locator('rb-quote-form').waitFor({ state: 'detached' });
     const priceShown = (await page.evaluate('performance.now()')) as number;
     await rail(page, 'family');
-    const priceCost = await glanceCost(page, first, { not: opened.text });
+    const priceCost = await gridCost(page, first, run, { not: opened.text });
     await record('price_edit', page, t0, { visible: priceShown, cost: priceCost.at });
 
     // A quantity edit on the Build page: the first line the variant buys gets one more part per unit.
@@ -185,7 +186,7 @@ export async function responsiveFigures(context: BrowserContext, appUrl: string,
     await page.locator(`[data-testid="build-lines"] tbody tr[data-id="${line.id}"] code`, { hasText: String(Number(line.qtyRule) + 1) }).first().waitFor();
     const qtyShown = (await page.evaluate('performance.now()')) as number;
     await rail(page, 'family');
-    const qtyCost = await glanceCost(page, first, { not: priceCost.text });
+    const qtyCost = await gridCost(page, first, run, { not: priceCost.text });
     await record('quantity_edit', page, t0, { visible: qtyShown, cost: qtyCost.at });
 
     // Page switches with the large family: to Compare and back.
@@ -195,7 +196,7 @@ export async function responsiveFigures(context: BrowserContext, appUrl: string,
     await record('switch_to_compare', page, t0, { visible: await mark(page) });
     t0 = await mark(page);
     await rail(page, 'family');
-    const back = await glanceCost(page, first);
+    const back = await gridCost(page, first, run);
     await record('switch_to_family', page, t0, { visible: back.at });
 
     const longest = Object.entries(f)

@@ -13,6 +13,7 @@ import { addBuiltInChecks } from '../../src/engine/check-sheets.ts';
 import { loadBuiltInChecks } from '../../src/cli/check-sheets-fs.ts';
 import { costVariant } from '../../src/io/run-export.ts';
 import { FiguresHost } from '../../src/engine/figures-worker.ts';
+import { splitUpdate } from '../../src/engine/figures.ts';
 import type { FiguresMessage, FiguresRequest } from '../../src/engine/figures-worker.ts';
 import { CostingService, setFiguresWorker } from '../../src/ui/costing-service.ts';
 import type { FiguresWorkerLike } from '../../src/ui/costing-service.ts';
@@ -150,6 +151,8 @@ describe('CostingService', () => {
  * postMessage does (structured clone) and answers later, as a worker would.
  */
 class FakeWorker implements FiguresWorkerLike {
+  /** Messages answered, parts included. */
+  answered = 0;
   onmessage: ((e: MessageEvent<FiguresMessage>) => void) | null = null;
   onerror: ((e: ErrorEvent) => void) | null = null;
   readonly host = new FiguresHost();
@@ -165,7 +168,14 @@ class FakeWorker implements FiguresWorkerLike {
         this.onerror?.({ message: this.crash, preventDefault() {} } as ErrorEvent);
         return;
       }
-      this.onmessage?.({ data: structuredClone(this.host.handle(copy)) } as MessageEvent<FiguresMessage>);
+      // Answers in parts of two variants and five unit costs, so every answer here comes in several parts.
+      const messages = this.host.handle(copy).flatMap((m): FiguresMessage[] => {
+        if (m.type !== 'figures') return [m];
+        const parts = splitUpdate(m.update, 2, 5);
+        return parts.map((update, i) => ({ ...m, update, last: m.last && i === parts.length - 1 }));
+      });
+      this.answered += messages.length;
+      for (const m of messages) this.onmessage?.({ data: structuredClone(m) } as MessageEvent<FiguresMessage>);
     }, 0);
   }
   terminate(): void {
@@ -211,6 +221,8 @@ describe('CostingService with the figures worker', () => {
     expect(costing.resolution().variants.map((v) => v.variantId)).toEqual(holder.book.variants.map((v) => v.id));
     expect(workers).toHaveLength(1);
     expect(workers[0]!.sent.map((m) => m.type)).toEqual(['book']);
+    // The first answer came in parts (8 variants, 24 unit costs), merged into one set of figures and one event.
+    expect(workers[0]!.answered).toBeGreaterThan(4);
   });
 
   it('sends only what changed, catches up with edits made while it was answering, and agrees with a fresh workbook', async () => {

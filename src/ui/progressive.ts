@@ -1,0 +1,46 @@
+// Long tables drawn a slice at a time: the first rows in the first frame, then more in each frame after, so a
+// table of hundreds of rows never holds the page's thread for long (the bench's ui_* figures measure this). Rows
+// already drawn stay drawn; a table that grows draws its new rows the same way.
+import type { ReactiveController, ReactiveControllerHost } from 'lit';
+
+/** Rows drawn in the first frame and added in each frame after: about 10–20 ms of drawing on a slow machine. */
+export const ROWS_PER_FRAME = 30;
+
+export class ProgressiveRows implements ReactiveController {
+  /** How many rows may be drawn now. */
+  private limit: number;
+  private frame = 0;
+
+  constructor(
+    private readonly host: ReactiveControllerHost,
+    private readonly step = ROWS_PER_FRAME,
+  ) {
+    this.limit = step;
+    host.addController(this);
+  }
+
+  /** The rows to draw in this update; when some are held back, the next frame draws more. */
+  take<T>(rows: readonly T[]): readonly T[] {
+    if (rows.length <= this.limit) return rows;
+    if (this.frame === 0) {
+      this.frame = requestAnimationFrame(() => {
+        this.frame = 0;
+        this.limit += this.step;
+        this.host.requestUpdate();
+      });
+    }
+    return rows.slice(0, this.limit);
+  }
+
+  /** Makes sure row `index` is drawn in the next update (the keyboard moved there, say). */
+  reach(index: number): void {
+    if (index < this.limit) return;
+    this.limit = index + this.step;
+    this.host.requestUpdate();
+  }
+
+  hostDisconnected(): void {
+    if (this.frame !== 0) cancelAnimationFrame(this.frame);
+    this.frame = 0;
+  }
+}

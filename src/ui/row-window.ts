@@ -1,0 +1,104 @@
+// The rows of a long grid that are drawn: those in view in its scrolling frame and a few either side, with spacers
+// standing for the rest, so a family of hundreds of variants costs the page as little as one of thirty (the bench's
+// ui_* figures measure it). Grids of fewer than WINDOW_FROM rows draw every row, as before.
+import type { ReactiveController, ReactiveControllerHost } from 'lit';
+
+/** Grids with at least this many rows draw only the rows in view. */
+export const WINDOW_FROM = 60;
+/** Rows drawn beyond each edge of the view, so a short scroll or a key press never shows a blank. */
+const OVERSCAN = 15;
+/** A row's height before one has been measured, in CSS pixels. */
+const ROW_GUESS = 28;
+
+export interface RowSlice {
+  from: number;
+  to: number;
+  /** Heights of the spacers standing for the rows above and below, in CSS pixels. */
+  before: number;
+  after: number;
+}
+
+export class RowWindow implements ReactiveController {
+  private first = 0;
+  private count = 2 * OVERSCAN + 30;
+  private rowHeight = ROW_GUESS;
+  private measured = false;
+  private total = 0;
+  private frame = 0;
+  private listening: HTMLElement | undefined;
+
+  constructor(
+    private readonly host: ReactiveControllerHost,
+    /** The scrolling frame around the table, once drawn. */
+    private readonly scroller: () => HTMLElement | null,
+  ) {
+    host.addController(this);
+  }
+
+  /** The rows to draw out of `total`. */
+  slice(total: number): RowSlice {
+    this.total = total;
+    if (total < WINDOW_FROM) return { from: 0, to: total, before: 0, after: 0 };
+    const from = Math.max(0, Math.min(this.first, total - 1));
+    const to = Math.min(total, from + this.count);
+    return { from, to, before: from * this.rowHeight, after: (total - to) * this.rowHeight };
+  }
+
+  /** Scrolls the frame so row `index` shows (when the grid draws only the rows in view); the next update draws it. */
+  reach(index: number): void {
+    const el = this.scroller();
+    if (!el || this.total < WINDOW_FROM || index < 0) return;
+    const head = el.querySelector('thead')?.getBoundingClientRect().height ?? 0;
+    const top = index * this.rowHeight;
+    const view = el.clientHeight - head;
+    if (top < el.scrollTop) el.scrollTop = top;
+    else if (top + this.rowHeight > el.scrollTop + view) el.scrollTop = top + this.rowHeight - view;
+    this.follow(el);
+  }
+
+  hostUpdated(): void {
+    const el = this.scroller();
+    if (!el) return;
+    if (this.listening !== el) {
+      this.listening?.removeEventListener('scroll', this.onScroll);
+      el.addEventListener('scroll', this.onScroll, { passive: true });
+      this.listening = el;
+    }
+    if (!this.measured && this.total >= WINDOW_FROM) {
+      const row = el.querySelector('tbody tr[aria-rowindex]');
+      const h = row?.getBoundingClientRect().height ?? 0;
+      if (h > 0) {
+        this.measured = true;
+        if (Math.abs(h - this.rowHeight) > 0.5) {
+          this.rowHeight = h;
+          this.follow(el);
+        }
+      }
+    }
+  }
+
+  hostDisconnected(): void {
+    this.listening?.removeEventListener('scroll', this.onScroll);
+    this.listening = undefined;
+    if (this.frame !== 0) cancelAnimationFrame(this.frame);
+    this.frame = 0;
+  }
+
+  private readonly onScroll = (): void => {
+    if (this.frame !== 0) return;
+    this.frame = requestAnimationFrame(() => {
+      this.frame = 0;
+      if (this.listening) this.follow(this.listening);
+    });
+  };
+
+  /** Works out the rows in view from the frame's scroll position; draws again when they moved. */
+  private follow(el: HTMLElement): void {
+    const first = Math.max(0, Math.floor(el.scrollTop / this.rowHeight) - OVERSCAN);
+    const count = Math.ceil(el.clientHeight / this.rowHeight) + 2 * OVERSCAN;
+    if (first === this.first && count === this.count) return;
+    this.first = first;
+    this.count = count;
+    this.host.requestUpdate();
+  }
+}
