@@ -1,6 +1,6 @@
 // The Book: every record kind a user keeps, as plain serialisable data. Its shape is the schema (schema.ts); this
 // file re-exports the types and keeps the small helpers that make and name records.
-import { BOOK_FORMAT, BOOK_VERSION } from './schema.ts';
+import { BOOK_FORMAT, BOOK_VERSION, COLLECTION_KEYS } from './schema.ts';
 import type { Book, Settings } from './schema.ts';
 
 export { BOOK_FORMAT, BOOK_VERSION, CHECK_RULE_KINDS, COST_CATEGORIES, INCOTERMS, PART_KINDS, PRICE_BASES } from './schema.ts';
@@ -43,21 +43,8 @@ export interface RecordBase {
   rev: number;
 }
 
-/** Record collections of a Book, by their key in the Book and store name in IndexedDB. */
-export const COLLECTIONS = [
-  'parts',
-  'suppliers',
-  'quotes',
-  'variants',
-  'buildLines',
-  'checks',
-  'runs',
-  'importBatches',
-  'pages',
-  'orders',
-  'stockMoves',
-  'priceLists',
-] as const;
+/** Record collections of a Book, by their key in the Book and store name in IndexedDB (the schema's list, in file order). */
+export const COLLECTIONS = COLLECTION_KEYS;
 export type CollectionName = (typeof COLLECTIONS)[number];
 
 export type CollectionRecord<C extends CollectionName> = Book[C][number];

@@ -940,8 +940,8 @@ function crossRecordProblemsOf(output: unknown): SchemaProblem[] {
   }
 }
 
-/** Collections of a Book, in file order. */
-const COLLECTION_KEYS = [
+/** Collections of a Book, in file order (book.ts gives them as COLLECTIONS). */
+export const COLLECTION_KEYS = [
   'parts',
   'suppliers',
   'quotes',
