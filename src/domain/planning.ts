@@ -8,7 +8,7 @@
 // stock on hand first, then open orders due by the need date; what is left is the net need.
 import type { Book, Order, Run } from './book.ts';
 import type { BookChange } from './book-ops.ts';
-import { candidateQuotes, chooseQuote, toCents, variantDemands } from './costing.ts';
+import { attritionFor, candidateQuotes, ceilNeed, chooseQuote, toCents, variantDemands } from './costing.ts';
 import type { CostingContext, CostProblem, ResolvedLine } from './costing.ts';
 import { daysAfter, daysBefore } from './dates.ts';
 import { isOpen, outstanding, placeOrder } from './orders.ts';
@@ -177,7 +177,7 @@ export function planRuns(book: Book, ctx: CostingContext, lines: RunLines, optio
       rp.problems.push({ message: `the run's variant ${run.variantId} is not in the Book` });
       continue;
     }
-    const { demands, problems } = variantDemands(ctx, lines.get(run.variantId) ?? [], run.quantity);
+    const { demands, problems } = runDemands(ctx, lines.get(run.variantId) ?? [], run.quantity);
     rp.problems.push(...problems);
     for (const d of demands) {
       rp.needs.set(d.partId, (rp.needs.get(d.partId) ?? 0) + d.need);
@@ -286,7 +286,7 @@ export function planRuns(book: Book, ctx: CostingContext, lines: RunLines, optio
     }
     parts.push(pp);
   }
-  parts.sort((a, b) => a.mpn.localeCompare(b.mpn) || (a.partId < b.partId ? -1 : 1));
+  parts.sort((a, b) => BY_TEXT.compare(a.mpn, b.mpn) || (a.partId < b.partId ? -1 : 1));
 
   // The part that limits each run: the one in last.
   const mpnOf = (id: string): string => ctx.parts.get(id)?.mpn ?? id;
@@ -307,6 +307,44 @@ export function planRuns(book: Book, ctx: CostingContext, lines: RunLines, optio
   return { ok: true, value: { today, horizonEnd, runs, parts, suggestions: suggestionsFrom([...lineFor.values()], today) } };
 }
 
+/** One collator for the plan's lists: far cheaper than a localeCompare per comparison. */
+const BY_TEXT = new Intl.Collator('en');
+
+/**
+ * A run's need per part (and pinned supplier) by the costing's rule (variantDemands: a part's lines summed
+ * unrounded, each with its attrition, then rounded up once), without the designators and line order a costed BOM
+ * shows: planning many runs needs only the quantities.
+ */
+export function runDemands(
+  ctx: CostingContext,
+  lines: readonly ResolvedLine[],
+  run: number,
+): { demands: { partId: string; pinnedSupplierId: string | undefined; need: number }[]; problems: CostProblem[] } {
+  let simple = true;
+  for (const r of lines) {
+    if (r.error !== undefined || (r.applies && !(Number.isFinite(r.qtyPerUnit) && r.qtyPerUnit >= 0)) || (r.applies && r.qtyPerUnit > 0 && (r.partId === undefined || !ctx.parts.has(r.partId)))) {
+      simple = false;
+      break;
+    }
+  }
+  // Lines with problems go through the costing's own function, which names them.
+  if (!simple) return variantDemands(ctx, lines, run);
+  const raw = new Map<string, { partId: string; pinnedSupplierId: string | undefined; x: number }>();
+  for (const r of lines) {
+    if (!r.applies || r.qtyPerUnit === 0) continue;
+    const part = ctx.parts.get(r.partId!)!;
+    const line = ctx.lines.get(r.lineId);
+    const pin = line?.pinnedSupplierId;
+    const key = pin === undefined ? part.id : `${part.id}\u0000${pin}`;
+    const x = r.qtyPerUnit * run * (1 + attritionFor(ctx, line, part));
+    const d = raw.get(key);
+    if (d) d.x += x;
+    else raw.set(key, { partId: part.id, pinnedSupplierId: pin, x });
+  }
+  const demands = [...raw.values()].map((d) => ({ partId: d.partId, pinnedSupplierId: d.pinnedSupplierId, need: ceilNeed(d.x) }));
+  return { demands, problems: [] };
+}
+
 /** Suggested lines grouped per supplier and currency; totals are sums of integer cents. */
 function suggestionsFrom(lines: SuggestedLine[], today: string): SupplierSuggestion[] {
   const by = new Map<string, SupplierSuggestion>();
@@ -319,9 +357,9 @@ function suggestionsFrom(lines: SuggestedLine[], today: string): SupplierSuggest
     }
     s.lines.push(l);
   }
-  const out = [...by.values()].sort((a, b) => a.supplier.localeCompare(b.supplier) || a.currency.localeCompare(b.currency));
+  const out = [...by.values()].sort((a, b) => BY_TEXT.compare(a.supplier, b.supplier) || BY_TEXT.compare(a.currency, b.currency));
   for (const s of out) {
-    s.lines.sort((a, b) => a.mpn.localeCompare(b.mpn));
+    s.lines.sort((a, b) => BY_TEXT.compare(a.mpn, b.mpn));
     let cents = 0;
     let base = 0;
     let lead = 0;

@@ -7,5 +7,6 @@ import { bookFileSection } from './book-file.ts';
 import { checksSection } from './checks.ts';
 import { bundleSection } from './bundle.ts';
 import { browserSection } from './browser.ts';
+import { planningSection } from './planning.ts';
 
-export const BENCH_SECTIONS: BenchSection[] = [costingSection, checksSection, importSection, bookFileSection, bundleSection, browserSection];
+export const BENCH_SECTIONS: BenchSection[] = [costingSection, planningSection, checksSection, importSection, bookFileSection, bundleSection, browserSection];

@@ -3,9 +3,13 @@
 // 0; planned order release = need date − lead time), and by hand with the steps shown.
 import { describe, expect, it } from 'vitest';
 import type { Book, Order, StockMove } from '../../src/domain/book.ts';
-import { prepareCosting } from '../../src/domain/costing.ts';
+import { prepareCosting, variantDemands } from '../../src/domain/costing.ts';
 import { checkBook } from '../../src/domain/schema.ts';
-import { acceptSuggestions, planRuns } from '../../src/domain/planning.ts';
+import { acceptSuggestions, planRuns, runDemands } from '../../src/domain/planning.ts';
+import { demoBook } from '../../src/domain/demo-book.ts';
+import { resolutionFromFamily } from '../../src/engine/costing.ts';
+import { resolveFamily } from '../../src/engine/family.ts';
+import { referenceFamily } from '../fixtures/reference-family.ts';
 import type { Plan } from '../../src/domain/planning.ts';
 import { fixedResolution } from '../fixtures/fixed-lines.ts';
 import { part, smallBook, value } from './costing-fixtures.ts';
@@ -183,6 +187,28 @@ describe('gross to net, with the lead-time offset', () => {
     const ctx = value(prepareCosting(book));
     expect(planRuns(book, ctx, fixedResolution(book), { today: '2025-13-01' })).toEqual({ ok: false, error: expect.stringMatching(/plan date/) });
     expect(planRuns(book, ctx, fixedResolution(book), { today: '2025-01-01', horizonDays: 0 })).toEqual({ ok: false, error: expect.stringMatching(/horizon/) });
+  });
+});
+
+describe('a run\'s needs for planning', () => {
+  it('are the costed BOM\'s needs (variantDemands), part by part, for the demo Book and the reference family', () => {
+    const ref = referenceFamily({ variants: 30, lines: 40 });
+    const demo = demoBook();
+    for (const [book, lines] of [
+      [ref.book, ref.resolution],
+      [demo, resolutionFromFamily(resolveFamily(demo))],
+    ] as const) {
+      const ctx = value(prepareCosting(book));
+      for (const v of book.variants) {
+        for (const run of [1, 333, 2000]) {
+          const key = (d: { partId: string; pinnedSupplierId: string | undefined; need: number }): string => `${d.partId}/${d.pinnedSupplierId ?? ''}=${d.need}`;
+          const fast = runDemands(ctx, lines.get(v.id) ?? [], run);
+          const full = variantDemands(ctx, lines.get(v.id) ?? [], run);
+          expect(fast.demands.map(key).sort()).toEqual(full.demands.map(key).sort());
+          expect(fast.problems).toEqual(full.problems);
+        }
+      }
+    }
   });
 });
 
