@@ -5,7 +5,8 @@ import { LitElement, css, html } from 'lit';
 import type { TemplateResult } from 'lit';
 import { customElement, property } from 'lit/decorators.js';
 import type { Book, Run } from '../domain/book.ts';
-import type { Result } from '../domain/costing.ts';
+import { toCents } from '../domain/costing.ts';
+import type { CostedLine, Result } from '../domain/costing.ts';
 import { todayIso } from '../domain/dates.ts';
 import { compareCostings, freezeRun, unfreezeRun } from '../domain/freeze.ts';
 import type { CostingComparison, LineChange } from '../domain/freeze.ts';
@@ -23,6 +24,22 @@ const money = (n: number): string => numberText({ n, kind: 'money' });
 const unit = (n: number): string => numberText({ n, kind: 'unit' });
 const price = (n: number): string => numberText({ n, kind: 'price' });
 const signed = (n: number, f: (x: number) => string): string => (Number.isNaN(n) ? '—' : n > 0 ? `+${f(n)}` : n < 0 ? `−${f(-n)}` : '±0');
+
+/** The parts of a line's landed cost, by name (0 where a costing frozen before landed cost has none). */
+const LANDED_PARTS = ['freight', 'duty', 'charges'] as const;
+
+/**
+ * A line's landed cost in one column, so the costed BOM fits a 1,400-pixel window: the sum, and under it each part
+ * that is not zero by name; the cell's title gives the whole sum for a pointer.
+ */
+function landedCell(l: CostedLine, cur: string): TemplateResult {
+  const parts = LANDED_PARTS.map((name) => ({ name, n: l[name] ?? 0 }));
+  const sum = parts.reduce((s, p) => s + toCents(p.n), 0) / 100;
+  const title = `${parts.map((p) => `${p.name} ${money(p.n)}`).join(' + ')} = ${money(sum)} ${cur}`;
+  return html`<td class="num landed" title=${title}>
+    ${money(sum)}${parts.filter((p) => p.n !== 0).map((p) => html`<small>${p.name} ${money(p.n)}</small>`)}
+  </td>`;
+}
 
 const REASON_WORDS = { need: '', moq: 'MOQ', pack: 'whole packs', break: 'cheaper break' } as const;
 const CHANGE_WORDS = { same: 'same', changed: '≠ changed', added: '+ added', removed: '− removed' } as const;
@@ -81,8 +98,14 @@ export class RbRunDetail extends LitElement {
       tr.removed td {
         background: var(--rb-margin-bg);
       }
-      /* The costed BOM fits a 1,400-pixel window: a part's description and a quote's code and break sit in small type
-         under the figure they belong to, instead of in columns of their own. */
+      /* The costed BOM fits a 1,400-pixel window: a part's description, a quote's code and break and the parts of the
+         landed cost sit in small type under the figure they belong to, instead of in columns of their own, and the
+         columns are set a little closer than other tables'. */
+      .bom table.records th,
+      .bom table.records td {
+        padding-left: 0.45rem;
+        padding-right: 0.45rem;
+      }
       .bom td small,
       .bom th small {
         display: block;
@@ -104,6 +127,11 @@ export class RbRunDetail extends LitElement {
       }
       .bom td.supplier {
         white-space: nowrap;
+      }
+      .bom th.landed small {
+        white-space: normal;
+        max-width: 5.5rem;
+        margin-left: auto;
       }
       .bom th:first-child,
       .bom td:first-child {
@@ -217,8 +245,9 @@ export class RbRunDetail extends LitElement {
         One row per part bought (lines of the same part together), with the designators this variant places: need
         with attrition, order quantity after MOQ, whole packs and any cheaper higher break, the quote used, and leftover
         stock. Extended amounts are in ${cur} (a quote in another currency shows its own amount under it), rounded to
-        cents per line; every total is the sum of its rows. Freight, duty and charges are the landed cost that falls to
-        us under the quote's delivery term (shown under the supplier): part of the material cost.
+        cents per line; every total is the sum of its rows. The landed column is the freight, duty and charges that fall
+        to us under the quote's delivery term (shown under the supplier), each named under the sum: part of the material
+        cost.
       </p>
       <div class="scroll bom">
         <table class="records" data-testid="run-bom">
@@ -232,9 +261,7 @@ export class RbRunDetail extends LitElement {
               <th>supplier · code</th>
               <th class="num">unit price <small>at break</small></th>
               <th class="num">extended ${cur}</th>
-              <th class="num">freight</th>
-              <th class="num">duty</th>
-              <th class="num">charges</th>
+              <th class="num landed">landed ${cur}<small>freight, duty, charges</small></th>
               <th class="num">leftover</th>
             </tr>
           </thead>
@@ -251,16 +278,14 @@ export class RbRunDetail extends LitElement {
                 <td class="num">
                   ${money(l.extendedBase)}${l.currency === cur ? '' : html`<small>${money(l.extended)} ${l.currency}</small>`}
                 </td>
-                <td class="num">${money(l.freight ?? 0)}</td>
-                <td class="num">${money(l.duty ?? 0)}</td>
-                <td class="num">${money(l.charges ?? 0)}</td>
+                ${landedCell(l, cur)}
                 <td class="num">${l.leftover}</td>
               </tr>`,
             )}
             ${bom.problems.map(
               (p) => html`<tr class="not-priced">
                 <td>${p.designators ?? ''}</td>
-                <td colspan="11">✗ not priced: ${p.message}</td>
+                <td colspan="9">✗ not priced: ${p.message}</td>
               </tr>`,
             )}
           </tbody>

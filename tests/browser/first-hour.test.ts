@@ -209,7 +209,7 @@ describe('the first hour', () => {
     const fits = await bom.evaluate((t) => ({ table: t.scrollWidth, frame: t.parentElement!.clientWidth, right: t.getBoundingClientRect().right }));
     expect(fits.table).toBeLessThanOrEqual(fits.frame + 1);
     expect(fits.right).toBeLessThanOrEqual(WIDE_VIEWPORT.width);
-    for (const heading of ['extended EUR', 'leftover']) {
+    for (const heading of ['extended EUR', 'landed EUR', 'leftover']) {
       const box = await bom.locator('thead th', { hasText: heading }).boundingBox();
       expect(box!.x + box!.width).toBeLessThanOrEqual(WIDE_VIEWPORT.width);
     }
