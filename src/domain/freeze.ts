@@ -76,6 +76,9 @@ export function validateRun(draft: RunDraft, book: Book, editing?: Run, newId?: 
     notes: draft.notes.trim(),
   };
   if (editing?.frozen) record.frozen = editing.frozen;
+  // Editing a built run keeps it built; its parts were issued on that date.
+  if (editing?.status !== undefined) record.status = editing.status;
+  if (editing?.builtDate !== undefined) record.builtDate = editing.builtDate;
   return { ok: true, record };
 }
 

@@ -1,10 +1,10 @@
 // Planning and stock counts as the app and the command line both take them: the plan of a Book (the family resolver
 // gives each variant's lines, the costing rules its needs), the plan as rows and CSV through the one CSV writer, and
 // a stock count read from CSV text (decoded as price files are, split by papaparse) into counted lines.
-import type { Book } from '../domain/book.ts';
+import type { Book, Run } from '../domain/book.ts';
 import { prepareCosting } from '../domain/costing.ts';
 import type { Result } from '../domain/costing.ts';
-import { planRuns } from '../domain/planning.ts';
+import { planRuns, runDemands } from '../domain/planning.ts';
 import type { Plan, PlanOptions } from '../domain/planning.ts';
 import { LIMITS } from '../domain/schema.ts';
 import { partByMpn } from '../domain/stock.ts';
@@ -25,6 +25,20 @@ export function planBook(book: Book, options: PlanOptions): Result<Plan> {
   const ctx = prepareCosting(book, { date: options.today });
   if (!ctx.ok) return ctx;
   return planRuns(book, ctx.value, resolutionFromFamily(resolveFamily(book)), options);
+}
+
+/** What building a run takes from stock: its need per part id, by the costing's rule. Lines that fail give an error. */
+export function runNeeds(book: Book, run: Run, today: string): Result<Map<string, number>> {
+  const ctx = prepareCosting(book, { date: today });
+  if (!ctx.ok) return ctx;
+  const variant = book.variants.find((v) => v.id === run.variantId);
+  if (!variant) return { ok: false, error: `the run's variant ${run.variantId} is not in the Book` };
+  const lines = resolveFamily({ ...book, variants: [variant] }).variants[0]?.lines ?? [];
+  const { demands, problems } = runDemands(ctx.value, lines, run.quantity);
+  if (problems.length) return { ok: false, error: `${problems[0]!.designators || problems[0]!.lineId || 'a line'}: ${problems[0]!.message}` };
+  const needs = new Map<string, number>();
+  for (const d of demands) needs.set(d.partId, (needs.get(d.partId) ?? 0) + d.need);
+  return { ok: true, value: needs };
 }
 
 export function planHeader(currency: string): string[] {

@@ -89,6 +89,27 @@ export const PAGES: readonly PageEntry[] = [
     mains: true,
   },
   {
+    slug: 'plan',
+    title: 'Plan',
+    blurb: 'Planned runs together: what each part needs by when, what stock and open orders cover, and what to order from whom.',
+    tag: 'rb-plan-page',
+    load: () => import('./rb-plan-page.ts'),
+  },
+  {
+    slug: 'orders',
+    title: 'Orders',
+    blurb: 'Orders placed with suppliers: receive them whole or in part, or cancel what is still to come.',
+    tag: 'rb-orders-page',
+    load: () => import('./rb-orders-page.ts'),
+  },
+  {
+    slug: 'stock',
+    title: 'Stock',
+    blurb: 'Parts on hand as the sum of their movements, each part’s history, counts, scrap and corrections.',
+    tag: 'rb-stock-page',
+    load: () => import('./rb-stock-page.ts'),
+  },
+  {
     slug: 'prices',
     title: 'Price lists',
     blurb: 'Customer price lists: a margin or markup and a currency each, and every variant’s price at each run size.',

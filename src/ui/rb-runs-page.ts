@@ -9,6 +9,7 @@ import type { RunDraft, RunProblems } from '../domain/freeze.ts';
 import { BookController } from './book-context.ts';
 import { field, focusFirstProblem, nothingSaved, rowActions, saveRefusal } from './form-fields.ts';
 import './rb-run-detail.ts';
+import { runUsers } from './record-forms.ts';
 import { sortRuns } from './run-order.ts';
 import { pageStyles } from './styles.ts';
 
@@ -194,6 +195,11 @@ export class RbRunsPage extends LitElement {
   };
 
   private askDelete(r: Run): void {
+    const users = this.books.book ? runUsers(this.books.book, r.id) : undefined;
+    if (users) {
+      this.rowProblem = { id: r.id, message: users };
+      return;
+    }
     this.rowProblem = undefined;
     this.confirmDelete = r.id;
   }

@@ -489,9 +489,13 @@ export function validateVariant(draft: VariantDraft, book: Book, editing?: Varia
 export function partUsers(book: Book, partId: string): string | undefined {
   const quotes = book.quotes.filter((q) => q.partId === partId).length;
   const lines = book.buildLines.filter((l) => l.partId === partId).length;
+  const moves = book.stockMoves.filter((m) => m.partId === partId).length;
+  const orders = book.orders.filter((o) => o.lines.some((l) => l.partId === partId)).length;
   return usersText([
     [quotes, 'quote'],
     [lines, 'build line'],
+    [moves, 'stock movement'],
+    [orders, 'order'],
   ]);
 }
 
@@ -499,15 +503,22 @@ export function supplierUsers(book: Book, supplierId: string): string | undefine
   const quotes = book.quotes.filter((q) => q.supplierId === supplierId).length;
   const lines = book.buildLines.filter((l) => l.pinnedSupplierId === supplierId).length;
   const batches = book.importBatches.filter((b) => b.supplierId === supplierId).length;
+  const orders = book.orders.filter((o) => o.supplierId === supplierId).length;
   return usersText([
     [quotes, 'quote'],
     [lines, 'build line pinned to it'],
     [batches, 'import batch'],
+    [orders, 'order'],
   ]);
 }
 
 export function variantUsers(book: Book, variantId: string): string | undefined {
   return usersText([[book.runs.filter((r) => r.variantId === variantId).length, 'run']]);
+}
+
+/** A run whose parts were issued keeps its movements: deleting it would leave them pointing at nothing. */
+export function runUsers(book: Book, runId: string): string | undefined {
+  return usersText([[book.stockMoves.filter((m) => m.runId === runId).length, 'stock movement']]);
 }
 
 function usersText(counts: [number, string][]): string | undefined {

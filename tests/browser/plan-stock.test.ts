@@ -1,0 +1,98 @@
+// A season's buying in real Chromium on the demo Book: plan its two runs, place the suggested orders, receive them
+// (one line in part), mark the first run built, and see the stock and the next plan follow.
+import { afterEach, describe, expect, inject, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { AppUnderTest } from './harness.ts';
+
+const baseUrl = inject('baseUrl');
+const app = new AppUnderTest(baseUrl);
+afterEach(() => app.close());
+
+/** Both demo runs (wanted 2027-03-15 and 2027-05-03) fall within 150 days of this plan date. */
+const PLAN_DATE = '2027-01-04';
+
+async function planAt(page: Page, date: string): Promise<void> {
+  await page.locator('input[name="plan-date"]').fill(date);
+  await page.locator('input[name="horizon"]').fill('150');
+  await page.locator('input[name="horizon"]').dispatchEvent('change');
+  await page.locator('[data-testid="plan-runs"]').waitFor();
+}
+
+const count = (text: string): number => Number(text.replace(/[^\d-]/g, ''));
+
+describe('planning, orders and stock in the browser', () => {
+  it('plans two runs, places the orders, receives one line in part, builds a run, and the stock and next plan follow', async () => {
+    const { page, errors } = await app.open('#/plan');
+    await page.locator('input[name="plan-date"]').waitFor();
+    await planAt(page, PLAN_DATE);
+    const runRows = page.locator('[data-testid="plan-runs"] tbody tr');
+    await expect.poll(() => runRows.count()).toBe(2);
+    const firstRun = (await runRows.first().locator('td').first().textContent())!.trim();
+
+    // A part both runs need: it will be received one short.
+    const shared = page.locator('[data-testid="plan-parts"] tbody tr[data-runs="2"]').first();
+    const mpn = (await shared.locator('td').first().textContent())!.trim();
+    const neededBy = (await shared.locator('td').nth(1).textContent())!;
+    const firstNeed = count(new RegExp(`${firstRun.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')} \\(([\\d,]+) by`).exec(neededBy)![1]!);
+    expect(firstNeed).toBeGreaterThan(0);
+
+    // Place every suggested order in one step.
+    const suggestions = await page.locator('[data-testid="suggestion"]').count();
+    expect(suggestions).toBeGreaterThan(0);
+    await page.getByRole('button', { name: `Place all ${suggestions} orders` }).click();
+    await page.locator('[data-testid="no-suggestions"]').waitFor();
+
+    // Receive every order in full, except the shared part's line: one short.
+    await page.goto(`${baseUrl}#/orders`);
+    await page.locator('[data-testid="orders-table"]').waitFor();
+    await page.locator('input[name="receive-date"]').fill('2027-02-01');
+    const numbers = await page.locator('[data-testid="orders-table"] tbody tr').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-order')!));
+    expect(numbers).toHaveLength(suggestions);
+    let ordered = 0;
+    for (const n of numbers) {
+      await page.locator(`[data-testid="orders-table"] tr[data-order="${n}"] button`).click();
+      const detail = page.locator(`[data-testid="order-detail"][data-order="${n}"]`);
+      await detail.waitFor();
+      const line = detail.locator(`tr[data-mpn="${mpn}"]`);
+      if ((await line.count()) === 0) {
+        await detail.getByRole('button', { name: 'Receive all' }).click();
+        await detail.locator('h3', { hasText: '✓ received' }).waitFor();
+        continue;
+      }
+      ordered = count((await line.locator('td').nth(2).textContent())!);
+      const lines = await detail.locator('tbody tr').count();
+      for (let i = 0; i < lines; i++) {
+        const row = detail.locator('tbody tr').nth(i);
+        const q = count((await row.locator('td').nth(2).textContent())!);
+        const isShared = (await row.getAttribute('data-mpn')) === mpn;
+        await row.locator('input.qty').fill(String(isShared ? q - 1 : q));
+      }
+      await detail.getByRole('button', { name: 'Receive the quantities typed' }).click();
+      await detail.locator('h3', { hasText: '◆ part-received' }).waitFor();
+    }
+    expect(ordered).toBeGreaterThan(firstNeed);
+
+    // Stock: the shared part is one short of what was ordered.
+    await page.goto(`${baseUrl}#/stock`);
+    const stockCell = page.locator(`[data-testid="stock-table"] tr[data-mpn="${mpn}"] [data-testid="on-hand"]`);
+    await expect.poll(async () => count((await stockCell.textContent()) ?? '')).toBe(ordered - 1);
+
+    // Build the first run: its parts leave stock, and it leaves the plan.
+    await page.goto(`${baseUrl}#/plan`);
+    await planAt(page, '2027-02-10');
+    await page.locator(`[data-testid="plan-runs"] tbody tr`, { hasText: firstRun }).getByRole('button', { name: 'Mark built' }).click();
+    await page.getByText(`${firstRun} is built on 2027-02-10`).waitFor();
+    await expect.poll(() => runRows.count()).toBe(1);
+    await expect.poll(async () => (await page.locator('[data-testid="built-runs"]').textContent()) ?? '').toContain(firstRun);
+    // The one part still to come is on order in time: the next plan orders nothing.
+    await page.locator('[data-testid="no-suggestions"]').waitFor();
+
+    await page.goto(`${baseUrl}#/stock`);
+    await expect.poll(async () => count((await stockCell.textContent()) ?? '')).toBe(ordered - 1 - firstNeed);
+    await page.locator(`[data-testid="stock-table"] tr[data-mpn="${mpn}"]`).getByRole('button', { name: 'History' }).click();
+    const history = page.locator('[data-testid="stock-history"] tbody tr');
+    await expect.poll(() => history.count()).toBe(2);
+    await expect.poll(async () => (await history.nth(1).textContent()) ?? '').toContain(`run ${firstRun}`);
+    expect(errors).toEqual([]);
+  }, 180_000);
+});
