@@ -7,18 +7,48 @@ import { applyBookDelta } from '../domain/book-ops.ts';
 import type { BookDelta } from '../domain/book-ops.ts';
 import { LiveFigures, splitUpdate } from './figures.ts';
 import type { FiguresUpdate } from './figures.ts';
+import { WhatIfCosts } from './what-if.ts';
+import type { WhatIf, WhatIfAnswer, WhatIfWant } from './what-if.ts';
 
-export type FiguresRequest = { type: 'book'; seq: number; book: Book } | { type: 'delta'; seq: number; delta: BookDelta };
+/** What the Compare page asks: the chosen variants' figures with what-if edits tried on them. */
+export interface WhatIfRequest {
+  chosen: string[];
+  whatIf: WhatIf;
+  wants: WhatIfWant[];
+}
+
+export type FiguresRequest =
+  | { type: 'book'; seq: number; book: Book }
+  | { type: 'delta'; seq: number; delta: BookDelta }
+  | ({ type: 'whatif'; id: number } & WhatIfRequest);
 
 /** One part of an answer (see splitUpdate): `last` says the figures of the Book sent are complete. */
-export type FiguresMessage = { type: 'figures'; seq: number; update: FiguresUpdate; last: boolean } | { type: 'failed'; seq: number; message: string };
+export type FiguresMessage =
+  | { type: 'figures'; seq: number; update: FiguresUpdate; last: boolean }
+  | { type: 'failed'; seq: number; message: string }
+  | { type: 'whatif'; id: number; answer: WhatIfAnswer };
 
 /** The worker's whole job, as an object so Node tests run exactly what the worker runs. */
 export class FiguresHost {
   private readonly live = new LiveFigures();
+  private readonly whatIfs = new WhatIfCosts();
+
+  /** The Compare page's figures, from the Book as the worker holds it now. */
+  whatIf(request: WhatIfRequest): WhatIfAnswer {
+    const none = (problem: string): WhatIfAnswer => ({ refused: [], figures: request.wants.map((w) => ({ variantId: w.variantId, run: w.run, value: NaN, problem })) });
+    const book = this.live.current;
+    if (!book) return none('the figures are being worked out');
+    try {
+      return this.whatIfs.answer(book, this.live.linesOf(request.chosen), request.chosen, request.whatIf, request.wants);
+    } catch (e) {
+      this.whatIfs.close();
+      return none(`the what-if figures could not be worked out: ${e instanceof Error ? e.message : String(e)}`);
+    }
+  }
 
   /** The answer to one request, in parts that are each quick for the page to take. */
   handle(request: FiguresRequest): FiguresMessage[] {
+    if (request?.type === 'whatif') return [{ type: 'whatif', id: request.id, answer: this.whatIf(request) }];
     const seq = request?.seq ?? -1;
     const answer = (update: FiguresUpdate): FiguresMessage[] => {
       const parts = splitUpdate(update);

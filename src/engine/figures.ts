@@ -10,7 +10,7 @@
 import type { Book, CollectionName, Quote, Settings, Variant } from '../domain/book.ts';
 import { worstOf } from '../domain/check-status.ts';
 import type { CheckStatus } from '../domain/check-status.ts';
-import type { Result } from '../domain/costing.ts';
+import type { ResolvedLine, Result } from '../domain/costing.ts';
 import { CostingWorkbook, resolutionFromFamily } from './costing.ts';
 import type { ChangedCost } from './costing.ts';
 import { FamilyWorkbook } from './family.ts';
@@ -135,6 +135,14 @@ export class LiveFigures {
   scratch(options: { date?: string } = {}): Result<CostingWorkbook> {
     if (!this.book || !this.family) return { ok: false, error: this.costingError ?? 'the build lines could not be resolved' };
     return CostingWorkbook.open(this.book, resolutionFromFamily(this.family.resolve()), options);
+  }
+
+  /** The resolved build lines of some variants, as the family workbook has them now. */
+  linesOf(ids: readonly string[]): Map<string, ResolvedLine[]> {
+    const wanted = new Set(ids);
+    const out = new Map<string, ResolvedLine[]>();
+    for (const v of this.family?.resolve().variants ?? []) if (wanted.has(v.variantId)) out.set(v.variantId, v.lines);
+    return out;
   }
 
   /** Frees both workbooks; the next update builds them again. */

@@ -1,14 +1,14 @@
 // Costing figures the Compare and Rates pages draw, pure (no DOM, no Lit, so Node runs them too): cost split by
 // category, the build lines that make two variants differ, run sizes for curves, what-if edits applied to a scratch
 // workbook and the Book change that keeps them, and cost settings drafts with their checks.
-import type { Book, CostCategory, CurrencyCode, Quote, Settings } from '../domain/book.ts';
+import type { Book, CostCategory, Quote, Settings } from '../domain/book.ts';
 import { COST_CATEGORIES, PART_KINDS } from '../domain/book.ts';
 import type { BookChange } from '../domain/book-ops.ts';
 import { perUnitFromCents, toCents, toTenThousandths } from '../domain/costing.ts';
 import type { CostedBom, ResolvedLine, Result } from '../domain/costing.ts';
 import { isIsoDate } from '../domain/dates.ts';
 import { isCurrencyCode } from '../domain/schema.ts';
-import type { CostingWorkbook } from '../engine/costing.ts';
+import type { WhatIf } from '../engine/what-if.ts';
 import type { FamilyResolution } from '../engine/family.ts';
 import type { FieldProblems, FormResult } from './record-forms.ts';
 
@@ -144,45 +144,11 @@ export const COST_SETTINGS = [
 ] as const;
 export type CostSettingName = (typeof COST_SETTINGS)[number]['name'];
 
-/** Edits tried on the Compare page without saving; each holds its latest value. */
-export interface WhatIf {
-  /** `${quoteId}#${breakIndex}` → price in the quote's currency. */
-  prices: Map<string, number>;
-  rates: Map<CurrencyCode, number>;
-  settings: Map<CostSettingName, number>;
-  /** Run sizes compared instead of the Book's; undefined = the Book's. */
-  runSizes: number[] | undefined;
-}
-
-export function emptyWhatIf(): WhatIf {
-  return { prices: new Map(), rates: new Map(), settings: new Map(), runSizes: undefined };
-}
+export { emptyWhatIf } from '../engine/what-if.ts';
+export type { WhatIf } from '../engine/what-if.ts';
 
 export function whatIfCount(w: WhatIf): number {
   return w.prices.size + w.rates.size + w.settings.size + (w.runSizes ? 1 : 0);
-}
-
-/**
- * Applies every what-if edit to a workbook (the setters hold the latest value, so applying twice is harmless).
- * `holds` says which quotes the workbook was opened with; price edits of other quotes are left for later.
- */
-export function applyWhatIf(wb: CostingWorkbook, w: WhatIf, holds: (quoteId: string) => boolean = () => true): string[] {
-  const errors: string[] = [];
-  for (const [key, price] of w.prices) {
-    const [quoteId, at] = key.split('#');
-    if (!holds(quoteId!)) continue;
-    const r = wb.setQuotePrice(quoteId!, Number(at), price);
-    if (!r.ok) errors.push(r.error);
-  }
-  for (const [c, rate] of w.rates) {
-    const r = wb.setRate(c, rate);
-    if (!r.ok) errors.push(r.error);
-  }
-  for (const [name, value] of w.settings) {
-    const r = wb.setCostSetting(name, value);
-    if (!r.ok) errors.push(r.error);
-  }
-  return errors;
 }
 
 /** The Book change that keeps the what-if edits: changed quotes at the revision they were read, and the settings. */

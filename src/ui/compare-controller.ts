@@ -1,25 +1,34 @@
-// The work behind the Compare page: a private scratch costing workbook of the chosen variants, the what-if edits
-// tried on it (with the text typed for each while it differs from the figure in use), the figures every view reads
-// from it, and keeping the edits in the Book or discarding them. The scratch holds only the chosen variants and the
-// quotes of the parts they buy, so it opens in a moment on the page's thread however large the family; what each
-// variant is built from comes from the live figures (worked out in the figures worker).
+// The work behind the Compare page: the chosen variants' figures with what-if edits tried on them (worked out by the
+// figures worker on a private workbook of those variants, so neither switching to the page nor an edit holds up the
+// page's thread), the text typed for each edit while it differs from the figure in use, and keeping the edits in
+// the Book or discarding them. Views ask for figures as they draw; figures not held yet are asked of the worker
+// together after the draw, and the previous figures show meanwhile. The host gets `data-figures="ready"` once every
+// figure its views asked for is held.
 import type { ReactiveController, ReactiveControllerHost } from 'lit';
 import type { Book, Quote, Variant } from '../domain/book.ts';
 import type { CheckStatus } from '../domain/check-status.ts';
 import type { CostedBom, Result } from '../domain/costing.ts';
-import { CostingWorkbook } from '../engine/costing.ts';
 import type { FamilyResolution } from '../engine/family.ts';
+import type { WhatIfFigure, WhatIfWant } from '../engine/what-if.ts';
 import type { BookController } from './book-context.ts';
-import { applyWhatIf, emptyWhatIf, keepWhatIf, readRunSizes, whatIfCount } from './build-costing.ts';
+import { emptyWhatIf, keepWhatIf, readRunSizes, whatIfCount } from './build-costing.ts';
 import type { WhatIf } from './build-costing.ts';
 import { CostingService } from './costing-service.ts';
 import type { FieldProblems } from './record-forms.ts';
 
-/** Why the scratch is not open yet: what each variant is built from is still being worked out. */
+/** Why a figure is not shown yet. */
 const WORKING = 'being worked out';
 
 /** A figure, or NaN with why it cannot be had. */
 export type Figure = { value: number; problem?: string };
+
+/** A what-if set as a key: the same edits give the same key. */
+function whatIfKey(w: WhatIf): string {
+  const sorted = (m: Map<string, number>) => [...m].sort((a, b) => (a[0] < b[0] ? -1 : 1));
+  return JSON.stringify([sorted(w.prices), sorted(w.rates), sorted(w.settings)]);
+}
+
+const figureKey = (variantId: string, run: number): string => `${variantId}\u0000${run}`;
 
 export class CompareController implements ReactiveController {
   whatIf: WhatIf = emptyWhatIf();
@@ -30,12 +39,15 @@ export class CompareController implements ReactiveController {
   /** Moves on every change of a figure, so views given this controller know to draw again. */
   revision = 0;
 
-  private scratch: Result<CostingWorkbook> | undefined;
-  private scratchBook: Book | undefined;
-  /** The chosen variants and the live figures' version the scratch was opened with. */
-  private scratchKey = '';
-  /** Quotes the scratch holds (what-if prices of other quotes cannot move the chosen variants). */
-  private scratchQuotes = new Set<string>();
+  /** Figures held for the Book, chosen variants and what-if edits of `key`; the previous set shows meanwhile. */
+  private figures = new Map<string, WhatIfFigure>();
+  private stale = new Map<string, WhatIfFigure>();
+  private key = '';
+  private chosen: string[] = [];
+  /** Figures asked for in this draw and not held; asked of the worker together after the draw. */
+  private wants = new Map<string, WhatIfWant>();
+  private asking = false;
+  private frame = 0;
 
   constructor(
     private readonly host: ReactiveControllerHost,
@@ -45,52 +57,92 @@ export class CompareController implements ReactiveController {
   }
 
   hostDisconnected(): void {
-    this.closeScratch();
+    if (this.frame !== 0) cancelAnimationFrame(this.frame);
+    this.frame = 0;
   }
 
-  /** Opens the scratch workbook again when the Book, the chosen variants or the live figures have changed. */
+  hostUpdated(): void {
+    // Once this draw (and the views' draws it started) is done: ask for what was missing, or say all is shown.
+    if (this.frame === 0) this.frame = requestAnimationFrame(() => this.afterDraw());
+  }
+
+  /** Starts a new set of figures when the Book's figures, the chosen variants or the what-if edits have changed. */
   sync(book: Book, chosen: readonly string[]): void {
+    void book;
     const costing = CostingService.for(this.books.service!);
     costing.sync();
-    const key = `${costing.version}\u0000${chosen.join('\u0001')}`;
-    if (book !== this.scratchBook || key !== this.scratchKey) this.openScratch(book, chosen, key);
+    const key = `${costing.version}\u0000${chosen.join('\u0001')}\u0000${whatIfKey(this.whatIf)}`;
+    if (key === this.key) return;
+    if (this.figures.size > 0) this.stale = this.figures;
+    this.figures = new Map();
+    this.wants = new Map();
+    this.key = key;
+    this.chosen = [...chosen];
   }
 
-  private closeScratch(): void {
-    if (this.scratch?.ok) this.scratch.value.close();
-    this.scratch = undefined;
-    this.scratchBook = undefined;
-    this.scratchKey = '';
-  }
-
-  /** A private workbook of the chosen variants as the Book has them now, with the what-if edits tried on it again. */
-  private openScratch(book: Book, chosen: readonly string[], key: string): void {
-    const costing = CostingService.for(this.books.service!);
-    this.closeScratch();
-    this.scratchBook = book;
-    this.scratchKey = key;
-    this.revision++;
-    if (costing.pending) {
-      this.scratch = { ok: false, error: WORKING };
-      return;
-    }
-    const lines = new Map(costing.resolution().variants.map((v) => [v.variantId, v.lines] as const));
-    const ids = new Set(chosen);
-    const variants = book.variants.filter((v) => ids.has(v.id) && lines.has(v.id));
-    const parts = new Set<string>();
-    for (const v of variants) for (const l of lines.get(v.id)!) if (l.partId !== undefined) parts.add(l.partId);
-    const quotes = book.quotes.filter((q) => parts.has(q.partId));
-    this.scratchQuotes = new Set(quotes.map((q) => q.id));
-    this.scratch = CostingWorkbook.open({ ...book, variants, quotes }, new Map(variants.map((v) => [v.id, lines.get(v.id)!] as const)));
-    if (this.scratch.ok) {
-      const errors = applyWhatIf(this.scratch.value, this.whatIf, (quoteId) => this.scratchQuotes.has(quoteId));
-      if (errors.length > 0) this.keepError = `Some what-if edits no longer fit the Book and were not applied: ${errors.join('; ')}`;
-    }
-  }
-
-  /** True while the live figures the scratch is opened from are still being worked out. */
+  /** True while no figure at all can be shown yet. */
   get working(): boolean {
-    return this.scratch?.ok === false && this.scratch.error === WORKING;
+    return this.figures.size === 0 && this.stale.size === 0 && (this.asking || this.wants.size > 0);
+  }
+
+  /** A figure held for now, the previous one meanwhile, or being worked out (and asked for). */
+  private figure(variantId: string, run: number, bom: boolean): WhatIfFigure {
+    const k = figureKey(variantId, run);
+    const held = this.figures.get(k);
+    if (held && (!bom || held.bom)) return held;
+    const want = this.wants.get(k);
+    this.wants.set(k, { variantId, run, bom: bom || (want?.bom ?? false) });
+    // A view may draw on its own (its run size changed): ask after that draw too.
+    if (this.frame === 0) this.frame = requestAnimationFrame(() => this.afterDraw());
+    const old = this.stale.get(k);
+    if (old && (!bom || old.bom)) return old;
+    return { variantId, run, value: NaN, problem: WORKING };
+  }
+
+  private afterDraw(): void {
+    this.frame = 0;
+    const host = this.host as unknown as HTMLElement;
+    const ready = this.wants.size === 0 && !this.asking && !CostingService.for(this.books.service!).pending;
+    if (ready) host.setAttribute?.('data-figures', 'ready');
+    else host.removeAttribute?.('data-figures');
+    if (this.wants.size > 0 && !this.asking) void this.ask();
+  }
+
+  /** Asks the worker for the figures wanted; draws again when they arrive. */
+  private async ask(): Promise<void> {
+    const key = this.key;
+    const wants = [...this.wants.values()];
+    this.wants = new Map();
+    this.asking = true;
+    try {
+      const answer = await CostingService.for(this.books.service!).whatIf({ chosen: this.chosen, whatIf: this.whatIf, wants });
+      if (key !== this.key) return;
+      for (const f of answer.figures) this.figures.set(figureKey(f.variantId, f.run), f);
+      if (answer.refused.length > 0) this.refuse(answer.refused);
+      // Held in full: the previous figures are not needed any more.
+      this.stale = new Map();
+    } catch (e) {
+      if (key !== this.key) return;
+      const problem = e instanceof Error ? e.message : String(e);
+      for (const w of wants) this.figures.set(figureKey(w.variantId, w.run), { variantId: w.variantId, run: w.run, value: NaN, problem, bom: { ok: false, error: problem } });
+    } finally {
+      this.asking = false;
+      this.changed();
+    }
+  }
+
+  /** Edits the workbook refused: shown beside their fields and taken out of the what-if edits. */
+  private refuse(refused: readonly { field: string; error: string }[]): void {
+    const problems = { ...this.wiProblems };
+    const w: WhatIf = { prices: new Map(this.whatIf.prices), rates: new Map(this.whatIf.rates), settings: new Map(this.whatIf.settings), runSizes: this.whatIf.runSizes };
+    for (const { field, error } of refused) {
+      problems[field] = error;
+      if (field.startsWith('price:')) w.prices.delete(field.slice('price:'.length));
+      else if (field.startsWith('rate:')) w.rates.delete(field.slice('rate:'.length));
+      else w.settings.delete(field as never);
+    }
+    this.wiProblems = problems;
+    this.whatIf = w;
   }
 
   runSizes(book: Book): number[] {
@@ -106,42 +158,22 @@ export class CompareController implements ReactiveController {
     return CostingService.for(this.books.service!).resolution();
   }
 
-  /** A variant's unit cost at a run size from the scratch workbook (a cell for the Book's run sizes). */
+  /** A variant's unit cost at a run size, with the what-if edits. */
   unitCost(variantId: string, run: number): Figure {
-    const wb = this.scratch;
-    if (!wb) return { value: NaN, problem: 'costs are not available' };
-    if (!wb.ok) return { value: NaN, problem: wb.error };
-    if (wb.value.runSizes.includes(run)) {
-      const value = wb.value.unitCost(variantId, run);
-      const f: Figure = { value };
-      if (!Number.isFinite(value)) f.problem = wb.value.problem(variantId, 'unitCost', run) ?? 'cannot be computed';
-      return f;
-    }
-    const bom = this.bom(variantId, run);
-    if (!bom.ok) return { value: NaN, problem: bom.error };
-    return { value: bom.value.unitCost };
+    const f = this.figure(variantId, run, false);
+    return f.problem === undefined ? { value: f.value } : { value: f.value, problem: f.problem };
   }
 
   /** The costed BOM, or why it is incomplete (a cost that leaves lines out is not a cost). */
   bom(variantId: string, run: number): Result<CostedBom> {
-    const wb = this.scratch;
-    if (!wb) return { ok: false, error: 'costs are not available' };
-    if (!wb.ok) return wb;
-    const r = wb.value.costedBom(variantId, run);
-    if (r.ok && !r.value.complete) {
-      const p = r.value.problems[0]!;
-      return { ok: false, error: `${p.designators || p.lineId || ''}: ${p.message}` };
-    }
-    return r;
+    return this.figure(variantId, run, true).bom ?? { ok: false, error: WORKING };
   }
 
-  /** Quotes of the parts the chosen variants buy at a run size, by part. */
-  quotesInUse(book: Book, chosen: Variant[], run: number): Quote[] {
+  /** Quotes of the parts the chosen variants buy, by part. */
+  quotesInUse(book: Book, chosen: Variant[]): Quote[] {
+    const lines = new Map(this.family.variants.map((v) => [v.variantId, v.lines] as const));
     const parts = new Set<string>();
-    for (const v of chosen) {
-      const r = this.scratch?.ok ? this.scratch.value.costedBom(v.id, run) : undefined;
-      if (r?.ok) for (const l of r.value.lines) parts.add(l.partId);
-    }
+    for (const v of chosen) for (const l of lines.get(v.id) ?? []) if (l.applies && l.qtyPerUnit > 0 && l.partId !== undefined) parts.add(l.partId);
     const mpn = new Map(book.parts.map((p) => [p.id, p.mpn] as const));
     return book.quotes
       .filter((q) => parts.has(q.partId) && q.supersededBy === undefined)
@@ -164,14 +196,10 @@ export class CompareController implements ReactiveController {
   }
 
   /**
-   * Tries an edit on the scratch workbook (the engine's own setter checks it; a refused edit changes nothing) and
-   * records it as what-if, or drops it from the list when the value is the Book's own again.
+   * Records an edit as what-if, or drops it from the list when the value is the Book's own again. The worker tries it
+   * on its workbook with the engine's own setter; one it refuses is shown beside its field and taken out again.
    */
-  applyEdit(edit: (wb: CostingWorkbook) => Result<unknown>, set: (w: WhatIf) => void, drop: (w: WhatIf) => void, same: boolean): string | undefined {
-    const wb = this.scratch;
-    if (!wb?.ok) return wb ? wb.error : 'costs are not available';
-    const r = edit(wb.value);
-    if (!r.ok) return r.error;
+  applyEdit(set: (w: WhatIf) => void, drop: (w: WhatIf) => void, same: boolean): string | undefined {
     const w: WhatIf = {
       prices: new Map(this.whatIf.prices),
       rates: new Map(this.whatIf.rates),
@@ -221,8 +249,6 @@ export class CompareController implements ReactiveController {
 
   discard(): void {
     this.clear();
-    // The next draw opens the scratch again without the edits.
-    this.closeScratch();
   }
 
   private clear(): void {
@@ -234,6 +260,8 @@ export class CompareController implements ReactiveController {
   }
 
   private changed(): void {
+    // Not ready until the next draw has asked for (and been given) every figure it shows.
+    (this.host as unknown as HTMLElement).removeAttribute?.('data-figures');
     this.revision++;
     this.host.requestUpdate();
   }

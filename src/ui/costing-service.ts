@@ -14,7 +14,9 @@ import { CHECK_STATUS, worstOf } from '../domain/check-status.ts';
 import type { CheckStatus } from '../domain/check-status.ts';
 import { LiveFigures, SYNC_KINDS } from '../engine/figures.ts';
 import type { CostingChangeDetail, FiguresUpdate } from '../engine/figures.ts';
-import type { FiguresMessage, FiguresRequest } from '../engine/figures-worker.ts';
+import type { FiguresMessage, FiguresRequest, WhatIfRequest } from '../engine/figures-worker.ts';
+import { WhatIfCosts } from '../engine/what-if.ts';
+import type { WhatIfAnswer } from '../engine/what-if.ts';
 import type { CheckResult, FamilyResolution, VariantResolution } from '../engine/family.ts';
 
 export { SYNC_KINDS } from '../engine/figures.ts';
@@ -61,6 +63,10 @@ export class CostingService extends EventTarget {
   private seq = 0;
   private worker: FiguresWorkerLike | undefined;
   private local: LiveFigures | undefined;
+  private localWhatIfs: WhatIfCosts | undefined;
+  /** What-if questions sent to the worker and not yet answered, by id. */
+  private readonly asked = new Map<number, { resolve: (a: WhatIfAnswer) => void; reject: (e: Error) => void }>();
+  private nextAsk = 0;
   private readonly makeWorker: (() => FiguresWorkerLike) | undefined;
 
   private runSizesHeld: number[] = [];
@@ -169,8 +175,36 @@ export class CostingService extends EventTarget {
     return { variants, problems: variants.flatMap((v) => v.problems) };
   }
 
+  /**
+   * The Compare page's figures: the chosen variants with what-if edits tried on them, from the Book as the figures
+   * hold it (a question asked while they catch up is answered from the Book they catch up to or an earlier one;
+   * the page asks again when `version` moves).
+   */
+  whatIf(request: WhatIfRequest): Promise<WhatIfAnswer> {
+    this.sync();
+    if (!this.makeWorker) {
+      const live = this.local!;
+      this.localWhatIfs ??= new WhatIfCosts();
+      try {
+        return Promise.resolve(this.localWhatIfs.answer(live.current!, live.linesOf(request.chosen), request.chosen, request.whatIf, request.wants));
+      } catch (e) {
+        return Promise.reject(e instanceof Error ? e : new Error(String(e)));
+      }
+    }
+    const worker = this.worker;
+    if (!worker) return Promise.reject(new Error(this.costingError ?? 'the figures worker is not running'));
+    const id = ++this.nextAsk;
+    return new Promise((resolve, reject) => {
+      this.asked.set(id, { resolve, reject });
+      worker.postMessage({ type: 'whatif', id, ...request });
+    });
+  }
+
   /** Frees the engines; the next read builds them again. */
   dispose(): void {
+    this.dropAsked('the figures were closed');
+    this.localWhatIfs?.close();
+    this.localWhatIfs = undefined;
     this.worker?.terminate();
     this.worker = undefined;
     this.local?.close();
@@ -228,13 +262,26 @@ export class CostingService extends EventTarget {
       const book = this.sent ?? this.books.book;
       this.sent = undefined;
       this.inFlight = false;
+      this.dropAsked(`the worker stopped (${e.message || 'no reason given'})`);
       this.fail(book, `the figures could not be worked out: the worker stopped (${e.message || 'no reason given'})`);
     };
     this.worker = worker;
     return worker;
   }
 
+  /** Fails every what-if question still waiting. */
+  private dropAsked(why: string): void {
+    for (const { reject } of this.asked.values()) reject(new Error(`the what-if figures could not be worked out: ${why}`));
+    this.asked.clear();
+  }
+
   private answered(m: FiguresMessage): void {
+    if (m.type === 'whatif') {
+      const ask = this.asked.get(m.id);
+      this.asked.delete(m.id);
+      ask?.resolve(m.answer);
+      return;
+    }
     if (m.seq !== this.seq) return;
     const book = this.sent!;
     if (m.type === 'figures') {

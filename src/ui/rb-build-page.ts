@@ -18,6 +18,7 @@ import type { NoticeDetail } from './rb-book-menu.ts';
 import type { NameHint } from './rb-formula-input.ts';
 import { pageStyles, previewStyles, toolbarSearchStyles } from './styles.ts';
 import './rb-formula-input.ts';
+import { ProgressiveRows } from './progressive.ts';
 
 type Editing = {
   line: BuildLine | undefined;
@@ -140,6 +141,9 @@ export class RbBuildPage extends LitElement {
   ];
 
   private readonly books = new BookController(this, { figures: true });
+  /** Long tables draw a slice of rows per frame. */
+  private readonly drawnLines = new ProgressiveRows(this);
+  private readonly drawnBom = new ProgressiveRows(this);
   private family: FamilyResolution | undefined;
   private familyBook: Book | undefined;
   /** The figures' version the resolved lines were read at (they arrive from the worker after the Book changes). */
@@ -230,7 +234,7 @@ export class RbBuildPage extends LitElement {
                 </tr>
               </thead>
               <tbody>
-                ${lines.map((l) => this.renderLine(book, family, l, all.indexOf(l), all.length))}
+                ${this.drawnLines.take(lines).map((l) => this.renderLine(book, family, l, all.indexOf(l), all.length))}
               </tbody>
             </table>
           </div>`}
@@ -520,7 +524,7 @@ export class RbBuildPage extends LitElement {
                   </tr>
                 </thead>
                 <tbody>
-                  ${shown.map(({ r, line, problem }) => {
+                  ${this.drawnBom.take(shown).map(({ r, line, problem }) => {
                     const part = r.partId ? parts.get(r.partId) : undefined;
                     const on = r.applies && r.qtyPerUnit > 0;
                     return html`<tr class=${problem ? 'problem' : on ? '' : 'off'} data-line=${r.lineId}>

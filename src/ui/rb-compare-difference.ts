@@ -5,7 +5,6 @@
 import { css, html } from 'lit';
 import type { PropertyValues, TemplateResult } from 'lit';
 import { customElement, property, state } from 'lit/decorators.js';
-import { live } from 'lit/directives/live.js';
 import { MAX_RUN_QUANTITY } from '../domain/freeze.ts';
 import { PART_UNIT_DIGITS, grouped, money, signedMoney } from '../domain/format.ts';
 import { variantDifference } from './build-costing.ts';
@@ -161,7 +160,7 @@ export class RbCompareDifference extends CompareView {
             aria-label="any run size"
             data-testid="difference-run"
             aria-invalid=${this.runProblem ? 'true' : 'false'}
-            .value=${live(String(run))}
+            .value=${String(run)}
             @change=${this.onTyped}
           /></label>
         ${this.runProblem ? html`<span class="problem" role="alert">${this.runProblem}</span>` : ''}

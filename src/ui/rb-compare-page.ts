@@ -100,11 +100,8 @@ export class RbComparePage extends LitElement {
       return html`${n > 0 || c.keepError ? this.renderWhatIfBar(n) : ''}${this.renderChoice(book)}
         <p class="empty" data-testid="compare-none">No variants chosen: tick the variants to compare above.</p>`;
     }
-    if (c.working) {
-      return html`${n > 0 || c.keepError ? this.renderWhatIfBar(n) : ''}${this.renderChoice(book)}
-        <p class="empty" role="status" data-testid="compare-working">Working out the figures…</p>`;
-    }
     return html`${n > 0 || c.keepError ? this.renderWhatIfBar(n) : ''}${this.renderChoice(book)}
+      ${c.working ? html`<p class="empty" role="status" data-testid="compare-working">Working out the figures…</p>` : ''}
       <rb-compare-side .book=${book} .chosen=${chosen} .costs=${c} .revision=${c.revision}></rb-compare-side>
       <rb-compare-whatif .book=${book} .chosen=${chosen} .costs=${c} .revision=${c.revision} .run=${this.splitRun}></rb-compare-whatif>
       <rb-compare-split .book=${book} .chosen=${chosen} .costs=${c} .revision=${c.revision} .run=${this.splitRun} @rb-compare-run=${onRun}></rb-compare-split>

@@ -113,7 +113,7 @@ export class RbCompareWhatif extends CompareView {
         ${currencies.map((cur) =>
           numberField(`rate:${cur}`, cur, s.rates[cur] ?? NaN, c.whatIf.rates.get(cur), `${base} for one ${cur}`, (n) => {
             if (!(n > 0)) return 'a number above 0';
-            return c.applyEdit((wb) => wb.setRate(cur, n), (w) => w.rates.set(cur, n), (w) => w.rates.delete(cur), n === s.rates[cur]);
+            return c.applyEdit((w) => w.rates.set(cur, n), (w) => w.rates.delete(cur), n === s.rates[cur]);
           }),
         )}
         <div class="group">cost settings</div>
@@ -122,7 +122,6 @@ export class RbCompareWhatif extends CompareView {
             if (!(n >= 0)) return 'a number, 0 or more';
             if (name === 'marginPct' && n >= 100) return 'below 100';
             return c.applyEdit(
-              (wb) => wb.setCostSetting(name, n),
               (w) => w.settings.set(name as CostSettingName, n),
               (w) => w.settings.delete(name as CostSettingName),
               n === s[name],
@@ -151,7 +150,7 @@ export class RbCompareWhatif extends CompareView {
   }
 
   private renderQuotePrice(book: Book, c: CompareController): TemplateResult {
-    const quotes = c.quotesInUse(book, this.chosen, this.run);
+    const quotes = c.quotesInUse(book, this.chosen);
     const mpn = new Map(book.parts.map((p) => [p.id, p.mpn] as const));
     const supplier = new Map(book.suppliers.map((s) => [s.id, s.name] as const));
     const q = quotes.find((x) => x.id === this.wiQuote) ?? quotes[0];
@@ -194,7 +193,7 @@ export class RbCompareWhatif extends CompareView {
         @input=${(e: Event) =>
           c.tryNumber(`price:${key}`, (e.target as HTMLInputElement).value, held, (n) => {
             if (!(n >= 0)) return 'a price, 0 or more';
-            return c.applyEdit((wb) => wb.setQuotePrice(q.id, b, n), (w) => w.prices.set(key, n), (w) => w.prices.delete(key), n === held);
+            return c.applyEdit((w) => w.prices.set(key, n), (w) => w.prices.delete(key), n === held);
           })}
       />
       ${problem

@@ -13,6 +13,7 @@ import './rb-quote-form.ts';
 import type { QuoteSubmitDetail } from './rb-quote-form.ts';
 import { breaksText, leadText, qtyText, quoteStatus } from './quote-text.ts';
 import { pageStyles } from './styles.ts';
+import { ProgressiveRows } from './progressive.ts';
 
 type Editing = { quote: Quote | undefined; saveError?: string };
 
@@ -93,6 +94,8 @@ export class RbQuotesPage extends LitElement {
   ];
 
   private readonly books = new BookController(this);
+  /** A long list draws a slice of rows per frame. */
+  private readonly drawn = new ProgressiveRows(this);
   @state() private editing: Editing | undefined;
   @state() private filter = '';
   /** Only this supplier's quotes, or every supplier's when ''. */
@@ -204,7 +207,7 @@ export class RbQuotesPage extends LitElement {
                 </tr>
               </thead>
               <tbody>
-                ${visible.map((q) => this.renderRow(q, parts.get(q.partId), suppliers.get(q.supplierId), date, byId))}
+                ${this.drawn.take(visible).map((q) => this.renderRow(q, parts.get(q.partId), suppliers.get(q.supplierId), date, byId))}
               </tbody>
             </table>
           </div>

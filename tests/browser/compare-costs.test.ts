@@ -7,7 +7,7 @@ import type { Page } from 'playwright-core';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { CostingWorkbook, resolutionFromFamily } from '../../src/engine/costing.ts';
 import { resolveFamily } from '../../src/engine/family.ts';
-import { AppUnderTest, WIDE_VIEWPORT, saved } from './harness.ts';
+import { AppUnderTest, WIDE_VIEWPORT, compareFigures, saved } from './harness.ts';
 import type { Session } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
@@ -31,6 +31,7 @@ type Shown = { code: string; run: number; value: number };
 
 /** Every unit cost on the page, as the number behind the cell. */
 async function shownCosts(page: Page): Promise<Shown[]> {
+  await compareFigures(page);
   const cells = page.locator('[data-testid="unit-cost"]');
   const n = await cells.count();
   const out: Shown[] = [];

@@ -5,7 +5,7 @@ import { afterEach, describe, expect, inject, it } from 'vitest';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { CostingWorkbook, resolutionFromFamily } from '../../src/engine/costing.ts';
 import { resolveFamily } from '../../src/engine/family.ts';
-import { AppUnderTest, WIDE_VIEWPORT, saved } from './harness.ts';
+import { AppUnderTest, compareFigures, saved, WIDE_VIEWPORT } from './harness.ts';
 import type { Session } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
@@ -50,6 +50,7 @@ describe('Rates page', () => {
 
     await page.goto(`${baseUrl}#/compare`);
     await page.locator('[data-testid="compare-table"]').waitFor();
+    await compareFigures(page);
     const cells = page.locator('[data-testid="unit-cost"]');
     const runs = new Set(await cells.evaluateAll((els) => els.map((e) => Number(e.getAttribute('data-run')))));
     expect([...runs].sort((a, b) => a - b)).toEqual([1000, 5000]);

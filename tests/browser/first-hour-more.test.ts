@@ -12,7 +12,7 @@ import type { Page } from 'playwright-core';
 import { defaultSettings } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { bucketQuotes } from '../../src/store/schema.ts';
-import { AppUnderTest, WIDE_VIEWPORT, pageLoaded, railTo, readerText, saved, text } from './harness.ts';
+import { AppUnderTest, compareFigures, pageLoaded, railTo, readerText, saved, text, WIDE_VIEWPORT } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
@@ -102,6 +102,7 @@ describe('the first hour, more', () => {
     const ticked = [...demo.variants].slice(-2);
     for (const v of ticked) await page.locator('[data-testid="compare-choices"] label', { hasText: v.code }).locator('input').check();
     await page.locator('[data-testid="difference-table"]').waitFor();
+    await compareFigures(page);
     const diff = page.locator('rb-compare-difference');
     const offered = async (label: string): Promise<string[]> => (await diff.getByLabel(label, { exact: true }).locator('option').allTextContents()).map(readerText);
     const tickedCodes = ticked.map((v) => v.code).sort();
@@ -116,10 +117,12 @@ describe('the first hour, more', () => {
     await diff.getByTestId('difference-run').fill('3700');
     await diff.getByTestId('difference-run').press('Enter');
     await diff.locator('p.why', { hasText: 'a run of 3,700 units' }).waitFor();
+    await compareFigures(page);
     await expect(diff.getByLabel('run size', { exact: true }).inputValue()).resolves.toBe('3700');
     expect(await text(page, '[data-testid="difference-total"]')).toMatch(/^[+−]?\d[\d,]*\.\d\d$/);
     await diff.getByLabel('run size', { exact: true }).selectOption(String(demo.settings.runSizes[0]));
     await diff.locator('p.why', { hasText: `a run of ${demo.settings.runSizes[0]!.toLocaleString('en-GB')} units` }).waitFor();
+    await compareFigures(page);
     expect(before).toMatch(/^[+−]?\d[\d,]*\.\d\d$/);
 
     // Money to the cent as on other pages; a line's part cost per unit keeps four decimals.

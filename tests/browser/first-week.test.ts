@@ -11,7 +11,7 @@ import type { Book } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { parseBookFile } from '../../src/io/book-file.ts';
 import { costVariant, costedBomCsv, costedTotalLabels, exportBytes, numberText, runCosting } from '../../src/io/run-export.ts';
-import { AppUnderTest, WIDE_VIEWPORT, pageLoaded, railTo, readerText, saved, text } from './harness.ts';
+import { AppUnderTest, compareFigures, pageLoaded, railTo, readerText, saved, text, WIDE_VIEWPORT } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
@@ -171,6 +171,7 @@ describe('the first week', () => {
     await runSize.fill('3000');
     await runSize.press('Enter');
     await expect.poll(async () => readerText(await page.locator('#diff-h + p').textContent())).toContain('a run of 3,000 units');
+    await compareFigures(page);
     const unit = (code: string): number => value(costVariant(book, book.variants.find((v) => v.code === code)!.id, 3000)).bom.unitCost;
     // Variant A is the first ticked in the Book's order (FR4-50-CD), B the other; the total is B − A, to the cent.
     const total = Number((await text(page, '[data-testid="difference-total"]')).replace('−', '-').replace('+', ''));

@@ -200,6 +200,14 @@ export async function figuresShown(page: Page): Promise<void> {
   );
 }
 
+/**
+ * Waits until the Compare page shows every figure its views asked for (they are worked out off the page's thread;
+ * the page marks itself `data-figures="ready"` once all are held, and drops the mark on any edit).
+ */
+export async function compareFigures(page: Page): Promise<void> {
+  await page.locator('rb-compare-page[data-figures="ready"]').waitFor({ timeout: 60_000 });
+}
+
 /** Waits until the last change is written (the save state in the rail says so). */
 export async function saved(page: Page): Promise<void> {
   await page.locator('rb-save-state [data-state="saved"]').waitFor();

@@ -267,3 +267,71 @@ describe('CostingService with the figures worker', () => {
     expect(live(costing, holder.book)).toEqual(fresh(holder.book));
   });
 });
+
+describe('What-if figures for the Compare page', () => {
+  const wants = (ids: string[], runs: number[]) => ids.flatMap((variantId) => runs.map((run) => ({ variantId, run, bom: true })));
+
+  it('costs the chosen variants with a what-if rate as a fresh workbook with that rate does, and takes the edit back', async () => {
+    const { holder, costing } = start();
+    const book = holder.book;
+    const ids = book.variants.slice(0, 3).map((v) => v.id);
+    const runs = [...book.settings.runSizes, 3700];
+    const foreign = Object.keys(book.settings.rates).find((c) => c !== book.settings.baseCurrency)!;
+    const rate = book.settings.rates[foreign]! * 1.25;
+    const whatIf = { prices: new Map(), rates: new Map([[foreign, rate]]), settings: new Map(), runSizes: undefined };
+    const answer = await costing.whatIf({ chosen: ids, whatIf, wants: wants(ids, runs) });
+    expect(answer.refused).toEqual([]);
+    const wb = CostingWorkbook.open(book, resolutionFromFamily(resolveFamily(book)));
+    if (!wb.ok) throw new Error(wb.error);
+    try {
+      expect(wb.value.setRate(foreign, rate).ok).toBe(true);
+      for (const f of answer.figures) {
+        const want = book.settings.runSizes.includes(f.run) ? wb.value.unitCost(f.variantId, f.run) : (wb.value.costedBom(f.variantId, f.run) as { value: { unitCost: number } }).value.unitCost;
+        expect(f.value, `${f.variantId} @ ${f.run}`).toBe(want);
+        expect(f.bom?.ok && f.bom.value.unitCost).toBe(f.value);
+      }
+    } finally {
+      wb.value.close();
+    }
+    // Taking the edit back gives the Book's own figures again.
+    const plain = await costing.whatIf({ chosen: ids, whatIf: { ...whatIf, rates: new Map() }, wants: wants(ids, book.settings.runSizes) });
+    for (const f of plain.figures) expect(f.value).toBe(costing.unitCost(f.variantId, f.run));
+  });
+
+  it('refuses an edit the workbook cannot take, by its field, and leaves the figures as they were', async () => {
+    const { holder, costing } = start();
+    const book = holder.book;
+    const ids = [book.variants[0]!.id];
+    const whatIf = { prices: new Map([['quote_that_is_not_held#0', 1]]), rates: new Map([['XXX', 2]]), settings: new Map(), runSizes: undefined };
+    const answer = await costing.whatIf({ chosen: ids, whatIf, wants: wants(ids, book.settings.runSizes) });
+    expect(answer.refused.map((r) => r.field)).toEqual(['rate:XXX']);
+    expect(answer.refused[0]!.error).toMatch(/no quote or setting uses the currency XXX/);
+    for (const f of answer.figures) expect(f.value).toBe(costing.unitCost(f.variantId, f.run));
+  });
+
+  it('is answered by the figures worker with the same figures as in-process', async () => {
+    const local = start();
+    const { holder, costing } = (() => {
+      const workers: FakeWorker[] = [];
+      setFiguresWorker(() => {
+        const w = new FakeWorker();
+        workers.push(w);
+        return w;
+      });
+      try {
+        const h = new Holder(addBuiltInChecks(demoBook(), CHECKS));
+        return { holder: h, costing: CostingService.for(h) };
+      } finally {
+        setFiguresWorker(undefined);
+      }
+    })();
+    await settled(costing);
+    const book = holder.book;
+    const ids = book.variants.slice(2, 5).map((v) => v.id);
+    const whatIf = { prices: new Map(), rates: new Map(), settings: new Map([['labourMinutesPerUnit' as const, 12]]), runSizes: undefined };
+    const request = { chosen: ids, whatIf, wants: wants(ids, [500, 20000]) };
+    const [inWorker, inProcess] = await Promise.all([costing.whatIf(request), local.costing.whatIf(request)]);
+    expect(inWorker).toEqual(inProcess);
+    expect(inWorker.figures.every((f) => Number.isFinite(f.value))).toBe(true);
+  });
+});
