@@ -26,6 +26,8 @@ export interface GrossNeed {
   fromStock: number;
   fromOrders: number;
   net: number;
+  /** When these parts are in: today from stock, an order's due date, or today + the lead time when bought now. */
+  inDate: string;
 }
 
 /** Parts still to come on one open order line. */
@@ -113,10 +115,16 @@ export interface RunPlan {
   limiting?: { partId: string; mpn: string; inDate: string; earliestWanted: string };
   /** The earliest date it can be wanted is after its date wanted. */
   late: boolean;
-  /** Per part id: the run's need, and how much of it comes from stock on hand. */
+  /** Per part id: the run's need. */
   needs: Map<string, number>;
-  fromStock: Map<string, number>;
   problems: CostProblem[];
+}
+
+/** Per part id: how much of a run's need the plan takes from stock on hand (for the run's costing from stock). */
+export function runFromStock(plan: Plan, runId: string): Map<string, number> {
+  const out = new Map<string, number>();
+  for (const p of plan.parts) for (const g of p.gross) if (g.runId === runId && g.fromStock > 0) out.set(p.partId, (out.get(p.partId) ?? 0) + g.fromStock);
+  return out;
 }
 
 export interface Plan {
@@ -151,24 +159,23 @@ export function planRuns(book: Book, ctx: CostingContext, lines: RunLines, optio
   if (bad) return { ok: false, error: bad };
   const s = book.settings;
   const today = options.today;
-  const horizonEnd = daysAfter(today, options.horizonDays ?? s.horizonDays)!;
+  const horizonEnd = shiftDays(1, today, options.horizonDays ?? s.horizonDays)!;
   const lag = s.kittingDays + s.safetyDays;
   const variants = new Map(book.variants.map((v) => [v.id, v] as const));
 
   const planned = book.runs.filter((r) => r.status !== 'built').sort((a, b) => (a.dateWanted < b.dateWanted ? -1 : a.dateWanted > b.dateWanted ? 1 : a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
   const runs: RunPlan[] = [];
-  /** Per part: the needs in run-date order, and a supplier every one of its lines is pinned to (if one). */
-  const byPart = new Map<string, { gross: GrossNeed[]; pin: string | undefined | null }>();
+  /** Per part: the needs in run-date order with their runs, and a supplier every one of its lines is pinned to (if one). */
+  const byPart = new Map<string, { gross: GrossNeed[]; of: RunPlan[]; pin: string | undefined | null }>();
   for (const run of planned) {
     const inHorizon = run.dateWanted <= horizonEnd;
     const rp: RunPlan = {
       run,
       inHorizon,
-      needDate: daysBefore(run.dateWanted, lag)!,
+      needDate: shiftDays(-1, run.dateWanted, lag)!,
       pastDue: run.dateWanted < today,
       late: false,
       needs: new Map(),
-      fromStock: new Map(),
       problems: [],
     };
     runs.push(rp);
@@ -180,12 +187,20 @@ export function planRuns(book: Book, ctx: CostingContext, lines: RunLines, optio
     const { demands, problems } = runDemands(ctx, lines.get(run.variantId) ?? [], run.quantity);
     rp.problems.push(...problems);
     for (const d of demands) {
-      rp.needs.set(d.partId, (rp.needs.get(d.partId) ?? 0) + d.need);
       let p = byPart.get(d.partId);
-      if (!p) byPart.set(d.partId, (p = { gross: [], pin: d.pinnedSupplierId }));
+      if (!p) byPart.set(d.partId, (p = { gross: [], of: [], pin: d.pinnedSupplierId }));
       else if (p.pin !== d.pinnedSupplierId) p.pin = null;
+      const last = p.of.length - 1;
+      // A part on lines pinned to different suppliers: one need per run.
+      if (last >= 0 && p.of[last] === rp) {
+        p.gross[last]!.qty += d.need;
+        rp.needs.set(d.partId, p.gross[last]!.qty);
+      } else {
+        p.gross.push({ runId: run.id, date: rp.needDate, qty: d.need, fromStock: 0, fromOrders: 0, net: 0, inDate: today });
+        p.of.push(rp);
+        rp.needs.set(d.partId, d.need);
+      }
     }
-    for (const [partId, qty] of rp.needs) byPart.get(partId)!.gross.push({ runId: run.id, date: rp.needDate, qty, fromStock: 0, fromOrders: 0, net: 0 });
   }
 
   const have = onHandByPart(book.stockMoves);
@@ -202,12 +217,11 @@ export function planRuns(book: Book, ctx: CostingContext, lines: RunLines, optio
     });
   }
 
-  const runById = new Map(runs.map((r) => [r.run.id, r] as const));
   const parts: PartPlan[] = [];
-  const lineFor = new Map<string, SuggestedLine>();
-  /** Per part: the date its parts for each run are in (stock: today; an order: its due date; to buy: today + lead). */
-  const inDates = new Map<string, Map<string, string>>();
-  for (const [partId, { gross, pin }] of byPart) {
+  const lineFor: SuggestedLine[] = [];
+  /** Per run: the part whose parts are in last (the one that limits the run's date). */
+  const limits = new Map<RunPlan, { partId: string; mpn: string; inDate: string }>();
+  for (const [partId, { gross, of, pin }] of byPart) {
     const part = ctx.parts.get(partId)!;
     const receipts = (receiptsOf.get(partId) ?? []).slice().sort((a, b) => (a.due < b.due ? -1 : a.due > b.due ? 1 : 0));
     const onHand = have.get(partId) ?? 0;
@@ -217,12 +231,14 @@ export function planRuns(book: Book, ctx: CostingContext, lines: RunLines, optio
     let lastDue = today;
     let fromOrders = 0;
     let net = 0;
-    const late: ScheduledReceipt[] = [];
-    const dates = new Map<string, string>();
+    let grossTotal = 0;
+    /** Receipts still to come when the first net need fell: they come after a need they could have covered. */
+    let lateFrom = -1;
+    let firstNet: GrossNeed | undefined;
     for (const g of gross) {
       while (next < receipts.length && receipts[next]!.due <= g.date) {
         arrived += receipts[next]!.qty;
-        lastDue = receipts[next]!.due > lastDue ? receipts[next]!.due : lastDue;
+        if (receipts[next]!.due > lastDue) lastDue = receipts[next]!.due;
         next++;
       }
       g.fromStock = Math.min(stock, g.qty);
@@ -230,34 +246,35 @@ export function planRuns(book: Book, ctx: CostingContext, lines: RunLines, optio
       g.fromOrders = Math.min(arrived, g.qty - g.fromStock);
       arrived -= g.fromOrders;
       g.net = g.qty - g.fromStock - g.fromOrders;
+      g.inDate = g.fromOrders > 0 ? lastDue : today;
       fromOrders += g.fromOrders;
       net += g.net;
-      dates.set(g.runId, g.fromOrders > 0 ? lastDue : today);
-      if (g.net > 0) for (const r of receipts.slice(next)) if (!late.includes(r)) late.push(r);
-      const rp = runById.get(g.runId)!;
-      rp.fromStock.set(partId, (rp.fromStock.get(partId) ?? 0) + g.fromStock);
+      grossTotal += g.qty;
+      if (g.net > 0 && !firstNet) {
+        firstNet = g;
+        lateFrom = next;
+      }
     }
-    inDates.set(partId, dates);
     const pp: PartPlan = {
       partId,
       mpn: part.mpn,
       description: part.description,
       onHand,
       gross,
-      grossTotal: gross.reduce((n, g) => n + g.qty, 0),
+      grossTotal,
       receipts,
       fromOrders,
       net,
-      lateReceipts: late,
+      lateReceipts: lateFrom < 0 ? [] : receipts.slice(lateFrom),
     };
-    if (net > 0) {
+    if (firstNet) {
       const choice = chooseQuote(candidateQuotes(ctx, partId, pin ?? undefined), net, part.mpn);
       if (!choice.ok) pp.problem = choice.error;
       else {
         const { prepared, buy, extendedBase } = choice.value;
         const q = prepared.quote;
-        const needDate = gross.find((g) => g.net > 0)!.date;
-        const orderBy = daysBefore(needDate, q.leadDays)!;
+        const needDate = firstNet.date;
+        const orderBy = shiftDays(-1, needDate, q.leadDays)!;
         pp.buy = {
           partId,
           mpn: part.mpn,
@@ -279,32 +296,40 @@ export function planRuns(book: Book, ctx: CostingContext, lines: RunLines, optio
           late: orderBy < today,
           pastDue: needDate < today,
         };
-        lineFor.set(partId, pp.buy);
-        const arrival = daysAfter(today, q.leadDays)!;
-        for (const g of gross) if (g.net > 0) dates.set(g.runId, arrival);
+        lineFor.push(pp.buy);
+        const arrival = shiftDays(1, today, q.leadDays)!;
+        for (const g of gross) if (g.net > 0) g.inDate = arrival;
       }
+    }
+    for (let i = 0; i < gross.length; i++) {
+      const d = gross[i]!.inDate;
+      const limit = limits.get(of[i]!);
+      if (!limit || d > limit.inDate || (d === limit.inDate && part.mpn < limit.mpn)) limits.set(of[i]!, { partId, mpn: part.mpn, inDate: d });
     }
     parts.push(pp);
   }
-  parts.sort((a, b) => BY_TEXT.compare(a.mpn, b.mpn) || (a.partId < b.partId ? -1 : 1));
+  parts.sort((a, b) => (a.mpn < b.mpn ? -1 : a.mpn > b.mpn ? 1 : a.partId < b.partId ? -1 : 1));
 
-  // The part that limits each run: the one in last.
-  const mpnOf = (id: string): string => ctx.parts.get(id)?.mpn ?? id;
-  for (const rp of runs) {
-    let limit: { partId: string; inDate: string } | undefined;
-    for (const partId of rp.needs.keys()) {
-      const d = inDates.get(partId)?.get(rp.run.id);
-      if (d === undefined) continue;
-      if (!limit || d > limit.inDate || (d === limit.inDate && mpnOf(partId) < mpnOf(limit.partId))) limit = { partId, inDate: d };
-    }
-    if (limit) {
-      const earliestWanted = daysAfter(limit.inDate, lag)!;
-      rp.limiting = { partId: limit.partId, mpn: mpnOf(limit.partId), inDate: limit.inDate, earliestWanted };
-      rp.late = earliestWanted > rp.run.dateWanted;
-    }
+  for (const [rp, limit] of limits) {
+    const earliestWanted = shiftDays(1, limit.inDate, lag)!;
+    rp.limiting = { ...limit, earliestWanted };
+    rp.late = earliestWanted > rp.run.dateWanted;
   }
 
-  return { ok: true, value: { today, horizonEnd, runs, parts, suggestions: suggestionsFrom([...lineFor.values()], today) } };
+  return { ok: true, value: { today, horizonEnd, runs, parts, suggestions: suggestionsFrom(lineFor, today) } };
+}
+
+/** Date arithmetic of a plan, remembered: a plan shifts the same few dates by the same few lead times many times. */
+const SHIFTED = new Map<string, string | undefined>();
+function shiftDays(sign: 1 | -1, date: string, days: number): string | undefined {
+  const key = `${date}|${sign * days}`;
+  let out = SHIFTED.get(key);
+  if (out === undefined && !SHIFTED.has(key)) {
+    if (SHIFTED.size > 50_000) SHIFTED.clear();
+    out = sign > 0 ? daysAfter(date, days) : daysBefore(date, days);
+    SHIFTED.set(key, out);
+  }
+  return out;
 }
 
 /** One collator for the plan's lists: far cheaper than a localeCompare per comparison. */
@@ -359,7 +384,7 @@ function suggestionsFrom(lines: SuggestedLine[], today: string): SupplierSuggest
   }
   const out = [...by.values()].sort((a, b) => BY_TEXT.compare(a.supplier, b.supplier) || BY_TEXT.compare(a.currency, b.currency));
   for (const s of out) {
-    s.lines.sort((a, b) => BY_TEXT.compare(a.mpn, b.mpn));
+    s.lines.sort((a, b) => (a.mpn < b.mpn ? -1 : a.mpn > b.mpn ? 1 : 0));
     let cents = 0;
     let base = 0;
     let lead = 0;
@@ -372,7 +397,7 @@ function suggestionsFrom(lines: SuggestedLine[], today: string): SupplierSuggest
     }
     s.total = cents / 100;
     s.totalBase = base / 100;
-    s.dueIfPlacedToday = daysAfter(today, lead)!;
+    s.dueIfPlacedToday = shiftDays(1, today, lead)!;
   }
   return out;
 }

@@ -218,6 +218,8 @@ async function benchPageFigures(context: BrowserContext, pageUrl: string, quick:
     // The naive layout takes several seconds per build: only the full run repeats it in the browser.
     const costing = await page.evaluate(([q, naive]) => window.rbBench!.costing(q, naive), [quick, !quick] as const);
     for (const [k, v] of Object.entries(costing)) if (k !== 'gen_ms' && k !== 'family' && k !== 'large_family') f[`browser_${k}`] = v;
+    const planning = await page.evaluate((q) => window.rbBench!.planning(q), quick);
+    for (const [k, v] of Object.entries(planning)) if (k !== 'planning_family') f[`browser_${k}`] = v;
     // Writing 75,000 records into IndexedDB takes tens of seconds on a busy machine: the quick run imports a smaller
     // file and names its figures import_browser_small_*, so they are never read as the 50,000-row figure.
     const sample = quick ? { ...IMPORT_SAMPLE, rows: QUICK_IMPORT_ROWS } : IMPORT_SAMPLE;

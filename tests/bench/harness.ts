@@ -44,6 +44,8 @@ export const TARGETS: Target[] = [
   // as a plain TypeScript loop in the same run.
   { figure: 'plan_ms', max: 300, source: 'issue 13' },
   { figure: 'plan_vs_plain', max: 10, source: 'issue 13' },
+  { figure: 'browser_plan_ms', max: 300, source: 'issue 13, in the browser' },
+  { figure: 'browser_plan_vs_plain', max: 10, source: 'issue 13, in the browser' },
   { figure: 'checks_open_ms', max: 500, source: 'issue 3 (our goal)' },
   { figure: 'checks_edit_ms', max: 16, source: 'issue 3 (our goal)' },
   { figure: 'checks_large_open_ms', max: 3000, source: 'issue 3 (our goal)' },
@@ -85,6 +87,8 @@ export const PAIRS: Pair[] = [
   { name: 'import_ms', node: 'import_node_ms', browser: 'import_browser_ms' },
   { name: 'first_view_ms', browser: 'first_view_ms' },
   { name: 'book_open_ms', node: 'book_file_open_node_ms', browser: 'book_open_browser_ms' },
+  { name: 'plan_ms', node: 'plan_ms', browser: 'browser_plan_ms' },
+  { name: 'plan_vs_plain', node: 'plan_vs_plain', browser: 'browser_plan_vs_plain' },
 ];
 
 /** import_ms: the browser figure (worker + IndexedDB) when it was measured, else the Node one; says which. */

@@ -147,7 +147,7 @@ async function run(args: string[], io: CommandIo): Promise<number> {
     io.data(c.value);
     io.err(MAINS_CAUTION);
   } else if (o.has('json')) {
-    io.out(jsonText({ ...p, runs: p.runs.map((r) => ({ ...r, needs: Object.fromEntries(r.needs), fromStock: Object.fromEntries(r.fromStock) })) }));
+    io.out(jsonText({ ...p, runs: p.runs.map((r) => ({ ...r, needs: Object.fromEntries(r.needs) })) }));
     io.err(MAINS_CAUTION);
   } else io.out(table(p, currency));
   if (o.has('place')) {

@@ -1,5 +1,6 @@
-// The benchmark's page in Chromium: runs the costing measurements (costing-core.ts) and the price import the app
-// makes (file → Web Worker → plan → save through the Book service into IndexedDB), for tests/bench/browser.ts.
+// The benchmark's page in Chromium: runs the costing and planning measurements (costing-core.ts, planning-core.ts)
+// and the price import the app makes (file → Web Worker → plan → save through the Book service into IndexedDB), for
+// tests/bench/browser.ts.
 import { applyChange } from '../../../src/domain/book-ops.ts';
 import { todayIso } from '../../../src/domain/dates.ts';
 import { findSupplier, knownCurrencies } from '../../../src/io/price-import.ts';
@@ -11,6 +12,7 @@ import { runPriceImportInWorker } from '../../../src/io/price-worker-client.ts';
 import { deleteBook } from '../../../src/store/idb-store.ts';
 import { BookService } from '../../../src/ui/book-service.ts';
 import { measureCosting } from '../costing-core.ts';
+import { measurePlanning } from '../planning-core.ts';
 import { round } from '../stats.ts';
 import type { Figures } from '../stats.ts';
 
@@ -28,6 +30,10 @@ function heapMb(): number {
 function costing(quick: boolean, naive: boolean): Figures {
   // Progress goes to the console; browser.ts forwards it to the bench's log.
   return measureCosting({ quick, naive, heapMb, log: (text) => console.info(`bench: ${text}`) });
+}
+
+function planning(quick: boolean): Figures {
+  return measurePlanning({ quick, log: (text) => console.info(`bench: ${text}`) });
 }
 
 /** The app's import path, timed from the file's bytes to the change stored in IndexedDB. */
@@ -96,6 +102,7 @@ async function importPrices(options: PriceSampleOptions): Promise<Figures> {
 
 export interface BenchPage {
   costing(quick: boolean, naive: boolean): Figures;
+  planning(quick: boolean): Figures;
   importPrices(options: PriceSampleOptions): Promise<Figures>;
   heapMb(): number;
 }
@@ -106,4 +113,4 @@ declare global {
   }
 }
 
-window.rbBench = { costing, importPrices, heapMb };
+window.rbBench = { costing, planning, importPrices, heapMb };
