@@ -10,6 +10,7 @@ import { rateOf } from './costing.ts';
 import type { Result } from './costing.ts';
 import { roundHalfUp } from './money.ts';
 import { checkWith, PriceListSchema } from './schema.ts';
+import { sortVariants } from './variant-order.ts';
 
 /** The price at a margin on price or a markup on cost, unrounded, in the cost's currency. */
 export function pricedAt(unitCost: number, basis: PriceList['basis'], pct: number): number {
@@ -66,7 +67,10 @@ export interface PriceTable {
   rows: PriceRow[];
 }
 
-/** A list's table: one row per variant (Book order), one cell per run size (the order the costs come in). */
+/**
+ * A list's table: one row per variant in the one order of every page (variant-order.ts, so the customer's file
+ * does not follow the order records happen to be stored in), one cell per run size (the order the costs come in).
+ */
 export function priceTable(list: PriceList, book: Pick<Book, 'variants'> & { settings: Settings }, costs: readonly CostCell[]): PriceTable {
   const rate = rateOf(book.settings, list.currency);
   const runs = [...new Set(costs.map((c) => c.run))];
@@ -77,7 +81,7 @@ export function priceTable(list: PriceList, book: Pick<Book, 'variants'> & { set
     else byVariant.set(c.variantId, [c]);
   }
   const rows: PriceRow[] = [];
-  for (const v of book.variants) {
+  for (const v of sortVariants(book.variants)) {
     const cells = (byVariant.get(v.id) ?? []).map((c): PriceCell => {
       if (!Number.isFinite(c.unitCost)) return { run: c.run, unitCost: c.unitCost, price: undefined, error: c.error ?? 'the unit cost cannot be computed' };
       const p = listPrice(c.unitCost, list, rate);

@@ -9,6 +9,7 @@ import { demoBook } from '../../src/domain/demo-book.ts';
 import type { Book, PriceList } from '../../src/domain/book.ts';
 import { listPrice, priceListDraft, priceTable, pricedAt, roundPrice, validatePriceList } from '../../src/domain/price-lists.ts';
 import { checkBook } from '../../src/domain/schema.ts';
+import { sortVariants } from '../../src/domain/variant-order.ts';
 import { familyUnitCosts, priceListCsv, priceListHeader, priceTables } from '../../src/io/price-list-export.ts';
 import { captureIo, writeBook } from './cli-helpers.ts';
 import { main } from '../../src/cli/main.ts';
@@ -61,6 +62,15 @@ describe('the price on a list', () => {
     const usdRate = book.settings.rates['USD']!;
     expect(t.rows[0]!.cells[0]!.price).toBe(Math.round((10 / usdRate) * 100) / 100);
     expect(t.rows[0]!.cells[1]).toMatchObject({ price: undefined, error: 'R1: no usable quote' });
+  });
+
+  it('lists the variants in the one order of every page, whatever order the Book keeps them in', () => {
+    const book = demoBook();
+    const order = sortVariants(book.variants).map((v) => v.code);
+    expect(book.variants.map((v) => v.code)).not.toEqual(order);
+    for (const variants of [book.variants, [...book.variants].reverse()]) {
+      expect(priceTable(list({}), { ...book, variants }, []).rows.map((r) => r.variant)).toEqual(order);
+    }
   });
 });
 
