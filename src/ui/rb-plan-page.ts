@@ -12,6 +12,8 @@ import type { Result } from '../domain/costing.ts';
 import { buildRun } from '../domain/stock.ts';
 import { partStatus, planBook, runNeeds } from '../io/plan-export.ts';
 import { BookController } from './book-context.ts';
+import './rb-plan-settings.ts';
+import './rb-run-stock.ts';
 import { pageStyles, problemStyles } from './styles.ts';
 
 @customElement('rb-plan-page')
@@ -56,6 +58,8 @@ export class RbPlanPage extends LitElement {
   @state() private horizon = '';
   @state() private message: { text: string; bad: boolean } | undefined;
   @state() private busy = false;
+  /** The run whose costing with stock is shown. */
+  @state() private costed: string | undefined;
   private cache: { book: Book; key: string; plan: Result<Plan> } | undefined;
 
   private horizonDays(book: Book): number | undefined {
@@ -95,7 +99,11 @@ export class RbPlanPage extends LitElement {
         ${this.message ? html`<p class=${this.message.bad ? 'problem' : 'notice'} role=${this.message.bad ? 'alert' : 'status'}>${this.message.text}</p>` : ''}
         ${plan.ok ? '' : html`<p class="problem" role="alert">${plan.error}</p>`}
       </section>
-      ${plan.ok ? html`${this.renderRuns(book, plan.value)} ${this.renderOrders(book, plan.value)} ${this.renderParts(plan.value)}` : ''}`;
+      ${plan.ok
+        ? html`${this.renderRuns(book, plan.value)} ${this.renderCosted(book, plan.value)} ${this.renderOrders(book, plan.value)}
+          ${this.renderParts(plan.value)}`
+        : ''}
+      <rb-plan-settings></rb-plan-settings>`;
   }
 
   private renderRuns(book: Book, plan: Plan) {
@@ -131,7 +139,10 @@ export class RbPlanPage extends LitElement {
                     <td class="code">${r.limiting?.mpn ?? '—'}</td>
                     <td>${r.limiting?.earliestWanted ?? '—'}</td>
                     <td class="flag">${runFlag(r)}</td>
-                    <td><button type="button" ?disabled=${this.busy} @click=${() => this.build(book, r.run)}>Mark built</button></td>
+                    <td>
+                      <button type="button" ?disabled=${this.busy} @click=${() => this.build(book, r.run)}>Mark built</button>
+                      ${r.inHorizon ? html`<button type="button" class="quiet" @click=${() => (this.costed = r.run.id)}>Cost with stock</button>` : ''}
+                    </td>
                   </tr>`,
                 )}
               </tbody>
@@ -140,6 +151,15 @@ export class RbPlanPage extends LitElement {
       ${built.length
         ? html`<p class="muted" data-testid="built-runs">Built: ${built.map((r) => `${r.name || r.id} (${r.builtDate})`).join(', ')}</p>`
         : ''}
+    </section>`;
+  }
+
+  private renderCosted(book: Book, plan: Plan) {
+    const rp = plan.runs.find((r) => r.run.id === this.costed && r.inHorizon);
+    if (!rp) return '';
+    return html`<section class="sheet" aria-labelledby="run-stock-h">
+      <h2 id="run-stock-h">${rp.run.name || rp.run.id}: costed with stock</h2>
+      <rb-run-stock .book=${book} .plan=${plan} .runId=${rp.run.id}></rb-run-stock>
     </section>`;
   }
 

@@ -77,9 +77,15 @@ describe('planning, orders and stock in the browser', () => {
     const stockCell = page.locator(`[data-testid="stock-table"] tr[data-mpn="${mpn}"] [data-testid="on-hand"]`);
     await expect.poll(async () => count((await stockCell.textContent()) ?? '')).toBe(ordered - 1);
 
-    // Build the first run: its parts leave stock, and it leaves the plan.
+    // Build the first run: its parts leave stock, and it leaves the plan. Costed with stock first, it takes the
+    // shared part from stock, valued at the price paid on its order.
     await page.goto(`${baseUrl}#/plan`);
     await planAt(page, '2027-02-10');
+    await page.locator(`[data-testid="plan-runs"] tbody tr`, { hasText: firstRun }).getByRole('button', { name: 'Cost with stock' }).click();
+    const stockRow = page.locator('[data-testid="run-stock"] tbody tr', { hasText: mpn });
+    await stockRow.waitFor();
+    const cells = await stockRow.locator('td').allTextContents();
+    expect([count(cells[1]!), count(cells[2]!), cells[4], count(cells[5]!)]).toEqual([firstNeed, firstNeed, 'last price paid', 0]);
     await page.locator(`[data-testid="plan-runs"] tbody tr`, { hasText: firstRun }).getByRole('button', { name: 'Mark built' }).click();
     await page.getByText(`${firstRun} is built on 2027-02-10`).waitFor();
     await expect.poll(() => runRows.count()).toBe(1);
