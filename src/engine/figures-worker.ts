@@ -2,11 +2,13 @@
 // (seconds for a large family) and recomputing after an edit never hold up the page. The page sends the Book once,
 // then only what changed (a BookDelta); each answer is the FiguresUpdate of that step, posted in parts that each take
 // the page a few milliseconds to receive. The page's side is src/ui/costing-service.ts.
-import type { Book } from '../domain/book.ts';
+import type { Book, BuildLine } from '../domain/book.ts';
 import { applyBookDelta } from '../domain/book-ops.ts';
 import type { BookDelta } from '../domain/book-ops.ts';
 import { LiveFigures, splitUpdate } from './figures.ts';
 import type { FiguresUpdate } from './figures.ts';
+import { trialOutcomes } from './line-trial.ts';
+import type { LineOutcome } from './line-trial.ts';
 import { WhatIfCosts } from './what-if.ts';
 import type { WhatIf, WhatIfAnswer, WhatIfWant } from './what-if.ts';
 
@@ -20,13 +22,16 @@ export interface WhatIfRequest {
 export type FiguresRequest =
   | { type: 'book'; seq: number; book: Book }
   | { type: 'delta'; seq: number; delta: BookDelta }
-  | ({ type: 'whatif'; id: number } & WhatIfRequest);
+  | ({ type: 'whatif'; id: number } & WhatIfRequest)
+  | { type: 'trial'; id: number; line: BuildLine };
 
 /** One part of an answer (see splitUpdate): `last` says the figures of the Book sent are complete. */
 export type FiguresMessage =
   | { type: 'figures'; seq: number; update: FiguresUpdate; last: boolean }
   | { type: 'failed'; seq: number; message: string }
-  | { type: 'whatif'; id: number; answer: WhatIfAnswer };
+  | { type: 'whatif'; id: number; answer: WhatIfAnswer }
+  | { type: 'trial'; id: number; outcomes: LineOutcome[] }
+  | { type: 'refused'; id: number; message: string };
 
 /** The worker's whole job, as an object so Node tests run exactly what the worker runs. */
 export class FiguresHost {
@@ -49,6 +54,15 @@ export class FiguresHost {
   /** The answer to one request, in parts that are each quick for the page to take. */
   handle(request: FiguresRequest): FiguresMessage[] {
     if (request?.type === 'whatif') return [{ type: 'whatif', id: request.id, answer: this.whatIf(request) }];
+    if (request?.type === 'trial') {
+      const book = this.live.current;
+      if (!book) return [{ type: 'refused', id: request.id, message: 'the figures worker holds no Book yet' }];
+      try {
+        return [{ type: 'trial', id: request.id, outcomes: trialOutcomes(book, request.line) }];
+      } catch (e) {
+        return [{ type: 'refused', id: request.id, message: `the line could not be tried: ${e instanceof Error ? e.message : String(e)}` }];
+      }
+    }
     const seq = request?.seq ?? -1;
     const answer = (update: FiguresUpdate): FiguresMessage[] => {
       const parts = splitUpdate(update);

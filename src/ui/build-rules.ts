@@ -2,8 +2,7 @@
 // field, the per-variant trial of its rules (through the family resolver), and reordering. No DOM, no Lit.
 import type { Book, BuildLine, CostCategory } from '../domain/book.ts';
 import { COST_CATEGORIES, mpnKey } from '../domain/book.ts';
-import { resolveFamily } from '../engine/family.ts';
-import type { FamilyResolution } from '../engine/family.ts';
+import type { LineOutcome } from '../engine/line-trial.ts';
 import { guardFormula } from '../engine/formula-guard.ts';
 import { formulaBody, tokenizeFormula } from '../engine/formula-names.ts';
 import type { FieldProblems, FormResult } from './record-forms.ts';
@@ -132,40 +131,8 @@ export function validateBuildLine(
   return { ok: true, record };
 }
 
-/** How one line stands for one variant, for the preview beside the form and the per-variant BOM. */
-export interface LineOutcome {
-  variantId: string;
-  variantCode: string;
-  applies: boolean;
-  partId: string | null;
-  mpn: string;
-  qtyPerUnit: number;
-  problem?: string;
-}
-
-/** The Book with `line` put in (replacing the line of the same id). */
-export function withLine(book: Book, line: BuildLine): Book {
-  return { ...book, buildLines: [...book.buildLines.filter((l) => l.id !== line.id), line] };
-}
-
-/** Each variant's outcome for one line, read from a family resolution. */
-export function lineOutcomes(book: Book, family: FamilyResolution, lineId: string): LineOutcome[] {
-  const mpn = new Map(book.parts.map((p) => [p.id, p.mpn] as const));
-  return family.variants.map((v) => {
-    const l = v.lines.find((x) => x.lineId === lineId);
-    const problems = v.problems.filter((p) => p.lineId === lineId).map((p) => p.message);
-    const out: LineOutcome = {
-      variantId: v.variantId,
-      variantCode: v.variantCode,
-      applies: l?.applies ?? false,
-      partId: l?.partId ?? null,
-      mpn: l?.partId ? (mpn.get(l.partId) ?? l.partId) : '',
-      qtyPerUnit: l?.qtyPerUnit ?? 0,
-    };
-    if (problems.length > 0) out.problem = problems.join('; ');
-    return out;
-  });
-}
+export { lineOutcomes, withLine } from '../engine/line-trial.ts';
+export type { LineOutcome } from '../engine/line-trial.ts';
 
 /** The field a resolver message belongs beside, read from its opening words. */
 export function problemField(message: string): keyof BuildLineDraft {
@@ -177,13 +144,10 @@ export function problemField(message: string): keyof BuildLineDraft {
 }
 
 /**
- * Tries a validated line on every variant. Messages of variants whose rules fail are gathered beside the field they
- * belong to, naming the variants ("FR3-40-CD, FR4-60-CD: quantity rule: unknown name x").
+ * Problems of a line tried on every variant (see CostingService.trialLine), gathered beside the field they belong to,
+ * naming the variants whose rules fail ("FR3-40-CD, FR4-60-CD: quantity rule: unknown name x").
  */
-export function trialLine(book: Book, line: BuildLine): { outcomes: LineOutcome[]; problems: FieldProblems } {
-  const trial = withLine(book, line);
-  const family = resolveFamily(trial);
-  const outcomes = lineOutcomes(trial, family, line.id);
+export function trialProblems(outcomes: readonly LineOutcome[]): FieldProblems {
   const byField = new Map<keyof BuildLineDraft, Map<string, string[]>>();
   for (const o of outcomes) {
     if (o.problem === undefined) continue;
@@ -202,7 +166,7 @@ export function trialLine(book: Book, line: BuildLine): { outcomes: LineOutcome[
       .map(([message, codes]) => `${codes.length === outcomes.length && codes.length > 1 ? 'every variant' : codes.join(', ')}: ${message}`)
       .join(' · ');
   }
-  return { outcomes, problems };
+  return problems;
 }
 
 /** Lines in the order they are shown: by position, then id (as the family resolver orders them). */

@@ -8,13 +8,15 @@
 // follows every change) and answers from the figures held: while `pending`, those are the previous Book's. The worker is sent the Book once, then only
 // what changed; when its answer arrives the service emits `change` with a `CostingChangeDetail`, and `version` rises,
 // so a page can tell whether its rows are stale and draw again.
-import type { Book } from '../domain/book.ts';
+import type { Book, BuildLine } from '../domain/book.ts';
 import { bookDelta } from '../domain/book-ops.ts';
 import { CHECK_STATUS, worstOf } from '../domain/check-status.ts';
 import type { CheckStatus } from '../domain/check-status.ts';
 import { LiveFigures, SYNC_KINDS } from '../engine/figures.ts';
 import type { CostingChangeDetail, FiguresUpdate } from '../engine/figures.ts';
 import type { FiguresMessage, FiguresRequest, WhatIfRequest } from '../engine/figures-worker.ts';
+import { trialOutcomes } from '../engine/line-trial.ts';
+import type { LineOutcome } from '../engine/line-trial.ts';
 import { WhatIfCosts } from '../engine/what-if.ts';
 import type { WhatIfAnswer } from '../engine/what-if.ts';
 import type { CheckResult, FamilyResolution, VariantResolution } from '../engine/family.ts';
@@ -64,8 +66,8 @@ export class CostingService extends EventTarget {
   private worker: FiguresWorkerLike | undefined;
   private local: LiveFigures | undefined;
   private localWhatIfs: WhatIfCosts | undefined;
-  /** What-if questions sent to the worker and not yet answered, by id. */
-  private readonly asked = new Map<number, { resolve: (a: WhatIfAnswer) => void; reject: (e: Error) => void }>();
+  /** Questions sent to the worker and not yet answered, by id. */
+  private readonly asked = new Map<number, { resolve: (a: never) => void; reject: (e: Error) => void }>();
   private nextAsk = 0;
   private readonly makeWorker: (() => FiguresWorkerLike) | undefined;
 
@@ -191,12 +193,30 @@ export class CostingService extends EventTarget {
         return Promise.reject(e instanceof Error ? e : new Error(String(e)));
       }
     }
+    return this.ask<WhatIfAnswer>((id) => ({ type: 'whatif', id, ...request }));
+  }
+
+  /** How every variant of the Book resolves `line` (new, or edited and not saved): the Build page's trial. */
+  trialLine(line: BuildLine): Promise<LineOutcome[]> {
+    this.sync();
+    if (!this.makeWorker) {
+      try {
+        return Promise.resolve(trialOutcomes(this.local!.current!, line));
+      } catch (e) {
+        return Promise.reject(e instanceof Error ? e : new Error(String(e)));
+      }
+    }
+    return this.ask<LineOutcome[]>((id) => ({ type: 'trial', id, line }));
+  }
+
+  /** Sends the worker a question; its answer (in order after every change sent before it) settles the promise. */
+  private ask<T>(request: (id: number) => FiguresRequest): Promise<T> {
     const worker = this.worker;
     if (!worker) return Promise.reject(new Error(this.costingError ?? 'the figures worker is not running'));
     const id = ++this.nextAsk;
-    return new Promise((resolve, reject) => {
-      this.asked.set(id, { resolve, reject });
-      worker.postMessage({ type: 'whatif', id, ...request });
+    return new Promise<T>((resolve, reject) => {
+      this.asked.set(id, { resolve: resolve as (a: never) => void, reject });
+      worker.postMessage(request(id));
     });
   }
 
@@ -276,10 +296,11 @@ export class CostingService extends EventTarget {
   }
 
   private answered(m: FiguresMessage): void {
-    if (m.type === 'whatif') {
+    if (m.type === 'whatif' || m.type === 'trial' || m.type === 'refused') {
       const ask = this.asked.get(m.id);
       this.asked.delete(m.id);
-      ask?.resolve(m.answer);
+      if (m.type === 'refused') ask?.reject(new Error(m.message));
+      else ask?.resolve((m.type === 'whatif' ? m.answer : m.outcomes) as never);
       return;
     }
     if (m.seq !== this.seq) return;

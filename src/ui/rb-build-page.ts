@@ -12,7 +12,7 @@ import { BookController } from './book-context.ts';
 import { CostingService } from './costing-service.ts';
 import { field, fieldId, focusFirstProblem, formulaField, nothingSaved } from './form-fields.ts';
 import type { FieldProblems } from './record-forms.ts';
-import { buildLineDraft, lineOutcomes, moveLine, orderedLines, trialLine, validateBuildLine } from './build-rules.ts';
+import { buildLineDraft, lineOutcomes, moveLine, orderedLines, trialProblems, validateBuildLine } from './build-rules.ts';
 import type { BuildLineDraft, LineOutcome } from './build-rules.ts';
 import type { NoticeDetail } from './rb-book-menu.ts';
 import type { NameHint } from './rb-formula-input.ts';
@@ -145,6 +145,8 @@ export class RbBuildPage extends LitElement {
   private readonly drawnLines = new ProgressiveRows(this);
   private readonly drawnBom = new ProgressiveRows(this);
   private family: FamilyResolution | undefined;
+  /** Each line's outcome for every variant, worked out once per Book and resolution. */
+  private outcomes = new Map<string, LineOutcome[]>();
   private familyBook: Book | undefined;
   /** The figures' version the resolved lines were read at (they arrive from the worker after the Book changes). */
   private familyVersion = -1;
@@ -172,6 +174,7 @@ export class RbBuildPage extends LitElement {
     if (book === this.familyBook && costing.version === this.familyVersion) return;
     // The shared service keeps the family resolved as the Book changes; the Family and Compare pages read the same.
     this.family = costing.resolution();
+    this.outcomes = lineOutcomes(book, this.family);
     this.familyVersion = costing.version;
     this.familyBook = book;
     this.names = ruleNames(book);
@@ -244,7 +247,8 @@ export class RbBuildPage extends LitElement {
   private renderLine(book: Book, family: FamilyResolution, l: BuildLine, index: number, count: number): TemplateResult {
     const part = l.partId ? book.parts.find((p) => p.id === l.partId) : undefined;
     const pin = l.pinnedSupplierId ? book.suppliers.find((s) => s.id === l.pinnedSupplierId) : undefined;
-    const outcomes = lineOutcomes(book, family, l.id);
+    void family;
+    const outcomes = this.outcomes.get(l.id) ?? [];
     const bad = outcomes.filter((o) => o.problem !== undefined);
     const applying = outcomes.filter((o) => o.applies && o.problem === undefined).length;
     const confirming = this.confirmDelete === l.id;
@@ -392,19 +396,27 @@ export class RbBuildPage extends LitElement {
     this.timer = setTimeout(() => this.runPreview(), 250);
   }
 
-  /** Tries the draft on every variant; text problems and rule failures go beside their fields. */
-  private runPreview(): FieldProblems {
+  /** Tries the draft on every variant (off the page's thread) and shows how each resolves it beside the form. */
+  private runPreview(): void {
     const book = this.books.book;
+    const service = this.books.service;
     const e = this.editing;
-    if (!book || !e) return {};
+    if (!book || !service || !e) return;
     const v = validateBuildLine(e.draft, book, e.line, () => 'line_draft');
     if (!v.ok) {
       this.editing = { ...e, preview: [] };
-      return v.problems;
+      return;
     }
-    const trial = trialLine(book, v.record);
-    this.editing = { ...e, preview: trial.outcomes };
-    return trial.problems;
+    const draft = e.draft;
+    CostingService.for(service)
+      .trialLine(v.record)
+      .then(
+        (outcomes) => {
+          // Only while the same draft is still being edited.
+          if (this.editing?.draft === draft) this.editing = { ...this.editing, preview: outcomes };
+        },
+        () => undefined,
+      );
   }
 
   private async submit(ev: Event): Promise<void> {
@@ -425,13 +437,20 @@ export class RbBuildPage extends LitElement {
       await focusFirstProblem(this);
       return;
     }
-    const trial = trialLine(book, v.record);
-    if (Object.keys(trial.problems).length > 0) {
-      this.editing = { ...e, problems: trial.problems, preview: trial.outcomes };
+    let outcomes: LineOutcome[];
+    try {
+      outcomes = await CostingService.for(service).trialLine(v.record);
+    } catch (err) {
+      this.editing = { ...e, saveError: `The line could not be tried on the variants; nothing was saved: ${err instanceof Error ? err.message : String(err)}` };
+      return;
+    }
+    const problems = trialProblems(outcomes);
+    if (Object.keys(problems).length > 0) {
+      this.editing = { ...e, problems, preview: outcomes };
       await focusFirstProblem(this);
       return;
     }
-    this.editing = { ...e, problems: {}, preview: trial.outcomes };
+    this.editing = { ...e, problems: {}, preview: outcomes };
     const result = await service.save({ put: { buildLines: [v.record] } });
     if (result.ok) {
       this.editing = undefined;

@@ -15,6 +15,7 @@ import { costVariant } from '../../src/io/run-export.ts';
 import { FiguresHost } from '../../src/engine/figures-worker.ts';
 import { splitUpdate } from '../../src/engine/figures.ts';
 import type { FiguresMessage, FiguresRequest } from '../../src/engine/figures-worker.ts';
+import { trialProblems } from '../../src/ui/build-rules.ts';
 import { CostingService, setFiguresWorker } from '../../src/ui/costing-service.ts';
 import type { FiguresWorkerLike } from '../../src/ui/costing-service.ts';
 
@@ -333,5 +334,41 @@ describe('What-if figures for the Compare page', () => {
     const [inWorker, inProcess] = await Promise.all([costing.whatIf(request), local.costing.whatIf(request)]);
     expect(inWorker).toEqual(inProcess);
     expect(inWorker.figures.every((f) => Number.isFinite(f.value))).toBe(true);
+  });
+});
+
+describe('Trying a build line on every variant', () => {
+  it('gives each variant the line resolves for, and names the variants whose rules fail, in the worker as in-process', async () => {
+    const local = start();
+    const workers: FakeWorker[] = [];
+    setFiguresWorker(() => {
+      const w = new FakeWorker();
+      workers.push(w);
+      return w;
+    });
+    let inWorker: CostingService;
+    try {
+      inWorker = CostingService.for(new Holder(addBuiltInChecks(demoBook(), CHECKS)));
+    } finally {
+      setFiguresWorker(undefined);
+    }
+    await settled(inWorker);
+    const book = local.holder.book;
+    const base = book.buildLines[0]!;
+    // Two per step on the variants with more than four steps; an unknown name elsewhere.
+    const line = { ...base, id: 'line_trial', qtyRule: 'IF(steps > 4, 2 * steps, nosuch)' };
+    const [a, b] = await Promise.all([local.costing.trialLine(line), inWorker.trialLine(line)]);
+    expect(a).toEqual(b);
+    expect(a.map((o) => o.variantId)).toEqual(book.variants.map((v) => v.id));
+    for (const o of a) {
+      const steps = Number(book.variants.find((v) => v.id === o.variantId)!.params['steps']);
+      if (steps > 4) {
+        expect(o.problem).toBeUndefined();
+        expect(o.qtyPerUnit).toBe(2 * steps);
+      } else expect(o.problem).toMatch(/nosuch/);
+    }
+    const problems = trialProblems(a);
+    const failing = book.variants.filter((v) => Number(v.params['steps']) <= 4).map((v) => v.code);
+    expect(problems.qtyRule).toContain(failing.join(', '));
   });
 });

@@ -1,0 +1,61 @@
+// How each variant resolves one build line: for the Build page's per-line summary (read from the live resolution)
+// and for trying a line being edited on every variant before it is saved (run where the live figures run, so the
+// family workbook a trial needs is never built on the page's thread).
+import type { Book, BuildLine } from '../domain/book.ts';
+import { resolveFamily } from './family.ts';
+import type { FamilyResolution } from './family.ts';
+
+/** How one line stands for one variant, for the preview beside the form and the per-variant BOM. */
+export interface LineOutcome {
+  variantId: string;
+  variantCode: string;
+  applies: boolean;
+  partId: string | null;
+  mpn: string;
+  qtyPerUnit: number;
+  problem?: string;
+}
+
+/** The Book with `line` put in (replacing the line of the same id). */
+export function withLine(book: Book, line: BuildLine): Book {
+  return { ...book, buildLines: [...book.buildLines.filter((l) => l.id !== line.id), line] };
+}
+
+/** Each variant's outcome for every line (or the lines named), read from a family resolution in one pass. */
+export function lineOutcomes(book: Book, family: FamilyResolution, only?: ReadonlySet<string>): Map<string, LineOutcome[]> {
+  const mpn = new Map(book.parts.map((p) => [p.id, p.mpn] as const));
+  const out = new Map<string, LineOutcome[]>();
+  const lineIds = only ? [...only] : book.buildLines.map((l) => l.id);
+  for (const id of lineIds) out.set(id, []);
+  for (const v of family.variants) {
+    const lines = new Map(v.lines.map((l) => [l.lineId, l] as const));
+    const problems = new Map<string, string[]>();
+    for (const p of v.problems) {
+      if (!out.has(p.lineId)) continue;
+      const list = problems.get(p.lineId) ?? [];
+      list.push(p.message);
+      problems.set(p.lineId, list);
+    }
+    for (const [lineId, list] of out) {
+      const l = lines.get(lineId);
+      const o: LineOutcome = {
+        variantId: v.variantId,
+        variantCode: v.variantCode,
+        applies: l?.applies ?? false,
+        partId: l?.partId ?? null,
+        mpn: l?.partId ? (mpn.get(l.partId) ?? l.partId) : '',
+        qtyPerUnit: l?.qtyPerUnit ?? 0,
+      };
+      const p = problems.get(lineId);
+      if (p) o.problem = p.join('; ');
+      list.push(o);
+    }
+  }
+  return out;
+}
+
+/** Tries a line (new or edited) on every variant of the Book. */
+export function trialOutcomes(book: Book, line: BuildLine): LineOutcome[] {
+  const trial = withLine(book, line);
+  return lineOutcomes(trial, resolveFamily(trial), new Set([line.id])).get(line.id)!;
+}
