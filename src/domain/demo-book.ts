@@ -72,9 +72,16 @@ function suppliers(): Supplier[] {
   return [
     s('sup_halvern', 'Halvern Component Supply', 'EUR', 'Broad-line distributor; cut tape from 10 pieces, next-day to the works.'),
     s('sup_kelvaro', 'Kelvaro Parts Direct', 'USD', 'Semiconductors and ICs; quotes in USD, ships in 4–8 weeks.'),
-    s('sup_brindle', 'Brindlecote Electronics', 'GBP', 'Passives and electromechanical parts; price lists per 100 for resistors.'),
+    // Invented landed terms: parcels from abroad with import duty and a bank charge per payment, and a board maker
+    // whose carriage is a share of the order.
+    {
+      ...s('sup_brindle', 'Brindlecote Electronics', 'GBP', 'Passives and electromechanical parts; price lists per 100 for resistors.'),
+      freightPerOrder: { amount: 25, currency: 'GBP' },
+      dutyPct: 2.7,
+      chargesPerOrder: { amount: 6, currency: 'EUR' },
+    },
     s('sup_nebrin', 'Nebrin Plastics', 'EUR', 'Moulds our wall-box fronts, knobs and button caps; tooling already paid.'),
-    s('sup_ostrel', 'Ostrel Boards', 'EUR', 'Bare boards to our drawings; panelised, 1.6 mm FR-4, 35 µm copper.'),
+    { ...s('sup_ostrel', 'Ostrel Boards', 'EUR', 'Bare boards to our drawings; panelised, 1.6 mm FR-4, 35 µm copper.'), freightPct: 1.5 },
     s('sup_yarvelle', 'Yarvelle Packaging', 'EUR', 'Printed retail boxes and instruction leaflets.'),
   ];
 }

@@ -41,8 +41,12 @@ describe('rungbook cost', () => {
     const json = JSON.parse(io.stdout) as Record<string, unknown> & { lines: Record<string, unknown>[]; materialRun: number; unitCost: number };
     for (const k of ['variant', 'run', 'currency', 'lines', 'material', 'labour', 'overhead', 'unitCost', 'runTotal']) expect(json).toHaveProperty(k);
     for (const k of ['designators', 'mpn', 'need', 'buy', 'supplier', 'unitPrice', 'extended', 'leftover']) expect(json.lines[0]).toHaveProperty(k);
-    const cents = json.lines.reduce((s, l) => s + Math.round((l['extendedBase'] as number) * 100), 0);
+    // Run material is the goods plus their landed cost (freight, duty, charges), line by line.
+    const lineCents = (l: Record<string, unknown>, k: string): number => Math.round(((l[k] as number | undefined) ?? 0) * 100);
+    const cents = json.lines.reduce((s, l) => s + ['extendedBase', 'freight', 'duty', 'charges'].reduce((t, k) => t + lineCents(l, k), 0), 0);
     expect(Math.round(json.materialRun * 100)).toBe(cents);
+    const landed = json.lines.reduce((s, l) => s + ['freight', 'duty', 'charges'].reduce((t, k) => t + lineCents(l, k), 0), 0);
+    expect(Math.round((json['landedRun'] as number) * 100)).toBe(landed);
     expect(io.stderr).toMatch(/Caution/);
     expect(io.stdout).not.toMatch(/Caution/);
   });
@@ -140,11 +144,13 @@ describe('rungbook buy', () => {
       if (i > 0 && order[i] !== order[i - 1]) expect(seen.has(order[i]!)).toBe(false);
       seen.add(order[i]!);
     }
-    // The whole list costs what the costed BOM's run material says.
+    // The whole list costs what the costed BOM's run material says, less its landed cost (the suppliers' prices
+    // alone: freight, duty and charges are not on their order lines).
     const cost = captureIo();
     await main(['cost', demoFile, '--variant', 'FR3-40-CD', '--run', '500', '--json'], cost);
     const listCents = body.reduce((s, r) => s + Math.round(Number(r[at('line_price_EUR')]) * 100), 0);
-    expect(listCents).toBe(Math.round((JSON.parse(cost.stdout) as { materialRun: number }).materialRun * 100));
+    const run = JSON.parse(cost.stdout) as { materialRun: number; landedRun: number };
+    expect(listCents).toBe(Math.round(run.materialRun * 100) - Math.round(run.landedRun * 100));
   });
 
   it('prints a table per supplier with the caution at the end, and says when no date wanted is known', async () => {
