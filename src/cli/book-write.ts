@@ -3,6 +3,9 @@ import { rename, rm, writeFile } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
 import { COLLECTIONS } from '../domain/book.ts';
 import type { Book } from '../domain/book.ts';
+import { applyChange } from '../domain/book-ops.ts';
+import type { BookChange } from '../domain/book-ops.ts';
+import { checkBook } from '../domain/schema.ts';
 import { serializeBook } from '../io/book-file.ts';
 import { formatProblems, readBookFile } from './book-read.ts';
 
@@ -27,4 +30,16 @@ export async function writeBookSafely(path: string, book: Book): Promise<string 
   } finally {
     await rm(temp, { force: true });
   }
+}
+
+/**
+ * Applies a change to a Book read from a file and writes the result to `out` safely. The changed Book must pass the
+ * Book's checks first. Returns the Book written, or why nothing was written.
+ */
+export async function writeChange(book: Book, change: BookChange, out: string): Promise<{ ok: true; book: Book } | { ok: false; why: string }> {
+  const next = applyChange(book, change);
+  const checked = next.ok ? checkBook(next.book) : undefined;
+  if (!checked?.ok) return { ok: false, why: 'the change would leave a Book that does not read' };
+  const written = await writeBookSafely(out, checked.value);
+  return written ? { ok: false, why: `${out} is as it was: ${written}` } : { ok: true, book: checked.value };
 }

@@ -1,6 +1,6 @@
 // Orders page: the orders placed with suppliers, their lines and what has come in; receive an order whole or line by
 // line in part (each receipt a stock movement), or cancel what is still to come (the order stays as history).
-import { LitElement, css, html } from 'lit';
+import { LitElement, html } from 'lit';
 import { customElement, state } from 'lit/decorators.js';
 import type { Book, Order } from '../domain/book.ts';
 import type { BookChange } from '../domain/book-ops.ts';
@@ -9,30 +9,12 @@ import { grouped, money } from '../domain/format.ts';
 import { cancelOrder, isOpen, outstanding, receive, receiveAll } from '../domain/orders.ts';
 import type { Outcome } from '../domain/stock.ts';
 import { BookController } from './book-context.ts';
+import { buyingStyles } from './buying-styles.ts';
 import { pageStyles, problemStyles } from './styles.ts';
 
 @customElement('rb-orders-page')
 export class RbOrdersPage extends LitElement {
-  static override styles = [
-    pageStyles,
-    problemStyles,
-    css`
-      .order {
-        border-top: 1px solid var(--rule, #ccc);
-        margin-top: 0.75rem;
-        padding-top: 0.5rem;
-      }
-      .order h3 {
-        font-size: 1rem;
-        margin: 0 0 0.25rem;
-      }
-      input.qty {
-        width: 7em;
-        font: inherit;
-        text-align: right;
-      }
-    `,
-  ];
+  static override styles = [pageStyles, problemStyles, buyingStyles];
 
   private readonly books = new BookController(this);
   @state() private date = todayIso();

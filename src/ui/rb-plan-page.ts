@@ -1,7 +1,7 @@
 // Plan page: the planned runs wanted within the horizon planned together — each run's date wanted, the date its
 // parts must be in and the part that limits it; per part the gross need, stock, open orders in time and net need;
 // and the orders to place per supplier, each placed in one step. A run marked built issues its parts from stock.
-import { LitElement, css, html } from 'lit';
+import { LitElement, html } from 'lit';
 import { customElement, state } from 'lit/decorators.js';
 import type { Book, Run } from '../domain/book.ts';
 import { todayIso, isIsoDate } from '../domain/dates.ts';
@@ -14,44 +14,12 @@ import { partStatus, planBook, runNeeds } from '../io/plan-export.ts';
 import { BookController } from './book-context.ts';
 import './rb-plan-settings.ts';
 import './rb-run-stock.ts';
+import { buyingStyles } from './buying-styles.ts';
 import { pageStyles, problemStyles } from './styles.ts';
 
 @customElement('rb-plan-page')
 export class RbPlanPage extends LitElement {
-  static override styles = [
-    pageStyles,
-    problemStyles,
-    css`
-      .controls {
-        display: flex;
-        gap: 1.5rem;
-        align-items: end;
-        flex-wrap: wrap;
-        margin: 0 0 0.75rem;
-      }
-      .controls label {
-        display: grid;
-        gap: 0.2rem;
-        font-size: 0.9rem;
-      }
-      .controls input {
-        font: inherit;
-        padding: 0.2rem 0.4rem;
-      }
-      .flag {
-        white-space: nowrap;
-      }
-      .order {
-        border-top: 1px solid var(--rule, #ccc);
-        margin-top: 0.75rem;
-        padding-top: 0.5rem;
-      }
-      .order h3 {
-        font-size: 1rem;
-        margin: 0 0 0.25rem;
-      }
-    `,
-  ];
+  static override styles = [pageStyles, problemStyles, buyingStyles];
 
   private readonly books = new BookController(this);
   @state() private date = todayIso();
@@ -89,7 +57,7 @@ export class RbPlanPage extends LitElement {
           an order must go by that date less the supplier's lead time. Needs are met in date order from stock on hand,
           then from open orders due in time; the rest is the net need.
         </p>
-        <div class="controls">
+        <div class="fieldrow">
           <label>plan date <input type="date" name="plan-date" .value=${this.date} @change=${(e: Event) => (this.date = (e.target as HTMLInputElement).value)} /></label>
           <label
             >horizon (days)

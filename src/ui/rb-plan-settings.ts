@@ -1,38 +1,19 @@
 // The planning and order settings of the Book (order number prefix and next number, kitting and assembly days, safety
 // days, planning horizon, how stock is valued in a run's costing), edited as part of the settings record.
-import { LitElement, css, html } from 'lit';
+import { LitElement, html } from 'lit';
 import { customElement, state } from 'lit/decorators.js';
 import type { StockValuation } from '../domain/book.ts';
 import { BookController } from './book-context.ts';
 import { draftOf, readPlanSettings } from './plan-settings-form.ts';
 import type { PlanSettingsDraft } from './plan-settings-form.ts';
+import { buyingStyles } from './buying-styles.ts';
 import { pageStyles, problemStyles } from './styles.ts';
 
 const VALUATIONS: Record<StockValuation, string> = { lastPaid: 'last price paid', quote: "today's quote" };
 
 @customElement('rb-plan-settings')
 export class RbPlanSettings extends LitElement {
-  static override styles = [
-    pageStyles,
-    problemStyles,
-    css`
-      .fields {
-        display: flex;
-        flex-wrap: wrap;
-        gap: 1rem;
-        align-items: start;
-      }
-      .fields label {
-        display: grid;
-        gap: 0.2rem;
-        font-size: 0.9rem;
-      }
-      .fields input,
-      .fields select {
-        font: inherit;
-      }
-    `,
-  ];
+  static override styles = [pageStyles, problemStyles, buyingStyles];
 
   private readonly books = new BookController(this);
   @state() private draft: PlanSettingsDraft | undefined;
@@ -54,7 +35,7 @@ export class RbPlanSettings extends LitElement {
       <h2 id="plan-settings-h">Planning and order settings</h2>
       <p class="why">Kept with the Book's costing settings. Stock taken by a run is valued at the rule chosen here.</p>
       ${this.note ? html`<p class=${this.note.bad ? 'problem' : 'notice'} role=${this.note.bad ? 'alert' : 'status'}>${this.note.text}</p>` : ''}
-      <form class="fields" novalidate aria-label="Planning settings" @submit=${(e: Event) => this.save(e, d)}>
+      <form class="fieldrow" novalidate aria-label="Planning settings" @submit=${(e: Event) => this.save(e, d)}>
         ${input('orderPrefix', 'order number prefix')} ${input('nextOrderNumber', 'next order number')} ${input('kittingDays', 'kitting and assembly days')}
         ${input('safetyDays', 'safety days')} ${input('horizonDays', 'horizon (days)')}
         <label

@@ -1,7 +1,7 @@
 // Stock page: on hand per part as the sum of its movements, each part's history, a form to record a count, a receipt
 // not on an order, scrap or a correction, and a stock count file (part numbers and counts) recorded all or nothing,
 // with an undo of the last count recorded here.
-import { LitElement, css, html } from 'lit';
+import { LitElement, html } from 'lit';
 import { customElement, state } from 'lit/decorators.js';
 import type { Book, Part, StockMoveKind } from '../domain/book.ts';
 import type { BookChange } from '../domain/book-ops.ts';
@@ -12,6 +12,7 @@ import { onHandByPart, partHistory, recordMove, stockCount } from '../domain/sto
 import type { CountResult, Outcome } from '../domain/stock.ts';
 import { readStockCount } from '../io/plan-export.ts';
 import { BookController } from './book-context.ts';
+import { buyingStyles } from './buying-styles.ts';
 import { pageStyles, problemStyles } from './styles.ts';
 
 /** What the form records, in the words on screen. */
@@ -25,27 +26,7 @@ type EntryKind = keyof typeof ENTRY_KINDS;
 
 @customElement('rb-stock-page')
 export class RbStockPage extends LitElement {
-  static override styles = [
-    pageStyles,
-    problemStyles,
-    css`
-      .entry {
-        display: flex;
-        gap: 1rem;
-        flex-wrap: wrap;
-        align-items: end;
-      }
-      .entry label {
-        display: grid;
-        gap: 0.2rem;
-        font-size: 0.9rem;
-      }
-      .entry input,
-      .entry select {
-        font: inherit;
-      }
-    `,
-  ];
+  static override styles = [pageStyles, problemStyles, buyingStyles];
 
   private readonly books = new BookController(this);
   @state() private selected: string | undefined;
@@ -105,7 +86,7 @@ export class RbStockPage extends LitElement {
       <h2 id="entry-h">Record a movement</h2>
       <p class="why">A count writes the difference from the ledger; scrap takes parts out; a correction may go either way.</p>
       ${this.message ? html`<p class=${this.message.bad ? 'problem' : 'notice'} role=${this.message.bad ? 'alert' : 'status'}>${this.message.text}</p>` : ''}
-      <form class="entry" novalidate @submit=${(ev: Event) => this.submit(ev, book)} aria-label="Stock movement">
+      <form class="fieldrow" novalidate @submit=${(ev: Event) => this.submit(ev, book)} aria-label="Stock movement">
         <label
           >part
           <select name="part" .value=${e.partId} @change=${(ev: Event) => set({ partId: (ev.target as HTMLSelectElement).value })}>

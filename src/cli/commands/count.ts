@@ -2,13 +2,12 @@
 // movement of the difference from its ledger; all rows or none. The file is replaced only by a Book that reads back.
 import { readFile } from 'node:fs/promises';
 import { basename } from 'node:path';
-import { applyChange } from '../../domain/book-ops.ts';
 import { isIsoDate, todayIso } from '../../domain/dates.ts';
-import { checkBook, LIMITS } from '../../domain/schema.ts';
+import { LIMITS } from '../../domain/schema.ts';
 import { stockCount } from '../../domain/stock.ts';
 import { readStockCount } from '../../io/plan-export.ts';
 import { loadBook } from '../book-read.ts';
-import { writeBookSafely } from '../book-write.ts';
+import { writeChange } from '../book-write.ts';
 import { parseArgs } from '../command.ts';
 import type { CliCommand, CommandIo } from '../command.ts';
 import { shown } from '../terminal.ts';
@@ -68,16 +67,10 @@ async function run(args: string[], io: CommandIo): Promise<number> {
     io.err(`rungbook count: nothing written: ${shown(counted.error)}`);
     return 1;
   }
-  const next = applyChange(book, counted.value.change);
-  const checked = next.ok ? checkBook(next.book) : undefined;
-  if (!checked?.ok) {
-    io.err('rungbook count: nothing written: the count would leave a Book that does not read');
-    return 1;
-  }
   const out = typeof parsed.options.get('out') === 'string' ? (parsed.options.get('out') as string) : path;
-  const written = await writeBookSafely(out, checked.value);
-  if (written) {
-    io.err(`rungbook count: nothing written, ${out} is as it was: ${written}`);
+  const written = await writeChange(book, counted.value.change, out);
+  if (!written.ok) {
+    io.err(`rungbook count: nothing written: ${written.why}`);
     return 1;
   }
   const mpn = new Map(book.parts.map((p) => [p.id, p.mpn] as const));

@@ -2,10 +2,8 @@
 // receipt is a stock movement on its order line. The file is replaced only by a Book that reads back whole.
 import { isIsoDate, todayIso } from '../../domain/dates.ts';
 import { receive, receiveAll } from '../../domain/orders.ts';
-import { applyChange } from '../../domain/book-ops.ts';
-import { checkBook } from '../../domain/schema.ts';
 import { loadBook } from '../book-read.ts';
-import { writeBookSafely } from '../book-write.ts';
+import { writeChange } from '../book-write.ts';
 import { parseArgs } from '../command.ts';
 import type { CliCommand, CommandIo } from '../command.ts';
 import { shown } from '../terminal.ts';
@@ -69,19 +67,13 @@ async function run(args: string[], io: CommandIo): Promise<number> {
     io.err(`rungbook receive: nothing written: ${shown(change.error)}`);
     return 1;
   }
-  const next = applyChange(book, change.value);
-  const checked = next.ok ? checkBook(next.book) : undefined;
-  if (!checked?.ok) {
-    io.err('rungbook receive: nothing written: the receipt would leave a Book that does not read');
-    return 1;
-  }
   const out = typeof parsed.options.get('out') === 'string' ? (parsed.options.get('out') as string) : path;
-  const written = await writeBookSafely(out, checked.value);
-  if (written) {
-    io.err(`rungbook receive: nothing written, ${out} is as it was: ${written}`);
+  const written = await writeChange(book, change.value, out);
+  if (!written.ok) {
+    io.err(`rungbook receive: nothing written: ${written.why}`);
     return 1;
   }
-  const after = checked.value.orders.find((o) => o.id === order.id)!;
+  const after = written.book.orders.find((o) => o.id === order.id)!;
   io.out(`order ${shown(after.number)} is ${after.status}; received on ${date}:`);
   for (const m of change.value.put?.stockMoves ?? []) {
     const line = after.lines[m.orderLine!]!;
