@@ -25,7 +25,7 @@
 // uses the need computed at open, so editing quantities, attrition or rules also means reopening; prices, rates,
 // cost settings and overrides are live. The price is derived on reading: unit cost / (1 − margin).
 import type { CellValue, ExportedChange, HyperFormula, SimpleCellAddress } from 'hyperformula';
-import type { Book, CurrencyCode, Quote } from '../domain/book.ts';
+import type { Book, BuildLine, CurrencyCode, Quote } from '../domain/book.ts';
 import {
   costVariantRun,
   candidateQuotes,
@@ -112,11 +112,77 @@ function errorText(v: CellValue): string | undefined {
   return undefined;
 }
 
+/** How the Demand sheet is laid out: the Quotes rows of each part (and part + pinned supplier), and its cells by need. */
+interface DemandLayout {
+  span: ReadonlyMap<string, [number, number]>;
+  lastQuoteCol: string;
+  perOrder: boolean;
+  /** Demand row of each (part, pinned supplier, need). */
+  index: Map<string, number>;
+  /** Adds a Demand row; gives its index. */
+  add(row: string[]): number;
+}
+
+/**
+ * A variant's cells at one run size (variant row `row`, run column `k`) from the cents cells it buys from: its unit
+ * cost, its material (kept to expand the row for overrides) and, when suppliers charge per order (`suppliers` rows),
+ * its OrderCosts cell, which the unit cost then adds.
+ */
+function runCells(
+  run: number,
+  k: number,
+  row: number,
+  placements: number,
+  cents: readonly string[],
+  problem: string | undefined,
+  suppliers: number | undefined,
+): { cost: string; material: string; order?: string } {
+  const refs = [...cents];
+  let order: string | undefined;
+  if (suppliers !== undefined) {
+    order = `=COST_ORDERS(${SHEETS.suppliers}!$A$1:$B$${suppliers},${refs.length ? refs.map(tokenRef).join(',') : '""'})`;
+    refs.push(`${SHEETS.orders}!$${columnLetters(k)}$${row + 1}`);
+  }
+  const args = refs.map((x) => ',' + x).join('');
+  const material = problem !== undefined ? `=COST_PROBLEM("${quoteFormulaText(problem)}")` : `=COST_MATERIAL(${run}${args})`;
+  const cost = problem !== undefined ? material : `=COST_RUN(${run},${placements},${SETTINGS_RANGE}${args})`;
+  return order === undefined ? { cost, material } : { cost, material, order };
+}
+
+/**
+ * The Demand cells that a set of lines buys from at one run size — one per part (and pinned supplier) at its need,
+ * added when not there yet — and the first problem (a line that cannot be costed, a part with no usable quote).
+ */
+function demandCells(ctx: CostingContext, lines: readonly ResolvedLine[], run: number, layout: DemandLayout): { cells: string[]; problem?: string } {
+  const { demands, problems } = variantDemands(ctx, lines, run);
+  const cells: string[] = [];
+  let problem = problems[0] ? `${problems[0].designators || problems[0].lineId}: ${problems[0].message}` : undefined;
+  for (const d of demands) {
+    const key = d.pinnedSupplierId === undefined ? d.partId : `${d.partId}\u0000${d.pinnedSupplierId}`;
+    const sp = layout.span.get(key);
+    if (!sp) {
+      const part = ctx.parts.get(d.partId)!;
+      const why = candidateQuotes(ctx, d.partId, d.pinnedSupplierId).map((p) => `quote ${p.quote.id} ${p.unusable ?? ''}`.trim());
+      problem ??= `${d.designators.join(', ')}: no usable quote for ${part.mpn}${why.length ? ` (${why.join('; ')})` : ''}`;
+      continue;
+    }
+    const dkey = `${key}\u0000${d.need}`;
+    let dr = layout.index.get(dkey);
+    if (dr === undefined) {
+      const range = `${SHEETS.quotes}!$A$${sp[0] + 1}:$${layout.lastQuoteCol}$${sp[1] + 1}`;
+      dr = layout.add(layout.perOrder ? [`=COST_BEST(${d.need},${range})`, `=COST_BEST_SUPPLIER(${d.need},${range})`] : [`=COST_BEST(${d.need},${range})`]);
+      layout.index.set(dkey, dr);
+    }
+    cells.push(`${SHEETS.demand}!$A$${dr + 1}`);
+  }
+  return problem === undefined ? { cells } : { cells, problem };
+}
+
 export class CostingWorkbook {
   /** The engine; exposed for the app's formula bar and for tests. */
   readonly hf: HyperFormula;
   readonly runSizes: readonly number[];
-  private readonly book: Book;
+  private book: Book;
   private readonly resolution: Resolution;
   private readonly date: string;
   private readonly sheet: Record<keyof typeof SHEETS, number>;
@@ -133,6 +199,11 @@ export class CostingWorkbook {
   private readonly quotes: Map<string, Quote>;
   private rates: Record<CurrencyCode, number>;
   private ctxCache: CostingContext | undefined;
+  /** Where Demand cells are found and added (kept from open, so lines can change in place). */
+  private layout: DemandLayout | undefined;
+  private demandRowCount = 0;
+  /** Suppliers rows (amounts per order), 0 when no supplier charges per order. */
+  private supplierCount = 0;
 
   private constructor(
     hf: HyperFormula,
@@ -295,7 +366,13 @@ export class CostingWorkbook {
     });
 
     const demandRows: string[][] = [];
-    const demandIndex = new Map<string, number>();
+    const layout: DemandLayout = {
+      span,
+      lastQuoteCol,
+      perOrder,
+      index: new Map(),
+      add: (row) => demandRows.push(row) - 1,
+    };
     const blockRows: string[][] = [];
     /** Per variant, per run size: block cells to add up, and the first problem. */
     const refs: string[][][] = variants.map(() => runSizes.map(() => []));
@@ -313,28 +390,7 @@ export class CostingWorkbook {
         const lines = blockLines.map((id) => rep.get(id)).filter((l): l is ResolvedLine => l !== undefined && l.error === undefined);
         for (let k = 0; k < runSizes.length; k++) {
           const run = runSizes[k]!;
-          const { demands, problems } = variantDemands(ctx, lines, run);
-          const cells: string[] = [];
-          let problem = problems[0] ? `${problems[0].designators || problems[0].lineId}: ${problems[0].message}` : undefined;
-          for (const d of demands) {
-            const key = d.pinnedSupplierId === undefined ? d.partId : `${d.partId}\u0000${d.pinnedSupplierId}`;
-            const sp = span.get(key);
-            if (!sp) {
-              const part = ctx.parts.get(d.partId)!;
-              const why = candidateQuotes(ctx, d.partId, d.pinnedSupplierId).map((p) => `quote ${p.quote.id} ${p.unusable ?? ''}`.trim());
-              problem ??= `${d.designators.join(', ')}: no usable quote for ${part.mpn}${why.length ? ` (${why.join('; ')})` : ''}`;
-              continue;
-            }
-            const dkey = `${key}\u0000${d.need}`;
-            let dr = demandIndex.get(dkey);
-            if (dr === undefined) {
-              dr = demandRows.length;
-              demandIndex.set(dkey, dr);
-              const range = `${SHEETS.quotes}!$A$${sp[0] + 1}:$${lastQuoteCol}$${sp[1] + 1}`;
-              demandRows.push(perOrder ? [`=COST_BEST(${d.need},${range})`, `=COST_BEST_SUPPLIER(${d.need},${range})`] : [`=COST_BEST(${d.need},${range})`]);
-            }
-            cells.push(`${SHEETS.demand}!$A$${dr + 1}`);
-          }
+          const { cells, problem } = demandCells(ctx, lines, run, layout);
           let ref: string | undefined;
           if (cells.length === 1) ref = cells[0]!;
           else if (cells.length > 1) {
@@ -366,15 +422,10 @@ export class CostingWorkbook {
       const material: string[] = [];
       const orderRow: string[] = [];
       for (let k = 0; k < runSizes.length; k++) {
-        const problem = missing[i]![k];
-        const cents = refs[i]![k]!;
-        if (perOrder) {
-          orderRow.push(`=COST_ORDERS(${SHEETS.suppliers}!$A$1:$B$${supplierRows.length},${cents.length ? cents.map(tokenRef).join(',') : '""'})`);
-          cents.push(`${SHEETS.orders}!$${columnLetters(k)}$${i + 1}`);
-        }
-        const args = cents.map((x) => ',' + x).join('');
-        material.push(problem !== undefined ? `=COST_PROBLEM("${quoteFormulaText(problem)}")` : `=COST_MATERIAL(${runSizes[k]}${args})`);
-        row.push(problem !== undefined ? material[k]! : `=COST_RUN(${runSizes[k]},${placements},${SETTINGS_RANGE}${args})`);
+        const cells = runCells(runSizes[k]!, k, i, placements, refs[i]![k]!, missing[i]![k], perOrder ? supplierRows.length : undefined);
+        if (cells.order !== undefined) orderRow.push(cells.order);
+        material.push(cells.material);
+        row.push(cells.cost);
       }
       plan.push({ placements, material });
       variantRows.push(row);
@@ -402,7 +453,56 @@ export class CostingWorkbook {
     wb.variantAt.push(...variantAt);
     for (const [k, v] of quoteRow) wb.quoteRow.set(k, v);
     for (const [k, v] of rateRow) wb.rateRow.set(k, v);
+    wb.layout = { ...layout, add: (row) => wb.addDemandRow(row) };
+    wb.supplierCount = supplierRows.length;
+    wb.demandRowCount = demandRows.length;
     return { ok: true, value: wb };
+  }
+
+  private addDemandRow(row: string[]): number {
+    const r = this.demandRowCount++;
+    row.forEach((formula, col) => this.hf.setCellContents({ sheet: this.sheet.demand, row: r, col }, formula));
+    return r;
+  }
+
+  /**
+   * Gives variants new resolved lines (a parameter or build-line edit changed what they are built from) without
+   * building the workbook again: their rows buy from Demand cells directly, with cells added for needs not costed
+   * yet. Gives the unit costs that changed, or an error when the layout cannot take it in place (overridden figures,
+   * an unknown variant) and the workbook must be opened again.
+   */
+  relineVariants(lines: ReadonlyMap<string, readonly ResolvedLine[]>, buildLines: readonly BuildLine[] = this.book.buildLines): Result<ChangedCost[]> {
+    const layout = this.layout;
+    if (!layout) return { ok: false, error: 'the workbook was not opened from a Book: open it again' };
+    for (const id of lines.keys()) {
+      const row = this.variantRow.get(id);
+      if (row === undefined) return { ok: false, error: `no variant with id ${id}` };
+      if (this.expanded.has(row)) return { ok: false, error: 'a variant with overridden figures: open the workbook again' };
+    }
+    if (buildLines !== this.book.buildLines) {
+      this.book = { ...this.book, buildLines: [...buildLines] };
+      this.ctxCache = undefined;
+    }
+    const ctx = this.context();
+    const sheet = this.sheet.variants;
+    const changes = this.hf.batch(() => {
+      for (const [id, resolved] of lines) {
+        const row = this.variantRow.get(id)!;
+        this.resolution.set(id, resolved);
+        const usable = resolved.filter((l) => l.error === undefined);
+        const placements = placementsPerUnit(ctx, resolved);
+        const material: string[] = [];
+        this.runSizes.forEach((run, k) => {
+          const { cells, problem } = demandCells(ctx, usable, run, layout);
+          const made = runCells(run, k, row, placements, cells, problem, layout.perOrder ? this.supplierCount : undefined);
+          if (made.order !== undefined) this.hf.setCellContents({ sheet: this.sheet.orders, row, col: k }, made.order);
+          material.push(made.material);
+          this.hf.setCellContents({ sheet, row, col: k }, made.cost);
+        });
+        this.plan[row] = { placements, material };
+      }
+    });
+    return { ok: true, value: this.changedCosts(changes) };
   }
 
   private runIndex(run: number): number {

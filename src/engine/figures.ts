@@ -223,9 +223,10 @@ export class LiveFigures {
     this.readLineKeys();
   }
 
-  private readLineKeys(): void {
-    this.lineKeys = new Map();
-    for (const v of this.family?.resolve().variants ?? []) this.lineKeys.set(v.variantId, JSON.stringify(v.lines));
+  /** Reads each variant's resolved lines as a key (of the variants named, after a parameter edit; else of all). */
+  private readLineKeys(only?: ReadonlySet<string>): void {
+    if (!only) this.lineKeys = new Map();
+    for (const v of this.family?.resolve().variants ?? []) if (!only || only.has(v.variantId)) this.lineKeys.set(v.variantId, JSON.stringify(v.lines));
   }
 
   private openCosting(book: Book): void {
@@ -251,31 +252,40 @@ export class LiveFigures {
     const diff = <C extends CollectionName>(c: C) => diffRecords<Book[C][number]>(prev[c], next[c]);
     const variants = diff('variants');
     const checks = diff('checks');
-    const structural = !empty(diff('parts')) || !empty(diff('buildLines')) || !empty(diff('suppliers'));
-    const familyRebuild = structural || !empty(checks) || variants.added.length > 0 || variants.removed.length > 0;
+    const lineDiff = diff('buildLines');
+    const partsOrSuppliers = !empty(diff('parts')) || !empty(diff('suppliers'));
+    const familyRebuild = partsOrSuppliers || !empty(lineDiff) || !empty(checks) || variants.added.length > 0 || variants.removed.length > 0;
 
     let familyTouched = familyRebuild;
-    let costingRebuild = structural || variants.added.length > 0 || variants.removed.length > 0;
-    const oldKeys = this.lineKeys;
+    let costingRebuild = partsOrSuppliers || variants.added.length > 0 || variants.removed.length > 0;
+    const oldKeys = new Map(this.lineKeys);
+    /** Variants whose build lines (or a line they fit) changed: their costs are worked out again in place. */
+    const moved = new Set<string>();
     if (familyRebuild) {
       this.openFamily(next);
+      for (const v of next.variants) if (oldKeys.get(v.id) !== this.lineKeys.get(v.id)) moved.add(v.id);
+      if (!empty(lineDiff)) {
+        // A line's designators, category, attrition or pinned supplier change its cost without changing how it
+        // resolves: the variants that fit it (before or after) are costed again too.
+        const touched = new Set([...lineDiff.added, ...lineDiff.removed, ...lineDiff.changed.map(([, b]) => b)].map((l) => l.id));
+        for (const v of next.variants) {
+          const before = JSON.parse(oldKeys.get(v.id) ?? '[]') as ResolvedLine[];
+          const after = JSON.parse(this.lineKeys.get(v.id) ?? '[]') as ResolvedLine[];
+          if ([...before, ...after].some((l) => touched.has(l.lineId) && l.applies)) moved.add(v.id);
+        }
+      }
     } else if (variants.changed.length > 0) {
       familyTouched = true;
       if (!this.editParams(variants.changed)) {
         this.openFamily(next);
         costingRebuild = true;
       } else {
-        this.readLineKeys();
-        for (const [, v] of variants.changed) if (oldKeys.get(v.id) !== this.lineKeys.get(v.id)) costingRebuild = true;
+        this.readLineKeys(new Set(variants.changed.map(([, v]) => v.id)));
+        for (const [, v] of variants.changed) if (oldKeys.get(v.id) !== this.lineKeys.get(v.id)) moved.add(v.id);
       }
-      // The costed BOM names the variant by its code, which the costing workbook copied at open.
-      if (variants.changed.some(([a, b]) => a.code !== b.code)) costingRebuild = true;
     }
-    if (familyRebuild && !costingRebuild) {
-      // New checks alone do not change what a variant is built from, but parameters saved with them may.
-      for (const v of next.variants) if (oldKeys.get(v.id) !== this.lineKeys.get(v.id)) costingRebuild = true;
-      if (variants.changed.some(([a, b]) => a.code !== b.code)) costingRebuild = true;
-    }
+    // The costed BOM names the variant by its code, which the costing workbook copied at open.
+    if (variants.changed.some(([a, b]) => a.code !== b.code)) costingRebuild = true;
     // A parameter edit moves only the edited variants' checks; a rebuilt family moves every variant's.
     const checkVariants = familyRebuild ? undefined : variants.changed.map(([, v]) => v.id);
 
@@ -307,6 +317,12 @@ export class LiveFigures {
     }
 
     const changed: ChangedCost[] = [];
+    if (!costingRebuild && moved.size > 0 && this.family) {
+      const lines = this.linesOf([...moved]);
+      const r = this.costing!.relineVariants(lines, next.buildLines);
+      if (r.ok) changed.push(...r.value);
+      else costingRebuild = true;
+    }
     if (!costingRebuild) {
       for (const edit of edits) {
         const r = edit();
@@ -322,7 +338,7 @@ export class LiveFigures {
       this.openCosting(next);
       return this.rebuilt(familyTouched, checkVariants);
     }
-    if (changed.length === 0 && !familyTouched && edits.length === 0) return this.answer({ kind: SYNC_KINDS.same, changed, checks: false }, [], false);
+    if (changed.length === 0 && !familyTouched && edits.length === 0 && moved.size === 0) return this.answer({ kind: SYNC_KINDS.same, changed, checks: false }, [], false);
     return this.answer({ kind: SYNC_KINDS.edited, changed, checks: familyTouched }, this.someCosts(changed), false, checkVariants);
   }
 

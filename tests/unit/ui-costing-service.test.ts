@@ -12,6 +12,7 @@ import { evaluateChecks, resolveFamily } from '../../src/engine/family.ts';
 import { addBuiltInChecks } from '../../src/engine/check-sheets.ts';
 import { loadBuiltInChecks } from '../../src/cli/check-sheets-fs.ts';
 import { costVariant } from '../../src/io/run-export.ts';
+import { referenceFamily } from '../fixtures/reference-family.ts';
 import { FiguresHost } from '../../src/engine/figures-worker.ts';
 import { splitUpdate } from '../../src/engine/figures.ts';
 import type { FiguresMessage, FiguresRequest } from '../../src/engine/figures-worker.ts';
@@ -100,7 +101,7 @@ describe('CostingService', () => {
     expect(live(costing, holder.book)).toEqual(fresh(holder.book));
   });
 
-  it('takes a parameter edit in place when the build lines stay the same, and rebuilds when they change', () => {
+  it('takes a parameter edit in place, also when it changes what the variant is built from', () => {
     const { holder, costing } = start();
     costing.sync();
     const v = holder.book.variants.find((x) => x.code === 'FR3-40-CD')!;
@@ -112,21 +113,48 @@ describe('CostingService', () => {
     expect(costing.worstStatus(v.id)).toBe(freshWorst(holder.book).get(v.id));
     expect(live(costing, holder.book)).toEqual(fresh(holder.book));
 
-    // One step more needs one more ladder resistor: the lines change and the costs are built again.
+    // One step more needs one more ladder resistor: the lines change, and only that variant's costs are worked out
+    // again (in place, with cells added for the new need), equal to a workbook opened afresh.
     const now = holder.book.variants.find((x) => x.id === v.id)!;
     holder.change({ put: { variants: [{ ...now, params: { ...now.params, steps: 4, r_s4: 47000 } }] } });
-    expect(costing.sync().kind).toBe('rebuilt');
+    const moved = costing.sync();
+    expect(moved.kind).toBe('edited');
+    expect(new Set(moved.changed.map((c) => c.variantId))).toEqual(new Set([v.id]));
     expect(live(costing, holder.book)).toEqual(fresh(holder.book));
   });
 
-  it('builds costs again when a check and a parameter that changes the lines are saved together', () => {
+  it('works costs out again when a check and a parameter that changes the lines are saved together', () => {
     const { holder, costing } = start();
     costing.sync();
     const v = holder.book.variants.find((x) => x.code === 'FR3-40-CD')!;
     const check = holder.book.checks[0]!;
     holder.change({ put: { checks: [{ ...check, note: `${check.note} (edited)` }], variants: [{ ...v, params: { ...v.params, steps: 4, r_s4: 47000 } }] } });
-    expect(costing.sync().kind).toBe('rebuilt');
+    expect(costing.sync().kind).toBe('edited');
     expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+  });
+
+  it('takes build line edits in place — a quantity, an attrition, a pinned supplier, a new line and a deleted one — and agrees with a fresh workbook', () => {
+    const { holder, costing } = start();
+    costing.sync();
+    const lines = holder.book.buildLines;
+    const fixed = lines.filter((l) => /^\d+$/.test(l.qtyRule) && l.partId !== undefined);
+    const [a, b, c] = [fixed[0]!, fixed[1]!, fixed[2]!];
+    const supplier = holder.book.quotes.find((q) => q.partId === c.partId)!.supplierId;
+    const edits: BookChange[] = [
+      { put: { buildLines: [{ ...a, qtyRule: String(Number(a.qtyRule) + 2) }] } },
+      { put: { buildLines: [{ ...b, attrition: 0.2 }] } },
+      { put: { buildLines: [{ ...c, pinnedSupplierId: supplier }] } },
+      { put: { buildLines: [{ ...a, id: 'line_added', rev: 0, position: 999, designators: 'X99', qtyRule: '3' }] } },
+      { delete: { buildLines: [b.id] } },
+    ];
+    for (const change of edits) {
+      const current = holder.book.buildLines;
+      const put = change.put?.buildLines?.map((l) => ({ ...l, rev: current.find((x) => x.id === l.id)?.rev ?? 0 }));
+      holder.change(put ? { put: { buildLines: put } } : change);
+      const r = costing.sync();
+      expect(r.kind).toBe('edited');
+      expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+    }
   });
 
   it('rebuilds when variants are added or deleted', () => {
@@ -370,5 +398,27 @@ describe('Trying a build line on every variant', () => {
     const problems = trialProblems(a);
     const failing = book.variants.filter((v) => Number(v.params['steps']) <= 4).map((v) => v.code);
     expect(problems.qtyRule).toContain(failing.join(', '));
+  });
+});
+
+describe('Edits in place on a large family', () => {
+  it('gives the reference family (200 variants × 80 lines) the same unit costs as a fresh workbook after parameter and line edits', () => {
+    const holder = new Holder(referenceFamily().book);
+    const costing = CostingService.for(holder);
+    costing.sync();
+    const pick = (i: number) => holder.book.variants[(i * 37) % holder.book.variants.length]!;
+    for (let i = 0; i < 4; i++) {
+      const v = pick(i);
+      const steps = Number(v.params['steps']);
+      // Steps and load choose parts and quantities in the reference family (per-step lines, load-chosen parts).
+      holder.change({ put: { variants: [{ ...v, params: { ...v.params, steps: steps >= 8 ? steps - 1 : steps + 1, load_w: Number(v.params['load_w']) >= 100 ? 60 : 150 } }] } });
+      const r = costing.sync();
+      expect(r.kind).toBe('edited');
+      expect(new Set(r.changed.map((c) => c.variantId))).toEqual(new Set([v.id]));
+    }
+    const line = holder.book.buildLines.find((l) => /^\d+$/.test(l.qtyRule) && l.appliesWhen === '')!;
+    holder.change({ put: { buildLines: [{ ...line, qtyRule: String(Number(line.qtyRule) + 1) }] } });
+    expect(costing.sync().kind).toBe('edited');
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
   });
 });
