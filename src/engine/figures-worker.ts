@@ -2,7 +2,7 @@
 // (seconds for a large family) and recomputing after an edit never hold up the page. The page sends the Book once,
 // then only what changed (a BookDelta); each answer is the FiguresUpdate of that step, posted in parts that each take
 // the page a few milliseconds to receive. The page's side is src/ui/costing-service.ts.
-import type { Book, BuildLine } from '../domain/book.ts';
+import type { Book, BuildLine, Quote } from '../domain/book.ts';
 import { applyBookDelta } from '../domain/book-ops.ts';
 import type { BookDelta } from '../domain/book-ops.ts';
 import { LiveFigures, splitUpdate } from './figures.ts';
@@ -20,8 +20,10 @@ export interface WhatIfRequest {
 }
 
 export type FiguresRequest =
-  | { type: 'book'; seq: number; book: Book }
-  | { type: 'delta'; seq: number; delta: BookDelta }
+  | { type: 'book'; seq: number; book: Book; staged?: boolean }
+  | { type: 'delta'; seq: number; delta: BookDelta; staged?: boolean }
+  /** Quotes of the next Book or change, sent ahead in parts (see stageQuotes); `staged` on it says to use them. */
+  | { type: 'quotes'; seq: number; quotes: Quote[] }
   | ({ type: 'whatif'; id: number } & WhatIfRequest)
   | { type: 'trial'; id: number; line: BuildLine };
 
@@ -37,6 +39,8 @@ export type FiguresMessage =
 export class FiguresHost {
   private readonly live = new LiveFigures();
   private readonly whatIfs = new WhatIfCosts();
+  /** Quotes sent ahead of the Book or change that uses them. */
+  private staged: Quote[] = [];
 
   /** The Compare page's figures, from the Book as the worker holds it now. */
   whatIf(request: WhatIfRequest): WhatIfAnswer {
@@ -63,17 +67,23 @@ export class FiguresHost {
         return [{ type: 'refused', id: request.id, message: `the line could not be tried: ${e instanceof Error ? e.message : String(e)}` }];
       }
     }
+    if (request?.type === 'quotes') {
+      for (const q of request.quotes) this.staged.push(q);
+      return [];
+    }
     const seq = request?.seq ?? -1;
     const answer = (update: FiguresUpdate): FiguresMessage[] => {
       const parts = splitUpdate(update);
       return parts.map((u, i) => ({ type: 'figures', seq, update: u, last: i === parts.length - 1 }));
     };
     try {
-      if (request?.type === 'book') return answer(this.live.update(request.book));
+      const staged = this.staged;
+      this.staged = [];
+      if (request?.type === 'book') return answer(this.live.update(request.staged ? { ...request.book, quotes: staged } : request.book));
       if (request?.type === 'delta') {
         const held = this.live.current;
         if (!held) return [{ type: 'failed', seq, message: 'the figures worker was sent a change before any Book' }];
-        return answer(this.live.update(applyBookDelta(held, request.delta)));
+        return answer(this.live.update(applyBookDelta(held, request.staged ? withStagedQuotes(request.delta, staged) : request.delta)));
       }
       return [{ type: 'failed', seq, message: 'the figures worker was sent something other than a Book or a change' }];
     } catch (e) {
@@ -82,6 +92,41 @@ export class FiguresHost {
       return [{ type: 'failed', seq, message: `the figures could not be worked out: ${e instanceof Error ? e.message : String(e)}` }];
     }
   }
+}
+
+/** Quotes per message when a Book or change is sent in parts: each part takes the page a few ms to copy. */
+export const QUOTES_PER_PART = 4000;
+
+/**
+ * A request whose quotes are many, cut into messages the page can copy a few ms at a time: the quotes go ahead in
+ * parts and the request itself follows without them (`staged`). Small requests go as they are.
+ */
+export function stageQuotes(request: Extract<FiguresRequest, { type: 'book' | 'delta' }>): FiguresRequest[] {
+  const quotes =
+    request.type === 'book'
+      ? request.book.quotes
+      : (() => {
+          const d = request.delta.collections.quotes;
+          return d ? ('all' in d ? d.all : d.put) : [];
+        })();
+  if (quotes.length <= QUOTES_PER_PART) return [request];
+  const parts: FiguresRequest[] = [];
+  for (let i = 0; i < quotes.length; i += QUOTES_PER_PART) parts.push({ type: 'quotes', seq: request.seq, quotes: quotes.slice(i, i + QUOTES_PER_PART) });
+  if (request.type === 'book') parts.push({ ...request, book: { ...request.book, quotes: [] }, staged: true });
+  else {
+    const d = request.delta.collections.quotes!;
+    const head = 'all' in d ? { all: [] } : { put: [], delete: d.delete };
+    parts.push({ ...request, delta: { ...request.delta, collections: { ...request.delta.collections, quotes: head } }, staged: true });
+  }
+  return parts;
+}
+
+/** The change with the quotes sent ahead put back in. */
+function withStagedQuotes(delta: BookDelta, staged: Quote[]): BookDelta {
+  const d = delta.collections.quotes;
+  if (!d) return delta;
+  const quotes = 'all' in d ? { all: staged } : { put: staged, delete: d.delete };
+  return { ...delta, collections: { ...delta.collections, quotes } };
 }
 
 // Only inside a dedicated worker: a page or Node importing this module for its types must not grab onmessage.

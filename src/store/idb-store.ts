@@ -84,6 +84,9 @@ function openWithMigrations(
  * Collects request promises of one transaction. Each gets a no-op rejection handler at once: when the transaction
  * aborts, every pending request rejects, and only the first failure is reported.
  */
+/** Records copied into the database per step of a large write (a few ms of the page's time each). */
+const WRITE_STEP = 2000;
+
 function requests(): { add(p: Promise<unknown>): void; all(): Promise<unknown[]> } {
   const list: Promise<unknown>[] = [];
   return {
@@ -286,13 +289,28 @@ export class IdbBookStore implements BookStore {
       const writes = requests();
       for (const c of COLLECTIONS) writes.add(tx.objectStore(c).clear());
       writes.add(tx.objectStore('settings').clear());
+      // Written in steps of about WRITE_STEP records in the one transaction: copying a large Book into the database
+      // takes seconds, and between steps the page draws and answers (the next step starts from the last one's end).
+      const items: { store: StoreName; value: unknown; weight: number }[] = [];
       for (const c of COLLECTIONS) {
         if (c === 'quotes') continue;
-        const store = tx.objectStore(c);
-        for (const r of book[c]) writes.add(store.put(toStored(c, r) as never));
+        for (const r of book[c]) items.push({ store: c, value: toStored(c, r), weight: 1 });
       }
-      for (const b of bucketQuotes(book.quotes)) writes.add(tx.objectStore('quotes').put(b));
-      writes.add(tx.objectStore('settings').put(book.settings));
+      for (const b of bucketQuotes(book.quotes)) items.push({ store: 'quotes', value: b, weight: b.quotes.length });
+      items.push({ store: 'settings', value: book.settings, weight: 1 });
+      let step: Promise<unknown>[] = [];
+      let weight = 0;
+      for (const item of items) {
+        const p = tx.objectStore(item.store).put(item.value as never);
+        writes.add(p);
+        step.push(p);
+        weight += item.weight;
+        if (weight >= WRITE_STEP) {
+          await Promise.all(step);
+          step = [];
+          weight = 0;
+        }
+      }
       await writes.all();
       await tx.done;
     } catch (e) {

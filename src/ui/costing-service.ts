@@ -14,6 +14,7 @@ import { CHECK_STATUS, worstOf } from '../domain/check-status.ts';
 import type { CheckStatus } from '../domain/check-status.ts';
 import { LiveFigures, SYNC_KINDS } from '../engine/figures.ts';
 import type { CostingChangeDetail, FiguresUpdate } from '../engine/figures.ts';
+import { stageQuotes } from '../engine/figures-worker.ts';
 import type { FiguresMessage, FiguresRequest, WhatIfRequest } from '../engine/figures-worker.ts';
 import { trialOutcomes } from '../engine/line-trial.ts';
 import type { LineOutcome } from '../engine/line-trial.ts';
@@ -266,10 +267,17 @@ export class CostingService extends EventTarget {
       }
     }
     this.seq += 1;
-    const request: FiguresRequest = this.sent ? { type: 'delta', seq: this.seq, delta: bookDelta(this.sent, next) } : { type: 'book', seq: this.seq, book: next };
+    const request = this.sent ? ({ type: 'delta', seq: this.seq, delta: bookDelta(this.sent, next) } as const) : ({ type: 'book', seq: this.seq, book: next } as const);
     this.sent = next;
     this.inFlight = true;
-    worker.postMessage(request);
+    // A large Book or change goes in parts, one per task, so the page draws between them.
+    const parts = stageQuotes(request);
+    const post = (i: number): void => {
+      if (this.worker !== worker) return;
+      worker.postMessage(parts[i]!);
+      if (i + 1 < parts.length) setTimeout(() => post(i + 1), 0);
+    };
+    post(0);
   }
 
   private startWorker(): FiguresWorkerLike {

@@ -3,7 +3,7 @@
 // statuses as workbooks opened afresh from the new Book, which is how the CLI computes them.
 import { describe, expect, it } from 'vitest';
 import type { Book } from '../../src/domain/book.ts';
-import { applyChange } from '../../src/domain/book-ops.ts';
+import { applyChange, bookDelta } from '../../src/domain/book-ops.ts';
 import type { BookChange } from '../../src/domain/book-ops.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { worstOf } from '../../src/domain/check-status.ts';
@@ -13,7 +13,7 @@ import { addBuiltInChecks } from '../../src/engine/check-sheets.ts';
 import { loadBuiltInChecks } from '../../src/cli/check-sheets-fs.ts';
 import { costVariant } from '../../src/io/run-export.ts';
 import { referenceFamily } from '../fixtures/reference-family.ts';
-import { FiguresHost } from '../../src/engine/figures-worker.ts';
+import { FiguresHost, QUOTES_PER_PART, stageQuotes } from '../../src/engine/figures-worker.ts';
 import { splitUpdate } from '../../src/engine/figures.ts';
 import type { FiguresMessage, FiguresRequest } from '../../src/engine/figures-worker.ts';
 import { trialProblems } from '../../src/ui/build-rules.ts';
@@ -420,5 +420,32 @@ describe('Edits in place on a large family', () => {
     holder.change({ put: { buildLines: [{ ...line, qtyRule: String(Number(line.qtyRule) + 1) }] } });
     expect(costing.sync().kind).toBe('edited');
     expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+  });
+});
+
+describe('A large Book or change sent to the figures worker in parts', () => {
+  it('gives the same figures as the whole request at once, for a Book and for a change that adds quotes', () => {
+    const base = referenceFamily().book;
+    // Copies of the family's quotes at a slightly higher price, under new ids: many quotes, the same choices.
+    const many = (n: number, tag: string): Book['quotes'] =>
+      Array.from({ length: n }, (_, i) => {
+        const q = base.quotes[i % base.quotes.length]!;
+        return { ...q, id: `quote_${tag}_${i}`, breaks: q.breaks.map((b) => ({ ...b, price: b.price * 1.01 })) };
+      });
+    const book: Book = { ...base, quotes: [...base.quotes, ...many(9_000, 'a')] };
+    const whole = new FiguresHost();
+    const parted = new FiguresHost();
+    const request = { type: 'book' as const, seq: 1, book };
+    const parts = stageQuotes(request);
+    expect(parts.length).toBeGreaterThan(2);
+    expect(parts.slice(0, -1).every((p) => p.type === 'quotes' && p.quotes.length <= QUOTES_PER_PART)).toBe(true);
+    const last = (host: FiguresHost, list: FiguresRequest[]) => list.map((p) => host.handle(structuredClone(p))).at(-1)!;
+    expect(last(parted, parts)).toEqual(whole.handle(request));
+
+    const next: Book = { ...book, quotes: [...book.quotes, ...many(5_000, 'b')] };
+    const delta = { type: 'delta' as const, seq: 2, delta: bookDelta(book, next) };
+    const deltaParts = stageQuotes(delta);
+    expect(deltaParts.length).toBeGreaterThan(1);
+    expect(last(parted, deltaParts)).toEqual(whole.handle(delta));
   });
 });
