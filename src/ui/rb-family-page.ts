@@ -279,7 +279,7 @@ export class RbFamilyPage extends LitElement {
       [{ text: '…', tone: 'na', title: 'being worked out' }, ...runs.map((): GridCell => ({ text: '…', copy: '', tone: 'na', title: 'being worked out' }))];
     const figSig = figs.map((c) => `${c.text}\u0001${c.title ?? ''}`).join('\u0002');
     if (cached && cached.params === params && cached.figSig === figSig) return cached.row;
-    const row: GridRow = { id: v.id, cells: [...params, ...figs] };
+    const row: GridRow = { id: v.id, cells: [...params, ...figs], rev: v.rev };
     this.rowCache.set(v.id, { params, figures: figs, figSig, row });
     return row;
   }

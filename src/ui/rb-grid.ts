@@ -44,6 +44,11 @@ export interface GridCell {
 export interface GridRow {
   id: string;
   cells: readonly GridCell[];
+  /**
+   * The record's revision, when the row shows a saved record: a row the cursor follows (see `follow`) counts as saved
+   * again only when this moves, not when figures worked out elsewhere redraw its other cells.
+   */
+  rev?: number;
 }
 
 /** A block of cells, corners included, top-left first. Row indexes may reach the new-row line (rows.length). */
@@ -280,7 +285,7 @@ export class RbGrid extends LitElement {
   /** The column the pointer is over in the heading, whose meaning the help line shows meanwhile. */
   @state() private hoverCol: number | undefined;
   /** A row the active cell goes to once it shows at a new place (an edited row re-sorted, a new or copied row). */
-  private followRow: { id: string; at: number; row: GridRow | undefined; focus: boolean } | undefined;
+  private followRow: { id: string; at: number; row: GridRow | undefined; rev: number | undefined; focus: boolean } | undefined;
   private dragging = false;
   private focusEditor = false;
 
@@ -317,7 +322,7 @@ export class RbGrid extends LitElement {
    */
   follow(id: string, focus = false): void {
     const at = this.rows.findIndex((r) => r.id === id);
-    this.followRow = { id, at, row: this.rows[at], focus };
+    this.followRow = { id, at, row: this.rows[at], rev: this.rows[at]?.rev, focus };
   }
 
   /** Shows a line under the grid; a problem is announced. */
@@ -349,7 +354,8 @@ export class RbGrid extends LitElement {
       const f = this.followRow;
       const at = f ? this.rows.findIndex((r) => r.id === f.id) : -1;
       // Settled once the row is drawn anew (saved) or at another place; until then other redraws leave it pending.
-      if (f && at >= 0 && (at !== f.at || this.rows[at] !== f.row)) {
+      const redrawn = f && at >= 0 && (f.rev !== undefined ? this.rows[at]!.rev !== f.rev : this.rows[at] !== f.row);
+      if (f && at >= 0 && (at !== f.at || redrawn)) {
         this.followRow = undefined;
         if (at !== f.at) {
           this.active = { r: at, c: this.active.c };
