@@ -42,13 +42,19 @@ export function findReimport(book: Book, hash: string, supplierId: string): Impo
 export type UndoResult = { ok: true; change: BookChange } | { ok: false; reason: string };
 
 /**
- * Undoing a batch deletes the quotes it created and restores the ones it superseded. Refused when a later batch has
+ * Undoing a price batch deletes the quotes it created and restores the ones it superseded; undoing a stock count
+ * deletes the counted movements it wrote. Refused when a later batch has
  * already superseded this batch's quotes: undoing out of order would leave two current quotes for one part.
  */
 export function undoBatch(book: Book, batchId: string): UndoResult {
   const batch = book.importBatches.find((b) => b.id === batchId);
   if (!batch) return { ok: false, reason: `no import batch with id ${batchId}` };
   if (batch.undone) return { ok: false, reason: `import batch ${batchId} (${batch.fileName}) was already undone` };
+  if (batch.kind === 'stock count') {
+    // A count's movements are differences from the ledger of their day; taking them out restores that ledger.
+    const held = new Set(book.stockMoves.map((m) => m.id));
+    return { ok: true, change: { put: { importBatches: [{ ...batch, undone: true }] }, delete: { stockMoves: (batch.moves ?? []).filter((id) => held.has(id)) } } };
+  }
   const created = new Set(batch.created);
   const byId = new Map(book.quotes.map((q) => [q.id, q] as const));
   for (const id of batch.created) {

@@ -91,6 +91,10 @@ export function isPartValueUnit(u: string): u is PartValueUnit {
 
 export const MAPPING_LAYOUTS = ['wide', 'long'] as const;
 
+/** What an import batch brought in: a supplier's price file (quotes) or a stock count file (counted movements). */
+export const IMPORT_KINDS = ['prices', 'stock count'] as const;
+export type ImportKind = (typeof IMPORT_KINDS)[number];
+
 /** Why stock moved: a count's difference, a receipt from an order, an issue to a run, scrap, a correction. */
 export const STOCK_MOVE_KINDS = ['counted', 'received', 'issued', 'scrapped', 'adjusted'] as const;
 export type StockMoveKind = (typeof STOCK_MOVE_KINDS)[number];
@@ -729,13 +733,18 @@ export const ImportBatchSchema = obj({
   fileName: filled(LIMITS.shortText),
   /** SHA-256 of the file bytes, hex. */
   hash: v.optional(text(LIMITS.name), ''),
-  supplierId: id(),
+  /** Absent = a price file. */
+  kind: v.optional(oneOf(IMPORT_KINDS)),
+  /** The supplier of a price file; a stock count has none. */
+  supplierId: v.optional(id()),
   rows: v.optional(count(), 0),
   at: time(),
   /** Ids of quotes this batch created. */
   created: v.optional(list(text(LIMITS.id), LIMITS.quotes), []),
   /** Ids of quotes this batch superseded (restored on undo). */
   superseded: v.optional(list(text(LIMITS.id), LIMITS.quotes), []),
+  /** Ids of the stock movements a stock count wrote (deleted on undo). */
+  moves: v.optional(list(text(LIMITS.id), LIMITS.parts)),
   undone: v.optional(bool()),
 });
 
@@ -998,7 +1007,12 @@ export function crossRecordProblems(book: Book): SchemaProblem[] {
     if (r.status !== 'built' && r.builtDate !== undefined) add(`runs[${i}].builtDate`, 'only a built run has a date it was built');
   });
   problems.push(...stockProblems(book, ids));
-  book.importBatches.forEach((b, i) => ref(`importBatches[${i}].supplierId`, b.supplierId, 'suppliers', 'supplier'));
+  book.importBatches.forEach((b, i) => {
+    if (b.kind === 'stock count') {
+      if (b.supplierId !== undefined) add(`importBatches[${i}].supplierId`, 'a stock count has no supplier');
+    } else if (b.supplierId === undefined) add(`importBatches[${i}].supplierId`, 'a price file import names its supplier');
+    else ref(`importBatches[${i}].supplierId`, b.supplierId, 'suppliers', 'supplier');
+  });
   const unique = <T>(items: readonly T[], c: string, field: string, key: (x: T) => string, what: string): void => {
     const seen = new Map<string, number>();
     items.forEach((x, i) => {

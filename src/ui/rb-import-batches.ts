@@ -1,5 +1,6 @@
-// Past price file imports of the Book: file, supplier, rows, time, what each created and replaced, whether it repeats
-// an earlier import of the same file, and an Undo that deletes its quotes and restores the ones it superseded.
+// Past imports of the Book: file, supplier (or stock count), rows, time, what each created and replaced, whether it
+// repeats an earlier import of the same file, and an Undo that deletes its quotes and restores the ones it superseded,
+// or takes a stock count's movements out of the ledger.
 import { LitElement, css, html } from 'lit';
 import { customElement, state } from 'lit/decorators.js';
 import type { Book, ImportBatch } from '../domain/book.ts';
@@ -47,11 +48,12 @@ export class RbImportBatches extends LitElement {
     return html`<section class="sheet" aria-labelledby="batches-h">
       <h2 id="batches-h">Import history</h2>
       <p class="why">
-        Each price file import is kept as a batch. Undo deletes the quotes a batch created and makes the quotes it
-        replaced current again; undo the newest batch for a supplier first.
+        Each price file and stock count import is kept as a batch. Undo deletes the quotes a batch created and makes
+        the quotes it replaced current again (undo the newest batch for a supplier first), or takes a count's
+        movements out of the stock ledger.
       </p>
       ${batches.length === 0
-        ? html`<p class="empty">No price file has been imported into this Book yet.</p>`
+        ? html`<p class="empty">No price file or stock count has been imported into this Book yet.</p>`
         : html`<div class="scroll">
             <table class="records" data-testid="batches-table">
               <thead>
@@ -80,10 +82,10 @@ export class RbImportBatches extends LitElement {
     const again = earlierSameFile(book, b);
     return html`<tr data-id=${b.id} class=${b.undone ? 'undone' : ''}>
       <td class="code">${b.fileName}</td>
-      <td>${supplier?.name ?? b.supplierId}</td>
+      <td>${b.kind === 'stock count' ? html`<span class="muted">stock count</span>` : (supplier?.name ?? b.supplierId)}</td>
       <td class="num">${b.rows}</td>
       <td class="num">${timeText(b.at)}</td>
-      <td class="num">${b.created.length}</td>
+      <td class="num">${b.kind === 'stock count' ? `${(b.moves ?? []).length} movements` : b.created.length}</td>
       <td class="num">${b.superseded.length}</td>
       <td>
         ${b.undone ? html`<span class="undone">↶ undone</span>` : html`<span class="done">✓ in use</span>`}
@@ -126,9 +128,10 @@ export class RbImportBatches extends LitElement {
     }
     const restored = r.change.put?.quotes?.length ?? 0;
     const removed = r.change.delete?.quotes?.length ?? 0;
+    const what = b.kind === 'stock count' ? `${r.change.delete?.stockMoves?.length ?? 0} counted movement(s) removed` : `${removed} quote(s) removed, ${restored} restored`;
     const saved = await service.save(r.change);
     this.message = saved.ok
-      ? { id: b.id, text: `Undone the import of ${b.fileName}: ${removed} quote(s) removed, ${restored} restored.`, ok: true }
+      ? { id: b.id, text: `Undone the import of ${b.fileName}: ${what}.`, ok: true }
       : { id: b.id, text: saved.message, ok: false };
   }
 }

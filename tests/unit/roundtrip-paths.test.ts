@@ -255,7 +255,7 @@ function sampleBookBeforeStock(): Book {
   const runs = book.runs.filter((r) => r.status !== 'built').map(({ status: _s, builtDate: _b, ...r }) => r);
   const { orderPrefix, nextOrderNumber, kittingDays, safetyDays, horizonDays, stockValuation } = d;
   const settings = { ...book.settings, orderPrefix, nextOrderNumber, kittingDays, safetyDays, horizonDays, stockValuation };
-  return { ...book, settings, runs, orders: [], stockMoves: [] };
+  return { ...book, settings, runs, orders: [], stockMoves: [], importBatches: book.importBatches.filter((b) => b.kind !== 'stock count') };
 }
 
 /** The sample Book as a file written before landed cost and price lists: no landed terms, no price lists. */
