@@ -218,21 +218,23 @@ async function settled(costing: CostingService): Promise<void> {
   expect(costing.pending).toBe(false);
 }
 
-describe('CostingService with the figures worker', () => {
-  function startInWorker(): { holder: Holder; costing: CostingService; workers: FakeWorker[] } {
-    const workers: FakeWorker[] = [];
-    setFiguresWorker(() => {
-      const w = new FakeWorker();
-      workers.push(w);
-      return w;
-    });
-    try {
-      const holder = new Holder(addBuiltInChecks(demoBook(), CHECKS));
-      return { holder, costing: CostingService.for(holder), workers };
-    } finally {
-      setFiguresWorker(undefined);
-    }
+/** The demo Book's costing service with its figures worker stood in for by FakeWorker (those started are listed). */
+function startInWorker(): { holder: Holder; costing: CostingService; workers: FakeWorker[] } {
+  const workers: FakeWorker[] = [];
+  setFiguresWorker(() => {
+    const w = new FakeWorker();
+    workers.push(w);
+    return w;
+  });
+  try {
+    const holder = new Holder(addBuiltInChecks(demoBook(), CHECKS));
+    return { holder, costing: CostingService.for(holder), workers };
+  } finally {
+    setFiguresWorker(undefined);
   }
+}
+describe('CostingService with the figures worker', () => {
+
 
   it('answers from the worker: pending until the figures arrive, then the same figures as a fresh workbook', async () => {
     const { holder, costing, workers } = startInWorker();
@@ -340,20 +342,7 @@ describe('What-if figures for the Compare page', () => {
 
   it('is answered by the figures worker with the same figures as in-process', async () => {
     const local = start();
-    const { holder, costing } = (() => {
-      const workers: FakeWorker[] = [];
-      setFiguresWorker(() => {
-        const w = new FakeWorker();
-        workers.push(w);
-        return w;
-      });
-      try {
-        const h = new Holder(addBuiltInChecks(demoBook(), CHECKS));
-        return { holder: h, costing: CostingService.for(h) };
-      } finally {
-        setFiguresWorker(undefined);
-      }
-    })();
+    const { holder, costing } = startInWorker();
     await settled(costing);
     const book = holder.book;
     const ids = book.variants.slice(2, 5).map((v) => v.id);
@@ -368,18 +357,7 @@ describe('What-if figures for the Compare page', () => {
 describe('Trying a build line on every variant', () => {
   it('gives each variant the line resolves for, and names the variants whose rules fail, in the worker as in-process', async () => {
     const local = start();
-    const workers: FakeWorker[] = [];
-    setFiguresWorker(() => {
-      const w = new FakeWorker();
-      workers.push(w);
-      return w;
-    });
-    let inWorker: CostingService;
-    try {
-      inWorker = CostingService.for(new Holder(addBuiltInChecks(demoBook(), CHECKS)));
-    } finally {
-      setFiguresWorker(undefined);
-    }
+    const { costing: inWorker } = startInWorker();
     await settled(inWorker);
     const book = local.holder.book;
     const base = book.buildLines[0]!;
