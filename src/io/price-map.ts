@@ -72,10 +72,6 @@ const SYNONYMS: Record<PriceField, readonly string[]> = {
   priceUnit: ['price unit', 'price per', 'per', 'unit of price', 'pricing unit'],
 };
 
-const SYNONYM_LIST: { field: PriceField; words: string }[] = PRICE_FIELDS.flatMap((field) =>
-  SYNONYMS[field].map((words) => ({ field, words })),
-).sort((a, b) => b.words.length - a.words.length);
-
 const SYMBOL_CURRENCY: Record<string, string> = { '€': 'EUR', $: 'USD', '£': 'GBP' };
 
 /** Hints a header carries besides its field: a unit for lead time, a currency or a price unit for prices. */
@@ -121,23 +117,54 @@ function stripCurrencyWords(norm: string, header: string): string {
   return norm.replace(new RegExp(`\\b${code[1]!.toLowerCase()}\\b`), ' ').replace(/\s+/g, ' ').trim();
 }
 
-/** The field a header names, if any. */
-export function guessField(header: string): PriceField | undefined {
-  const norm = stripCurrencyWords(normaliseHeader(header), header);
-  if (norm === '') return undefined;
-  for (const s of SYNONYM_LIST) if (norm === s.words) return s.field;
-  // English headers put the thing named last ("Price list date" is a date, "Part description" a description), so a
-  // synonym that ends the header wins over a longer one inside it.
-  const padded = ` ${norm} `;
-  let best: { field: PriceField; atEnd: boolean; length: number } | undefined;
-  for (const s of SYNONYM_LIST) {
-    if (!padded.includes(` ${s.words} `)) continue;
-    const atEnd = padded.endsWith(` ${s.words} `);
-    if (!best || (atEnd && !best.atEnd) || (atEnd === best.atEnd && s.words.length > best.length)) {
-      best = { field: s.field, atEnd, length: s.words.length };
+/**
+ * Guesses fields from header words: a header matches a field when it equals one of the field's words or contains one
+ * as whole words (lower case, punctuation as spaces, bracketed hints and currency codes set aside). Price files and
+ * stock counts each have their own words.
+ */
+export interface HeaderWords<F extends string> {
+  /** The field a header names, if any. */
+  guess(header: string): F | undefined;
+  /** 2 for an exact word, 1 for a header that merely contains one, 0 otherwise: finds the header row. */
+  score(cell: string): number;
+}
+
+export function headerWords<F extends string>(fields: readonly F[], words: Record<F, readonly string[]>): HeaderWords<F> {
+  const list = fields.flatMap((field) => words[field].map((w) => ({ field, words: w }))).sort((a, b) => b.words.length - a.words.length);
+  const exact = new Set(list.map((s) => s.words));
+  const guess = (header: string): F | undefined => {
+    const norm = stripCurrencyWords(normaliseHeader(header), header);
+    if (norm === '') return undefined;
+    for (const s of list) if (norm === s.words) return s.field;
+    // English headers put the thing named last ("Price list date" is a date, "Part description" a description), so a
+    // synonym that ends the header wins over a longer one inside it.
+    const padded = ` ${norm} `;
+    let best: { field: F; atEnd: boolean; length: number } | undefined;
+    for (const s of list) {
+      if (!padded.includes(` ${s.words} `)) continue;
+      const atEnd = padded.endsWith(` ${s.words} `);
+      if (!best || (atEnd && !best.atEnd) || (atEnd === best.atEnd && s.words.length > best.length)) {
+        best = { field: s.field, atEnd, length: s.words.length };
+      }
     }
-  }
-  return best?.field;
+    return best?.field;
+  };
+  const score = (cell: string): number => {
+    const t = cell.trim();
+    if (t === '' || t.length > 60) return 0;
+    const norm = stripCurrencyWords(normaliseHeader(t), t);
+    if (norm === '') return 0;
+    if (exact.has(norm)) return 2;
+    return guess(t) !== undefined ? 1 : 0;
+  };
+  return { guess, score };
+}
+
+const PRICE_WORDS_GUESS = headerWords(PRICE_FIELDS, SYNONYMS);
+
+/** The price field a header names, if any. */
+export function guessField(header: string): PriceField | undefined {
+  return PRICE_WORDS_GUESS.guess(header);
 }
 
 /** A wide-layout column: quantity or price of break N, or a price column whose header is the quantity ("100+"). */
@@ -174,10 +201,7 @@ export function headerWordScore(cell: string): number {
   const t = cell.trim();
   if (t === '' || t.length > 60) return 0;
   if (breakHeader(t) !== undefined) return 2;
-  const norm = stripCurrencyWords(normaliseHeader(t), t);
-  if (norm === '') return 0;
-  if (SYNONYM_LIST.some((s) => s.words === norm)) return 2;
-  return guessField(t) !== undefined ? 1 : 0;
+  return PRICE_WORDS_GUESS.score(t);
 }
 
 /** Where each field and each price break sits in the file, after guesses and the saved mapping. */

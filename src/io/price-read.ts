@@ -4,6 +4,8 @@
 import Papa from 'papaparse';
 import type { ColumnMapping } from '../domain/book.ts';
 import { LIMITS } from '../domain/schema.ts';
+import { decodePriceBytes } from './price-decode.ts';
+import type { EncodingChoice, EncodingName } from './price-decode.ts';
 import { headerWordScore } from './price-map.ts';
 import type { PriceProblem } from './price-map.ts';
 
@@ -36,7 +38,18 @@ export interface ReadOptions {
   delimiter?: Delimiter;
   /** Called every few thousand rows with the number of rows read so far. */
   onRows?: (rows: number) => void;
+  /** What the file is, by its header words (default: a supplier's price file). */
+  kind?: TableKind;
 }
+
+/** A kind of file read here: its name in messages, how strongly a cell reads as one of its headers, header examples. */
+export interface TableKind {
+  name: string;
+  score: (cell: string) => number;
+  examples: string;
+}
+
+export const PRICE_TABLE: TableKind = { name: 'price file', score: headerWordScore, examples: "'MPN', 'Order code', 'Qty' and 'Price'" };
 
 /**
  * Bounds real price files never reach, so a hostile file is refused quickly instead of freezing the page (the
@@ -108,20 +121,20 @@ interface HeaderGuess {
   cells: number;
 }
 
-function scoreLine(line: string, d: Delimiter, saved: Set<string>): { score: number; cells: number } {
+function scoreLine(line: string, d: Delimiter, saved: Set<string>, kind: TableKind): { score: number; cells: number } {
   const cells = splitLine(line, d);
   if (cells.length < 2) return { score: 0, cells: cells.length };
   let score = 0;
   // A line wider than any real header is scored on its first columns only; readPriceTable then refuses it.
   for (const c of cells.length > PRICE_FILE_LIMITS.columns ? cells.slice(0, PRICE_FILE_LIMITS.columns) : cells) {
     const t = c.trim();
-    score += saved.has(t.toLowerCase()) ? 2 : headerWordScore(t);
+    score += saved.has(t.toLowerCase()) ? 2 : kind.score(t);
   }
   return { score, cells: cells.length };
 }
 
 /** Finds the header: the leading line whose cells read most like header words, under the delimiter that splits it so. */
-function findHeader(text: string, saved: Set<string>, forced?: Delimiter): { best?: HeaderGuess; overlong?: { line: number; columns: number } } {
+function findHeader(text: string, saved: Set<string>, kind: TableKind, forced?: Delimiter): { best?: HeaderGuess; overlong?: { line: number; columns: number } } {
   let best: HeaderGuess | undefined;
   let overlong: { line: number; columns: number } | undefined;
   let offset = 0;
@@ -144,7 +157,7 @@ function findHeader(text: string, saved: Set<string>, forced?: Delimiter): { bes
     const line = text.slice(offset, end);
     if (line.trim() !== '' && !isCommentLine(line)) {
       for (const d of forced ? [forced] : DELIMITERS) {
-        const { score, cells } = scoreLine(line, d, saved);
+        const { score, cells } = scoreLine(line, d, saved, kind);
         if (score < 3) continue; // at least one exact header word and one more
         if (!best || score > best.score || (score === best.score && lineNo === best.line && cells > best.cells)) {
           best = { line: lineNo, offset, delimiter: d, score, cells };
@@ -168,9 +181,9 @@ function countBreaks(text: string, from: number, to: number): number {
 }
 
 /** Why a header row is beyond the limits, or undefined. */
-function headerLimitProblem(headers: readonly string[]): string | undefined {
+function headerLimitProblem(headers: readonly string[], kind: TableKind): string | undefined {
   if (headers.length > PRICE_FILE_LIMITS.columns) {
-    return `the header row has ${n(headers.length)} columns; a price file may have at most ${n(PRICE_FILE_LIMITS.columns)}`;
+    return `the header row has ${n(headers.length)} columns; a ${kind.name} may have at most ${n(PRICE_FILE_LIMITS.columns)}`;
   }
   const long = headers.findIndex((h) => h.trim().length > PRICE_FILE_LIMITS.headerCell);
   if (long >= 0) {
@@ -181,14 +194,15 @@ function headerLimitProblem(headers: readonly string[]): string | undefined {
 
 export function readPriceTable(text: string, options: ReadOptions = {}): ReadResult {
   const saved = new Set(Object.values(options.mapping?.columns ?? {}).map((h) => h.trim().toLowerCase()));
-  const found = findHeader(text, saved, options.delimiter);
+  const kind = options.kind ?? PRICE_TABLE;
+  const found = findHeader(text, saved, kind, options.delimiter);
   const header = found.best;
   if (!header && found.overlong !== undefined) {
     const { line, columns } = found.overlong;
     const reason =
       columns > PRICE_FILE_LIMITS.columns
-        ? `line ${line} has ${n(columns)} columns; a price file may have at most ${n(PRICE_FILE_LIMITS.columns)}`
-        : `line ${line} is longer than ${n(PRICE_FILE_LIMITS.rowChars)} characters, the most a price file row may hold, and no header row was found before it`;
+        ? `line ${line} has ${n(columns)} columns; a ${kind.name} may have at most ${n(PRICE_FILE_LIMITS.columns)}`
+        : `line ${line} is longer than ${n(PRICE_FILE_LIMITS.rowChars)} characters, the most a ${kind.name} row may hold, and no header row was found before it`;
     return { ok: false, problems: [{ row: line, column: '', value: '', reason }] };
   }
   if (!header) {
@@ -199,7 +213,7 @@ export function readPriceTable(text: string, options: ReadOptions = {}): ReadRes
           row: 0,
           column: '',
           value: '',
-          reason: `no header row found in the first ${HEADER_SEARCH_LINES} lines: expected column names such as 'MPN', 'Order code', 'Qty' and 'Price' separated by commas, semicolons, tabs or pipes`,
+          reason: `no header row found in the first ${HEADER_SEARCH_LINES} lines: expected column names such as ${kind.examples} separated by commas, semicolons, tabs or pipes`,
         },
       ],
     };
@@ -212,7 +226,7 @@ export function readPriceTable(text: string, options: ReadOptions = {}): ReadRes
     const guess = Papa.parse<string[]>(body.slice(0, 65536), { delimitersToGuess: [...DELIMITERS], preview: 20 }).meta.delimiter;
     if (guess !== delimiter && (DELIMITERS as readonly string[]).includes(guess)) {
       const firstLine = body.split(/\r\n|\n|\r/, 1)[0] ?? '';
-      const theirs = scoreLine(firstLine, guess as Delimiter, saved);
+      const theirs = scoreLine(firstLine, guess as Delimiter, saved, kind);
       if (theirs.score >= header.score && theirs.cells > header.cells) delimiter = guess as Delimiter;
       else notes.push(`delimiter ${DELIMITER_NAMES[delimiter]} chosen from the header words (the data alone suggested ${DELIMITER_NAMES[guess as Delimiter] ?? guess})`);
     }
@@ -245,7 +259,7 @@ export function readPriceTable(text: string, options: ReadOptions = {}): ReadRes
       if (!headers) {
         headers = cells.map((c) => c.trim());
         // Checked before any data row is read.
-        const p = headerLimitProblem(headers);
+        const p = headerLimitProblem(headers, kind);
         if (p) {
           refused = { row: line, column: '', value: '', reason: p };
           parser.abort();
@@ -258,7 +272,7 @@ export function readPriceTable(text: string, options: ReadOptions = {}): ReadRes
           row: line,
           column: '',
           value: cells.join(delimiter).slice(0, 80),
-          reason: `the row is ${n(rowChars)} characters long; a price file row may hold at most ${n(PRICE_FILE_LIMITS.rowChars)}`,
+          reason: `the row is ${n(rowChars)} characters long; a ${kind.name} row may hold at most ${n(PRICE_FILE_LIMITS.rowChars)}`,
         });
         return;
       }
@@ -285,7 +299,7 @@ export function readPriceTable(text: string, options: ReadOptions = {}): ReadRes
           row: line,
           column: '',
           value: '',
-          reason: `the file has more than ${n(PRICE_FILE_LIMITS.rows)} data rows, the most a price file may hold; split it into smaller files`,
+          reason: `the file has more than ${n(PRICE_FILE_LIMITS.rows)} data rows, the most a ${kind.name} may hold; split it into smaller files`,
         };
         parser.abort();
         return;
@@ -306,4 +320,22 @@ export function readPriceTable(text: string, options: ReadOptions = {}): ReadRes
   }
   options.onRows?.(rows.length);
   return { ok: true, table: { delimiter, headerLine: header.line, headers, rows, notes, problems } };
+}
+
+/** What reading a file's bytes found out about its letters, for the person to check. */
+export interface DecodeNotes {
+  encoding?: EncodingName;
+  /** Set when some letters may be wrong: which lines are not in the file's encoding (also in nonUtf8Lines). */
+  encodingWarning?: string;
+  nonUtf8Lines?: number[];
+}
+
+/** Bytes to a table: decoded as UTF-8 or Windows-1252 (found out, or as chosen), then read as readPriceTable does. */
+export function readTableBytes(bytes: Uint8Array, encoding: EncodingChoice | undefined, options: ReadOptions = {}): { read: ReadResult; notes: DecodeNotes } {
+  const decoded = decodePriceBytes(bytes, encoding);
+  if (!decoded.ok) return { read: { ok: false, problems: [{ row: 0, column: '', value: '', reason: decoded.reason }] }, notes: {} };
+  const notes: DecodeNotes = { encoding: decoded.encoding };
+  if (decoded.warning) notes.encodingWarning = decoded.warning;
+  if (decoded.nonUtf8Lines) notes.nonUtf8Lines = decoded.nonUtf8Lines;
+  return { read: readPriceTable(decoded.text, options), notes };
 }

@@ -4,8 +4,7 @@
 import type { ColumnMapping, PriceBreak } from '../domain/book.ts';
 import { mpnKey } from '../domain/book.ts';
 import { LIMITS, isCurrencyCode } from '../domain/schema.ts';
-import { decodePriceBytes } from './price-decode.ts';
-import type { EncodingChoice, EncodingName } from './price-decode.ts';
+import type { EncodingChoice } from './price-decode.ts';
 import {
   dateOrderVote,
   decimalVote,
@@ -18,8 +17,8 @@ import {
   splitMoney,
 } from './price-map.ts';
 import type { DateOrder, Decimal, LeadUnit, PriceField, PriceProblem, PriceUnit, ResolvedMapping } from './price-map.ts';
-import { DELIMITER_NAMES, readPriceTable } from './price-read.ts';
-import type { Delimiter, TableRow } from './price-read.ts';
+import { DELIMITER_NAMES, readPriceTable, readTableBytes } from './price-read.ts';
+import type { DecodeNotes, Delimiter, TableRow } from './price-read.ts';
 
 /** One supplier offer read from the file: everything a Quote needs except the part, supplier and ids. */
 export interface PriceOffer {
@@ -63,13 +62,9 @@ export interface AnalyseOptions {
   unused?: readonly string[];
 }
 
-export interface PriceAnalysis {
+export interface PriceAnalysis extends DecodeNotes {
   /** False when the file could not be read at all (empty, binary, no header): there is nothing to preview. */
   readable: boolean;
-  encoding?: EncodingName;
-  /** Set when some letters may be wrong: which lines are not in the file's encoding (also in nonUtf8Lines). */
-  encodingWarning?: string;
-  nonUtf8Lines?: number[];
   delimiter?: Delimiter;
   delimiterName?: string;
   headerLine: number;
@@ -128,21 +123,12 @@ export async function analysePriceFile(
   onRows?: (rows: number) => void,
 ): Promise<PriceAnalysis> {
   const hash = await sha256Hex(bytes);
-  const decoded = decodePriceBytes(bytes, options.encoding);
-  if (!decoded.ok) return emptyAnalysis(hash, bytes.length, [{ row: 0, column: '', value: '', reason: decoded.reason }]);
   const readOptions: Parameters<typeof readPriceTable>[1] = {};
   if (options.mapping) readOptions.mapping = options.mapping;
   if (options.delimiter) readOptions.delimiter = options.delimiter;
   if (onRows) readOptions.onRows = onRows;
-  const read = readPriceTable(decoded.text, readOptions);
-  const decodeNotes: Pick<PriceAnalysis, 'encodingWarning' | 'nonUtf8Lines'> = {};
-  if (decoded.warning) decodeNotes.encodingWarning = decoded.warning;
-  if (decoded.nonUtf8Lines) decodeNotes.nonUtf8Lines = decoded.nonUtf8Lines;
-  if (!read.ok) {
-    const a = emptyAnalysis(hash, bytes.length, read.problems);
-    a.encoding = decoded.encoding;
-    return { ...a, ...decodeNotes };
-  }
+  const { read, notes: decodeNotes } = readTableBytes(bytes, options.encoding, readOptions);
+  if (!read.ok) return { ...emptyAnalysis(hash, bytes.length, read.problems), ...decodeNotes };
   const t = read.table;
   const map = resolveMapping(t.headers, t.headerLine, options.mapping, options.unused);
   // Until the columns are settled (no price or part column, an ambiguous duplicate), checking rows would only
@@ -156,7 +142,6 @@ export async function analysePriceFile(
   const mapping: ColumnMapping = { ...map.saved, decimal: checked.decimal };
   return {
     readable: true,
-    encoding: decoded.encoding,
     ...decodeNotes,
     delimiter: t.delimiter,
     delimiterName: DELIMITER_NAMES[t.delimiter],
@@ -188,7 +173,8 @@ interface Checked {
   dateOrder: DateOrder;
 }
 
-function decideDecimal(rows: TableRow[], cols: number[], options: AnalyseOptions, delimiter: Delimiter): { decimal: Decimal; reason: string; note?: string } {
+/** The file's decimal mark: as chosen, else by the number cells that can only be read one way, else by the saved mapping or the delimiter. */
+export function decideDecimal(rows: TableRow[], cols: number[], options: Pick<AnalyseOptions, 'decimal' | 'mapping'>, delimiter: Delimiter): { decimal: Decimal; reason: string; note?: string } {
   if (options.decimal) return { decimal: options.decimal, reason: `decimal ${options.decimal === ',' ? 'comma' : 'point'} as you chose` };
   let point = 0;
   let comma = 0;
