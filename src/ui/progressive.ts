@@ -5,6 +5,8 @@ import type { ReactiveController, ReactiveControllerHost } from 'lit';
 
 /** Rows drawn in the first frame and added in each frame after: about 10–20 ms of drawing on a slow machine. */
 export const ROWS_PER_FRAME = 30;
+/** Tables up to this many rows are drawn at once, as a person reading them expects (about 0.1 s on a slow machine). */
+export const ROWS_AT_ONCE = 150;
 
 export class ProgressiveRows implements ReactiveController {
   /** How many rows may be drawn now. */
@@ -21,7 +23,7 @@ export class ProgressiveRows implements ReactiveController {
 
   /** The rows to draw in this update; when some are held back, the next frame draws more. */
   take<T>(rows: readonly T[]): readonly T[] {
-    if (rows.length <= this.limit) return rows;
+    if (rows.length <= this.limit || rows.length <= ROWS_AT_ONCE) return rows;
     if (this.frame === 0) {
       this.frame = requestAnimationFrame(() => {
         this.frame = 0;
