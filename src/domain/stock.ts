@@ -2,7 +2,7 @@
 // stock count (its differences become 'counted' movements) and a run's issue are changes to the Book, checked
 // first: bad input gives a message and no change.
 import { mpnKey, newId } from './book.ts';
-import type { Book, Part, Run, StockMove, StockMoveKind } from './book.ts';
+import type { Book, ImportBatch, Part, Run, StockMove, StockMoveKind } from './book.ts';
 import type { BookChange } from './book-ops.ts';
 import { isIsoDate } from './dates.ts';
 import { LIMITS, STOCK_MOVE_KINDS } from './schema.ts';
@@ -123,6 +123,38 @@ export function stockCount(book: Book, date: string, lines: readonly CountLine[]
     if (difference !== 0) moves.push(newMove({ partId: l.partId, date, quantity: difference, kind: 'counted', reason }));
   }
   return { ok: true, value: { change: { put: { stockMoves: moves } }, lines: out } };
+}
+
+/** The count file a stock count came from, kept as an import batch so the count can be undone later. */
+export interface CountFile {
+  fileName: string;
+  /** SHA-256 of the file's bytes, hex. */
+  hash: string;
+  /** Data rows read. */
+  rows: number;
+  /** Time of the import (ISO). */
+  at: string;
+}
+
+/** A stock count read from a file: the count's movements and an import batch naming them (undone as one). */
+export function importCount(book: Book, date: string, lines: readonly CountLine[], file: CountFile): Outcome<CountResult & { batch: ImportBatch }> {
+  const fileName = file.fileName.trim().slice(0, LIMITS.shortText) || 'stock count';
+  const counted = stockCount(book, date, lines, `stock count ${fileName}`.slice(0, LIMITS.shortText));
+  if (!counted.ok) return counted;
+  const moves = counted.value.change.put?.stockMoves ?? [];
+  const batch: ImportBatch = {
+    id: newId('batch'),
+    rev: 0,
+    kind: 'stock count',
+    fileName,
+    hash: file.hash,
+    rows: file.rows,
+    at: file.at,
+    created: [],
+    superseded: [],
+    moves: moves.map((m) => m.id),
+  };
+  return { ok: true, value: { lines: counted.value.lines, batch, change: { put: { stockMoves: moves, importBatches: [batch] } } } };
 }
 
 /** Finds a part by its maker part number as written on a count sheet (case, spaces and dashes ignored). */

@@ -1,20 +1,14 @@
-// Planning and stock counts as the app and the command line both take them: the plan of a Book (the family resolver
-// gives each variant's lines, the costing rules its needs), the plan as rows and CSV through the one CSV writer, and
-// a stock count read from CSV text (decoded as price files are, split by papaparse) into counted lines.
+// Planning as the app and the command line both take them: the plan of a Book (the family resolver
+// gives each variant's lines, the costing rules its needs), and the plan as rows and CSV through the one CSV writer.
 import type { Book, Run } from '../domain/book.ts';
 import { prepareCosting } from '../domain/costing.ts';
 import type { Result } from '../domain/costing.ts';
 import { planRuns, runDemands } from '../domain/planning.ts';
 import type { Plan, PlanOptions } from '../domain/planning.ts';
-import { LIMITS } from '../domain/schema.ts';
-import { partByMpn } from '../domain/stock.ts';
-import type { CountLine } from '../domain/stock.ts';
 import { resolutionFromFamily } from '../engine/costing.ts';
 import { resolveFamily } from '../engine/family.ts';
 import { DEFAULT_EXPORT_OPTIONS, NUMBER_KINDS, exportOptionsProblem, exportText } from './csv-write.ts';
 import type { ExportCell, ExportOptions, NumberCell } from './csv-write.ts';
-import Papa from 'papaparse';
-import { decodePriceBytes } from './price-decode.ts';
 
 const qty = (n: number): NumberCell => ({ n, kind: NUMBER_KINDS.qty });
 const money = (n: number): NumberCell => ({ n, kind: NUMBER_KINDS.money });
@@ -107,49 +101,4 @@ export function planCsv(plan: Plan, currency: string, o: ExportOptions = DEFAULT
   const bad = exportOptionsProblem(o);
   if (bad) return { ok: false, error: bad };
   return { ok: true, value: exportText(planRows(plan, currency), o) };
-}
-
-// ---------------------------------------------------------------------------------------------------------------
-// Stock counts from CSV
-
-const MPN_HEADERS = ['mpn', 'part', 'part number', 'maker part number', 'mfr part number'];
-const COUNT_HEADERS = ['counted', 'count', 'quantity', 'qty', 'on hand'];
-const norm = (h: string): string => h.trim().toLowerCase().replace(/[_\-.]+/g, ' ').replace(/\s+/g, ' ');
-
-/**
- * A stock count file: a column of maker part numbers (mpn, part…) and a column of counts (counted, count, qty…).
- * Every row must name a part of the Book and a whole count ≥ 0; any problem refuses the whole file, each problem
- * with its line.
- */
-export function readStockCount(book: Book, bytes: Uint8Array): Result<CountLine[]> {
-  const decoded = decodePriceBytes(bytes);
-  if (!decoded.ok) return { ok: false, error: decoded.reason };
-  const parsed = Papa.parse<string[]>(decoded.text.replace(/^\uFEFF/, ''), { delimitersToGuess: [',', ';', '\t'], skipEmptyLines: false });
-  const all = parsed.data.map((cells, i) => ({ line: i + 1, cells }));
-  const body = all.filter((r) => r.cells.some((c) => c.trim() !== ''));
-  if (body.length > LIMITS.parts + 1) return { ok: false, error: `a stock count may list at most ${LIMITS.parts.toLocaleString('en-GB')} parts` };
-  const headers = (body[0]?.cells ?? []).map(norm);
-  const mpnCol = headers.findIndex((h) => MPN_HEADERS.includes(h));
-  const countCol = headers.findIndex((h) => COUNT_HEADERS.includes(h));
-  if (mpnCol < 0 || countCol < 0) {
-    return { ok: false, error: `a stock count needs a column of part numbers (headed ${MPN_HEADERS[0]}) and one of counts (headed ${COUNT_HEADERS[0]}); the first line has ${(body[0]?.cells ?? []).join(', ') || 'nothing'}` };
-  }
-  const t = { rows: body.slice(1) };
-  const problems: string[] = [];
-  const lines: CountLine[] = [];
-  for (const row of t.rows) {
-    const mpn = (row.cells[mpnCol] ?? '').trim();
-    const text = (row.cells[countCol] ?? '').trim();
-    if (mpn === '' && text === '') continue;
-    const part = partByMpn(book.parts, mpn);
-    const counted = /^\d+$/.test(text) ? Number(text) : NaN;
-    if (!part) problems.push(`line ${row.line}: no part ${JSON.stringify(mpn)} in the Book`);
-    else if (!Number.isSafeInteger(counted)) problems.push(`line ${row.line}: the count ${JSON.stringify(text)} is not a whole number ≥ 0`);
-    else lines.push({ partId: part.id, counted });
-  }
-  if (problems.length) {
-    return { ok: false, error: `nothing counted: ${problems.slice(0, 5).join('; ')}${problems.length > 5 ? `; and ${problems.length - 5} more` : ''}` };
-  }
-  if (lines.length === 0) return { ok: false, error: 'the file counts no parts' };
-  return { ok: true, value: lines };
 }

@@ -46,10 +46,12 @@ export interface ReadOptions {
 export interface TableKind {
   name: string;
   score: (cell: string) => number;
+  /** The score a line needs to be taken for the header row. */
+  minScore: number;
   examples: string;
 }
 
-export const PRICE_TABLE: TableKind = { name: 'price file', score: headerWordScore, examples: "'MPN', 'Order code', 'Qty' and 'Price'" };
+export const PRICE_TABLE: TableKind = { name: 'price file', score: headerWordScore, minScore: 3, examples: "'MPN', 'Order code', 'Qty' and 'Price'" };
 
 /**
  * Bounds real price files never reach, so a hostile file is refused quickly instead of freezing the page (the
@@ -158,7 +160,7 @@ function findHeader(text: string, saved: Set<string>, kind: TableKind, forced?: 
     if (line.trim() !== '' && !isCommentLine(line)) {
       for (const d of forced ? [forced] : DELIMITERS) {
         const { score, cells } = scoreLine(line, d, saved, kind);
-        if (score < 3) continue; // at least one exact header word and one more
+        if (score < kind.minScore) continue; // a price file: at least one exact header word and one more
         if (!best || score > best.score || (score === best.score && lineNo === best.line && cells > best.cells)) {
           best = { line: lineNo, offset, delimiter: d, score, cells };
         }

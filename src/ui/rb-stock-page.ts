@@ -1,6 +1,5 @@
 // Stock page: on hand per part as the sum of its movements, each part's history, a form to record a count, a receipt
-// not on an order, scrap or a correction, and a stock count file (part numbers and counts) recorded all or nothing,
-// with an undo of the last count recorded here.
+// not on an order, scrap or a correction, and a stock count file imported as an undoable batch (rb-stock-count).
 import { LitElement, html } from 'lit';
 import { customElement, state } from 'lit/decorators.js';
 import type { Book, Part, StockMoveKind } from '../domain/book.ts';
@@ -9,10 +8,10 @@ import { todayIso } from '../domain/dates.ts';
 import { grouped } from '../domain/format.ts';
 import { isOpen, outstanding } from '../domain/orders.ts';
 import { onHandByPart, partHistory, recordMove, stockCount } from '../domain/stock.ts';
-import type { CountResult, Outcome } from '../domain/stock.ts';
-import { readStockCount } from '../io/plan-export.ts';
+import type { Outcome } from '../domain/stock.ts';
 import { BookController } from './book-context.ts';
 import { buyingStyles } from './buying-styles.ts';
+import './rb-stock-count.ts';
 import { pageStyles, problemStyles } from './styles.ts';
 
 /** What the form records, in the words on screen. */
@@ -32,13 +31,11 @@ export class RbStockPage extends LitElement {
   @state() private selected: string | undefined;
   @state() private entry = { partId: '', kind: 'count' as EntryKind, quantity: '', date: todayIso(), reason: '' };
   @state() private message: { text: string; bad: boolean } | undefined;
-  @state() private count: { file: string; date: string; result: CountResult } | undefined;
-  @state() private lastCount: string[] | undefined;
 
   override render() {
     const book = this.books.book;
     if (!book) return html``;
-    return html`${this.renderOnHand(book)} ${this.renderEntry(book)} ${this.renderCount(book)} ${this.renderHistory(book)}`;
+    return html`${this.renderOnHand(book)} ${this.renderEntry(book)} <rb-stock-count></rb-stock-count> ${this.renderHistory(book)}`;
   }
 
   private renderOnHand(book: Book) {
@@ -108,49 +105,6 @@ export class RbStockPage extends LitElement {
     </section>`;
   }
 
-  private renderCount(book: Book) {
-    const mpn = new Map(book.parts.map((p) => [p.id, p.mpn] as const));
-    const c = this.count;
-    return html`<section class="sheet" aria-labelledby="count-h">
-      <h2 id="count-h">Stock count from a file</h2>
-      <p class="why">
-        A CSV file with a column of maker part numbers (headed mpn or part) and a column of counts (headed counted,
-        count or qty). Every row must name a part of the Book; any problem refuses the whole file.
-      </p>
-      <input type="file" accept=".csv,text/csv,text/plain" aria-label="stock count file" @change=${(e: Event) => this.readCount(e, book)} />
-      ${c
-        ? html`<p>${c.file}: ${c.result.lines.length} parts counted on ${c.date}; ${c.result.lines.filter((l) => l.difference !== 0).length} differ from the ledger.</p>
-            <div class="scroll">
-              <table class="records" data-testid="count-preview">
-                <thead>
-                  <tr>
-                    <th>mpn</th>
-                    <th class="num">ledger</th>
-                    <th class="num">counted</th>
-                    <th class="num">difference</th>
-                  </tr>
-                </thead>
-                <tbody>
-                  ${c.result.lines.map(
-                    (l) => html`<tr>
-                      <td class="code">${mpn.get(l.partId) ?? l.partId}</td>
-                      <td class="num">${grouped(l.before)}</td>
-                      <td class="num">${grouped(l.counted)}</td>
-                      <td class="num">${l.difference > 0 ? '+' : ''}${grouped(l.difference)}</td>
-                    </tr>`,
-                  )}
-                </tbody>
-              </table>
-            </div>
-            <div class="toolbar">
-              <button type="button" class="primary" @click=${() => this.recordCount(c.result)}>Record this count</button>
-              <button type="button" class="quiet" @click=${() => (this.count = undefined)}>Discard</button>
-            </div>`
-        : ''}
-      ${this.lastCount ? html`<div class="toolbar"><button type="button" @click=${() => this.undoCount()}>Undo the last count (${this.lastCount.length} movements)</button></div>` : ''}
-    </section>`;
-  }
-
   private renderHistory(book: Book) {
     const part = book.parts.find((p) => p.id === this.selected);
     if (!part) return '';
@@ -208,37 +162,6 @@ export class RbStockPage extends LitElement {
     if ((change.value.put?.stockMoves ?? []).length === 0) return void (this.message = { text: 'The count agrees with the ledger: nothing to record.', bad: false });
     await this.save(change.value, 'Recorded.');
     if (!this.message?.bad) this.entry = { ...this.entry, quantity: '', reason: '' };
-  }
-
-  private async readCount(e: Event, book: Book): Promise<void> {
-    const input = e.target as HTMLInputElement;
-    const file = input.files?.[0];
-    input.value = '';
-    if (!file) return;
-    const lines = readStockCount(book, new Uint8Array(await file.arrayBuffer()));
-    const date = this.entry.date;
-    const counted = lines.ok ? stockCount(book, date, lines.value, `stock count ${file.name}`) : lines;
-    if (!counted.ok) {
-      this.count = undefined;
-      this.message = { text: `${file.name} was not counted: ${counted.error}`, bad: true };
-      return;
-    }
-    this.message = undefined;
-    this.count = { file: file.name, date, result: counted.value };
-  }
-
-  private async recordCount(result: CountResult): Promise<void> {
-    await this.save(result.change, 'The count is recorded.');
-    if (!this.message?.bad) {
-      this.lastCount = (result.change.put?.stockMoves ?? []).map((m) => m.id);
-      this.count = undefined;
-    }
-  }
-
-  private async undoCount(): Promise<void> {
-    if (!this.lastCount) return;
-    await this.save({ delete: { stockMoves: this.lastCount } }, 'The last count is undone.');
-    if (!this.message?.bad) this.lastCount = undefined;
   }
 
   private async save(change: BookChange, done: string): Promise<void> {
