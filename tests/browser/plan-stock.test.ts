@@ -1,5 +1,6 @@
 // A season's buying in real Chromium on the demo Book: plan its two runs, place the suggested orders, receive them
-// (one line in part), mark the first run built, and see the stock and the next plan follow.
+// (one line in part), mark the first run built, and see the stock and the next plan follow; import a stock count file
+// with a column chosen by hand, and undo it from its import record.
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { AppUnderTest } from './harness.ts';
@@ -101,4 +102,38 @@ describe('planning, orders and stock in the browser', () => {
     await expect.poll(async () => (await history.nth(1).textContent()) ?? '').toContain(`run ${firstRun}`);
     expect(errors).toEqual([]);
   }, 180_000);
+
+  it('imports a stock count with a column chosen instead of the guess, records it as an import and undoes it', async () => {
+    const { page, errors } = await app.open('#/stock');
+    const options = page.locator('select[name="part"] option[value]:not([value=""])');
+    await expect.poll(() => options.count()).toBeGreaterThan(1);
+    const [a, b] = (await options.allTextContents()).map((t) => t.trim());
+    // "Part" reads as the part number column, but here it holds shelf labels: the part numbers are under "Ref".
+    const csv = `Ref;Part;Pieces\r\n${a};shelf 1;1.250\r\n${b};shelf 2;40\r\n`;
+    await page.locator('input[name="count-date"]').fill('2027-01-04');
+    await page.locator('input[aria-label="stock count file"]').setInputFiles({ name: 'count-jan.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
+    await expect.poll(async () => (await page.locator('[data-testid="count-read"]').textContent()) ?? '').toContain('semicolon separated');
+    await expect.poll(async () => (await page.locator('[data-testid="problems-table"]').textContent()) ?? '').toContain('no column of the count found');
+    await expect.poll(() => page.locator('[data-testid="count-preview"]').count()).toBe(0);
+
+    await page.locator('select[name="column-mpn"]').selectOption('Ref');
+    await page.locator('select[name="column-counted"]').selectOption('Pieces');
+    const preview = page.locator('[data-testid="count-preview"] tbody tr');
+    await expect.poll(() => preview.count()).toBe(2);
+    await page.getByRole('button', { name: 'Record this count' }).click();
+    // A semicolon file writes decimals with a comma, so "1.250" is one thousand two hundred and fifty.
+    const onHandOf = (mpn: string) => page.locator(`[data-testid="stock-table"] tr[data-mpn="${mpn}"] [data-testid="on-hand"]`);
+    await expect.poll(async () => count((await onHandOf(a!).textContent()) ?? '')).toBe(1250);
+    await expect.poll(async () => count((await onHandOf(b!).textContent()) ?? '')).toBe(40);
+    const batch = page.locator('[data-testid="count-batches"] tbody tr', { hasText: 'count-jan.csv' });
+    await expect.poll(async () => (await batch.locator('td').nth(3).textContent())?.trim()).toBe('2');
+
+    // Undone later, from its import record: the ledger is as it was and the import is marked undone.
+    await page.reload();
+    await batch.getByRole('button', { name: 'Undo' }).click();
+    await expect.poll(() => onHandOf(a!).count()).toBe(0);
+    await expect.poll(() => onHandOf(b!).count()).toBe(0);
+    await expect.poll(async () => (await batch.textContent()) ?? '').toContain('undone');
+    expect(errors).toEqual([]);
+  }, 120_000);
 });
