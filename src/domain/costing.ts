@@ -492,7 +492,7 @@ export function priceFor(unitCost: number, marginPct: number): number {
  * Adds each supplier's amounts per order to its lines' freight and charges, shared by goods value (domain/landed.ts).
  * An amount in a currency the Book has no rate for is a problem on the supplier's first line.
  */
-function shareOrderAmounts(ctx: CostingContext, lines: CostedLine[]): CostProblem[] {
+export function shareOrderAmounts(ctx: CostingContext, lines: CostedLine[]): CostProblem[] {
   const problems: CostProblem[] = [];
   const bySupplier = new Map<string, number[]>();
   lines.forEach((l, i) => {

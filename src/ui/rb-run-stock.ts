@@ -3,7 +3,7 @@
 import { LitElement, html } from 'lit';
 import { customElement, property } from 'lit/decorators.js';
 import type { Book } from '../domain/book.ts';
-import { prepareCosting } from '../domain/costing.ts';
+import { prepareCosting, toCents } from '../domain/costing.ts';
 import type { Result } from '../domain/costing.ts';
 import { grouped, money } from '../domain/format.ts';
 import { runFromStock } from '../domain/planning.ts';
@@ -56,7 +56,7 @@ export class RbRunStock extends LitElement {
               <th>valued at</th>
               <th class="num">to buy</th>
               <th class="num">order qty</th>
-              <th class="num">bought (${base})</th>
+              <th class="num" title="goods and landed cost (freight, duty, charges)">bought, landed (${base})</th>
             </tr>
           </thead>
           <tbody>
@@ -69,7 +69,7 @@ export class RbRunStock extends LitElement {
                 <td>${l.fromStock > 0 ? l.valuedAt : ''}</td>
                 <td class="num">${grouped(l.toBuy)}</td>
                 <td class="num">${l.problem ? html`<span class="problem">✗ ${l.problem}</span>` : grouped(l.buy)}</td>
-                <td class="num">${money(l.boughtBase)}</td>
+                <td class="num">${money((toCents(l.boughtBase) + toCents(l.landedBase)) / 100)}</td>
               </tr>`,
             )}
           </tbody>
@@ -78,7 +78,7 @@ export class RbRunStock extends LitElement {
               <th colspan="3">material for the run: ${money(c.materialRun)} ${base} (per unit ${c.material.toFixed(4)})</th>
               <th class="num">${money(c.stockRun)}</th>
               <th colspan="3"></th>
-              <th class="num">${money(c.boughtRun)}</th>
+              <th class="num">${money(c.boughtRun)}${c.landedRun ? html`<div class="muted">of which landed ${money(c.landedRun)}</div>` : ''}</th>
             </tr>
           </tfoot>
         </table>
