@@ -1,9 +1,12 @@
 // `rungbook cost FILE --variant CODE --run N`: the costed BOM of one variant for one production run, with its totals,
-// as a table, JSON or CSV. The numbers come from the same costing workbook the app uses.
+// as a table, JSON or CSV; with --stock, what comes from the stock on hand and what is still bought. The numbers come
+// from the same costing workbook and stock rules the app uses.
 import type { Book, Variant } from '../../domain/book.ts';
 import type { CostedBom } from '../../domain/costing.ts';
 import { isIsoDate } from '../../domain/dates.ts';
+import type { StockCostedBom } from '../../domain/stock-costing.ts';
 import { costedBomCsv, costVariant, frozenCosting, parseExportOptions } from '../../io/run-export.ts';
+import { costWithStock, stockCostCsv, stockCostJson, stockCostRows } from '../../io/stock-cost-export.ts';
 import type { ExportOptions, RunCosting } from '../../io/run-export.ts';
 import { loadBook } from '../book-read.ts';
 import { parseArgs } from '../command.ts';
@@ -17,7 +20,7 @@ export const CSV_CHOICES = `CSV choices (with --csv):
   --decimal W      point (default) or comma (a decimal comma needs --delimiter semicolon or tab)
   --bom            start the file with a UTF-8 byte-order mark`;
 
-const HELP = `usage: rungbook cost FILE --variant CODE --run N [--json | --csv [CSV CHOICES]] [--date YYYY-MM-DD] [--fresh]
+const HELP = `usage: rungbook cost FILE --variant CODE --run N [--stock] [--json | --csv [CSV CHOICES]] [--date YYYY-MM-DD] [--fresh]
 
 Costs one variant of a .rungbook.json Book for a production run of N units: per BOM line the need (with
 attrition), the order quantity (MOQ, whole packs, buying up to a cheaper price break), the chosen quote, unit and
@@ -30,6 +33,13 @@ at the Book's margin, and the run total. Lines of the same part are bought toget
   --csv            print the lines and totals as CSV (RFC 4180; text that could run as a formula is neutralised)
   --date D         decide quote expiry at this date (default: the Book's costing date, else today)
   --fresh          cost with today's quotes even when the Book holds a frozen Run of this variant and quantity
+  --stock          cost with the stock on hand: per line the parts taken from stock (all on hand on the costing
+                   date; stock the plan sets aside for earlier planned runs is not held back, see rungbook plan)
+                   and their value at the Book's stock valuation (last price paid, else today's quote; or today's
+                   quote), and what is still bought (the need less stock, with the buy rules, from the supplier
+                   the costing chose) with its landed cost: the percentages on its goods, a supplier's amounts per
+                   order shared among the lines still bought from it. Run material = stock value + bought + landed.
+                   Always today's quotes (as --fresh). --json and --csv give the same figures.
 ${CSV_CHOICES}
 
 A Run of the Book with this variant and quantity that is frozen is printed as frozen (its prices and quotes as
@@ -254,7 +264,7 @@ export const command: CliCommand = {
   async run(args: string[], io: CommandIo): Promise<number> {
     let parsed: ParsedArgs;
     try {
-      parsed = parseArgs(args, { flags: ['json', 'csv', ...COSTING_FLAGS], values: COSTING_VALUES });
+      parsed = parseArgs(args, { flags: ['json', 'csv', 'stock', ...COSTING_FLAGS], values: COSTING_VALUES });
     } catch (e) {
       io.err(`rungbook cost: ${e instanceof Error ? e.message : String(e)}\n\n${HELP}`);
       return 2;
@@ -263,8 +273,11 @@ export const command: CliCommand = {
       io.err('rungbook cost: choose one of --json and --csv');
       return 2;
     }
+    // Stock is today's: its costing is with today's quotes, not a frozen run's.
+    if (parsed.options.has('stock')) parsed.options.set('fresh', true);
     const job = await costFromArgs('cost', parsed, HELP, io);
     if (typeof job === 'number') return job;
+    if (parsed.options.has('stock')) return stockOut(job, parsed, io);
     const { bom } = job;
     if (parsed.options.has('json')) {
       io.out(jsonText(costJson(bom)));
@@ -284,3 +297,43 @@ export const command: CliCommand = {
     return bom.complete ? 0 : 1;
   },
 };
+
+/** `cost --stock`: the costing with the stock on hand, as a table, JSON or CSV. */
+function stockOut(job: CostJob, parsed: ParsedArgs, io: CommandIo): number {
+  const r = costWithStock(job.book, job.costing);
+  if (!r.ok) {
+    io.err(`rungbook cost: ${shown(r.error)}`);
+    return 2;
+  }
+  const c = r.value;
+  if (parsed.options.has('json')) {
+    io.out(jsonText(stockCostJson(c)));
+    io.err(MAINS_CAUTION);
+  } else if (parsed.options.has('csv')) {
+    const text = stockCostCsv(c, job.csv);
+    if (!text.ok) {
+      io.err(`rungbook cost: ${text.error}`);
+      return 2;
+    }
+    io.data(text.value);
+    io.err(MAINS_CAUTION);
+  } else io.out(stockTableOut(job, c).join('\n'));
+  const unpriced = [...job.bom.problems.map((p) => `${p.designators || p.lineId || ''}: ${p.message}`), ...c.lines.filter((l) => l.problem).map((l) => `${l.line.designators}: ${l.problem}`)];
+  for (const p of unpriced) io.err(`rungbook cost: not priced: ${shown(p)}`);
+  return unpriced.length ? 1 : 0;
+}
+
+function stockTableOut(job: CostJob, c: StockCostedBom): string[] {
+  const cur = shown(c.bom.currency);
+  const valuation = c.valuation === 'lastPaid' ? 'last price paid (else today\'s quote)' : "today's quote";
+  const out = [`${shown(c.bom.variant)} — ${shown(job.variant.name)}: run of ${c.bom.run} with the stock on hand on ${shown(c.bom.date)}, stock valued at ${valuation}, totals in ${cur}`, ''];
+  const rows = stockCostRows(c);
+  const cell = (x: (typeof rows)[number][number]): string => (x === undefined ? '' : typeof x === 'string' ? shown(x) : x.kind === 'qty' ? fmt.qty(x.n) : x.kind === 'price' ? fmt.price(x.n) : x.kind === 'unit' ? fmt.unit(x.n) : fmt.money(x.n));
+  const lines = rows.slice(0, c.lines.length + 1).map((r) => r.map(cell));
+  out.push(...table(lines, [false, false, true, true, true, false, true, true, false, true, false, true, true, false]));
+  out.push('');
+  const sums = rows.slice(c.lines.length + 1).map((r) => [cell(r[0]), cell(r.find((x, i) => i > 0 && x !== undefined))]);
+  out.push(...table(sums, [false, true]));
+  out.push('', MAINS_CAUTION);
+  return out;
+}
