@@ -17,8 +17,8 @@ import {
   splitMoney,
 } from './price-map.ts';
 import type { DateOrder, Decimal, LeadUnit, PriceField, PriceProblem, PriceUnit, ResolvedMapping } from './price-map.ts';
-import { DELIMITER_NAMES, readPriceTable, readTableBytes } from './price-read.ts';
-import type { DecodeNotes, Delimiter, TableRow } from './price-read.ts';
+import { DELIMITER_NAMES, readTableBytes } from './price-read.ts';
+import type { DecodeNotes, Delimiter, ReadOptions, TableRow } from './price-read.ts';
 
 /** One supplier offer read from the file: everything a Quote needs except the part, supplier and ids. */
 export interface PriceOffer {
@@ -123,7 +123,7 @@ export async function analysePriceFile(
   onRows?: (rows: number) => void,
 ): Promise<PriceAnalysis> {
   const hash = await sha256Hex(bytes);
-  const readOptions: Parameters<typeof readPriceTable>[1] = {};
+  const readOptions: ReadOptions = {};
   if (options.mapping) readOptions.mapping = options.mapping;
   if (options.delimiter) readOptions.delimiter = options.delimiter;
   if (onRows) readOptions.onRows = onRows;

@@ -7,7 +7,7 @@ import { purchaseListCsv } from '../../io/run-export.ts';
 import { parseArgs } from '../command.ts';
 import type { CliCommand, CommandIo, ParsedArgs } from '../command.ts';
 import { shown } from '../terminal.ts';
-import { COSTING_FLAGS, COSTING_VALUES, CSV_CHOICES, costFromArgs, fmt, table } from './cost.ts';
+import { COSTING_FLAGS, COSTING_VALUES, CSV_CHOICES, costFromArgs, fmt, printOutput, table } from './cost.ts';
 import { MAINS_CAUTION } from './info.ts';
 
 const HELP = `usage: rungbook buy FILE --variant CODE --run N [--wanted YYYY-MM-DD] [--csv [CSV CHOICES]] [--date YYYY-MM-DD] [--fresh]
@@ -59,15 +59,7 @@ export const command: CliCommand = {
     const { bom } = job;
     const wanted = wantedDate(job.book, job.variant, job.run, parsed);
     const list = purchaseList(bom, { dateWanted: wanted });
-    if (parsed.options.has('csv')) {
-      const text = purchaseListCsv(list, job.csv);
-      if (!text.ok) {
-        io.err(`rungbook buy: ${text.error}`);
-        return 2;
-      }
-      io.data(text.value);
-      io.err(MAINS_CAUTION);
-    } else {
+    const tableLines = (): string[] => {
       const out: string[] = [];
       const cur = shown(bom.currency);
       out.push(`Purchase list for ${shown(bom.variant)} — ${shown(job.variant.name)}: run of ${bom.run}, quotes valid on ${shown(bom.date)}`);
@@ -86,8 +78,9 @@ export const command: CliCommand = {
       out.push('', `all suppliers (${cur})  ${fmt.money(list.totalBase)}`);
       for (const p of bom.problems) out.push(`NOT ON THE LIST ${shown(p.designators || p.lineId || '')}: ${shown(p.message)}`);
       out.push('', MAINS_CAUTION);
-      io.out(out.join('\n'));
-    }
+      return out;
+    };
+    if (!printOutput('buy', parsed, io, { csv: () => purchaseListCsv(list, job.csv), table: tableLines })) return 2;
     for (const p of bom.problems) io.err(`rungbook buy: not priced: ${shown(p.designators || p.lineId || '')}: ${shown(p.message)}`);
     return bom.complete ? 0 : 1;
   },

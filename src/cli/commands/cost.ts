@@ -2,7 +2,7 @@
 // as a table, JSON or CSV; with --stock, what comes from the stock on hand and what is still bought. The numbers come
 // from the same costing workbook and stock rules the app uses.
 import type { Book, Variant } from '../../domain/book.ts';
-import type { CostedBom } from '../../domain/costing.ts';
+import type { CostedBom, Result } from '../../domain/costing.ts';
 import { isIsoDate } from '../../domain/dates.ts';
 import type { StockCostedBom } from '../../domain/stock-costing.ts';
 import { costedBomCsv, costVariant, frozenCosting, parseExportOptions } from '../../io/run-export.ts';
@@ -137,6 +137,30 @@ export async function costFromArgs(name: string, parsed: ParsedArgs, help: strin
   }
   if (useFrozen) io.err(`rungbook ${name}: run ${shown(frozenRun.name)} is frozen (${frozenRun.frozen!.at}): prices and quotes as frozen; give --fresh to cost with today's quotes`);
   return { book, variant, run, bom: costing.value.bom, costing: costing.value, csv };
+}
+
+/** What a costing command can print; the table ends with the mains caution, JSON and CSV have it on stderr. */
+export interface Outputs {
+  json?: () => unknown;
+  csv: () => Result<string>;
+  table: () => string[];
+}
+
+/** Prints as --json or --csv ask, else the table; false when the CSV choices were refused (the reason written). */
+export function printOutput(name: string, parsed: ParsedArgs, io: CommandIo, o: Outputs): boolean {
+  if (o.json && parsed.options.has('json')) {
+    io.out(jsonText(o.json()));
+    io.err(MAINS_CAUTION);
+  } else if (parsed.options.has('csv')) {
+    const text = o.csv();
+    if (!text.ok) {
+      io.err(`rungbook ${name}: ${text.error}`);
+      return false;
+    }
+    io.data(text.value);
+    io.err(MAINS_CAUTION);
+  } else io.out(o.table().join('\n'));
+  return true;
 }
 
 /** Money to 2 decimals, per-unit figures to 4, quantities as whole numbers with thin grouping. */
@@ -279,20 +303,7 @@ export const command: CliCommand = {
     if (typeof job === 'number') return job;
     if (parsed.options.has('stock')) return stockOut(job, parsed, io);
     const { bom } = job;
-    if (parsed.options.has('json')) {
-      io.out(jsonText(costJson(bom)));
-      io.err(MAINS_CAUTION);
-    } else if (parsed.options.has('csv')) {
-      const text = costedBomCsv(job.costing, job.csv);
-      if (!text.ok) {
-        io.err(`rungbook cost: ${text.error}`);
-        return 2;
-      }
-      io.data(text.value);
-      io.err(MAINS_CAUTION);
-    } else {
-      io.out(tableOut(job).join('\n'));
-    }
+    if (!printOutput('cost', parsed, io, { json: () => costJson(bom), csv: () => costedBomCsv(job.costing, job.csv), table: () => tableOut(job) })) return 2;
     for (const p of bom.problems) io.err(`rungbook cost: not priced: ${shown(p.designators || p.lineId || '')}: ${shown(p.message)}`);
     return bom.complete ? 0 : 1;
   },
@@ -306,18 +317,7 @@ function stockOut(job: CostJob, parsed: ParsedArgs, io: CommandIo): number {
     return 2;
   }
   const c = r.value;
-  if (parsed.options.has('json')) {
-    io.out(jsonText(stockCostJson(c)));
-    io.err(MAINS_CAUTION);
-  } else if (parsed.options.has('csv')) {
-    const text = stockCostCsv(c, job.csv);
-    if (!text.ok) {
-      io.err(`rungbook cost: ${text.error}`);
-      return 2;
-    }
-    io.data(text.value);
-    io.err(MAINS_CAUTION);
-  } else io.out(stockTableOut(job, c).join('\n'));
+  if (!printOutput('cost', parsed, io, { json: () => stockCostJson(c), csv: () => stockCostCsv(c, job.csv), table: () => stockTableOut(job, c) })) return 2;
   const unpriced = [...job.bom.problems.map((p) => `${p.designators || p.lineId || ''}: ${p.message}`), ...c.lines.filter((l) => l.problem).map((l) => `${l.line.designators}: ${l.problem}`)];
   for (const p of unpriced) io.err(`rungbook cost: not priced: ${shown(p)}`);
   return unpriced.length ? 1 : 0;
