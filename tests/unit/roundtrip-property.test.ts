@@ -79,9 +79,14 @@ function linked(raw: unknown): unknown {
   });
   if ('runs' in book) book.runs = records(book, 'runs').filter(() => variants.length > 0).map((r, i) => ({ ...r, variantId: pick(variants, i) }));
   if ('importBatches' in book) {
+    // A price file names its supplier; a stock count has none.
     book.importBatches = records(book, 'importBatches')
-      .filter(() => suppliers.length > 0)
-      .map((b, i) => ({ ...b, supplierId: pick(suppliers, i) }));
+      .filter((b) => b['kind'] === 'stock count' || suppliers.length > 0)
+      .map((b, i) => {
+        if (b['kind'] !== 'stock count') return { ...b, supplierId: pick(suppliers, i) };
+        const { supplierId: _s, ...count } = b;
+        return count;
+      });
   }
   for (const r of records(book, 'runs')) {
     if (r.status === 'built') r.builtDate ??= '2025-01-01';
