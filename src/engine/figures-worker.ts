@@ -5,6 +5,7 @@
 import type { Book, BuildLine, Quote } from '../domain/book.ts';
 import { applyBookDelta } from '../domain/book-ops.ts';
 import type { BookDelta } from '../domain/book-ops.ts';
+import { createEngine } from './create.ts';
 import { LiveFigures, splitUpdate } from './figures.ts';
 import type { FiguresUpdate } from './figures.ts';
 import { trialOutcomes } from './line-trial.ts';
@@ -94,6 +95,15 @@ export class FiguresHost {
   }
 }
 
+/** Builds and drops one small workbook with a cost formula, so the first real one is built on warm code. */
+export function warmEngine(): void {
+  try {
+    createEngine({ licenseKey: 'gpl-v3' }, { Warm: [[1, 2, '=SUM(A1:B1)', '=COST_ROUND_UNIT(C1/3)']] }).destroy();
+  } catch {
+    // Only a head start; the first Book builds it anyway.
+  }
+}
+
 /** Quotes per message when a Book or change is sent in parts: each part takes the page a few ms to copy. */
 export const QUOTES_PER_PART = 4000;
 
@@ -136,4 +146,6 @@ if (typeof scope.WorkerGlobalScope !== 'undefined') {
   scope.onmessage = (e: MessageEvent<FiguresRequest>) => {
     for (const m of host.handle(e.data)) scope.postMessage(m);
   };
+  // Warm the formula engine (function registration, parser, compiled code) while the page is still opening the Book.
+  warmEngine();
 }

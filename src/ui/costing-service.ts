@@ -48,6 +48,23 @@ let workerFactory: (() => FiguresWorkerLike) | undefined = typeof Worker === 'fu
 /** Sets how services made from now on run the engines (undefined: in-process). For tests. */
 export function setFiguresWorker(factory: (() => FiguresWorkerLike) | undefined): void {
   workerFactory = factory;
+  spare = undefined;
+}
+
+/** A worker started ahead of need, which the first service to want one takes. */
+let spare: FiguresWorkerLike | undefined;
+
+/**
+ * Starts the figures worker now, so that its code loads and its formula engine warms up while the page is still
+ * opening the Book: the first figures then come without that wait. Does nothing where workers are not used.
+ */
+export function warmFiguresWorker(): void {
+  if (spare || !workerFactory) return;
+  try {
+    spare = workerFactory();
+  } catch {
+    // The service will try again when it needs the worker, and say why if it still cannot start.
+  }
 }
 
 const services = new WeakMap<BookSource, CostingService>();
@@ -281,7 +298,8 @@ export class CostingService extends EventTarget {
   }
 
   private startWorker(): FiguresWorkerLike {
-    const worker = this.makeWorker!();
+    const worker = spare ?? this.makeWorker!();
+    spare = undefined;
     worker.onmessage = (e) => this.answered(e.data);
     worker.onerror = (e) => {
       e.preventDefault?.();

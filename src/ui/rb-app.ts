@@ -9,6 +9,7 @@ import { BOOK_FILE_EXTENSION } from '../io/book-file.ts';
 import { StoredBookInvalid } from '../store/types.ts';
 import { bookContext } from './book-context.ts';
 import { BookService } from './book-service.ts';
+import { CostingService, warmFiguresWorker } from './costing-service.ts';
 import { PAGES, START_PAGE, notebookRoute, parseRoute } from './pages.ts';
 import type { PageEntry, Route } from './pages.ts';
 import type { NoticeDetail } from './rb-book-menu.ts';
@@ -253,7 +254,11 @@ export class RbApp extends LitElement {
 
   private async open(): Promise<void> {
     try {
+      // The figures worker loads and warms up while the Book is read (and, on a first start, written).
+      warmFiguresWorker();
       const service = await BookService.open();
+      // Figures are worked out off the page's thread from now on, while the first page's code still loads.
+      CostingService.for(service).sync();
       service.addEventListener('change', this.onServiceChange);
       this.provider.setValue(service);
       this.phase = { kind: 'open', service };
