@@ -1,5 +1,6 @@
 // The page's side of the Book file worker: sends the chosen file, reports which stage it is in, resolves with the
 // Book or the problems. The page's thread only receives the finished Book.
+import type { Book, CollectionName } from '../domain/book.ts';
 import type { BookFileResult } from './book-file.ts';
 import type { BookFileStage, BookWorkerMessage, BookWorkerRequest } from './book-worker.ts';
 
@@ -34,12 +35,23 @@ export function openBookFileInWorker(
       reject(new Error(`the Book file reader could not start: ${e instanceof Error ? e.message : String(e)}`));
       return;
     }
+    /** Records of large collections received ahead of the result, in order. */
+    const parts = new Map<CollectionName, unknown[]>();
     worker.onmessage = (e) => {
       const m = e.data;
       if (m.type === 'progress') onStage?.(m.stage);
-      else if (m.type === 'result') {
+      else if (m.type === 'records') {
+        const list = parts.get(m.collection) ?? [];
+        for (const r of m.records) list.push(r);
+        parts.set(m.collection, list);
+      } else if (m.type === 'result') {
         worker.terminate();
-        resolve(m.result);
+        const r = m.result;
+        if (r.ok && m.parted?.length) {
+          const book = { ...r.book } as unknown as Record<CollectionName, unknown[]>;
+          for (const c of m.parted) book[c] = parts.get(c) ?? [];
+          resolve({ ...r, book: book as unknown as Book });
+        } else resolve(r);
       } else {
         worker.terminate();
         reject(new Error(m.message));

@@ -1,8 +1,10 @@
 // Web Worker entry for opening a Book file off the page's thread: reading the file, JSON.parse and validation of a
 // large Book take seconds, and the page must keep drawing and answering meanwhile. It returns the Book (copied to
-// the page by structured clone) or the problems. The UI starts it with openBookFileInWorker (book-worker-client.ts).
+// the page by structured clone, a large collection in parts so that no one copy holds the page) or the problems. The UI starts it with openBookFileInWorker (book-worker-client.ts).
 import { bookFileSizeProblem, parseBookFile } from './book-file.ts';
 import type { BookFileResult } from './book-file.ts';
+import { COLLECTIONS } from '../domain/book.ts';
+import type { Book, CollectionName } from '../domain/book.ts';
 
 export interface BookWorkerRequest {
   type: 'open';
@@ -14,8 +16,35 @@ export type BookFileStage = 'reading' | 'checking';
 
 export type BookWorkerMessage =
   | { type: 'progress'; stage: BookFileStage; bytes: number }
-  | { type: 'result'; result: BookFileResult }
+  /** Records of a large collection, sent ahead of the result in parts (see sendInParts). */
+  | { type: 'records'; collection: CollectionName; records: unknown[] }
+  /** The result; `parted` names the collections whose records came ahead in parts (empty in `result`). */
+  | { type: 'result'; result: BookFileResult; parted?: CollectionName[] }
   | { type: 'error'; message: string };
+
+/** Records per message of a large collection: each part takes the page a few ms to receive. */
+export const RECORDS_PER_PART = 4000;
+
+/**
+ * Posts a Book file's result so that the page never takes one long copy: the records of each collection larger than
+ * RECORDS_PER_PART go ahead in parts (one message, and so one task of the page's, each), then the result without them.
+ */
+export function postResult(result: BookFileResult, post: (m: BookWorkerMessage) => void): void {
+  if (!result.ok) {
+    post({ type: 'result', result });
+    return;
+  }
+  const parted: CollectionName[] = [];
+  const book: Book = { ...result.book };
+  for (const c of COLLECTIONS) {
+    const list: readonly unknown[] = result.book[c];
+    if (list.length <= RECORDS_PER_PART) continue;
+    for (let i = 0; i < list.length; i += RECORDS_PER_PART) post({ type: 'records', collection: c, records: list.slice(i, i + RECORDS_PER_PART) });
+    (book as unknown as Record<CollectionName, unknown[]>)[c] = [];
+    parted.push(c);
+  }
+  post(parted.length ? { type: 'result', result: { ...result, book }, parted } : { type: 'result', result });
+}
 
 /**
  * Reads a Book file's bytes as a Book: the size first (nothing is read beyond the limit), then the text through
@@ -44,7 +73,7 @@ export async function handleBookWorkerRequest(request: BookWorkerRequest, post: 
   const bytes = request.file.size;
   try {
     const result = await readBookFileBlob(request.file, (stage) => post({ type: 'progress', stage, bytes }));
-    post({ type: 'result', result });
+    postResult(result, post);
   } catch (e) {
     post({ type: 'error', message: `the Book file could not be read: ${e instanceof Error ? e.message : String(e)}` });
   }

@@ -19,7 +19,7 @@ import {
   serializeBook,
   serializeBookSliced,
 } from '../../src/io/book-file.ts';
-import { handleBookWorkerRequest, readBookFileBlob } from '../../src/io/book-worker.ts';
+import { RECORDS_PER_PART, handleBookWorkerRequest, readBookFileBlob } from '../../src/io/book-worker.ts';
 import type { BookWorkerMessage, BookWorkerRequest } from '../../src/io/book-worker.ts';
 import { openBookFileInWorker } from '../../src/io/book-worker-client.ts';
 import type { BookWorkerLike } from '../../src/io/book-worker-client.ts';
@@ -78,6 +78,23 @@ describe('opening a Book file off the page thread', () => {
     expect(r.ok).toBe(true);
     expect(stages).toEqual(['reading', 'checking']);
     expect(worker.terminated).toBe(true);
+  });
+
+  it('sends the records of a large collection ahead in parts, and the Book it gives back is the file’s, record for record', async () => {
+    const many: Book = { ...demo, quotes: Array.from({ length: 2 * RECORDS_PER_PART + 10 }, (_, i) => ({ ...demo.quotes[i % demo.quotes.length]!, id: `quote_many_${String(i).padStart(5, '0')}` })) };
+    const text = serializeBook(many);
+    const messages: BookWorkerMessage[] = [];
+    await handleBookWorkerRequest({ type: 'open', file: new Blob([text]) }, (m) => messages.push(m));
+    const parts = messages.filter((m) => m.type === 'records');
+    expect(parts.map((m) => (m.type === 'records' ? [m.collection, m.records.length] : []))).toEqual([
+      ['quotes', RECORDS_PER_PART],
+      ['quotes', RECORDS_PER_PART],
+      ['quotes', 10],
+    ]);
+    const last = messages.at(-1)!;
+    expect(last.type === 'result' && last.parted).toEqual(['quotes']);
+    const r = await openBookFileInWorker(new Blob([text]), undefined, () => new InProcessWorker());
+    expect(r).toEqual(parseBookFile(text));
   });
 
   it('gives back the problems of a bad file, and refuses an oversized one by its size without reading it', async () => {
