@@ -8,8 +8,6 @@
 // setting, a variant parameter whose build lines resolve as before — and rebuilds them on structural changes
 // (variants added or deleted, parts, build lines, suppliers, run sizes, quote terms other than prices).
 import type { Book, CollectionName, Quote, Settings, Variant } from '../domain/book.ts';
-import { worstOf } from '../domain/check-status.ts';
-import type { CheckStatus } from '../domain/check-status.ts';
 import type { ResolvedLine, Result } from '../domain/costing.ts';
 import { CostingWorkbook, resolutionFromFamily } from './costing.ts';
 import type { ChangedCost } from './costing.ts';
@@ -354,13 +352,6 @@ export class LiveFigures {
     }
     return true;
   }
-}
-
-/** The worst status of each variant's checks, from its results. */
-export function worstByVariant(results: ReadonlyMap<string, readonly CheckResult[]>): Map<string, CheckStatus> {
-  const out = new Map<string, CheckStatus>();
-  for (const [id, list] of results) out.set(id, worstOf(list.map((r) => r.status)));
-  return out;
 }
 
 /** Variants (their check results and lines) and unit costs per message: small enough to copy in a few ms. */

@@ -67,8 +67,7 @@ export class CompareController implements ReactiveController {
   }
 
   /** Starts a new set of figures when the Book's figures, the chosen variants or the what-if edits have changed. */
-  sync(book: Book, chosen: readonly string[]): void {
-    void book;
+  sync(chosen: readonly string[]): void {
     const costing = CostingService.for(this.books.service!);
     costing.sync();
     const key = `${costing.version}\u0000${chosen.join('\u0001')}\u0000${whatIfKey(this.whatIf)}`;

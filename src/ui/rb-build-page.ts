@@ -237,17 +237,16 @@ export class RbBuildPage extends LitElement {
                 </tr>
               </thead>
               <tbody>
-                ${this.drawnLines.take(lines).map((l) => this.renderLine(book, family, l, all.indexOf(l), all.length))}
+                ${this.drawnLines.take(lines).map((l) => this.renderLine(book, l, all.indexOf(l), all.length))}
               </tbody>
             </table>
           </div>`}
     </section>`;
   }
 
-  private renderLine(book: Book, family: FamilyResolution, l: BuildLine, index: number, count: number): TemplateResult {
+  private renderLine(book: Book, l: BuildLine, index: number, count: number): TemplateResult {
     const part = l.partId ? book.parts.find((p) => p.id === l.partId) : undefined;
     const pin = l.pinnedSupplierId ? book.suppliers.find((s) => s.id === l.pinnedSupplierId) : undefined;
-    void family;
     const outcomes = this.outcomes.get(l.id) ?? [];
     const bad = outcomes.filter((o) => o.problem !== undefined);
     const applying = outcomes.filter((o) => o.applies && o.problem === undefined).length;

@@ -80,7 +80,7 @@ export class RbComparePage extends LitElement {
       chosen = book.variants.slice(0, book.variants.length <= FIRST_FEW + 2 ? book.variants.length : FIRST_FEW).map((v) => v.id);
     }
     if (chosen.length !== this.chosen?.length) this.chosen = chosen;
-    this.costs.sync(book, chosen.slice(0, MAX_SHOWN));
+    this.costs.sync(chosen.slice(0, MAX_SHOWN));
     const runs = this.costs.runSizes(book);
     if (!runs.includes(this.splitRun)) this.splitRun = runs[Math.min(1, runs.length - 1)] ?? 0;
   }
