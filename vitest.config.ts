@@ -27,6 +27,9 @@ export default defineConfig({
           fileParallelism: false,
           testTimeout: 90_000,
           hookTimeout: 180_000,
+          // A page's answer can wait on the figures worker; on a loaded 2-core machine that took over the one second
+          // expect.poll waits by default (a price list added through its form showed after it), so polls wait longer.
+          expect: { poll: { timeout: 20_000 } },
         },
       },
     ],
