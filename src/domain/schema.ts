@@ -44,6 +44,8 @@ export const LIMITS = {
   landedPct: 1_000,
   /** A price list's markup on cost, in percent. */
   markupPct: 10_000,
+  /** Approved alternates of one build line. */
+  alternates: 20,
   /** Lines of one supplier order. */
   orderLines: 1_000,
   /** Stock movements: a busy store over many seasons. */
@@ -367,6 +369,10 @@ export const SupplierSchema = obj({
   currency: currency(),
   notes: v.optional(text(LIMITS.notes), ''),
   mapping: v.optional(ColumnMappingSchema),
+  /** The supplier's order address, printed on our orders to it. */
+  address: v.optional(text(LIMITS.shortText)),
+  /** Payment terms agreed with the supplier ("30 days net"), printed on our orders to it. */
+  paymentTerms: v.optional(text(LIMITS.name)),
   // Landed cost of buying from this supplier, on top of the goods (domain/landed.ts says who pays what under each
   // quote's delivery term). Percentages are of the goods' value in the base currency.
   /** Freight charged once per order. */
@@ -482,11 +488,36 @@ export const BuildLineSchema = v.pipe(
     attrition: v.optional(num({ min: 0, below: 1 })),
     /** When set, run costing buys this line only from this supplier (other quotes are not considered). */
     pinnedSupplierId: v.optional(id()),
+    /**
+     * Approved second sources of a fixed-part line, best first after `partId`. Checks judge every approved part and
+     * report the worst; costing buys the cheapest approved part that can be had in time unless one is pinned.
+     */
+    alternates: v.optional(list(id(), LIMITS.alternates)),
+    /** When set, costing buys only this approved part (the line's part or one of its alternates). */
+    pinnedPartId: v.optional(id()),
     notes: v.optional(text(LIMITS.notes)),
   }),
   v.forward(
     v.check((l) => l.partId !== undefined || l.partRule !== undefined, 'a build line needs a part (partId) or a rule choosing it (partRule)'),
     ['partId'],
+  ),
+  v.forward(
+    v.check((l) => l.alternates === undefined || l.alternates.length === 0 || l.partId !== undefined, 'only a line with a fixed part (partId) has approved alternates'),
+    ['alternates'],
+  ),
+  v.forward(
+    v.check(
+      (l) => l.alternates === undefined || new Set([l.partId, ...l.alternates]).size === l.alternates.length + 1,
+      'an approved part is listed once: the alternates repeat a part or the line\'s own part',
+    ),
+    ['alternates'],
+  ),
+  v.forward(
+    v.check(
+      (l) => l.pinnedPartId === undefined || l.pinnedPartId === l.partId || (l.alternates ?? []).includes(l.pinnedPartId),
+      'the pinned part must be the line\'s part or one of its approved alternates',
+    ),
+    ['pinnedPartId'],
   ),
 );
 
@@ -780,6 +811,8 @@ export const SettingsSchema = v.pipe(
     rev: rev(),
     bookName: v.optional(text(LIMITS.name), 'New Book'),
     company: v.optional(text(LIMITS.name), ''),
+    /** Where suppliers deliver: the address printed on supplier orders, one line per line of text. */
+    shipTo: v.optional(text(LIMITS.shortText)),
     baseCurrency: v.optional(currency(), 'EUR'),
     /** Units of base currency for one unit of each currency (base itself is 1). */
     rates: v.optional(rates(), { EUR: 1 }),
@@ -1000,6 +1033,7 @@ export function crossRecordProblems(book: Book): SchemaProblem[] {
   book.buildLines.forEach((l, i) => {
     if (l.partId !== undefined) ref(`buildLines[${i}].partId`, l.partId, 'parts', 'part');
     if (l.pinnedSupplierId !== undefined) ref(`buildLines[${i}].pinnedSupplierId`, l.pinnedSupplierId, 'suppliers', 'supplier');
+    (l.alternates ?? []).forEach((a, k) => ref(`buildLines[${i}].alternates[${k}]`, a, 'parts', 'part'));
   });
   book.runs.forEach((r, i) => {
     ref(`runs[${i}].variantId`, r.variantId, 'variants', 'variant');
