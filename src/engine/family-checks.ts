@@ -19,6 +19,11 @@ export interface CheckResult {
   limit: string;
   limits: RuleLimits;
   message: string;
+  /**
+   * When the check reads the part of a line with approved alternates: the approved part that gives this result,
+   * the worst of the `judged` approved parts (see family-workbook.ts).
+   */
+  approvedPart?: { lineId: string; partId: string; mpn: string; judged: number };
 }
 
 const LIMIT_PARTS = ['limit', 'low', 'high'] as const;

@@ -46,8 +46,24 @@ export function indexParts(parts: readonly Part[]): PartIndex {
   return index;
 }
 
-/** Resolves every build line for variant `v`, row `r` of the family table, reading its cells through `read`. */
-export function resolveVariant(v: Variant, r: number, lineCells: readonly LineCells[], parts: PartIndex, read: ReadCell): VariantResolution {
+/** An approved alternate put in place of a fixed-part line's own part, to judge the checks with it. */
+export interface PartSwap {
+  lineId: string;
+  partId: string;
+}
+
+/**
+ * Resolves every build line for variant `v`, row `r` of the family table, reading its cells through `read`; with
+ * `swap`, that line gives the swapped-in approved part instead of its own.
+ */
+export function resolveVariant(
+  v: Variant,
+  r: number,
+  lineCells: readonly LineCells[],
+  parts: PartIndex,
+  read: ReadCell,
+  swap?: PartSwap,
+): VariantResolution {
   const problems: ResolveProblem[] = [];
   const problem = (lineId: string, message: string): void =>
     void problems.push({ variantId: v.id, variantCode: v.code, lineId, message });
@@ -74,7 +90,8 @@ export function resolveVariant(v: Variant, r: number, lineCells: readonly LineCe
       }
     }
     // Lines that do not apply are not checked: their rules may read parameters only other variants have.
-    const partId = resolvePart(lc, r, parts, read, applies ? (m) => problem(line.id, m) : () => undefined);
+    const own = resolvePart(lc, r, parts, read, applies ? (m) => problem(line.id, m) : () => undefined);
+    const partId = swap !== undefined && swap.lineId === line.id && own !== undefined ? swap.partId : own;
     if (!applies) return { lineId: line.id, partId, qtyPerUnit: 0, applies };
     let qty = lc.qtyConst ?? 0;
     if (lc.qty) {

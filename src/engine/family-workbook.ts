@@ -6,14 +6,15 @@
 // only. A name a variant lacks reads as #N/A; when a result is an error and its formula used such a name, the result
 // says "unknown name x" instead of the engine's error.
 import type { CellValue, HyperFormula, RawCellContent } from 'hyperformula';
-import type { Book, Check, ParamValue, Variant } from '../domain/book.ts';
+import type { Book, BuildLine, Check, ParamValue, Variant } from '../domain/book.ts';
+import { STATUS_SEVERITY } from '../domain/check-status.ts';
 import { createEngine } from './create.ts';
 import { judgeCheck } from './family-checks.ts';
 import type { CheckResult } from './family-checks.ts';
-import { atRow, planFamily, valueCell, valueContent } from './family-layout.ts';
-import type { CellRead, FamilyLayout, FormulaCell, FormulaColumn, Memo, ReadCell } from './family-layout.ts';
+import { atRow, planFamily, roleNames, valueCell, valueContent } from './family-layout.ts';
+import type { CellRead, CheckCells, FamilyLayout, FormulaCell, FormulaColumn, Memo, ReadCell } from './family-layout.ts';
 import { indexParts, resolveVariant } from './family-lines.ts';
-import type { FamilyResolution, PartIndex, VariantResolution } from './family-lines.ts';
+import type { FamilyResolution, PartIndex, PartSwap, VariantResolution } from './family-lines.ts';
 import { guardFormula } from './formula-guard.ts';
 import { formulaNames, nameKey, tokenizeFormula, formulaBody } from './formula-names.ts';
 
@@ -65,6 +66,33 @@ function inputKey(inputs: readonly string[], params: ReadonlyMap<string, ParamVa
 }
 
 /**
+ * A row below the variants that repeats variant `variant` with one line's approved alternate in place of its part:
+ * the checks reading that line's role are judged there too, and the worst result is the variant's.
+ */
+interface AltRow extends PartSwap {
+  variant: number;
+  /** The line's role, by name key. */
+  role: string;
+}
+
+/** Every role (by name key) a check reads, through the checks it names. */
+function rolesRead(cc: CheckCells, layout: FamilyLayout, roleOf: ReadonlyMap<string, string>, seen = new Set<string>()): Set<string> {
+  const out = new Set<string>();
+  for (const fc of Object.values(cc.cells)) {
+    for (const key of fc.names) {
+      const role = roleOf.get(key);
+      if (role !== undefined) out.add(role);
+      const inner = layout.checkByName.get(key);
+      if (inner && !seen.has(key)) {
+        seen.add(key);
+        for (const r of rolesRead(inner, layout, roleOf, seen)) out.add(r);
+      }
+    }
+  }
+  return out;
+}
+
+/**
  * The family as one engine table. Holds the engine open so edits re-evaluate at once; `close()` frees it.
  * Build with `FamilyWorkbook.open(book, checks)`.
  */
@@ -77,6 +105,13 @@ export class FamilyWorkbook {
   private layout!: FamilyLayout;
   private parts: PartIndex = { byId: new Map(), byKey: new Map() };
   private resolution: VariantResolution[] = [];
+  /** Rows from `variants.length` on: variants again with an approved alternate swapped in (see AltRow). */
+  private altRows: AltRow[] = [];
+  private altResolution: VariantResolution[] = [];
+  /** Per variant, its alternate rows. */
+  private altRowsOf: number[][] = [];
+  /** Per check, the roles it reads (only worked out when some line has approved alternates). */
+  private checkRoles: Set<string>[] = [];
   private memoSheet = 0;
   private memoRows = 0;
   /** Each row's check results as last read; undefined where an edit may have changed them. */
@@ -119,20 +154,23 @@ export class FamilyWorkbook {
     const layout = planFamily(this.book, this.checks);
     this.layout = layout;
     const { roleStart, checkStart, width } = layout;
+    this.planAlternates();
+    const total = this.rowCount();
 
     // First pass, in one call: the parameters, and the memos of the build rules and of the check parts that read
     // parameters only, so each variant's parts are known before the checks read them.
     const paramEnd = layout.paramKeys.size;
-    const rows: Row[] = this.book.variants.map((v, r) => {
+    const rows: Row[] = [];
+    for (let r = 0; r < total; r++) {
       const row: Row = new Array<RawCellContent>(roleStart).fill(null);
-      this.writeParams(row, v);
+      this.writeParams(row, this.variantAt(r));
       if (r === 0) for (const fc of layout.ruleColumns) row[fc.col] = atRow(fc.pieces, 0);
-      return row;
-    });
+      rows.push(row);
+    }
     const memoRows: Row[] = [];
-    const own = this.book.variants.map(ownParams);
+    const own = rows.map((_, r) => ownParams(this.variantAt(r)));
     for (const m of layout.memos) {
-      m.rowEntry = new Int32Array(this.book.variants.length);
+      m.rowEntry = new Int32Array(total);
       if (!m.roles) own.forEach((params, r) => (m.rowEntry[r] = this.memoEntry(m, params, memoRows)));
     }
     // Checks read each other by name, so "&" could double text from check to check: the engine comes with it bounded.
@@ -142,7 +180,8 @@ export class FamilyWorkbook {
     this.memoSheet = hf.getSheetId(MEMO_SHEET)!;
     // Build rules read parameters only, so they all went to memos and this is for completeness.
     this.fillDown(layout.ruleColumns, paramEnd, roleStart);
-    this.resolution = this.book.variants.map((v, r) => this.resolveRow(v, r));
+    this.resolution = this.book.variants.map((_, r) => this.resolveRow(r));
+    this.altResolution = this.altRows.map((_, i) => this.resolveRow(this.book.variants.length + i));
 
     // Second pass, in one recalculation: the memos that read role names, role values from the resolved parts,
     // and the first row's checks; then the checks are copied down.
@@ -157,9 +196,9 @@ export class FamilyWorkbook {
     }
     if (roleMemoRows.length > 0) hf.setCellContents({ sheet: this.memoSheet, row: roleMemoStart, col: 0 }, roleMemoRows);
     if (rows.length === 0 || width === roleStart) return;
-    const block: Row[] = this.book.variants.map((_, r) => {
+    const block: Row[] = rows.map((_, r) => {
       const row: Row = new Array<RawCellContent>((r === 0 ? width : checkStart) - roleStart).fill(null);
-      const roleNames = this.resolution[r]!.roleNames;
+      const roleNames = this.resolutionAt(r).roleNames;
       layout.roleKeys.forEach((key, i) => {
         const val = roleNames[key];
         row[i] = val === undefined ? MISSING : val;
@@ -185,7 +224,7 @@ export class FamilyWorkbook {
    * written (spacing it drops) is written as text on every row instead.
    */
   private fillDown(formulas: readonly FormulaColumn[], from: number, to: number): void {
-    const rows = this.book.variants.length;
+    const rows = this.rowCount();
     if (to <= from || rows < 2) return;
     const hf = this.engine();
     const byText: FormulaColumn[] = formulas.filter(
@@ -228,7 +267,7 @@ export class FamilyWorkbook {
   /** A variant's parameters with its role values, the inputs a memo may read. */
   private withRoles(params: ReadonlyMap<string, ParamValue>, row: number): Map<string, ParamValue> {
     const inputs = new Map(params);
-    for (const [k, v] of Object.entries(this.resolution[row]!.roleNames)) inputs.set(k, v);
+    for (const [k, v] of Object.entries(this.resolutionAt(row).roleNames)) inputs.set(k, v);
     return inputs;
   }
 
@@ -288,7 +327,7 @@ export class FamilyWorkbook {
   }
 
   private unknownMessage(key: string, row: number): string {
-    const code = this.book.variants[row]?.code ?? '';
+    const code = row < this.rowCount() ? this.variantAt(row).code : '';
     if (!this.layout.cols.has(key)) return `unknown name ${key}: no variant parameter, part rating or check has that name`;
     if (this.layout.roleKeySet.has(key)) {
       return `unknown name ${key}: no build line that applies to ${code} gives a part with that role and rating`;
@@ -313,8 +352,58 @@ export class FamilyWorkbook {
     return { ok: false, error: 'the result is a range, not one value' };
   }
 
-  private resolveRow(v: Variant, r: number): VariantResolution {
-    return resolveVariant(v, r, this.layout.lineCells, this.parts, this.readCell);
+  private resolveRow(r: number): VariantResolution {
+    const alt = this.altRows[r - this.book.variants.length];
+    return resolveVariant(this.variantAt(r), r, this.layout.lineCells, this.parts, this.readCell, alt);
+  }
+
+  /** Variants, then the alternate rows. */
+  private rowCount(): number {
+    return this.book.variants.length + this.altRows.length;
+  }
+
+  private variantAt(row: number): Variant {
+    const n = this.book.variants.length;
+    return this.book.variants[row < n ? row : this.altRows[row - n]!.variant]!;
+  }
+
+  private resolutionAt(row: number): VariantResolution {
+    const n = this.book.variants.length;
+    return row < n ? this.resolution[row]! : this.altResolution[row - n]!;
+  }
+
+  /**
+   * Plans a row per variant and approved alternate of each fixed-part line whose role some check reads, so every
+   * approved part is judged. A Book without alternates gets no extra rows and pays nothing.
+   */
+  private planAlternates(): void {
+    this.altRows = [];
+    this.altRowsOf = this.book.variants.map(() => []);
+    this.checkRoles = [];
+    const lines = this.layout.lineCells.map((lc) => lc.line).filter((l) => l.partId !== undefined && l.role && (l.alternates ?? []).length > 0);
+    if (lines.length === 0) return;
+    const roleOf = new Map<string, string>();
+    for (const [key, rn] of roleNames(this.book, this.layout.paramKeys)) if (this.layout.roleKeySet.has(key)) roleOf.set(key, rn.role);
+    this.checkRoles = this.layout.checkCells.map((cc) => rolesRead(cc, this.layout, roleOf));
+    const read = new Set(this.checkRoles.flatMap((s) => [...s]));
+    const n = this.book.variants.length;
+    this.book.variants.forEach((_, variant) => {
+      for (const line of lines) {
+        const role = nameKey(line.role!);
+        if (!read.has(role)) continue;
+        for (const partId of line.alternates!) {
+          if (!this.parts.byId.has(partId)) continue;
+          this.altRowsOf[variant]!.push(n + this.altRows.length);
+          this.altRows.push({ variant, lineId: line.id, partId, role });
+        }
+      }
+    });
+  }
+
+  /** Does line `lineId` give its own part, and its role, to this variant (so an alternate in its place matters)? */
+  private givesRole(res: VariantResolution, line: BuildLine): boolean {
+    const l = res.lines.find((x) => x.lineId === line.id);
+    return l !== undefined && l.applies && l.partId === line.partId && l.error === undefined;
   }
 
   /** Build lines resolved for every variant, as they stand now. */
@@ -331,9 +420,50 @@ export class FamilyWorkbook {
       let row = this.rowResults[r];
       if (!row) {
         row = checkCells.map((cc) => judgeCheck(v, r, cc, this.readCell));
+        if (this.altRowsOf[r]!.length > 0) row = this.worstApproved(v, r, row);
         this.rowResults[r] = row;
       }
       for (const result of row) out.push(result);
+    });
+    return out;
+  }
+
+  /**
+   * Variant `v`'s results judged again with each approved alternate in its line's place, keeping for each check
+   * the worst (ties keep the better-ranked part) and naming the part that gives it. Each alternate is judged with
+   * the other lines at their own parts.
+   */
+  private worstApproved(v: Variant, r: number, own: CheckResult[]): CheckResult[] {
+    const lines = new Map(this.book.buildLines.map((l) => [l.id, l] as const));
+    const out = [...own];
+    /** Per check: the line and part giving its result so far, and how many approved parts were judged. */
+    const giving: ({ lineId: string; partId: string; count: number } | undefined)[] = own.map(() => undefined);
+    for (const row of this.altRowsOf[r]!) {
+      const alt = this.altRows[row - this.book.variants.length]!;
+      const line = lines.get(alt.lineId)!;
+      if (!this.givesRole(this.resolution[r]!, line)) continue;
+      this.layout.checkCells.forEach((cc, j) => {
+        if (!this.checkRoles[j]!.has(alt.role)) return;
+        const g = (giving[j] ??= { lineId: line.id, partId: line.partId!, count: 1 });
+        g.count++;
+        const res = judgeCheck(v, row, cc, this.readCell);
+        if (STATUS_SEVERITY[res.status] > STATUS_SEVERITY[out[j]!.status]) {
+          out[j] = res;
+          g.lineId = line.id;
+          g.partId = alt.partId;
+        }
+      });
+    }
+    giving.forEach((g, j) => {
+      if (!g) return;
+      const part = this.parts.byId.get(g.partId)!;
+      const line = lines.get(g.lineId)!;
+      const where = line.designators || line.role || line.id;
+      out[j] = {
+        ...out[j]!,
+        approvedPart: { lineId: g.lineId, partId: g.partId, mpn: part.mpn, judged: g.count },
+        message: `${out[j]!.message}${out[j]!.message ? '; ' : ''}worst of ${g.count} approved parts on ${where}: ${part.mpn}`,
+      };
     });
     return out;
   }
@@ -371,12 +501,14 @@ export class FamilyWorkbook {
       return { ok: true };
     }
     const hf = this.engine();
-    hf.setCellContents({ sheet: this.sheet, row, col: layout.cols.get(key)! }, [[paramCell(value)]]);
     const own = ownParams(this.book.variants[row]!);
-    for (const m of layout.memos) if (!m.roles && m.inputs.includes(key)) m.rowEntry[row] = this.memoEntry(m, own);
-    this.refreshRoles(row, own);
-    const inputs = this.withRoles(own, row);
-    for (const m of layout.memos) if (m.roles && m.inputs.includes(key)) m.rowEntry[row] = this.memoEntry(m, inputs);
+    for (const x of [row, ...this.altRowsOf[row]!]) {
+      hf.setCellContents({ sheet: this.sheet, row: x, col: layout.cols.get(key)! }, [[paramCell(value)]]);
+      for (const m of layout.memos) if (!m.roles && m.inputs.includes(key)) m.rowEntry[x] = this.memoEntry(m, own);
+      this.refreshRoles(x, own);
+      const inputs = this.withRoles(own, x);
+      for (const m of layout.memos) if (m.roles && m.inputs.includes(key)) m.rowEntry[x] = this.memoEntry(m, inputs);
+    }
     // Every formula reads its own row only, so no other variant's results can have changed.
     this.rowResults[row] = undefined;
     return { ok: true };
@@ -384,10 +516,11 @@ export class FamilyWorkbook {
 
   /** Re-resolves one variant's lines after an edit and rewrites its role cells and memos where they changed. */
   private refreshRoles(row: number, own: ReadonlyMap<string, ParamValue>): void {
-    const v = this.book.variants[row]!;
-    const before = this.resolution[row]!.roleNames;
-    const after = this.resolveRow(v, row);
-    this.resolution[row] = after;
+    const before = this.resolutionAt(row).roleNames;
+    const after = this.resolveRow(row);
+    const n = this.book.variants.length;
+    if (row < n) this.resolution[row] = after;
+    else this.altResolution[row - n] = after;
     const changed = this.layout.roleKeys.filter((k) => before[k] !== after.roleNames[k]);
     if (changed.length === 0) return;
     const inputs = this.withRoles(own, row);
