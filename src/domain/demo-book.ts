@@ -25,6 +25,8 @@ function settings(): Settings {
     rev: 1,
     bookName: 'Tarnwick wall regulators 2026',
     company: 'Tarnwick Air Controls (invented demo firm)',
+    // Invented address: no such street or town.
+    shipTo: 'Tarnwick Air Controls, goods in\nUnit 7, Fennick Yard\nHollowmere HX9 4ZZ',
     baseCurrency: 'EUR',
     // Units of EUR for one unit of each currency.
     rates: { EUR: 1, USD: 0.92, GBP: 1.17 },
@@ -68,21 +70,30 @@ function settings(): Settings {
 }
 
 function suppliers(): Supplier[] {
-  const s = (id: string, name: string, currency: string, notes: string): Supplier => ({ id, rev: 1, name, currency, notes });
+  // Invented addresses and terms, printed on the orders sent to them: no such streets or towns.
+  const s = (id: string, name: string, currency: string, notes: string, address: string, paymentTerms: string): Supplier => ({
+    id,
+    rev: 1,
+    name,
+    currency,
+    notes,
+    address,
+    paymentTerms,
+  });
   return [
-    s('sup_halvern', 'Halvern Component Supply', 'EUR', 'Broad-line distributor; cut tape from 10 pieces, next-day to the works.'),
-    s('sup_kelvaro', 'Kelvaro Parts Direct', 'USD', 'Semiconductors and ICs; quotes in USD, ships in 4–8 weeks.'),
+    s('sup_halvern', 'Halvern Component Supply', 'EUR', 'Broad-line distributor; cut tape from 10 pieces, next-day to the works.', 'Halvern Component Supply\nOrder desk\n14 Brackwater Lane\nHalvern HV2 8QQ', '30 days net'),
+    s('sup_kelvaro', 'Kelvaro Parts Direct', 'USD', 'Semiconductors and ICs; quotes in USD, ships in 4–8 weeks.', 'Kelvaro Parts Direct\nExport sales\n2200 Orrin Flats Road\nPellham Bay', 'payment in advance by bank transfer'),
     // Invented landed terms: parcels from abroad with import duty and a bank charge per payment, and a board maker
     // whose carriage is a share of the order.
     {
-      ...s('sup_brindle', 'Brindlecote Electronics', 'GBP', 'Passives and electromechanical parts; price lists per 100 for resistors.'),
+      ...s('sup_brindle', 'Brindlecote Electronics', 'GBP', 'Passives and electromechanical parts; price lists per 100 for resistors.', 'Brindlecote Electronics\nSales office\n3 Wickham Rise\nBrindlecote BC4 1XQ', '30 days end of month'),
       freightPerOrder: { amount: 25, currency: 'GBP' },
       dutyPct: 2.7,
       chargesPerOrder: { amount: 6, currency: 'EUR' },
     },
-    s('sup_nebrin', 'Nebrin Plastics', 'EUR', 'Moulds our wall-box fronts, knobs and button caps; tooling already paid.'),
-    { ...s('sup_ostrel', 'Ostrel Boards', 'EUR', 'Bare boards to our drawings; panelised, 1.6 mm FR-4, 35 µm copper.'), freightPct: 1.5 },
-    s('sup_yarvelle', 'Yarvelle Packaging', 'EUR', 'Printed retail boxes and instruction leaflets.'),
+    s('sup_nebrin', 'Nebrin Plastics', 'EUR', 'Moulds our wall-box fronts, knobs and button caps; tooling already paid.', 'Nebrin Plastics\nMoulding works\nPlot 22, Saltings Road\nNebrin NB7 3WW', '45 days net'),
+    { ...s('sup_ostrel', 'Ostrel Boards', 'EUR', 'Bare boards to our drawings; panelised, 1.6 mm FR-4, 35 µm copper.', 'Ostrel Boards\n9 Copperkiln Way\nOstrel OS1 6YY', '50 % with order, balance 30 days net'), freightPct: 1.5 },
+    s('sup_yarvelle', 'Yarvelle Packaging', 'EUR', 'Printed retail boxes and instruction leaflets.', 'Yarvelle Packaging\n41 Ledger Street\nYarvelle YV3 0ZZ', '30 days net'),
   ];
 }
 

@@ -154,3 +154,19 @@ export function exportText(rows: readonly (readonly ExportCell[])[], o: ExportOp
 export function exportBytes(text: string): Uint8Array {
   return new TextEncoder().encode(text);
 }
+
+/**
+ * Blocks of rows as one table: every row padded to the widest block's width (RFC 4180 §2: each record holds the same
+ * number of fields) and one empty record between blocks, so a spreadsheet shows a blank row there and a program finds
+ * each block by splitting at the records whose fields are all empty.
+ */
+export function blockRows(blocks: readonly (readonly (readonly ExportCell[])[])[]): ExportCell[][] {
+  const width = Math.max(1, ...blocks.flatMap((b) => b.map((r) => r.length)));
+  const pad = (r: readonly ExportCell[]): ExportCell[] => [...r, ...new Array<ExportCell>(width - r.length).fill(undefined)];
+  const out: ExportCell[][] = [];
+  blocks.forEach((b, i) => {
+    if (i > 0) out.push(pad([]));
+    for (const r of b) out.push(pad(r));
+  });
+  return out;
+}

@@ -293,7 +293,8 @@ export function purchaseListCsv(list: PurchaseList, o: ExportOptions = DEFAULT_E
 // ---------------------------------------------------------------------------------------------------------------
 // File names
 
-function slug(text: string): string {
+/** A piece of a file name: letters, digits, dots and dashes only, at most 60 characters. */
+export function fileSlug(text: string): string {
   return (
     text
       .normalize('NFKD')
@@ -305,5 +306,5 @@ function slug(text: string): string {
 
 /** File name of a run export: variant, quantity and what the file holds ("FR4-60-CD-2000-costed-bom.csv"). */
 export function runExportFileName(variantCode: string, quantity: number, what: 'costed-bom' | 'purchase-list'): string {
-  return `${slug(variantCode)}-${quantity}-${what}.csv`;
+  return `${fileSlug(variantCode)}-${quantity}-${what}.csv`;
 }
