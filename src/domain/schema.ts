@@ -597,6 +597,11 @@ export const CostedLineSchema = obj({
   freight: v.optional(amount()),
   duty: v.optional(amount()),
   charges: v.optional(amount()),
+  /**
+   * Which of the line's approved parts was bought and why ("cheapest approved", "pinned"…), and how many parts the
+   * line approves (1: a single source); absent in costings frozen before approved alternates existed.
+   */
+  partChoice: v.optional(obj({ reason: text(LIMITS.name), approved: num({ min: 1, integer: true, max: LIMITS.alternates + 1 }) })),
 });
 
 export const CostedBomSchema = obj({

@@ -277,7 +277,12 @@ function beforeAlternates(book: Book): Book {
   const { shipTo: _s, ...settings } = book.settings;
   const suppliers = book.suppliers.map(({ address: _a, paymentTerms: _p, ...s }) => s);
   const buildLines = book.buildLines.map(({ alternates: _a, pinnedPartId: _p, ...l }) => l);
-  return { ...book, settings, suppliers, buildLines, parts: book.parts.filter((p) => p.id !== 'part_zr47k') };
+  const runs = book.runs.map((r) => {
+    if (!r.frozen) return r;
+    const lines = r.frozen.snapshot.bom.lines.map(({ partChoice: _c, ...l }) => l);
+    return { ...r, frozen: { ...r.frozen, snapshot: { ...r.frozen.snapshot, bom: { ...r.frozen.snapshot.bom, lines } } } };
+  });
+  return { ...book, settings, suppliers, buildLines, runs, parts: book.parts.filter((p) => p.id !== 'part_zr47k') };
 }
 
 describe('version-1 Book file', () => {

@@ -76,6 +76,16 @@ function linked(raw: unknown): unknown {
       if (s === undefined) delete l.pinnedSupplierId;
       else l.pinnedSupplierId = s;
     }
+    // Approved alternates are other parts of the Book, each once, on a fixed-part line; a pinned part is approved.
+    if (Array.isArray(l.alternates)) {
+      const others = parts.filter((p) => p !== l.partId);
+      const picked = l.partId === undefined ? [] : (l.alternates as unknown[]).map((_, k) => pick(others, i + k)).filter((p) => p !== undefined);
+      l.alternates = [...new Set(picked)];
+    }
+    if (l.pinnedPartId !== undefined) {
+      if (l.partId === undefined) delete l.pinnedPartId;
+      else l.pinnedPartId = l.partId;
+    }
   });
   if ('runs' in book) book.runs = records(book, 'runs').filter(() => variants.length > 0).map((r, i) => ({ ...r, variantId: pick(variants, i) }));
   if ('importBatches' in book) {
