@@ -7,9 +7,10 @@ import type { BookChange } from '../domain/book-ops.ts';
 import { perUnitFromCents, toCents, toTenThousandths } from '../domain/costing.ts';
 import type { CostedBom, ResolvedLine, Result } from '../domain/costing.ts';
 import { isIsoDate } from '../domain/dates.ts';
-import { isCurrencyCode } from '../domain/schema.ts';
+import { LIMITS, isCurrencyCode } from '../domain/schema.ts';
 import type { WhatIf } from '../engine/what-if.ts';
 import type { FamilyResolution } from '../engine/family.ts';
+import { addressText, limitLength } from './record-forms.ts';
 import type { FieldProblems, FormResult } from './record-forms.ts';
 
 // ---------------------------------------------------------------------------------------------------------------
@@ -210,6 +211,9 @@ export interface SettingsDraft {
   /** Part kind (or 'default') → percent as typed. */
   attrition: Record<string, string>;
   costingDate: string;
+  /** Our firm's name and the delivery address, as printed on our orders to suppliers. */
+  company: string;
+  shipTo: string;
 }
 
 
@@ -244,6 +248,8 @@ export function settingsDraft(book: Book): SettingsDraft {
     marginPct: String(s.marginPct),
     attrition,
     costingDate: s.costingDate ?? '',
+    company: s.company,
+    shipTo: s.shipTo ?? '',
   };
 }
 
@@ -301,6 +307,10 @@ export function validateSettings(d: SettingsDraft, book: Book): FormResult<Setti
 
   const date = d.costingDate.trim();
   if (date !== '' && !isIsoDate(date)) problems.costingDate = 'a date as YYYY-MM-DD, or blank for today';
+  const company = d.company.trim();
+  if (/[\r\n]/.test(company)) problems.company = 'one line: the firm’s name as printed on orders';
+  else limitLength(problems, 'company', company, LIMITS.name);
+  const shipTo = addressText(problems, 'shipTo', d.shipTo);
 
   if (Object.keys(problems).length > 0) return { ok: false, problems };
   const record: Settings = {
@@ -315,7 +325,10 @@ export function validateSettings(d: SettingsDraft, book: Book): FormResult<Setti
     overheadPct: numbers.overheadPct!,
     marginPct: numbers.marginPct!,
     attrition,
+    company,
   };
+  if (shipTo === '') delete record.shipTo;
+  else record.shipTo = shipTo;
   if (date === '') delete record.costingDate;
   else record.costingDate = date;
   return { ok: true, record };

@@ -19,10 +19,11 @@ import {
   runCosting,
   runExportFileName,
 } from '../io/run-export.ts';
-import type { DecimalStyle, DelimiterName, ExportOptions, RunCosting } from '../io/run-export.ts';
+import type { ExportOptions, RunCosting } from '../io/run-export.ts';
 import { BookController } from './book-context.ts';
 import { downloadBookFile } from './book-download.ts';
 import type { NoticeDetail } from './rb-book-menu.ts';
+import { choiceStyles } from './rb-csv-choices.ts';
 import { sortRuns } from './run-order.ts';
 import { pageStyles } from './styles.ts';
 
@@ -62,47 +63,12 @@ interface Subject {
   label: string;
 }
 
-const DELIMITER_WORDS: Record<DelimiterName, string> = { comma: 'comma ,', semicolon: 'semicolon ;', tab: 'tab' };
-const DECIMAL_WORDS: Record<DecimalStyle, string> = { point: 'point 1.25', comma: 'comma 1,25' };
-
 @customElement('rb-export-page')
 export class RbExportPage extends LitElement {
   static override styles = [
     pageStyles,
+    choiceStyles,
     css`
-      .choices {
-        display: grid;
-        grid-template-columns: max-content minmax(12rem, 24rem) minmax(10rem, 1fr);
-        gap: 0.4rem 0.8rem;
-        align-items: baseline;
-      }
-      .choices label.k {
-        font-family: var(--rb-mono);
-        font-size: 0.8rem;
-        color: var(--rb-accent-ink);
-        text-align: right;
-      }
-      .choices select,
-      .choices input[type='text'] {
-        font: inherit;
-        font-size: 0.9rem;
-        padding: 0.2rem 0.35rem;
-        border: 1px solid var(--rb-rule);
-        border-bottom: 2px solid var(--rb-ink);
-        background: var(--rb-paper);
-      }
-      .choices .hint {
-        font-size: 0.8rem;
-        color: var(--rb-na);
-      }
-      .choices .problem {
-        font-size: 0.84rem;
-        color: var(--rb-fail);
-      }
-      .choices .problem::before {
-        content: '✗ ';
-        font-weight: 700;
-      }
       fieldset {
         border: none;
         padding: 0;
@@ -166,21 +132,7 @@ export class RbExportPage extends LitElement {
           RFC 4180 files. Text that a spreadsheet could run as a formula is kept as text behind a leading apostrophe; numbers
           stay numbers. Amounts are rounded to cents per line and totals are the sums of the rows.
         </p>
-        <div class="choices">
-          <label class="k" for="x-delimiter">delimiter</label>
-          <select id="x-delimiter" @change=${(e: Event) => this.setOption({ delimiter: (e.target as HTMLSelectElement).value as DelimiterName })}>
-            ${(Object.keys(DELIMITER_WORDS) as DelimiterName[]).map((d) => html`<option value=${d} ?selected=${this.options.delimiter === d}>${DELIMITER_WORDS[d]}</option>`)}
-          </select>
-          <span class="hint">between the fields of a row</span>
-          <label class="k" for="x-decimal">decimal</label>
-          <select id="x-decimal" aria-invalid=${clash ? 'true' : 'false'} @change=${(e: Event) => this.setOption({ decimal: (e.target as HTMLSelectElement).value as DecimalStyle })}>
-            ${(Object.keys(DECIMAL_WORDS) as DecimalStyle[]).map((d) => html`<option value=${d} ?selected=${this.options.decimal === d}>${DECIMAL_WORDS[d]}</option>`)}
-          </select>
-          ${clash ? html`<span class="problem" role="alert">${clash}</span>` : html`<span class="hint">as your spreadsheet program reads numbers</span>`}
-          <label class="k" for="x-bom">byte-order mark</label>
-          <span><input id="x-bom" type="checkbox" .checked=${this.options.bom} @change=${(e: Event) => this.setOption({ bom: (e.target as HTMLInputElement).checked })} /></span>
-          <span class="hint">UTF-8 with a byte-order mark, for programs that otherwise misread accents and symbols such as Ω</span>
-        </div>
+        <rb-csv-choices .options=${this.options} @rb-csv-choices=${(e: CustomEvent<ExportOptions>) => (this.options = e.detail)}></rb-csv-choices>
         ${subject && !subject.costing.ok ? html`<p class="notice" role="alert">${subject.label} cannot be costed: ${subject.costing.error}</p>` : ''}
         ${subject?.costing.ok && !subject.costing.value.bom.complete
           ? html`<p class="notice" role="alert">Some lines of ${subject.label} are not priced; the files list them and their totals leave them out.</p>`
@@ -280,10 +232,6 @@ export class RbExportPage extends LitElement {
     }
     this.cache = { book, key, subject };
     return subject;
-  }
-
-  private setOption(patch: Partial<ExportOptions>): void {
-    this.options = { ...this.options, ...patch };
   }
 
   private notify(detail: NoticeDetail): void {

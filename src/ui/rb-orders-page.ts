@@ -1,15 +1,21 @@
 // Orders page: the orders placed with suppliers, their lines and what has come in; receive an order whole or line by
-// line in part (each receipt a stock movement), or cancel what is still to come (the order stays as history).
+// line in part (each receipt a stock movement), or cancel what is still to come (the order stays as history). An open
+// order shows the document its supplier receives, to download as CSV or print.
 import { LitElement, html } from 'lit';
 import { customElement, state } from 'lit/decorators.js';
 import type { Book, Order } from '../domain/book.ts';
 import type { BookChange } from '../domain/book-ops.ts';
 import { todayIso } from '../domain/dates.ts';
 import { grouped, money } from '../domain/format.ts';
+import { orderDocumentOf } from '../domain/order-doc.ts';
 import { cancelOrder, isOpen, outstanding, receive, receiveAll } from '../domain/orders.ts';
+import { DEFAULT_EXPORT_OPTIONS } from '../io/csv-write.ts';
+import type { ExportOptions } from '../io/csv-write.ts';
 import type { Outcome } from '../domain/stock.ts';
 import { BookController } from './book-context.ts';
 import { buyingStyles } from './buying-styles.ts';
+import './rb-csv-choices.ts';
+import { downloadOrderDoc, printOrderDoc } from './rb-order-doc.ts';
 import { pageStyles, problemStyles } from './styles.ts';
 
 @customElement('rb-orders-page')
@@ -21,6 +27,7 @@ export class RbOrdersPage extends LitElement {
   @state() private open: string | undefined;
   @state() private confirmCancel: string | undefined;
   @state() private message: { orderId: string; text: string; bad: boolean } | undefined;
+  @state() private csv: ExportOptions = { ...DEFAULT_EXPORT_OPTIONS };
   private readonly qty = new Map<string, string>();
 
   override render() {
@@ -127,7 +134,34 @@ export class RbOrdersPage extends LitElement {
               : html`<button type="button" class="quiet" @click=${() => (this.confirmCancel = o.id)}>Cancel…</button>`}
           </div>`
         : ''}
+      ${this.renderDocument(book, o)}
     </div>`;
+  }
+
+  /** The document the supplier receives: shown as they will read it, downloaded as CSV or printed. */
+  private renderDocument(book: Book, o: Order) {
+    const doc = orderDocumentOf(book, o);
+    return html`<section class="supplier-doc" aria-labelledby="doc-h" data-testid="order-doc">
+      <h3 id="doc-h">The supplier’s order document</h3>
+      <p class="why">
+        What ${doc.supplier.name} receives: our order number, ship-to address, their part numbers and ours, the quote
+        each price came from, quantities, prices in their currency and the terms. Nothing of our own workings is on it.
+        The ship-to address is set on the Settings page, a supplier’s address and payment terms on the Suppliers page.
+      </p>
+      <details>
+        <summary>CSV choices</summary>
+        <rb-csv-choices .options=${this.csv} @rb-csv-choices=${(e: CustomEvent<ExportOptions>) => (this.csv = e.detail)}></rb-csv-choices>
+      </details>
+      <div class="toolbar">
+        <button type="button" class="primary" @click=${() => this.downloadDoc(o, downloadOrderDoc(doc, this.csv))}>Download order ${o.number} CSV</button>
+        <button type="button" @click=${() => void printOrderDoc(doc)}>Print order ${o.number}</button>
+      </div>
+      <rb-order-doc .doc=${doc}></rb-order-doc>
+    </section>`;
+  }
+
+  private downloadDoc(o: Order, problem: string | undefined): void {
+    if (problem) this.message = { orderId: o.id, text: `No file was made: ${problem}`, bad: true };
   }
 
   private receiveTyped(book: Book, o: Order): void {

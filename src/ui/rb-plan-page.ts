@@ -6,12 +6,14 @@ import { customElement, state } from 'lit/decorators.js';
 import type { Book, Run } from '../domain/book.ts';
 import { todayIso, isIsoDate } from '../domain/dates.ts';
 import { grouped, money } from '../domain/format.ts';
+import { suggestionDocuments } from '../domain/order-doc.ts';
 import { acceptSuggestions } from '../domain/planning.ts';
 import type { Plan, SupplierSuggestion } from '../domain/planning.ts';
 import type { Result } from '../domain/costing.ts';
 import { buildRun } from '../domain/stock.ts';
 import { partStatus, planBook, runNeeds } from '../io/plan-export.ts';
 import { BookController } from './book-context.ts';
+import { downloadOrderDoc, printOrderDoc } from './rb-order-doc.ts';
 import './rb-plan-settings.ts';
 import './rb-run-stock.ts';
 import { buyingStyles } from './buying-styles.ts';
@@ -147,13 +149,17 @@ export class RbPlanPage extends LitElement {
                 Place all ${plan.suggestions.length} orders
               </button>
             </div>
-            ${plan.suggestions.map(
-              (s) => html`<div class="order" data-testid="suggestion" data-supplier=${s.supplierId}>
+            ${plan.suggestions.map((s) => [s, suggestionDocuments(book, [s], plan.today)[0]!] as const).map(
+              ([s, doc]) => html`<div class="order" data-testid="suggestion" data-supplier=${s.supplierId}>
                 <h3>${s.supplier} — ${s.currency}, ${money(s.total)} (${money(s.totalBase)} ${base})</h3>
                 <p>
                   Order by ${s.orderBy}${s.late ? html` <span class="problem flag">⚠ late</span>` : ''}; due ${s.dueIfPlacedToday} if placed on
                   ${plan.today}.
                   <button type="button" ?disabled=${this.busy} @click=${() => this.accept(book, [s])}>Place this order</button>
+                  <button type="button" title="The document the supplier receives, unnumbered until the order is placed" @click=${() => this.docProblem(downloadOrderDoc(doc))}>
+                    Draft order document CSV
+                  </button>
+                  <button type="button" @click=${() => void printOrderDoc(doc)}>Print draft order</button>
                 </p>
                 <div class="scroll">
                   <table class="records">
@@ -223,6 +229,10 @@ export class RbPlanPage extends LitElement {
             </table>
           </div>`}
     </section>`;
+  }
+
+  private docProblem(problem: string | undefined): void {
+    if (problem) this.message = { text: `No file was made: ${problem}`, bad: true };
   }
 
   private async accept(book: Book, list: readonly SupplierSuggestion[]): Promise<void> {

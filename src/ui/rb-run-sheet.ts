@@ -83,6 +83,8 @@ export function runSheetData(book: Book, run: Run, costing: RunCosting, today: s
 
 /** Puts the sheet for `data` in the document and opens the print dialogue. */
 export async function printRunSheet(data: RunSheetData): Promise<void> {
+  // One printable at a time: a supplier's order document left from an earlier print would print with it.
+  document.body.querySelector(':scope > rb-order-doc')?.remove();
   let sheet = document.body.querySelector<RbRunSheet>(':scope > rb-run-sheet');
   if (!sheet) {
     sheet = document.createElement('rb-run-sheet');

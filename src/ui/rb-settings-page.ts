@@ -159,6 +159,9 @@ export class RbSettingsPage extends LitElement {
             onInput: (v) => set({ [name]: v }),
           }),
         )}
+        ${group('on our orders to suppliers')}
+        ${field({ name: 'company', label: 'our firm', value: d.company, problem: p.company, hint: 'the name suppliers see on our orders', onInput: (v) => set({ company: v }) })}
+        ${field({ name: 'shipTo', label: 'ship-to address', value: d.shipTo, problem: p.shipTo, multiline: true, hint: 'where suppliers deliver, one line per line of the address', onInput: (v) => set({ shipTo: v }) })}
         ${group('attrition by part kind (%)')}
         <div class="kinds" role="group" aria-label="Attrition by part kind">
           <p class="hint">Extra parts bought for losses, as a percentage of the need. A kind left blank takes the default.</p>

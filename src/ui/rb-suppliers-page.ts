@@ -129,6 +129,9 @@ export class RbSuppliersPage extends LitElement {
               onInput: (v) => set({ rate: v }),
             })}
         ${field({ name: 'notes', label: 'notes', value: d.notes, multiline: true, onInput: (v) => set({ notes: v }) })}
+        <div class="group">on our orders to them</div>
+        ${field({ name: 'address', label: 'address', value: d.address, problem: e.problems.address, multiline: true, hint: 'where orders go, one line per line; printed on our orders', onInput: (v) => set({ address: v }) })}
+        ${field({ name: 'paymentTerms', label: 'payment terms', value: d.paymentTerms, problem: e.problems.paymentTerms, hint: 'as agreed, for example “30 days net”', onInput: (v) => set({ paymentTerms: v }) })}
         <div class="group">landed cost</div>
         <div class="actions">
           <span class="hint">

@@ -59,6 +59,26 @@ export function limitLength(problems: FieldProblems, field: string, text: string
   }
 }
 
+/** Most lines an address printed on an order may have. */
+export const ADDRESS_LINES = 8;
+
+/**
+ * Reads an address typed over several lines (a ship-to, a supplier's address): line breaks made plain, each line's
+ * ends trimmed, empty lines at the ends dropped. Control characters other than line breaks, more than
+ * ADDRESS_LINES lines or more than `max` characters give a problem beside the field.
+ */
+export function addressText(problems: FieldProblems, field: string, text: string, max: number = LIMITS.shortText): string {
+  const lines = text.replace(/\r\n?/g, '\n').split('\n').map((l) => l.trim());
+  while (lines.length > 0 && lines[0] === '') lines.shift();
+  while (lines.length > 0 && lines[lines.length - 1] === '') lines.pop();
+  const out = lines.join('\n');
+  const control = /[\u0000-\u0009\u000B-\u001F\u007F]/.exec(out);
+  if (control) problems[field] = `Holds a control character (U+${control[0].charCodeAt(0).toString(16).toUpperCase().padStart(4, '0')}); type the address as plain lines`;
+  else if (lines.length > ADDRESS_LINES) problems[field] = `${lines.length} lines; an address may have at most ${ADDRESS_LINES}`;
+  else limitLength(problems, field, out, max);
+  return out;
+}
+
 /** The form field a schema problem belongs to: `ratings.v_max` → `rating:v_max`, `params.x` → `param:x`, else its first name. */
 function formField(path: string): string {
   const [head = '', key] = path.split(/[.[\]"]+/).filter((x) => x !== '');
@@ -209,6 +229,9 @@ export interface SupplierDraft {
   /** Units of the Book's base currency for one unit of `currency`. */
   rate: string;
   notes: string;
+  /** The supplier's order address, several lines; printed on our orders to them. */
+  address: string;
+  paymentTerms: string;
   // Landed cost (domain/landed.ts): amounts per order with their currency, and percentages of the goods' value.
   freightPerOrder: string;
   freightCurrency: string;
@@ -229,6 +252,8 @@ export function supplierDraft(settings: Settings, supplier?: Supplier): Supplier
     currency,
     rate: currency === settings.baseCurrency ? '1' : rate === undefined ? '' : String(rate),
     notes: supplier?.notes ?? '',
+    address: supplier?.address ?? '',
+    paymentTerms: supplier?.paymentTerms ?? '',
     freightPerOrder: numText(supplier?.freightPerOrder?.amount),
     freightCurrency: supplier?.freightPerOrder?.currency ?? '',
     freightPct: numText(supplier?.freightPct),
@@ -299,6 +324,10 @@ export function validateSupplier(
     if (clash) problems.name = `A supplier named ${clash.name} is already in the Book`;
   }
   limitLength(problems, 'notes', draft.notes.trim(), LIMITS.notes);
+  const address = addressText(problems, 'address', draft.address);
+  const paymentTerms = draft.paymentTerms.trim();
+  if (/[\r\n]/.test(paymentTerms)) problems.paymentTerms = 'One line, as it is printed on the order (for example “30 days net”)';
+  else limitLength(problems, 'paymentTerms', paymentTerms, LIMITS.name);
   const currency = draft.currency.trim().toUpperCase();
   if (!isCurrencyCode(currency)) problems.currency = 'Three letters, as in ISO 4217 (EUR, USD, GBP…)';
   const base = book.settings.baseCurrency;
@@ -321,6 +350,8 @@ export function validateSupplier(
     notes: draft.notes.trim(),
     ...landed,
   };
+  if (address !== '') record.address = address;
+  if (paymentTerms !== '') record.paymentTerms = paymentTerms;
   if (editing?.mapping) record.mapping = editing.mapping;
   const checked = schemaFormResult(SupplierSchema, record);
   if (!checked.ok) return checked;
