@@ -1,22 +1,26 @@
 // One run in detail: its costed BOM and totals, freezing and unfreezing, what would change if it were re-costed today,
-// the purchase list by supplier, the run sheet to print and the two CSV files (with the default choices; the Export
-// page offers the others). Costing runs synchronously in the formula engine and is kept until the Book changes.
+// the purchase list by supplier with each supplier's order document, the run sheet to print and the two CSV files
+// (with the Export page's CSV choices). Costing runs synchronously in the formula engine and is kept until the Book changes.
 import { LitElement, css, html } from 'lit';
 import type { TemplateResult } from 'lit';
-import { customElement, property } from 'lit/decorators.js';
+import { customElement, property, state } from 'lit/decorators.js';
 import type { Book, Run } from '../domain/book.ts';
 import { toCents } from '../domain/costing.ts';
 import type { CostedLine, Result } from '../domain/costing.ts';
 import { todayIso } from '../domain/dates.ts';
 import { compareCostings, freezeRun, unfreezeRun } from '../domain/freeze.ts';
 import type { CostingComparison, LineChange } from '../domain/freeze.ts';
+import { purchaseDocuments } from '../domain/order-doc.ts';
+import type { OrderDocument } from '../domain/order-doc.ts';
 import { purchaseList } from '../domain/purchase.ts';
 import type { PurchaseList } from '../domain/purchase.ts';
-import { costVariant, costedTotalLabels, frozenCosting, numberText } from '../io/run-export.ts';
-import type { RunCosting } from '../io/run-export.ts';
+import { DEFAULT_EXPORT_OPTIONS, costVariant, costedTotalLabels, frozenCosting, numberText } from '../io/run-export.ts';
+import type { ExportOptions, RunCosting } from '../io/run-export.ts';
 import { BookController } from './book-context.ts';
 import type { NoticeDetail } from './rb-book-menu.ts';
+import './rb-csv-choices.ts';
 import { downloadRunFile } from './rb-export-page.ts';
+import { downloadOrderDoc, printOrderDoc } from './rb-order-doc.ts';
 import { printRunSheet, runSheetData, runTotalRows } from './rb-run-sheet.ts';
 import { pageStyles } from './styles.ts';
 
@@ -166,6 +170,8 @@ export class RbRunDetail extends LitElement {
   ];
 
   @property({ attribute: false }) runId = '';
+  /** The CSV choices of this page's downloads (the Export page's, through the same form). */
+  @state() private csv: ExportOptions = { ...DEFAULT_EXPORT_OPTIONS };
   private readonly books = new BookController(this);
   private cache: Costings | undefined;
 
@@ -225,15 +231,18 @@ export class RbRunDetail extends LitElement {
           <button type="button" ?disabled=${!shown.ok} @click=${() => shown.ok && this.download(run, variant?.code ?? shown.value.bom.variant, shown.value, 'purchase-list')}>
             Purchase list CSV
           </button>
-          <a href="#/export">more export choices…</a>
         </div>
+        <details>
+          <summary>CSV choices</summary>
+          <rb-csv-choices .options=${this.csv} @rb-csv-choices=${(e: CustomEvent<ExportOptions>) => (this.csv = e.detail)}></rb-csv-choices>
+        </details>
         ${shown.ok ? '' : html`<p class="notice" role="alert">This run cannot be costed: ${shown.error}</p>`}
       </section>
       ${shown.ok ? this.renderBom(shown.value) : ''} ${c.comparison ? this.renderComparison(c.comparison, shown.ok ? shown.value : undefined) : ''}
       ${run.frozen && c.fresh && !c.fresh.ok
         ? html`<section class="sheet"><h2>If re-costed today</h2><p class="notice" role="alert">Today’s costing fails: ${c.fresh.error}</p></section>`
         : ''}
-      ${list ? this.renderPurchase(list) : ''}`;
+      ${list ? this.renderPurchase(book, list) : ''}`;
   }
 
   private renderBom(costing: RunCosting): TemplateResult {
@@ -354,7 +363,8 @@ export class RbRunDetail extends LitElement {
     </section>`;
   }
 
-  private renderPurchase(list: PurchaseList): TemplateResult {
+  private renderPurchase(book: Book, list: PurchaseList): TemplateResult {
+    const docs = purchaseDocuments(book, list.orders, todayIso());
     return html`<section class="sheet" aria-labelledby="buy-h" data-testid="run-purchase">
       <h2 id="buy-h">Purchase list</h2>
       <p class="why">
@@ -362,10 +372,11 @@ export class RbRunDetail extends LitElement {
         need. Latest order date = date wanted ${list.dateWanted ?? ''} − lead time; a date already past is marked late.
       </p>
       ${list.orders.map(
-        (o) => html`<h3>
+        (o, i) => html`<h3>
             ${o.supplier} <span class="muted">(${o.currency}, lead up to ${o.leadDays} days${o.orderBy ? `, order by ${o.orderBy}` : ''})</span>
             ${o.late ? html`<span class="late">⚠ late</span>` : ''}
           </h3>
+          ${this.renderDocButtons(docs[i]!)}
           <div class="scroll">
             <table class="records">
               <thead>
@@ -416,6 +427,18 @@ export class RbRunDetail extends LitElement {
     </section>`;
   }
 
+  /** The supplier's order document for one supplier's part of the list: a draft, numbered when placed as an order. */
+  private renderDocButtons(doc: OrderDocument): TemplateResult {
+    return html`<div class="toolbar">
+      <button type="button" @click=${() => this.notifyProblem(downloadOrderDoc(doc, this.csv))}>Order document CSV for ${doc.supplier.name}</button>
+      <button type="button" @click=${() => void printOrderDoc(doc)}>Print order document for ${doc.supplier.name}</button>
+    </div>`;
+  }
+
+  private notifyProblem(problem: string | undefined): void {
+    if (problem) this.notify({ tone: 'problem', title: 'No file was made', lines: [problem] });
+  }
+
   private notify(detail: NoticeDetail): void {
     this.dispatchEvent(new CustomEvent<NoticeDetail>('rb-notice', { detail, bubbles: true, composed: true }));
   }
@@ -449,8 +472,7 @@ export class RbRunDetail extends LitElement {
   }
 
   private download(run: Run, variantCode: string, costing: RunCosting, what: 'costed-bom' | 'purchase-list'): void {
-    const problem = downloadRunFile(costing, run.quantity, run.dateWanted, variantCode, what);
-    if (problem) this.notify({ tone: 'problem', title: 'No file was made', lines: [problem] });
+    this.notifyProblem(downloadRunFile(costing, run.quantity, run.dateWanted, variantCode, what, this.csv));
   }
 }
 
