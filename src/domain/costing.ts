@@ -12,7 +12,8 @@
 // - Rounding is half away from zero, with a tolerance of 1e-7 of the last digit that absorbs binary float error
 //   (1.005 × 100 is 100.49999999999999 in doubles, and 1.005 must round to 1.01).
 import type { Book, BuildLine, CurrencyCode, Part, PriceBreak, Quote, Settings, Supplier, Variant } from './book.ts';
-import { isIsoDate, todayIso } from './dates.ts';
+import { PART_CHOICE, approvedParts } from './alternates.ts';
+import { daysAfter, isIsoDate, todayIso } from './dates.ts';
 import { usedDesignators } from './designators.ts';
 import { allocateCents, landedChoiceCents, landedLineCents, landedRates, perOrderCents } from './landed.ts';
 import type { LandedRates } from './landed.ts';
@@ -325,6 +326,10 @@ export function attritionFor(ctx: CostingContext, line: BuildLine | undefined, p
 export interface Demand {
   partId: string;
   pinnedSupplierId: string | undefined;
+  /** Which approved part was chosen and why (the first of the merged lines that chose among several). */
+  partChoice: { reason: string; approved: number };
+  /** Set when the part was chosen for a quote in time: only quotes whose lead time reaches this date are used. */
+  inTimeBy?: string;
   lineIds: string[];
   designators: string[];
   qtyPerUnit: number;
@@ -335,11 +340,97 @@ export interface Demand {
   need: number;
 }
 
-/** The parts one variant needs for a run, in build-line order; unusable lines come back as problems. */
+/**
+ * What a run knows that decides which approved part can be had: its date wanted (a quote is in time when the
+ * costing date plus its lead days falls on or before it) and the stock on hand by part id.
+ */
+export interface SupplyOptions {
+  dateWanted?: string | undefined;
+  onHand?: ReadonlyMap<string, number> | undefined;
+}
+
+/** The quotes of a part that arrive by `by` (all of them when there is no date). */
+function inTime(quotes: readonly PreparedQuote[], date: string, by: string | undefined): PreparedQuote[] {
+  if (by === undefined) return [...quotes];
+  return quotes.filter((p) => {
+    const arrives = daysAfter(date, p.quote.leadDays);
+    return arrives !== undefined && arrives <= by;
+  });
+}
+
+/** One approved part as a candidate for a line: its landed cost when it can be had in time, else undefined. */
+interface Candidate {
+  partId: string;
+  /** Landed cost in base cents of the cheapest usable quote that is in time (any usable quote when in stock). */
+  cents: number | undefined;
+  /** Landed cost of the cheapest usable quote, in time or not. */
+  anyCents: number | undefined;
+  fromStock: boolean;
+}
+
+function landedCost(quotes: readonly PreparedQuote[], need: number): number | undefined {
+  const c = chooseQuote(quotes, need, '');
+  return c.ok ? landedChoiceCents(toCents(c.value.extendedBase), c.value.prepared.landed) : undefined;
+}
+
+/** The candidate with the lowest cost under `key`; ties go to the better ranked (earlier) part. */
+function cheapest(candidates: readonly Candidate[], key: 'cents' | 'anyCents'): Candidate | undefined {
+  let best: Candidate | undefined;
+  for (const c of candidates) {
+    const cents = c[key];
+    if (cents !== undefined && (best === undefined || cents < best[key]!)) best = c;
+  }
+  return best;
+}
+
+/**
+ * Which of a line's approved parts to buy for a run: the pinned part when one is pinned; else the cheapest (landed)
+ * approved part that can be had in time — a usable quote whose lead time reaches the date wanted, or stock on hand
+ * covering the need (then priced at its cheapest quote) — ties to the better ranked; else, none being in time, the
+ * cheapest with any usable quote; else the line's own part. `raw` is the line's quantity for the run before
+ * attrition (per unit × run). `inTimeBy` tells the costing to buy from quotes in time only.
+ */
+export function choosePart(
+  ctx: CostingContext,
+  line: BuildLine,
+  raw: number,
+  options: SupplyOptions = {},
+): { partId: string; reason: string; approved: number; inTimeBy?: string } {
+  const approved = approvedParts(line).filter((id) => ctx.parts.has(id));
+  const own = line.partId!;
+  if (approved.length <= 1) return { partId: own, reason: PART_CHOICE.single, approved: Math.max(1, approved.length) };
+  const n = approved.length;
+  if (line.pinnedPartId !== undefined && approved.includes(line.pinnedPartId)) return { partId: line.pinnedPartId, reason: PART_CHOICE.pinned, approved: n };
+  const by = options.dateWanted !== undefined && isIsoDate(options.dateWanted) ? options.dateWanted : undefined;
+  const candidates: Candidate[] = approved.map((partId) => {
+    const need = ceilNeed(raw * (1 + attritionFor(ctx, line, ctx.parts.get(partId)!)));
+    const quotes = candidateQuotes(ctx, partId, line.pinnedSupplierId);
+    const fromStock = need > 0 && (options.onHand?.get(partId) ?? 0) >= need;
+    const anyCents = landedCost(quotes, need);
+    const cents = by === undefined || fromStock ? anyCents : landedCost(inTime(quotes, ctx.date, by), need);
+    return { partId, cents, anyCents, fromStock };
+  });
+  const best = cheapest(candidates, 'cents');
+  if (best) {
+    const timely = candidates.filter((c) => c.cents !== undefined).length;
+    const reason =
+      timely > 1 ? PART_CHOICE.cheapest : best.fromStock && by !== undefined ? PART_CHOICE.fromStock : by === undefined ? PART_CHOICE.onlyQuoted : PART_CHOICE.onlyInTime;
+    return { partId: best.partId, reason, approved: n, ...(by !== undefined && !best.fromStock ? { inTimeBy: by } : {}) };
+  }
+  const any = cheapest(candidates, 'anyCents');
+  if (any) return { partId: any.partId, reason: PART_CHOICE.noneInTime, approved: n };
+  return { partId: own, reason: PART_CHOICE.noQuote, approved: n };
+}
+
+/**
+ * The parts one variant needs for a run, in build-line order; unusable lines come back as problems. A line with
+ * approved alternates buys the part `choosePart` picks for it.
+ */
 export function variantDemands(
   ctx: CostingContext,
   lines: readonly ResolvedLine[],
   run: number,
+  options: SupplyOptions = {},
 ): { demands: Demand[]; problems: CostProblem[] } {
   const problems: CostProblem[] = [];
   const byKey = new Map<string, Demand>();
@@ -359,10 +450,16 @@ export function variantDemands(
       continue;
     }
     if (r.qtyPerUnit === 0) continue;
-    const part = r.partId === undefined ? undefined : ctx.parts.get(r.partId);
+    let part = r.partId === undefined ? undefined : ctx.parts.get(r.partId);
     if (!part) {
       problems.push({ lineId: r.lineId, designators, message: r.partId ? `part ${r.partId} is not in the Book` : 'the line has no part' });
       continue;
+    }
+    let choice: { reason: string; approved: number; inTimeBy?: string } = { reason: PART_CHOICE.single, approved: 1 };
+    if (line && line.partId === part.id && (line.alternates ?? []).length > 0) {
+      const c = choosePart(ctx, line, r.qtyPerUnit * run, options);
+      part = ctx.parts.get(c.partId)!;
+      choice = c;
     }
     const raw = r.qtyPerUnit * run * (1 + attritionFor(ctx, line, part));
     const pin = line?.pinnedSupplierId;
@@ -375,10 +472,15 @@ export function variantDemands(
       if (placed) d.designators.push(placed);
       d.qtyPerUnit += r.qtyPerUnit;
       unrounded.set(d, unrounded.get(d)! + raw);
+      if (d.partChoice.approved === 1 && choice.approved > 1) d.partChoice = { reason: choice.reason, approved: choice.approved };
+      // Merged lines buy in one order: the tightest date wanted of those that chose for time holds for all.
+      if (choice.inTimeBy !== undefined) d.inTimeBy = choice.inTimeBy;
     } else {
       const fresh: Demand = {
         partId: part.id,
         pinnedSupplierId: pin,
+        partChoice: { reason: choice.reason, approved: choice.approved },
+        ...(choice.inTimeBy === undefined ? {} : { inTimeBy: choice.inTimeBy }),
         lineIds: [r.lineId],
         designators: placed ? [placed] : [],
         qtyPerUnit: r.qtyPerUnit,
@@ -527,15 +629,19 @@ export function shareOrderAmounts(ctx: CostingContext, lines: CostedLine[]): Cos
   return problems;
 }
 
-/** Costs one variant for one run from its resolved lines. Bad input (run size, unknown variant) gives an error. */
+/**
+ * Costs one variant for one run from its resolved lines; `supply` (the run's date wanted, stock on hand) decides
+ * which approved parts can be had in time. Bad input (run size, unknown variant) gives an error.
+ */
 export function costVariantRun(
   ctx: CostingContext,
   variant: Variant,
   lines: readonly ResolvedLine[],
   run: number,
+  supply: SupplyOptions = {},
 ): Result<CostedBom> {
   if (!Number.isInteger(run) || run < 1) return fail(`run size must be a whole number ≥ 1, got ${run}`);
-  const { demands, problems } = variantDemands(ctx, lines, run);
+  const { demands, problems } = variantDemands(ctx, lines, run, supply);
   const out: CostedLine[] = [];
   let materialCents = 0;
   let leftoverCents = 0;
@@ -543,7 +649,8 @@ export function costVariantRun(
     const part = ctx.parts.get(d.partId)!;
     const designators = d.designators.join(', ');
     const pinName = d.pinnedSupplierId ? ` from pinned supplier ${ctx.suppliers.get(d.pinnedSupplierId)?.name ?? d.pinnedSupplierId}` : '';
-    const choice = chooseQuote(candidateQuotes(ctx, d.partId, d.pinnedSupplierId), d.need, `${part.mpn}${pinName}`);
+    const quotes = candidateQuotes(ctx, d.partId, d.pinnedSupplierId);
+    const choice = chooseQuote(d.inTimeBy === undefined ? quotes : inTime(quotes, ctx.date, d.inTimeBy), d.need, `${part.mpn}${pinName}`);
     if (!choice.ok) {
       problems.push({ lineId: d.lineIds[0]!, designators, partId: d.partId, message: choice.error });
       continue;
@@ -581,6 +688,7 @@ export function costVariantRun(
       freight: landed.freight / 100,
       duty: landed.duty / 100,
       charges: landed.charges / 100,
+      partChoice: d.partChoice,
     });
   }
   problems.push(...shareOrderAmounts(ctx, out));

@@ -9,7 +9,7 @@
 import type { Book, Order, Run } from './book.ts';
 import type { BookChange } from './book-ops.ts';
 import { attritionFor, candidateQuotes, ceilNeed, chooseQuote, toCents, variantDemands } from './costing.ts';
-import type { CostingContext, CostProblem, ResolvedLine } from './costing.ts';
+import type { CostingContext, CostProblem, ResolvedLine, SupplyOptions } from './costing.ts';
 import { daysAfter, daysBefore } from './dates.ts';
 import { isOpen, outstanding, placeOrder } from './orders.ts';
 import type { OrderInput } from './orders.ts';
@@ -184,7 +184,8 @@ export function planRuns(book: Book, ctx: CostingContext, lines: RunLines, optio
       rp.problems.push({ message: `the run's variant ${run.variantId} is not in the Book` });
       continue;
     }
-    const { demands, problems } = runDemands(ctx, lines.get(run.variantId) ?? [], run.quantity);
+    // A line with approved alternates buys the part that can be had by the run's need date (domain/costing.ts).
+    const { demands, problems } = runDemands(ctx, lines.get(run.variantId) ?? [], run.quantity, { dateWanted: rp.needDate });
     rp.problems.push(...problems);
     for (const d of demands) {
       let p = byPart.get(d.partId);
@@ -344,6 +345,7 @@ export function runDemands(
   ctx: CostingContext,
   lines: readonly ResolvedLine[],
   run: number,
+  supply: SupplyOptions = {},
 ): { demands: { partId: string; pinnedSupplierId: string | undefined; need: number }[]; problems: CostProblem[] } {
   let simple = true;
   for (const r of lines) {
@@ -351,9 +353,14 @@ export function runDemands(
       simple = false;
       break;
     }
+    if (r.applies && (ctx.lines.get(r.lineId)?.alternates ?? []).length > 0) {
+      simple = false;
+      break;
+    }
   }
-  // Lines with problems go through the costing's own function, which names them.
-  if (!simple) return variantDemands(ctx, lines, run);
+  // Lines with problems go through the costing's own function, which names them; so do lines with approved
+  // alternates, which it chooses among.
+  if (!simple) return variantDemands(ctx, lines, run, supply);
   const raw = new Map<string, { partId: string; pinnedSupplierId: string | undefined; x: number }>();
   for (const r of lines) {
     if (!r.applies || r.qtyPerUnit === 0) continue;

@@ -40,7 +40,7 @@ import {
   unitCostOf,
   variantDemands,
 } from '../domain/costing.ts';
-import type { CostedBom, CostingContext, ResolvedLine, Result } from '../domain/costing.ts';
+import type { CostedBom, CostingContext, ResolvedLine, Result, SupplyOptions } from '../domain/costing.ts';
 import { hasPerOrder, landedRates } from '../domain/landed.ts';
 import { QUOTE_ROW_HEAD } from './costing-functions.ts';
 import { createEngine } from './create.ts';
@@ -631,11 +631,12 @@ export class CostingWorkbook {
   /**
    * The costed BOM of a variant for a run, with the live prices and rates. Overridden cost figures win over the
    * computed ones (the lines stay as computed). Any run size works; overrides only exist for the Book's run sizes.
+   * `supply` (a run's date wanted, stock on hand) decides which approved alternates can be had in time.
    */
-  costedBom(variantId: string, run: number): Result<CostedBom> {
+  costedBom(variantId: string, run: number, supply: SupplyOptions = {}): Result<CostedBom> {
     const variant = this.book.variants.find((v) => v.id === variantId);
     if (!variant) return { ok: false, error: `no variant with id ${variantId}` };
-    const r = costVariantRun(this.context(), variant, this.resolution.get(variantId) ?? [], run);
+    const r = costVariantRun(this.context(), variant, this.resolution.get(variantId) ?? [], run, supply);
     const row = this.variantRow.get(variantId)!;
     if (!r.ok || !this.expanded.has(row)) return r;
     const bom = { ...r.value };

@@ -12,6 +12,7 @@ import type { Book, Part, Run } from '../domain/book.ts';
 import type { CostedBom, Result } from '../domain/costing.ts';
 import { toCents, toTenThousandths } from '../domain/costing.ts';
 import { readSnapshot } from '../domain/freeze.ts';
+import { onHandByPart } from '../domain/stock.ts';
 import type { FrozenSnapshot } from '../domain/freeze.ts';
 import type { PurchaseList } from '../domain/purchase.ts';
 import { formatValue } from '../domain/units.ts';
@@ -58,7 +59,12 @@ export interface RunCosting {
  * Costs one variant for a run of `quantity` with today's quotes (or those valid at `date`): the family resolver
  * gives the variant's lines, the costing workbook the figures, exactly as every other screen and the CLI cost them.
  */
-export function costVariant(book: Book, variantId: string, quantity: number, options: { date?: string } = {}): Result<RunCosting> {
+export function costVariant(
+  book: Book,
+  variantId: string,
+  quantity: number,
+  options: { date?: string; dateWanted?: string; onHand?: ReadonlyMap<string, number> } = {},
+): Result<RunCosting> {
   const variant = book.variants.find((v) => v.id === variantId);
   if (!variant) return { ok: false, error: `no variant with id ${variantId} in the Book` };
   if (!Number.isSafeInteger(quantity) || quantity < 1) return { ok: false, error: `run quantity must be a whole number ≥ 1, got ${quantity}` };
@@ -68,7 +74,7 @@ export function costVariant(book: Book, variantId: string, quantity: number, opt
   if (!opened.ok) return opened;
   const wb = opened.value;
   try {
-    const bom = wb.costedBom(variant.id, quantity);
+    const bom = wb.costedBom(variant.id, quantity, { dateWanted: options.dateWanted, onHand: options.onHand });
     if (!bom.ok) return bom;
     return { ok: true, value: { bom: bom.value, marginPct: book.settings.marginPct, parts: book.parts } };
   } finally {
@@ -91,7 +97,12 @@ export function frozenCosting(run: Run): Result<RunCosting> {
 /** The costing a run's exports use: its frozen snapshot when it is frozen (unless `fresh`), else today's. */
 export function runCosting(book: Book, run: Run, options: { fresh?: boolean; date?: string } = {}): Result<RunCosting> {
   if (run.frozen && !options.fresh) return frozenCosting(run);
-  return costVariant(book, run.variantId, run.quantity, options.date === undefined ? {} : { date: options.date });
+  return costVariant(book, run.variantId, run.quantity, { ...runSupply(book, run), ...(options.date === undefined ? {} : { date: options.date }) });
+}
+
+/** What decides a run's approved alternates: its date wanted, and the stock on hand. */
+export function runSupply(book: Book, run: Run): { dateWanted: string; onHand: Map<string, number> } {
+  return { dateWanted: run.dateWanted, onHand: onHandByPart(book.stockMoves) };
 }
 
 // ---------------------------------------------------------------------------------------------------------------
@@ -129,6 +140,8 @@ export function costedBomHeader(currency: string): string[] {
     `landed_${currency}`,
     'leftover',
     `leftover_value_${currency}`,
+    'part_choice',
+    'approved_parts',
   ];
 }
 
@@ -189,6 +202,9 @@ export function costedBomRows(c: RunCosting): ExportCell[][] {
       money(landedLineCents(l) / 100),
       qty(l.leftover),
       money(l.leftoverValue),
+      // Why this approved part was bought; "single approved source" marks a line with nothing to fall back on.
+      l.partChoice?.reason ?? '',
+      l.partChoice === undefined ? undefined : qty(l.partChoice.approved),
     ]);
   }
   for (const p of bom.problems) {

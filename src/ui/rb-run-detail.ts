@@ -6,6 +6,7 @@ import type { TemplateResult } from 'lit';
 import { customElement, property, state } from 'lit/decorators.js';
 import type { Book, Run } from '../domain/book.ts';
 import { toCents } from '../domain/costing.ts';
+import { choiceText } from '../domain/alternates.ts';
 import type { CostedLine, Result } from '../domain/costing.ts';
 import { todayIso } from '../domain/dates.ts';
 import { compareCostings, freezeRun, unfreezeRun } from '../domain/freeze.ts';
@@ -14,7 +15,7 @@ import { purchaseDocuments } from '../domain/order-doc.ts';
 import type { OrderDocument } from '../domain/order-doc.ts';
 import { purchaseList } from '../domain/purchase.ts';
 import type { PurchaseList } from '../domain/purchase.ts';
-import { DEFAULT_EXPORT_OPTIONS, costVariant, costedTotalLabels, frozenCosting, numberText } from '../io/run-export.ts';
+import { DEFAULT_EXPORT_OPTIONS, costVariant, costedTotalLabels, frozenCosting, numberText, runSupply } from '../io/run-export.ts';
 import type { ExportOptions, RunCosting } from '../io/run-export.ts';
 import { BookController } from './book-context.ts';
 import type { NoticeDetail } from './rb-book-menu.ts';
@@ -179,7 +180,7 @@ export class RbRunDetail extends LitElement {
   private costings(book: Book, run: Run): Costings {
     const c = this.cache;
     if (c && c.book === book && c.run === run) return c;
-    const fresh = costVariant(book, run.variantId, run.quantity);
+    const fresh = costVariant(book, run.variantId, run.quantity, runSupply(book, run));
     const shown = run.frozen ? frozenCosting(run) : fresh;
     const comparison = run.frozen && shown.ok && fresh.ok ? compareCostings(shown.value.bom, fresh.value.bom) : undefined;
     this.cache = { book, run, shown, fresh: run.frozen ? fresh : undefined, comparison };
@@ -256,7 +257,8 @@ export class RbRunDetail extends LitElement {
         stock. Extended amounts are in ${cur} (a quote in another currency shows its own amount under it), rounded to
         cents per line; every total is the sum of its rows. The landed column is the freight, duty and charges that fall
         to us under the quote's delivery term (shown under the supplier), each named under the sum: part of the material
-        cost.
+        cost. Under each part: which approved part was bought and why (the cheapest that can be had by the date wanted,
+        unless the line pins one), or "single source" for a line with nothing approved to fall back on.
       </p>
       <div class="scroll bom">
         <table class="records" data-testid="run-bom">
@@ -278,7 +280,10 @@ export class RbRunDetail extends LitElement {
             ${bom.lines.map(
               (l) => html`<tr>
                 <td class="refs">${l.designators}</td>
-                <td class="part"><span class="code">${l.mpn}</span><small>${l.description}</small></td>
+                <td class="part">
+                  <span class="code">${l.mpn}</span><small>${l.description}</small>
+                  ${l.partChoice ? html`<small class="choice" data-testid="part-choice">${choiceText(l.partChoice)}</small>` : ''}
+                </td>
                 <td class="num">${l.qtyPerUnit}</td>
                 <td class="num">${l.need}</td>
                 <td class="num">${l.buy}</td>

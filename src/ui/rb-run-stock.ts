@@ -10,14 +10,14 @@ import { runFromStock } from '../domain/planning.ts';
 import type { Plan } from '../domain/planning.ts';
 import { stockCostedBom } from '../domain/stock-costing.ts';
 import type { StockCostedBom } from '../domain/stock-costing.ts';
-import { costVariant } from '../io/run-export.ts';
+import { costVariant, runSupply } from '../io/run-export.ts';
 import { pageStyles, problemStyles } from './styles.ts';
 
 /** The stock-aware costing of a run in a plan. */
 export function runStockCosting(book: Book, plan: Plan, runId: string): Result<StockCostedBom> {
   const run = book.runs.find((r) => r.id === runId);
   if (!run) return { ok: false, error: `no run with id ${runId}` };
-  const costing = costVariant(book, run.variantId, run.quantity, { date: plan.today });
+  const costing = costVariant(book, run.variantId, run.quantity, { ...runSupply(book, run), date: plan.today });
   if (!costing.ok) return costing;
   const ctx = prepareCosting(book, { date: plan.today });
   if (!ctx.ok) return ctx;

@@ -5,7 +5,8 @@ import type { Book, Variant } from '../../domain/book.ts';
 import type { CostedBom, Result } from '../../domain/costing.ts';
 import { isIsoDate } from '../../domain/dates.ts';
 import type { StockCostedBom } from '../../domain/stock-costing.ts';
-import { costedBomCsv, costVariant, frozenCosting, parseExportOptions } from '../../io/run-export.ts';
+import { choiceText } from '../../domain/alternates.ts';
+import { costedBomCsv, costVariant, frozenCosting, parseExportOptions, runSupply } from '../../io/run-export.ts';
 import { costWithStock, stockCostCsv, stockCostJson, stockCostRows } from '../../io/stock-cost-export.ts';
 import type { ExportOptions, RunCosting } from '../../io/run-export.ts';
 import { loadBook } from '../book-read.ts';
@@ -43,7 +44,12 @@ at the Book's margin, and the run total. Lines of the same part are bought toget
 ${CSV_CHOICES}
 
 A Run of the Book with this variant and quantity that is frozen is printed as frozen (its prices and quotes as
-they were), unless --fresh or --date is given. The CSV has the same bytes as the app's export with the same choices.
+they were), unless --fresh or --date is given.
+
+A line with approved alternates buys the cheapest approved part that can be had in time (a usable quote whose
+lead time reaches the date wanted of a planned Run of this variant and quantity, or stock on hand covering the
+need), unless the line pins one; "part chosen" says which and why, and "single source" marks a line with one
+approved part. The CSV has the same bytes as the app's export with the same choices.
 
 Money: each line's extended price is rounded to cents in the quote's currency, then converted and rounded to
 cents in the base currency; run totals are sums of those. The run pays for all it buys (leftover stock is shown
@@ -130,7 +136,10 @@ export async function costFromArgs(name: string, parsed: ParsedArgs, help: strin
   }
   const frozenRun = book.runs.find((r) => r.variantId === variant.id && r.quantity === run && r.frozen);
   const useFrozen = frozenRun !== undefined && !parsed.options.has('fresh') && date === undefined;
-  const costing = useFrozen ? frozenCosting(frozenRun) : costVariant(book, variant.id, run, typeof date === 'string' ? { date } : {});
+  // A planned run of this variant and quantity decides which approved alternates can be had in time.
+  const planned = book.runs.find((r) => r.variantId === variant.id && r.quantity === run && !r.frozen && r.status !== 'built');
+  const supply = planned ? runSupply(book, planned) : {};
+  const costing = useFrozen ? frozenCosting(frozenRun) : costVariant(book, variant.id, run, { ...supply, ...(typeof date === 'string' ? { date } : {}) });
   if (!costing.ok) {
     io.err(`rungbook ${name}: ${useFrozen ? `frozen run ${shown(frozenRun.name)}: ` : ''}${shown(costing.error)}`);
     return 2;
@@ -210,6 +219,7 @@ export function costJson(bom: CostedBom): Record<string, unknown> {
       charges: l.charges ?? 0,
       leftover: l.leftover,
       leftoverValue: l.leftoverValue,
+      partChoice: l.partChoice ?? null,
     })),
     material: bom.material,
     labour: bom.labour,
@@ -250,7 +260,7 @@ function tableOut(job: CostJob): string[] {
   if (job.costing.frozen) out.push(`Frozen ${job.costing.frozen.at}: the prices and quotes of that day, not today's.`);
   out.push('');
   const rows = [
-    ['designators', 'mpn', 'need', 'buy', 'supplier', 'break', 'unit price', 'cur', 'extended', `ext ${cur}`, 'term', 'freight', 'duty', 'charges', 'leftover', `value ${cur}`],
+    ['designators', 'mpn', 'need', 'buy', 'supplier', 'break', 'unit price', 'cur', 'extended', `ext ${cur}`, 'term', 'freight', 'duty', 'charges', 'leftover', `value ${cur}`, 'part chosen'],
   ];
   for (const l of bom.lines) {
     rows.push([
@@ -270,9 +280,10 @@ function tableOut(job: CostJob): string[] {
       fmt.money(l.charges ?? 0),
       fmt.qty(l.leftover),
       fmt.money(l.leftoverValue),
+      choiceText(l.partChoice),
     ]);
   }
-  out.push(...table(rows, [false, false, true, true, false, true, true, false, true, true, false, true, true, true, true, true]));
+  out.push(...table(rows, [false, false, true, true, false, true, true, false, true, true, false, true, true, true, true, true, false]));
   for (const p of bom.problems) out.push(`NOT PRICED ${shown(p.designators || p.lineId || '')}: ${shown(p.message)}`);
   out.push('');
   const t = totals(bom, job.costing.marginPct);
