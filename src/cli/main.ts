@@ -15,6 +15,7 @@ const COMMANDS: Record<string, () => Promise<{ command: CliCommand }>> = {
   receive: () => import('./commands/receive.ts'),
   count: () => import('./commands/count.ts'),
   prices: () => import('./commands/prices.ts'),
+  'order-doc': () => import('./commands/order-doc.ts'),
 };
 
 function usage(): string {
