@@ -23,8 +23,11 @@ Evaluates every engineering check on every variant of a .rungbook.json Book: the
 built-in checks of sheets/ that the Book does not have yet.
 
   --variant CODE  only the variant with this code
-  --json          print an array of {variant, check, value, unit, status, rule, limit, message}
+  --json          print an array of {variant, check, value, unit, status, rule, limit, message, approvedPart}
   --strict        exit with status 1 when any check fails or cannot be evaluated (status fail or error)
+
+A check that reads the part of a line with approved alternates is judged with every approved part; the worst
+result is printed and the note names the part that gives it (approvedPart in JSON: line, part, mpn, parts judged).
 
 Status words: pass ${STATUS_SYMBOL.pass}, margin ${STATUS_SYMBOL.margin}, fail ${STATUS_SYMBOL.fail}, n/a ${STATUS_SYMBOL['n/a']}, error ${STATUS_SYMBOL.error}.
 Exit status: 0 done, 1 a failure under --strict, 2 bad arguments or an unreadable Book file.
@@ -40,6 +43,8 @@ export interface CheckJson {
   rule: string;
   limit: string;
   message: string;
+  /** The approved part giving the result, when the check reads a line with approved alternates. */
+  approvedPart: { line: string; part: string; mpn: string; judged: number } | null;
 }
 
 function showValue(value: CheckValue, unit: string): string {
@@ -111,6 +116,7 @@ export const command: CliCommand = {
         rule: formatRule(checksById.get(r.checkId)!.rule),
         limit: r.limit,
         message: r.message,
+        approvedPart: r.approvedPart ? { line: r.approvedPart.lineId, part: r.approvedPart.partId, mpn: r.approvedPart.mpn, judged: r.approvedPart.judged } : null,
       }));
       io.out(jsonText(out));
       io.err(MAINS_CAUTION);
@@ -122,7 +128,9 @@ export const command: CliCommand = {
         io.out(`${shown(v.code)} — ${shown(v.name)}: ${summary(mine)}`);
         const rows = [['check', 'value', 'status', 'limit', 'note']];
         for (const r of mine) {
-          const note = r.status === 'n/a' ? '' : r.status === 'error' ? r.message : checksById.get(r.checkId)!.title;
+          const title = checksById.get(r.checkId)!.title;
+          const worst = r.approvedPart ? ` [worst of ${r.approvedPart.judged} approved parts: ${r.approvedPart.mpn}]` : '';
+          const note = r.status === 'n/a' ? '' : r.status === 'error' ? r.message : `${title}${worst}`;
           // Names, text values and notes come from the Book: shown with control characters made visible.
           rows.push([shown(r.checkName), shown(showValue(r.value, r.unit)), `${STATUS_SYMBOL[r.status]} ${r.status}`, shown(showLimit(r)), shown(note)]);
         }
