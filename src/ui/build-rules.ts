@@ -1,7 +1,9 @@
 // Build-line drafts for the Build page: the pure checks that turn a draft into a BuildLine or into messages keyed by
 // field, the per-variant trial of its rules (through the family resolver), and reordering. No DOM, no Lit.
-import type { Book, BuildLine, CostCategory } from '../domain/book.ts';
-import { COST_CATEGORIES, mpnKey } from '../domain/book.ts';
+import type { Book, BuildLine, CostCategory, Part } from '../domain/book.ts';
+import { COST_CATEGORIES } from '../domain/book.ts';
+import { LIMITS } from '../domain/schema.ts';
+import { partByMpn } from '../domain/stock.ts';
 import type { LineOutcome } from '../engine/line-trial.ts';
 import { guardFormula } from '../engine/formula-guard.ts';
 import { formulaBody, tokenizeFormula } from '../engine/formula-names.ts';
@@ -20,6 +22,10 @@ export interface BuildLineDraft {
   attrition: string;
   /** Supplier name; empty = no pin. */
   pinnedSupplier: string;
+  /** Maker part numbers of the approved alternates, best first (a fixed-part line only). */
+  alternates: string[];
+  /** Maker part number of the approved part costing must buy; empty = the cheapest in time. */
+  pinnedPart: string;
   notes: string;
 }
 
@@ -36,8 +42,34 @@ export function buildLineDraft(book: Book, line?: BuildLine): BuildLineDraft {
     role: line?.role ?? '',
     attrition: line?.attrition === undefined ? '' : String(Number((line.attrition * 100).toPrecision(6))),
     pinnedSupplier: pin?.name ?? line?.pinnedSupplierId ?? '',
+    alternates: (line?.alternates ?? []).map((id) => book.parts.find((p) => p.id === id)?.mpn ?? id),
+    pinnedPart: line?.pinnedPartId ? (book.parts.find((p) => p.id === line.pinnedPartId)?.mpn ?? line.pinnedPartId) : '',
     notes: line?.notes ?? '',
   };
+}
+
+/** A part of the Book by maker part number (as the Parts page matches it) or by id. */
+export function findPart(book: Book, text: string): Part | undefined {
+  return partByMpn(book.parts, text) ?? book.parts.find((p) => p.id === text);
+}
+
+/**
+ * Why `text` cannot be approved as the next alternate of the draft's line: a rule line or a line with no part of
+ * its own, a part not in the Book, the line's own part, one approved already, or too many. Undefined when it can.
+ * `others` are the alternates it is checked against (by default the draft's).
+ */
+export function alternateProblem(text: string, d: BuildLineDraft, book: Book, others: readonly string[] = d.alternates): string | undefined {
+  const mpn = text.trim();
+  if (mpn === '') return 'type the maker part number of a part of the Book to approve';
+  if (formulaBody(d.partRule) !== '') return 'a line whose part rule picks the part has no approved alternates: approve second sources on a line with a fixed part';
+  if (d.part.trim() === '') return 'give the line its own part first; alternates are approved beside it';
+  const part = findPart(book, mpn);
+  if (!part) return `no part ${mpn} in the Book; add it on the Parts page first`;
+  const own = findPart(book, d.part.trim());
+  if (own?.id === part.id) return `${part.mpn} is the line's own part; an alternate is another part`;
+  if (others.some((o) => findPart(book, o)?.id === part.id)) return `${part.mpn} is approved on this line already`;
+  if (others.length >= LIMITS.alternates) return `at most ${LIMITS.alternates} approved alternates per line`;
+  return undefined;
 }
 
 /** Why a rule's text cannot be read, before any variant is tried. Empty text is allowed unless `required`. */
@@ -73,8 +105,7 @@ export function validateBuildLine(
   const partText = d.part.trim();
   let partId: string | undefined;
   if (partText !== '') {
-    const key = mpnKey(partText);
-    const part = book.parts.find((p) => mpnKey(p.mpn) === key) ?? book.parts.find((p) => p.id === partText);
+    const part = findPart(book, partText);
     if (!part) problems.part = `no part ${partText} in the Book; add it on the Parts page first`;
     else partId = part.id;
   }
@@ -112,6 +143,25 @@ export function validateBuildLine(
     else pinnedSupplierId = s.id;
   }
 
+  // Approved alternates: each checked against the line and those ranked before it.
+  const alternates: string[] = [];
+  for (let i = 0; i < d.alternates.length; i++) {
+    const bad = alternateProblem(d.alternates[i]!, d, book, d.alternates.slice(0, i));
+    if (bad) {
+      problems.alternates = bad;
+      break;
+    }
+    alternates.push(findPart(book, d.alternates[i]!.trim())!.id);
+  }
+  let pinnedPartId: string | undefined;
+  const pinPart = d.pinnedPart.trim();
+  if (pinPart !== '') {
+    const part = findPart(book, pinPart);
+    if (!part) problems.pinnedPart = `no part ${pinPart} in the Book`;
+    else if (part.id !== partId && !alternates.includes(part.id)) problems.pinnedPart = `${part.mpn} is not approved on this line: pin the line's part or one of its alternates`;
+    else pinnedPartId = part.id;
+  }
+
   if (Object.keys(problems).length > 0) return { ok: false, problems };
   const record: BuildLine = {
     id: editing?.id ?? makeId(),
@@ -127,6 +177,8 @@ export function validateBuildLine(
   if (role !== '') record.role = role;
   if (attrition !== undefined) record.attrition = attrition;
   if (pinnedSupplierId !== undefined) record.pinnedSupplierId = pinnedSupplierId;
+  if (alternates.length > 0) record.alternates = alternates;
+  if (pinnedPartId !== undefined) record.pinnedPartId = pinnedPartId;
   if (d.notes.trim() !== '') record.notes = d.notes.trim();
   return { ok: true, record };
 }

@@ -12,7 +12,8 @@ import { BookController } from './book-context.ts';
 import { CostingService } from './costing-service.ts';
 import { field, fieldId, focusFirstProblem, formulaField, nothingSaved } from './form-fields.ts';
 import type { FieldProblems } from './record-forms.ts';
-import { buildLineDraft, lineOutcomes, moveLine, orderedLines, trialProblems, validateBuildLine } from './build-rules.ts';
+import { alternateProblem, buildLineDraft, findPart, lineOutcomes, moveLine, orderedLines, trialProblems, validateBuildLine } from './build-rules.ts';
+import { approvedParts } from '../domain/alternates.ts';
 import type { BuildLineDraft, LineOutcome } from './build-rules.ts';
 import type { NoticeDetail } from './rb-book-menu.ts';
 import type { NameHint } from './rb-formula-input.ts';
@@ -26,6 +27,9 @@ type Editing = {
   problems: FieldProblems;
   preview: LineOutcome[];
   saveError?: string;
+  /** The maker part number typed to approve next, and why it could not be. */
+  altInput: string;
+  altProblem?: string;
 };
 
 /** Names a build rule may use: the variant parameters (rules are read before parts and checks exist). */
@@ -136,6 +140,23 @@ export class RbBuildPage extends LitElement {
       .totals {
         font-size: 0.88rem;
         margin: 0.6rem 0 0;
+      }
+      small.single {
+        color: var(--rb-margin, var(--rb-na));
+      }
+      small.single::before {
+        content: '◆ ';
+      }
+      .alternates ol {
+        margin: 0 0 0.3rem;
+        padding-left: 1.4rem;
+      }
+      .alternates li {
+        margin: 0.1rem 0;
+      }
+      .alternates .add {
+        display: flex;
+        gap: 0.4rem;
       }
     `,
   ];
@@ -260,6 +281,7 @@ export class RbBuildPage extends LitElement {
         ${l.partRule
           ? html`<code title=${l.partRule}>${l.partRule}</code><small>part rule</small>`
           : html`<span class="code">${part?.mpn ?? l.partId ?? ''}</span><small>${part?.description ?? (l.partId ? 'part not in the Book' : '')}</small>`}
+        ${this.renderApproved(book, l)}
       </td>
       <td class="rule">
         <code title=${l.qtyRule}>${l.qtyRule}</code>
@@ -289,6 +311,21 @@ export class RbBuildPage extends LitElement {
         ${rowProblem ? html`<div class="bad" role="alert">${rowProblem}</div>` : ''}
       </td>
     </tr>`;
+  }
+
+  /** A line's approved alternates and pinned part, or the single-source mark when it has nothing to fall back on. */
+  private renderApproved(book: Book, l: BuildLine): TemplateResult {
+    const mpn = (id: string): string => book.parts.find((p) => p.id === id)?.mpn ?? id;
+    const alts = l.alternates ?? [];
+    if (approvedParts(l).length <= 1 && l.partRule === undefined) {
+      return html`<small class="single" data-testid="single-source" title="one approved part: nothing to fall back on when it cannot be had">single source</small>`;
+    }
+    if (alts.length === 0) {
+      return html`<small class="single" data-testid="single-source" title="the rule picks one part per variant: nothing approved to fall back on">single source per variant</small>`;
+    }
+    return html`<small data-testid="approved-alternates">approved alternates: ${alts.map(mpn).join(', ')}</small>${l.pinnedPartId
+        ? html`<small>pinned part: ${mpn(l.pinnedPartId)}</small>`
+        : ''}`;
   }
 
   // -------------------------------------------------------------------------------------------------------------
@@ -330,6 +367,7 @@ export class RbBuildPage extends LitElement {
           : html`<span class="hint">maker part number of a fixed part; leave blank when a part rule chooses it</span>`}
         <datalist id="build-part-list">${mpns.map((x) => html`<option value=${x.mpn}>${x.description}</option>`)}</datalist>
         ${formula('partRule', 'part rule', 'a formula giving a maker part number per variant; wins over the fixed part', 'IF(stage="triac", "…", "…")')}
+        ${this.renderAlternatesField(book, e)}
         ${formula('qtyRule', 'qty rule', 'parts per finished unit, e.g. 1, 2 or steps - 1', '1')}
         ${formula('appliesWhen', 'applies when', 'blank for every variant; e.g. supply="dropper"', '')}
         ${field({ name: 'category', label: 'category', value: d.category, problem: p.category, choices: COST_CATEGORIES, hint: 'where the cost is counted in the split', onInput: (v) => set({ category: v }) })}
@@ -379,10 +417,93 @@ export class RbBuildPage extends LitElement {
     </section>`;
   }
 
+  /**
+   * The approved alternates of the line, best first, each moved up or down or taken off, a part of the Book to
+   * approve next (refused beside the field with the reason, nothing changed), and the approved part to pin.
+   */
+  private renderAlternatesField(book: Book, e: Editing): TemplateResult {
+    const d = e.draft;
+    const change = (patch: Partial<BuildLineDraft>, rest: Partial<Editing> = {}) => {
+      if (!this.editing) return;
+      this.editing = { ...this.editing, ...rest, draft: { ...this.editing.draft, ...patch } };
+    };
+    const move = (i: number, step: -1 | 1) => {
+      const list = [...d.alternates];
+      [list[i], list[i + step]] = [list[i + step]!, list[i]!];
+      change({ alternates: list });
+    };
+    const remove = (i: number) => {
+      const gone = d.alternates[i]!;
+      change({ alternates: d.alternates.filter((_, k) => k !== i), pinnedPart: d.pinnedPart === gone ? '' : d.pinnedPart });
+    };
+    const add = () => {
+      const cur = this.editing;
+      if (!cur) return;
+      const bad = alternateProblem(cur.altInput, cur.draft, book);
+      if (bad) {
+        this.editing = { ...cur, altProblem: bad };
+        return;
+      }
+      const { altProblem: _refused, ...rest } = cur;
+      const part = findPart(book, cur.altInput.trim())!;
+      this.editing = { ...rest, altInput: '', draft: { ...cur.draft, alternates: [...cur.draft.alternates, part.mpn] } };
+    };
+    const problem = e.altProblem ?? e.problems['alternates'];
+    const desc = (mpn: string): string => book.parts.find((p) => p.mpn === mpn)?.description ?? '';
+    return html`<label for=${fieldId('alternate')}>approved alternates</label>
+      <div class="alternates" data-testid="alternates">
+        ${d.alternates.length > 0
+          ? html`<ol aria-label="Approved alternates, best first">
+              ${d.alternates.map(
+                (mpn, i) => html`<li>
+                  <span class="code">${mpn}</span> <small class="muted">${desc(mpn)}</small>
+                  <button type="button" class="move" aria-label="Rank ${mpn} higher" ?disabled=${i === 0} @click=${() => move(i, -1)}>↑</button>
+                  <button type="button" class="move" aria-label="Rank ${mpn} lower" ?disabled=${i === d.alternates.length - 1} @click=${() => move(i, 1)}>↓</button>
+                  <button type="button" class="quiet" aria-label="Remove ${mpn}" @click=${() => remove(i)}>remove</button>
+                </li>`,
+              )}
+            </ol>`
+          : ''}
+        <div class="add">
+          <input
+            id=${fieldId('alternate')}
+            name="alternate"
+            list="build-part-list"
+            autocomplete="off"
+            spellcheck="false"
+            placeholder="maker part number"
+            .value=${e.altInput}
+            aria-invalid=${problem ? 'true' : 'false'}
+            @input=${(ev: Event) => {
+              if (this.editing) this.editing = { ...this.editing, altInput: (ev.target as HTMLInputElement).value };
+            }}
+            @keydown=${(ev: KeyboardEvent) => {
+              if (ev.key !== 'Enter') return;
+              ev.preventDefault();
+              add();
+            }}
+          />
+          <button type="button" @click=${add}>Approve</button>
+        </div>
+      </div>
+      ${problem
+        ? html`<span class="problem" data-problem-for="alternates" role="alert">${problem}</span>`
+        : html`<span class="hint">second sources of the line's part, best first; checks judge every approved part and report the worst</span>`}
+      ${field({
+        name: 'pinnedPart',
+        label: 'pinned part',
+        value: d.pinnedPart,
+        problem: e.problems['pinnedPart'],
+        choices: d.part.trim() === '' ? d.alternates : [d.part.trim(), ...d.alternates],
+        hint: 'costing buys only this approved part; — = the cheapest that can be had in time',
+        onInput: (v) => change({ pinnedPart: v }),
+      })}`;
+  }
+
   private startEdit(book: Book, line: BuildLine | undefined): void {
     this.confirmDelete = undefined;
     this.rowProblem = undefined;
-    this.editing = { line, draft: buildLineDraft(book, line), problems: {}, preview: [] };
+    this.editing = { line, draft: buildLineDraft(book, line), problems: {}, preview: [], altInput: '' };
     this.schedulePreview();
     void this.updateComplete.then(() => {
       this.renderRoot.querySelector<HTMLElement>('#line-form-h')?.scrollIntoView({ block: 'nearest' });
