@@ -20,6 +20,8 @@ import type { NameHint } from './rb-formula-input.ts';
 import { pageStyles, previewStyles, toolbarSearchStyles } from './styles.ts';
 import './rb-formula-input.ts';
 import { ProgressiveRows } from './progressive.ts';
+import { DIRECTIONS, UndoStack, stepChange } from './undo.ts';
+import type { Direction, RecordChange } from './undo.ts';
 
 type Editing = {
   line: BuildLine | undefined;
@@ -173,6 +175,11 @@ export class RbBuildPage extends LitElement {
   private familyVersion = -1;
   private names: readonly NameHint[] = [];
   private timer: ReturnType<typeof setTimeout> | undefined;
+  /** Saved line edits (add, edit, move, delete), undone and redone as one Book change each. */
+  private readonly history = new UndoStack<BuildLine>();
+  /** The Book replacement the undo steps belong to (see BookService.replacements). */
+  private replacementSeen = 0;
+  @state() private historyMessage: string | undefined;
 
   @state() private editing: Editing | undefined;
   @state() private confirmDelete: string | undefined;
@@ -190,6 +197,12 @@ export class RbBuildPage extends LitElement {
     const book = this.books.book;
     const service = this.books.service;
     if (!book || !service) return;
+    if (service.replacements !== this.replacementSeen) {
+      // The whole Book was replaced: undo steps of its lines belong to a Book that is gone.
+      this.replacementSeen = service.replacements;
+      this.history.clear();
+      this.historyMessage = undefined;
+    }
     const costing = CostingService.for(service);
     costing.sync();
     if (book === this.familyBook && costing.version === this.familyVersion) return;
@@ -241,7 +254,9 @@ export class RbBuildPage extends LitElement {
           @input=${(e: Event) => (this.filter = (e.target as HTMLInputElement).value)}
         />
         ${f ? html`<span class="muted">${lines.length} shown; moving lines works on the whole list</span>` : ''}
+        ${this.renderHistory()}
       </div>
+      ${this.historyMessage ? html`<p class="notice" role="alert" data-testid="build-undo-message">${this.historyMessage}</p>` : ''}
       ${all.length === 0
         ? html`<p class="empty">No build lines yet. Add the first one above.</p>`
         : html`<div class="scroll">
@@ -311,6 +326,44 @@ export class RbBuildPage extends LitElement {
         ${rowProblem ? html`<div class="bad" role="alert">${rowProblem}</div>` : ''}
       </td>
     </tr>`;
+  }
+
+  private renderHistory(): TemplateResult | '' {
+    const undo = this.history.peek(DIRECTIONS.undo);
+    const redo = this.history.peek(DIRECTIONS.redo);
+    if (!undo && !redo) return '';
+    return html`<button type="button" data-testid="build-undo" ?disabled=${!undo} @click=${() => void this.step(DIRECTIONS.undo)}>
+        ↶ Undo${undo ? html` <span class="muted">${undo.label}</span>` : ''}
+      </button>
+      <button type="button" data-testid="build-redo" ?disabled=${!redo} @click=${() => void this.step(DIRECTIONS.redo)}>
+        ↷ Redo${redo ? html` <span class="muted">${redo.label}</span>` : ''}
+      </button>`;
+  }
+
+  /** Undoes or redoes the last line edit, unless a line it touched changed since (then says so, changes nothing). */
+  private async step(direction: Direction): Promise<void> {
+    const service = this.books.service;
+    const step = this.history.peek(direction);
+    if (!service || !step) return;
+    const plan = stepChange(service.book, 'buildLines', step, direction, (l) => `line ${l.designators}`);
+    if (!plan.ok) {
+      this.history.drop(direction);
+      this.historyMessage = plan.message;
+      return;
+    }
+    const result = await service.save(plan.change);
+    if (result.ok) {
+      this.history.settle(direction);
+      this.historyMessage = undefined;
+    } else this.historyMessage = result.message;
+  }
+
+  /** Remembers a saved edit of these lines (as they were before it) for undo. */
+  private remember(label: string, before: readonly (BuildLine | undefined)[], ids: readonly string[]): void {
+    const now = new Map((this.books.service?.book.buildLines ?? []).map((l) => [l.id, l] as const));
+    const changes: RecordChange<BuildLine>[] = ids.map((id, i) => ({ id, before: before[i], after: now.get(id) }));
+    this.history.record({ label, changes });
+    this.historyMessage = undefined;
   }
 
   /** A line's approved alternates and pinned part, or the single-source mark when it has nothing to fall back on. */
@@ -573,6 +626,7 @@ export class RbBuildPage extends LitElement {
     this.editing = { ...e, problems: {}, preview: outcomes };
     const result = await service.save({ put: { buildLines: [v.record] } });
     if (result.ok) {
+      this.remember(`${held ? 'edit' : 'add'} line ${v.record.designators}`, [held], [v.record.id]);
       this.editing = undefined;
       this.dispatchEvent(
         new CustomEvent<NoticeDetail>('rb-notice', {
@@ -589,8 +643,10 @@ export class RbBuildPage extends LitElement {
     if (!service) return;
     const changed = moveLine(service.book, l.id, step);
     if (changed.length === 0) return;
+    const before = changed.map((c) => service.book.buildLines.find((x) => x.id === c.id));
     const result = await service.save({ put: { buildLines: changed } });
     this.rowProblem = result.ok ? undefined : { id: l.id, message: result.message };
+    if (result.ok) this.remember(`move line ${l.designators}`, before, changed.map((c) => c.id));
   }
 
   private askDelete(l: BuildLine): void {
@@ -602,8 +658,10 @@ export class RbBuildPage extends LitElement {
     const service = this.books.service;
     if (!service) return;
     this.confirmDelete = undefined;
+    const before = service.book.buildLines.find((x) => x.id === l.id);
     const result = await service.save({ delete: { buildLines: [l.id] } });
     if (!result.ok) this.rowProblem = { id: l.id, message: result.message };
+    else this.remember(`delete line ${l.designators}`, [before], [l.id]);
     if (this.editing?.line?.id === l.id) this.editing = undefined;
   }
 
