@@ -1,6 +1,8 @@
 // The `.rungbook.json` Book file: our own versioned format. Writing is stable (fixed key order, one record per line,
 // price breaks as [quantity, price] pairs); reading migrates older versions step by step, then validates through
 // the Book schema and returns either the Book or the first problems, each with its place in the file.
+import { runInSlices } from '../domain/slices.ts';
+import type { Sliced } from '../domain/slices.ts';
 import { COLLECTIONS } from '../domain/book.ts';
 import { isIsoTime } from '../domain/dates.ts';
 import type { Book, Quote } from '../domain/book.ts';
@@ -82,20 +84,20 @@ export async function serializeBookSliced(
   book: Book,
   opts: { savedAt?: string; sliceMs?: number; pause?: () => Promise<void> } = {},
 ): Promise<string[]> {
-  const pause = opts.pause ?? ((): Promise<void> => new Promise((resolve) => setTimeout(resolve, 0)));
-  const sliceMs = opts.sliceMs ?? 12;
-  const pieces: string[] = [];
-  let sliceStart = performance.now();
-  let n = 0;
-  for (const piece of bookFilePieces(book, opts.savedAt === undefined ? {} : { savedAt: opts.savedAt })) {
-    pieces.push(piece);
-    // Reading the clock every 64 records keeps its cost out of the figure.
-    if ((++n & 63) === 0 && performance.now() - sliceStart > sliceMs) {
-      await pause();
-      sliceStart = performance.now();
+  const pieces = bookFilePieces(book, opts.savedAt === undefined ? {} : { savedAt: opts.savedAt });
+  function* collect(): Sliced<string[]> {
+    const out: string[] = [];
+    let n = 0;
+    for (const piece of pieces) {
+      out.push(piece);
+      // Looking at the clock every 64 records keeps its cost out of the figure.
+      if ((++n & 63) === 0) yield;
     }
+    return out;
   }
-  return pieces;
+  const options: Parameters<typeof runInSlices>[1] = { budgetMs: opts.sliceMs ?? 12 };
+  if (opts.pause) options.pause = opts.pause;
+  return runInSlices(collect(), options);
 }
 
 function encodeQuote(q: Quote): unknown {

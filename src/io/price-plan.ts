@@ -5,6 +5,8 @@ import type { Book, ImportBatch, Part, Quote, Supplier } from '../domain/book.ts
 import { mpnKey } from '../domain/book.ts';
 import { currentQuoteIndex, findReimport, supersede } from '../domain/quotes.ts';
 import type { BookChange } from '../domain/book-ops.ts';
+import { ITEMS_PER_LOOK, runAtOnce, runInSlices } from '../domain/slices.ts';
+import type { Sliced } from '../domain/slices.ts';
 import type { PriceProblem } from './price-map.ts';
 import type { PriceAnalysis, PriceOffer } from './price-validate.ts';
 
@@ -85,16 +87,20 @@ function idMaker(): (prefix: string) => string {
 }
 
 /** Parts by normalised maker part number and by this supplier's order codes, for matching many offers quickly. */
-function matchIndex(book: Book, supplierId: string): { byMpn: Map<string, Part>; byCode: Map<string, Part> } {
+function* matchIndex(book: Book, supplierId: string): Sliced<{ byMpn: Map<string, Part>; byCode: Map<string, Part> }> {
   const byMpn = new Map<string, Part>();
+  const partById = new Map<string, Part>();
+  let n = 0;
   for (const p of book.parts) {
     const k = mpnKey(p.mpn);
     if (k && !byMpn.has(k)) byMpn.set(k, p);
+    partById.set(p.id, p);
+    if (++n % ITEMS_PER_LOOK === 0) yield;
   }
-  const partById = new Map(book.parts.map((p) => [p.id, p] as const));
   const byCode = new Map<string, Part>();
   // Later quotes win, so a code reused for another part follows the newest quote.
   for (const q of book.quotes) {
+    if (++n % ITEMS_PER_LOOK === 0) yield;
     if (q.supplierId !== supplierId || !q.supplierCode) continue;
     const part = partById.get(q.partId);
     if (part) byCode.set(q.supplierCode.trim().toUpperCase(), part);
@@ -115,10 +121,11 @@ function newPart(o: PriceOffer, newId: (prefix: string) => string): Part {
   };
 }
 
-export function planImport(book: Book, analysis: PriceAnalysis, options: PlanOptions): ImportPlan {
+/** A plan that imports nothing (yet): no change, every count 0. */
+export function noPlan(problems: PriceProblem[] = [], reason?: string): ImportPlan {
   const plan: ImportPlan = {
     ok: false,
-    problems: [...analysis.problems],
+    problems,
     unmatched: [],
     matchedByMpn: 0,
     matchedByCode: 0,
@@ -128,6 +135,22 @@ export function planImport(book: Book, analysis: PriceAnalysis, options: PlanOpt
     skippedOffers: 0,
     lostPackOrMoq: 0,
   };
+  if (reason !== undefined) plan.reason = reason;
+  return plan;
+}
+
+/** The import plan, worked out at once (the command line, tests). */
+export function planImport(book: Book, analysis: PriceAnalysis, options: PlanOptions): ImportPlan {
+  return runAtOnce(planSteps(book, analysis, options));
+}
+
+/** The import plan, worked out a slice at a time so the page draws and answers meanwhile. */
+export function planImportInSlices(book: Book, analysis: PriceAnalysis, options: PlanOptions, signal?: AbortSignal): Promise<ImportPlan> {
+  return runInSlices(planSteps(book, analysis, options), signal ? { signal } : {});
+}
+
+function* planSteps(book: Book, analysis: PriceAnalysis, options: PlanOptions): Sliced<ImportPlan> {
+  const plan = noPlan([...analysis.problems]);
   const supplier = book.suppliers.find((s) => s.id === options.supplierId);
   if (!supplier) return { ...plan, reason: `no supplier with id ${options.supplierId} in the Book` };
   if (!analysis.readable) return { ...plan, reason: analysis.problems[0]?.reason ?? 'the file could not be read' };
@@ -136,12 +159,14 @@ export function planImport(book: Book, analysis: PriceAnalysis, options: PlanOpt
   if (reimport) plan.reimportOf = reimport;
 
   const newId = idMaker();
-  const { byMpn, byCode } = matchIndex(book, supplier.id);
+  const { byMpn, byCode } = yield* matchIndex(book, supplier.id);
   const claimed = new Map<string, PriceOffer>();
   const quotedTwice = new Set<string>();
   const matched: { offer: PriceOffer; part: Part }[] = [];
   const created: Part[] = [];
+  let n = 0;
   for (const o of analysis.offers) {
+    if (++n % ITEMS_PER_LOOK === 0) yield;
     // Offer keys are 'mpn:' + mpnKey(mpn) whenever the row has a maker part number.
     let part = o.mpn ? byMpn.get(o.key.slice(4)) : undefined;
     if (part) plan.matchedByMpn++;
@@ -195,13 +220,16 @@ export function planImport(book: Book, analysis: PriceAnalysis, options: PlanOpt
   if (chosen.length === 0) return { ...plan, reason: 'nothing to import: no row was matched to a part or chosen to create one' };
 
   const batchId = newId('batch');
+  yield;
   const index = currentQuoteIndex(book.quotes);
+  yield;
   const quotes: Quote[] = [];
   const old: Quote[] = [];
   const noPack = analysis.mapping.columns['pack'] === undefined;
   const noMoq = analysis.mapping.columns['moq'] === undefined;
   let lostPackOrMoq = 0;
   for (const { offer, part } of chosen) {
+    if (++n % ITEMS_PER_LOOK === 0) yield;
     const q: Quote = {
       id: newId('quote'),
       rev: 0,

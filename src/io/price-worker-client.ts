@@ -45,12 +45,15 @@ export function runPriceImportInWorker(
       reject(new DOMException('price import cancelled', 'AbortError'));
     };
     signal?.addEventListener('abort', onAbort, { once: true });
+    const offers: PriceAnalysis['offers'] = [];
     worker.onmessage = (e) => {
       const m = e.data;
       if (m.type === 'progress') onProgress?.({ rows: m.rows, rowsPerSecond: m.rowsPerSecond });
-      else if (m.type === 'result') {
+      else if (m.type === 'offers') {
+        for (const o of m.offers) offers.push(o);
+      } else if (m.type === 'result') {
         stop();
-        resolve(m.analysis);
+        resolve(m.parted ? { ...m.analysis, offers } : m.analysis);
       } else {
         stop();
         reject(new Error(m.message));

@@ -11,8 +11,17 @@ export interface PriceWorkerRequest {
 
 export type PriceWorkerMessage =
   | { type: 'progress'; rows: number; rowsPerSecond: number }
-  | { type: 'result'; analysis: PriceAnalysis }
+  /** Offers of a large file, sent ahead of the result in parts (see OFFERS_PER_PART). */
+  | { type: 'offers'; offers: PriceAnalysis['offers'] }
+  /** The analysis; when `parted`, its offers came ahead in parts and it carries none. */
+  | { type: 'result'; analysis: PriceAnalysis; parted?: boolean }
   | { type: 'error'; message: string };
+
+/**
+ * Offers per message of a large file: the page receives each message in a task of its own, and a copy of 50,000
+ * offers at once held it for a few hundred ms.
+ */
+export const OFFERS_PER_PART = 4000;
 
 /** The worker's whole job, as a plain function so Node tests run exactly what the worker runs. */
 export async function handlePriceWorkerRequest(request: PriceWorkerRequest, post: (m: PriceWorkerMessage) => void): Promise<void> {
@@ -26,7 +35,13 @@ export async function handlePriceWorkerRequest(request: PriceWorkerRequest, post
       const seconds = (performance.now() - started) / 1000;
       post({ type: 'progress', rows, rowsPerSecond: seconds > 0 ? Math.round(rows / seconds) : 0 });
     });
-    post({ type: 'result', analysis });
+    const offers = analysis.offers;
+    if (offers.length <= OFFERS_PER_PART) {
+      post({ type: 'result', analysis });
+      return;
+    }
+    for (let i = 0; i < offers.length; i += OFFERS_PER_PART) post({ type: 'offers', offers: offers.slice(i, i + OFFERS_PER_PART) });
+    post({ type: 'result', analysis: { ...analysis, offers: [] }, parted: true });
   } catch (e) {
     post({ type: 'error', message: `the price file could not be read: ${e instanceof Error ? e.message : String(e)}` });
   }

@@ -5,6 +5,8 @@ import { COLLECTIONS, defaultSettings, emptyBook, mpnKey } from '../domain/book.
 import type { Book, CollectionName, CollectionRecord, Part, Quote, Settings } from '../domain/book.ts';
 import { bumped, revisionMatches, touchedCollections } from '../domain/book-ops.ts';
 import type { BookChange } from '../domain/book-ops.ts';
+import { ITEMS_PER_LOOK, runInSlices } from '../domain/slices.ts';
+import type { Sliced } from '../domain/slices.ts';
 import { MIGRATIONS, runMigrations } from './migrations.ts';
 import type { Migration, UpgradeDb, UpgradeTx } from './migrations.ts';
 import { bucketQuotes, idbVersionOf, quoteBucketKey, schemaVersionOf, unbucketQuotes } from './schema.ts';
@@ -80,19 +82,34 @@ function openWithMigrations(
   });
 }
 
-/**
- * Collects request promises of one transaction. Each gets a no-op rejection handler at once: when the transaction
- * aborts, every pending request rejects, and only the first failure is reported.
- */
 /** Records copied into the database per step of a large write (a few ms of the page's time each). */
 const WRITE_STEP = 2000;
 
-function requests(): { add(p: Promise<unknown>): void; all(): Promise<unknown[]> } {
+/**
+ * Collects request promises of one transaction. Each gets a no-op rejection handler at once: when the transaction
+ * aborts, every pending request rejects, and only the first failure is reported.
+ *
+ * A large write goes in steps of about WRITE_STEP records in the one transaction: each request copies its record when
+ * it is made, so copying a large Book or import at once held the page for a second. `step` waits for the requests
+ * made since the last step once they weigh WRITE_STEP records; the next ones are made from their ends, which keeps the
+ * transaction alive, and the page draws and answers in between.
+ */
+function requests(): { add(p: Promise<unknown>, weight?: number): void; step(): Promise<void>; all(): Promise<unknown[]> } {
   const list: Promise<unknown>[] = [];
+  let since = 0;
+  let weight = 0;
   return {
-    add(p) {
+    add(p, w = 1) {
       p.catch(() => undefined);
       list.push(p);
+      weight += w;
+    },
+    async step() {
+      if (weight < WRITE_STEP) return;
+      const pending = list.slice(since);
+      since = list.length;
+      weight = 0;
+      await Promise.all(pending);
     },
     all: () => Promise.all(list),
   };
@@ -195,19 +212,18 @@ export class IdbBookStore implements BookStore {
     const shape = changeShapeProblem(change);
     if (shape) throw new StoreWriteFailed(shape);
 
+    // The quotes a change saves and deletes, by the bucket that holds them: worked out before the transaction, in
+    // slices, so a 50,000-quote import does not hold the page (a transaction cannot wait for anything but its own
+    // requests).
+    const quoteGroups = collections.includes('quotes') ? await runInSlices(quotesByBucket(change)) : undefined;
     const tx = this.db.transaction(stores, 'readwrite');
     let failedAdd: { c: Exclude<CollectionName, 'quotes'>; id: string; e: unknown } | undefined;
     try {
       const reads: Promise<RevisionConflict | undefined>[] = [];
-      let quoteBuckets: Map<string, Map<string, Quote>> | undefined;
+      const writes = requests();
       for (const c of collections) {
         if (c === 'quotes') {
-          reads.push(
-            readQuoteBuckets(tx, change).then(({ buckets, conflict }) => {
-              quoteBuckets = buckets;
-              return conflict;
-            }),
-          );
+          reads.push(rewriteQuoteBuckets(tx, quoteGroups!, writes));
           continue;
         }
         // New records (rev 0) are written with add(), which fails on an existing key: no read needed, which keeps
@@ -248,13 +264,11 @@ export class IdbBookStore implements BookStore {
       const conflict = (await Promise.all(reads)).find((x) => x !== undefined);
       if (conflict) throw conflict;
 
-      const writes = requests();
       for (const c of collections) {
         if (c === 'quotes') continue;
         const store = tx.objectStore(c);
         for (const id of change.delete?.[c] ?? []) writes.add(store.delete(id));
       }
-      if (quoteBuckets) writeQuoteBuckets(tx, quoteBuckets, change, writes);
       for (const c of collections) {
         if (c === 'quotes') continue;
         const store = tx.objectStore(c);
@@ -262,6 +276,7 @@ export class IdbBookStore implements BookStore {
           const stored = toStored(c, bumped(r)) as never;
           if (r.rev !== 0) writes.add(store.put(stored));
           else writes.add(store.add(stored).catch((e: unknown) => Promise.reject((failedAdd ??= { c, id: r.id, e }).e)));
+          await writes.step();
         }
       }
       if (settings) writes.add(tx.objectStore('settings').put(bumped(settings)));
@@ -289,28 +304,20 @@ export class IdbBookStore implements BookStore {
       const writes = requests();
       for (const c of COLLECTIONS) writes.add(tx.objectStore(c).clear());
       writes.add(tx.objectStore('settings').clear());
-      // Written in steps of about WRITE_STEP records in the one transaction: copying a large Book into the database
-      // takes seconds, and between steps the page draws and answers (the next step starts from the last one's end).
-      const items: { store: StoreName; value: unknown; weight: number }[] = [];
       for (const c of COLLECTIONS) {
         if (c === 'quotes') continue;
-        for (const r of book[c]) items.push({ store: c, value: toStored(c, r), weight: 1 });
-      }
-      for (const b of bucketQuotes(book.quotes)) items.push({ store: 'quotes', value: b, weight: b.quotes.length });
-      items.push({ store: 'settings', value: book.settings, weight: 1 });
-      let step: Promise<unknown>[] = [];
-      let weight = 0;
-      for (const item of items) {
-        const p = tx.objectStore(item.store).put(item.value as never);
-        writes.add(p);
-        step.push(p);
-        weight += item.weight;
-        if (weight >= WRITE_STEP) {
-          await Promise.all(step);
-          step = [];
-          weight = 0;
+        const store = tx.objectStore(c);
+        for (const r of book[c]) {
+          writes.add(store.put(toStored(c, r) as never));
+          await writes.step();
         }
       }
+      const quotes = tx.objectStore('quotes');
+      for (const b of bucketQuotes(book.quotes)) {
+        writes.add(quotes.put(b), b.quotes.length);
+        await writes.step();
+      }
+      writes.add(tx.objectStore('settings').put(book.settings));
       await writes.all();
       await tx.done;
     } catch (e) {
@@ -333,39 +340,53 @@ export class IdbBookStore implements BookStore {
 
 type WriteTx = IDBPTransaction<RungbookDB, StoreName[], 'readwrite'>;
 
-/**
- * Reads the buckets a change's quotes live in and checks their revisions as for any record: an edited quote must be
- * stored at the revision it carries, a new one (rev 0) must not exist yet.
- */
-async function readQuoteBuckets(
-  tx: WriteTx,
-  change: BookChange,
-): Promise<{ buckets: Map<string, Map<string, Quote>>; conflict: RevisionConflict | undefined }> {
-  const keys = new Set<string>();
-  for (const q of change.put?.quotes ?? []) keys.add(quoteBucketKey(q.id));
-  for (const id of change.delete?.quotes ?? []) keys.add(quoteBucketKey(id));
-  const store = tx.objectStore('quotes');
-  const found = await Promise.all([...keys].map(async (k) => [k, await store.get(k)] as const));
-  const buckets = new Map(found.map(([k, b]) => [k, new Map((b?.quotes ?? []).map((q) => [q.id, q] as const))] as const));
-  let conflict: RevisionConflict | undefined;
-  for (const q of change.put?.quotes ?? []) {
-    const stored = buckets.get(quoteBucketKey(q.id))!.get(q.id);
-    if (!revisionMatches(stored?.rev, q.rev)) {
-      conflict = new RevisionConflict('quotes', q.id, stored?.rev ?? 0, q.rev);
-      break;
-    }
-  }
-  return { buckets, conflict };
+/** A change's quote puts and deletes grouped by the bucket that holds each quote. */
+interface QuoteGroup {
+  put: Quote[];
+  delete: string[];
 }
 
-/** Applies a change's quote deletes and puts to the buckets read for it and writes each touched bucket once. */
-function writeQuoteBuckets(tx: WriteTx, buckets: Map<string, Map<string, Quote>>, change: BookChange, writes: ReturnType<typeof requests>): void {
-  for (const id of change.delete?.quotes ?? []) buckets.get(quoteBucketKey(id))!.delete(id);
-  for (const q of change.put?.quotes ?? []) buckets.get(quoteBucketKey(q.id))!.set(q.id, bumped(q));
-  const store = tx.objectStore('quotes');
-  for (const [id, quotes] of buckets) {
-    writes.add(quotes.size === 0 ? store.delete(id) : store.put({ id, quotes: [...quotes.values()] }));
+function* quotesByBucket(change: BookChange): Sliced<Map<string, QuoteGroup>> {
+  const groups = new Map<string, QuoteGroup>();
+  const group = (id: string): QuoteGroup => {
+    const k = quoteBucketKey(id);
+    let g = groups.get(k);
+    if (!g) groups.set(k, (g = { put: [], delete: [] }));
+    return g;
+  };
+  let n = 0;
+  for (const q of change.put?.quotes ?? []) {
+    group(q.id).put.push(q);
+    if (++n % ITEMS_PER_LOOK === 0) yield;
   }
+  for (const id of change.delete?.quotes ?? []) {
+    group(id).delete.push(id);
+    if (++n % ITEMS_PER_LOOK === 0) yield;
+  }
+  return groups;
+}
+
+/**
+ * Reads each bucket a change's quotes live in, checks their revisions as for any record (an edited quote must be
+ * stored at the revision it carries, a new one (rev 0) must not exist yet) and writes the bucket back with the
+ * change applied. One bucket at a time, each when its read arrives: the browser may hand over the answers of many
+ * reads in one task, and rewriting every bucket of a large import there held the page for a second. A conflict stops
+ * the rewriting and aborts the whole transaction, so nothing it wrote stays.
+ */
+async function rewriteQuoteBuckets(tx: WriteTx, groups: Map<string, QuoteGroup>, writes: ReturnType<typeof requests>): Promise<RevisionConflict | undefined> {
+  const store = tx.objectStore('quotes');
+  for (const [key, g] of groups) {
+    const bucket = await store.get(key);
+    const quotes = new Map((bucket?.quotes ?? []).map((q) => [q.id, q] as const));
+    for (const q of g.put) {
+      const stored = quotes.get(q.id);
+      if (!revisionMatches(stored?.rev, q.rev)) return new RevisionConflict('quotes', q.id, stored?.rev ?? 0, q.rev);
+    }
+    for (const id of g.delete) quotes.delete(id);
+    for (const q of g.put) quotes.set(q.id, bumped(q));
+    writes.add(quotes.size === 0 ? store.delete(key) : store.put({ id: key, quotes: [...quotes.values()] }));
+  }
+  return undefined;
 }
 
 /** Aborts the transaction if it is still running, waits for it to end, and returns the error to report. */

@@ -2,7 +2,8 @@
 // and reports save state, storage use, conflicts, schema upgrades in other tabs and edits made in other tabs.
 import type { Book, CollectionName } from '../domain/book.ts';
 import { COLLECTIONS, defaultSettings, emptyBook } from '../domain/book.ts';
-import { applyChange, revisionMatches } from '../domain/book-ops.ts';
+import { applyChangeSteps, revisionMatches } from '../domain/book-ops.ts';
+import { runInSlices } from '../domain/slices.ts';
 import { demoBook } from '../domain/demo-book.ts';
 import { mergeRecord } from '../domain/merge.ts';
 import { inVariantOrder } from '../domain/variant-order.ts';
@@ -178,9 +179,11 @@ export class BookService extends EventTarget {
   save(change: BookChange): Promise<SaveResult> {
     return this.enqueue(async () => {
       const { written, merged } = await this.writeMerging(change);
-      const next = applyChange(this.book, written);
+      // Applied in slices: a large import's copy in memory must not hold the page either.
+      const next = await runInSlices(applyChangeSteps(this.book, written));
       // The store accepted the change, so a mismatch here means memory fell behind (another tab): re-read it.
-      this.adopt(next.ok ? next.book : await this.store.load());
+      if (next.ok) this.adopt(next.book, written);
+      else this.adopt(await this.store.load());
       this.noteOwn(written);
       return merged;
     });
@@ -255,20 +258,34 @@ export class BookService extends EventTarget {
 
   private noteOwn(change: BookChange): void {
     for (const [c, list] of Object.entries(change.put ?? {}) as [string, AnyRecord[] | undefined][]) {
-      for (const r of list ?? []) this.ownRevisions.add(versionKey(c, r.id, r.rev + 1));
+      // A new record's first revision is never asked about: allOwn starts after the revision the tab held, at least 1.
+      for (const r of list ?? []) if (r.rev !== 0) this.ownRevisions.add(versionKey(c, r.id, r.rev + 1));
     }
     if (change.settings) this.ownRevisions.add(versionKey('settings', 'settings', change.settings.rev + 1));
   }
 
-  /** Takes a newer Book as the tab's copy, remembering each record it replaces as the tab held it. */
-  private adopt(next: Book): void {
+  /**
+   * Takes a newer Book as the tab's copy, remembering each record it replaces as the tab held it. When the newer Book
+   * is this one with `change` applied, only the records the change edits or deletes are looked for (a 50,000-quote
+   * import replaces none: its quotes are new).
+   */
+  private adopt(next: Book, change?: BookChange): void {
     const prev = this.book;
+    const replaced: [CollectionName, AnyRecord][] = [];
     for (const c of COLLECTIONS) {
       if (prev[c] === next[c]) continue;
+      if (change) {
+        const touched = new Set<string>(change.delete?.[c] ?? []);
+        for (const r of change.put?.[c] ?? []) if (r.rev !== 0) touched.add(r.id);
+        if (touched.size > 0) for (const r of prev[c] as readonly AnyRecord[]) if (touched.has(r.id)) replaced.push([c, r]);
+        continue;
+      }
       const now = new Map<string, number>();
       for (const r of next[c]) now.set(r.id, r.rev);
-      for (const r of prev[c] as readonly AnyRecord[]) if (now.get(r.id) !== r.rev) this.remember(c, r);
+      for (const r of prev[c] as readonly AnyRecord[]) if (now.get(r.id) !== r.rev) replaced.push([c, r]);
     }
+    // Only the last REMEMBERED_VERSIONS stay remembered: an import superseding 25,000 quotes need not remember each.
+    for (const [c, r] of replaced.slice(-REMEMBERED_VERSIONS)) this.remember(c, r);
     if (prev.settings.rev !== next.settings.rev) this.remember('settings', prev.settings as unknown as AnyRecord);
     this.book = next;
   }

@@ -5,6 +5,7 @@
 import { LitElement, html } from 'lit';
 import { customElement } from 'lit/decorators.js';
 import type { Book, Supplier } from '../domain/book.ts';
+import { grouped } from '../domain/format.ts';
 import { BookController } from './book-context.ts';
 import { ImportController } from './import-controller.ts';
 import type { ImportSource } from './import-controller.ts';
@@ -86,6 +87,9 @@ export class RbImportPage extends LitElement {
           @rb-mapping-confirm=${() => w.confirmMapping()}
         ></rb-import-mapping>
       </section>
+      ${plan
+        ? ''
+        : html`<p class="muted" role="status" data-testid="import-planning">Matching the file’s ${grouped(a.offers.length)} offers to the Book’s parts…</p>`}
       <rb-import-review
         .analysis=${a}
         .plan=${plan}

@@ -1,7 +1,8 @@
 // The worker's job run in Node (the same code the browser worker runs), the page-side client driven through an
 // in-process stand-in for Worker, and the benchmark's sample price file importing cleanly.
 import { describe, expect, it } from 'vitest';
-import { handlePriceWorkerRequest } from '../../src/io/price-worker.ts';
+import { OFFERS_PER_PART, handlePriceWorkerRequest } from '../../src/io/price-worker.ts';
+import { analysePriceFile } from '../../src/io/price-validate.ts';
 import type { PriceWorkerMessage, PriceWorkerRequest } from '../../src/io/price-worker.ts';
 import { runPriceImportInWorker } from '../../src/io/price-worker-client.ts';
 import type { PriceWorkerLike } from '../../src/io/price-worker-client.ts';
@@ -40,9 +41,22 @@ describe('price reader worker', () => {
     expect(progress.length).toBeGreaterThanOrEqual(2);
     expect(progress.map((m) => m.type === 'progress' && m.rows)).toEqual([2000, 4000, 5000]);
     for (const m of progress) expect(m.type === 'progress' && m.rowsPerSecond).toBeGreaterThanOrEqual(0);
+    // A large file's offers go ahead in parts of OFFERS_PER_PART, so no one copy holds the page; the result follows.
+    const parts = messages.filter((m) => m.type === 'offers');
+    expect(parts.map((m) => m.type === 'offers' && m.offers.length)).toEqual([OFFERS_PER_PART, 5000 - OFFERS_PER_PART]);
     const last = messages.at(-1)!;
-    expect(last.type).toBe('result');
-    expect(last.type === 'result' && last.analysis.offers).toHaveLength(5000);
+    expect(last.type === 'result' && last.parted).toBe(true);
+    expect(last.type === 'result' && last.analysis.offers).toEqual([]);
+    const whole = await analysePriceFile(manyRows(5000), BASE_OPTIONS);
+    expect(parts.flatMap((m) => (m.type === 'offers' ? m.offers : []))).toEqual(whole.offers);
+  });
+
+  it('sends a small file’s analysis whole', async () => {
+    const messages: PriceWorkerMessage[] = [];
+    await handlePriceWorkerRequest({ type: 'analyse', bytes: manyRows(OFFERS_PER_PART), options: BASE_OPTIONS }, (m) => messages.push(m));
+    expect(messages.some((m) => m.type === 'offers')).toBe(false);
+    const last = messages.at(-1)!;
+    expect(last.type === 'result' && last.analysis.offers).toHaveLength(OFFERS_PER_PART);
   });
 
   it('answers a malformed request with an error message, not a crash', async () => {
@@ -55,7 +69,8 @@ describe('price reader worker', () => {
     const seen: number[] = [];
     const worker = new InProcessWorker();
     const analysis = await runPriceImportInWorker(manyRows(4500), BASE_OPTIONS, (p) => seen.push(p.rows), undefined, () => worker);
-    expect(analysis.offers).toHaveLength(4500);
+    // The offers came in parts and are put back together: the very analysis read in one piece.
+    expect(analysis).toEqual(await analysePriceFile(manyRows(4500), BASE_OPTIONS));
     expect(seen).toEqual([2000, 4000, 4500]);
     expect(worker.terminated).toBe(true);
   });

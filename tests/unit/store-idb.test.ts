@@ -271,6 +271,22 @@ describe('quotes kept in buckets', () => {
     expect(await store.load()).toEqual(after);
   });
 
+  it('refuses a large change whose one stale quote sits in a bucket written after others, and writes none of it', async () => {
+    const { store } = await fresh();
+    await store.replaceAll(sampleBook());
+    await store.apply({ put: { quotes: [quote('q_old')] } });
+    const before = await store.load();
+    const old = before.quotes.find((q) => q.id === 'q_old')!;
+    // Each bucket is read, checked and written on its own: buckets before the stale one are already written when the
+    // conflict shows, and the transaction's abort must take them back.
+    const added = Array.from({ length: 3000 }, (_, i) => quote(`q_new_${i}`));
+    const stale = { ...old, rev: old.rev - 1, moq: 5 };
+    const refused = await store.apply({ put: { quotes: [...added, stale], parts: [newPart('part_y', 'KT-Y')] } }).catch((e: unknown) => e);
+    expect(refused).toBeInstanceOf(RevisionConflict);
+    expect((refused as RevisionConflict).recordId).toBe('q_old');
+    expect(await store.load()).toEqual(before);
+  });
+
   it('finds a quote\'s bucket from its id alone, the same every time', () => {
     expect(quoteBucketKey('q_a')).toBe(quoteBucketKey('q_a'));
     const keys = new Set(Array.from({ length: 2000 }, (_, i) => quoteBucketKey(`quote_${i}`)));
