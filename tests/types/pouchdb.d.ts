@@ -1,0 +1,74 @@
+// The parts of PouchDB's client that Rungbook calls, typed here: the community type package declares a global
+// Buffer of its own, which breaks Node's. Kept to what is used; add a member when code needs it.
+declare module 'pouchdb-core' {
+  export interface Doc {
+    _id: string;
+    _rev?: string;
+    _conflicts?: string[];
+    [field: string]: unknown;
+  }
+  export interface ReplicationResult {
+    ok: boolean;
+    docs_read: number;
+    docs_written: number;
+    doc_write_failures: number;
+    last_seq: number | string;
+    errors: unknown[];
+  }
+  export interface ReplicateOptions {
+    live?: boolean;
+    retry?: boolean;
+    since?: number | string;
+    batch_size?: number;
+    checkpoint?: 'source' | 'target' | false;
+  }
+  /** A running replication: awaited for its result, or listened to while live. */
+  export interface Replication extends PromiseLike<ReplicationResult> {
+    on(event: string, listener: (info: unknown) => void): this;
+    cancel(): void;
+  }
+  export interface Database {
+    readonly name: string;
+    put(doc: Doc): Promise<{ ok: boolean; id: string; rev: string }>;
+    get<T extends object = Doc>(id: string, options?: { rev?: string; conflicts?: boolean }): Promise<T & Doc>;
+    bulkDocs(docs: Doc[]): Promise<unknown[]>;
+    info(): Promise<{ doc_count: number; update_seq: number | string }>;
+    destroy(): Promise<void>;
+    replicate: {
+      to(target: Database | string, options?: ReplicateOptions): Replication;
+      from(source: Database | string, options?: ReplicateOptions): Replication;
+    };
+  }
+  export interface DatabaseOptions {
+    adapter?: string;
+    auth?: { username: string; password: string };
+    skip_setup?: boolean;
+  }
+  interface PouchDBConstructor {
+    new (name: string, options?: DatabaseOptions): Database;
+    plugin(plugin: PouchDBPlugin): PouchDBConstructor;
+  }
+  export interface PouchDBPlugin {
+    readonly __pouchdbPlugin?: never;
+  }
+  const PouchDB: PouchDBConstructor;
+  export default PouchDB;
+}
+
+declare module 'pouchdb-adapter-http' {
+  /** A PouchDB plugin, handed to PouchDB.plugin(). */
+  const plugin: { readonly __pouchdbPlugin?: never };
+  export default plugin;
+}
+
+declare module 'pouchdb-adapter-memory' {
+  /** A PouchDB plugin, handed to PouchDB.plugin(). */
+  const plugin: { readonly __pouchdbPlugin?: never };
+  export default plugin;
+}
+
+declare module 'pouchdb-replication' {
+  /** A PouchDB plugin, handed to PouchDB.plugin(). */
+  const plugin: { readonly __pouchdbPlugin?: never };
+  export default plugin;
+}

@@ -1,0 +1,211 @@
+// The team server (scripts/team-server.ts) on loopback, started and stopped by this file: roles enforced by the
+// server (a reader's write refused with nothing written, an editor's write landing, an editor unable to change
+// roles), wrong passwords refused, the shared Book kept across a restart, and a backup made by copying the stopped
+// server's data folder. Replication goes through PouchDB's own client, as the app's will.
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { spawn, spawnSync } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
+import { cpSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import PouchDB from 'pouchdb-core';
+import type { Database } from 'pouchdb-core';
+import httpAdapter from 'pouchdb-adapter-http';
+import memoryAdapter from 'pouchdb-adapter-memory';
+import replication from 'pouchdb-replication';
+import { sampleBook } from '../fixtures/sample-book.ts';
+
+PouchDB.plugin(httpAdapter).plugin(memoryAdapter).plugin(replication);
+
+const ROOT = resolve(import.meta.dirname, '../..');
+const SCRIPT = join(ROOT, 'scripts/team-server.ts');
+const OWNER = { name: 'olive', password: 'owner-pass-1234' };
+const EDITOR = { name: 'edna', password: 'editor-pass-1234' };
+const READER = { name: 'rita', password: 'reader-pass-1234' };
+type Person = typeof OWNER;
+
+interface Running {
+  proc: ChildProcess;
+  url: string;
+}
+
+let dir = '';
+const running: Running[] = [];
+
+/** Starts the team server on its own free port (--port 0) and waits for the address it prints. */
+function startServer(dataDir: string, extra: string[] = []): Promise<Running> {
+  const proc = spawn(process.execPath, ['--import', 'tsx', SCRIPT, 'start', '--data', dataDir, '--port', '0', ...extra], {
+    cwd: ROOT,
+    env: { ...process.env, RUNGBOOK_TEAM_PASSWORD: OWNER.password },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  return new Promise((resolvePromise, reject) => {
+    let out = '';
+    let err = '';
+    const timer = setTimeout(() => reject(new Error(`the team server did not start within 30 s: ${out} ${err}`)), 30_000);
+    proc.stderr!.on('data', (d: Buffer) => (err += d.toString()));
+    proc.stdout!.on('data', (d: Buffer) => {
+      out += d.toString();
+      const m = /give the app this address: (http:\/\/127\.0\.0\.1:\d+\/)/.exec(out);
+      if (m) {
+        clearTimeout(timer);
+        const r = { proc, url: m[1]! };
+        running.push(r);
+        resolvePromise(r);
+      }
+    });
+    proc.once('exit', (code) => reject(new Error(`the team server stopped (${code}): ${err}`)));
+  });
+}
+
+/** Stops a server by its own pid and waits until it has exited. */
+async function stopServer(r: Running): Promise<void> {
+  if (r.proc.exitCode !== null) return;
+  const exited = new Promise((res) => r.proc.once('exit', res));
+  process.kill(r.proc.pid!, 'SIGTERM');
+  await exited;
+  running.splice(running.indexOf(r), 1);
+}
+
+function cli(args: string[], env: Record<string, string>): { status: number | null; stdout: string; stderr: string } {
+  const r = spawnSync(process.execPath, ['--import', 'tsx', SCRIPT, ...args, '--data', dir], { cwd: ROOT, env: { ...process.env, ...env }, encoding: 'utf8' });
+  return { status: r.status, stdout: r.stdout, stderr: r.stderr };
+}
+
+function auth(p: Person): Record<string, string> {
+  return { Authorization: `Basic ${Buffer.from(`${p.name}:${p.password}`).toString('base64')}`, 'Content-Type': 'application/json' };
+}
+
+async function call(url: string, p: Person, init: { method?: string; body?: unknown } = {}): Promise<{ status: number; body: Record<string, unknown> }> {
+  const res = await fetch(url, { method: init.method ?? 'GET', headers: auth(p), ...(init.body !== undefined ? { body: JSON.stringify(init.body) } : {}) });
+  return { status: res.status, body: (await res.json()) as Record<string, unknown> };
+}
+
+function remote(server: Running, p: Person): Database {
+  return new PouchDB(`${server.url}book`, { auth: { username: p.name, password: p.password } });
+}
+
+let localCount = 0;
+function localCopy(): Database {
+  return new PouchDB(`team-test-${++localCount}`, { adapter: 'memory' });
+}
+
+const quote = sampleBook().quotes[0]!;
+const QUOTE_ID = `quotes/${quote.id}`;
+
+let server: Running;
+
+beforeAll(async () => {
+  dir = mkdtempSync(join(tmpdir(), 'rungbook-team-'));
+  server = await startServer(dir, ['--owner', OWNER.name]);
+  const added = [
+    cli(['add-user', EDITOR.name, '--role', 'editor', '--as', OWNER.name], { RUNGBOOK_TEAM_OWNER_PASSWORD: OWNER.password, RUNGBOOK_TEAM_PASSWORD: EDITOR.password }),
+    cli(['add-user', READER.name, '--role', 'reader', '--as', OWNER.name], { RUNGBOOK_TEAM_OWNER_PASSWORD: OWNER.password, RUNGBOOK_TEAM_PASSWORD: READER.password }),
+  ];
+  for (const r of added) expect(r.status, r.stderr).toBe(0);
+  // The owner opens the shared Book (creating a database is an owner's step).
+  expect((await call(`${server.url}book`, OWNER, { method: 'PUT' })).status).toBe(201);
+}, 90_000);
+
+afterAll(async () => {
+  for (const r of [...running]) await stopServer(r);
+  rmSync(dir, { recursive: true, force: true });
+});
+
+describe('team server', () => {
+  it('keeps passwords only as scrypt hashes', () => {
+    const text = readFileSync(join(dir, 'users.json'), 'utf8');
+    for (const p of [OWNER, EDITOR, READER]) expect(text).not.toContain(p.password);
+    const users = JSON.parse(text).users as Record<string, { role: string; hash: string; salt: string }>;
+    expect(Object.fromEntries(Object.entries(users).map(([n, u]) => [n, u.role]))).toEqual({ olive: 'owner', edna: 'editor', rita: 'reader' });
+    expect(Buffer.from(users['olive']!.hash, 'base64')).toHaveLength(64);
+  });
+
+  it('refuses a wrong password and an unknown user, and tells who it takes a member for', async () => {
+    expect((await call(`${server.url}book`, { ...EDITOR, password: 'not-the-password' })).status).toBe(401);
+    const unknown = await call(`${server.url}book`, { name: 'mallory', password: 'whatever-1234' });
+    expect(unknown.status).toBe(401);
+    expect(unknown.body['reason']).toMatch(/not recognised/);
+    expect((await call(`${server.url}_team/me`, READER)).body).toEqual({ name: 'rita', role: 'reader' });
+  });
+
+  it("lands an editor's write, pushed by replication", async () => {
+    const local = localCopy();
+    await local.put({ _id: QUOTE_ID, ...quote });
+    const result = await local.replicate.to(remote(server, EDITOR));
+    expect(result.docs_written).toBe(1);
+    const stored = await call(`${server.url}book/${encodeURIComponent(QUOTE_ID)}`, OWNER);
+    expect(stored.status).toBe(200);
+    expect(stored.body['moq']).toBe(quote.moq);
+  });
+
+  it("refuses a reader's write with a clear message and writes nothing", async () => {
+    const before = await call(`${server.url}book/${encodeURIComponent(QUOTE_ID)}`, OWNER);
+    const info = await call(`${server.url}book`, OWNER);
+    // A reader may pull the Book (its replication checkpoint on the server is refused, which PouchDB accepts)…
+    const local = localCopy();
+    await local.replicate.from(remote(server, READER));
+    const copy = await local.get<Record<string, unknown>>(QUOTE_ID);
+    expect(copy['moq']).toBe(quote.moq);
+    // …but a change it makes and pushes is refused, as is a direct write, a new record and a delete.
+    await local.put({ ...copy, moq: 9999 });
+    await expect(local.replicate.to(remote(server, READER))).rejects.toMatchObject({ status: 403 });
+    const put = await call(`${server.url}book/${encodeURIComponent(QUOTE_ID)}`, READER, { method: 'PUT', body: { ...before.body, moq: 9999 } });
+    expect(put.status).toBe(403);
+    expect(put.body['reason']).toBe('rita is a reader of this team: readers may read and export the Book but not change it. Nothing was written.');
+    expect((await call(`${server.url}book`, READER, { method: 'POST', body: { _id: 'quotes/new', moq: 1 } })).status).toBe(403);
+    expect((await call(`${server.url}book/_bulk_docs`, READER, { method: 'POST', body: { docs: [{ _id: 'quotes/new2' }] } })).status).toBe(403);
+    expect((await call(`${server.url}book/${encodeURIComponent(QUOTE_ID)}?rev=${String(before.body['_rev'])}`, READER, { method: 'DELETE' })).status).toBe(403);
+    // Nothing changed on the server: the same revision, the same value, the same count and update sequence.
+    const after = await call(`${server.url}book/${encodeURIComponent(QUOTE_ID)}`, OWNER);
+    expect(after.body).toEqual(before.body);
+    const infoAfter = await call(`${server.url}book`, OWNER);
+    expect([infoAfter.body['doc_count'], infoAfter.body['update_seq']]).toEqual([info.body['doc_count'], info.body['update_seq']]);
+  });
+
+  it('lets only an owner change roles, through the server and through the command', async () => {
+    const byEditor = await call(`${server.url}_team/users/rita`, EDITOR, { method: 'PUT', body: { role: 'owner' } });
+    expect(byEditor.status).toBe(403);
+    expect(byEditor.body['reason']).toMatch(/only an owner/);
+    expect((await call(`${server.url}_team/users`, EDITOR)).status).toBe(403);
+    const cliByEditor = cli(['set-role', READER.name, 'owner', '--as', EDITOR.name], { RUNGBOOK_TEAM_OWNER_PASSWORD: EDITOR.password });
+    expect(cliByEditor.status).toBe(1);
+    expect(cliByEditor.stderr).toMatch(/edna is an editor: only an owner may add people or change roles; nothing was changed/);
+    expect((await call(`${server.url}_team/me`, READER)).body['role']).toBe('reader');
+    // An owner may, and the running server follows the change at once.
+    const byOwner = await call(`${server.url}_team/users/rita`, OWNER, { method: 'PUT', body: { role: 'editor' } });
+    expect(byOwner.status).toBe(200);
+    expect((await call(`${server.url}_team/me`, READER)).body['role']).toBe('editor');
+    expect(cli(['set-role', READER.name, 'reader', '--as', OWNER.name], { RUNGBOOK_TEAM_OWNER_PASSWORD: OWNER.password }).status).toBe(0);
+    expect((await call(`${server.url}_team/me`, READER)).body['role']).toBe('reader');
+    expect(cli(['list-users'], {}).stdout).toBe('olive\towner\nedna\teditor\nrita\treader\n');
+  });
+
+  it('refuses what the team server does not offer and a team without an owner', async () => {
+    expect((await call(`${server.url}_config`, OWNER)).status).toBe(404);
+    expect((await call(`${server.url}_replicate`, OWNER, { method: 'POST', body: {} })).status).toBe(404);
+    expect((await call(`${server.url}book/_design/x`, EDITOR, { method: 'PUT', body: {} })).status).toBe(403);
+    const demote = await call(`${server.url}_team/users/olive`, OWNER, { method: 'PUT', body: { role: 'editor' } });
+    expect(demote.status).toBe(400);
+    expect(demote.body['reason']).toMatch(/only owner/);
+  });
+
+  it('keeps the shared Book across a restart, and a copy of the stopped data folder is a working backup', async () => {
+    await stopServer(server);
+    const backup = `${dir}-backup`;
+    cpSync(dir, backup, { recursive: true });
+    try {
+      server = await startServer(dir);
+      const again = await call(`${server.url}book/${encodeURIComponent(QUOTE_ID)}`, EDITOR);
+      expect(again.status).toBe(200);
+      expect(again.body['moq']).toBe(quote.moq);
+      const restored = await startServer(backup);
+      const local = localCopy();
+      await local.replicate.from(remote(restored, READER));
+      expect((await local.get<Record<string, unknown>>(QUOTE_ID))['moq']).toBe(quote.moq);
+      await stopServer(restored);
+    } finally {
+      rmSync(backup, { recursive: true, force: true });
+    }
+  }, 90_000);
+});
