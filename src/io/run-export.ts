@@ -8,6 +8,12 @@
 // material row is the sum of the landed base-currency column (goods + freight + duty + charges, domain/landed.ts), the leftover value row the sum of its column, the
 // unit cost the sum of the four per-unit rows, and the run total the run material plus the run's labour, test and
 // overhead row: every total equals the sum of the rows it is made of, to the cent.
+//
+// Layout (both files): three blocks, one empty record between them, every record as wide as the widest (RFC 4180 §2):
+// a head naming the file, the run, its variant and quantity, the freeze date and the rates (label, value); the table
+// (a header row, then one row per line); and the totals (label, value). A spreadsheet shows each block under the last
+// with a blank row between; a program takes the table as the records between the first two empty ones, and no total
+// is ever read as a line.
 import type { Book, Part, Run } from '../domain/book.ts';
 import type { CostedBom, Result } from '../domain/costing.ts';
 import { toCents, toTenThousandths } from '../domain/costing.ts';
@@ -18,7 +24,7 @@ import type { PurchaseList } from '../domain/purchase.ts';
 import { formatValue } from '../domain/units.ts';
 import { CostingWorkbook, resolutionFromFamily } from '../engine/costing.ts';
 import { resolveFamily } from '../engine/family.ts';
-import { DEFAULT_EXPORT_OPTIONS, NUMBER_KINDS, exportOptionsProblem, exportText } from './csv-write.ts';
+import { DEFAULT_EXPORT_OPTIONS, NUMBER_KINDS, blockRows, exportOptionsProblem, exportText } from './csv-write.ts';
 import type { ExportCell, ExportOptions, NumberCell } from './csv-write.ts';
 
 // The export pages and commands take the choices and the number writing from here with the rows they shape.
@@ -53,6 +59,8 @@ export interface RunCosting {
   parts: readonly Part[];
   /** Set when the costing is a frozen run's snapshot. */
   frozen?: { at: string; snapshot: FrozenSnapshot };
+  /** Units of the base currency for one unit of each currency, as costed (the snapshot's when frozen). */
+  rates?: Readonly<Record<string, number>>;
 }
 
 /**
@@ -76,7 +84,7 @@ export function costVariant(
   try {
     const bom = wb.costedBom(variant.id, quantity, { dateWanted: options.dateWanted, onHand: options.onHand });
     if (!bom.ok) return bom;
-    return { ok: true, value: { bom: bom.value, marginPct: book.settings.marginPct, parts: book.parts } };
+    return { ok: true, value: { bom: bom.value, marginPct: book.settings.marginPct, parts: book.parts, rates: book.settings.rates } };
   } finally {
     wb.close();
   }
@@ -90,7 +98,7 @@ export function frozenCosting(run: Run): Result<RunCosting> {
   const snapshot = s.value;
   return {
     ok: true,
-    value: { bom: snapshot.bom, marginPct: snapshot.settings.marginPct, parts: snapshot.parts, frozen: { at: run.frozen.at, snapshot } },
+    value: { bom: snapshot.bom, marginPct: snapshot.settings.marginPct, parts: snapshot.parts, frozen: { at: run.frozen.at, snapshot }, rates: snapshot.settings.rates },
   };
 }
 
@@ -103,6 +111,40 @@ export function runCosting(book: Book, run: Run, options: { fresh?: boolean; dat
 /** What decides a run's approved alternates: its date wanted, and the stock on hand. */
 export function runSupply(book: Book, run: Run): { dateWanted: string; onHand: Map<string, number> } {
   return { dateWanted: run.dateWanted, onHand: onHandByPart(book.stockMoves) };
+}
+
+// ---------------------------------------------------------------------------------------------------------------
+// Head of a run file
+
+/** What a run file says of itself beyond its costing: the name of the Run of the Book it was made for, if any. */
+export interface RunFileAbout {
+  run?: string | undefined;
+}
+
+/** Finds the Run of the Book a variant and quantity stand for (the first with both), for its name in the file's head. */
+export function runAbout(book: Book, variantId: string, quantity: number): RunFileAbout {
+  return { run: book.runs.find((r) => r.variantId === variantId && r.quantity === quantity)?.name };
+}
+
+/** The head block of a run file: what it is, the run, variant and quantity, the freeze, the quotes' date and the rates. */
+export function runFileHead(what: string, c: RunCosting, about: RunFileAbout): ExportCell[][] {
+  const bom = c.bom;
+  const rows: ExportCell[][] = [
+    ['file', what],
+    ['run', about.run ?? ''],
+    ['variant', bom.variant],
+    ['quantity', qty(bom.run)],
+    ['frozen', c.frozen ? c.frozen.at : 'no: costed with the quotes of the day'],
+    ['quotes valid on', bom.date],
+    ['base currency', bom.currency],
+  ];
+  // The rates of the currencies the lines are priced in.
+  const used = [...new Set(bom.lines.map((l) => l.currency))].filter((cur) => cur !== bom.currency).sort();
+  for (const cur of used) {
+    const rate = c.rates?.[cur];
+    rows.push([`rate ${cur} (${bom.currency} for one ${cur})`, rate === undefined ? '' : price(rate)]);
+  }
+  return rows;
 }
 
 // ---------------------------------------------------------------------------------------------------------------
@@ -145,7 +187,7 @@ export function costedBomHeader(currency: string): string[] {
   ];
 }
 
-/** Index of the landed base-currency amount column (goods + freight + duty + charges), where the totals stand. */
+/** Index of the landed base-currency amount column (goods + freight + duty + charges): its sum is the run material total. */
 export const COSTED_TOTAL_COLUMN = 19;
 export const COSTED_LEFTOVER_COLUMN = 21;
 
@@ -171,8 +213,8 @@ export function costedTotalLabels(currency: string, marginPct: number) {
   } as const;
 }
 
-/** The costed BOM as rows: the header, one row per build line, lines not priced, then the totals. */
-export function costedBomRows(c: RunCosting): ExportCell[][] {
+/** The costed BOM as rows: the head block, the table (header, one row per build line, lines not priced), the totals. */
+export function costedBomRows(c: RunCosting, about: RunFileAbout = {}): ExportCell[][] {
   const { bom } = c;
   const head = costedBomHeader(bom.currency);
   const parts = new Map(c.parts.map((p) => [p.id, p] as const));
@@ -217,11 +259,9 @@ export function costedBomRows(c: RunCosting): ExportCell[][] {
   const materialCents = bom.lines.reduce((s, l) => s + landedLineCents(l), 0);
   const leftoverCents = bom.lines.reduce((s, l) => s + toCents(l.leftoverValue), 0);
   const conversionCents = toCents(bom.runTotal) - toCents(bom.materialRun);
-  const total = (label: string, value: NumberCell, column = COSTED_TOTAL_COLUMN): void => {
-    const row: ExportCell[] = new Array<ExportCell>(head.length).fill(undefined);
-    row[0] = label;
-    row[column] = value;
-    rows.push(row);
+  const totals: ExportCell[][] = [];
+  const total = (label: string, value: NumberCell): void => {
+    totals.push([label, value]);
   };
   total(labels.material, unit(bom.material));
   total(labels.labour, unit(bom.labour));
@@ -229,19 +269,19 @@ export function costedBomRows(c: RunCosting): ExportCell[][] {
   total(labels.overhead, unit(bom.overhead));
   total(labels.unitCost, unit((toTenThousandths(bom.material) + toTenThousandths(bom.labour) + toTenThousandths(bom.test) + toTenThousandths(bom.overhead)) / 10_000));
   total(labels.price, unit(bom.price));
-  // Written from the lines' own cents, so a reader summing the column gets the same figure.
+  // Written from the lines' own cents, so a reader summing the landed column gets the same figure.
   total(labels.materialRun, money(materialCents / 100));
   total(labels.conversionRun, money(conversionCents / 100));
   total(labels.runTotal, money((materialCents + conversionCents) / 100));
-  total(labels.leftoverValue, money(leftoverCents / 100), COSTED_LEFTOVER_COLUMN);
-  return rows;
+  total(labels.leftoverValue, money(leftoverCents / 100));
+  return blockRows([runFileHead('costed BOM', c, about), rows, totals]);
 }
 
 /** The costed BOM CSV text (byte-order mark included when chosen). Clashing choices give a message. */
-export function costedBomCsv(c: RunCosting, o: ExportOptions = DEFAULT_EXPORT_OPTIONS): Result<string> {
+export function costedBomCsv(c: RunCosting, o: ExportOptions = DEFAULT_EXPORT_OPTIONS, about: RunFileAbout = {}): Result<string> {
   const bad = exportOptionsProblem(o);
   if (bad) return { ok: false, error: bad };
-  return { ok: true, value: exportText(costedBomRows(c), o) };
+  return { ok: true, value: exportText(costedBomRows(c, about), o) };
 }
 
 // ---------------------------------------------------------------------------------------------------------------
@@ -269,8 +309,20 @@ export function purchaseListHeader(currency: string): string[] {
   ];
 }
 
-/** The purchase list as rows: the header and one row per order line, suppliers together. */
-export function purchaseListRows(list: PurchaseList): ExportCell[][] {
+/** Labels of the purchase list's totals: each supplier's order in its currency and in the base, and all suppliers. */
+export function purchaseTotalLabels(base: string) {
+  return {
+    order: (supplier: string, currency: string) => `total ${supplier} (${currency})`,
+    orderBase: (supplier: string) => `total ${supplier} (${base})`,
+    all: `all suppliers (${base})`,
+  } as const;
+}
+
+/**
+ * The purchase list as rows: the head block, the table (header, one row per order line, suppliers together) and the
+ * totals (each supplier's order, all suppliers), made from the run's costing and its list.
+ */
+export function purchaseListRows(c: RunCosting, list: PurchaseList, about: RunFileAbout = {}): ExportCell[][] {
   const rows: ExportCell[][] = [purchaseListHeader(list.currency)];
   for (const o of list.orders) {
     for (const p of o.lines) {
@@ -296,14 +348,23 @@ export function purchaseListRows(list: PurchaseList): ExportCell[][] {
       ]);
     }
   }
-  return rows;
+  const labels = purchaseTotalLabels(list.currency);
+  const totals: ExportCell[][] = [];
+  for (const o of list.orders) {
+    totals.push([labels.order(o.supplier, o.currency), money(o.total)]);
+    totals.push([labels.orderBase(o.supplier), money(o.totalBase)]);
+  }
+  totals.push([labels.all, money(list.totalBase)]);
+  const head = runFileHead('purchase list', c, about);
+  if (list.dateWanted !== undefined) head.push(['date wanted', list.dateWanted]);
+  return blockRows([head, rows, totals]);
 }
 
 /** The purchase list CSV text (byte-order mark included when chosen). Clashing choices give a message. */
-export function purchaseListCsv(list: PurchaseList, o: ExportOptions = DEFAULT_EXPORT_OPTIONS): Result<string> {
+export function purchaseListCsv(c: RunCosting, list: PurchaseList, o: ExportOptions = DEFAULT_EXPORT_OPTIONS, about: RunFileAbout = {}): Result<string> {
   const bad = exportOptionsProblem(o);
   if (bad) return { ok: false, error: bad };
-  return { ok: true, value: exportText(purchaseListRows(list), o) };
+  return { ok: true, value: exportText(purchaseListRows(c, list, about), o) };
 }
 
 // ---------------------------------------------------------------------------------------------------------------

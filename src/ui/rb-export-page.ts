@@ -17,9 +17,10 @@ import {
   exportOptionsProblem,
   purchaseListCsv,
   runCosting,
+  runAbout,
   runExportFileName,
 } from '../io/run-export.ts';
-import type { ExportOptions, RunCosting } from '../io/run-export.ts';
+import type { ExportOptions, RunCosting, RunFileAbout } from '../io/run-export.ts';
 import { BookController } from './book-context.ts';
 import { downloadBookFile } from './book-download.ts';
 import type { NoticeDetail } from './rb-book-menu.ts';
@@ -46,8 +47,9 @@ export function downloadRunFile(
   variantCode: string,
   what: 'costed-bom' | 'purchase-list',
   options: ExportOptions = DEFAULT_EXPORT_OPTIONS,
+  about: RunFileAbout = {},
 ): string | undefined {
-  const text = what === 'costed-bom' ? costedBomCsv(costing, options) : purchaseListCsv(purchaseList(costing.bom, { dateWanted }), options);
+  const text = what === 'costed-bom' ? costedBomCsv(costing, options, about) : purchaseListCsv(costing, purchaseList(costing.bom, { dateWanted }), options, about);
   if (!text.ok) return text.error;
   downloadFile(exportBytes(text.value), runExportFileName(variantCode, quantity, what), 'text/csv;charset=utf-8');
   return undefined;
@@ -61,6 +63,8 @@ interface Subject {
   dateWanted: string | undefined;
   variantCode: string;
   label: string;
+  /** The Run of the Book the files name in their head. */
+  about: RunFileAbout;
 }
 
 @customElement('rb-export-page')
@@ -116,7 +120,7 @@ export class RbExportPage extends LitElement {
     const source = this.source ?? this.defaultSource(book);
     const subject = source ? this.subject(book, source) : undefined;
     const clash = exportOptionsProblem(this.options);
-    const preview = subject?.costing.ok && !clash ? costedBomCsv(subject.costing.value, this.options) : undefined;
+    const preview = subject?.costing.ok && !clash ? costedBomCsv(subject.costing.value, this.options, subject.about) : undefined;
     return html`<section class="sheet" aria-labelledby="what-h">
         <h2 id="what-h">What to export</h2>
         <p class="why">A run exports as it is: a frozen run with its frozen prices. A variant and quantity are costed with today’s quotes.</p>
@@ -217,7 +221,7 @@ export class RbExportPage extends LitElement {
       const run = book.runs.find((r) => r.id === source.runId);
       if (!run) return undefined;
       const code = book.variants.find((v) => v.id === run.variantId)?.code ?? run.variantId;
-      subject = { costing: runCosting(book, run), quantity: run.quantity, dateWanted: run.dateWanted, variantCode: code, label: `run ${run.name}` };
+      subject = { costing: runCosting(book, run), quantity: run.quantity, dateWanted: run.dateWanted, variantCode: code, label: `run ${run.name}`, about: { run: run.name } };
     } else {
       const variant = book.variants.find((v) => v.id === source.variantId);
       const q = source.quantity.trim();
@@ -228,7 +232,7 @@ export class RbExportPage extends LitElement {
         Number.isSafeInteger(quantity) && quantity >= 1 && quantity <= MAX_RUN_QUANTITY
           ? costVariant(book, variant.id, quantity)
           : { ok: false, error: `quantity must be a whole number from 1 to ${MAX_RUN_QUANTITY}` };
-      subject = { costing, quantity, dateWanted: isIsoDate(wanted) ? wanted : undefined, variantCode: variant.code, label: `${variant.code} × ${q}` };
+      subject = { costing, quantity, dateWanted: isIsoDate(wanted) ? wanted : undefined, variantCode: variant.code, label: `${variant.code} × ${q}`, about: runAbout(book, variant.id, quantity) };
     }
     this.cache = { book, key, subject };
     return subject;
@@ -240,7 +244,7 @@ export class RbExportPage extends LitElement {
 
   private download(subject: Subject, what: 'costed-bom' | 'purchase-list'): void {
     if (!subject.costing.ok) return;
-    const problem = downloadRunFile(subject.costing.value, subject.quantity, subject.dateWanted, subject.variantCode, what, this.options);
+    const problem = downloadRunFile(subject.costing.value, subject.quantity, subject.dateWanted, subject.variantCode, what, this.options, subject.about);
     if (problem) this.notify({ tone: 'problem', title: 'No file was made', lines: [problem] });
   }
 

@@ -477,7 +477,7 @@ export class RbRunDetail extends LitElement {
   }
 
   private download(run: Run, variantCode: string, costing: RunCosting, what: 'costed-bom' | 'purchase-list'): void {
-    this.notifyProblem(downloadRunFile(costing, run.quantity, run.dateWanted, variantCode, what, this.csv));
+    this.notifyProblem(downloadRunFile(costing, run.quantity, run.dateWanted, variantCode, what, this.csv, { run: run.name }));
   }
 }
 

@@ -51,8 +51,11 @@ describe('runs, exports and the run sheet in the browser', () => {
 
     const plain = await downloadBytes(page, 'Download costed BOM CSV');
     expect(plain.name).toBe(`${variant.code}-${run.quantity}-costed-bom.csv`);
-    expect(plain.bytes.equals(Buffer.from(exportBytes(value(costedBomCsv(costing)))))).toBe(true);
-    const rows = Papa.parse<string[]>(plain.bytes.toString('utf8'), { newline: '\r\n', skipEmptyLines: true }).data;
+    expect(plain.bytes.equals(Buffer.from(exportBytes(value(costedBomCsv(costing, undefined, { run: run.name })))))).toBe(true);
+    // The table block: after the head (the file, the run, the freeze, the rates) and its empty record.
+    const rows = Papa.parse<string[]>(plain.bytes.toString('utf8'), { newline: '\r\n', skipEmptyLines: 'greedy' }).data.filter((r) => r.some((c) => c !== ''));
+    expect(rows[1]!.slice(0, 2)).toEqual(['run', run.name]);
+    rows.splice(0, rows.findIndex((r) => r[0] === 'designators'));
     const head = rows[0]!;
     costing.bom.lines.forEach((l, i) => {
       const r = rows[i + 1]!;
@@ -68,10 +71,10 @@ describe('runs, exports and the run sheet in the browser', () => {
     const options: ExportOptions = { delimiter: 'semicolon', decimal: 'comma', bom: true };
     const marked = await downloadBytes(page, 'Download costed BOM CSV');
     expect([...marked.bytes.subarray(0, 3)]).toEqual([0xef, 0xbb, 0xbf]);
-    expect(marked.bytes.equals(Buffer.from(exportBytes(value(costedBomCsv(costing, options)))))).toBe(true);
+    expect(marked.bytes.equals(Buffer.from(exportBytes(value(costedBomCsv(costing, options, { run: run.name })))))).toBe(true);
     const list = await downloadBytes(page, 'Download purchase list CSV');
     expect(list.name).toBe(`${variant.code}-${run.quantity}-purchase-list.csv`);
-    const expected = purchaseListCsv(purchaseList(costing.bom, { dateWanted: run.dateWanted }), options);
+    const expected = purchaseListCsv(costing, purchaseList(costing.bom, { dateWanted: run.dateWanted }), options, { run: run.name });
     expect(list.bytes.equals(Buffer.from(exportBytes(value(expected))))).toBe(true);
 
     // A decimal comma with a comma delimiter is refused beside the field and no file can be made.
@@ -85,6 +88,16 @@ describe('runs, exports and the run sheet in the browser', () => {
   it('shows the costed BOM and totals, refuses a bad run and keeps a good one, and freezes a run', async () => {
     const { page, errors } = await app.open('#/runs');
     await chooseDemoRun(page);
+    // The run's own CSV downloads take the Export page's choices, and give the export module's very bytes.
+    await page.locator('rb-run-detail summary', { hasText: 'CSV choices' }).click();
+    await page.locator('rb-run-detail #x-delimiter').selectOption('tab');
+    await page.locator('rb-run-detail #x-bom').check();
+    const tabbed: ExportOptions = { delimiter: 'tab', decimal: 'point', bom: true };
+    const runBom = await downloadBytes(page, 'Costed BOM CSV');
+    expect(runBom.bytes.equals(Buffer.from(exportBytes(value(costedBomCsv(costing, tabbed, { run: run.name })))))).toBe(true);
+    const runList = await downloadBytes(page, 'Purchase list CSV');
+    const listCsv = purchaseListCsv(costing, purchaseList(costing.bom, { dateWanted: run.dateWanted }), tabbed, { run: run.name });
+    expect(runList.bytes.equals(Buffer.from(exportBytes(value(listCsv))))).toBe(true);
     const totals = await page.locator('[data-testid="run-totals"]').textContent();
     const labels = costedTotalLabels('EUR', demo.settings.marginPct);
     expect(totals).toContain(`${labels.unitCost}${numberText({ n: costing.bom.unitCost, kind: 'unit' })}`);

@@ -3,8 +3,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import Papa from 'papaparse';
 import { main } from '../../src/cli/main.ts';
+import { csvBlocks, csvRecords } from './csv-blocks.ts';
 import { captureIo, writeBook } from './cli-helpers.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { CostingWorkbook, resolutionFromFamily } from '../../src/engine/costing.ts';
@@ -63,12 +63,13 @@ describe('rungbook cost', () => {
     const io = captureIo();
     expect(await main(['cost', demoFile, '--variant', 'FR3-40-CD', '--run', '500', '--csv'], io)).toBe(0);
     expect(io.stdout).toContain('\r\n');
-    const parsed = Papa.parse<string[]>(io.stdout.trimEnd(), { newline: '\r\n' });
-    expect(parsed.errors).toEqual([]);
-    const rows = parsed.data;
-    expect(rows[0]!.slice(0, 5)).toEqual(['designators', 'mpn', 'description', 'need', 'buy']);
-    expect(rows.every((r) => r.length === rows[0]!.length)).toBe(true);
-    expect(rows.find((r) => r[0] === 'unit cost (EUR)')).toBeDefined();
+    const records = csvRecords(io.stdout);
+    expect(records.every((r) => r.length === records[0]!.length)).toBe(true);
+    // The head, the table and the totals, an empty record between them.
+    const [head, rows, totals] = csvBlocks(io.stdout);
+    expect(head![0]!.slice(0, 2)).toEqual(['file', 'costed BOM']);
+    expect(rows![0]!.slice(0, 5)).toEqual(['designators', 'mpn', 'description', 'need', 'buy']);
+    expect(totals!.find((r) => r[0] === 'unit cost (EUR)')).toBeDefined();
     expect(io.stdout).not.toMatch(/Caution/);
     expect(io.stderr).toMatch(/Caution/);
   });
@@ -126,7 +127,7 @@ describe('rungbook buy', () => {
   it('groups the order by supplier with packs × pack = order quantity and supplier totals equal to their lines', async () => {
     const io = captureIo();
     expect(await main(['buy', demoFile, '--variant', 'FR3-40-CD', '--run', '500', '--wanted', '2026-12-01', '--csv'], io)).toBe(0);
-    const rows = Papa.parse<string[]>(io.stdout.trimEnd(), { newline: '\r\n', header: false }).data;
+    const rows = csvBlocks(io.stdout)[1]!;
     const head = rows[0]!;
     const at = (name: string): number => head.indexOf(name);
     const body = rows.slice(1);

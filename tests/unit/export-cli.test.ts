@@ -37,12 +37,12 @@ describe('CLI and app export the same bytes', () => {
     for (const [flags, options] of CHOICES) {
       const cost = captureIo();
       expect(await main(['cost', file, '--variant', code, '--run', String(run.quantity), '--csv', ...flags], cost)).toBe(0);
-      const app = exportBytes(value(costedBomCsv(costing, options)));
+      const app = exportBytes(value(costedBomCsv(costing, options, { run: run.name })));
       expect(Buffer.from(exportBytes(cost.stdout)).equals(Buffer.from(app)), `cost ${flags.join(' ')}`).toBe(true);
 
       const buy = captureIo();
       expect(await main(['buy', file, '--variant', code, '--run', String(run.quantity), '--csv', ...flags], buy)).toBe(0);
-      const list = exportBytes(value(purchaseListCsv(purchaseList(costing.bom, { dateWanted: run.dateWanted }), options)));
+      const list = exportBytes(value(purchaseListCsv(costing, purchaseList(costing.bom, { dateWanted: run.dateWanted }), options, { run: run.name })));
       expect(Buffer.from(exportBytes(buy.stdout)).equals(Buffer.from(list)), `buy ${flags.join(' ')}`).toBe(true);
     }
   });
@@ -52,7 +52,7 @@ describe('CLI and app export the same bytes', () => {
     const run = book.runs[0]!;
     const code = book.variants.find((v) => v.id === run.variantId)!.code;
     const frozen = value(freezeRun(run, value(runCosting(book, run)).bom, book, new Date('2026-09-01T10:00:00Z')));
-    const frozenCsv = value(costedBomCsv(value(runCosting({ ...book, runs: [frozen] }, frozen))));
+    const frozenCsv = value(costedBomCsv(value(runCosting({ ...book, runs: [frozen] }, frozen)), undefined, { run: frozen.name }));
     // Every quote doubles in price after the freeze.
     const later: Book = {
       ...book,
@@ -64,12 +64,12 @@ describe('CLI and app export the same bytes', () => {
     expect(await main(['cost', file, '--variant', code, '--run', String(run.quantity), '--csv'], io)).toBe(0);
     expect(io.stdout).toBe(frozenCsv);
     expect(io.stderr).toMatch(/is frozen \(2026-09-01T10:00:00.000Z\)/);
-    expect(io.stdout).toBe(value(costedBomCsv(value(runCosting(later, frozen)))));
+    expect(io.stdout).toBe(value(costedBomCsv(value(runCosting(later, frozen)), undefined, { run: frozen.name })));
 
     const fresh = captureIo();
     expect(await main(['cost', file, '--variant', code, '--run', String(run.quantity), '--csv', '--fresh'], fresh)).toBe(0);
     expect(fresh.stdout).not.toBe(frozenCsv);
-    expect(fresh.stdout).toBe(value(costedBomCsv(value(runCosting(later, frozen, { fresh: true })))));
+    expect(fresh.stdout).toBe(value(costedBomCsv(value(runCosting(later, frozen, { fresh: true })), undefined, { run: frozen.name })));
   });
 
   it('refuses CSV choices without --csv, clashing choices and unknown words, printing nothing', async () => {

@@ -5,6 +5,7 @@ import Papa from 'papaparse';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import type { Book, Run } from '../../src/domain/book.ts';
 import { toCents, toTenThousandths } from '../../src/domain/costing.ts';
+import { freezeRun } from '../../src/domain/freeze.ts';
 import { purchaseList } from '../../src/domain/purchase.ts';
 import {
   COSTED_LEFTOVER_COLUMN,
@@ -22,12 +23,11 @@ import {
 } from '../../src/io/run-export.ts';
 import type { ExportOptions, RunCosting } from '../../src/io/run-export.ts';
 import { value } from './costing-fixtures.ts';
+import { csvBlocks, csvRecords, labelled } from './csv-blocks.ts';
 
+/** The table block of a run file: its header row, then one row per line. */
 function parse(text: string, delimiter = ','): string[][] {
-  const body = text.startsWith('\uFEFF') ? text.slice(1) : text;
-  const r = Papa.parse<string[]>(body, { delimiter, newline: '\r\n', skipEmptyLines: true });
-  expect(r.errors).toEqual([]);
-  return r.data;
+  return csvBlocks(text, delimiter)[1]!;
 }
 
 /** A CSV amount back to integer cents / quantity, from point or comma decimals. */
@@ -79,25 +79,30 @@ describe('costed BOM CSV', () => {
     }
   });
 
-  it('ends with totals equal to the costing and to the sum of the exported rows, to the cent', () => {
-    const rows = parse(value(costedBomCsv(costing)));
+  it('ends with a totals block of its own, equal to the costing and to the sum of the exported rows, to the cent', () => {
+    const text = value(costedBomCsv(costing));
+    const rows = parse(text);
+    const totals = csvBlocks(text)[2]!;
     const labels = costedTotalLabels('EUR', book.settings.marginPct);
-    const total = (label: string): string[] => {
-      const r = rows.find((x) => x[0] === label);
+    // The totals are label and value; no total sits among the lines.
+    const total = (label: string): string => {
+      const r = totals.find((x) => x[0] === label);
       if (!r) throw new Error(`no row ${label}`);
-      return r;
+      return r[1]!;
     };
+    for (const label of Object.values(labels)) expect(rows.some((r) => r[0] === label)).toBe(false);
     const bom = costing.bom;
+    expect(rows.length).toBe(1 + bom.lines.length + bom.problems.length);
     const body = rows.slice(1, 1 + bom.lines.length);
     const sumCents = (col: number): number => body.reduce((s, r) => s + cents(r[col]!), 0);
-    expect(cents(total(labels.materialRun)[COSTED_TOTAL_COLUMN]!)).toBe(toCents(bom.materialRun));
-    expect(cents(total(labels.materialRun)[COSTED_TOTAL_COLUMN]!)).toBe(sumCents(COSTED_TOTAL_COLUMN));
-    expect(cents(total(labels.leftoverValue)[COSTED_LEFTOVER_COLUMN]!)).toBe(sumCents(COSTED_LEFTOVER_COLUMN));
-    expect(cents(total(labels.runTotal)[COSTED_TOTAL_COLUMN]!)).toBe(toCents(bom.runTotal));
-    expect(cents(total(labels.runTotal)[COSTED_TOTAL_COLUMN]!)).toBe(
-      cents(total(labels.materialRun)[COSTED_TOTAL_COLUMN]!) + cents(total(labels.conversionRun)[COSTED_TOTAL_COLUMN]!),
+    expect(cents(total(labels.materialRun))).toBe(toCents(bom.materialRun));
+    expect(cents(total(labels.materialRun))).toBe(sumCents(COSTED_TOTAL_COLUMN));
+    expect(cents(total(labels.leftoverValue))).toBe(sumCents(COSTED_LEFTOVER_COLUMN));
+    expect(cents(total(labels.runTotal))).toBe(toCents(bom.runTotal));
+    expect(cents(total(labels.runTotal))).toBe(
+      cents(total(labels.materialRun)) + cents(total(labels.conversionRun)),
     );
-    const tt = (label: string): number => Math.round(num(total(label)[COSTED_TOTAL_COLUMN]!) * 10_000);
+    const tt = (label: string): number => Math.round(num(total(label)) * 10_000);
     expect(tt(labels.unitCost)).toBe(toTenThousandths(bom.unitCost));
     expect(tt(labels.unitCost)).toBe(tt(labels.material) + tt(labels.labour) + tt(labels.test) + tt(labels.overhead));
     expect(tt(labels.price)).toBe(toTenThousandths(bom.price));
@@ -125,7 +130,7 @@ describe('costed BOM CSV', () => {
     const plain = exportBytes(value(costedBomCsv(costing)));
     const marked = exportBytes(value(costedBomCsv(costing, { delimiter: 'comma', decimal: 'point', bom: true })));
     expect([...marked.slice(0, 3)]).toEqual([0xef, 0xbb, 0xbf]);
-    expect(plain[0]).toBe('d'.charCodeAt(0));
+    expect(plain[0]).toBe('f'.charCodeAt(0));
     expect(marked.length).toBe(plain.length + 3);
     expect(Buffer.from(marked.slice(3)).equals(Buffer.from(plain))).toBe(true);
   });
@@ -138,6 +143,72 @@ describe('costed BOM CSV', () => {
     expect(parseExportOptions({ delimiter: 'pipe' })).toMatchObject({ ok: false, error: expect.stringMatching(/delimiter must be one of comma, semicolon, tab/) });
     expect(parseExportOptions({ decimal: 'dot' })).toMatchObject({ ok: false, error: expect.stringMatching(/decimal style must be one of point, comma/) });
     expect(parseExportOptions({ delimiter: 'Semicolon', decimal: 'comma', bom: true })).toEqual({ ok: true, value: { delimiter: 'semicolon', decimal: 'comma', bom: true } });
+  });
+});
+
+describe('the head and the blocks of a run file', () => {
+  it('names the file, the run, its variant and quantity, the freeze, the quotes’ date and the rates used, above the table', () => {
+    const text = value(costedBomCsv(costing, undefined, { run: run.name }));
+    const [head, table, totals] = csvBlocks(text);
+    const h = labelled(head!);
+    expect(h.get('file')).toBe('costed BOM');
+    expect(h.get('run')).toBe(run.name);
+    expect(h.get('variant')).toBe(costing.bom.variant);
+    expect(Number(h.get('quantity'))).toBe(run.quantity);
+    expect(h.get('frozen')).toMatch(/^no/);
+    expect(h.get('quotes valid on')).toBe(costing.bom.date);
+    expect(h.get('base currency')).toBe('EUR');
+    // The demo prices lines in USD and GBP: their rates, as the Book holds them.
+    for (const cur of ['GBP', 'USD']) expect(Number(h.get(`rate ${cur} (EUR for one ${cur})`))).toBe(book.settings.rates[cur]);
+    expect(table![0]).toEqual(costedBomHeader('EUR'));
+    expect(totals!.length).toBeGreaterThan(5);
+  });
+
+  it('gives a frozen run’s freeze time and its frozen rates, not today’s', () => {
+    const frozenRun = { ...run, frozen: undefined };
+    const b2: Book = { ...book, settings: { ...book.settings, rates: { ...book.settings.rates, USD: 0.5 } } };
+    const snap = value(runCosting(book, frozenRun));
+    const frozen = value(freezeRun(frozenRun, snap.bom, book, new Date('2026-09-01T10:00:00Z')));
+    const c = value(runCosting(b2, frozen));
+    const h = labelled(csvBlocks(value(costedBomCsv(c, undefined, { run: frozen.name })))[0]!);
+    expect(h.get('frozen')).toBe(frozen.frozen!.at);
+    expect(Number(h.get('rate USD (EUR for one USD)'))).toBe(book.settings.rates['USD']);
+  });
+
+  it('keeps RFC 4180 in both files: every record as wide as the others, one empty record between blocks, CRLF after each', () => {
+    for (const o of [
+      { delimiter: 'comma', decimal: 'point', bom: false },
+      { delimiter: 'semicolon', decimal: 'comma', bom: true },
+    ] as ExportOptions[]) {
+      const sep = o.delimiter === 'comma' ? ',' : ';';
+      const files = [value(costedBomCsv(costing, o)), value(purchaseListCsv(costing, purchaseList(costing.bom, { dateWanted: run.dateWanted }), o))];
+      for (const text of files) {
+        expect(text.endsWith('\r\n')).toBe(true);
+        expect(text.replace(/\r\n/g, '').includes('\n')).toBe(false);
+        const records = csvRecords(text, sep);
+        for (const r of records) expect(r.length).toBe(records[0]!.length);
+        expect(records.filter((r) => r.every((c) => c === '')).length).toBe(2);
+        expect(csvBlocks(text, sep)).toHaveLength(3);
+      }
+    }
+  });
+
+  it('ends the purchase list with each supplier’s totals and all suppliers’, equal to the sums of its lines', () => {
+    const list = purchaseList(costing.bom, { dateWanted: run.dateWanted });
+    const [head, table, totals] = csvBlocks(value(purchaseListCsv(costing, list, undefined, { run: run.name })));
+    expect(labelled(head!).get('date wanted')).toBe(run.dateWanted);
+    const at = table![0]!.indexOf('line_price_EUR');
+    const t = labelled(totals!);
+    let all = 0;
+    for (const o of list.orders) {
+      const mine = table!.slice(1).filter((r) => r[0] === o.supplier && r[table![0]!.indexOf('currency')] === o.currency);
+      const base = mine.reduce((s, r) => s + cents(r[at]!), 0);
+      const own = mine.reduce((s, r) => s + cents(r[table![0]!.indexOf('line_price')]!), 0);
+      expect(cents(t.get(`total ${o.supplier} (${o.currency})`)!)).toBe(own);
+      expect(cents(t.get(`total ${o.supplier} (EUR)`)!)).toBe(base);
+      all += base;
+    }
+    expect(cents(t.get('all suppliers (EUR)')!)).toBe(all);
   });
 });
 
@@ -158,7 +229,7 @@ describe('formula-injection safety (OWASP CSV injection guidance; OWASP ASVS 5.0
       { delimiter: 'tab', decimal: 'point', bom: false },
     ] as ExportOptions[]) {
       const sep = { comma: ',', semicolon: ';', tab: '\t' }[o.delimiter];
-      const files = [value(costedBomCsv(c, o)), value(purchaseListCsv(purchaseList(c.bom, { dateWanted: b.runs[0]!.dateWanted }), o))];
+      const files = [value(costedBomCsv(c, o)), value(purchaseListCsv(c, purchaseList(c.bom, { dateWanted: b.runs[0]!.dateWanted }), o))];
       for (const text of files) {
         const rows = parse(text, sep);
         const head = rows[0]!;

@@ -1,8 +1,8 @@
-// Property test (fast-check, 1,000 random runs): in the exported costed BOM, read back from the file, every total
-// equals the sum of the rows it is made of to the cent, and equals the costing's own figure; under every choice.
+// Property test (fast-check, 1,000 random runs): in the exported costed BOM, read back from the file, every total (in
+// the totals block after the table) equals the sum of the rows it is made of to the cent, and equals the costing's own
+// figure; under every choice.
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import Papa from 'papaparse';
 import { costVariantRun, prepareCosting, toCents } from '../../src/domain/costing.ts';
 import type { PriceBreak } from '../../src/domain/book.ts';
 import { purchaseList } from '../../src/domain/purchase.ts';
@@ -11,6 +11,7 @@ import type { ExportOptions } from '../../src/io/run-export.ts';
 import { resolveFixedLines } from '../fixtures/fixed-lines.ts';
 import { part, smallBook } from './costing-fixtures.ts';
 import type { LineSpec, QuoteSpec } from './costing-fixtures.ts';
+import { csvBlocks } from './csv-blocks.ts';
 
 const priceArb = fc.integer({ min: 0, max: 200_000 }).map((n) => n / 10_000);
 const breaksArb: fc.Arbitrary<PriceBreak[]> = fc
@@ -49,11 +50,10 @@ const caseArb = fc.record({
   options: optionsArb,
 });
 
-function parse(text: string, o: ExportOptions): string[][] {
-  const body = o.bom ? text.slice(1) : text;
-  const r = Papa.parse<string[]>(body, { delimiter: DELIMITERS[o.delimiter], newline: '\r\n', skipEmptyLines: true });
-  expect(r.errors).toEqual([]);
-  return r.data;
+/** The file's blocks (head, table, totals), read with the file's own delimiter. */
+function parse(text: string, o: ExportOptions): string[][][] {
+  expect(text.startsWith('\uFEFF')).toBe(o.bom);
+  return csvBlocks(text, DELIMITERS[o.delimiter]);
 }
 
 describe('exported totals', () => {
@@ -86,12 +86,18 @@ describe('exported totals', () => {
         const bom = r.value;
         const text = costedBomCsv({ bom, marginPct: c.margin, parts }, c.options);
         if (!text.ok) throw new Error(text.error);
-        const rows = parse(text.value, c.options);
+        const [, rows = [], totals = []] = parse(text.value, c.options);
         const dec = (cell: string | undefined): number => Number((cell ?? '').replace(',', '.'));
         const cents = (cell: string | undefined): number => Math.round(dec(cell) * 100);
         const tenK = (cell: string | undefined): number => Math.round(dec(cell) * 10_000);
         const labels = costedTotalLabels('EUR', c.margin);
-        const row = (label: string): string[] => rows.find((x) => x[0] === label)!;
+        // A total is its label and its value, in the block after the table.
+        const row = (label: string): string[] => {
+          const r = totals.find((x) => x[0] === label)!;
+          const cells = new Array<string>(COSTED_LEFTOVER_COLUMN + 1).fill('');
+          cells[COSTED_TOTAL_COLUMN] = cells[COSTED_LEFTOVER_COLUMN] = r[1]!;
+          return cells;
+        };
         const body = rows.slice(1, 1 + bom.lines.length);
         const T = COSTED_TOTAL_COLUMN;
 
@@ -104,9 +110,9 @@ describe('exported totals', () => {
           tenK(row(labels.material)[T]) + tenK(row(labels.labour)[T]) + tenK(row(labels.test)[T]) + tenK(row(labels.overhead)[T]),
         );
         // The purchase list of the same run sums to the same run material.
-        const list = purchaseListCsv(purchaseList(bom, { dateWanted: '2026-01-15' }), c.options);
+        const list = purchaseListCsv({ bom, marginPct: c.margin, parts }, purchaseList(bom, { dateWanted: '2026-01-15' }), c.options);
         if (!list.ok) throw new Error(list.error);
-        const lrows = parse(list.value, c.options);
+        const [, lrows = []] = parse(list.value, c.options);
         const at = lrows[0]!.indexOf('line_price_EUR');
         expect(lrows.slice(1).reduce((s, x) => s + cents(x[at]), 0)).toBe(toCents(bom.materialRun));
       }),

@@ -80,7 +80,7 @@ export const command: CliCommand = {
       out.push('', MAINS_CAUTION);
       return out;
     };
-    if (!printOutput('buy', parsed, io, { csv: () => purchaseListCsv(list, job.csv), table: tableLines })) return 2;
+    if (!printOutput('buy', parsed, io, { csv: () => purchaseListCsv(job.costing, list, job.csv, job.about), table: tableLines })) return 2;
     for (const p of bom.problems) io.err(`rungbook buy: not priced: ${shown(p.designators || p.lineId || '')}: ${shown(p.message)}`);
     return bom.complete ? 0 : 1;
   },

@@ -6,9 +6,9 @@ import type { CostedBom, Result } from '../../domain/costing.ts';
 import { isIsoDate } from '../../domain/dates.ts';
 import type { StockCostedBom } from '../../domain/stock-costing.ts';
 import { choiceText } from '../../domain/alternates.ts';
-import { costedBomCsv, costVariant, frozenCosting, parseExportOptions, runSupply } from '../../io/run-export.ts';
+import { costedBomCsv, costVariant, frozenCosting, parseExportOptions, runAbout, runSupply } from '../../io/run-export.ts';
 import { costWithStock, stockCostCsv, stockCostJson, stockCostRows } from '../../io/stock-cost-export.ts';
-import type { ExportOptions, RunCosting } from '../../io/run-export.ts';
+import type { ExportOptions, RunCosting, RunFileAbout } from '../../io/run-export.ts';
 import { loadBook } from '../book-read.ts';
 import { parseArgs } from '../command.ts';
 import type { CliCommand, CliIo, CommandIo, ParsedArgs } from '../command.ts';
@@ -77,6 +77,8 @@ export interface CostJob {
   costing: RunCosting;
   /** CSV choices (defaults when none were given). */
   csv: ExportOptions;
+  /** The Run of the Book the files name in their head (the frozen one costed, else the first of this variant and quantity). */
+  about: RunFileAbout;
 }
 
 /** Reads the CSV choices; they are refused without --csv, so a typo never goes unnoticed. */
@@ -145,7 +147,8 @@ export async function costFromArgs(name: string, parsed: ParsedArgs, help: strin
     return 2;
   }
   if (useFrozen) io.err(`rungbook ${name}: run ${shown(frozenRun.name)} is frozen (${frozenRun.frozen!.at}): prices and quotes as frozen; give --fresh to cost with today's quotes`);
-  return { book, variant, run, bom: costing.value.bom, costing: costing.value, csv };
+  const about: RunFileAbout = useFrozen ? { run: frozenRun.name } : runAbout(book, variant.id, run);
+  return { book, variant, run, bom: costing.value.bom, costing: costing.value, csv, about };
 }
 
 /** What a costing command can print; the table ends with the mains caution, JSON and CSV have it on stderr. */
@@ -314,7 +317,7 @@ export const command: CliCommand = {
     if (typeof job === 'number') return job;
     if (parsed.options.has('stock')) return stockOut(job, parsed, io);
     const { bom } = job;
-    if (!printOutput('cost', parsed, io, { json: () => costJson(bom), csv: () => costedBomCsv(job.costing, job.csv), table: () => tableOut(job) })) return 2;
+    if (!printOutput('cost', parsed, io, { json: () => costJson(bom), csv: () => costedBomCsv(job.costing, job.csv, job.about), table: () => tableOut(job) })) return 2;
     for (const p of bom.problems) io.err(`rungbook cost: not priced: ${shown(p.designators || p.lineId || '')}: ${shown(p.message)}`);
     return bom.complete ? 0 : 1;
   },
