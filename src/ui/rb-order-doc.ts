@@ -9,6 +9,7 @@ import { DRAFT_NUMBER, ORDER_DOC_COLUMNS, orderDocCsv, orderDocFileName, orderDo
 import type { ExportOptions } from '../io/csv-write.ts';
 import { downloadFile } from './rb-export-page.ts';
 import './print.css';
+import { printSheetStyles } from './print-sheet-styles.ts';
 
 /** Downloads the document's CSV; returns why no file was made, or undefined. */
 export function downloadOrderDoc(doc: OrderDocument, options?: ExportOptions): string | undefined {
@@ -39,82 +40,50 @@ const NUMERIC = new Set<string>(['line', 'quantity', 'unit_price', 'line_total']
 
 @customElement('rb-order-doc')
 export class RbOrderDoc extends LitElement {
-  static override styles = css`
-    :host {
-      display: block;
-      color: #000;
-      background: #fff;
-      font-family: Georgia, 'DejaVu Serif', serif;
-      font-size: 9.5pt;
-      line-height: 1.3;
-      font-variant-ligatures: none;
-      padding: 0.6rem;
-    }
-    h1 {
-      font-size: 14pt;
-      margin: 0 0 6pt;
-      border-bottom: 2pt solid #000;
-      padding-bottom: 3pt;
-      font-weight: 600;
-    }
-    dl {
-      display: grid;
-      grid-template-columns: max-content 1fr;
-      gap: 2pt 10pt;
-      margin: 0 0 8pt;
-    }
-    dt {
-      font-variant: small-caps;
-      letter-spacing: 0.04em;
-      color: #333;
-    }
-    dd {
-      margin: 0;
-      white-space: pre-line;
-    }
-    table {
-      border-collapse: collapse;
-      width: 100%;
-      font-variant-numeric: tabular-nums;
-    }
-    th {
-      text-align: left;
-      font-size: 8pt;
-      font-weight: 600;
-      border-bottom: 1pt solid #000;
-      padding: 2pt 3pt;
-      vertical-align: bottom;
-    }
-    td {
-      border-bottom: 0.5pt solid #999;
-      padding: 1pt 3pt;
-      vertical-align: top;
-    }
-    thead {
-      display: table-header-group;
-    }
-    tr {
-      break-inside: avoid;
-    }
-    .num {
-      text-align: right;
-      white-space: nowrap;
-    }
-    .code {
-      font-family: 'DejaVu Sans Mono', monospace;
-      font-size: 8pt;
-    }
-    table.totals {
-      width: auto;
-      margin: 6pt 0 0 auto;
-    }
-    table.totals td {
-      font-weight: 700;
-      border-top: 1pt solid #000;
-      border-bottom: none;
-      padding-left: 16pt;
-    }
-  `;
+  static override styles = [
+    printSheetStyles,
+    css`
+      :host {
+        padding: 0.6rem;
+      }
+      h1 {
+        font-size: 14pt;
+        margin: 0 0 6pt;
+        border-bottom: 2pt solid #000;
+        padding-bottom: 3pt;
+        font-weight: 600;
+      }
+      dl {
+        display: grid;
+        grid-template-columns: max-content 1fr;
+        gap: 2pt 10pt;
+        margin: 0 0 8pt;
+      }
+      dt {
+        font-variant: small-caps;
+        letter-spacing: 0.04em;
+        color: #333;
+      }
+      dd {
+        margin: 0;
+        white-space: pre-line;
+      }
+      .code {
+        font-family: 'DejaVu Sans Mono', monospace;
+        font-size: 8pt;
+      }
+      table.totals {
+        width: auto;
+        margin: 6pt 0 0 auto;
+      }
+      table.totals td {
+        font-weight: 700;
+        border-top: 1pt solid #000;
+        border-bottom: none;
+        padding-left: 16pt;
+      }
+    `,
+  ];
 
   @property({ attribute: false }) doc: OrderDocument | undefined;
 

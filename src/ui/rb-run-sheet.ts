@@ -13,6 +13,7 @@ import { costedTotalLabels, numberText } from '../io/run-export.ts';
 import type { RunCosting } from '../io/run-export.ts';
 import { MAINS_CAUTION } from './rb-mains-caution.ts';
 import './print.css';
+import { printSheetStyles } from './print-sheet-styles.ts';
 
 export interface SheetCheck {
   name: string;
@@ -117,165 +118,130 @@ export function runTotalRows(costing: RunCosting): TemplateResult {
 
 @customElement('rb-run-sheet')
 export class RbRunSheet extends LitElement {
-  static override styles = css`
-    :host {
-      display: block;
-      color: #000;
-      background: #fff;
-      font-family: Georgia, 'DejaVu Serif', serif;
-      font-size: 9.5pt;
-      line-height: 1.3;
-      /* Plain letters copy and search better than ligature glyphs. */
-      font-variant-ligatures: none;
-    }
-    header {
-      display: flex;
-      justify-content: space-between;
-      align-items: flex-end;
-      border-bottom: 2pt solid #000;
-      padding-bottom: 3pt;
-      margin-bottom: 6pt;
-    }
-    h1 {
-      font-size: 14pt;
-      margin: 0;
-      font-weight: 600;
-    }
-    .book {
-      text-align: right;
-      font-size: 9pt;
-    }
-    dl.facts {
-      display: grid;
-      grid-template-columns: repeat(3, max-content 1fr);
-      gap: 1pt 8pt;
-      margin: 0 0 8pt;
-    }
-    dt {
-      font-variant: small-caps;
-      letter-spacing: 0.04em;
-      color: #333;
-    }
-    dd {
-      margin: 0;
-      font-weight: 600;
-    }
-    .caution {
-      border: 1pt solid #000;
-      border-left-width: 4pt;
-      padding: 4pt 7pt;
-      margin: 0 0 9pt;
-    }
-    h2 {
-      font-size: 11pt;
-      font-variant: small-caps;
-      letter-spacing: 0.05em;
-      margin: 10pt 0 3pt;
-      border-bottom: 0.75pt solid #000;
-      break-after: avoid;
-    }
-    table {
-      border-collapse: collapse;
-      width: 100%;
-      font-variant-numeric: tabular-nums;
-    }
-    th {
-      text-align: left;
-      font-size: 8pt;
-      font-weight: 600;
-      border-bottom: 1pt solid #000;
-      padding: 2pt 3pt;
-      vertical-align: bottom;
-    }
-    td {
-      border-bottom: 0.5pt solid #999;
-      padding: 1pt 3pt;
-      vertical-align: top;
-    }
-    thead {
-      display: table-header-group;
-    }
-    tr {
-      break-inside: avoid;
-    }
-    .num {
-      text-align: right;
-      white-space: nowrap;
-    }
-    .code {
-      font-family: 'DejaVu Sans Mono', monospace;
-      font-size: 8pt;
-      white-space: nowrap;
-    }
-    /* A part is its number followed by its description in small type, in the widest column, and a supplier keeps
-       its name on one line with the code under it: a line of the BOM takes two lines of the sheet, not four. */
-    table.bom {
-      table-layout: fixed;
-    }
-    table.bom td {
-      line-height: 1.2;
-      overflow-wrap: anywhere;
-    }
-    .desc {
-      font-size: 7.5pt;
-      color: #222;
-    }
-    td.supplier {
-      font-size: 7pt;
-      white-space: nowrap;
-      overflow: hidden;
-      text-overflow: ellipsis;
-    }
-    table.bom th {
-      font-size: 7.5pt;
-    }
-    table.bom td.num {
-      font-size: 8.5pt;
-    }
-    .sub {
-      display: block;
-      font-size: 7pt;
-      color: #333;
-    }
-    td.refs {
-      max-width: 6em;
-      font-size: 8.5pt;
-    }
-    td.tick {
-      width: 2.2em;
-      border-left: 0.5pt solid #999;
-    }
-    .summary {
-      margin: 0 0 3pt;
-    }
-    table.totals {
-      width: auto;
-      margin-left: auto;
-      break-inside: avoid;
-    }
-    table.totals td:first-child {
-      padding-right: 16pt;
-    }
-    table.totals tr.strong td {
-      font-weight: 700;
-      border-top: 1pt solid #000;
-    }
-    .problem {
-      font-weight: 700;
-    }
-    .sign {
-      display: grid;
-      grid-template-columns: repeat(3, 1fr);
-      gap: 12pt;
-      margin-top: 18pt;
-      break-inside: avoid;
-    }
-    .sign div {
-      border-top: 0.75pt solid #000;
-      padding-top: 2pt;
-      font-size: 8pt;
-    }
-  `;
+  static override styles = [
+    printSheetStyles,
+    css`
+      header {
+        display: flex;
+        justify-content: space-between;
+        align-items: flex-end;
+        border-bottom: 2pt solid #000;
+        padding-bottom: 3pt;
+        margin-bottom: 6pt;
+      }
+      h1 {
+        font-size: 14pt;
+        margin: 0;
+        font-weight: 600;
+      }
+      .book {
+        text-align: right;
+        font-size: 9pt;
+      }
+      dl.facts {
+        display: grid;
+        grid-template-columns: repeat(3, max-content 1fr);
+        gap: 1pt 8pt;
+        margin: 0 0 8pt;
+      }
+      dt {
+        font-variant: small-caps;
+        letter-spacing: 0.04em;
+        color: #333;
+      }
+      dd {
+        margin: 0;
+        font-weight: 600;
+      }
+      .caution {
+        border: 1pt solid #000;
+        border-left-width: 4pt;
+        padding: 4pt 7pt;
+        margin: 0 0 9pt;
+      }
+      h2 {
+        font-size: 11pt;
+        font-variant: small-caps;
+        letter-spacing: 0.05em;
+        margin: 10pt 0 3pt;
+        border-bottom: 0.75pt solid #000;
+        break-after: avoid;
+      }
+      .code {
+        font-family: 'DejaVu Sans Mono', monospace;
+        font-size: 8pt;
+        white-space: nowrap;
+      }
+      /* A part is its number followed by its description in small type, in the widest column, and a supplier keeps
+         its name on one line with the code under it: a line of the BOM takes two lines of the sheet, not four. */
+      table.bom {
+        table-layout: fixed;
+      }
+      table.bom td {
+        line-height: 1.2;
+        overflow-wrap: anywhere;
+      }
+      .desc {
+        font-size: 7.5pt;
+        color: #222;
+      }
+      td.supplier {
+        font-size: 7pt;
+        white-space: nowrap;
+        overflow: hidden;
+        text-overflow: ellipsis;
+      }
+      table.bom th {
+        font-size: 7.5pt;
+      }
+      table.bom td.num {
+        font-size: 8.5pt;
+      }
+      .sub {
+        display: block;
+        font-size: 7pt;
+        color: #333;
+      }
+      td.refs {
+        max-width: 6em;
+        font-size: 8.5pt;
+      }
+      td.tick {
+        width: 2.2em;
+        border-left: 0.5pt solid #999;
+      }
+      .summary {
+        margin: 0 0 3pt;
+      }
+      table.totals {
+        width: auto;
+        margin-left: auto;
+        break-inside: avoid;
+      }
+      table.totals td:first-child {
+        padding-right: 16pt;
+      }
+      table.totals tr.strong td {
+        font-weight: 700;
+        border-top: 1pt solid #000;
+      }
+      .problem {
+        font-weight: 700;
+      }
+      .sign {
+        display: grid;
+        grid-template-columns: repeat(3, 1fr);
+        gap: 12pt;
+        margin-top: 18pt;
+        break-inside: avoid;
+      }
+      .sign div {
+        border-top: 0.75pt solid #000;
+        padding-top: 2pt;
+        font-size: 8pt;
+      }
+    `,
+  ];
 
   @property({ attribute: false }) data: RunSheetData | undefined;
 
