@@ -9,7 +9,7 @@ import { DRAFT_NUMBER, ORDER_DOC_COLUMNS, orderDocCsv, orderDocFileName, orderDo
 import type { ExportOptions } from '../io/csv-write.ts';
 import { downloadFile } from './rb-export-page.ts';
 import './print.css';
-import { printSheetStyles } from './print-sheet-styles.ts';
+import { printAlone, printSheetStyles } from './print-sheet.ts';
 
 /** Downloads the document's CSV; returns why no file was made, or undefined. */
 export function downloadOrderDoc(doc: OrderDocument, options?: ExportOptions): string | undefined {
@@ -19,18 +19,9 @@ export function downloadOrderDoc(doc: OrderDocument, options?: ExportOptions): s
   return undefined;
 }
 
-/** Puts the document alone in the document body and opens the print dialogue. */
+/** Puts the document alone in the document body (print.css prints only it) and opens the print dialogue. */
 export async function printOrderDoc(doc: OrderDocument): Promise<void> {
-  // One printable at a time: a run sheet left from an earlier print would print with it.
-  document.body.querySelector(':scope > rb-run-sheet')?.remove();
-  let sheet = document.body.querySelector<RbOrderDoc>(':scope > rb-order-doc');
-  if (!sheet) {
-    sheet = document.createElement('rb-order-doc');
-    document.body.append(sheet);
-  }
-  sheet.doc = doc;
-  await sheet.updateComplete;
-  window.print();
+  await printAlone('rb-order-doc', (sheet) => (sheet.doc = doc));
 }
 
 const money = (n: number): string => numberText({ n, kind: 'money' });

@@ -13,7 +13,7 @@ import { costedTotalLabels, numberText } from '../io/run-export.ts';
 import type { RunCosting } from '../io/run-export.ts';
 import { MAINS_CAUTION } from './rb-mains-caution.ts';
 import './print.css';
-import { printSheetStyles } from './print-sheet-styles.ts';
+import { printAlone, printSheetStyles } from './print-sheet.ts';
 
 export interface SheetCheck {
   name: string;
@@ -84,16 +84,7 @@ export function runSheetData(book: Book, run: Run, costing: RunCosting, today: s
 
 /** Puts the sheet for `data` in the document and opens the print dialogue. */
 export async function printRunSheet(data: RunSheetData): Promise<void> {
-  // One printable at a time: a supplier's order document left from an earlier print would print with it.
-  document.body.querySelector(':scope > rb-order-doc')?.remove();
-  let sheet = document.body.querySelector<RbRunSheet>(':scope > rb-run-sheet');
-  if (!sheet) {
-    sheet = document.createElement('rb-run-sheet');
-    document.body.append(sheet);
-  }
-  sheet.data = data;
-  await sheet.updateComplete;
-  window.print();
+  await printAlone('rb-run-sheet', (sheet) => (sheet.data = data));
 }
 
 const money = (n: number): string => numberText({ n, kind: 'money' });
