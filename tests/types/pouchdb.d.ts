@@ -24,7 +24,8 @@ declare module 'pouchdb-core' {
   }
   /** A running replication: awaited for its result, or listened to while live. */
   export interface Replication extends PromiseLike<ReplicationResult> {
-    on(event: string, listener: (info: unknown) => void): this;
+    on(event: string, listener: (info: never) => void): this;
+    once(event: string, listener: (info: never) => void): this;
     cancel(): void;
   }
   export interface Database {
@@ -34,6 +35,8 @@ declare module 'pouchdb-core' {
     bulkDocs(docs: Doc[]): Promise<unknown[]>;
     info(): Promise<{ doc_count: number; update_seq: number | string }>;
     destroy(): Promise<void>;
+    /** Replication both ways; `push` and `pull` hold options for one direction only. */
+    sync(other: Database | string, options?: ReplicateOptions & { push?: ReplicateOptions; pull?: ReplicateOptions }): Replication;
     replicate: {
       to(target: Database | string, options?: ReplicateOptions): Replication;
       from(source: Database | string, options?: ReplicateOptions): Replication;

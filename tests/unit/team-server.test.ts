@@ -13,6 +13,7 @@ import type { Database } from 'pouchdb-core';
 import httpAdapter from 'pouchdb-adapter-http';
 import memoryAdapter from 'pouchdb-adapter-memory';
 import replication from 'pouchdb-replication';
+import { refusal, route } from '../../scripts/team/access.ts';
 import { sampleBook } from '../fixtures/sample-book.ts';
 
 PouchDB.plugin(httpAdapter).plugin(memoryAdapter).plugin(replication);
@@ -110,6 +111,36 @@ beforeAll(async () => {
 afterAll(async () => {
   for (const r of [...running]) await stopServer(r);
   rmSync(dir, { recursive: true, force: true });
+});
+
+describe('who may do what (the team server\'s rule, before any request reaches the engine)', () => {
+  it('sorts replication\'s reads, record writes and owners\' work apart', () => {
+    const need = (method: string, path: string): string => {
+      const r = route(method, path);
+      return r.kind === 'db' ? r.need : r.kind;
+    };
+    // What PouchDB's replicator asks when it pulls: every one a read.
+    for (const [m, p] of [['GET', '/book'], ['GET', '/book/_changes?since=0'], ['POST', '/book/_revs_diff'], ['POST', '/book/_bulk_get?revs=true'], ['POST', '/book/_all_docs'], ['GET', '/book/_local/abc'], ['HEAD', '/book/quotes%2Fq1']]) {
+      expect(need(m!, p!), `${m} ${p}`).toBe('read');
+    }
+    // Records and checkpoints written: an editor's.
+    for (const [m, p] of [['POST', '/book/_bulk_docs'], ['PUT', '/book/quotes%2Fq1'], ['DELETE', '/book/quotes%2Fq1?rev=1-a'], ['POST', '/book'], ['PUT', '/book/_local/abc']]) {
+      expect(need(m!, p!), `${m} ${p}`).toBe('write');
+    }
+    // The database itself and what runs inside the server: an owner's.
+    for (const [m, p] of [['PUT', '/book'], ['DELETE', '/book'], ['PUT', '/book/_design/rules'], ['PUT', '/book/_security'], ['POST', '/book/_compact'], ['POST', '/book/_purge']]) {
+      expect(need(m!, p!), `${m} ${p}`).toBe('owner');
+    }
+    expect(need('GET', '/')).toBe('root');
+    expect(need('GET', '/_team/me')).toBe('team');
+    for (const p of ['/_config', '/_replicate', '/_utils/', '/_users/x', '/Book', '/%E0%A4%A']) expect(need('GET', p), p).toBe('unknown');
+  });
+
+  it('lets a reader read only, an editor read and write, an owner everything, each refusal saying why', () => {
+    expect([refusal('rita', 'reader', 'read'), refusal('edna', 'editor', 'write'), refusal('olive', 'owner', 'owner')]).toEqual([null, null, null]);
+    expect(refusal('rita', 'reader', 'write')).toMatchObject({ status: 403, error: 'forbidden', reason: expect.stringMatching(/Nothing was written/) });
+    expect(refusal('edna', 'editor', 'owner')?.reason).toBe('only an owner of this team may do this (edna is an editor). Nothing was changed.');
+  });
 });
 
 describe('team server', () => {
