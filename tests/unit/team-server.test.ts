@@ -210,7 +210,7 @@ describe('team server', () => {
     expect(cli(['set-role', READER.name, 'reader', '--as', OWNER.name], { RUNGBOOK_TEAM_OWNER_PASSWORD: OWNER.password }).status).toBe(0);
     expect((await call(`${server.url}_team/me`, READER)).body['role']).toBe('reader');
     expect(cli(['list-users'], {}).stdout).toBe('olive\towner\nedna\teditor\nrita\treader\n');
-  });
+  }, 90_000);
 
   it('refuses what the team server does not offer and a team without an owner', async () => {
     expect((await call(`${server.url}_config`, OWNER)).status).toBe(404);
