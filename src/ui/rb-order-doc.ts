@@ -50,18 +50,8 @@ export class RbOrderDoc extends LitElement {
         gap: 2pt 10pt;
         margin: 0 0 8pt;
       }
-      dt {
-        font-variant: small-caps;
-        letter-spacing: 0.04em;
-        color: #333;
-      }
       dd {
-        margin: 0;
         white-space: pre-line;
-      }
-      .code {
-        font-family: 'DejaVu Sans Mono', monospace;
-        font-size: 8pt;
       }
       table.totals {
         width: auto;

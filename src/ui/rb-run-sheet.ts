@@ -135,13 +135,7 @@ export class RbRunSheet extends LitElement {
         gap: 1pt 8pt;
         margin: 0 0 8pt;
       }
-      dt {
-        font-variant: small-caps;
-        letter-spacing: 0.04em;
-        color: #333;
-      }
       dd {
-        margin: 0;
         font-weight: 600;
       }
       .caution {
@@ -159,8 +153,6 @@ export class RbRunSheet extends LitElement {
         break-after: avoid;
       }
       .code {
-        font-family: 'DejaVu Sans Mono', monospace;
-        font-size: 8pt;
         white-space: nowrap;
       }
       /* A part is its number followed by its description in small type, in the widest column, and a supplier keeps
