@@ -46,24 +46,16 @@ export function indexParts(parts: readonly Part[]): PartIndex {
   return index;
 }
 
-/** An approved alternate put in place of a fixed-part line's own part, to judge the checks with it. */
-export interface PartSwap {
-  lineId: string;
-  partId: string;
+/** The role names a part gives through a line of role `role` (a name key): its value and each rating. */
+export function partRoleNames(role: string, part: Part, into: Record<string, number>): void {
+  if (part.value !== undefined && Number.isFinite(part.value)) into[`${role}_value`] = part.value;
+  for (const [k, val] of Object.entries(part.ratings)) {
+    if (Number.isFinite(val)) into[`${role}_${nameKey(k)}`] = val;
+  }
 }
 
-/**
- * Resolves every build line for variant `v`, row `r` of the family table, reading its cells through `read`; with
- * `swap`, that line gives the swapped-in approved part instead of its own.
- */
-export function resolveVariant(
-  v: Variant,
-  r: number,
-  lineCells: readonly LineCells[],
-  parts: PartIndex,
-  read: ReadCell,
-  swap?: PartSwap,
-): VariantResolution {
+/** Resolves every build line for variant `v`, row `r` of the family table, reading its cells through `read`. */
+export function resolveVariant(v: Variant, r: number, lineCells: readonly LineCells[], parts: PartIndex, read: ReadCell): VariantResolution {
   const problems: ResolveProblem[] = [];
   const problem = (lineId: string, message: string): void =>
     void problems.push({ variantId: v.id, variantCode: v.code, lineId, message });
@@ -90,8 +82,7 @@ export function resolveVariant(
       }
     }
     // Lines that do not apply are not checked: their rules may read parameters only other variants have.
-    const own = resolvePart(lc, r, parts, read, applies ? (m) => problem(line.id, m) : () => undefined);
-    const partId = swap !== undefined && swap.lineId === line.id && own !== undefined ? swap.partId : own;
+    const partId = resolvePart(lc, r, parts, read, applies ? (m) => problem(line.id, m) : () => undefined);
     if (!applies) return { lineId: line.id, partId, qtyPerUnit: 0, applies };
     let qty = lc.qtyConst ?? 0;
     if (lc.qty) {
@@ -110,11 +101,7 @@ export function resolveVariant(
       if (first) problem(line.id, `role ${role} is already given by line ${first.designators || first.id}; this line's part is not read by checks`);
       else {
         roleLine.set(role, line);
-        const part = parts.byId.get(partId)!;
-        if (part.value !== undefined && Number.isFinite(part.value)) roleNames[`${role}_value`] = part.value;
-        for (const [k, val] of Object.entries(part.ratings)) {
-          if (Number.isFinite(val)) roleNames[`${role}_${nameKey(k)}`] = val;
-        }
+        partRoleNames(role, parts.byId.get(partId)!, roleNames);
       }
     }
     return { lineId: line.id, partId, qtyPerUnit: qty, applies };

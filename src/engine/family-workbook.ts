@@ -13,8 +13,8 @@ import { judgeCheck } from './family-checks.ts';
 import type { CheckResult } from './family-checks.ts';
 import { atRow, planFamily, roleNames, valueCell, valueContent } from './family-layout.ts';
 import type { CellRead, CheckCells, FamilyLayout, FormulaCell, FormulaColumn, Memo, ReadCell } from './family-layout.ts';
-import { indexParts, resolveVariant } from './family-lines.ts';
-import type { FamilyResolution, PartIndex, PartSwap, VariantResolution } from './family-lines.ts';
+import { indexParts, partRoleNames, resolveVariant } from './family-lines.ts';
+import type { FamilyResolution, PartIndex, VariantResolution } from './family-lines.ts';
 import { guardFormula } from './formula-guard.ts';
 import { formulaNames, nameKey, tokenizeFormula, formulaBody } from './formula-names.ts';
 
@@ -69,7 +69,9 @@ function inputKey(inputs: readonly string[], params: ReadonlyMap<string, ParamVa
  * A row below the variants that repeats variant `variant` with one line's approved alternate in place of its part:
  * the checks reading that line's role are judged there too, and the worst result is the variant's.
  */
-interface AltRow extends PartSwap {
+interface AltRow {
+  lineId: string;
+  partId: string;
   variant: number;
   /** The line's role, by name key. */
   role: string;
@@ -156,6 +158,9 @@ export class FamilyWorkbook {
     const { roleStart, checkStart, width } = layout;
     this.planAlternates();
     const total = this.rowCount();
+    const n = this.book.variants.length;
+    // The alternate rows hold only the cells their checks read (parameters, role values, check columns).
+    const altKeep = this.altRows.length > 0 ? this.altColumns() : undefined;
 
     // First pass, in one call: the parameters, and the memos of the build rules and of the check parts that read
     // parameters only, so each variant's parts are known before the checks read them.
@@ -164,6 +169,7 @@ export class FamilyWorkbook {
     for (let r = 0; r < total; r++) {
       const row: Row = new Array<RawCellContent>(roleStart).fill(null);
       this.writeParams(row, this.variantAt(r));
+      if (r >= n && altKeep) for (let c = 0; c < roleStart; c++) if (!altKeep.has(c)) row[c] = null;
       if (r === 0) for (const fc of layout.ruleColumns) row[fc.col] = atRow(fc.pieces, 0);
       rows.push(row);
     }
@@ -200,6 +206,7 @@ export class FamilyWorkbook {
       const row: Row = new Array<RawCellContent>((r === 0 ? width : checkStart) - roleStart).fill(null);
       const roleNames = this.resolutionAt(r).roleNames;
       layout.roleKeys.forEach((key, i) => {
+        if (r >= n && altKeep && !altKeep.has(roleStart + i)) return;
         const val = roleNames[key];
         row[i] = val === undefined ? MISSING : val;
       });
@@ -213,7 +220,7 @@ export class FamilyWorkbook {
     });
     hf.setCellContents({ sheet: this.sheet, row: 0, col: roleStart }, block);
     const valueColumns = layout.checkCells.flatMap((cc) => (cc.cells.value?.pieces ? [{ col: cc.cells.value.col, pieces: cc.cells.value.pieces }] : []));
-    this.fillDown([...valueColumns, ...layout.checkColumns], checkStart, width);
+    this.fillDown([...valueColumns, ...layout.checkColumns], checkStart, width, altKeep);
   }
 
   /**
@@ -221,31 +228,51 @@ export class FamilyWorkbook {
    * them. Every formula reads its own row only, so a copy one row down is that row's formula: copying lets the
    * engine reuse the first row's parsed form instead of reading 200 or 2,000 copies of the same text. The engine
    * finds a copied formula again by its printed form, so a column whose formula prints differently from the text
-   * written (spacing it drops) is written as text on every row instead.
+   * written (spacing it drops) is written as text on every row instead. The alternate rows get only the columns
+   * in `altKeep` (when given): the checks judged there and what they read.
    */
-  private fillDown(formulas: readonly FormulaColumn[], from: number, to: number): void {
+  private fillDown(formulas: readonly FormulaColumn[], from: number, to: number, altKeep?: ReadonlySet<number>): void {
     const rows = this.rowCount();
+    const n = this.book.variants.length;
     if (to <= from || rows < 2) return;
     const hf = this.engine();
+    const onAlt = (col: number): boolean => altKeep === undefined || altKeep.has(col);
     const byText: FormulaColumn[] = formulas.filter(
       (fc) => fc.col >= from && fc.col < to && hf.getCellFormula({ sheet: this.sheet, row: 0, col: fc.col }) !== atRow(fc.pieces, 0),
     );
     const skip = new Set(byText.map((fc) => fc.col));
-    try {
+    /** Contiguous runs of the columns to copy. */
+    const runs = (keep: (col: number) => boolean): [number, number][] => {
+      const out: [number, number][] = [];
       for (let start = from; start < to; ) {
-        if (skip.has(start)) {
+        if (skip.has(start) || !keep(start)) {
           start++;
           continue;
         }
         let end = start;
-        while (end < to && !skip.has(end)) end++;
-        for (let filled = 1; filled < rows; ) {
-          const n = Math.min(filled, rows - filled);
-          hf.copy({ start: { sheet: this.sheet, row: 0, col: start }, end: { sheet: this.sheet, row: n - 1, col: end - 1 } });
-          hf.paste({ sheet: this.sheet, row: filled, col: start });
-          filled += n;
-        }
+        while (end < to && !skip.has(end) && keep(end)) end++;
+        out.push([start, end]);
         start = end;
+      }
+      return out;
+    };
+    /** Doubles the filled rows [base, filledTo) of columns [start, end) down to row `last` (exclusive). */
+    const double = (start: number, end: number, base: number, filledTo: number, last: number): void => {
+      for (let filled = filledTo - base; base + filled < last; ) {
+        const k = Math.min(filled, last - base - filled);
+        hf.copy({ start: { sheet: this.sheet, row: base, col: start }, end: { sheet: this.sheet, row: base + k - 1, col: end - 1 } });
+        hf.paste({ sheet: this.sheet, row: base + filled, col: start });
+        filled += k;
+      }
+    };
+    try {
+      for (const [start, end] of runs(() => true)) double(start, end, 0, 1, n);
+      if (rows > n) {
+        for (const [start, end] of runs(onAlt)) {
+          hf.copy({ start: { sheet: this.sheet, row: 0, col: start }, end: { sheet: this.sheet, row: 0, col: end - 1 } });
+          hf.paste({ sheet: this.sheet, row: n, col: start });
+          double(start, end, n, n + 1, rows);
+        }
       }
     } catch {
       // The engine could not reuse a parsed formula after all: write every row's text.
@@ -258,8 +285,9 @@ export class FamilyWorkbook {
     hf.batch(() => {
       for (const fc of byText) {
         const column: Row[] = [];
-        for (let r = 1; r < rows; r++) column.push([atRow(fc.pieces, r)]);
-        hf.setCellContents({ sheet: this.sheet, row: 1, col: fc.col }, column);
+        const last = onAlt(fc.col) ? rows : n;
+        for (let r = 1; r < last; r++) column.push([atRow(fc.pieces, r)]);
+        if (column.length > 0) hf.setCellContents({ sheet: this.sheet, row: 1, col: fc.col }, column);
       }
     });
   }
@@ -352,9 +380,24 @@ export class FamilyWorkbook {
     return { ok: false, error: 'the result is a range, not one value' };
   }
 
+  /**
+   * A row's resolution. An alternate row's is its variant's with the role names of the swapped-in part in place of
+   * the line's own (the variant's lines must be resolved first); unchanged when the line does not give this variant
+   * its role.
+   */
   private resolveRow(r: number): VariantResolution {
-    const alt = this.altRows[r - this.book.variants.length];
-    return resolveVariant(this.variantAt(r), r, this.layout.lineCells, this.parts, this.readCell, alt);
+    const n = this.book.variants.length;
+    if (r < n) return resolveVariant(this.variantAt(r), r, this.layout.lineCells, this.parts, this.readCell);
+    const alt = this.altRows[r - n]!;
+    const own = this.resolution[alt.variant]!;
+    const line = this.book.buildLines.find((l) => l.id === alt.lineId)!;
+    if (!this.givesRole(own, line)) return own;
+    const given: Record<string, number> = {};
+    partRoleNames(alt.role, this.parts.byId.get(line.partId!)!, given);
+    const roleNames = { ...own.roleNames };
+    for (const k of Object.keys(given)) delete roleNames[k];
+    partRoleNames(alt.role, this.parts.byId.get(alt.partId)!, roleNames);
+    return { ...own, roleNames };
   }
 
   /** Variants, then the alternate rows. */
@@ -398,6 +441,36 @@ export class FamilyWorkbook {
         }
       }
     });
+  }
+
+  /**
+   * The columns the alternate rows need: the checks that read an alternate's role, the checks they read by name
+   * (through any depth), the columns of their applies and limit formulas, and every parameter and role they read.
+   * Build rules with a column of their own (rare: they go to memos) may read any parameter, so then all are kept.
+   */
+  private altColumns(): Set<number> {
+    const roles = new Set(this.altRows.map((a) => a.role));
+    const cols = new Set<number>();
+    const seen = new Set<CheckCells>();
+    const visit = (cc: CheckCells): void => {
+      if (seen.has(cc)) return;
+      seen.add(cc);
+      if (cc.col !== undefined) cols.add(cc.col);
+      for (const fc of Object.values(cc.cells)) {
+        if (fc.memo === undefined && fc.constant === undefined) cols.add(fc.col);
+        for (const key of fc.names) {
+          const col = this.layout.cols.get(key);
+          if (col !== undefined) cols.add(col);
+          const inner = this.layout.checkByName.get(key);
+          if (inner) visit(inner);
+        }
+      }
+    };
+    if (this.layout.ruleColumns.length > 0) for (let c = 0; c < this.layout.roleStart; c++) cols.add(c);
+    this.layout.checkCells.forEach((cc, j) => {
+      if ([...this.checkRoles[j]!].some((r) => roles.has(r))) visit(cc);
+    });
+    return cols;
   }
 
   /** Does line `lineId` give its own part, and its role, to this variant (so an alternate in its place matters)? */
@@ -555,7 +628,8 @@ export class FamilyWorkbook {
     const names = formulaNames(body);
     // A role name no check read before has no column yet.
     const newRole = names.ok && names.names.some((k) => layout.possibleRoleKeys.has(k) && !layout.roleKeySet.has(k));
-    if (cc.problem !== undefined || !c?.ok || newRole) {
+    // With alternate rows, which columns they need may change with the formula: lay the table out afresh.
+    if (cc.problem !== undefined || !c?.ok || newRole || this.altRows.length > 0) {
       // The check could not be evaluated before, or cannot now: compile the table afresh so every part of the
       // check (applies, limits) is laid out again and the result shows the reason.
       this.build();
