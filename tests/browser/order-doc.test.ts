@@ -1,5 +1,6 @@
 // The supplier's order document in real Chromium: the demo plan's orders placed, one opened on the Orders page, its
-// document shown as the supplier reads it, downloaded (the very bytes of the export module) and printed alone.
+// document shown as the supplier reads it, downloaded (the very bytes of the export module) and printed alone; the
+// ship-to address and a supplier's address and terms refused beside their fields when bad, and printed when saved.
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { demoBook } from '../../src/domain/demo-book.ts';
@@ -8,7 +9,8 @@ import { acceptSuggestions } from '../../src/domain/planning.ts';
 import { exportBytes, numberText } from '../../src/io/csv-write.ts';
 import { orderDocCsv, orderDocFileName, orderTotalLabel } from '../../src/io/order-doc-export.ts';
 import { planBook } from '../../src/io/plan-export.ts';
-import { AppUnderTest, readerText } from './harness.ts';
+import Papa from 'papaparse';
+import { AppUnderTest, readerText, saved } from './harness.ts';
 import { pdfPageTexts } from './runs-pdf-text.ts';
 
 const baseUrl = inject('baseUrl');
@@ -85,5 +87,55 @@ describe('the supplier’s order document in the browser', () => {
     expect(all).not.toContain('Download this Book as a file');
     expect(errors).toEqual([]);
     expect(foreignRequests).toEqual([]);
+  });
+
+  it('refuses a bad ship-to or supplier address beside the field, saves nothing, and prints what is saved', async () => {
+    const { page, errors } = await app.open('#/settings', { ready: 'form[aria-label="Costing settings"]' });
+    await expect(page.locator('#f-shipTo').inputValue()).resolves.toBe(demo.settings.shipTo);
+    const nine = Array.from({ length: 9 }, (_, i) => `line ${i + 1}`).join('\n');
+    await page.locator('#f-shipTo').fill(nine);
+    await page.getByRole('button', { name: 'Save the settings' }).click();
+    await expect(page.locator('[data-problem-for="shipTo"]').textContent()).resolves.toMatch(/9 lines; an address may have at most 8/);
+    await page.reload();
+    await page.locator('form[aria-label="Costing settings"]').waitFor();
+    await expect(page.locator('#f-shipTo').inputValue()).resolves.toBe(demo.settings.shipTo);
+    const shipTo = 'Tarnwick Air Controls, dock 3\nUnit 9, Fennick Yard\nHollowmere HX9 4ZZ';
+    await page.locator('#f-shipTo').fill(`  ${shipTo.replace(/\n/g, '  \n')}\n\n`);
+    await page.getByRole('button', { name: 'Save the settings' }).click();
+    await page.locator('[data-testid="settings-saved"]').waitFor();
+    await saved(page);
+
+    const kelvaro = demo.suppliers.find((x) => x.id === 'sup_kelvaro')!;
+    await page.goto(`${baseUrl}#/suppliers`);
+    await page.locator(`rb-suppliers-page tr[data-id="${kelvaro.id}"]`).getByRole('button', { name: 'edit' }).click();
+    await page.locator('rb-suppliers-page form[aria-label="Supplier"]').waitFor();
+    await expect(page.locator('#f-address').inputValue()).resolves.toBe(kelvaro.address);
+    await page.locator('#f-paymentTerms').fill('t'.repeat(201));
+    await page.locator('#f-address').fill(nine);
+    await page.getByRole('button', { name: 'Save the supplier' }).click();
+    await expect(page.locator('[data-problem-for="paymentTerms"]').textContent()).resolves.toMatch(/at most 200/);
+    await expect(page.locator('[data-problem-for="address"]').textContent()).resolves.toMatch(/at most 8/);
+    await page.reload();
+    await page.locator(`rb-suppliers-page tr[data-id="${kelvaro.id}"]`).getByRole('button', { name: 'edit' }).click();
+    await expect(page.locator('#f-paymentTerms').inputValue()).resolves.toBe(kelvaro.paymentTerms);
+    await page.locator('#f-address').fill('Kelvaro Parts Direct\nInbound orders\n7 Orrin Quay');
+    await page.locator('#f-paymentTerms').fill('net 45 days');
+    await page.getByRole('button', { name: 'Save the supplier' }).click();
+    await page.locator('rb-suppliers-page form[aria-label="Supplier"]').waitFor({ state: 'detached' });
+    await saved(page);
+
+    // The run's draft document for that supplier carries both, as saved.
+    await page.goto(`${baseUrl}#/runs`);
+    await page.locator('[data-testid="runs-table"]').waitFor();
+    await page.getByRole('button', { name: demo.runs[0]!.name, exact: true }).click();
+    await page.locator('[data-testid="run-purchase"]').waitFor();
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: `Order document CSV for ${kelvaro.name}` }).click()]);
+    const rows = Papa.parse<string[]>(readFileSync(await download.path(), 'utf8'), { newline: '\r\n' }).data;
+    const field = new Map(rows.map((r) => [r[0]!, r[1]!] as const));
+    expect(field.get('ship to')).toBe(shipTo);
+    expect(field.get('supplier address')).toBe('Kelvaro Parts Direct\nInbound orders\n7 Orrin Quay');
+    expect(field.get('payment terms')).toBe('net 45 days');
+    expect(field.get('purchase order')).toMatch(/^draft/);
+    expect(errors).toEqual([]);
   });
 });
