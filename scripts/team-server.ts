@@ -73,7 +73,6 @@ async function start(dataDir: string, values: { port?: string; host?: string; ow
   const port = Number(values.port ?? process.env['PORT'] ?? DEFAULT_TEAM_PORT);
   if (!Number.isInteger(port) || port < 0 || port > 65_535) throw new UsageError(`--port must be a whole number from 0 to 65535, not "${values.port}"`);
   const host = values.host ?? '127.0.0.1';
-  mkdirSync(dataDir, { recursive: true });
   const team = readUsers(dataDir);
   if (Object.keys(team.users).length === 0) {
     const owner = values.owner ?? process.env['RUNGBOOK_TEAM_OWNER'];
@@ -81,6 +80,7 @@ async function start(dataDir: string, values: { port?: string; host?: string; ow
     const bad = nameProblem(owner);
     if (bad) throw new UsageError(bad);
     const password = await secret('RUNGBOOK_TEAM_PASSWORD', `password for ${owner} (the first owner): `);
+    mkdirSync(dataDir, { recursive: true });
     await putUser(dataDir, owner, { role: 'owner', password });
     console.log(`${owner} is the team's first owner`);
   } else if (values.owner) {
@@ -119,14 +119,19 @@ function ask(prompt: string, variable: string): Promise<string> {
   if (!process.stdin.isTTY) return Promise.reject(new Error(`no terminal to ask for a password: set ${variable}`));
   return new Promise((resolve) => {
     const rl = createInterface({ input: process.stdin, output: process.stdout, terminal: true });
-    const echo = rl as unknown as { _writeToOutput(s: string): void };
-    process.stdout.write(prompt);
-    echo._writeToOutput = () => undefined;
-    rl.question('', (answer) => {
+    // Readline echoes what is typed through _writeToOutput: let the prompt through, then nothing of the password.
+    const line = rl as unknown as { _writeToOutput(s: string): void };
+    const write = line._writeToOutput.bind(rl);
+    let muted = false;
+    line._writeToOutput = (s: string) => {
+      if (!muted) write(s);
+    };
+    rl.question(prompt, (answer) => {
       rl.close();
       process.stdout.write('\n');
       resolve(answer);
     });
+    muted = true;
   });
 }
 
