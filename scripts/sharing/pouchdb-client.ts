@@ -10,8 +10,11 @@ import type { EngineClient } from './engines.ts';
 
 PouchDB.plugin(httpAdapter).plugin(memoryAdapter).plugin(replication);
 
-/** Batch size for replication: PouchDB's default is 100 documents per request; 1,000 suits a Book of many small records. */
-export const BATCH_SIZE = 1000;
+/**
+ * Documents per replication request: PouchDB's default is 100; 1,000 suits a Book of many small records. The
+ * variable SHARING_BATCH_SIZE tries another.
+ */
+export const BATCH_SIZE = Number(process.env['SHARING_BATCH_SIZE'] ?? 1000);
 
 interface Doc {
   _id: string;
