@@ -134,8 +134,8 @@ export class RbOrdersPage extends LitElement {
               : html`<button type="button" class="quiet" @click=${() => (this.confirmCancel = o.id)}>Cancel…</button>`}
           </div>`
         : ''}
-      ${this.renderDocument(book, o)}
-    </div>`;
+    </div>
+    ${this.renderDocument(book, o)}`;
   }
 
   /** The document the supplier receives: shown as they will read it, downloaded as CSV or printed. */
