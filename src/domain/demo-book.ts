@@ -109,6 +109,7 @@ const QUILLOW = 'Quillow Fixings';
 const OSTREL = 'Ostrel Boards';
 const YARVELLE = 'Yarvelle Packaging';
 const TARNWICK = 'Tarnwick Air Controls';
+const FERROWEN = 'Ferrowen Semiconductor';
 
 /** A demo part as written below: a Part without its revision, placements always given. */
 type PartRow = Omit<Part, 'rev' | 'placements'> & {
@@ -205,6 +206,8 @@ function parts(): Part[] {
     part({ id: 'part_zener_12v_13', mpn: 'QX-Z12-13', maker: QUARNEX, description: 'Zener diode 12 V ±5 % 1.3 W', kind: 'zener', value: 12, unit: 'V', ratings: { p_max: 1.3, tol: 0.05 }, package: 'DO-41', placements: 1 }),
     part({ id: 'part_zener_15v_13', mpn: 'QX-Z15-13', maker: QUARNEX, description: 'Zener diode 15 V ±5 % 1.3 W', kind: 'zener', value: 15, unit: 'V', ratings: { p_max: 1.3, tol: 0.05 }, package: 'DO-41', placements: 1 }),
     part({ id: 'part_diode_1a', mpn: 'QX-D1K0-1', maker: QUARNEX, description: 'Rectifier diode 1000 V 1 A', kind: 'diode', ratings: { v_max: 1000, i_max: 1, vf: 1.1 }, package: 'DO-41', placements: 1 }),
+    // An approved second source of the supply diode (line D2): same ratings, dearer, but three days away.
+    part({ id: 'part_diode_1a_fw', mpn: 'FW-R1000-1', maker: FERROWEN, description: 'Rectifier diode 1000 V 1 A, second source', kind: 'diode', ratings: { v_max: 1000, i_max: 1, vf: 1.1 }, package: 'DO-41', placements: 1 }),
     part({ id: 'part_diode_sig', mpn: 'QX-S100-02', maker: QUARNEX, description: 'Small-signal diode 100 V 0.2 A, step steering', kind: 'diode', ratings: { v_max: 100, i_max: 0.2, vf: 1 }, package: 'SOD-323', placements: 1 }),
     part({ id: 'part_bridge_1a', mpn: 'QX-B06-1', maker: QUARNEX, description: 'Bridge rectifier 600 V 1 A', kind: 'bridge', ratings: { v_max: 600, i_max: 1, vf: 1, i2t: 5 }, package: 'MBS-4', placements: 1 }),
     part({ id: 'part_bridge_1a_1kv', mpn: 'QX-B10-1', maker: QUARNEX, description: 'Bridge rectifier 1000 V 1 A', kind: 'bridge', ratings: { v_max: 1000, i_max: 1, vf: 1, i2t: 5 }, package: 'MBS-4', placements: 1 }),
@@ -363,6 +366,8 @@ interface LineRow {
   qtyRule?: string;
   appliesWhen?: string;
   role?: string;
+  /** Approved second sources, best first. */
+  alternates?: string[];
   notes?: string;
 }
 
@@ -379,6 +384,7 @@ function line(position: number, r: LineRow): BuildLine {
   if (r.partId !== undefined) l.partId = r.partId;
   if (r.partRule !== undefined) l.partRule = r.partRule;
   if (r.role !== undefined) l.role = r.role;
+  if (r.alternates !== undefined) l.alternates = r.alternates;
   if (r.notes !== undefined) l.notes = r.notes;
   return l;
 }
@@ -405,7 +411,7 @@ function buildLines(): BuildLine[] {
     { id: 'line_bleeder', designators: 'R3', category: 'electronics', role: 'bleeder', appliesWhen: 'supply="dropper"', partRule: 'IF(r_bleed>700000, "AV-MF50-1M0", IF(r_bleed>330000, "AV-MF50-470K", "AV-MF50-220K"))' },
     { id: 'line_drop_r', designators: 'R4', category: 'electronics', appliesWhen: 'supply="dropper"', partId: 'part_r_drop_100r' },
     { id: 'line_zener', designators: 'D1', category: 'electronics', role: 'zener', appliesWhen: 'supply="dropper"', partRule: 'IF(v_z=15, "QX-Z15-13", IF(c_drop>0.5e-6, "QX-Z12-13", "QX-Z12-05"))', notes: 'The 0.5 W zener only below 0.5 µF.' },
-    { id: 'line_supply_diode', designators: 'D2', category: 'electronics', role: 'supply_diode', appliesWhen: 'supply="dropper"', partId: 'part_diode_1a' },
+    { id: 'line_supply_diode', designators: 'D2', category: 'electronics', role: 'supply_diode', appliesWhen: 'supply="dropper"', partId: 'part_diode_1a', alternates: ['part_diode_1a_fw'] },
     // Logic supply: transformer.
     { id: 'line_xfmr', designators: 'T1', category: 'electronics', role: 'xfmr', appliesWhen: 'supply="transformer"', partRule: 'IF(mains_v>200, IF(vcc>6, "TK-TR230-15", "TK-TR230-12"), IF(vcc>6, "TK-TR120-12", "TK-TR120-09"))', notes: 'A 12 V rail needs a 15 V secondary to stay above the regulator dropout at low mains.' },
     { id: 'line_logic_fuse', designators: 'F2', category: 'electronics', role: 'logic_fuse', appliesWhen: 'supply="transformer"', partId: 'part_fuse_63ma', notes: 'Secondary fuse: the transformer is not short-circuit proof.' },
@@ -534,6 +540,7 @@ function quoteRows(): QuoteRow[] {
     { part: 'part_zener_12v_13', supplier: K, code: 'KPD-410251', breaks: [[10, 0.09], [1000, 0.045], [5000, 0.032]], moq: 10, pack: 10, lead: 35, date: '2026-05-11' },
     { part: 'part_zener_15v_13', supplier: K, code: 'KPD-410252', breaks: [[10, 0.09], [1000, 0.045], [5000, 0.032]], moq: 10, pack: 10, lead: 35, date: '2026-05-11' },
     { part: 'part_diode_1a', supplier: K, code: 'KPD-300117', breaks: [[10, 0.04], [1000, 0.018], [10000, 0.011]], moq: 10, pack: 10, lead: 35, date: '2026-05-11' },
+    { part: 'part_diode_1a_fw', supplier: H, code: 'HV-FW1K01', breaks: [[10, 0.06], [500, 0.03], [5000, 0.02]], moq: 10, pack: 10, lead: 3, date: '2026-03-02' },
     { part: 'part_diode_sig', supplier: K, code: 'KPD-300402', breaks: [[10, 0.02], [1000, 0.007], [10000, 0.004]], moq: 10, pack: 10, lead: 35, date: '2026-05-11' },
     { part: 'part_bridge_1a_1kv', supplier: K, code: 'KPD-520101', breaks: [[1, 0.24], [500, 0.14], [3000, 0.1]], moq: 1, pack: 50, lead: 42, date: '2026-05-11' },
     { part: 'part_bridge_1a', supplier: K, code: 'KPD-520061', breaks: [[1, 0.21], [500, 0.12], [3000, 0.085]], moq: 1, pack: 50, lead: 42, date: '2026-05-11' },

@@ -114,6 +114,8 @@ export class FamilyWorkbook {
   private altRowsOf: number[][] = [];
   /** Per check, the roles it reads (only worked out when some line has approved alternates). */
   private checkRoles: Set<string>[] = [];
+  /** The columns the alternate rows hold (see altColumns); undefined without alternate rows. */
+  private altKeep: Set<number> | undefined;
   private memoSheet = 0;
   private memoRows = 0;
   /** Each row's check results as last read; undefined where an edit may have changed them. */
@@ -161,6 +163,7 @@ export class FamilyWorkbook {
     const n = this.book.variants.length;
     // The alternate rows hold only the cells their checks read (parameters, role values, check columns).
     const altKeep = this.altRows.length > 0 ? this.altColumns() : undefined;
+    this.altKeep = altKeep;
 
     // First pass, in one call: the parameters, and the memos of the build rules and of the check parts that read
     // parameters only, so each variant's parts are known before the checks read them.
@@ -423,10 +426,9 @@ export class FamilyWorkbook {
     this.altRows = [];
     this.altRowsOf = this.book.variants.map(() => []);
     this.checkRoles = [];
-    const lines = this.layout.lineCells.map((lc) => lc.line).filter((l) => l.partId !== undefined && l.role && (l.alternates ?? []).length > 0);
+    const lines = this.alternateLines();
     if (lines.length === 0) return;
-    const roleOf = new Map<string, string>();
-    for (const [key, rn] of roleNames(this.book, this.layout.paramKeys)) if (this.layout.roleKeySet.has(key)) roleOf.set(key, rn.role);
+    const roleOf = this.roleOf();
     this.checkRoles = this.layout.checkCells.map((cc) => rolesRead(cc, this.layout, roleOf));
     const read = new Set(this.checkRoles.flatMap((s) => [...s]));
     const n = this.book.variants.length;
@@ -471,6 +473,24 @@ export class FamilyWorkbook {
       if ([...this.checkRoles[j]!].some((r) => roles.has(r))) visit(cc);
     });
     return cols;
+  }
+
+  /** Role name column keys → the role (name key) they read. */
+  private roleOf(): Map<string, string> {
+    const out = new Map<string, string>();
+    for (const [key, rn] of roleNames(this.book, this.layout.paramKeys)) if (this.layout.roleKeySet.has(key)) out.set(key, rn.role);
+    return out;
+  }
+
+  /** Fixed-part lines with a role and approved alternates: those whose alternates the checks may judge. */
+  private alternateLines(): BuildLine[] {
+    return this.layout.lineCells.map((lc) => lc.line).filter((l) => l.partId !== undefined && l.role && (l.alternates ?? []).length > 0);
+  }
+
+  /** The roles of lines with alternates that some check reads, as one text to compare. */
+  private rolesJudged(): string {
+    const read = new Set(this.checkRoles.flatMap((s) => [...s]));
+    return [...new Set(this.alternateLines().map((l) => nameKey(l.role!)))].filter((r) => read.has(r)).sort().join(' ');
   }
 
   /** Does line `lineId` give its own part, and its role, to this variant (so an alternate in its place matters)? */
@@ -628,8 +648,7 @@ export class FamilyWorkbook {
     const names = formulaNames(body);
     // A role name no check read before has no column yet.
     const newRole = names.ok && names.names.some((k) => layout.possibleRoleKeys.has(k) && !layout.roleKeySet.has(k));
-    // With alternate rows, which columns they need may change with the formula: lay the table out afresh.
-    if (cc.problem !== undefined || !c?.ok || newRole || this.altRows.length > 0) {
+    if (cc.problem !== undefined || !c?.ok || newRole) {
       // The check could not be evaluated before, or cannot now: compile the table afresh so every part of the
       // check (applies, limits) is laid out again and the result shows the reason.
       this.build();
@@ -638,9 +657,21 @@ export class FamilyWorkbook {
     cc.check = updated;
     const fc = c.cell;
     cc.cells.value = fc;
+    if (this.checkRoles.length > 0) {
+      // The alternate rows hold what the checks reading an alternate's role read: when the formula changes that,
+      // lay the table out afresh.
+      const before = { roles: this.rolesJudged(), keep: this.altKeep };
+      this.checkRoles = this.layout.checkCells.map((x) => rolesRead(x, this.layout, this.roleOf()));
+      const keep = this.altColumns();
+      const same = (a: ReadonlySet<number> | undefined, b: ReadonlySet<number>): boolean => a !== undefined && a.size === b.size && [...b].every((x) => a.has(x));
+      if (this.rolesJudged() !== before.roles || (this.altRows.length > 0 && !same(before.keep, keep))) {
+        this.build();
+        return { ok: true };
+      }
+    }
     if (this.book.variants.length > 0) {
       this.engine().setCellContents({ sheet: this.sheet, row: 0, col: fc.col }, [[valueContent(fc, 0)]]);
-      this.fillDown(fc.pieces ? [{ col: fc.col, pieces: fc.pieces }] : [], fc.col, fc.col + 1);
+      this.fillDown(fc.pieces ? [{ col: fc.col, pieces: fc.pieces }] : [], fc.col, fc.col + 1, this.altKeep);
     }
     this.rowResults = [];
     return { ok: true };

@@ -13,10 +13,11 @@ function part(id: string, mpn: string, from: Part, ratings: Record<string, numbe
   return { ...from, id, mpn, ratings: { ...from.ratings, ...ratings } };
 }
 
-/** The demo Book with its checks, the given variants only, and extra parts. */
+/** The demo Book with its checks, the given variants only, extra parts, and no approved alternates of its own. */
 function book(codes: readonly string[], extra: readonly Part[] = []): Book {
   const b = demoBook();
-  return { ...b, checks: CHECKS, variants: b.variants.filter((v) => codes.includes(v.code)), parts: [...b.parts, ...extra] };
+  const buildLines = b.buildLines.map(({ alternates: _a, ...l }) => l);
+  return { ...b, checks: CHECKS, buildLines, variants: b.variants.filter((v) => codes.includes(v.code)), parts: [...b.parts, ...extra] };
 }
 
 function result(results: readonly CheckResult[], code: string, check: string): CheckResult {
@@ -111,6 +112,26 @@ describe('checks judge every approved part', () => {
       expect(r.status).toBe('pass');
       expect(r.value).toBeCloseTo(230, 9);
       expect(result(wb.results(), 'FR3-40-CD', 'xcap_ac_stress').status).toBe('fail');
+    } finally {
+      wb.close();
+    }
+  });
+
+  it('a check formula edited in an open family is judged with every approved part again', () => {
+    const base = book(['FR6-100-CD']);
+    const weak = part('part_r_snub_1w', 'ZX-MO1W-100R', snubber(base), { p_max: 1 });
+    const wb = FamilyWorkbook.open(withAlternates(book(['FR6-100-CD'], [weak]), 'line_snub_r', ['part_r_snub_1w']));
+    try {
+      const check = wb.currentBook().checks.find((c) => c.name === 'snubber_r_loss')!;
+      expect(result(wb.results(), 'FR6-100-CD', 'snubber_r_loss').status).toBe('fail');
+      // Half the loss: 0.3986 W, under half of 1 W less the 20 % band (0.4 W) → pass on both approved parts.
+      expect(wb.setCheckFormula(check.id, `${check.formula} / 2`)).toEqual({ ok: true });
+      const r = result(wb.results(), 'FR6-100-CD', 'snubber_r_loss');
+      expect(r.value).toBeCloseTo(0.7971 / 2, 3);
+      expect(r.status).toBe('pass');
+      // Back to the sheet's formula: the weaker part fails it again.
+      expect(wb.setCheckFormula(check.id, check.formula)).toEqual({ ok: true });
+      expect(result(wb.results(), 'FR6-100-CD', 'snubber_r_loss')).toMatchObject({ status: 'fail', approvedPart: { mpn: 'ZX-MO1W-100R' } });
     } finally {
       wb.close();
     }
