@@ -67,7 +67,12 @@ export function orderDocCsv(doc: OrderDocument, o: ExportOptions = DEFAULT_EXPOR
   return { ok: true, value: exportText(orderDocRows(doc), o) };
 }
 
-/** File name of a document: our order number (or "draft") and the supplier ("TAC-7-Halvern-Component-Supply-order.csv"). */
+/**
+ * File name of a document: our order number and the supplier ("TAC-7-Halvern-Component-Supply-order.csv"); a draft
+ * names its currency too, since a supplier quoting in two currencies gets a draft for each
+ * ("draft-Kelvaro-Parts-Direct-USD-order.csv").
+ */
 export function orderDocFileName(doc: OrderDocument): string {
-  return `${fileSlug(doc.number ?? 'draft')}-${fileSlug(doc.supplier.name)}-order.csv`;
+  const currency = doc.number === undefined && doc.totals.length > 0 ? `-${fileSlug(doc.totals.map((t) => t.currency).join('-'))}` : '';
+  return `${fileSlug(doc.number ?? 'draft')}-${fileSlug(doc.supplier.name)}${currency}-order.csv`;
 }

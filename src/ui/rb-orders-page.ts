@@ -140,6 +140,9 @@ export class RbOrdersPage extends LitElement {
 
   /** The document the supplier receives: shown as they will read it, downloaded as CSV or printed. */
   private renderDocument(book: Book, o: Order) {
+    if (o.status === 'cancelled') {
+      return html`<p class="muted" data-testid="order-doc">${o.number} is cancelled: there is no order document to send.</p>`;
+    }
     const doc = orderDocumentOf(book, o);
     return html`<section class="supplier-doc" aria-labelledby="doc-h" data-testid="order-doc">
       <h3 id="doc-h">The supplier’s order document</h3>

@@ -211,6 +211,7 @@ describe('draft documents from a suggested purchase', () => {
       expect(doc.number).toBeUndefined();
       expect(doc.lines.map((l) => l.quantity)).toEqual(o.lines.map((p) => p.line.buy));
       expect(doc.totals).toEqual([{ currency: o.currency, total: o.total }]);
+      expect(orderDocFileName(doc)).toBe(`draft-${o.supplier.replace(/ /g, '-')}-${o.currency}-order.csv`);
       const csv = orderDocCsv(doc, COMMA);
       const [head, lines] = readBlocks(csv.ok ? csv.value : '');
       expect(head![0]!.slice(0, 2)).toEqual(['purchase order', DRAFT_NUMBER]);
