@@ -2,39 +2,16 @@
 // (seconds for a large family) and recomputing after an edit never hold up the page. The page sends the Book once,
 // then only what changed (a BookDelta); each answer is the FiguresUpdate of that step, posted in parts that each take
 // the page a few milliseconds to receive. The page's side is src/ui/costing-service.ts.
-import type { Book, BuildLine, Quote } from '../domain/book.ts';
+import type { Quote } from '../domain/book.ts';
 import { applyBookDelta } from '../domain/book-ops.ts';
 import type { BookDelta } from '../domain/book-ops.ts';
 import { createEngine } from './create.ts';
 import { LiveFigures, splitUpdate } from './figures.ts';
+import type { FiguresMessage, FiguresRequest, WhatIfRequest } from './figures-protocol.ts';
 import type { FiguresUpdate } from './figures.ts';
 import { trialOutcomes } from './line-trial.ts';
-import type { LineOutcome } from './line-trial.ts';
 import { WhatIfCosts } from './what-if.ts';
-import type { WhatIf, WhatIfAnswer, WhatIfWant } from './what-if.ts';
-
-/** What the Compare page asks: the chosen variants' figures with what-if edits tried on them. */
-export interface WhatIfRequest {
-  chosen: string[];
-  whatIf: WhatIf;
-  wants: WhatIfWant[];
-}
-
-export type FiguresRequest =
-  | { type: 'book'; seq: number; book: Book; staged?: boolean }
-  | { type: 'delta'; seq: number; delta: BookDelta; staged?: boolean }
-  /** Quotes of the next Book or change, sent ahead in parts (see stageQuotes); `staged` on it says to use them. */
-  | { type: 'quotes'; seq: number; quotes: Quote[] }
-  | ({ type: 'whatif'; id: number } & WhatIfRequest)
-  | { type: 'trial'; id: number; line: BuildLine };
-
-/** One part of an answer (see splitUpdate): `last` says the figures of the Book sent are complete. */
-export type FiguresMessage =
-  | { type: 'figures'; seq: number; update: FiguresUpdate; last: boolean }
-  | { type: 'failed'; seq: number; message: string }
-  | { type: 'whatif'; id: number; answer: WhatIfAnswer }
-  | { type: 'trial'; id: number; outcomes: LineOutcome[] }
-  | { type: 'refused'; id: number; message: string };
+import type { WhatIfAnswer } from './what-if.ts';
 
 /** The worker's whole job, as an object so Node tests run exactly what the worker runs. */
 export class FiguresHost {
@@ -104,32 +81,8 @@ export function warmEngine(): void {
   }
 }
 
-/** Quotes per message when a Book or change is sent in parts: each part takes the page a few ms to copy. */
-export const QUOTES_PER_PART = 4000;
-
-/**
- * A request whose quotes are many, cut into messages the page can copy a few ms at a time: the quotes go ahead in
- * parts and the request itself follows without them (`staged`). Small requests go as they are.
- */
-export function stageQuotes(request: Extract<FiguresRequest, { type: 'book' | 'delta' }>): FiguresRequest[] {
-  const quotes =
-    request.type === 'book'
-      ? request.book.quotes
-      : (() => {
-          const d = request.delta.collections.quotes;
-          return d ? ('all' in d ? d.all : d.put) : [];
-        })();
-  if (quotes.length <= QUOTES_PER_PART) return [request];
-  const parts: FiguresRequest[] = [];
-  for (let i = 0; i < quotes.length; i += QUOTES_PER_PART) parts.push({ type: 'quotes', seq: request.seq, quotes: quotes.slice(i, i + QUOTES_PER_PART) });
-  if (request.type === 'book') parts.push({ ...request, book: { ...request.book, quotes: [] }, staged: true });
-  else {
-    const d = request.delta.collections.quotes!;
-    const head = 'all' in d ? { all: [] } : { put: [], delete: d.delete };
-    parts.push({ ...request, delta: { ...request.delta, collections: { ...request.delta.collections, quotes: head } }, staged: true });
-  }
-  return parts;
-}
+export { QUOTES_PER_PART, stageQuotes } from './figures-protocol.ts';
+export type { FiguresMessage, FiguresRequest, WhatIfRequest } from './figures-protocol.ts';
 
 /** The change with the quotes sent ahead put back in. */
 function withStagedQuotes(delta: BookDelta, staged: Quote[]): BookDelta {

@@ -12,51 +12,13 @@ import type { ResolvedLine, Result } from '../domain/costing.ts';
 import { CostingWorkbook, resolutionFromFamily } from './costing.ts';
 import type { ChangedCost } from './costing.ts';
 import { FamilyWorkbook } from './family.ts';
-import type { CheckResult, VariantResolution } from './family.ts';
+import type { CheckResult } from './family.ts';
 
-/** How a catch-up brought the figures up to date. */
-export const SYNC_KINDS = {
-  /** Nothing that figures depend on changed. */
-  same: 'same',
-  /** Workbooks edited in place; `changed` lists the unit costs that moved. */
-  edited: 'edited',
-  /** Workbooks built again from the Book. */
-  rebuilt: 'rebuilt',
-  /** Sent to the figures worker; its answer arrives as a change event. */
-  pending: 'pending',
-} as const;
-export type SyncKind = (typeof SYNC_KINDS)[keyof typeof SYNC_KINDS];
+import { SYNC_KINDS } from './figures-kinds.ts';
+import type { CostingChangeDetail, FiguresUpdate, UnitCostFigure } from './figures-kinds.ts';
 
-export interface CostingChangeDetail {
-  kind: SyncKind;
-  /** Unit costs that changed (edited), or every one (rebuilt). */
-  changed: readonly ChangedCost[];
-  /** Check results were evaluated again. */
-  checks: boolean;
-}
-
-/** One unit cost as the page shows it: the value, or NaN and why. */
-export interface UnitCostFigure {
-  variantId: string;
-  run: number;
-  value: number;
-  problem?: string;
-}
-
-/** The figures of one catch-up, to be merged into what the page already holds. */
-export interface FiguresUpdate extends CostingChangeDetail {
-  runSizes: number[];
-  /** Why no unit cost can be computed at all, or undefined. */
-  costingError?: string;
-  /** Why the checks could not be evaluated, or undefined. */
-  familyError?: string;
-  /** Every unit cost (when `costsFull`) or the ones that moved. */
-  costs: UnitCostFigure[];
-  costsFull: boolean;
-  /** Check results and resolved lines of every variant (when `checksFull`) or of the variants whose checks moved. */
-  variants: { variantId: string; results: CheckResult[]; lines: VariantResolution | undefined }[];
-  checksFull: boolean;
-}
+export { SYNC_KINDS } from './figures-kinds.ts';
+export type { CostingChangeDetail, FiguresUpdate, SyncKind, UnitCostFigure } from './figures-kinds.ts';
 
 /** Cost settings the costing workbook takes live. */
 const LIVE_SETTINGS = ['labourRatePerHour', 'labourMinutesPerUnit', 'labourMinutesPerPlacement', 'testCostPerUnit', 'overheadPct', 'marginPct'] as const;

@@ -12,18 +12,28 @@ import type { Book, BuildLine } from '../domain/book.ts';
 import { bookDelta } from '../domain/book-ops.ts';
 import { CHECK_STATUS, worstOf } from '../domain/check-status.ts';
 import type { CheckStatus } from '../domain/check-status.ts';
-import { LiveFigures, SYNC_KINDS } from '../engine/figures.ts';
-import type { CostingChangeDetail, FiguresUpdate } from '../engine/figures.ts';
-import { stageQuotes } from '../engine/figures-worker.ts';
-import type { FiguresMessage, FiguresRequest, WhatIfRequest } from '../engine/figures-worker.ts';
-import { trialOutcomes } from '../engine/line-trial.ts';
+import { SYNC_KINDS } from '../engine/figures-kinds.ts';
+import type { CostingChangeDetail, FiguresUpdate } from '../engine/figures-kinds.ts';
+import type { LiveFigures } from '../engine/figures.ts';
+import { stageQuotes } from '../engine/figures-protocol.ts';
+import type { FiguresMessage, FiguresRequest, WhatIfRequest } from '../engine/figures-protocol.ts';
 import type { LineOutcome } from '../engine/line-trial.ts';
-import { WhatIfCosts } from '../engine/what-if.ts';
-import type { WhatIfAnswer } from '../engine/what-if.ts';
+import type { WhatIfAnswer, WhatIfCosts } from '../engine/what-if.ts';
 import type { CheckResult, FamilyResolution, VariantResolution } from '../engine/family.ts';
 
-export { SYNC_KINDS } from '../engine/figures.ts';
-export type { CostingChangeDetail, SyncKind } from '../engine/figures.ts';
+export { SYNC_KINDS } from '../engine/figures-kinds.ts';
+export type { CostingChangeDetail, SyncKind } from '../engine/figures-kinds.ts';
+
+/**
+ * The engines, for running in this thread where there are no Web Workers (Node: tests, the command line's twin of
+ * the app). The page has workers and never loads them here: its first view parses no formula engine.
+ */
+const inProcess = typeof Worker === 'function' ? undefined : await import('./costing-in-process.ts');
+
+function engines(): NonNullable<typeof inProcess> {
+  if (!inProcess) throw new Error('the figures are worked out in a worker here; no in-process engine was loaded');
+  return inProcess;
+}
 
 /** Where the service reads the open Book: the app's BookService, or any holder of a Book (tests, the CLI's twin). */
 export interface BookSource {
@@ -204,7 +214,7 @@ export class CostingService extends EventTarget {
     this.sync();
     if (!this.makeWorker) {
       const live = this.local!;
-      this.localWhatIfs ??= new WhatIfCosts();
+      this.localWhatIfs ??= new (engines().WhatIfCosts)();
       try {
         return Promise.resolve(this.localWhatIfs.answer(live.current!, live.linesOf(request.chosen), request.chosen, request.whatIf, request.wants));
       } catch (e) {
@@ -219,7 +229,7 @@ export class CostingService extends EventTarget {
     this.sync();
     if (!this.makeWorker) {
       try {
-        return Promise.resolve(trialOutcomes(this.local!.current!, line));
+        return Promise.resolve(engines().trialOutcomes(this.local!.current!, line));
       } catch (e) {
         return Promise.reject(e instanceof Error ? e : new Error(String(e)));
       }
@@ -260,7 +270,7 @@ export class CostingService extends EventTarget {
     const next = this.books.book;
     if (next === this.shown) return SAME;
     if (!this.makeWorker) {
-      this.local ??= new LiveFigures();
+      this.local ??= new (engines().LiveFigures)();
       const update = this.local.update(next);
       this.shown = next;
       this.take(update);

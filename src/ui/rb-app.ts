@@ -16,7 +16,6 @@ import type { NoticeDetail } from './rb-book-menu.ts';
 import type { BookActionDetail } from './rb-start-page.ts';
 import './rb-book-menu.ts';
 import './rb-mains-caution.ts';
-import './rb-user-page.ts';
 import './rb-user-page-new.ts';
 import './rb-save-state.ts';
 
@@ -24,6 +23,9 @@ type Phase =
   | { kind: 'opening' }
   | { kind: 'open'; service: BookService }
   | { kind: 'failed'; message: string; /** Set when the stored Book does not read: its records, to save and repair. */ stored?: StoredBookInvalid };
+
+/** The notebook page's code, loaded when a notebook page is first shown. */
+let notebookCode: Promise<unknown> | undefined;
 
 @customElement('rb-app')
 export class RbApp extends LitElement {
@@ -254,8 +256,10 @@ export class RbApp extends LitElement {
 
   private async open(): Promise<void> {
     try {
-      // The figures worker loads and warms up while the Book is read (and, on a first start, written).
+      // The figures worker loads and warms up while the Book is read (and, on a first start, written), and so does
+      // the code of the page asked for (show() then finds it loaded; a failure is reported there).
       warmFiguresWorker();
+      if (this.route.kind === 'page') this.route.entry.load?.().catch(() => undefined);
       const service = await BookService.open();
       // Figures are worked out off the page's thread from now on, while the first page's code still loads.
       CostingService.for(service).sync();
@@ -470,6 +474,12 @@ export class RbApp extends LitElement {
     if (route.kind === 'notebook') {
       const page = service.book.pages.find((p) => p.id === route.pageId);
       if (!page) return this.renderMissing(`No notebook page with id “${route.pageId}” in this Book.`);
+      // The notebook's code (and its formula engine) loads when a notebook page is first shown: the element
+      // upgrades once it is defined, keeping the page id set on it.
+      notebookCode ??= import('./rb-user-page.ts').catch((e: unknown) => {
+        notebookCode = undefined;
+        this.notice = { tone: 'problem', title: 'The notebook page could not be loaded', lines: [e instanceof Error ? e.message : String(e)] };
+      });
       // Keyed by the Book replacement, so a notebook page of a replaced Book starts afresh like the other pages.
       return html`${keyed(service.replacements, html`<rb-user-page .pageId=${page.id}></rb-user-page>`)}`;
     }

@@ -111,7 +111,7 @@ async function visit(page: Page, load: () => Promise<unknown>): Promise<FirstVie
   return page.evaluate(() => ({ ...(window as unknown as { __rbFirstView: FirstView }).__rbFirstView }));
 }
 
-async function firstViewFigures(context: BrowserContext, appUrl: string, quick: boolean, log: (t: string) => void): Promise<Figures> {
+export async function firstViewFigures(context: BrowserContext, appUrl: string, quick: boolean, log: (t: string) => void): Promise<Figures> {
   log('browser: first view of the Family page (fresh profile)');
   await context.addInitScript({ content: firstViewProbe(FAMILY_COST_CELLS) });
   const page = await context.newPage();
