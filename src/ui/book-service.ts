@@ -106,6 +106,11 @@ export class BookService extends EventTarget {
   openedRunId: string | undefined;
   /** Set when the last reload came from another tab's edit, so the shell can say so. */
   lastRemoteChange: Date | undefined;
+  /**
+   * Set while this person may not change the Book (a reader of a shared Book): why, for a save to refuse before
+   * anything is written. Undefined for a Book that is not shared.
+   */
+  refuseEdits: ((change: BookChange) => string | undefined) | undefined;
 
   private readonly tabId = Math.random().toString(36).slice(2);
   private channel: BroadcastChannel | undefined;
@@ -139,9 +144,8 @@ export class BookService extends EventTarget {
     let book = await store.load();
     const fresh = isFirstStart(book);
     if (fresh) {
-      book = starterBook();
-      await store.replaceAll(book);
-      book = await store.load();
+      // The Book as the store now holds it, without reading and checking it all back (the first view waits on this).
+      book = await store.replaceAll(starterBook());
     }
     service = new BookService(store, book);
     service.startedFresh = fresh;
@@ -177,6 +181,8 @@ export class BookService extends EventTarget {
    * tab, or refused, naming each field both changed and the other tab's value.
    */
   save(change: BookChange): Promise<SaveResult> {
+    const refused = this.refuseEdits?.(change);
+    if (refused) return Promise.resolve({ ok: false, message: refused, conflict: false });
     return this.enqueue(async () => {
       const { written, merged } = await this.writeMerging(change);
       // Applied in slices: a large import's copy in memory must not hold the page either.

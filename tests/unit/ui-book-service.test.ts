@@ -47,6 +47,16 @@ describe('Book service', () => {
     expect(s.book.checks.every((c) => c.builtIn)).toBe(true);
   });
 
+  it('holds on a first start the very Book a later start reads back from storage', async () => {
+    // The first start takes the Book as written instead of reading it back: the two must not differ in any record.
+    const name = `rungbook-ui-${++dbCount}`;
+    const first = await open(name);
+    expect(first.startedFresh).toBe(true);
+    const again = await open(name);
+    expect(again.startedFresh).toBe(false);
+    expect(again.book).toStrictEqual(first.book);
+  });
+
   it('keeps saved changes on the next start instead of loading the demo again', async () => {
     const name = `rungbook-ui-${++dbCount}`;
     const a = await open(name);
