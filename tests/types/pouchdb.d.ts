@@ -31,8 +31,13 @@ declare module 'pouchdb-core' {
   export interface Database {
     readonly name: string;
     put(doc: Doc): Promise<{ ok: boolean; id: string; rev: string }>;
-    get<T extends object = Doc>(id: string, options?: { rev?: string; conflicts?: boolean }): Promise<T & Doc>;
-    bulkDocs(docs: Doc[]): Promise<unknown[]>;
+    get<T extends object = Doc>(id: string, options?: { rev?: string; conflicts?: boolean; revs?: boolean }): Promise<T & Doc>;
+    /** Every leaf revision named (or all of them), each with its revision history when `revs` is set. */
+    get<T extends object = Doc>(id: string, options: { open_revs: string[] | 'all'; revs?: boolean }): Promise<{ ok?: T & Doc & Revisions; missing?: string }[]>;
+    bulkDocs(docs: Doc[]): Promise<({ ok: true; id: string; rev: string } | { error: true | string; id: string; status?: number; message?: string })[]>;
+    allDocs(options: { keys?: string[]; include_docs?: boolean; conflicts?: boolean }): Promise<{ rows: { id: string; key: string; value?: { rev: string; deleted?: boolean }; doc?: Doc | null; error?: string }[] }>;
+    changes(options: { since?: number | string; live?: boolean; include_docs?: boolean; conflicts?: boolean }): Changes;
+    close(): Promise<void>;
     info(): Promise<{ doc_count: number; update_seq: number | string }>;
     destroy(): Promise<void>;
     /** Replication both ways; `push` and `pull` hold options for one direction only. */
@@ -42,12 +47,28 @@ declare module 'pouchdb-core' {
       from(source: Database | string, options?: ReplicateOptions): Replication;
     };
   }
+  /** A revision's history: `start` is the newest generation, `ids` newest first. */
+  export interface Revisions {
+    _revisions: { start: number; ids: string[] };
+  }
+  export interface Change {
+    id: string;
+    seq: number | string;
+    deleted?: boolean;
+    doc?: Doc;
+  }
+  /** A live feed of changes to a database. */
+  export interface Changes {
+    on(event: 'change', listener: (change: Change) => void): this;
+    on(event: 'error', listener: (error: unknown) => void): this;
+    cancel(): void;
+  }
   export interface DatabaseOptions {
     adapter?: string;
     auth?: { username: string; password: string };
     skip_setup?: boolean;
   }
-  interface PouchDBConstructor {
+  export interface PouchDBConstructor {
     new (name: string, options?: DatabaseOptions): Database;
     plugin(plugin: PouchDBPlugin): PouchDBConstructor;
   }
@@ -71,6 +92,12 @@ declare module 'pouchdb-adapter-memory' {
 }
 
 declare module 'pouchdb-replication' {
+  /** A PouchDB plugin, handed to PouchDB.plugin(). */
+  const plugin: { readonly __pouchdbPlugin?: never };
+  export default plugin;
+}
+
+declare module 'pouchdb-adapter-idb' {
   /** A PouchDB plugin, handed to PouchDB.plugin(). */
   const plugin: { readonly __pouchdbPlugin?: never };
   export default plugin;

@@ -3,11 +3,9 @@
 // roles), wrong passwords refused, the shared Book kept across a restart, and a backup made by copying the stopped
 // server's data folder. Replication goes through PouchDB's own client, as the app's will.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { spawn, spawnSync } from 'node:child_process';
-import type { ChildProcess } from 'node:child_process';
 import { cpSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { join, resolve } from 'node:path';
+import { join } from 'node:path';
 import PouchDB from 'pouchdb-core';
 import type { Database } from 'pouchdb-core';
 import httpAdapter from 'pouchdb-adapter-http';
@@ -15,71 +13,15 @@ import memoryAdapter from 'pouchdb-adapter-memory';
 import replication from 'pouchdb-replication';
 import { refusal, route } from '../../scripts/team/access.ts';
 import { sampleBook } from '../fixtures/sample-book.ts';
+import { EDITOR, OWNER, READER, addPerson, call, startServer, stopAllServers, stopServer, teamCli } from '../fixtures/team-server.ts';
+import type { Person, Running } from '../fixtures/team-server.ts';
 
 PouchDB.plugin(httpAdapter).plugin(memoryAdapter).plugin(replication);
 
-const ROOT = resolve(import.meta.dirname, '../..');
-const SCRIPT = join(ROOT, 'scripts/team-server.ts');
-const OWNER = { name: 'olive', password: 'owner-pass-1234' };
-const EDITOR = { name: 'edna', password: 'editor-pass-1234' };
-const READER = { name: 'rita', password: 'reader-pass-1234' };
-type Person = typeof OWNER;
-
-interface Running {
-  proc: ChildProcess;
-  url: string;
-}
-
 let dir = '';
-const running: Running[] = [];
 
-/** Starts the team server on its own free port (--port 0) and waits for the address it prints. */
-function startServer(dataDir: string, extra: string[] = []): Promise<Running> {
-  const proc = spawn(process.execPath, ['--import', 'tsx', SCRIPT, 'start', '--data', dataDir, '--port', '0', ...extra], {
-    cwd: ROOT,
-    env: { ...process.env, RUNGBOOK_TEAM_PASSWORD: OWNER.password },
-    stdio: ['ignore', 'pipe', 'pipe'],
-  });
-  return new Promise((resolvePromise, reject) => {
-    let out = '';
-    let err = '';
-    const timer = setTimeout(() => reject(new Error(`the team server did not start within 30 s: ${out} ${err}`)), 30_000);
-    proc.stderr!.on('data', (d: Buffer) => (err += d.toString()));
-    proc.stdout!.on('data', (d: Buffer) => {
-      out += d.toString();
-      const m = /give the app this address: (http:\/\/127\.0\.0\.1:\d+\/)/.exec(out);
-      if (m) {
-        clearTimeout(timer);
-        const r = { proc, url: m[1]! };
-        running.push(r);
-        resolvePromise(r);
-      }
-    });
-    proc.once('exit', (code) => reject(new Error(`the team server stopped (${code}): ${err}`)));
-  });
-}
-
-/** Stops a server by its own pid and waits until it has exited. */
-async function stopServer(r: Running): Promise<void> {
-  if (r.proc.exitCode !== null) return;
-  const exited = new Promise((res) => r.proc.once('exit', res));
-  process.kill(r.proc.pid!, 'SIGTERM');
-  await exited;
-  running.splice(running.indexOf(r), 1);
-}
-
-function cli(args: string[], env: Record<string, string>): { status: number | null; stdout: string; stderr: string } {
-  const r = spawnSync(process.execPath, ['--import', 'tsx', SCRIPT, ...args, '--data', dir], { cwd: ROOT, env: { ...process.env, ...env }, encoding: 'utf8' });
-  return { status: r.status, stdout: r.stdout, stderr: r.stderr };
-}
-
-function auth(p: Person): Record<string, string> {
-  return { Authorization: `Basic ${Buffer.from(`${p.name}:${p.password}`).toString('base64')}`, 'Content-Type': 'application/json' };
-}
-
-async function call(url: string, p: Person, init: { method?: string; body?: unknown } = {}): Promise<{ status: number; body: Record<string, unknown> }> {
-  const res = await fetch(url, { method: init.method ?? 'GET', headers: auth(p), ...(init.body !== undefined ? { body: JSON.stringify(init.body) } : {}) });
-  return { status: res.status, body: (await res.json()) as Record<string, unknown> };
+function cli(args: string[], env: Record<string, string>): ReturnType<typeof teamCli> {
+  return teamCli(dir, args, env);
 }
 
 function remote(server: Running, p: Person): Database {
@@ -99,17 +41,14 @@ let server: Running;
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'rungbook-team-'));
   server = await startServer(dir, ['--owner', OWNER.name]);
-  const added = [
-    cli(['add-user', EDITOR.name, '--role', 'editor', '--as', OWNER.name], { RUNGBOOK_TEAM_OWNER_PASSWORD: OWNER.password, RUNGBOOK_TEAM_PASSWORD: EDITOR.password }),
-    cli(['add-user', READER.name, '--role', 'reader', '--as', OWNER.name], { RUNGBOOK_TEAM_OWNER_PASSWORD: OWNER.password, RUNGBOOK_TEAM_PASSWORD: READER.password }),
-  ];
+  const added = [addPerson(dir, EDITOR, 'editor'), addPerson(dir, READER, 'reader')];
   for (const r of added) expect(r.status, r.stderr).toBe(0);
   // The owner opens the shared Book (creating a database is an owner's step).
   expect((await call(`${server.url}book`, OWNER, { method: 'PUT' })).status).toBe(201);
 }, 90_000);
 
 afterAll(async () => {
-  for (const r of [...running]) await stopServer(r);
+  await stopAllServers();
   rmSync(dir, { recursive: true, force: true });
 });
 

@@ -1,0 +1,414 @@
+// A shared Book: the local Book (its store and BookService stay the one source while working) beside a replica kept
+// by the sync engine (PouchDB), replicated with the team's server. Every save of the Book is written to the replica;
+// every document that arrives is checked against the Book schema and saved into the Book through the same save path
+// as a person's edit, so undo, other tabs and the figures follow. Versions two people made apart are merged field by
+// field (domain/share-merge.ts); a field both changed waits for a person, with both values. The engine is loaded
+// only here, by dynamic import, so a Book that is not shared never loads it.
+import type { Book, CollectionName } from '../domain/book.ts';
+import { COLLECTIONS } from '../domain/book.ts';
+import { bookDelta } from '../domain/book-ops.ts';
+import type { BookChange } from '../domain/book-ops.ts';
+import { chooseValue, mergeAllVersions, stillOpen } from '../domain/share-merge.ts';
+import type { OpenField, SharedVersion } from '../domain/share-merge.ts';
+import type { Database, Doc, PouchDBConstructor, Replication } from 'pouchdb-core';
+import { MERGES_PREFIX, checkRecordDoc, changeForDocs, docsForChange, placeOfDoc } from './shared-docs.ts';
+import type { CheckedDoc, DocProblem, MergeDoc, MergeNote, RecordDoc } from './shared-docs.ts';
+
+/** The Book side of the bridge: what BookService offers (its Book, its save path, its change events). */
+export interface BookSide extends EventTarget {
+  readonly book: Book;
+  save(change: BookChange): Promise<{ ok: true; merged?: string } | { ok: false; message: string; conflict: boolean }>;
+  /** Set by the bridge while the person may not change the shared Book (a reader): why, for any save not its own. */
+  refuseEdits: ((change: BookChange) => string | undefined) | undefined;
+}
+
+export type TeamRole = 'owner' | 'editor' | 'reader';
+
+export interface ShareTarget {
+  /** The team server's address, ending in `/`: `http://127.0.0.1:5990/`. */
+  server: string;
+  /** The shared Book's name on the server. */
+  book: string;
+  user: string;
+  password: string;
+}
+
+export type ShareState = 'offline' | 'syncing' | 'synced' | 'stopped';
+
+export interface ShareStatus {
+  state: ShareState;
+  role: TeamRole | undefined;
+  /** Local changes written to the replica and not yet confirmed by the server. */
+  waiting: number;
+  /** Records with fields both people changed, waiting for a person. */
+  conflicts: number;
+  /** Shared documents not let into the Book, with their place and why. */
+  problems: DocProblem[];
+  /** The last refusal or failure from the server, in its words. */
+  error?: string;
+}
+
+/** A field kept for a person to decide, with the record it belongs to. */
+export interface OpenConflict {
+  docId: string;
+  field: OpenField;
+  note: MergeNote;
+}
+
+export interface ShareBridgeOptions {
+  side: BookSide;
+  target: ShareTarget;
+  /** Name of the replica's own database (one per Book). */
+  replicaName: string;
+  /** The sync engine with its adapters; loaded on first use when not given (tests pass one with a memory adapter). */
+  engine?: PouchDBConstructor;
+  /** The replica's adapter, when not the engine's default. */
+  adapter?: string;
+  now?: () => Date;
+}
+
+/** Loads the sync engine for the browser: core, IndexedDB replica, the server over HTTP, replication. */
+export async function loadShareEngine(): Promise<PouchDBConstructor> {
+  const [core, idb, http, replication] = await Promise.all([
+    import('pouchdb-core'),
+    import('pouchdb-adapter-idb'),
+    import('pouchdb-adapter-http'),
+    import('pouchdb-replication'),
+  ]);
+  return core.default.plugin(idb.default).plugin(http.default).plugin(replication.default);
+}
+
+function basicAuth(t: ShareTarget): string {
+  const bytes = new TextEncoder().encode(`${t.user}:${t.password}`);
+  return `Basic ${btoa(String.fromCharCode(...bytes))}`;
+}
+
+async function serverReason(res: Response): Promise<string> {
+  try {
+    const body = (await res.json()) as { reason?: unknown };
+    if (typeof body.reason === 'string') return body.reason;
+  } catch {
+    // not JSON: the status says enough
+  }
+  return `the server answered ${res.status} ${res.statusText}`;
+}
+
+/** Asks the team server who it takes the person for. Refuses with the server's reason. */
+export async function askRole(t: ShareTarget): Promise<TeamRole> {
+  const res = await fetch(`${t.server}_team/me`, { headers: { Authorization: basicAuth(t) } });
+  if (!res.ok) throw new Error(`The team server did not accept ${t.user}: ${await serverReason(res)}`);
+  const role = ((await res.json()) as { role?: unknown }).role;
+  if (role !== 'owner' && role !== 'editor' && role !== 'reader') throw new Error('The team server gave no role for this person.');
+  return role;
+}
+
+/** Creates the shared Book on the server (an owner's step). */
+export async function createSharedBook(t: ShareTarget): Promise<void> {
+  const res = await fetch(`${t.server}${encodeURIComponent(t.book)}`, { method: 'PUT', headers: { Authorization: basicAuth(t) } });
+  if (!res.ok && res.status !== 412) throw new Error(`The shared Book was not created: ${await serverReason(res)}`);
+}
+
+function isMissing(e: unknown): boolean {
+  return (e as { status?: number } | null)?.status === 404;
+}
+
+/** The revision ids of a revision's history, newest first. */
+function history(doc: { _revisions: { start: number; ids: string[] } }): string[] {
+  return doc._revisions.ids.map((h, i) => `${doc._revisions.start - i}-${h}`);
+}
+
+export class ShareBridge extends EventTarget {
+  status: ShareStatus = { state: 'stopped', role: undefined, waiting: 0, conflicts: 0, problems: [] };
+  private replica!: Database;
+  private remote!: Database;
+  private seen: Book;
+  private live: Replication | undefined;
+  private feed: { cancel(): void } | undefined;
+  /** Local work in order: pushes of saves, incoming documents, merges. */
+  private work: Promise<unknown> = Promise.resolve();
+  private readonly own = new WeakSet<BookChange>();
+  private readonly onBook = (ev: Event) => {
+    if ((ev as CustomEvent<{ what: string }>).detail?.what === 'book') this.queue(() => this.pushLocal());
+  };
+  private readonly now: () => Date;
+
+  private constructor(private readonly o: ShareBridgeOptions) {
+    super();
+    this.seen = o.side.book;
+    this.now = o.now ?? (() => new Date());
+  }
+
+  /** Opens the replica beside the Book and asks the server for the person's role; nothing replicates yet. */
+  static async open(o: ShareBridgeOptions): Promise<ShareBridge> {
+    const bridge = new ShareBridge(o);
+    const Engine = o.engine ?? (await loadShareEngine());
+    bridge.replica = new Engine(o.replicaName, o.adapter ? { adapter: o.adapter } : {});
+    bridge.remote = new Engine(`${o.target.server}${encodeURIComponent(o.target.book)}`, {
+      auth: { username: o.target.user, password: o.target.password },
+      skip_setup: true,
+    });
+    bridge.status.role = await askRole(o.target);
+    if (bridge.status.role === 'reader') {
+      const message = `${o.target.user} is a reader of this shared Book: readers may read and export it but not change it. Nothing was saved.`;
+      o.side.refuseEdits = (change) => (bridge.own.has(change) ? undefined : message);
+    }
+    o.side.addEventListener('change', bridge.onBook);
+    bridge.feed = bridge.replica
+      .changes({ since: 'now', live: true, include_docs: true, conflicts: true })
+      .on('change', (c) => bridge.queue(() => bridge.takeIn([c.id])));
+    return bridge;
+  }
+
+  get who(): string {
+    return this.o.target.user;
+  }
+
+  /** Writes the whole Book into the replica (sharing a Book for the first time). */
+  shareWholeBook(): Promise<void> {
+    return this.queue(async () => {
+      const empty = { ...this.seen };
+      for (const c of COLLECTIONS) (empty as Record<CollectionName, unknown[]>)[c] = [];
+      this.seen = { ...empty, settings: { ...this.seen.settings, rev: -1 } };
+      await this.pushLocal();
+    });
+  }
+
+  /** Replicates with the server, both ways (pull only for a reader), and keeps at it until `stop()`. */
+  start(): void {
+    if (this.live) return;
+    const opts = { live: true, retry: true };
+    const rep = this.status.role === 'reader' ? this.replica.replicate.from(this.remote, opts) : this.replica.sync(this.remote, opts);
+    this.live = rep;
+    this.setState('syncing');
+    rep.on('paused', (err: unknown) => {
+      if (err) return this.setState('offline', describe(err));
+      this.status.waiting = 0;
+      this.setState('synced');
+    });
+    rep.on('active', () => this.setState('syncing'));
+    rep.on('denied', (err: unknown) => this.setState(this.status.state, describe(err)));
+    rep.on('error', (err: unknown) => this.setState('offline', describe(err)));
+  }
+
+  /** Stops replicating (offline on purpose); local edits go on into the Book and the replica. */
+  stop(): void {
+    this.live?.cancel();
+    this.live = undefined;
+    this.setState('offline');
+  }
+
+  /** Resolves when everything queued so far (pushes, incoming documents, merges) is done. */
+  settled(): Promise<unknown> {
+    return this.queue(async () => undefined);
+  }
+
+  /** Fields kept for a person to decide, across the shared Book. */
+  async openConflicts(): Promise<OpenConflict[]> {
+    const all = await this.replica.allDocs({ include_docs: true });
+    const out: OpenConflict[] = [];
+    const listed = new Set<string>();
+    for (const row of all.rows) {
+      if (!row.id.startsWith(MERGES_PREFIX) || !row.doc) continue;
+      const m = row.doc as unknown as MergeDoc;
+      const record = await this.replica.get<RecordDoc>(m.about).catch(() => undefined);
+      if (!record) continue;
+      for (const note of m.notes) {
+        if (note.decided) continue;
+        for (const field of note.open) {
+          const key = `${m.about}\u0000${JSON.stringify(field.path)}`;
+          if (!stillOpen(record.record, field) || listed.has(key)) continue;
+          listed.add(key);
+          out.push({ docId: m.about, field, note });
+        }
+      }
+    }
+    return out;
+  }
+
+  /** A person's choice for an open field: saved into the Book (and so shared), the note marked decided. */
+  async choose(conflict: OpenConflict, value: unknown): Promise<{ ok: true } | { ok: false; message: string }> {
+    const place = placeOfDoc(conflict.docId);
+    const doc = await this.replica.get<RecordDoc>(conflict.docId);
+    const checked = checkRecordDoc({ ...doc, record: chooseValue(doc.record, conflict.field, value) });
+    if (!checked.ok || !place) return { ok: false, message: `That value does not fit the record: ${checked.ok ? 'unknown place' : checked.problems.map((p) => `${p.place}: ${p.message}`).join('; ')}` };
+    const change = changeForDocs(this.o.side.book, [{ deleted: false, checked }]);
+    if (change) {
+      const saved = await this.o.side.save(change);
+      if (!saved.ok) return { ok: false, message: saved.message };
+    }
+    await this.queue(async () => {
+      const m = await this.replica.get<MergeDoc>(`${MERGES_PREFIX}${conflict.docId}`);
+      const at = this.now().toISOString();
+      // Two copies may have noted the same field: the choice decides it in every note.
+      const same = JSON.stringify(conflict.field.path);
+      const notes = m.notes.map((n) => (!n.decided && n.open.some((f) => JSON.stringify(f.path) === same) ? { ...n, decided: { by: this.who, at } } : n));
+      await this.replica.bulkDocs([{ ...m, notes } as unknown as Doc]);
+    });
+    await this.countConflicts();
+    return { ok: true };
+  }
+
+  close(): void {
+    this.stop();
+    this.feed?.cancel();
+    this.o.side.removeEventListener('change', this.onBook);
+    this.o.side.refuseEdits = undefined;
+    this.setState('stopped');
+  }
+
+  private queue<T>(step: () => Promise<T>): Promise<T> {
+    const run = this.work.then(step);
+    this.work = run.catch((e: unknown) => this.setState(this.status.state, describe(e)));
+    return run;
+  }
+
+  private setState(state: ShareState, error?: string): void {
+    const { error: _old, ...rest } = this.status;
+    this.status = { ...rest, state, ...(error ? { error } : {}) };
+    this.dispatchEvent(new CustomEvent('change'));
+  }
+
+  /** Writes to the replica what changed in the Book since last seen (saves here, in another tab, or taken in). */
+  private async pushLocal(): Promise<void> {
+    const next = this.o.side.book;
+    const delta = bookDelta(this.seen, next);
+    this.seen = next;
+    if (this.status.role === 'reader') return;
+    const puts: { collection: CollectionName | 'settings'; record: { id?: string; rev: number } }[] = [];
+    const deletes: { collection: CollectionName; id: string }[] = [];
+    for (const c of COLLECTIONS) {
+      const d = delta.collections[c];
+      if (!d) continue;
+      const list = ('all' in d ? d.all : d.put) as { id: string; rev: number }[];
+      for (const record of list) puts.push({ collection: c, record });
+      if (!('all' in d)) for (const id of d.delete) deletes.push({ collection: c, id });
+    }
+    if (delta.settings) puts.push({ collection: 'settings', record: delta.settings });
+    if (puts.length === 0 && deletes.length === 0) return;
+    const ids = [...puts.map((p) => (p.collection === 'settings' ? 'settings' : `${p.collection}/${(p.record as { id: string }).id}`)), ...deletes.map((d) => `${d.collection}/${d.id}`)];
+    const held = new Map<string, RecordDoc>();
+    const rows = await this.replica.allDocs({ keys: ids, include_docs: true });
+    for (const row of rows.rows) if (row.doc) held.set(row.id, row.doc as unknown as RecordDoc);
+    const docs = docsForChange(puts, deletes, held, this.who, this.now().toISOString());
+    if (docs.length === 0) return;
+    const results = await this.replica.bulkDocs(docs as unknown as Doc[]);
+    this.status.waiting += results.filter((r) => 'ok' in r).length;
+    this.dispatchEvent(new CustomEvent('change'));
+  }
+
+  /** Takes documents that changed in the replica into the Book: merged first when they hold conflicting versions. */
+  private async takeIn(ids: readonly string[]): Promise<void> {
+    const rows = await this.replica.allDocs({ keys: [...ids], include_docs: true, conflicts: true });
+    const incoming: ({ deleted: false; checked: Extract<CheckedDoc, { ok: true }> } | { deleted: true; docId: string })[] = [];
+    let merges = false;
+    for (const row of rows.rows) {
+      if (row.id.startsWith(MERGES_PREFIX)) {
+        merges = true;
+        if (row.doc?._conflicts?.length) await this.mergeNotes(row.id);
+        continue;
+      }
+      if (!placeOfDoc(row.id)) continue;
+      if (row.value?.deleted) {
+        incoming.push({ deleted: true, docId: row.id });
+        continue;
+      }
+      if (!row.doc) continue;
+      if (row.doc._conflicts?.length) {
+        await this.mergeVersions(row.id);
+        continue; // the merged version arrives as a change of its own
+      }
+      const checked = checkRecordDoc(row.doc);
+      this.status.problems = this.status.problems.filter((p) => !p.place.startsWith(`${row.id} `) && p.place !== row.id);
+      if (!checked.ok) {
+        this.status.problems.push(...checked.problems);
+        this.dispatchEvent(new CustomEvent('change'));
+        continue;
+      }
+      incoming.push({ deleted: false, checked });
+    }
+    if (merges) await this.countConflicts();
+    const change = changeForDocs(this.o.side.book, incoming);
+    if (!change) return;
+    this.own.add(change);
+    const saved = await this.o.side.save(change);
+    if (!saved.ok) {
+      // A person's save landed in between: take the documents in again from the Book as it is now.
+      const retry = changeForDocs(this.o.side.book, incoming);
+      if (retry) {
+        this.own.add(retry);
+        const again = await this.o.side.save(retry);
+        if (!again.ok) this.setState(this.status.state, again.message);
+      }
+    }
+  }
+
+  /** Merges the conflicting versions of a record against the version each shares with the kept one. */
+  private async mergeVersions(id: string): Promise<void> {
+    const kept = await this.replica.get<RecordDoc>(id, { conflicts: true, revs: true });
+    const others = kept._conflicts ?? [];
+    if (others.length === 0) return;
+    const leaves = await this.replica.get<RecordDoc>(id, { open_revs: others, revs: true });
+    const keptHistory = new Set(history(kept as unknown as { _revisions: { start: number; ids: string[] } }));
+    const versions: { version: SharedVersion; base: Record<string, unknown> | undefined; rev: string }[] = [];
+    const bad: DocProblem[] = [];
+    for (const leaf of leaves) {
+      const doc = leaf.ok;
+      if (!doc || doc._deleted) continue;
+      const checked = checkRecordDoc(doc);
+      if (!checked.ok) bad.push(...checked.problems);
+      const common = history(doc).find((r) => keptHistory.has(r));
+      const baseDoc = common ? await this.replica.get<RecordDoc>(id, { rev: common }).catch((e: unknown) => (isMissing(e) ? undefined : Promise.reject(e))) : undefined;
+      versions.push({ version: { record: doc.record, by: doc.by, at: doc.at, rev: doc._rev! }, base: baseDoc?.record, rev: doc._rev! });
+    }
+    if (bad.length) {
+      // A version that does not read as a record is not merged into the Book: it stays in the shared copy, named.
+      this.status.problems.push(...bad);
+      this.dispatchEvent(new CustomEvent('change'));
+    }
+    const merged = mergeAllVersions({ record: kept.record, by: kept.by, at: kept.at, rev: kept._rev! }, versions);
+    const at = this.now().toISOString();
+    const noteId = `${MERGES_PREFIX}${id}`;
+    const note = await this.replica.get<MergeDoc>(noteId).catch((e: unknown) => (isMissing(e) ? undefined : Promise.reject(e)));
+    const docs: Doc[] = [
+      { _id: id, _rev: kept._rev!, record: merged.record, by: this.who, at, bookVersion: kept.bookVersion },
+      ...leaves.filter((l) => l.ok && !l.ok._deleted).map((l) => ({ _id: id, _rev: l.ok!._rev!, _deleted: true })),
+    ];
+    if (merged.taken.length || merged.open.length) {
+      const entry: MergeNote = { at, by: this.who, taken: merged.taken, open: merged.open };
+      docs.push({ _id: noteId, ...(note ? { _rev: note._rev! } : {}), about: id, notes: [...(note?.notes ?? []), entry] });
+    }
+    await this.replica.bulkDocs(docs);
+  }
+
+  /** Two copies noted merges of one record at once: every note of each kept, once. */
+  private async mergeNotes(id: string): Promise<void> {
+    const { _conflicts: others, ...kept } = await this.replica.get<MergeDoc>(id, { conflicts: true });
+    const leaves = await this.replica.get<MergeDoc>(id, { open_revs: others ?? [] });
+    const notes = [...kept.notes];
+    const key = (n: MergeNote) => JSON.stringify([n.at, n.by, n.taken, n.open]);
+    const have = new Set(notes.map(key));
+    for (const l of leaves) {
+      for (const n of l.ok?.notes ?? []) {
+        if (have.has(key(n))) continue;
+        have.add(key(n));
+        notes.push(n);
+      }
+    }
+    await this.replica.bulkDocs([
+      { ...kept, notes } as unknown as Doc,
+      ...leaves.filter((l) => l.ok && !l.ok._deleted).map((l) => ({ _id: id, _rev: l.ok!._rev!, _deleted: true })),
+    ]);
+  }
+
+  private async countConflicts(): Promise<void> {
+    this.status.conflicts = new Set((await this.openConflicts()).map((c) => c.docId)).size;
+    this.dispatchEvent(new CustomEvent('change'));
+  }
+}
+
+function describe(e: unknown): string {
+  const x = e as { reason?: unknown; message?: unknown; status?: unknown } | null;
+  if (typeof x?.reason === 'string') return x.reason;
+  if (typeof x?.message === 'string') return x.message;
+  return String(e);
+}
