@@ -4,6 +4,7 @@
 import { LitElement, css, html } from 'lit';
 import { customElement, property } from 'lit/decorators.js';
 import { DEFAULT_EXPORT_OPTIONS, exportOptionsProblem } from '../io/csv-write.ts';
+import { ruledControlStyles } from './styles.ts';
 import type { DecimalStyle, DelimiterName, ExportOptions } from '../io/csv-write.ts';
 
 const DELIMITER_WORDS: Record<DelimiterName, string> = { comma: 'comma ,', semicolon: 'semicolon ;', tab: 'tab' };
@@ -23,15 +24,7 @@ export const choiceStyles = css`
     color: var(--rb-accent-ink);
     text-align: right;
   }
-  .choices select,
-  .choices input[type='text'] {
-    font: inherit;
-    font-size: 0.9rem;
-    padding: 0.2rem 0.35rem;
-    border: 1px solid var(--rb-rule);
-    border-bottom: 2px solid var(--rb-ink);
-    background: var(--rb-paper);
-  }
+  ${ruledControlStyles(".choices select, .choices input[type='text']", { form: true, ink: false })}
   .choices .hint {
     font-size: 0.8rem;
     color: var(--rb-na);

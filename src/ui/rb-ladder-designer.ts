@@ -13,7 +13,7 @@ import { MAX_STEPS } from '../domain/params.ts';
 import { formatValue } from '../domain/units.ts';
 import { resolveFamily } from '../engine/family.ts';
 import { BookController } from './book-context.ts';
-import { pageStyles } from './styles.ts';
+import { pageStyles, ruledControlStyles } from './styles.ts';
 
 type Mode = 'spread' | 'list';
 
@@ -90,15 +90,7 @@ export class RbLadderDesigner extends LitElement {
         font-size: 0.78rem;
         color: var(--rb-accent-ink);
       }
-      .controls input[type='text'],
-      .controls select {
-        font: inherit;
-        font-size: 0.88rem;
-        padding: 0.15rem 0.3rem;
-        border: 1px solid var(--rb-rule);
-        border-bottom: 2px solid var(--rb-ink);
-        background: var(--rb-paper);
-      }
+      ${ruledControlStyles(".controls input[type='text'], .controls select", { ink: false })}
       .controls input[aria-invalid='true'] {
         border-bottom-color: var(--rb-fail);
         background: var(--rb-fail-bg);

@@ -13,7 +13,7 @@ import { BookController } from './book-context.ts';
 import { PAGES } from './pages.ts';
 import { notebookPageProblem } from './record-forms.ts';
 import type { NameHint } from './rb-formula-input.ts';
-import { pageStyles } from './styles.ts';
+import { pageStyles, ruledControlStyles } from './styles.ts';
 import './rb-formula-input.ts';
 import './rb-mains-caution.ts';
 
@@ -190,15 +190,7 @@ export class RbUserPage extends LitElement {
         color: var(--rb-accent-ink);
         text-align: right;
       }
-      form.section-edit input,
-      form.section-edit textarea {
-        font: inherit;
-        font-size: 0.9rem;
-        padding: 0.2rem 0.35rem;
-        border: 1px solid var(--rb-rule);
-        border-bottom: 2px solid var(--rb-ink);
-        background: var(--rb-paper);
-      }
+      ${ruledControlStyles('form.section-edit input, form.section-edit textarea', { form: true, ink: false })}
       .problem::before {
         content: '✗ ';
         font-weight: 700;

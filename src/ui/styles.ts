@@ -148,18 +148,7 @@ export const pageStyles = css`
     content: '✗ ';
     font-weight: 700;
   }
-  form.record input,
-  form.record select,
-  form.record textarea {
-    font: inherit;
-    font-size: 0.9rem;
-    padding: 0.2rem 0.35rem;
-    border: 1px solid var(--rb-rule);
-    border-bottom: 2px solid var(--rb-ink);
-    background: var(--rb-paper);
-    color: var(--rb-ink);
-    min-width: 0;
-  }
+  ${ruledControlStyles('form.record input, form.record select, form.record textarea', { form: true, shrink: true })}
   form.record input[aria-invalid='true'],
   form.record select[aria-invalid='true'] {
     border-bottom-color: var(--rb-fail);
@@ -211,17 +200,17 @@ export const disabledButtonStyles = css`
 `;
 
 /**
- * The small ruled control used outside record forms: a rule under it in ink, paper behind it. The selector names which
- * controls take it, since each element places them differently; the options keep each page's own look: its side
- * padding, whether its text takes the ink colour, and whether it may shrink in a grid cell.
+ * The ruled control: a rule under it in ink, paper behind it. The selector names which controls take it, since each
+ * element places them differently; the options keep each place's own look: its side padding, whether its text takes
+ * the ink colour, whether it may shrink in a grid cell, and the larger size of forms (`form`: 0.9rem text, more room).
  */
-export function ruledControlStyles(selector: string, o: { padX?: string; ink?: boolean; shrink?: boolean } = {}): CSSResult {
-  const { padX = '0.3rem', ink = true, shrink = false } = o;
+export function ruledControlStyles(selector: string, o: { padX?: string; ink?: boolean; shrink?: boolean; form?: boolean } = {}): CSSResult {
+  const { padX = o.form ? '0.35rem' : '0.3rem', ink = true, shrink = false } = o;
   return css`
     ${unsafeCSS(selector)} {
       font: inherit;
-      font-size: 0.88rem;
-      padding: 0.15rem ${unsafeCSS(padX)};
+      font-size: ${unsafeCSS(o.form ? '0.9rem' : '0.88rem')};
+      padding: ${unsafeCSS(o.form ? '0.2rem' : '0.15rem')} ${unsafeCSS(padX)};
       border: 1px solid var(--rb-rule);
       border-bottom: 2px solid var(--rb-ink);
       background: var(--rb-paper);
