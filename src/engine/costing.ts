@@ -676,7 +676,7 @@ export class CostingWorkbook {
     const changes = this.hf.setCellContents({ sheet: this.sheet.quotes, row: at.row, col: QUOTE_ROW_HEAD + 1 + 2 * breakIndex }, price);
     this.quotes.get(quoteId)!.breaks[breakIndex]!.price = price;
     this.ctxCache = undefined;
-    return { ok: true, value: this.changedCosts(changes) };
+    return { ok: true, value: [...this.changedCosts(changes), ...this.chooseAgain()] };
   }
 
   /** Sets the base-currency value of one unit of a currency; returns the unit costs that changed. */
@@ -688,7 +688,25 @@ export class CostingWorkbook {
     const changes = this.hf.setCellContents({ sheet: this.sheet.rates, row, col: 1 }, rate);
     this.rates = { ...this.rates, [currency]: rate };
     this.ctxCache = undefined;
-    return { ok: true, value: this.changedCosts(changes) };
+    return { ok: true, value: [...this.changedCosts(changes), ...this.chooseAgain()] };
+  }
+
+  /**
+   * After a price or rate edit: the variants that fit a line with approved alternates choose among them again (the
+   * cheapest may be another part now), as a workbook opened afresh would. Rows with overridden figures keep theirs.
+   */
+  private chooseAgain(): ChangedCost[] {
+    const choosing = new Set(this.book.buildLines.filter((l) => l.partId !== undefined && (l.alternates ?? []).length > 0).map((l) => l.id));
+    if (choosing.size === 0) return [];
+    const lines = new Map<string, readonly ResolvedLine[]>();
+    for (const [id, resolved] of this.resolution) {
+      const row = this.variantRow.get(id);
+      if (row === undefined || this.expanded.has(row)) continue;
+      if (resolved.some((l) => choosing.has(l.lineId) && l.applies)) lines.set(id, resolved);
+    }
+    if (lines.size === 0) return [];
+    const r = this.relineVariants(lines);
+    return r.ok ? r.value : [];
   }
 
   private key(a: SimpleCellAddress): string {

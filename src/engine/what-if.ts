@@ -122,7 +122,14 @@ export class WhatIfCosts {
     const ids = new Set(chosen);
     const variants = book.variants.filter((v) => ids.has(v.id) && lines.has(v.id));
     const parts = new Set<string>();
-    for (const v of variants) for (const l of lines.get(v.id)!) if (l.partId !== undefined) parts.add(l.partId);
+    const buildLines = new Map(book.buildLines.map((l) => [l.id, l] as const));
+    for (const v of variants) {
+      for (const l of lines.get(v.id)!) {
+        if (l.partId !== undefined) parts.add(l.partId);
+        // A line's approved alternates may be bought instead of its part: their quotes take part too.
+        for (const id of buildLines.get(l.lineId)?.alternates ?? []) parts.add(id);
+      }
+    }
     const quotes = book.quotes.filter((q) => parts.has(q.partId));
     this.holds = new Set(quotes.map((q) => q.id));
     this.wb = CostingWorkbook.open({ ...book, variants, quotes }, new Map(variants.map((v) => [v.id, lines.get(v.id)!] as const)));

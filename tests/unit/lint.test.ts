@@ -112,7 +112,8 @@ describe('layer rules (eslint.config.js)', () => {
     const pair = readdirSync(domain)
       .filter((n) => n.endsWith('.ts'))
       .flatMap((from) => {
-        const to = /^import [^']*'\.\/([\w-]+\.ts)';$/m.exec(readFileSync(join(domain, from), 'utf8'))?.[1];
+        // A value import: a type-only import makes no cycle at run time, and the rule leaves it be.
+        const to = /^import (?!type )[^']*'\.\/([\w-]+\.ts)';$/m.exec(readFileSync(join(domain, from), 'utf8'))?.[1];
         return to ? [{ from, to }] : [];
       })[0];
     expect(pair, 'a domain file importing a sibling').toBeDefined();
