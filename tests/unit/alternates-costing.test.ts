@@ -104,6 +104,23 @@ describe('costing chooses among approved parts', () => {
     }
   });
 
+  it('a live price edit lets the line choose again, as a workbook opened afresh does', () => {
+    const b = book();
+    const sized = { ...b, settings: { ...b.settings, runSizes: [100] } };
+    const wb = value(CostingWorkbook.open(sized, resolutionFromFamily(resolveFamily(b))));
+    try {
+      // The €0.20 part goes up to €0.50: the own part at €0.30 is now the cheapest approved.
+      value(wb.setQuotePrice('qb', 0, 0.5));
+      expect(capLine(value(wb.costedBom('v1', 100))).partId).toBe('cap_a');
+      const edited = { ...sized, quotes: sized.quotes.map((q) => (q.id === 'qb' ? { ...q, breaks: [{ qty: 1, price: 0.5 }] } : q)) };
+      const fresh = value(CostingWorkbook.open(edited, resolutionFromFamily(resolveFamily(edited))));
+      expect(wb.unitCost('v1', 100)).toBe(fresh.unitCost('v1', 100));
+      fresh.close();
+    } finally {
+      wb.close();
+    }
+  });
+
   it("a run's costing uses its date wanted, and the costed BOM export names the part and why", () => {
     const b = book();
     const run: Run = { id: 'run1', rev: 1, name: 'June run', variantId: 'v1', quantity: 100, dateWanted: '2025-06-08', notes: '' };
