@@ -2,14 +2,15 @@
 // built index.html as a meta tag; scripts/serve.mjs sends it, with the parts only a header can carry, on every
 // response. Keep both reading from here so they cannot drift apart.
 
-/** The page's Content-Security-Policy: no inline script, no remote origin, no plugins, no forms. */
+/** The page's Content-Security-Policy: no inline script, no remote origin but a team's sync server, no plugins, no forms. */
 export const CONTENT_SECURITY_POLICY = [
   "default-src 'self'",
   "script-src 'self'",
   "style-src 'self' 'unsafe-inline'",
   "img-src 'self' data: blob:",
   "worker-src 'self' blob:",
-  "connect-src 'self'",
+  // A shared Book's sync server: on this machine (the team server listens on loopback), or anywhere over TLS.
+  "connect-src 'self' http://127.0.0.1:* http://localhost:* https:",
   "object-src 'none'",
   "base-uri 'none'",
   "form-action 'none'",

@@ -142,6 +142,13 @@ export const PAGES: readonly PageEntry[] = [
     tag: 'rb-settings-page',
     load: () => import('./rb-settings-page.ts'),
   },
+  {
+    slug: 'team',
+    title: 'Team',
+    blurb: 'Share this Book with your team through a sync server, see what is synced, and resolve changes made apart.',
+    tag: 'rb-sharing-page',
+    load: () => import('./rb-sharing-page.ts'),
+  },
 ];
 
 /**
