@@ -78,6 +78,9 @@ export async function loadShareEngine(): Promise<PouchDBConstructor> {
   return core.default.plugin(idb.default).plugin(http.default).plugin(replication.default);
 }
 
+/** Documents read from the replica at once when taking in what it holds. */
+const TAKE_IN_BATCH = 2000;
+
 function basicAuth(t: ShareTarget): string {
   const bytes = new TextEncoder().encode(`${t.user}:${t.password}`);
   return `Basic ${btoa(String.fromCharCode(...bytes))}`;
@@ -176,6 +179,8 @@ export class ShareBridge extends EventTarget {
   /** Replicates with the server, both ways (pull only for a reader), and keeps at it until `stop()`. */
   start(): void {
     if (this.live) return;
+    // What the replica already holds (kept from an earlier session in this browser) reaches the Book first.
+    void this.queue(() => this.takeInHeld());
     const opts = { live: true, retry: true };
     const rep = this.status.role === 'reader' ? this.replica.replicate.from(this.remote, opts) : this.replica.sync(this.remote, opts);
     this.live = rep;
@@ -294,6 +299,12 @@ export class ShareBridge extends EventTarget {
     const results = await this.replica.bulkDocs(docs as unknown as Doc[]);
     this.status.waiting += results.filter((r) => 'ok' in r).length;
     this.dispatchEvent(new CustomEvent('change'));
+  }
+
+  /** Takes every document the replica holds into the Book (only those that differ from it are saved). */
+  private async takeInHeld(): Promise<void> {
+    const ids = (await this.replica.allDocs({})).rows.map((r) => r.id);
+    for (let i = 0; i < ids.length; i += TAKE_IN_BATCH) await this.takeIn(ids.slice(i, i + TAKE_IN_BATCH));
   }
 
   /** Takes documents that changed in the replica into the Book: merged first when they hold conflicting versions. */
