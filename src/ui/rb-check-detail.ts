@@ -268,12 +268,20 @@ export class RbCheckDetail extends LitElement {
     }
     const unit = ratingUnit(part, input.rating);
     const figure = input.rating === 'value' ? part.value : ownValue(part.ratings, input.rating);
+    // The line's approved alternates are judged too: their figures, so the weaker one is seen beside the own part.
+    const alternates = (input.line.alternates ?? []).flatMap((id) => {
+      const alt = this.books.book?.parts.find((p) => p.id === id);
+      if (!alt) return [];
+      const f = input.rating === 'value' ? alt.value : ownValue(alt.ratings, input.rating);
+      return [`${alt.mpn} ${f === undefined ? 'not set' : valueText(f, unit)}`];
+    });
+    const judged = alternates.length > 0 ? `; approved alternates, judged too: ${alternates.join(', ')}` : '';
     return this.renderField({
       kind: 'rating',
       name: input.key,
       key: `${part.id}\u0000${input.rating}`,
       shown: valueText(figure, unit),
-      hint: `${input.rating} of part ${part.mpn} (line ${lineName(input.line)})${figure === undefined ? ', not set' : ''}: a change edits the part, for every variant and line that use it`,
+      hint: `${input.rating} of part ${part.mpn} (line ${lineName(input.line)})${figure === undefined ? ', not set' : ''}${judged}: a change edits the part, for every variant and line that use it`,
       commit: (text) => this.commitRating(part.id, input.rating, unit, text),
     });
   }

@@ -63,6 +63,12 @@ describe('approved alternates on the Build page', () => {
     await railTo(page, '#/checks');
     await page.locator('[data-testid="checks-matrix"]').waitFor();
     await expect.poll(() => checkStatus(page, 'FR4-60-CD', 'snubber_r_loss'), { timeout: 20_000 }).toBe('fail');
+    // The check's detail names the approved part that gives the result and shows its rating beside the own part's.
+    await page.locator('button.cell[data-variant="FR4-60-CD"][data-check="snubber_r_loss"]').click();
+    const detail = page.locator('[data-testid="check-detail"]');
+    await detail.waitFor();
+    expect(readerText(await detail.textContent())).toContain(`worst of 2 approved parts on R2: ${weaker.mpn}`);
+    expect(readerText(await detail.locator('[data-testid="detail-ratings"]').textContent())).toContain(`approved alternates, judged too: ${weaker.mpn} 1 W`);
 
     // Before, every variant passes it (tests/unit/checks-demo.test.ts). The spring run now buys the cheaper approved
     // part for R2 (2,040 with 2 % attrition at €0.045 = €91.80 against €0.062 = €126.48 for its own part, both 5 days,
