@@ -4,6 +4,8 @@ import { html, nothing } from 'lit';
 import type { TemplateResult } from 'lit';
 import { live } from 'lit/directives/live.js';
 import type { NameHint } from './rb-formula-input.ts';
+import type { BookChange } from '../domain/book-ops.ts';
+import type { SaveResult } from './book-service.ts';
 
 export interface FieldOptions {
   /** Field key; also the input's name and the key of its problem message. */
@@ -129,6 +131,50 @@ export function group(title: string): TemplateResult {
 export async function focusFirstProblem(host: { updateComplete: Promise<boolean>; renderRoot: HTMLElement | DocumentFragment }): Promise<void> {
   await host.updateComplete;
   host.renderRoot.querySelector<HTMLElement>('[aria-invalid="true"]')?.focus();
+}
+
+/** What every record form keeps while open: the problems beside its fields and, after a refused save, why. */
+export interface RecordFormState {
+  problems: Record<string, string>;
+  saveError?: string;
+  conflict?: boolean;
+}
+
+/**
+ * The Save of a record form, alike on every record page: a record deleted elsewhere meanwhile is not saved again;
+ * problems are shown beside their fields with the first one focused; a save the Book refuses keeps the form open
+ * with why. `set` takes each state of the form (undefined: saved, close it). Gives the record saved, if it was.
+ */
+export async function saveRecordForm<S extends RecordFormState, R>(
+  host: { updateComplete: Promise<boolean>; renderRoot: HTMLElement | DocumentFragment },
+  service: { save(change: BookChange): Promise<SaveResult> },
+  state: S,
+  o: {
+    /** What the record is called ("part"), when it was deleted elsewhere since the form opened. */
+    goneNoun: string | undefined;
+    validate: () => { ok: true; record: R } | { ok: false; problems: Record<string, string> };
+    change: (record: R) => BookChange;
+    set: (next: S | undefined) => void;
+  },
+): Promise<R | undefined> {
+  if (o.goneNoun) {
+    o.set({ ...state, saveError: `This ${o.goneNoun} was deleted elsewhere; nothing was saved.` });
+    return undefined;
+  }
+  const r = o.validate();
+  if (!r.ok) {
+    o.set({ ...state, problems: r.problems });
+    await focusFirstProblem(host);
+    return undefined;
+  }
+  o.set({ ...state, problems: {} });
+  const result = await service.save(o.change(r.record));
+  if (!result.ok) {
+    o.set({ ...state, problems: {}, saveError: result.message, conflict: result.conflict });
+    return undefined;
+  }
+  o.set(undefined);
+  return r.record;
 }
 
 /** Beside a form's buttons while any field has a problem: the one summary every record form gives. */

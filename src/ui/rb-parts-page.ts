@@ -7,7 +7,7 @@ import { PART_KINDS, newId } from '../domain/book.ts';
 import { PART_RATINGS } from '../domain/params.ts';
 import { formatValue } from '../domain/units.ts';
 import { BookController } from './book-context.ts';
-import { field, focusFirstProblem, group, nothingSaved, rowActions, saveRefusal } from './form-fields.ts';
+import { field, group, nothingSaved, rowActions, saveRecordForm, saveRefusal } from './form-fields.ts';
 import type { FieldProblems, PartDraft } from './record-forms.ts';
 import { KIND_VALUE_UNITS, partDraft, partUsers, validatePart } from './record-forms.ts';
 import { pageStyles } from './styles.ts';
@@ -185,21 +185,12 @@ export class RbPartsPage extends LitElement {
     const e = this.editing;
     const service = this.books.service;
     if (!e || !service) return;
-    const current = e.part ? book.parts.find((p) => p.id === e.part!.id) : undefined;
-    if (e.part && !current) {
-      this.editing = { ...e, saveError: 'This part was deleted elsewhere; nothing was saved.' };
-      return;
-    }
-    const r = validatePart(e.draft, book, e.part, () => newId('part'));
-    if (!r.ok) {
-      this.editing = { ...e, problems: r.problems };
-      await focusFirstProblem(this);
-      return;
-    }
-    this.editing = { ...e, problems: {} };
-    const result = await service.save({ put: { parts: [r.record] } });
-    if (result.ok) this.editing = undefined;
-    else this.editing = { ...e, problems: {}, saveError: result.message, conflict: result.conflict };
+    await saveRecordForm(this, service, e, {
+      goneNoun: e.part && !book.parts.some((p) => p.id === e.part!.id) ? 'part' : undefined,
+      validate: () => validatePart(e.draft, book, e.part, () => newId('part')),
+      change: (record) => ({ put: { parts: [record] } }),
+      set: (next) => (this.editing = next),
+    });
   }
 
   /** After a refused save: re-read the Book and reopen the form on the stored version of the record. */

@@ -12,7 +12,7 @@ import { exportBytes } from '../io/csv-write.ts';
 import { priceListCsv, priceListFileName } from '../io/price-list-export.ts';
 import { BookController } from './book-context.ts';
 import { CostingService } from './costing-service.ts';
-import { field, focusFirstProblem, nothingSaved, rowActions, saveRefusal } from './form-fields.ts';
+import { field, nothingSaved, rowActions, saveRecordForm, saveRefusal } from './form-fields.ts';
 import { downloadFile } from './rb-export-page.ts';
 import { pageStyles } from './styles.ts';
 
@@ -210,19 +210,12 @@ export class RbPriceListsPage extends LitElement {
     const e = this.editing;
     const service = this.books.service;
     if (!e || !service) return;
-    if (e.list && !book.priceLists.some((l) => l.id === e.list!.id)) {
-      this.editing = { ...e, saveError: 'This price list was deleted elsewhere; nothing was saved.' };
-      return;
-    }
-    const r = validatePriceList(e.draft, book, e.list ?? { id: newId('pl'), rev: 0 });
-    if (!r.ok) {
-      this.editing = { ...e, problems: r.problems };
-      await focusFirstProblem(this);
-      return;
-    }
-    const result = await service.save({ put: { priceLists: [r.record] } });
-    if (result.ok) this.editing = undefined;
-    else this.editing = { ...e, problems: {}, saveError: result.message, conflict: result.conflict };
+    await saveRecordForm(this, service, e, {
+      goneNoun: e.list && !book.priceLists.some((l) => l.id === e.list!.id) ? 'price list' : undefined,
+      validate: () => validatePriceList(e.draft, book, e.list ?? { id: newId('pl'), rev: 0 }),
+      change: (record) => ({ put: { priceLists: [record] } }),
+      set: (next) => (this.editing = next),
+    });
   }
 
   private async delete(l: PriceList): Promise<void> {

@@ -7,7 +7,7 @@ import { newId } from '../domain/book.ts';
 import { runDraft, validateRun } from '../domain/freeze.ts';
 import type { RunDraft, RunProblems } from '../domain/freeze.ts';
 import { BookController } from './book-context.ts';
-import { field, focusFirstProblem, nothingSaved, rowActions, saveRefusal } from './form-fields.ts';
+import { field, nothingSaved, rowActions, saveRecordForm, saveRefusal } from './form-fields.ts';
 import './rb-run-detail.ts';
 import { runUsers } from './record-forms.ts';
 import { sortRuns } from './run-order.ts';
@@ -165,23 +165,13 @@ export class RbRunsPage extends LitElement {
     const e = this.editing;
     const service = this.books.service;
     if (!e || !service) return;
-    const current = e.run ? book.runs.find((r) => r.id === e.run!.id) : undefined;
-    if (e.run && !current) {
-      this.editing = { ...e, saveError: 'This run was deleted elsewhere; nothing was saved.' };
-      return;
-    }
-    const r = validateRun(e.draft, book, e.run, () => newId('run'));
-    if (!r.ok) {
-      this.editing = { ...e, problems: r.problems };
-      await focusFirstProblem(this);
-      return;
-    }
-    this.editing = { ...e, problems: {} };
-    const result = await service.save({ put: { runs: [r.record] } });
-    if (result.ok) {
-      this.editing = undefined;
-      this.chosen = r.record.id;
-    } else this.editing = { ...e, problems: {}, saveError: result.message, conflict: result.conflict };
+    const saved = await saveRecordForm(this, service, e, {
+      goneNoun: e.run && !book.runs.some((r) => r.id === e.run!.id) ? 'run' : undefined,
+      validate: () => validateRun(e.draft, book, e.run, () => newId('run')),
+      change: (record) => ({ put: { runs: [record] } }),
+      set: (next) => (this.editing = next),
+    });
+    if (saved) this.chosen = saved.id;
   }
 
   private readonly restartFromStored = async (): Promise<void> => {

@@ -5,7 +5,7 @@ import { customElement, state } from 'lit/decorators.js';
 import type { Book, Supplier } from '../domain/book.ts';
 import { newId } from '../domain/book.ts';
 import { BookController } from './book-context.ts';
-import { field, focusFirstProblem, nothingSaved, rowActions, saveRefusal } from './form-fields.ts';
+import { field, nothingSaved, rowActions, saveRecordForm, saveRefusal } from './form-fields.ts';
 import type { FieldProblems, SupplierDraft } from './record-forms.ts';
 import { supplierDraft, supplierUsers, validateSupplier } from './record-forms.ts';
 import { pageStyles } from './styles.ts';
@@ -167,21 +167,12 @@ export class RbSuppliersPage extends LitElement {
     const e = this.editing;
     const service = this.books.service;
     if (!e || !service) return;
-    if (e.supplier && !book.suppliers.some((s) => s.id === e.supplier!.id)) {
-      this.editing = { ...e, saveError: 'This supplier was deleted elsewhere; nothing was saved.' };
-      return;
-    }
-    const r = validateSupplier(e.draft, book, e.supplier, () => newId('sup'));
-    if (!r.ok) {
-      this.editing = { ...e, problems: r.problems };
-      await focusFirstProblem(this);
-      return;
-    }
-    this.editing = { ...e, problems: {} };
-    const { record, settings } = r.record;
-    const result = await service.save(settings ? { put: { suppliers: [record] }, settings } : { put: { suppliers: [record] } });
-    if (result.ok) this.editing = undefined;
-    else this.editing = { ...e, problems: {}, saveError: result.message, conflict: result.conflict };
+    await saveRecordForm(this, service, e, {
+      goneNoun: e.supplier && !book.suppliers.some((s) => s.id === e.supplier!.id) ? 'supplier' : undefined,
+      validate: () => validateSupplier(e.draft, book, e.supplier, () => newId('sup')),
+      change: ({ record, settings }) => (settings ? { put: { suppliers: [record] }, settings } : { put: { suppliers: [record] } }),
+      set: (next) => (this.editing = next),
+    });
   }
 
   /** After a refused save: re-read the Book and reopen the form on the stored version of the record. */
