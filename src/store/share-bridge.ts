@@ -18,6 +18,8 @@ import type { CheckedDoc, DocProblem, MergeDoc, MergeNote, RecordDoc } from './s
 export interface BookSide extends EventTarget {
   readonly book: Book;
   save(change: BookChange): Promise<{ ok: true; merged?: string } | { ok: false; message: string; conflict: boolean }>;
+  /** Moves when the whole Book is replaced (a Book file opened, an empty or demo Book). */
+  readonly replacements: number;
   /** Set by the bridge while the person may not change the shared Book (a reader): why, for any save not its own. */
   refuseEdits: ((change: BookChange) => string | undefined) | undefined;
 }
@@ -134,10 +136,13 @@ export class ShareBridge extends EventTarget {
     if ((ev as CustomEvent<{ what: string }>).detail?.what === 'book') this.queue(() => this.pushLocal());
   };
   private readonly now: () => Date;
+  private readonly replacements: number;
+  private closed = false;
 
   private constructor(private readonly o: ShareBridgeOptions) {
     super();
     this.seen = o.side.book;
+    this.replacements = o.side.replacements;
     this.now = o.now ?? (() => new Date());
   }
 
@@ -178,7 +183,7 @@ export class ShareBridge extends EventTarget {
 
   /** Replicates with the server, both ways (pull only for a reader), and keeps at it until `stop()`. */
   start(): void {
-    if (this.live) return;
+    if (this.live || this.closed) return;
     // What the replica already holds (kept from an earlier session in this browser) reaches the Book first.
     void this.queue(() => this.takeInHeld());
     const opts = { live: true, retry: true };
@@ -254,6 +259,7 @@ export class ShareBridge extends EventTarget {
   }
 
   close(): void {
+    this.closed = true;
     this.stop();
     this.feed?.cancel();
     this.o.side.removeEventListener('change', this.onBook);
@@ -275,6 +281,13 @@ export class ShareBridge extends EventTarget {
 
   /** Writes to the replica what changed in the Book since last seen (saves here, in another tab, or taken in). */
   private async pushLocal(): Promise<void> {
+    if (this.closed) return;
+    if (this.o.side.replacements !== this.replacements) {
+      // A whole other Book here is not an edit of the shared one: it is not sent, and sharing stops in this tab.
+      this.close();
+      this.setState('stopped', 'This browser\'s Book was replaced (a Book file opened, or an empty or demo Book), so sharing stopped here and nothing of it was sent. The shared Book on the server is as it was; open it again from the Team page.');
+      return;
+    }
     const next = this.o.side.book;
     const delta = bookDelta(this.seen, next);
     this.seen = next;
@@ -309,6 +322,7 @@ export class ShareBridge extends EventTarget {
 
   /** Takes documents that changed in the replica into the Book: merged first when they hold conflicting versions. */
   private async takeIn(ids: readonly string[]): Promise<void> {
+    if (this.closed) return;
     const rows = await this.replica.allDocs({ keys: [...ids], include_docs: true, conflicts: true });
     const incoming: ({ deleted: false; checked: Extract<CheckedDoc, { ok: true }> } | { deleted: true; docId: string })[] = [];
     let merges = false;

@@ -135,7 +135,7 @@ export class RbSharingPage extends LitElement {
           ? `; ${s.conflicts} ${s.conflicts === 1 ? 'record' : 'records'} with conflicts to resolve`
           : ''}
       </p>
-      ${s.error ? html`<p class="notice">The server says: ${s.error}</p>` : nothing}
+      ${s.error ? html`<p class="notice">${s.error}</p>` : nothing}
       ${s.problems.length
         ? html`<p class="notice">Shared records kept out of this Book because they do not fit it:</p>
             <ul>

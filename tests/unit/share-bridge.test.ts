@@ -194,4 +194,18 @@ describe('a Book shared by two people through the team server', () => {
     const doc = await call(`${server.url}${BOOK}/${encodeURIComponent(`quotes/${quoteId}`)}`, OWNER);
     expect((doc.body['record'] as { moq: number }).moq).toBe(quoteOf(a.service, quoteId).moq);
   }, 120_000);
+
+  it('stops sharing, sending nothing, when a Book file or an empty Book replaces the shared one here', async () => {
+    const before = await call(`${server.url}${BOOK}`, OWNER);
+    expect((await a.service.replaceBook(a.service.empty())).ok).toBe(true);
+    await a.bridge.settled();
+    expect(a.bridge.status.state).toBe('stopped');
+    expect(a.bridge.status.error).toMatch(/sharing stopped here and nothing of it was sent/);
+    a.bridge.start();
+    await a.bridge.settled();
+    await new Promise((r) => setTimeout(r, 1000));
+    const after = await call(`${server.url}${BOOK}`, OWNER);
+    expect([after.body['doc_count'], after.body['update_seq']]).toEqual([before.body['doc_count'], before.body['update_seq']]);
+    expect(b.service.book.quotes.some((q) => q.id === quoteId)).toBe(true);
+  }, 60_000);
 });
