@@ -39,6 +39,11 @@ export async function startTeamServer(o: TeamServerOptions): Promise<Server> {
     if (req.method === 'OPTIONS') return void end(res, 204);
     gate.handle(req, res, engine).catch((e: unknown) => send(req, res, { status: 500, error: 'server_error', reason: `the team server failed: ${(e as Error).message}` }));
   });
+  // Idle connections stay open a minute, not Node's 5 s: a client busy for a few seconds (a large save, a blocked
+  // event loop) otherwise sends its next request on a connection the server is closing, and it fails with nothing
+  // wrong on either side (common practice for servers that clients keep connections to).
+  server.keepAliveTimeout = 60_000;
+  server.headersTimeout = 61_000;
   await new Promise<void>((resolve, reject) => {
     server.once('error', reject);
     server.listen(o.port, o.host, () => resolve());

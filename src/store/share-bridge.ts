@@ -69,15 +69,17 @@ export interface ShareBridgeOptions {
   now?: () => Date;
 }
 
-/** Loads the sync engine for the browser: core, IndexedDB replica, the server over HTTP, replication. */
-export async function loadShareEngine(): Promise<PouchDBConstructor> {
-  const [core, idb, http, replication] = await Promise.all([
-    import('pouchdb-core'),
-    import('pouchdb-adapter-idb'),
-    import('pouchdb-adapter-http'),
-    import('pouchdb-replication'),
-  ]);
-  return core.default.plugin(idb.default).plugin(http.default).plugin(replication.default);
+/** The sync engine once loaded: its plugins change it for the whole page and refuse to be added twice. */
+let shareEngine: Promise<PouchDBConstructor> | undefined;
+
+/** Loads the sync engine for the browser (once): core, IndexedDB replica, the server over HTTP, replication. */
+export function loadShareEngine(): Promise<PouchDBConstructor> {
+  shareEngine ??= Promise.all([import('pouchdb-core'), import('pouchdb-adapter-idb'), import('pouchdb-adapter-http'), import('pouchdb-replication')]).then(
+    ([core, idb, http, replication]) => core.default.plugin(idb.default).plugin(http.default).plugin(replication.default),
+  );
+  // A failed load (the page went offline before the engine's code was cached) may be tried again.
+  shareEngine.catch(() => (shareEngine = undefined));
+  return shareEngine;
 }
 
 /** Documents read from the replica at once when taking in what it holds. */

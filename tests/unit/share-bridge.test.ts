@@ -8,18 +8,15 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import PouchDB from 'pouchdb-core';
-import httpAdapter from 'pouchdb-adapter-http';
-import memoryAdapter from 'pouchdb-adapter-memory';
-import replication from 'pouchdb-replication';
 import { emptyBook } from '../../src/domain/book.ts';
 import type { Quote } from '../../src/domain/book.ts';
 import { ShareBridge, createSharedBook } from '../../src/store/share-bridge.ts';
 import { BookService } from '../../src/ui/book-service.ts';
 import { EDITOR, OWNER, READER, addPerson, call, startServer, stopAllServers } from '../fixtures/team-server.ts';
 import type { Person, Running } from '../fixtures/team-server.ts';
+import { TestEngine } from '../fixtures/pouch-engine.ts';
 
-const Engine = PouchDB.plugin(httpAdapter).plugin(memoryAdapter).plugin(replication);
+const Engine = TestEngine;
 const BOOK = 'workshop-book';
 
 let dir = '';

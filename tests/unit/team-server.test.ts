@@ -6,17 +6,13 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { cpSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import PouchDB from 'pouchdb-core';
 import type { Database } from 'pouchdb-core';
-import httpAdapter from 'pouchdb-adapter-http';
-import memoryAdapter from 'pouchdb-adapter-memory';
-import replication from 'pouchdb-replication';
 import { refusal, route } from '../../scripts/team/access.ts';
 import { sampleBook } from '../fixtures/sample-book.ts';
 import { EDITOR, OWNER, READER, addPerson, call, startServer, stopAllServers, stopServer, teamCli } from '../fixtures/team-server.ts';
 import type { Person, Running } from '../fixtures/team-server.ts';
+import { TestEngine as PouchDB } from '../fixtures/pouch-engine.ts';
 
-PouchDB.plugin(httpAdapter).plugin(memoryAdapter).plugin(replication);
 
 let dir = '';
 
