@@ -102,7 +102,7 @@ describe('hostile text in a Book', () => {
     expect(foreignRequests).toEqual([]);
   });
 
-  it('the page is served under a Content-Security-Policy with no inline script and no remote origin', async () => {
+  it('the page is served under a Content-Security-Policy with no inline script and no remote origin but a sync server', async () => {
     const { page, errors } = await app.open('#/family');
     const csp = await page.locator('meta[http-equiv="Content-Security-Policy"]').getAttribute('content');
     expect(csp).not.toBeNull();
@@ -115,7 +115,11 @@ describe('hostile text in a Book', () => {
     expect(directives.get('default-src')).toEqual(["'self'"]);
     expect(directives.get('script-src')).toEqual(["'self'"]);
     expect(directives.get('object-src')).toEqual(["'none'"]);
+    // Only connections may go further: to a shared Book's sync server, which the person names on the Team page — on
+    // this machine (the team server listens on loopback) or over TLS. Scripts, styles, images and workers stay local.
+    expect(directives.get('connect-src')).toEqual(["'self'", 'http://127.0.0.1:*', 'http://localhost:*', 'https:']);
     for (const [name, values] of directives) {
+      if (name === 'connect-src') continue;
       for (const v of values) expect(v, `${name} ${v}`).toMatch(/^('self'|'none'|'unsafe-inline'|data:|blob:)$/);
       if (values.includes("'unsafe-inline'")) expect(name).toBe('style-src');
     }
