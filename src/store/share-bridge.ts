@@ -396,8 +396,11 @@ export class ShareBridge extends EventTarget {
     const at = this.now().toISOString();
     const noteId = `${MERGES_PREFIX}${id}`;
     const note = await this.replica.get<MergeDoc>(noteId).catch((e: unknown) => (isMissing(e) ? undefined : Promise.reject(e)));
+    // The merged version is written alike by every copy that merges these versions (signed with the newest of them,
+    // not with who merged or when), so copies merging at once write the very same revision instead of a new conflict.
+    const newest = [{ by: kept.by, at: kept.at }, ...versions.map((v) => v.version)].reduce((a, b) => (b.at > a.at || (b.at === a.at && b.by > a.by) ? b : a));
     const docs: Doc[] = [
-      { _id: id, _rev: kept._rev!, record: merged.record, by: this.who, at, bookVersion: kept.bookVersion },
+      { _id: id, _rev: kept._rev!, record: merged.record, by: newest.by, at: newest.at, bookVersion: kept.bookVersion },
       ...leaves.filter((l) => l.ok && !l.ok._deleted).map((l) => ({ _id: id, _rev: l.ok!._rev!, _deleted: true })),
     ];
     if (merged.taken.length || merged.open.length) {
