@@ -26,8 +26,11 @@ export interface GrossNeed {
   fromStock: number;
   fromOrders: number;
   net: number;
-  /** When these parts are in: today from stock, an order's due date, or today + the lead time when bought now. */
-  inDate: string;
+  /**
+   * When these parts are in: today from stock, an order's due date, or today + the lead time when bought now.
+   * Absent when part of the need is to be bought and no quote can be used: the parts cannot be had at all.
+   */
+  inDate?: string;
 }
 
 /** Parts still to come on one open order line. */
@@ -104,6 +107,9 @@ export interface SupplierSuggestion {
   late: boolean;
 }
 
+/** What limits a run's date: a part in by a date, or a part that cannot be bought (no usable quote). */
+export type Limiting = { partId: string; mpn: string; inDate: string; earliestWanted: string } | { partId: string; mpn: string; problem: string };
+
 export interface RunPlan {
   run: Run;
   inHorizon: boolean;
@@ -111,9 +117,12 @@ export interface RunPlan {
   needDate: string;
   /** The date wanted has passed. */
   pastDue: boolean;
-  /** The part that arrives last, when it is in, and the earliest date the run can then be wanted. */
-  limiting?: { partId: string; mpn: string; inDate: string; earliestWanted: string };
-  /** The earliest date it can be wanted is after its date wanted. */
+  /**
+   * The part that arrives last, when it is in, and the earliest date the run can then be wanted; or, before any
+   * dated part, a part the run still has to buy that no quote can be used for (`problem`): then it cannot be built.
+   */
+  limiting?: Limiting;
+  /** The earliest date it can be wanted is after its date wanted, or some part it still needs cannot be bought. */
   late: boolean;
   /** Per part id: the run's need. */
   needs: Map<string, number>;
@@ -220,8 +229,8 @@ export function planRuns(book: Book, ctx: CostingContext, lines: RunLines, optio
 
   const parts: PartPlan[] = [];
   const lineFor: SuggestedLine[] = [];
-  /** Per run: the part whose parts are in last (the one that limits the run's date). */
-  const limits = new Map<RunPlan, { partId: string; mpn: string; inDate: string }>();
+  /** Per run: the part whose parts are in last (the one that limits the run's date); one that cannot be bought first. */
+  const limits = new Map<RunPlan, { partId: string; mpn: string; inDate?: string; problem?: string }>();
   for (const [partId, { gross, of, pin }] of byPart) {
     const part = ctx.parts.get(partId)!;
     const receipts = (receiptsOf.get(partId) ?? []).slice().sort((a, b) => (a.due < b.due ? -1 : a.due > b.due ? 1 : 0));
@@ -270,8 +279,15 @@ export function planRuns(book: Book, ctx: CostingContext, lines: RunLines, optio
     };
     if (firstNet) {
       const choice = chooseQuote(candidateQuotes(ctx, partId, pin ?? undefined), net, part.mpn);
-      if (!choice.ok) pp.problem = choice.error;
-      else {
+      if (!choice.ok) {
+        pp.problem = choice.error;
+        // The part is not in today (nor ever, until a quote can be used): each run still needing it cannot be built.
+        for (let i = 0; i < gross.length; i++) {
+          if (gross[i]!.net <= 0) continue;
+          gross[i]!.inDate = undefined;
+          of[i]!.problems.push({ partId, message: `cannot be bought: ${choice.error}` });
+        }
+      } else {
         const { prepared, buy, extendedBase } = choice.value;
         const q = prepared.quote;
         const needDate = firstNet.date;
@@ -305,15 +321,26 @@ export function planRuns(book: Book, ctx: CostingContext, lines: RunLines, optio
     for (let i = 0; i < gross.length; i++) {
       const d = gross[i]!.inDate;
       const limit = limits.get(of[i]!);
-      if (!limit || d > limit.inDate || (d === limit.inDate && part.mpn < limit.mpn)) limits.set(of[i]!, { partId, mpn: part.mpn, inDate: d });
+      // A part that cannot be bought limits before any dated one; among equals, the lower mpn.
+      const wins = !limit
+        ? true
+        : d === undefined
+          ? limit.inDate !== undefined || part.mpn < limit.mpn
+          : limit.inDate !== undefined && (d > limit.inDate || (d === limit.inDate && part.mpn < limit.mpn));
+      if (wins) limits.set(of[i]!, d === undefined ? { partId, mpn: part.mpn, problem: pp.problem! } : { partId, mpn: part.mpn, inDate: d });
     }
     parts.push(pp);
   }
   parts.sort((a, b) => (a.mpn < b.mpn ? -1 : a.mpn > b.mpn ? 1 : a.partId < b.partId ? -1 : 1));
 
   for (const [rp, limit] of limits) {
+    if (limit.inDate === undefined) {
+      rp.limiting = { partId: limit.partId, mpn: limit.mpn, problem: limit.problem! };
+      rp.late = true;
+      continue;
+    }
     const earliestWanted = shiftDays(1, limit.inDate, lag)!;
-    rp.limiting = { ...limit, earliestWanted };
+    rp.limiting = { partId: limit.partId, mpn: limit.mpn, inDate: limit.inDate, earliestWanted };
     rp.late = earliestWanted > rp.run.dateWanted;
   }
 

@@ -4,7 +4,7 @@ import type { Book, Run } from '../domain/book.ts';
 import { prepareCosting } from '../domain/costing.ts';
 import type { Result } from '../domain/costing.ts';
 import { planRuns, runDemands } from '../domain/planning.ts';
-import type { Plan, PlanOptions } from '../domain/planning.ts';
+import type { Limiting, Plan, PlanOptions } from '../domain/planning.ts';
 import { resolutionFromFamily } from '../engine/costing.ts';
 import { resolveFamily } from '../engine/family.ts';
 import { DEFAULT_EXPORT_OPTIONS, NUMBER_KINDS, exportOptionsProblem, exportText } from './csv-write.ts';
@@ -56,6 +56,7 @@ export function planHeader(currency: string): string[] {
     'need_date',
     'order_by',
     'status',
+    'limits_runs',
   ];
 }
 
@@ -67,9 +68,36 @@ export function partStatus(p: Plan['parts'][number]): string {
   return p.buy.late ? 'late' : 'in time';
 }
 
-/** The plan as rows: one per part with a gross need in the horizon, with its suggested order line. */
+/** A run's state in words: after the horizon, its first problem (a line, or a part that cannot be bought), past due, late or in time. */
+export function runStatus(r: Plan['runs'][number]): string {
+  if (!r.inHorizon) return 'after the horizon';
+  if (r.problems.length) return r.problems[0]!.message;
+  if (r.pastDue) return 'past due';
+  return r.late ? 'late' : 'in time';
+}
+
+/** What limits a run in words: the part and when it is in, or that it cannot be bought. */
+export function limitText(l: Limiting): string {
+  return 'problem' in l ? `${l.mpn}, which cannot be bought` : `${l.mpn}, in ${l.inDate}, earliest wanted ${l.earliestWanted}`;
+}
+
+/** Per part id: the names of the runs it limits. */
+function limitedRuns(plan: Plan): Map<string, string[]> {
+  const out = new Map<string, string[]>();
+  for (const r of plan.runs) {
+    if (!r.limiting) continue;
+    const list = out.get(r.limiting.partId);
+    const name = r.run.name || r.run.id;
+    if (list) list.push(name);
+    else out.set(r.limiting.partId, [name]);
+  }
+  return out;
+}
+
+/** The plan as rows: one per part with a gross need in the horizon, with its suggested order line and the runs it limits. */
 export function planRows(plan: Plan, currency: string): ExportCell[][] {
   const rows: ExportCell[][] = [planHeader(currency)];
+  const limits = limitedRuns(plan);
   for (const p of plan.parts) {
     const b = p.buy;
     rows.push([
@@ -92,6 +120,7 @@ export function planRows(plan: Plan, currency: string): ExportCell[][] {
       b?.needDate ?? p.gross[0]?.date ?? '',
       b?.orderBy ?? '',
       partStatus(p),
+      (limits.get(p.partId) ?? []).join('; '),
     ]);
   }
   return rows;

@@ -11,7 +11,7 @@ import { acceptSuggestions } from '../domain/planning.ts';
 import type { Plan, SupplierSuggestion } from '../domain/planning.ts';
 import type { Result } from '../domain/costing.ts';
 import { buildRun } from '../domain/stock.ts';
-import { partStatus, planBook, runNeeds } from '../io/plan-export.ts';
+import { partStatus, planBook, runNeeds, runStatus } from '../io/plan-export.ts';
 import { BookController } from './book-context.ts';
 import { downloadOrderDoc, printOrderDoc } from './rb-order-doc.ts';
 import './rb-plan-settings.ts';
@@ -107,7 +107,7 @@ export class RbPlanPage extends LitElement {
                     <td>${r.run.dateWanted}</td>
                     <td>${r.needDate}</td>
                     <td class="code">${r.limiting?.mpn ?? '—'}</td>
-                    <td>${r.limiting?.earliestWanted ?? '—'}</td>
+                    <td>${!r.limiting ? '—' : 'problem' in r.limiting ? 'none: a part cannot be bought' : r.limiting.earliestWanted}</td>
                     <td class="flag">${runFlag(r)}</td>
                     <td>
                       <button type="button" ?disabled=${this.busy} @click=${() => this.build(book, r.run)}>Mark built</button>
@@ -270,11 +270,9 @@ export class RbPlanPage extends LitElement {
 }
 
 function runFlag(r: Plan['runs'][number]): string {
-  if (!r.inHorizon) return '○ after the horizon';
-  if (r.problems.length) return `✗ ${r.problems[0]!.message}`;
-  if (r.pastDue) return '✗ past due';
-  if (r.late) return '⚠ late';
-  return '✓ in time';
+  const s = runStatus(r);
+  const mark = !r.inHorizon ? '○' : s === 'in time' ? '✓' : s === 'late' ? '⚠' : '✗';
+  return `${mark} ${s}`;
 }
 
 function partFlag(p: Plan['parts'][number]): string {

@@ -68,6 +68,44 @@ describe('rungbook plan', () => {
     expect(rows.length - 1).toBe(domain.parts.length);
   });
 
+  it('makes a part that no quote can be used for the limiting problem of the runs that need it, in JSON, CSV and the table alike', async () => {
+    const book = demoBook();
+    const domain = value(planBook(book, { today: TODAY, horizonDays: 150 }));
+    // The part that limits neither run (it is in early), with every quote expired before the plan date.
+    const dead = domain.parts.find((p) => domain.runs.every((r) => r.limiting?.partId !== p.partId) && p.gross.length === 2)!;
+    book.quotes = book.quotes.map((q) => (q.partId === dead.partId ? { ...q, expires: '2026-12-31' } : q));
+    const file = writeBook(dir, 'p-dead.rungbook.json', book);
+    const names = book.runs.map((r) => r.name || r.id);
+
+    const j = await cli(['plan', file, '--date', TODAY, '--horizon', '150', '--json']);
+    expect(j.code).toBe(1);
+    expect(j.err).toContain(dead.mpn);
+    const json = JSON.parse(j.out) as PlanJson & { runs: { late: boolean; limiting?: { partId: string; problem?: string; inDate?: string }; problems: { partId?: string; message: string }[] }[] };
+    const part = json.parts.find((p) => p.partId === dead.partId)! as PlanJson['parts'][number] & { problem?: string; gross: { inDate?: string }[] };
+    expect(part.problem).toMatch(/no usable quote/);
+    expect(part.gross.map((g) => g.inDate)).toEqual([undefined, undefined]);
+    for (const r of json.runs) {
+      expect(r.limiting).toEqual({ partId: dead.partId, mpn: dead.mpn, problem: part.problem });
+      expect(r.late).toBe(true);
+      expect(r.problems).toContainEqual({ partId: dead.partId, message: `cannot be bought: ${part.problem}` });
+    }
+
+    const c = await cli(['plan', file, '--date', TODAY, '--horizon', '150', '--csv']);
+    expect(c.code).toBe(1);
+    const rows = Papa.parse<string[]>(c.out.trimEnd(), { newline: '\r\n' }).data;
+    const header = rows[0]!;
+    const col = (name: string): number => header.indexOf(name);
+    const row = rows.find((r) => r[0] === dead.mpn)!;
+    expect(row[col('status')]).toBe('no usable quote');
+    expect(row[col('limits_runs')]).toBe(names.join('; '));
+    // No other part limits a run.
+    expect(rows.slice(1).filter((r) => r[col('limits_runs')] !== '').map((r) => r[0])).toEqual([dead.mpn]);
+
+    const t = await cli(['plan', file, '--date', TODAY, '--horizon', '150']);
+    expect(t.code).toBe(1);
+    expect(t.out.match(new RegExp(`limited by ${dead.mpn}, which cannot be bought — LATE`, 'g'))).toHaveLength(2);
+  });
+
   it('only plans runs inside the horizon', async () => {
     const file = writeBook(dir, 'p3.rungbook.json', demoBook());
     const r = await cli(['plan', file, '--date', TODAY, '--horizon', '80', '--json']);

@@ -12,6 +12,7 @@ import { resolveFamily } from '../../src/engine/family.ts';
 import { referenceFamily } from '../fixtures/reference-family.ts';
 import type { Plan } from '../../src/domain/planning.ts';
 import { fixedResolution } from '../fixtures/fixed-lines.ts';
+import { runStatus } from '../../src/io/plan-export.ts';
 import { part, smallBook, value } from './costing-fixtures.ts';
 import type { QuoteSpec } from './costing-fixtures.ts';
 
@@ -156,6 +157,44 @@ describe('gross to net, with the lead-time offset', () => {
     const r = plan(book, '2025-01-10').runs[0]!;
     expect(r.limiting).toEqual({ partId: 'p2', mpn: 'TST-P2', inDate: '2025-02-09', earliestWanted: '2025-02-16' });
     expect(r.late).toBe(true);
+  });
+
+  it('makes a part the run still has to buy and no quote can be used for its limiting problem: late, never "in today"', () => {
+    // p1 is in stock (in today) and p3 has a quote with 30 days' lead (in 2025-02-09, wanted 2025-03-01: in time);
+    // p2 has no quote: a run that must buy it cannot be built until a quote can be used, whatever p1 and p3 say.
+    // r1's 100 of p2 come from stock (100); r2 has its 100 to buy, so r2 is limited by p2 and r1 by p3.
+    const book = smallBook({
+      parts: [part('p1'), part('p2'), part('p3')],
+      quotes: { p1: [{ breaks: [{ qty: 1, price: 0.1 }], leadDays: 3 }], p3: [{ breaks: [{ qty: 1, price: 0.1 }], leadDays: 30 }] },
+      lines: [
+        { partId: 'p1', qty: 1 },
+        { partId: 'p2', qty: 1 },
+        { partId: 'p3', qty: 1 },
+      ],
+      settings: { kittingDays: 0, safetyDays: 0, rates: { EUR: 1, USD: 0.9 } },
+    });
+    book.runs = [
+      { id: 'r1', rev: 1, name: 'r1', variantId: 'v1', quantity: 100, dateWanted: '2025-03-01', notes: '' },
+      { id: 'r2', rev: 1, name: 'r2', variantId: 'v1', quantity: 100, dateWanted: '2025-03-10', notes: '' },
+    ];
+    book.stockMoves = [move('m1', 'p1', 500), move('m2', 'p2', 100)];
+    const p = plan(book, '2025-01-10');
+    const [r1, r2] = p.runs;
+    const p2 = p.parts.find((x) => x.partId === 'p2')!;
+    expect(p2.problem).toMatch(/no quote for TST-P2/);
+    // r1's 100 come from stock (in today); r2's 100 are to buy and cannot be had: no date.
+    expect(p2.gross.map((g) => [g.runId, g.fromStock, g.net, g.inDate])).toEqual([
+      ['r1', 100, 0, '2025-01-10'],
+      ['r2', 0, 100, undefined],
+    ]);
+    expect(r1!.limiting).toEqual({ partId: 'p3', mpn: 'TST-P3', inDate: '2025-02-09', earliestWanted: '2025-02-09' });
+    expect(r1!.late).toBe(false);
+    expect(r1!.problems).toEqual([]);
+    expect(r2!.limiting).toEqual({ partId: 'p2', mpn: 'TST-P2', problem: p2.problem });
+    expect(r2!.late).toBe(true);
+    expect(r2!.problems).toEqual([{ partId: 'p2', message: `cannot be bought: ${p2.problem}` }]);
+    // The Plan page's status column says the same.
+    expect([runStatus(r1!), runStatus(r2!)]).toEqual(['in time', `cannot be bought: ${p2.problem}`]);
   });
 
   it('leaves runs wanted after the horizon and built runs out of the plan', () => {

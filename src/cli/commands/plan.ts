@@ -5,7 +5,7 @@ import { isIsoDate, todayIso } from '../../domain/dates.ts';
 import { acceptSuggestions } from '../../domain/planning.ts';
 import type { Plan } from '../../domain/planning.ts';
 import { parseExportOptions } from '../../io/csv-write.ts';
-import { planBook, planCsv, partStatus } from '../../io/plan-export.ts';
+import { limitText, planBook, planCsv, partStatus } from '../../io/plan-export.ts';
 import { loadBook } from '../book-read.ts';
 import { writeChange } from '../book-write.ts';
 import { parseArgs } from '../command.ts';
@@ -24,12 +24,14 @@ movements), open orders due in time and the net need; then the orders to place p
 Dates: a run's parts must be in by its date wanted less the Book's kitting and safety days; an order must go by
 that date less the supplier's lead time. Needs are netted in date order: stock first, then open orders due by
 the need date. A part whose order-by date has passed is late; one whose need date has passed is past due. Each
-run names the part that limits its date.
+run names the part that limits its date; a part it still has to buy that no quote can be used for comes first, and
+the run is then late (it cannot be built until the part can be bought).
 
   --horizon DAYS   plan runs wanted within this many days of the plan date (default: the Book's horizon)
   --date D         the plan date (default: today); quotes are judged at this date
   --json           print the plan as JSON {today, horizonEnd, runs, parts, suggestions}
-  --csv            print one row per part (RFC 4180; text that could run as a formula is neutralised)
+  --csv            print one row per part, with the runs it limits (RFC 4180; text that could run as a formula
+                   is neutralised)
   --place          place every suggested order: each becomes an open order with the next order number, dated
                    the plan date, due after its longest lead time; the Book file is rewritten (or --out NEW)
 ${CSV_CHOICES}
@@ -42,8 +44,9 @@ function table(plan: Plan, currency: string): string {
   out.push('runs');
   for (const r of plan.runs) {
     const where = r.inHorizon ? '' : ' (after the horizon)';
-    const lim = r.limiting ? `; limited by ${shown(r.limiting.mpn)}, in ${r.limiting.inDate}, earliest wanted ${r.limiting.earliestWanted}${r.late ? ' — LATE' : ''}` : '';
-    out.push(`  ${shown(r.run.name || r.run.id)}: ${r.run.quantity} wanted ${r.run.dateWanted}, parts in by ${r.needDate}${r.pastDue ? ' — PAST DUE' : ''}${lim}${where}`);
+    const lim = r.limiting ? `; limited by ${shown(limitText(r.limiting))}${r.late ? ' — LATE' : ''}` : '';
+    const bad = r.problems.map((x) => `\n    ✗ ${shown(x.message)}`).join('');
+    out.push(`  ${shown(r.run.name || r.run.id)}: ${r.run.quantity} wanted ${r.run.dateWanted}, parts in by ${r.needDate}${r.pastDue ? ' — PAST DUE' : ''}${lim}${where}${bad}`);
   }
   out.push('', 'parts (gross, on hand, on order in time, net)');
   for (const p of plan.parts) {
