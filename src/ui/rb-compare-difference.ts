@@ -6,7 +6,7 @@ import { css, html } from 'lit';
 import type { PropertyValues, TemplateResult } from 'lit';
 import { customElement, property, state } from 'lit/decorators.js';
 import { MAX_RUN_QUANTITY } from '../domain/freeze.ts';
-import { PART_UNIT_DIGITS, grouped, money, signedMoney } from '../domain/format.ts';
+import { grouped, money, signedMoney } from '../domain/format.ts';
 import { variantDifference } from './build-costing.ts';
 import { CompareView } from './compare-view.ts';
 import type { CompareRunDetail } from './rb-compare-split.ts';
@@ -84,7 +84,7 @@ export class RbCompareDifference extends CompareView {
     const vb = this.chosen.find((v) => v.id === this.diffB);
     const a = costs.bom(this.diffA, run);
     const b = costs.bom(this.diffB, run);
-    const part = (n: number): string => money(n, PART_UNIT_DIGITS);
+    const part = (n: number): string => money(n, 'partPrice');
     let body: TemplateResult;
     if (this.chosen.length < 2 || !va || !vb) body = html`<p class="empty">Tick two or more variants above to see what makes two of them differ.</p>`;
     else if (!a.ok || !b.ok) body = html`<p class="problem">${!a.ok ? `${va.code}: ${a.error}` : ''} ${!b.ok ? `${vb.code}: ${b.error}` : ''}</p>`;
@@ -117,18 +117,18 @@ export class RbCompareDifference extends CompareView {
                 <td class="code">${l.b || html`<span class="muted">not fitted</span>`}</td>
                 <td class="num">${part(l.costA)}</td>
                 <td class="num">${part(l.costB)}</td>
-                <td class="num">${signedMoney(l.effect, PART_UNIT_DIGITS)}</td>
+                <td class="num">${signedMoney(l.effect, 'partPrice')}</td>
               </tr>`,
             )}
             ${rest.map(
               ([what, v]) => html`<tr class="rest">
                 <td colspan="5">${what}</td>
-                <td class="num">${signedMoney(v)}</td>
+                <td class="num">${signedMoney(v, 'unitCost')}</td>
               </tr>`,
             )}
             <tr class="sum">
               <td colspan="5">unit cost ${vb.code} − ${va.code}</td>
-              <td class="num" data-testid="difference-total">${signedMoney(d.total)}</td>
+              <td class="num" data-testid="difference-total">${signedMoney(d.total, 'unitCost')}</td>
             </tr>
           </tbody>
         </table>

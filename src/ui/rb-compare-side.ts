@@ -140,7 +140,7 @@ export class RbCompareSide extends CompareView {
                     ${row.map((f, i) =>
                       Number.isFinite(f.value)
                         ? html`<td class="num" data-testid="unit-cost" data-variant=${chosen[i]!.code} data-run=${run} data-value=${f.value}>
-                            ${money(f.value)}${f.value === low ? html`<span class="low" title="lowest in this row">▼</span>` : ''}
+                            ${money(f.value, 'unitCost')}${f.value === low ? html`<span class="low" title="lowest in this row">▼</span>` : ''}
                           </td>`
                         : html`<td class="err" data-testid="unit-cost" data-variant=${chosen[i]!.code} data-run=${run} data-value="">✗ ${f.problem}</td>`,
                     )}
@@ -149,7 +149,7 @@ export class RbCompareSide extends CompareView {
                 ${runs.map(
                   (run, k) => html`<tr>
                     <th scope="row">price at ${grouped(run)} (${margin} % margin)</th>
-                    ${figures[k]!.map((f) => html`<td class="num">${Number.isFinite(f.value) ? money(f.value / (1 - margin / 100)) : '—'}</td>`)}
+                    ${figures[k]!.map((f) => html`<td class="num">${Number.isFinite(f.value) ? money(f.value / (1 - margin / 100), 'unitCost') : '—'}</td>`)}
                   </tr>`,
                 )}
               </tbody>

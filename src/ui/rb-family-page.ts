@@ -297,7 +297,7 @@ export class RbFamilyPage extends LitElement {
     const runs = book.settings.runSizes;
     const currency = book.settings.baseCurrency;
     const { grid, sig: colSig } = this.columns(book, runs, currency, used);
-    const money = (n: number): string => currencyMoney(n, currency);
+    const money = (n: number): string => currencyMoney(n, currency, 'unitCost');
     const rows = variants.map((v) => this.rowFor(v, this.paramCells(v, used, colSig), pending ? undefined : this.figureCells(v, costing, runs, money), runs));
     if (this.rowCache.size > variants.length * 2) {
       const ids = new Set(variants.map((v) => v.id));

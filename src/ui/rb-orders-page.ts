@@ -112,7 +112,7 @@ export class RbOrdersPage extends LitElement {
                 <td class="num">${grouped(outstanding(l))}</td>
                 <td class="num">${l.price}</td>
                 <td class="code">${l.currency}</td>
-                <td class="num">${money(Math.round(l.quantity * l.price * 100) / 100)}</td>
+                <td class="num">${money(Math.round(l.quantity * l.price * 100) / 100, 'total')}</td>
                 ${active
                   ? html`<td class="num">
                       <input class="qty" inputmode="numeric" aria-label=${`receive on line ${i + 1}`} .value=${this.qty.get(key) ?? ''} @input=${(e: Event) => this.qty.set(key, (e.target as HTMLInputElement).value)} />

@@ -151,7 +151,7 @@ export class RbPlanPage extends LitElement {
             </div>
             ${plan.suggestions.map((s) => [s, suggestionDocuments(book, [s], plan.today)[0]!] as const).map(
               ([s, doc]) => html`<div class="order" data-testid="suggestion" data-supplier=${s.supplierId}>
-                <h3>${s.supplier} — ${s.currency}, ${money(s.total)} (${money(s.totalBase)} ${base})</h3>
+                <h3>${s.supplier} — ${s.currency}, ${money(s.total, 'total')} (${money(s.totalBase, 'total')} ${base})</h3>
                 <p>
                   Order by ${s.orderBy}${s.late ? html` <span class="problem flag">⚠ late</span>` : ''}; due ${s.dueIfPlacedToday} if placed on
                   ${plan.today}.
@@ -182,7 +182,7 @@ export class RbPlanPage extends LitElement {
                           <td class="num">${grouped(l.net)}</td>
                           <td class="num">${grouped(l.buy)}</td>
                           <td class="num">${l.unitPrice}</td>
-                          <td class="num">${money(l.extended)}</td>
+                          <td class="num">${money(l.extended, 'total')}</td>
                           <td>${l.orderBy}${l.pastDue ? ' ✗ past due' : l.late ? ' ⚠ late' : ''}</td>
                         </tr>`,
                       )}

@@ -9,13 +9,14 @@ import { toCents } from '../domain/costing.ts';
 import { choiceText } from '../domain/alternates.ts';
 import type { CostedLine, Result } from '../domain/costing.ts';
 import { todayIso } from '../domain/dates.ts';
+import { money } from '../domain/format.ts';
 import { compareCostings, freezeRun, unfreezeRun } from '../domain/freeze.ts';
 import type { CostingComparison, LineChange } from '../domain/freeze.ts';
 import { purchaseDocuments } from '../domain/order-doc.ts';
 import type { OrderDocument } from '../domain/order-doc.ts';
 import { purchaseList } from '../domain/purchase.ts';
 import type { PurchaseList } from '../domain/purchase.ts';
-import { DEFAULT_EXPORT_OPTIONS, costVariant, costedTotalLabels, frozenCosting, numberText, runSupply } from '../io/run-export.ts';
+import { DEFAULT_EXPORT_OPTIONS, costVariant, costedTotalLabels, frozenCosting, runSupply } from '../io/run-export.ts';
 import type { ExportOptions, RunCosting } from '../io/run-export.ts';
 import { BookController } from './book-context.ts';
 import type { NoticeDetail } from './rb-book-menu.ts';
@@ -25,9 +26,11 @@ import { downloadOrderDoc, printOrderDoc } from './rb-order-doc.ts';
 import { printRunSheet, runSheetData, runTotalRows } from './rb-run-sheet.ts';
 import { pageStyles } from './styles.ts';
 
-const money = (n: number): string => numberText({ n, kind: 'money' });
-const unit = (n: number): string => numberText({ n, kind: 'unit' });
-const price = (n: number): string => numberText({ n, kind: 'price' });
+// The one money rule (domain/format.ts): a part's price keeps sub-cent digits, a variant's unit cost and every total
+// are to the cent, as on the Compare and Family pages.
+const total = (n: number): string => money(n, 'total');
+const unitCost = (n: number): string => money(n, 'unitCost');
+const partPrice = (n: number): string => money(n, 'partPrice');
 const signed = (n: number, f: (x: number) => string): string => (Number.isNaN(n) ? '—' : n > 0 ? `+${f(n)}` : n < 0 ? `−${f(-n)}` : '±0');
 
 /** The parts of a line's landed cost, by name (0 where a costing frozen before landed cost has none). */
@@ -40,9 +43,9 @@ const LANDED_PARTS = ['freight', 'duty', 'charges'] as const;
 function landedCell(l: CostedLine, cur: string): TemplateResult {
   const parts = LANDED_PARTS.map((name) => ({ name, n: l[name] ?? 0 }));
   const sum = parts.reduce((s, p) => s + toCents(p.n), 0) / 100;
-  const title = `${parts.map((p) => `${p.name} ${money(p.n)}`).join(' + ')} = ${money(sum)} ${cur}`;
+  const title = `${parts.map((p) => `${p.name} ${total(p.n)}`).join(' + ')} = ${total(sum)} ${cur}`;
   return html`<td class="num landed" title=${title}>
-    ${money(sum)}${parts.filter((p) => p.n !== 0).map((p) => html`<small>${p.name} ${money(p.n)}</small>`)}
+    ${total(sum)}${parts.filter((p) => p.n !== 0).map((p) => html`<small>${p.name} ${total(p.n)}</small>`)}
   </td>`;
 }
 
@@ -288,9 +291,9 @@ export class RbRunDetail extends LitElement {
                 <td class="num">${l.need}</td>
                 <td class="num">${l.buy}</td>
                 <td class="supplier">${l.supplier}<small class="code">${l.supplierCode}${l.incoterm ? ` · ${l.incoterm}` : ''}</small></td>
-                <td class="num">${price(l.unitPrice)} ${l.currency}<small>from ${l.breakQty}</small></td>
+                <td class="num">${partPrice(l.unitPrice)} ${l.currency}<small>from ${l.breakQty}</small></td>
                 <td class="num">
-                  ${money(l.extendedBase)}${l.currency === cur ? '' : html`<small>${money(l.extended)} ${l.currency}</small>`}
+                  ${total(l.extendedBase)}${l.currency === cur ? '' : html`<small>${total(l.extended)} ${l.currency}</small>`}
                 </td>
                 ${landedCell(l, cur)}
                 <td class="num">${l.leftover}</td>
@@ -318,10 +321,10 @@ export class RbRunDetail extends LitElement {
     const cur = frozen?.bom.currency ?? '';
     const labels = costedTotalLabels(cur, frozen?.marginPct ?? 0);
     const moved = cmp.lines.filter((l) => l.kind !== 'same');
-    const amount = (field: string, n: number): string => (['materialRun', 'runTotal', 'leftoverValue'].includes(field) ? money(n) : unit(n));
+    const amount = (field: string, n: number): string => (['materialRun', 'runTotal', 'leftoverValue'].includes(field) ? total(n) : unitCost(n));
     const cell = (l: LineChange, side: 'frozen' | 'fresh'): string => {
       const x = l[side];
-      return x ? `${x.buy} × ${price(x.unitPrice)} ${x.currency} from ${x.supplier}` : '—';
+      return x ? `${x.buy} × ${partPrice(x.unitPrice)} ${x.currency} from ${x.supplier}` : '—';
     };
     return html`<section class="sheet" aria-labelledby="cmp-h" data-testid="run-comparison">
       <h2 id="cmp-h">If re-costed today</h2>
@@ -344,7 +347,7 @@ export class RbRunDetail extends LitElement {
                           <td>${cell(l, 'frozen')}</td>
                           <td>${cell(l, 'fresh')}</td>
                           <td class="why">${l.fields.join(', ')}</td>
-                          <td class="num">${signed(l.deltaBase, money)}</td>
+                          <td class="num">${signed(l.deltaBase, total)}</td>
                         </tr>`,
                       )}
                     </tbody>
@@ -410,24 +413,24 @@ export class RbRunDetail extends LitElement {
                     <td class="num">${p.line.buy}</td>
                     <td class="num">${p.line.moq}</td>
                     <td class="why">${REASON_WORDS[p.reason]}</td>
-                    <td class="num">${price(p.line.unitPrice)}</td>
-                    <td class="num">${money(p.line.extended)}</td>
-                    <td class="num">${money(p.line.extendedBase)}</td>
+                    <td class="num">${partPrice(p.line.unitPrice)}</td>
+                    <td class="num">${total(p.line.extended)}</td>
+                    <td class="num">${total(p.line.extendedBase)}</td>
                     <td class="num">${p.line.leadDays}</td>
                     <td class="code">${p.latestOrderDate ?? ''}${p.late ? html` <span class="late">⚠ late</span>` : ''}</td>
                   </tr>`,
                 )}
                 <tr>
                   <td colspan="8"><b>total ${o.supplier}</b></td>
-                  <td class="num"><b>${money(o.total)} ${o.currency}</b></td>
-                  <td class="num"><b>${money(o.totalBase)}</b></td>
+                  <td class="num"><b>${total(o.total)} ${o.currency}</b></td>
+                  <td class="num"><b>${total(o.totalBase)}</b></td>
                   <td colspan="2"></td>
                 </tr>
               </tbody>
             </table>
           </div>`,
       )}
-      <p><b>All suppliers: ${money(list.totalBase)} ${list.currency}</b></p>
+      <p><b>All suppliers: ${total(list.totalBase)} ${list.currency}</b></p>
       ${list.missing.map((p) => html`<p class="notice">Not on the list, ${p.designators ?? ''}: ${p.message}</p>`)}
     </section>`;
   }

@@ -9,7 +9,8 @@ import { CHECK_STATUS, STATUS_SEVERITY, STATUS_SYMBOL } from '../domain/check-st
 import type { CheckStatus } from '../domain/check-status.ts';
 import { formatValue } from '../domain/units.ts';
 import { evaluateChecks } from '../engine/family.ts';
-import { costedTotalLabels, numberText } from '../io/run-export.ts';
+import { money } from '../domain/format.ts';
+import { costedTotalLabels } from '../io/run-export.ts';
 import type { RunCosting } from '../io/run-export.ts';
 import { MAINS_CAUTION } from './rb-mains-caution.ts';
 import './print.css';
@@ -87,24 +88,26 @@ export async function printRunSheet(data: RunSheetData): Promise<void> {
   await printAlone('rb-run-sheet', (sheet) => (sheet.data = data));
 }
 
-const money = (n: number): string => numberText({ n, kind: 'money' });
-const unit = (n: number): string => numberText({ n, kind: 'unit' });
-const price = (n: number): string => numberText({ n, kind: 'price' });
+// The one money rule (domain/format.ts): a part's price keeps sub-cent digits, a variant's unit cost and every total
+// are to the cent, as on the Compare and Family pages.
+const total = (n: number): string => money(n, 'total');
+const unitCost = (n: number): string => money(n, 'unitCost');
+const partPrice = (n: number): string => money(n, 'partPrice');
 
 /** The rows of a run's totals table, as both the run detail on screen and the printed run sheet show them. */
 export function runTotalRows(costing: RunCosting): TemplateResult {
   const bom = costing.bom;
   const labels = costedTotalLabels(bom.currency, costing.marginPct);
-  return html`<tr><td>${labels.material}</td><td class="num">${unit(bom.material)}</td></tr>
-    <tr><td>${labels.labour}</td><td class="num">${unit(bom.labour)}</td></tr>
-    <tr><td>${labels.test}</td><td class="num">${unit(bom.test)}</td></tr>
-    <tr><td>${labels.overhead}</td><td class="num">${unit(bom.overhead)}</td></tr>
-    <tr class="strong"><td>${labels.unitCost}</td><td class="num">${unit(bom.unitCost)}</td></tr>
-    <tr><td>${labels.price}</td><td class="num">${unit(bom.price)}</td></tr>
-    <tr><td>${labels.materialRun}</td><td class="num">${money(bom.materialRun)}</td></tr>
-    ${bom.landedRun ? html`<tr><td>${labels.landedRun}</td><td class="num">${money(bom.landedRun)}</td></tr>` : ''}
-    <tr class="strong"><td>${labels.runTotal}</td><td class="num">${money(bom.runTotal)}</td></tr>
-    <tr><td>${labels.leftoverValue}</td><td class="num">${money(bom.leftoverValue)}</td></tr>`;
+  return html`<tr><td>${labels.material}</td><td class="num">${unitCost(bom.material)}</td></tr>
+    <tr><td>${labels.labour}</td><td class="num">${unitCost(bom.labour)}</td></tr>
+    <tr><td>${labels.test}</td><td class="num">${unitCost(bom.test)}</td></tr>
+    <tr><td>${labels.overhead}</td><td class="num">${unitCost(bom.overhead)}</td></tr>
+    <tr class="strong"><td>${labels.unitCost}</td><td class="num">${unitCost(bom.unitCost)}</td></tr>
+    <tr><td>${labels.price}</td><td class="num">${unitCost(bom.price)}</td></tr>
+    <tr><td>${labels.materialRun}</td><td class="num">${total(bom.materialRun)}</td></tr>
+    ${bom.landedRun ? html`<tr><td>${labels.landedRun}</td><td class="num">${total(bom.landedRun)}</td></tr>` : ''}
+    <tr class="strong"><td>${labels.runTotal}</td><td class="num">${total(bom.runTotal)}</td></tr>
+    <tr><td>${labels.leftoverValue}</td><td class="num">${total(bom.leftoverValue)}</td></tr>`;
 }
 
 @customElement('rb-run-sheet')
@@ -332,8 +335,8 @@ export class RbRunSheet extends LitElement {
               <td class="num">${l.need}</td>
               <td class="num">${l.buy}</td>
               <td class="supplier">${l.supplier}<span class="sub code">${l.supplierCode}</span></td>
-              <td class="num">${price(l.unitPrice)} ${l.currency}</td>
-              <td class="num">${money(l.extendedBase)}</td>
+              <td class="num">${partPrice(l.unitPrice)} ${l.currency}</td>
+              <td class="num">${total(l.extendedBase)}</td>
             </tr>`,
           )}
           ${bom.problems.map(

@@ -65,20 +65,20 @@ export class RbRunStock extends LitElement {
                 <td class="code">${l.line.mpn}</td>
                 <td class="num">${grouped(l.line.need)}</td>
                 <td class="num">${grouped(l.fromStock)}</td>
-                <td class="num">${money(l.stockValue)}</td>
+                <td class="num">${money(l.stockValue, 'total')}</td>
                 <td>${l.fromStock > 0 ? l.valuedAt : ''}</td>
                 <td class="num">${grouped(l.toBuy)}</td>
                 <td class="num">${l.problem ? html`<span class="problem">✗ ${l.problem}</span>` : grouped(l.buy)}</td>
-                <td class="num">${money((toCents(l.boughtBase) + toCents(l.landedBase)) / 100)}</td>
+                <td class="num">${money((toCents(l.boughtBase) + toCents(l.landedBase)) / 100, 'total')}</td>
               </tr>`,
             )}
           </tbody>
           <tfoot>
             <tr>
-              <th colspan="3">material for the run: ${money(c.materialRun)} ${base} (per unit ${c.material.toFixed(4)})</th>
-              <th class="num">${money(c.stockRun)}</th>
+              <th colspan="3">material for the run: ${money(c.materialRun, 'total')} ${base} (per unit ${money(c.material, 'unitCost')})</th>
+              <th class="num">${money(c.stockRun, 'total')}</th>
               <th colspan="3"></th>
-              <th class="num">${money(c.boughtRun)}${c.landedRun ? html`<div class="muted">of which landed ${money(c.landedRun)}</div>` : ''}</th>
+              <th class="num">${money(c.boughtRun, 'total')}${c.landedRun ? html`<div class="muted">of which landed ${money(c.landedRun, 'total')}</div>` : ''}</th>
             </tr>
           </tfoot>
         </table>

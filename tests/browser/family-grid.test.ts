@@ -53,7 +53,7 @@ function costText(book: Book, variantId: string, run: number): string {
   if (!wb.ok) throw new Error(wb.error);
   const u = wb.value.unitCost(variantId, run);
   wb.value.close();
-  return currencyMoney(u, book.settings.baseCurrency);
+  return currencyMoney(u, book.settings.baseCurrency, 'unitCost');
 }
 
 describe('Family grid', () => {

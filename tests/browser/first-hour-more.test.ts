@@ -2,8 +2,9 @@
 // rail kept the old Book's name (the company stays, as the settings do), the variant form still showed a variant of
 // the old Book and undo offered its edits; after opening a Book file the rail said no Book file was downloaded yet;
 // the Export page started on another run than the one just opened on the Runs page; on Compare "None" chose the first
-// four, the difference section ignored the ticked variants and took only the Book's run sizes, and money showed four
-// decimals there and two elsewhere; the storage in use grew with each empty/open cycle. (That growth is the browser's
+// four, the difference section ignored the ticked variants and took only the Book's run sizes, and a variant's unit
+// cost showed two decimals there and four on the Runs page (one money rule now, domain/format.ts); the storage in use
+// grew with each empty/open cycle. (That growth is the browser's
 // IndexedDB write log: every write is appended, cleared records included, until the log is folded into a table and
 // compacted, which a persistent Chromium profile did at about 3 MB, falling back to about 0.5 MB for the demo Book.
 // Rungbook itself keeps nothing of a replaced Book, which the last test shows.)
@@ -11,6 +12,7 @@ import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { defaultSettings } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
+import { costedTotalLabels } from '../../src/io/run-export.ts';
 import { bucketQuotes } from '../../src/store/schema.ts';
 import { AppUnderTest, compareFigures, pageLoaded, railTo, readerText, saved, text, WIDE_VIEWPORT } from './harness.ts';
 
@@ -130,7 +132,29 @@ describe('the first hour, more', () => {
     expect(costs.length).toBeGreaterThan(0);
     for (const c of costs) expect(c).toMatch(/^\d[\d,]*\.\d\d$/);
     const line = page.locator('[data-testid="difference-table"] tr[data-line] td.num');
-    if ((await line.count()) > 0) expect(readerText(await line.first().textContent())).toMatch(/^\d[\d,]*\.\d{4}$/);
+    if ((await line.count()) > 0) expect(readerText(await line.first().textContent())).toMatch(/^\d[\d,]*\.\d{2,4}$/);
+    expect(errors).toEqual([]);
+  });
+
+  it('shows a variant’s unit cost with the same text on the Runs page (whose totals the run sheet prints) and on Compare', async () => {
+    const run = demo.runs.find((r) => !r.frozen && demo.settings.runSizes.includes(r.quantity))!;
+    const variant = demo.variants.find((v) => v.id === run.variantId)!;
+    const labels = costedTotalLabels(demo.settings.baseCurrency, demo.settings.marginPct);
+    const { page, errors } = await app.open('#/runs', { viewport: WIDE_VIEWPORT, ready: '[data-testid="runs-table"]' });
+    await page.getByRole('button', { name: run.name, exact: true }).click();
+    await page.locator('rb-run-detail h2', { hasText: `Run ${run.name}` }).waitFor();
+    const row = page.locator('[data-testid="run-totals"] tr', { hasText: labels.unitCost });
+    const onRuns = readerText(await row.locator('td.num').textContent()).trim();
+    expect(onRuns).toMatch(/^\d[\d,]*\.\d\d$/);
+
+    await railTo(page, '#/compare');
+    await pageLoaded(page, 'Compare');
+    const choice = page.locator('[data-testid="compare-choices"] label', { hasText: variant.code }).locator('input');
+    if (!(await choice.isChecked())) await choice.check();
+    await compareFigures(page);
+    const cell = page.locator(`[data-testid="unit-cost"][data-variant="${variant.code}"][data-run="${run.quantity}"]`);
+    const onCompare = readerText(await cell.textContent()).replace('▼', '').trim();
+    expect(onCompare).toBe(onRuns);
     expect(errors).toEqual([]);
   });
 

@@ -10,7 +10,8 @@ import { demoBook } from '../../src/domain/demo-book.ts';
 import { usedDesignators } from '../../src/domain/designators.ts';
 import { VARIANT_PARAMS } from '../../src/domain/params.ts';
 import { sortVariants } from '../../src/domain/variant-order.ts';
-import { costedTotalLabels, numberText, runCosting } from '../../src/io/run-export.ts';
+import { money } from '../../src/domain/format.ts';
+import { costedTotalLabels, runCosting } from '../../src/io/run-export.ts';
 import { PAGES } from '../../src/ui/pages.ts';
 import { MAINS_CAUTION } from '../../src/ui/rb-mains-caution.ts';
 import { AppUnderTest, WIDE_VIEWPORT, pageLoaded, readerText, saved, text } from './harness.ts';
@@ -243,7 +244,7 @@ describe('the first hour', () => {
     const priced = pdfPageTexts(await page.pdf({ format: 'A4' }));
     expect(priced.length).toBeLessThanOrEqual(2);
     const labels = costedTotalLabels('EUR', demo.settings.marginPct);
-    expect(priced.join(' ')).toContain(`${labels.unitCost} ${numberText({ n: costing.value.bom.unitCost, kind: 'unit' })}`);
+    expect(priced.join(' ')).toContain(`${labels.unitCost} ${money(costing.value.bom.unitCost, 'unitCost')}`);
 
     await page.getByRole('button', { name: 'Print shop-floor sheet' }).click();
     await page.locator('rb-run-sheet [data-testid="sheet-kit"]').waitFor({ state: 'attached' });

@@ -9,8 +9,9 @@ import type { Page } from 'playwright-core';
 import { COLLECTIONS, mpnKey } from '../../src/domain/book.ts';
 import type { Book } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
+import { money } from '../../src/domain/format.ts';
 import { parseBookFile } from '../../src/io/book-file.ts';
-import { costVariant, costedBomCsv, costedTotalLabels, exportBytes, numberText, runCosting } from '../../src/io/run-export.ts';
+import { costVariant, costedBomCsv, costedTotalLabels, exportBytes, runCosting } from '../../src/io/run-export.ts';
 import { AppUnderTest, compareFigures, pageLoaded, railTo, readerText, saved, text, WIDE_VIEWPORT } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
@@ -155,8 +156,8 @@ describe('the first week', () => {
     expect(value(runCosting(book, run, { fresh: true })).bom).toEqual(costing.bom);
     expect(liveLines).toBe(costing.bom.lines.length);
     const labels = costedTotalLabels(book.settings.baseCurrency, book.settings.marginPct);
-    expect(liveTotals).toContain(`${labels.unitCost}${numberText({ n: costing.bom.unitCost, kind: 'unit' })}`);
-    expect(liveTotals).toContain(`${labels.runTotal}${numberText({ n: costing.bom.runTotal, kind: 'money' })}`);
+    expect(liveTotals).toContain(`${labels.unitCost}${money(costing.bom.unitCost, 'unitCost')}`);
+    expect(liveTotals).toContain(`${labels.runTotal}${money(costing.bom.runTotal, 'total')}`);
     expect(csv.bytes.equals(Buffer.from(exportBytes(value(costedBomCsv(costing, undefined, { run: run.name })))))).toBe(true);
     // The 12 V 0.5 W zener the new variant takes, which the new supplier's file prices too, is on its BOM.
     expect(costing.bom.lines.some((l) => l.mpn === 'QX-Z12-05')).toBe(true);

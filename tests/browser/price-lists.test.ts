@@ -11,9 +11,10 @@ import { toCents } from '../../src/domain/costing.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { priceTable } from '../../src/domain/price-lists.ts';
 import type { PriceTable } from '../../src/domain/price-lists.ts';
+import { money } from '../../src/domain/format.ts';
 import { exportBytes } from '../../src/io/csv-write.ts';
 import { familyUnitCosts, priceListCsv, priceListFileName, priceListHeader } from '../../src/io/price-list-export.ts';
-import { costedTotalLabels, numberText, runCosting } from '../../src/io/run-export.ts';
+import { costedTotalLabels, runCosting } from '../../src/io/run-export.ts';
 import { AppUnderTest, WIDE_VIEWPORT, pageLoaded, readerText, saved, text } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
@@ -241,7 +242,7 @@ describe('landed cost through the forms', () => {
     await page.getByRole('button', { name: run.name, exact: true }).click();
     const bom = page.locator('[data-testid="run-bom"]');
     await bom.waitFor();
-    const money = (n: number): string => numberText({ n, kind: 'money' });
+    const total = (n: number): string => money(n, 'total');
     const rows = bom.locator('tbody tr');
     await expect(rows.count()).resolves.toBe(lines.length);
     for (const [i, l] of lines.entries()) {
@@ -249,17 +250,17 @@ describe('landed cost through the forms', () => {
       await expect(row.locator('td.part .code').textContent().then(readerText)).resolves.toBe(l.mpn);
       const landed = readerText(await row.locator('td.landed').textContent());
       const sum = (toCents(l.freight ?? 0) + toCents(l.duty ?? 0) + toCents(l.charges ?? 0)) / 100;
-      expect(landed.startsWith(money(sum)), `${l.mpn}: ${landed}`).toBe(true);
+      expect(landed.startsWith(total(sum)), `${l.mpn}: ${landed}`).toBe(true);
       for (const part of ['freight', 'duty', 'charges'] as const) {
         const n = l[part] ?? 0;
-        if (n !== 0) expect(landed).toContain(`${part} ${money(n)}`);
+        if (n !== 0) expect(landed).toContain(`${part} ${total(n)}`);
         else expect(landed).not.toContain(part);
       }
     }
     await expect(rows.nth(lines.indexOf(ddp)).locator('td.supplier').textContent().then(readerText)).resolves.toContain(`${ddp.supplierCode} · DDP`);
     const labels = costedTotalLabels(costing.bom.currency, demo.settings.marginPct);
     const landedTotal = page.locator('[data-testid="run-totals"] tr', { hasText: labels.landedRun });
-    await expect(landedTotal.locator('td.num').textContent().then(readerText)).resolves.toBe(money(costing.bom.landedRun!));
+    await expect(landedTotal.locator('td.num').textContent().then(readerText)).resolves.toBe(total(costing.bom.landedRun!));
 
     // With landed cost on its lines, the costed BOM still fits a 1,400-pixel window.
     const fits = await bom.evaluate((t) => ({ table: t.scrollWidth, frame: t.parentElement!.clientWidth }));

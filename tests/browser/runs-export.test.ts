@@ -8,7 +8,8 @@ import type { Page } from 'playwright-core';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { toCents } from '../../src/domain/costing.ts';
 import { purchaseList } from '../../src/domain/purchase.ts';
-import { costedBomCsv, costedTotalLabels, exportBytes, numberText, purchaseListCsv, runCosting } from '../../src/io/run-export.ts';
+import { money } from '../../src/domain/format.ts';
+import { costedBomCsv, costedTotalLabels, exportBytes, purchaseListCsv, runCosting } from '../../src/io/run-export.ts';
 import type { ExportOptions, RunCosting } from '../../src/io/run-export.ts';
 import { AppUnderTest } from './harness.ts';
 import { pdfPageTexts } from './runs-pdf-text.ts';
@@ -100,8 +101,8 @@ describe('runs, exports and the run sheet in the browser', () => {
     expect(runList.bytes.equals(Buffer.from(exportBytes(value(listCsv))))).toBe(true);
     const totals = await page.locator('[data-testid="run-totals"]').textContent();
     const labels = costedTotalLabels('EUR', demo.settings.marginPct);
-    expect(totals).toContain(`${labels.unitCost}${numberText({ n: costing.bom.unitCost, kind: 'unit' })}`);
-    expect(totals).toContain(`${labels.runTotal}${numberText({ n: costing.bom.runTotal, kind: 'money' })}`);
+    expect(totals).toContain(`${labels.unitCost}${money(costing.bom.unitCost, 'unitCost')}`);
+    expect(totals).toContain(`${labels.runTotal}${money(costing.bom.runTotal, 'total')}`);
     expect(await page.locator('[data-testid="run-bom"] tbody tr').count()).toBe(costing.bom.lines.length);
     expect(await page.locator('[data-testid="run-purchase"] h3').count()).toBe(purchaseList(costing.bom).orders.length);
 
@@ -157,9 +158,9 @@ describe('runs, exports and the run sheet in the browser', () => {
       pages.forEach((p, i) => expect(p).toContain(`page ${i + 1} of ${pages.length}`));
       expect(all).toContain(`Run sheet · ${run.name}`);
       expect(all).toContain(`VARIANT ${variant.code}`);
-      expect(all).toContain(`${labels.unitCost} ${numberText({ n: bom.unitCost, kind: 'unit' })}`);
-      expect(all).toContain(`${labels.runTotal} ${numberText({ n: bom.runTotal, kind: 'money' })}`);
-      expect(all).toContain(`${labels.materialRun} ${numberText({ n: bom.materialRun, kind: 'money' })}`);
+      expect(all).toContain(`${labels.unitCost} ${money(bom.unitCost, 'unitCost')}`);
+      expect(all).toContain(`${labels.runTotal} ${money(bom.runTotal, 'total')}`);
+      expect(all).toContain(`${labels.materialRun} ${money(bom.materialRun, 'total')}`);
       expect(all).toContain(caution.normalize('NFKC'));
       for (const l of bom.lines) expect(all).toContain(l.mpn);
       // Nothing of the app around the sheet is printed.

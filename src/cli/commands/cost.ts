@@ -4,6 +4,7 @@
 import type { Book, Variant } from '../../domain/book.ts';
 import type { CostedBom, Result } from '../../domain/costing.ts';
 import { isIsoDate } from '../../domain/dates.ts';
+import { moneyDigits } from '../../domain/format.ts';
 import type { StockCostedBom } from '../../domain/stock-costing.ts';
 import { choiceText } from '../../domain/alternates.ts';
 import { costedBomCsv, costVariant, frozenCosting, parseExportOptions, runAbout, runSupply } from '../../io/run-export.ts';
@@ -175,10 +176,13 @@ export function printOutput(name: string, parsed: ParsedArgs, io: CommandIo, o: 
   return true;
 }
 
-/** Money to 2 decimals, per-unit figures to 4, quantities as whole numbers with thin grouping. */
+/**
+ * Figures in the CLI's tables, ungrouped so a column can be read back: totals and a variant's unit cost by the one money
+ * rule (domain/format.ts, to the cent, as every page shows them), prices as quoted, quantities as whole numbers.
+ */
 export const fmt = {
-  money: (n: number): string => n.toFixed(2),
-  unit: (n: number): string => n.toFixed(4),
+  money: (n: number): string => moneyDigits(n, 'total'),
+  unitCost: (n: number): string => moneyDigits(n, 'unitCost'),
   price: (n: number): string => {
     const s = String(n);
     const dp = s.includes('.') ? s.length - s.indexOf('.') - 1 : 0;
@@ -242,12 +246,12 @@ export function costJson(bom: CostedBom): Record<string, unknown> {
 function totals(bom: CostedBom, marginPct: number): [string, string][] {
   const c = shown(bom.currency);
   return [
-    [`material per unit (${c})`, fmt.unit(bom.material)],
-    [`labour per unit (${c})`, fmt.unit(bom.labour)],
-    [`test per unit (${c})`, fmt.unit(bom.test)],
-    [`overhead per unit (${c})`, fmt.unit(bom.overhead)],
-    [`unit cost (${c})`, fmt.unit(bom.unitCost)],
-    [`price at ${marginPct} % margin (${c})`, fmt.unit(bom.price)],
+    [`material per unit (${c})`, fmt.unitCost(bom.material)],
+    [`labour per unit (${c})`, fmt.unitCost(bom.labour)],
+    [`test per unit (${c})`, fmt.unitCost(bom.test)],
+    [`overhead per unit (${c})`, fmt.unitCost(bom.overhead)],
+    [`unit cost (${c})`, fmt.unitCost(bom.unitCost)],
+    [`price at ${marginPct} % margin (${c})`, fmt.unitCost(bom.price)],
     [`run material (${c})`, fmt.money(bom.materialRun)],
     [`  of which landed cost (${c})`, fmt.money(bom.landedRun ?? 0)],
     [`run total (${c})`, fmt.money(bom.runTotal)],
@@ -342,7 +346,7 @@ function stockTableOut(job: CostJob, c: StockCostedBom): string[] {
   const valuation = c.valuation === 'lastPaid' ? 'last price paid (else today\'s quote)' : "today's quote";
   const out = [`${shown(c.bom.variant)} — ${shown(job.variant.name)}: run of ${c.bom.run} with the stock on hand on ${shown(c.bom.date)}, stock valued at ${valuation}, totals in ${cur}`, ''];
   const rows = stockCostRows(c);
-  const cell = (x: (typeof rows)[number][number]): string => (x === undefined ? '' : typeof x === 'string' ? shown(x) : x.kind === 'qty' ? fmt.qty(x.n) : x.kind === 'price' ? fmt.price(x.n) : x.kind === 'unit' ? fmt.unit(x.n) : fmt.money(x.n));
+  const cell = (x: (typeof rows)[number][number]): string => (x === undefined ? '' : typeof x === 'string' ? shown(x) : x.kind === 'qty' ? fmt.qty(x.n) : x.kind === 'price' ? fmt.price(x.n) : x.kind === 'unit' ? fmt.unitCost(x.n) : fmt.money(x.n));
   const lines = rows.slice(0, c.lines.length + 1).map((r) => r.map(cell));
   out.push(...table(lines, [false, false, true, true, true, false, true, true, false, true, false, true, true, false]));
   out.push('');
