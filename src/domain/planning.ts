@@ -6,7 +6,7 @@
 // Dates: parts must be in by  date wanted − kitting and assembly days − safety days  (the need date), and an order
 // must go by  need date − the supplier's lead time  (the order-by date). Netting takes the needs in date order:
 // stock on hand first, then open orders due by the need date; what is left is the net need.
-import type { Book, Order, Run } from './book.ts';
+import type { Book, Order, Run, Settings } from './book.ts';
 import type { BookChange } from './book-ops.ts';
 import { attritionFor, candidateQuotes, ceilNeed, chooseQuote, toCents, variantDemands } from './costing.ts';
 import type { CostingContext, CostProblem, ResolvedLine, SupplyOptions } from './costing.ts';
@@ -181,7 +181,7 @@ export function planRuns(book: Book, ctx: CostingContext, lines: RunLines, optio
     const rp: RunPlan = {
       run,
       inHorizon,
-      needDate: shiftDays(-1, run.dateWanted, lag)!,
+      needDate: runNeedDate(s, run),
       pastDue: run.dateWanted < today,
       late: false,
       needs: new Map(),
@@ -193,8 +193,7 @@ export function planRuns(book: Book, ctx: CostingContext, lines: RunLines, optio
       rp.problems.push({ message: `the run's variant ${run.variantId} is not in the Book` });
       continue;
     }
-    // A line with approved alternates buys the part that can be had by the run's need date (domain/costing.ts).
-    const { demands, problems } = runDemands(ctx, lines.get(run.variantId) ?? [], run.quantity, { dateWanted: rp.needDate });
+    const { demands, problems } = runPlanDemands(ctx, s, lines.get(run.variantId) ?? [], run);
     rp.problems.push(...problems);
     for (const d of demands) {
       let p = byPart.get(d.partId);
@@ -345,6 +344,24 @@ export function planRuns(book: Book, ctx: CostingContext, lines: RunLines, optio
   }
 
   return { ok: true, value: { today, horizonEnd, runs, parts, suggestions: suggestionsFrom(lineFor, today) } };
+}
+
+/** The date a run's parts must be in: its date wanted less the kitting and assembly days and the safety days. */
+export function runNeedDate(settings: Pick<Settings, 'kittingDays' | 'safetyDays'>, run: Pick<Run, 'dateWanted'>): string {
+  return shiftDays(-1, run.dateWanted, settings.kittingDays + settings.safetyDays)!;
+}
+
+/**
+ * A run's needs as the plan takes them, and as marking the run built issues them: a line with approved alternates
+ * buys the part that can be had by the run's need date (domain/costing.ts), so both choose the same part.
+ */
+export function runPlanDemands(
+  ctx: CostingContext,
+  settings: Pick<Settings, 'kittingDays' | 'safetyDays'>,
+  lines: readonly ResolvedLine[],
+  run: Pick<Run, 'dateWanted' | 'quantity'>,
+): ReturnType<typeof runDemands> {
+  return runDemands(ctx, lines, run.quantity, { dateWanted: runNeedDate(settings, run) });
 }
 
 /** Date arithmetic of a plan, remembered: a plan shifts the same few dates by the same few lead times many times. */

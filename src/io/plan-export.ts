@@ -3,7 +3,7 @@
 import type { Book, Run } from '../domain/book.ts';
 import { prepareCosting } from '../domain/costing.ts';
 import type { Result } from '../domain/costing.ts';
-import { planRuns, runDemands } from '../domain/planning.ts';
+import { planRuns, runPlanDemands } from '../domain/planning.ts';
 import type { Limiting, Plan, PlanOptions } from '../domain/planning.ts';
 import { resolutionFromFamily } from '../engine/costing.ts';
 import { resolveFamily } from '../engine/family.ts';
@@ -21,14 +21,17 @@ export function planBook(book: Book, options: PlanOptions): Result<Plan> {
   return planRuns(book, ctx.value, resolutionFromFamily(resolveFamily(book)), options);
 }
 
-/** What building a run takes from stock: its need per part id, by the costing's rule. Lines that fail give an error. */
+/**
+ * What building a run takes from stock: its need per part id, by the costing's rule and the plan's choice among
+ * approved alternates (runPlanDemands, as planRuns takes it). Lines that fail give an error.
+ */
 export function runNeeds(book: Book, run: Run, today: string): Result<Map<string, number>> {
   const ctx = prepareCosting(book, { date: today });
   if (!ctx.ok) return ctx;
   const variant = book.variants.find((v) => v.id === run.variantId);
   if (!variant) return { ok: false, error: `the run's variant ${run.variantId} is not in the Book` };
   const lines = resolveFamily({ ...book, variants: [variant] }).variants[0]?.lines ?? [];
-  const { demands, problems } = runDemands(ctx.value, lines, run.quantity);
+  const { demands, problems } = runPlanDemands(ctx.value, book.settings, lines, run);
   if (problems.length) return { ok: false, error: `${problems[0]!.designators || problems[0]!.lineId || 'a line'}: ${problems[0]!.message}` };
   const needs = new Map<string, number>();
   for (const d of demands) needs.set(d.partId, (needs.get(d.partId) ?? 0) + d.need);

@@ -11,6 +11,8 @@ import { runDemands } from '../../src/domain/planning.ts';
 import { CostingWorkbook, resolutionFromFamily } from '../../src/engine/costing.ts';
 import { resolveFamily } from '../../src/engine/family.ts';
 import { costedBomRows, runCosting } from '../../src/io/run-export.ts';
+import { planBook, runNeeds } from '../../src/io/plan-export.ts';
+import { buildRun } from '../../src/domain/stock.ts';
 import { part, smallBook, value } from './costing-fixtures.ts';
 
 /**
@@ -134,6 +136,30 @@ describe('costing chooses among approved parts', () => {
     expect(row[head.indexOf('part_choice')]).toBe(PART_CHOICE.onlyInTime);
     expect(row[head.indexOf('approved_parts')]).toMatchObject({ n: 3 });
     expect(rows.find((r) => r[0] === 'R1')![head.indexOf('part_choice')]).toBe(PART_CHOICE.single);
+  });
+
+  it('marking a run built issues the approved part the plan allocated to it, chosen by the same need date', () => {
+    // Wanted 2025-06-15 less 5 kitting and 2 safety days: parts in by 2025-06-08. Planned on 2025-06-01 only the
+    // 5-day part (in 2025-06-06) is in time; by the date wanted alone the 10-day own part (in 2025-06-11) would be.
+    const b = book();
+    b.settings = { ...b.settings, kittingDays: 5, safetyDays: 2 };
+    const run: Run = { id: 'run1', rev: 1, name: 'June run', variantId: 'v1', quantity: 100, dateWanted: '2025-06-15', notes: '' };
+    b.runs = [run];
+    // Enough of every approved part on hand that any choice could be issued.
+    b.stockMoves = ['cap_a', 'cap_b', 'cap_c', 'res'].map((partId, i) => ({ id: `m${i}`, rev: 1, partId, date: '2025-05-30', quantity: 500, kind: 'counted' as const, reason: 'count' }));
+    const today = '2025-06-01';
+    const planned = value(planBook(b, { today }));
+    expect([...planned.runs[0]!.needs]).toEqual([
+      ['cap_c', 100],
+      ['res', 100],
+    ]);
+    const needs = value(runNeeds(b, run, today));
+    expect([...needs]).toEqual([...planned.runs[0]!.needs]);
+    const built = value(buildRun(b, run, today, needs));
+    expect(built.put!.stockMoves!.map((m) => [m.partId, m.quantity, m.kind])).toEqual([
+      ['cap_c', -100, 'issued'],
+      ['res', -100, 'issued'],
+    ]);
   });
 
   it('planning needs the part the run can have in time', () => {
