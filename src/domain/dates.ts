@@ -35,6 +35,14 @@ export function todayIso(now: Date = new Date()): string {
   return `${now.getFullYear()}-${p(now.getMonth() + 1)}-${p(now.getDate())}`;
 }
 
+/** A moment (an ISO timestamp) as the person reads it: their local date and time to the minute; the text itself if it is not one. */
+export function localMoment(iso: string): string {
+  const t = new Date(iso);
+  if (Number.isNaN(t.getTime())) return iso;
+  const p = (n: number): string => String(n).padStart(2, '0');
+  return `${todayIso(t)} ${p(t.getHours())}:${p(t.getMinutes())}`;
+}
+
 /** date − days as an ISO date, in calendar days (counted in UTC, so no daylight-saving step). Undefined for a bad date. */
 export function daysBefore(date: string, days: number): string | undefined {
   if (!isIsoDate(date) || !Number.isInteger(days)) return undefined;

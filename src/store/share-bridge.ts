@@ -7,11 +7,12 @@
 import type { Book, CollectionName } from '../domain/book.ts';
 import { COLLECTIONS } from '../domain/book.ts';
 import { bookDelta } from '../domain/book-ops.ts';
+import { sameValue } from '../domain/merge.ts';
 import type { BookChange } from '../domain/book-ops.ts';
 import { chooseValue, mergeAllVersions, stillOpen } from '../domain/share-merge.ts';
 import type { OpenField, SharedVersion } from '../domain/share-merge.ts';
 import type { Database, Doc, PouchDBConstructor, Replication } from 'pouchdb-core';
-import { MERGES_PREFIX, checkRecordDoc, changeForDocs, docsForChange, placeOfDoc } from './shared-docs.ts';
+import { MERGES_PREFIX, SETTINGS_DOC_ID, checkRecordDoc, changeForDocs, docsForChange, placeOfDoc, recordDocId } from './shared-docs.ts';
 import type { CheckedDoc, DocProblem, MergeDoc, MergeNote, RecordDoc } from './shared-docs.ts';
 
 /** The Book side of the bridge: what BookService offers (its Book, its save path, its change events). */
@@ -50,6 +51,18 @@ export interface ShareStatus {
   error?: string;
 }
 
+/** One version of a shared record as this copy holds it: who saved it, when, and what it changed. */
+export interface RecordVersion {
+  docId: string;
+  rev: string;
+  by: string;
+  at: string;
+  deleted: boolean;
+  record: Record<string, unknown>;
+  /** Top-level fields that differ from the version before it held here; undefined for the oldest held. */
+  changed: string[] | undefined;
+}
+
 /** A field kept for a person to decide, with the record it belongs to. */
 export interface OpenConflict {
   docId: string;
@@ -66,6 +79,15 @@ export interface ShareBridgeOptions {
   engine?: PouchDBConstructor;
   /** The replica's adapter, when not the engine's default. */
   adapter?: string;
+  /**
+   * How the Book here stands to the replica: `new` when the Book is about to be shared or was just emptied to take the
+   * shared one in (a replica kept from before is dropped first for `open`); `resume` when sharing picks up again in
+   * this browser (after a reload or a restart): what the replica received but the Book did not is taken in, then
+   * what changed in the Book while it was not shared is sent.
+   */
+  start?: 'share' | 'open' | 'resume';
+  /** The person's role when already asked of the server (or, offline, as it last answered); else asked here. */
+  role?: TeamRole;
   now?: () => Date;
 }
 
@@ -84,6 +106,8 @@ export function loadShareEngine(): Promise<PouchDBConstructor> {
 
 /** Documents read from the replica at once when taking in what it holds. */
 const TAKE_IN_BATCH = 2000;
+/** The replica's own note (never replicated) of the last change taken into the Book. */
+const TAKEN_DOC = '_local/rungbook-taken';
 
 function basicAuth(t: ShareTarget): string {
   const bytes = new TextEncoder().encode(`${t.user}:${t.password}`);
@@ -139,6 +163,10 @@ export class ShareBridge extends EventTarget {
   };
   private readonly now: () => Date;
   private readonly replacements: number;
+  /** Documents the replica received that wait to be taken into the Book, and the newest change among them. */
+  private readonly arriving = new Set<string>();
+  private arrivedSeq: number | string | undefined;
+  private takeInQueued = false;
   private closed = false;
 
   private constructor(private readonly o: ShareBridgeOptions) {
@@ -152,20 +180,21 @@ export class ShareBridge extends EventTarget {
   static async open(o: ShareBridgeOptions): Promise<ShareBridge> {
     const bridge = new ShareBridge(o);
     const Engine = o.engine ?? (await loadShareEngine());
-    bridge.replica = new Engine(o.replicaName, o.adapter ? { adapter: o.adapter } : {});
+    const local = o.adapter ? { adapter: o.adapter } : {};
+    // Opening the shared Book afresh: a replica left from an earlier sharing here holds nothing the Book still has.
+    if (o.start === 'open') await new Engine(o.replicaName, local).destroy();
+    bridge.replica = new Engine(o.replicaName, local);
     bridge.remote = new Engine(`${o.target.server}${encodeURIComponent(o.target.book)}`, {
       auth: { username: o.target.user, password: o.target.password },
       skip_setup: true,
     });
-    bridge.status.role = await askRole(o.target);
+    bridge.status.role = o.role ?? (await askRole(o.target));
     if (bridge.status.role === 'reader') {
       const message = `${o.target.user} is a reader of this shared Book: readers may read and export it but not change it. Nothing was saved.`;
       o.side.refuseEdits = (change) => (bridge.own.has(change) ? undefined : message);
     }
     o.side.addEventListener('change', bridge.onBook);
-    bridge.feed = bridge.replica
-      .changes({ since: 'now', live: true, include_docs: true, conflicts: true })
-      .on('change', (c) => bridge.queue(() => bridge.takeIn([c.id])));
+    bridge.feed = bridge.replica.changes({ since: 'now', live: true }).on('change', (c) => bridge.arrived(c.id, c.seq));
     return bridge;
   }
 
@@ -186,8 +215,8 @@ export class ShareBridge extends EventTarget {
   /** Replicates with the server, both ways (pull only for a reader), and keeps at it until `stop()`. */
   start(): void {
     if (this.live || this.closed) return;
-    // What the replica already holds (kept from an earlier session in this browser) reaches the Book first.
-    void this.queue(() => this.takeInHeld());
+    // Picking up an earlier sharing here: the replica and the Book are brought level before replicating.
+    if (this.o.start === 'resume') void this.queue(() => this.catchUp());
     const opts = { live: true, retry: true };
     const rep = this.status.role === 'reader' ? this.replica.replicate.from(this.remote, opts) : this.replica.sync(this.remote, opts);
     this.live = rep;
@@ -214,9 +243,44 @@ export class ShareBridge extends EventTarget {
     return this.queue(async () => undefined);
   }
 
+  /**
+   * The versions of one shared record this copy holds, newest first (older versions are held from when this copy
+   * saw them; a version it never saw is left out): who saved each, when, and which fields it changed.
+   */
+  async recordHistory(docId: string, limit = 20): Promise<RecordVersion[]> {
+    const rev = (await this.replica.allDocs({ keys: [docId] })).rows[0]?.value?.rev;
+    if (!rev) return [];
+    const leaf = await this.replica.get<RecordDoc>(docId, { rev, revs: true });
+    const held: RecordDoc[] = [];
+    for (const r of history(leaf as unknown as { _revisions: { start: number; ids: string[] } }).slice(0, limit + 1)) {
+      const doc = r === rev ? leaf : await this.replica.get<RecordDoc>(docId, { rev: r }).catch((e: unknown) => (isMissing(e) ? undefined : Promise.reject(e)));
+      if (doc) held.push(doc);
+    }
+    return held.slice(0, limit).map((d, i) => {
+      const before = held[i + 1];
+      const record = d._deleted ? (before?.record ?? {}) : d.record;
+      const changed = d._deleted ? ['deleted'] : before ? changedFields(before._deleted ? {} : before.record, d.record) : undefined;
+      return { docId, rev: d._rev!, by: d.by, at: d.at, deleted: d._deleted === true, record, changed };
+    });
+  }
+
+  /** The records changed last in the shared Book, newest first, each as its newest version. */
+  async recentChanges(limit = 25): Promise<RecordVersion[]> {
+    const feed = await this.replica.changes({ descending: true, limit: limit * 2 });
+    const out: RecordVersion[] = [];
+    for (const c of feed.results) {
+      if (out.length >= limit) break;
+      if (!placeOfDoc(c.id)) continue;
+      const [newest] = await this.recordHistory(c.id, 1);
+      if (newest) out.push(newest);
+    }
+    return out.sort((a, b) => (a.at < b.at ? 1 : a.at > b.at ? -1 : 0));
+  }
+
   /** Fields kept for a person to decide, across the shared Book. */
   async openConflicts(): Promise<OpenConflict[]> {
-    const all = await this.replica.allDocs({ include_docs: true });
+    // The merge notes only: their ids share a prefix, so they are read as one range of ids.
+    const all = await this.replica.allDocs({ include_docs: true, startkey: MERGES_PREFIX, endkey: `${MERGES_PREFIX}\uffff` });
     const out: OpenConflict[] = [];
     const listed = new Set<string>();
     for (const row of all.rows) {
@@ -316,10 +380,66 @@ export class ShareBridge extends EventTarget {
     this.dispatchEvent(new CustomEvent('change'));
   }
 
-  /** Takes every document the replica holds into the Book (only those that differ from it are saved). */
-  private async takeInHeld(): Promise<void> {
-    const ids = (await this.replica.allDocs({})).rows.map((r) => r.id);
+  /**
+   * Brings the Book and a replica kept from an earlier sharing level: documents the replica received after the last
+   * one taken in reach the Book first (the page closed in between); then every record the Book holds otherwise than
+   * the replica (changed while not shared: offline, or before the password was given again) is sent, and a record
+   * the Book no longer holds is deleted in the shared copy.
+   */
+  private async catchUp(): Promise<void> {
+    const since = (await this.replica.get<{ seq: number | string }>(TAKEN_DOC).catch((e: unknown) => (isMissing(e) ? undefined : Promise.reject(e))))?.seq ?? 0;
+    const missed = await this.replica.changes({ since });
+    const ids = [...new Set(missed.results.map((r) => r.id))];
     for (let i = 0; i < ids.length; i += TAKE_IN_BATCH) await this.takeIn(ids.slice(i, i + TAKE_IN_BATCH));
+    await this.noteTaken(missed.last_seq);
+    if (this.status.role === 'reader' || this.closed) return;
+    const book = this.o.side.book;
+    this.seen = book;
+    const puts: { collection: CollectionName | 'settings'; record: { id?: string; rev: number } }[] = [{ collection: 'settings', record: book.settings }];
+    const inBook = new Set<string>([SETTINGS_DOC_ID]);
+    for (const c of COLLECTIONS) {
+      for (const record of book[c] as readonly { id: string; rev: number }[]) {
+        puts.push({ collection: c, record });
+        inBook.add(recordDocId(c, record.id));
+      }
+    }
+    const held = new Map<string, RecordDoc>();
+    const deletes: { collection: CollectionName; id: string }[] = [];
+    for (const row of (await this.replica.allDocs({ include_docs: true })).rows) {
+      const place = placeOfDoc(row.id);
+      if (!place || !row.doc) continue;
+      held.set(row.id, row.doc as unknown as RecordDoc);
+      if (!inBook.has(row.id) && place.collection !== 'settings') deletes.push({ collection: place.collection, id: place.id });
+    }
+    const docs = docsForChange(puts, deletes, held, this.who, this.now().toISOString());
+    if (docs.length === 0) return;
+    const results = await this.replica.bulkDocs(docs as unknown as Doc[]);
+    this.status.waiting += results.filter((r) => 'ok' in r).length;
+    this.dispatchEvent(new CustomEvent('change'));
+  }
+
+  /** Notes in the replica (locally only) the last change taken into the Book. */
+  private async noteTaken(seq: number | string): Promise<void> {
+    const before = await this.replica.get<{ seq: number | string }>(TAKEN_DOC).catch((e: unknown) => (isMissing(e) ? undefined : Promise.reject(e)));
+    if (before?.seq === seq) return;
+    await this.replica.put({ _id: TAKEN_DOC, ...(before?._rev ? { _rev: before._rev } : {}), seq });
+  }
+
+  /** A document changed in the replica: taken in with every other that arrives before the Book is free for it. */
+  private arrived(id: string, seq: number | string): void {
+    this.arriving.add(id);
+    this.arrivedSeq = seq;
+    if (this.takeInQueued) return;
+    this.takeInQueued = true;
+    void this.queue(async () => {
+      this.takeInQueued = false;
+      const ids = [...this.arriving];
+      const seqTaken = this.arrivedSeq;
+      this.arriving.clear();
+      for (let i = 0; i < ids.length; i += TAKE_IN_BATCH) await this.takeIn(ids.slice(i, i + TAKE_IN_BATCH));
+      // Noted only once the Book holds them: a page closed before this takes them in again when sharing resumes.
+      if (seqTaken !== undefined && !this.closed) await this.noteTaken(seqTaken);
+    });
   }
 
   /** Takes documents that changed in the replica into the Book: merged first when they hold conflicting versions. */
@@ -434,6 +554,12 @@ export class ShareBridge extends EventTarget {
     this.status.conflicts = new Set((await this.openConflicts()).map((c) => c.docId)).size;
     this.dispatchEvent(new CustomEvent('change'));
   }
+}
+
+/** Top-level fields two versions of a record hold differently, in the newer version's order. */
+function changedFields(before: Record<string, unknown>, after: Record<string, unknown>): string[] {
+  const keys = [...new Set([...Object.keys(after), ...Object.keys(before)])];
+  return keys.filter((k) => !sameValue(before[k], after[k]));
 }
 
 function describe(e: unknown): string {

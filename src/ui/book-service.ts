@@ -16,6 +16,7 @@ import { requestPersistence, storageEstimate } from '../store/storage.ts';
 import type { BookChange, BookStore, StorageEstimate } from '../store/types.ts';
 import { RevisionConflict, StorageFull, StoreWriteFailed } from '../store/types.ts';
 import { withBuiltInChecks } from './check-sheets.ts';
+import { forgetShare } from './share-session.ts';
 
 export const SAVE_STATES = {
   saved: 'saved',
@@ -324,6 +325,9 @@ export class BookService extends EventTarget {
       // The written Book as the store keeps it: it was checked before it came here, so it is not read back.
       this.book = await this.store.replaceAll(written);
       this.forgetReplaced();
+      // Another Book is not the one this browser shared: it is never picked up as that sharing (a tab sharing it
+      // stops by itself when it sees the replacement).
+      forgetShare(this.name);
     }, 'replaced');
     if (result.ok && openedFileAt) {
       this.editsSinceExport = 0;
@@ -512,13 +516,13 @@ function refusedFor(c: CollectionName | 'settings', mine: AnyRecord, held: AnyRe
 }
 
 /** How a person names a record in a notice: its code, part number, title or name. */
-function recordName(c: CollectionName | 'settings', r: AnyRecord): string {
+export function recordName(c: CollectionName | 'settings', r: Readonly<Record<string, unknown>>): string {
   if (c === 'settings') return 'the costing settings';
   for (const k of ['code', 'mpn', 'title', 'name']) {
     const v = r[k];
     if (typeof v === 'string' && v.trim() !== '') return v;
   }
-  return `${c} record ${r.id}`;
+  return `${c} record ${String(r['id'])}`;
 }
 
 /** A field's path in words: ["sections", 0, "grid", 1, 2] → "cell C2 of section 1"; ["params", "vf"] → "parameter vf". */

@@ -11,6 +11,7 @@ import { bookContext } from './book-context.ts';
 import { BookService } from './book-service.ts';
 import { CostingService, warmFiguresWorker } from './costing-service.ts';
 import { PAGES, START_PAGE, notebookRoute, parseRoute } from './pages.ts';
+import { sessionShare } from './share-session.ts';
 import type { PageEntry, Route } from './pages.ts';
 import type { NoticeDetail } from './rb-book-menu.ts';
 import type { BookActionDetail } from './rb-start-page.ts';
@@ -266,6 +267,7 @@ export class RbApp extends LitElement {
       service.addEventListener('change', this.onServiceChange);
       this.provider.setValue(service);
       this.phase = { kind: 'open', service };
+      this.resumeSharing(service);
       // The first start in this browser, opened without a page named: the first view says what the tool is for.
       if (service.startedFresh && location.hash.replace(/^#\/?/, '') === '') {
         history.replaceState(null, '', `#/${START_PAGE.slug}`);
@@ -283,6 +285,18 @@ export class RbApp extends LitElement {
         message: `The Book could not be opened in this browser: ${detail}. Rungbook keeps Books in the browser's own storage (IndexedDB); private windows and some settings turn it off.`,
       };
     }
+  }
+
+  /** This tab was sharing the Book before a reload: the sharing picks up again (its code loads only then). */
+  private resumeSharing(service: BookService): void {
+    const kept = sessionShare(service.name);
+    if (!kept) return;
+    import('./team-sharing.ts')
+      .then((m) => m.beginSharing(service, kept, 'resume'))
+      .catch((e: unknown) => {
+        const why = e instanceof Error ? e.message : String(e);
+        this.notice = { tone: 'problem', title: 'Sharing did not pick up again after the reload', lines: [why, 'Resume it from the Team page; what changed here meanwhile is kept and sent then.'] };
+      });
   }
 
   private go(route: Route): void {

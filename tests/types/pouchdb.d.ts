@@ -31,12 +31,14 @@ declare module 'pouchdb-core' {
   export interface Database {
     readonly name: string;
     put(doc: Doc): Promise<{ ok: boolean; id: string; rev: string }>;
-    get<T extends object = Doc>(id: string, options?: { rev?: string; conflicts?: boolean; revs?: boolean }): Promise<T & Doc>;
+    get<T extends object = Doc>(id: string, options?: { rev?: string; conflicts?: boolean; revs?: boolean; revs_info?: boolean }): Promise<T & Doc & { _revs_info?: { rev: string; status: string }[] }>;
     /** Every leaf revision named (or all of them), each with its revision history when `revs` is set. */
     get<T extends object = Doc>(id: string, options: { open_revs: string[] | 'all'; revs?: boolean }): Promise<{ ok?: T & Doc & Revisions; missing?: string }[]>;
     bulkDocs(docs: Doc[]): Promise<({ ok: true; id: string; rev: string } | { error: true | string; id: string; status?: number; message?: string })[]>;
-    allDocs(options: { keys?: string[]; include_docs?: boolean; conflicts?: boolean }): Promise<{ rows: { id: string; key: string; value?: { rev: string; deleted?: boolean }; doc?: Doc | null; error?: string }[] }>;
-    changes(options: { since?: number | string; live?: boolean; include_docs?: boolean; conflicts?: boolean }): Changes;
+    allDocs(options: { keys?: string[]; include_docs?: boolean; conflicts?: boolean; startkey?: string; endkey?: string }): Promise<{ rows: { id: string; key: string; value?: { rev: string; deleted?: boolean }; doc?: Doc | null; error?: string }[] }>;
+    changes(options: { since?: number | string; live: true; include_docs?: boolean; conflicts?: boolean }): Changes;
+    /** The changes since a sequence, at once (not live): each document's id once, with the newest sequence. */
+    changes(options: { since?: number | string; live?: false; limit?: number; descending?: boolean; include_docs?: boolean }): Promise<{ results: Change[]; last_seq: number | string }>;
     close(): Promise<void>;
     info(): Promise<{ doc_count: number; update_seq: number | string }>;
     destroy(): Promise<void>;

@@ -30,15 +30,21 @@ async function person(p: Person, shares: boolean): Promise<{ service: BookServic
   const service = await BookService.open(`rungbook-share-${++count}`);
   services.push(service);
   if (!shares) expect((await service.replaceBook(emptyBook())).ok).toBe(true);
+  return { service, bridge: await bridgeFor(service, p, `replica-${count}`) };
+}
+
+/** A bridge from a person's Book to the server, over the replica named (kept from before when it exists). */
+async function bridgeFor(service: BookService, p: Person, replicaName: string, start?: 'resume'): Promise<ShareBridge> {
   const bridge = await ShareBridge.open({
     side: service,
     target: { server: server.url, book: BOOK, user: p.name, password: p.password },
-    replicaName: `replica-${count}`,
+    replicaName,
     engine: Engine,
     adapter: 'memory',
+    ...(start ? { start } : {}),
   });
   bridges.push(bridge);
-  return { service, bridge };
+  return bridge;
 }
 
 /** Waits until `test` holds, checking every 50 ms; fails naming `what` after `ms`. */
@@ -190,6 +196,42 @@ describe('a Book shared by two people through the team server', () => {
     expect(after.body['update_seq']).toEqual(before.body['update_seq']);
     const doc = await call(`${server.url}${BOOK}/${encodeURIComponent(`quotes/${quoteId}`)}`, OWNER);
     expect((doc.body['record'] as { moq: number }).moq).toBe(quoteOf(a.service, quoteId).moq);
+  }, 120_000);
+
+  it('picks sharing up again after the page was closed: changes made meanwhile are sent, what the replica got is taken in', async () => {
+    a.bridge.start();
+    // b's page closes (its replica, replica-2, stays in the browser); b goes on working in its Book, not shared.
+    b.bridge.close();
+    const [q1, q2, q3] = b.service.book.quotes;
+    expect((await b.service.save({ put: { quotes: [{ ...q1!, moq: 4242 }] }, settings: { ...b.service.book.settings, labourRatePerHour: 47 } })).ok).toBe(true);
+    expect((await b.service.save({ delete: { quotes: [q2!.id] } })).ok).toBe(true);
+    // Replication had delivered a version of q3 to the replica just before the page closed, not yet taken in.
+    const replica = new Engine('replica-2', { adapter: 'memory' });
+    const held = await replica.get<{ record: Record<string, unknown> }>(`quotes/${q3!.id}`);
+    await replica.put({ ...held, record: { ...held.record, supplierCode: 'ARRIVED-1' }, by: OWNER.name, at: new Date().toISOString() });
+    expect(quoteOf(b.service, q3!.id).supplierCode).not.toBe('ARRIVED-1');
+
+    const resumed = await bridgeFor(b.service, EDITOR, 'replica-2', 'resume');
+    resumed.start();
+    b = { service: b.service, bridge: resumed };
+    await until('what arrived before the close to reach the Book', () => quoteOf(b.service, q3!.id).supplierCode === 'ARRIVED-1', 60_000);
+    await until('the changes made while not shared to reach the other copy', () => {
+      const s = a.service.book;
+      return quoteOf(a.service, q1!.id).moq === 4242 && s.settings.labourRatePerHour === 47 && !s.quotes.some((q) => q.id === q2!.id) && quoteOf(a.service, q3!.id).supplierCode === 'ARRIVED-1';
+    }, 60_000);
+    // Nothing else moved: b's Book and a's hold the same quotes.
+    expect(b.service.book.quotes.map((q) => q.id).sort()).toEqual(a.service.book.quotes.map((q) => q.id).sort());
+    expect(await resumed.openConflicts()).toEqual([]);
+
+    // Who changed what and when: the latest changes name b's edits; the quote's versions go back to the first share.
+    const recent = await resumed.recentChanges(10);
+    const mine = recent.find((v) => v.docId === `quotes/${q1!.id}`);
+    expect(mine).toMatchObject({ by: EDITOR.name, deleted: false, changed: ['moq'] });
+    expect(recent.find((v) => v.docId === `quotes/${q2!.id}`)).toMatchObject({ by: EDITOR.name, deleted: true, changed: ['deleted'] });
+    const versions = await resumed.recordHistory(`quotes/${q1!.id}`);
+    expect(versions[0]).toMatchObject({ by: EDITOR.name, changed: ['moq'] });
+    expect(versions.length).toBeGreaterThan(1);
+    expect(versions.map((v) => v.at)).toEqual([...versions.map((v) => v.at)].sort().reverse());
   }, 120_000);
 
   it('stops sharing, sending nothing, when a Book file or an empty Book replaces the shared one here', async () => {
