@@ -58,20 +58,29 @@ async function profile(): Promise<Session> {
   return s;
 }
 
-async function fill(s: Session, p: Person, address = server.url): Promise<void> {
+async function fill(s: Session, p: Person, address = server.url, book = 'bench-team'): Promise<void> {
   await s.page.locator('#f-server').fill(address);
-  await s.page.locator('#f-book').fill('bench-team');
+  await s.page.locator('#f-book').fill(book);
   await s.page.locator('#f-user').fill(p.name);
   await s.page.locator('#f-password').fill(p.password);
 }
 
 /** The labour rate the profile's Rates page shows, drawn afresh (through the rail, keeping the tab's sharing). */
-async function labourRate(s: Session): Promise<string> {
+async function labourRate(s: Pick<Session, 'page'>): Promise<string> {
   await s.page.locator('nav a[href="#/team"]').click();
   await pageLoaded(s.page, 'Team');
   await s.page.locator('nav a[href="#/settings"]').click();
   await pageLoaded(s.page, 'Rates');
   return s.page.locator('#f-labourRatePerHour').inputValue();
+}
+
+/** Saves a labour rate on the Rates page of the tab. */
+async function setLabourRate(s: Pick<Session, 'page'>, rate: string): Promise<void> {
+  await s.page.locator('nav a[href="#/settings"]').click();
+  await pageLoaded(s.page, 'Rates');
+  await s.page.locator('#f-labourRatePerHour').fill(rate);
+  await s.page.getByRole('button', { name: 'Save the settings' }).click();
+  await saved(s.page);
 }
 
 describe('Team page', () => {
@@ -105,6 +114,51 @@ describe('Team page', () => {
     expect(errorsBeyondCheckpoints(a)).toEqual([]);
     expect(errorsBeyondCheckpoints(b)).toEqual([]);
   }, 240_000);
+
+  it('goes on sharing after a reload; after the tab was closed it resumes with the password alone and sends what changed meanwhile', async () => {
+    const a = await profile();
+    await fill(a, OWNER, server.url, 'reload-team');
+    await a.page.getByRole('button', { name: 'Share this Book' }).click();
+    await a.page.locator('p.status', { hasText: 'synced' }).waitFor({ timeout: 60_000 });
+    const b = await profile();
+    await fill(b, EDITOR, server.url, 'reload-team');
+    await b.page.getByRole('button', { name: 'Open the shared Book here' }).click();
+    await b.page.locator('p.status', { hasText: /Shared as edna \(editor\).*synced/ }).waitFor({ timeout: 60_000 });
+
+    // A reload keeps the tab's sharing: no password asked, and an edit from the other profile still arrives.
+    await b.page.reload();
+    await pageLoaded(b.page, 'Team');
+    await b.page.locator('p.status', { hasText: /Shared as edna \(editor\) on .*reload-team: synced/ }).waitFor({ timeout: 60_000 });
+    await setLabourRate(a, '35');
+    await expect.poll(() => labourRate(b), { timeout: 60_000 }).toBe('35');
+
+    // The tab is closed; in a new tab of the same profile the person works on before giving the password again.
+    const tab = await b.context.newPage();
+    await b.page.close();
+    await tab.goto(`${baseUrl}#/settings`);
+    await pageLoaded(tab, 'Rates');
+    await setLabourRate({ page: tab }, '36');
+    await tab.locator('nav a[href="#/team"]').click();
+    await pageLoaded(tab, 'Team');
+    await expect(tab.locator('p.resume').textContent()).resolves.toMatch(/shared as edna \(editor\) on .*reload-team/);
+    // Server, shared Book and name are remembered; the password is not.
+    await expect(tab.locator('#f-user').inputValue()).resolves.toBe(EDITOR.name);
+    await expect(tab.locator('#f-book').inputValue()).resolves.toBe('reload-team');
+    await expect(tab.locator('#f-password').inputValue()).resolves.toBe('');
+    await tab.locator('#f-password').fill(EDITOR.password);
+    await tab.getByRole('button', { name: 'Resume sharing' }).click();
+    await tab.locator('p.status', { hasText: /Shared as edna \(editor\).*synced/ }).waitFor({ timeout: 60_000 });
+    // The change made while not shared reaches the other profile, and this Book kept it.
+    await expect.poll(() => labourRate(a), { timeout: 60_000 }).toBe('36');
+    await expect(labourRate({ page: tab })).resolves.toBe('36');
+    // Who changed what and when: the Team page lists the settings changed by edna.
+    await tab.locator('nav a[href="#/team"]').click();
+    await pageLoaded(tab, 'Team');
+    await expect
+      .poll(() => tab.locator('table.changes tbody tr', { hasText: 'the costing settings' }).first().textContent(), { timeout: 20_000 })
+      .toMatch(/edna\s+the costing settings\s+changed labourRatePerHour/);
+    expect(errorsBeyondCheckpoints(a)).toEqual([]);
+  }, 300_000);
 
   it('refuses an address that is not one, beside its field, and shares nothing', async () => {
     const { page, errors } = await app.open('#/team');
