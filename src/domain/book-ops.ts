@@ -87,7 +87,50 @@ export function* applyChangeSteps(book: Book, change: BookChange): Sliced<ApplyR
   return { ok: true, book: next };
 }
 
-function* replaceRecords<R extends { id: string; rev: number }>(list: readonly R[], dels: readonly string[], puts: readonly R[]): Sliced<R[]> {
+/**
+ * Records named by collection and id, and whether the settings are among them: what a change saved or deleted, told
+ * to another tab so it reads back only those.
+ */
+export interface RecordIds {
+  collections: { [C in CollectionName]?: string[] };
+  settings?: boolean;
+}
+
+/** The ids of the records a change saves or deletes, by collection. */
+export function recordIdsOf(change: BookChange): RecordIds {
+  const ids: RecordIds = { collections: {} };
+  for (const c of COLLECTIONS) {
+    const named = new Set<string>(change.delete?.[c] ?? []);
+    for (const r of change.put?.[c] ?? []) named.add(r.id);
+    if (named.size > 0) ids.collections[c] = [...named];
+  }
+  if (change.settings) ids.settings = true;
+  return ids;
+}
+
+/** Records read back by id: those stored (at their stored revision, checked) and the ids no longer stored. */
+export interface StoredRecords {
+  collections: { [C in CollectionName]?: { found: CollectionRecord<C>[]; gone: string[] } };
+  settings?: Settings;
+}
+
+/**
+ * A Book with records read back from the store taken in: each found record in place of the one held under its id (or
+ * added at the end), each gone one removed. Revisions are the stored ones; nothing is raised.
+ */
+export function* withStoredRecordsSteps(book: Book, stored: StoredRecords): Sliced<Book> {
+  const next: Book = { ...book };
+  for (const c of COLLECTIONS) {
+    const got = stored.collections[c];
+    if (!got || (got.found.length === 0 && got.gone.length === 0)) continue;
+    const list: readonly { id: string; rev: number }[] = book[c];
+    next[c] = (yield* replaceRecords(list, got.gone, got.found as readonly { id: string; rev: number }[], false)) as never;
+  }
+  if (stored.settings) next.settings = stored.settings;
+  return next;
+}
+
+function* replaceRecords<R extends { id: string; rev: number }>(list: readonly R[], dels: readonly string[], puts: readonly R[], bump = true): Sliced<R[]> {
   const gone = new Set(dels);
   const out: R[] = [];
   const at = new Map<string, number>();
@@ -100,11 +143,12 @@ function* replaceRecords<R extends { id: string; rev: number }>(list: readonly R
   }
   for (const r of puts) {
     const i = at.get(r.id);
+    const put = bump ? bumped(r) : r;
     if (i === undefined) {
       at.set(r.id, out.length);
-      out.push(bumped(r));
+      out.push(put);
     } else {
-      out[i] = bumped(r);
+      out[i] = put;
     }
     if (++n % ITEMS_PER_LOOK === 0) yield;
   }

@@ -884,6 +884,25 @@ export const BookSchema = obj({
   priceLists: v.optional(list(PriceListSchema, LIMITS.records), []),
 });
 
+/**
+ * The schema of one record of each collection: the very schemas the Book's lists are checked with, to check records
+ * read one at a time (an edit saved in another tab) without checking the whole Book.
+ */
+export const RECORD_SCHEMAS = {
+  parts: PartSchema,
+  suppliers: SupplierSchema,
+  quotes: QuoteSchema,
+  variants: VariantSchema,
+  buildLines: BuildLineSchema,
+  checks: CheckSchema,
+  runs: RunSchema,
+  importBatches: ImportBatchSchema,
+  pages: NotebookPageSchema,
+  orders: OrderSchema,
+  stockMoves: StockMoveSchema,
+  priceLists: PriceListSchema,
+} as const satisfies Record<(typeof COLLECTION_KEYS)[number], v.GenericSchema>;
+
 // ---------------------------------------------------------------------------------------------------------------
 // Types, inferred
 

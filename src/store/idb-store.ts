@@ -4,15 +4,16 @@ import type { IDBPDatabase, IDBPTransaction } from 'idb';
 import { COLLECTIONS, defaultSettings, emptyBook, mpnKey } from '../domain/book.ts';
 import type { Book, CollectionName, CollectionRecord, Part, Quote, Settings } from '../domain/book.ts';
 import { bumped, revisionMatches, touchedCollections } from '../domain/book-ops.ts';
-import type { BookChange } from '../domain/book-ops.ts';
+import type { BookChange, RecordIds, StoredRecords } from '../domain/book-ops.ts';
 import { ITEMS_PER_LOOK, runInSlices } from '../domain/slices.ts';
 import type { Sliced } from '../domain/slices.ts';
 import { MIGRATIONS, runMigrations } from './migrations.ts';
 import type { Migration, UpgradeDb, UpgradeTx } from './migrations.ts';
 import { bucketQuotes, idbVersionOf, quoteBucketKey, schemaVersionOf, unbucketQuotes } from './schema.ts';
 import type { QuoteBucket, RungbookDB, StoredPart } from './schema.ts';
-import { checkBook } from '../domain/schema.ts';
-import { RevisionConflict, StorageFull, StoredBookInvalid, StoreWriteFailed } from './types.ts';
+import { RECORD_SCHEMAS, SettingsSchema, checkBook, checkWith, isObject, short } from '../domain/schema.ts';
+import type { SchemaProblem } from '../domain/schema.ts';
+import { RevisionConflict, StorageFull, StoredBookInvalid, StoredRecordsInvalid, StoreWriteFailed } from './types.ts';
 import type { BookStore } from './types.ts';
 
 export const DEFAULT_BOOK_DB = 'rungbook';
@@ -204,6 +205,55 @@ export class IdbBookStore implements BookStore {
     return checked.value;
   }
 
+  /**
+   * Reads the named records alone (another tab's edit, a record saved elsewhere before a merge) and checks each
+   * against its collection's schema, so taking in an edit costs the records it touched, not the whole Book. Checks
+   * between records (references, unique codes) are left to the whole-Book load. One record that does not read
+   * rejects the lot with its place named (`quotes record "q_1".breaks[0].qty`).
+   */
+  async loadRecords(ids: RecordIds): Promise<StoredRecords> {
+    this.ensureOpen();
+    const collections = COLLECTIONS.filter((c) => (ids.collections[c]?.length ?? 0) > 0);
+    const stores: StoreName[] = ids.settings ? [...collections, 'settings'] : collections;
+    if (stores.length === 0) return { collections: {} };
+    const problems: SchemaProblem[] = [];
+    const raw = new Map<CollectionName, Map<string, unknown>>();
+    const tx = this.db.transaction(stores, 'readonly');
+    const reads = collections.map(async (c) => {
+      const wanted = ids.collections[c]!;
+      const held = new Map<string, unknown>();
+      raw.set(c, held);
+      if (c === 'quotes') {
+        await readQuotes(tx.objectStore('quotes'), wanted, held, problems);
+        return;
+      }
+      const store = tx.objectStore(c);
+      if (wanted.length > BULK_REVISION_READ) {
+        const want = new Set(wanted);
+        for (const r of (await store.getAll()) as unknown[]) {
+          const id = isObject(r) ? r.id : undefined;
+          if (typeof id === 'string' && want.has(id)) held.set(id, r);
+        }
+        return;
+      }
+      await Promise.all(wanted.map(async (id) => {
+        const r: unknown = await store.get(id);
+        if (r !== undefined) held.set(id, r);
+      }));
+    });
+    const settings = ids.settings ? tx.objectStore('settings').get('settings') : undefined;
+    const [stored] = await Promise.all([settings, ...reads]);
+    await tx.done;
+    const out = await runInSlices(checkStoredRecords(ids, raw, problems));
+    if (ids.settings) {
+      const checked = checkWith(SettingsSchema, stored ?? { ...defaultSettings(), rev: 0 }, 'settings');
+      if (checked.ok) out.settings = checked.value;
+      else problems.push(...checked.problems);
+    }
+    if (problems.length > 0) throw new StoredRecordsInvalid(problems);
+    return out;
+  }
+
   async apply(change: BookChange): Promise<void> {
     this.ensureOpen();
     const collections = touchedCollections(change);
@@ -339,6 +389,60 @@ export class IdbBookStore implements BookStore {
 }
 
 type WriteTx = IDBPTransaction<RungbookDB, StoreName[], 'readwrite'>;
+/** The quotes store, as far as reading a bucket goes. */
+interface QuoteStore {
+  get(key: string): Promise<QuoteBucket | undefined>;
+}
+
+/** The named quotes as stored, read from the buckets that hold them; a damaged bucket or a quote kept twice is a problem. */
+async function readQuotes(store: QuoteStore, wanted: readonly string[], held: Map<string, unknown>, problems: SchemaProblem[]): Promise<void> {
+  const byBucket = new Map<string, Set<string>>();
+  for (const id of wanted) {
+    const k = quoteBucketKey(id);
+    let ids = byBucket.get(k);
+    if (!ids) byBucket.set(k, (ids = new Set()));
+    ids.add(id);
+  }
+  await Promise.all([...byBucket].map(async ([key, ids]) => {
+    const bucket: unknown = await store.get(key);
+    if (bucket === undefined) return;
+    const quotes = isObject(bucket) ? bucket.quotes : undefined;
+    if (!Array.isArray(quotes)) {
+      problems.push({ path: `quotes bucket ${short(key)}`, message: 'does not hold a list of quotes' });
+      return;
+    }
+    for (const q of quotes as unknown[]) {
+      const id = isObject(q) ? q.id : undefined;
+      if (typeof id !== 'string' || !ids.has(id)) continue;
+      if (held.has(id)) problems.push({ path: `quotes record ${short(id)}`, message: `is kept twice in ${short(key)}` });
+      held.set(id, q);
+    }
+  }));
+}
+
+/** The named records read, each checked against its collection's schema; an id with nothing stored is gone. */
+function* checkStoredRecords(ids: RecordIds, raw: Map<CollectionName, Map<string, unknown>>, problems: SchemaProblem[]): Sliced<StoredRecords> {
+  const out: StoredRecords = { collections: {} };
+  let n = 0;
+  for (const [c, held] of raw) {
+    const found: { id: string; rev: number }[] = [];
+    const gone: string[] = [];
+    for (const id of ids.collections[c] ?? []) {
+      const r = held.get(id);
+      if (r === undefined) {
+        gone.push(id);
+        continue;
+      }
+      const checked = checkWith(RECORD_SCHEMAS[c], c === 'parts' && isObject(r) ? fromStoredPart(r as unknown as StoredPart) : r, `${c} record ${short(id)}`);
+      if (checked.ok) found.push(checked.value as { id: string; rev: number });
+      else problems.push(...checked.problems);
+      // A record's check costs far more than the cheap items ITEMS_PER_LOOK is set for.
+      if (++n % 32 === 0) yield;
+    }
+    (out.collections as Record<string, unknown>)[c] = { found, gone };
+  }
+  return out;
+}
 
 /** A change's quote puts and deletes grouped by the bucket that holds each quote. */
 interface QuoteGroup {

@@ -1,10 +1,11 @@
 // The storage interface the rest of the app sees; IndexedDB details stay behind it.
 import type { Book, CollectionName } from '../domain/book.ts';
-import type { BookChange } from '../domain/book-ops.ts';
+import type { BookChange, RecordIds, StoredRecords } from '../domain/book-ops.ts';
 import type { SchemaProblem } from '../domain/schema.ts';
 
 /** Records to write and ids to delete (defined beside its in-memory twin `applyChange` in domain/book-ops.ts). */
 export type { BookChange } from '../domain/book-ops.ts';
+export type { RecordIds, StoredRecords } from '../domain/book-ops.ts';
 
 /** Thrown (as a rejection) when a record was saved elsewhere since it was read. */
 export class RevisionConflict extends Error {
@@ -55,6 +56,19 @@ export class StoredBookInvalid extends Error {
   }
 }
 
+/**
+ * Rejection of a read of some records (another tab's edit) when one of them does not fit the Book schema: nothing
+ * read is taken in; each problem names the record by collection and id, and the field.
+ */
+export class StoredRecordsInvalid extends Error {
+  constructor(readonly problems: readonly SchemaProblem[]) {
+    const shown = problems.slice(0, 5).map((p) => (p.path ? `${p.path}: ${p.message}` : p.message));
+    const more = problems.length > 5 ? ` (and ${problems.length - 5} more)` : '';
+    super(`Records kept in this browser do not read as Book records, so none of them was taken in: ${shown.join('; ')}${more}`);
+    this.name = 'StoredRecordsInvalid';
+  }
+}
+
 export interface StorageEstimate {
   usage: number;
   quota: number;
@@ -65,6 +79,11 @@ export interface BookStore {
   /** Name of the underlying database (one per Book). */
   readonly name: string;
   load(): Promise<Book>;
+  /**
+   * Reads only the named records, each checked against its collection's schema (not the whole Book); an id with no
+   * record stored is reported gone. One record that does not read rejects with StoredRecordsInvalid.
+   */
+  loadRecords(ids: RecordIds): Promise<StoredRecords>;
   /**
    * Writes a change in one transaction. Each put record must carry the revision it was read at; it is stored with
    * rev + 1. A stale revision rejects with RevisionConflict and nothing is written.

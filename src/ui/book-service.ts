@@ -2,7 +2,8 @@
 // and reports save state, storage use, conflicts, schema upgrades in other tabs and edits made in other tabs.
 import type { Book, CollectionName } from '../domain/book.ts';
 import { COLLECTIONS, defaultSettings, emptyBook } from '../domain/book.ts';
-import { applyChangeSteps, revisionMatches } from '../domain/book-ops.ts';
+import { applyChangeSteps, recordIdsOf, revisionMatches, withStoredRecordsSteps } from '../domain/book-ops.ts';
+import type { RecordIds, StoredRecords } from '../domain/book-ops.ts';
 import { runInSlices } from '../domain/slices.ts';
 import { demoBook } from '../domain/demo-book.ts';
 import { mergeRecord } from '../domain/merge.ts';
@@ -14,7 +15,7 @@ import type { BookFileResult } from '../io/book-file.ts';
 import { openBookStore } from '../store/idb-store.ts';
 import { requestPersistence, storageEstimate } from '../store/storage.ts';
 import type { BookChange, BookStore, StorageEstimate } from '../store/types.ts';
-import { RevisionConflict, StorageFull, StoreWriteFailed } from '../store/types.ts';
+import { RevisionConflict, StorageFull, StoredRecordsInvalid, StoreWriteFailed } from '../store/types.ts';
 import { withBuiltInChecks } from './check-sheets.ts';
 import { forgetShare } from './share-session.ts';
 
@@ -69,12 +70,20 @@ export type ServiceEventDetail = { what: 'book' | 'status' | 'storage' | 'blocke
 
 export const DEFAULT_DB_NAME = 'rungbook';
 
-/** Broadcast between tabs on one Book after a write; the receiver re-reads the Book from storage. */
+/**
+ * Broadcast between tabs on one Book after a write. For `changed` the receiver reads back and checks only the records
+ * named; `replaced` (the whole Book replaced: empty Book, demo Book, opened file) is the one message that makes it read
+ * and check the whole Book.
+ */
 interface TabMessage {
-  /** `replaced` when the whole Book was replaced (empty Book, demo Book, opened file). */
   kind: 'changed' | 'replaced';
   from: string;
+  /** With `changed`: the records the change saved or deleted. */
+  records?: RecordIds;
 }
+
+/** What one queued write did: a merge notice, and the records to name to other tabs. */
+type WriteDone = { merged?: string; records?: RecordIds };
 
 export class BookService extends EventTarget {
   private held!: Book;
@@ -107,6 +116,11 @@ export class BookService extends EventTarget {
   openedRunId: string | undefined;
   /** Set when the last reload came from another tab's edit, so the shell can say so. */
   lastRemoteChange: Date | undefined;
+  /**
+   * Why an edit saved in another tab was not taken in (one of its records does not read as a Book record), with the
+   * record's place; this tab kept the Book as it was. Cleared when the whole Book is read again.
+   */
+  remoteRefused: string | undefined;
   /**
    * Set while this person may not change the Book (a reader of a shared Book): why, for a save to refuse before
    * anything is written. Undefined for a Book that is not shared.
@@ -188,11 +202,13 @@ export class BookService extends EventTarget {
       const { written, merged } = await this.writeMerging(change);
       // Applied in slices: a large import's copy in memory must not hold the page either.
       const next = await runInSlices(applyChangeSteps(this.book, written));
-      // The store accepted the change, so a mismatch here means memory fell behind (another tab): re-read it.
-      if (next.ok) this.adopt(next.book, written);
-      else this.adopt(await this.store.load());
+      const records = recordIdsOf(written);
+      // The store accepted the change, so a mismatch here means memory fell behind (another tab, whose own message
+      // is on its way): the change's records are read back as stored.
+      if (next.ok) this.adopt(next.book, records);
+      else await this.takeRecords(records);
       this.noteOwn(written);
-      return merged;
+      return { merged, records };
     });
   }
 
@@ -214,7 +230,8 @@ export class BookService extends EventTarget {
         return { written, merged: notes.length ? notes.join(' ') : undefined };
       } catch (e) {
         if (!(e instanceof RevisionConflict) || e instanceof EditConflict || attempt >= MERGE_TRIES) throw e;
-        const stored = await this.store.load();
+        // Only the change's own records as stored now: the rest of the Book plays no part in the merge.
+        const stored = await this.store.loadRecords(recordIdsOf(change));
         const rebased = this.rebase(change, stored);
         written = rebased.change;
         notes = rebased.notes;
@@ -226,7 +243,7 @@ export class BookService extends EventTarget {
    * The change with every record whose stored revision moved on merged into the stored record, from the version this
    * tab held at the revision the record carries. Throws the conflict when a record cannot be merged.
    */
-  private rebase(change: BookChange, stored: Book): { change: BookChange; notes: string[] } {
+  private rebase(change: BookChange, stored: StoredRecords): { change: BookChange; notes: string[] } {
     const notes: string[] = [];
     const one = <R extends AnyRecord>(c: CollectionName | 'settings', mine: R, held: R | undefined): R => {
       if (revisionMatches(held?.rev, mine.rev)) return mine;
@@ -242,12 +259,12 @@ export class BookService extends EventTarget {
       const put: Record<string, AnyRecord[]> = {};
       for (const [c, list] of Object.entries(change.put) as [CollectionName, AnyRecord[] | undefined][]) {
         if (!list) continue;
-        const held = new Map((stored[c] as unknown as AnyRecord[]).map((r) => [r.id, r] as const));
+        const held = new Map(((stored.collections[c]?.found ?? []) as unknown as AnyRecord[]).map((r) => [r.id, r] as const));
         put[c] = list.map((r) => one(c, r, held.get(r.id)));
       }
       out.put = put as BookChange['put'];
     }
-    if (change.settings) out.settings = one('settings', change.settings as unknown as AnyRecord, stored.settings as unknown as AnyRecord) as never;
+    if (change.settings) out.settings = one('settings', change.settings as unknown as AnyRecord, stored.settings as unknown as AnyRecord | undefined) as never;
     return { change: out, notes };
   }
 
@@ -273,18 +290,17 @@ export class BookService extends EventTarget {
 
   /**
    * Takes a newer Book as the tab's copy, remembering each record it replaces as the tab held it. When the newer Book
-   * is this one with `change` applied, only the records the change edits or deletes are looked for (a 50,000-quote
-   * import replaces none: its quotes are new).
+   * differs from this one only in the records `touched` names (a change applied, records read back), only those are
+   * looked for (a 50,000-quote import replaces none: its quotes are new).
    */
-  private adopt(next: Book, change?: BookChange): void {
+  private adopt(next: Book, touched?: RecordIds): void {
     const prev = this.book;
     const replaced: [CollectionName, AnyRecord][] = [];
     for (const c of COLLECTIONS) {
       if (prev[c] === next[c]) continue;
-      if (change) {
-        const touched = new Set<string>(change.delete?.[c] ?? []);
-        for (const r of change.put?.[c] ?? []) if (r.rev !== 0) touched.add(r.id);
-        if (touched.size > 0) for (const r of prev[c] as readonly AnyRecord[]) if (touched.has(r.id)) replaced.push([c, r]);
+      if (touched) {
+        const ids = new Set<string>(touched.collections[c] ?? []);
+        if (ids.size > 0) for (const r of prev[c] as readonly AnyRecord[]) if (ids.has(r.id)) replaced.push([c, r]);
         continue;
       }
       const now = new Map<string, number>();
@@ -363,9 +379,9 @@ export class BookService extends EventTarget {
     return { ...book, settings: { ...kept, bookName: defaultSettings().bookName, editsSinceExport: 0 } };
   }
 
-  /** Re-reads the Book from storage, dropping the memory copy (after a conflict or another tab's edit). */
+  /** Re-reads the whole Book from storage, dropping the memory copy (asked for by a person after a conflict). */
   async reload(): Promise<void> {
-    this.adopt(await this.store.load());
+    await this.takeWholeBook();
     this.status = { state: SAVE_STATES.saved, at: new Date() };
     this.emit('book');
     this.emit('status');
@@ -394,7 +410,22 @@ export class BookService extends EventTarget {
     }
   }
 
-  private enqueue(write: () => Promise<string | void>, kind: TabMessage['kind'] = 'changed'): Promise<SaveResult> {
+  /**
+   * Reads back the named records as stored now and takes them into the tab's copy: each in place of the one held, a
+   * record no longer stored removed. One record that does not read rejects (StoredRecordsInvalid) and nothing changes.
+   */
+  private async takeRecords(records: RecordIds): Promise<void> {
+    const stored = await this.store.loadRecords(records);
+    this.adopt(await runInSlices(withStoredRecordsSteps(this.book, stored)), records);
+  }
+
+  /** Reads and checks the whole Book: at the start, after the whole Book was replaced, or when a person asks. */
+  private async takeWholeBook(): Promise<void> {
+    this.adopt(await this.store.load());
+    this.remoteRefused = undefined;
+  }
+
+  private enqueue(write: () => Promise<WriteDone | void>, kind: TabMessage['kind'] = 'changed'): Promise<SaveResult> {
     if (this.blocked) {
       const message = 'Rungbook was updated in another tab; reload this tab before making changes.';
       return Promise.resolve({ ok: false, message, conflict: false });
@@ -404,7 +435,7 @@ export class BookService extends EventTarget {
     this.emit('status');
     const run = this.writes.then(async (): Promise<SaveResult> => {
       try {
-        const merged = await write();
+        const { merged, records } = (await write()) ?? {};
         this.inFlight -= 1;
         this.editsSinceExport += 1;
         // A merge notice stays until dismissed, so a quick next save does not hide it.
@@ -413,7 +444,7 @@ export class BookService extends EventTarget {
         else if (merged) this.status = { ...this.status, merged };
         this.emit('book');
         this.emit('status');
-        this.tellOtherTabs(kind);
+        this.tellOtherTabs(kind, records);
         void this.refreshStorage();
         return merged ? { ok: true, merged } : { ok: true };
       } catch (e) {
@@ -442,22 +473,29 @@ export class BookService extends EventTarget {
     this.channel.onmessage = (ev: MessageEvent<TabMessage>) => {
       const kind = ev.data?.kind;
       if ((kind !== 'changed' && kind !== 'replaced') || ev.data.from === this.tabId) return;
+      const records = kind === 'changed' ? namedRecords(ev.data.records) : undefined;
       // Wait for our own writes so a reload does not race them.
       this.writes = this.writes.then(async () => {
         try {
-          this.adopt(await this.store.load());
+          // A `changed` from a tab of an earlier Rungbook names no records: only then is the whole Book read for it.
+          if (records) await this.takeRecords(records);
+          else await this.takeWholeBook();
           if (kind === 'replaced') this.forgetReplaced();
           this.lastRemoteChange = new Date();
           this.emit('book');
-        } catch {
-          // The store reports its own failures on the next write; a missed refresh is not data loss.
+        } catch (e) {
+          if (e instanceof StoredRecordsInvalid) {
+            this.remoteRefused = `A change saved in another tab was not taken in here; this tab keeps the Book as it was. ${e.message}`;
+            this.emit('status');
+          }
+          // Otherwise the store reports its own failures on the next write; a missed refresh is not data loss.
         }
       });
     };
   }
 
-  private tellOtherTabs(kind: TabMessage['kind']): void {
-    const message: TabMessage = { kind, from: this.tabId };
+  private tellOtherTabs(kind: TabMessage['kind'], records: RecordIds | undefined): void {
+    const message: TabMessage = kind === 'changed' && records ? { kind, from: this.tabId, records } : { kind, from: this.tabId };
     this.channel?.postMessage(message);
   }
 
@@ -474,6 +512,20 @@ export function isFirstStart(book: Book): boolean {
   const { rev, ...settings } = book.settings;
   const { rev: _defaultRev, ...defaults } = defaultSettings();
   return rev <= 1 && COLLECTIONS.every((c) => book[c].length === 0) && sameJson(settings, defaults);
+}
+
+/** The records a `changed` message names, when it names them as lists of ids of known collections; else undefined. */
+function namedRecords(x: unknown): RecordIds | undefined {
+  if (typeof x !== 'object' || x === null) return undefined;
+  const { collections, settings } = x as { collections?: unknown; settings?: unknown };
+  if (typeof collections !== 'object' || collections === null || (settings !== undefined && typeof settings !== 'boolean')) return undefined;
+  const out: RecordIds = { collections: {} };
+  for (const [c, ids] of Object.entries(collections)) {
+    if (!(COLLECTIONS as readonly string[]).includes(c) || !Array.isArray(ids) || !ids.every((id) => typeof id === 'string')) return undefined;
+    out.collections[c as CollectionName] = ids as string[];
+  }
+  if (settings) out.settings = true;
+  return out;
 }
 
 function sameJson(a: unknown, b: unknown): boolean {

@@ -100,6 +100,7 @@ export class RbSaveState extends LitElement {
       ${service.lastRemoteChange
         ? html`<p class="storage">Updated from another tab at ${clock(service.lastRemoteChange)}</p>`
         : ''}
+      ${service.remoteRefused ? html`<p class="reason" data-testid="remote-refused">${service.remoteRefused}</p>` : ''}
       ${st
         ? html`<p class="storage">
             Storage: ${formatBytes(st.usage)} used of ${formatBytes(st.quota)}
