@@ -439,12 +439,13 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
       key: string;
       first: TableRow;
       common?: Common;
-      rows: { r: TableRow; qty: number; price: number; currency: string }[];
+      rows: { r: TableRow; qty: number; price: number; currency: string; moq: number | undefined }[];
       ok: boolean;
     }
     const groups = new Map<string, Group>();
     const order: Group[] = [];
-    const moqPerBreak: string[] = [];
+    const raisedBreaks: string[] = [];
+    const mergedBreaks: string[] = [];
     for (const r of rows) {
       const c = readCommon(r);
       const key = cell(r, f.mpn) ? `mpn:${mpnKey(cell(r, f.mpn))}` : `code:${cell(r, f.supplierCode).toUpperCase()}`;
@@ -468,17 +469,11 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
           if (a === undefined) return;
           g!.ok = problem(r, f[field], `differs from line ${g!.first.line} for the same part ${part} (${String(a)})`);
         };
-        // Distributor files often give an MOQ per price break: the quote's MOQ is the least one can order, the
-        // smallest of them.
-        if (shared.moq !== undefined && c.moq !== undefined && c.moq !== shared.moq) {
-          moqPerBreak.push(`${part} (line ${g.first.line})`);
-          shared.moq = Math.min(shared.moq, c.moq);
-        }
+        // An MOQ may differ from row to row: distributor files often give one per price break (see below).
         agree('pack', shared.pack, c.pack);
         agree('leadTime', shared.leadDays, c.leadDays);
         agree('date', shared.date, c.date);
         agree('expires', shared.expires, c.expires);
-        if (shared.moq === undefined) shared.moq = c.moq;
         if (shared.pack === undefined) shared.pack = c.pack;
         if (shared.leadDays === undefined) shared.leadDays = c.leadDays;
         if (shared.date === undefined) shared.date = c.date;
@@ -493,13 +488,7 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
         g.ok = false;
         continue;
       }
-      g.rows.push({ r, qty, price: p.price, currency: p.currency });
-    }
-    const perBreak = [...new Set(moqPerBreak)];
-    if (perBreak.length > 0) {
-      notes.push(
-        `MOQ differs between price breaks for ${perBreak.length} part(s) (${perBreak.slice(0, 3).join(', ')}${perBreak.length > 3 ? ', …' : ''}); each quote takes the smallest MOQ given for it`,
-      );
+      g.rows.push({ r, qty, price: p.price, currency: p.currency, moq: c.moq });
     }
     for (const g of order) {
       if (!g.ok || !g.common) {
@@ -516,8 +505,63 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
         breaks.push({ qty: x.qty, price: x.price });
       }
       const lines = g.rows.map((x) => x.r.line);
+      if (ok && g.rows.length > 0) {
+        const part = cell(g.first, f.mpn) || cell(g.first, f.supplierCode);
+        const perBreak = perBreakMoq(part, g.rows);
+        breaks.splice(0, breaks.length, ...perBreak.breaks);
+        g.common.moq = perBreak.moq;
+        raisedBreaks.push(...perBreak.raised);
+        mergedBreaks.push(...perBreak.merged);
+      }
       if (!ok || !finish(g.common, g.key, breaks, g.rows.map((x) => x.currency), g.first.line, lines, g.rows[0]?.r ?? g.first, f.price)) rejected++;
+    }
+    const listed = (items: readonly string[]): string => `${items.slice(0, NOTE_ITEMS).join('; ')}${items.length > NOTE_ITEMS ? `; and ${items.length - NOTE_ITEMS} more` : ''}`;
+    if (raisedBreaks.length > 0) {
+      notes.push(`${raisedBreaks.length} price break(s) start at their own MOQ, above the break quantity the file gives: ${listed(raisedBreaks)}`);
+    }
+    if (mergedBreaks.length > 0) {
+      notes.push(`${mergedBreaks.length} price break(s) then fell on the quantity of another break of the same part; the cheaper price is kept: ${listed(mergedBreaks)}`);
     }
   }
   return { offers, offerLines, rejected, problems, notes, decimal, decimalReason: dec.reason, dateOrder: dates.order };
+}
+
+/** How many parts or breaks a note names before it says "and n more". */
+const NOTE_ITEMS = 5;
+
+/**
+ * The breaks and MOQ of a long-layout quote. When every row of the part that gives an MOQ gives the same one, it is the
+ * quote's MOQ and the breaks stay as the file gives them. When the rows give different MOQs, the file gives one per
+ * price break (common practice in distributor files: each break sells from its own minimum), and a break whose MOQ is
+ * above its quantity cannot be bought below that MOQ, so it starts there: its quantity is raised to the MOQ. The
+ * breaks are then put in quantity order; two that fall on one quantity keep the cheaper price. The quote's MOQ is the
+ * MOQ of its smallest break (undefined when that row gives none, and the quote takes its first break's quantity).
+ * Rows are in rising quantity order, as the caller has checked.
+ */
+export function perBreakMoq(
+  part: string,
+  rows: readonly { r: { line: number }; qty: number; price: number; moq: number | undefined }[],
+): { breaks: PriceBreak[]; moq: number | undefined; raised: string[]; merged: string[] } {
+  const raised: string[] = [];
+  const merged: string[] = [];
+  const given = [...new Set(rows.map((x) => x.moq).filter((m) => m !== undefined))];
+  if (given.length <= 1) return { breaks: rows.map((x) => ({ qty: x.qty, price: x.price })), moq: given[0], raised, merged };
+  const starts = rows.map((x) => {
+    if (x.moq !== undefined && x.moq > x.qty) {
+      raised.push(`${part}, break at ${x.qty} (line ${x.r.line}) starts at its MOQ ${x.moq}`);
+      return { qty: x.moq, price: x.price, moq: x.moq as number | undefined, line: x.r.line };
+    }
+    return { qty: x.qty, price: x.price, moq: x.moq, line: x.r.line };
+  });
+  starts.sort((a, b) => a.qty - b.qty || a.line - b.line);
+  const kept: typeof starts = [];
+  for (const b of starts) {
+    const same = kept.at(-1);
+    if (same && same.qty === b.qty) {
+      const [keep, drop] = b.price < same.price ? [b, same] : [same, b];
+      merged.push(`${part}, lines ${same.line} and ${b.line} both at ${b.qty}: kept ${keep.price} (line ${keep.line}), left out ${drop.price}`);
+      kept[kept.length - 1] = keep;
+    } else kept.push(b);
+  }
+  return { breaks: kept.map((b) => ({ qty: b.qty, price: b.price })), moq: kept[0]!.moq, raised, merged };
 }

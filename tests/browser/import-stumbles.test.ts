@@ -1,11 +1,11 @@
 // Import stumbles a practitioner met, through the built app in real Chromium: a pre-filled currency replaced by what is
 // typed, a column set to "not used" that stays so, rows without a date on the Book's costing date, a warning before
-// superseding quotes whose pack a file cannot give, the banner after an undo naming the parts that stay, and a
-// remembered mapping whose columns match standing confirmed.
+// superseding quotes whose pack a file cannot give, the banner after an undo naming the parts that stay, a
+// remembered mapping whose columns match standing confirmed, and an MOQ per price break that no longer folds into one.
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { AppUnderTest, TempFiles, saved, text } from './harness.ts';
+import { AppUnderTest, TempFiles, readerText, saved, text } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
@@ -72,6 +72,22 @@ describe('import stumbles', () => {
     await expect(text(page, '[data-testid="undo-result"]')).resolves.toMatch(/Undone the import of no-pack\.csv: 2 quote\(s\) removed, 1 restored\./);
     await expect(text(page, '[data-testid="import-done"]')).resolves.toMatch(/The import of no-pack\.csv for Kelvaro Parts Direct was undone/);
     await expect(text(page, '[data-testid="undo-parts-kept"]')).resolves.toContain(NEW_MPN);
+    expect(errors).toEqual([]);
+  });
+
+  it('starts a price break at its own MOQ when the file gives one per break, and says so in the review', async () => {
+    const file = writeTemp('moq-per-break.csv', `Mfr Part No,Break Qty,Unit Price (USD),Min Order Qty\n${PACKED_MPN},1,0.5,10\n${PACKED_MPN},100,0.4,250\n`);
+    const { page, errors } = await app.open('#/import');
+    await readFile(page, file);
+    await expect(page.locator('#map-moq').inputValue()).resolves.toBe('Min Order Qty');
+    await page.locator('[data-testid="no-problems"]').waitFor();
+    const row = page.locator('[data-testid="preview-table"] tbody tr', { hasText: PACKED_MPN });
+    // Each break starts at its own MOQ; the quote's MOQ is the smallest break's.
+    await expect(row.locator('td.breaks').textContent().then(readerText)).resolves.toBe('10 @ 0.5 · 250 @ 0.4');
+    await expect(row.locator('td.num').nth(1).textContent().then(readerText)).resolves.toBe('10');
+    const notes = readerText(await page.locator('ul.notes').textContent());
+    expect(notes).toContain(`${PACKED_MPN}, break at 1 (line 2) starts at its MOQ 10`);
+    expect(notes).toContain(`${PACKED_MPN}, break at 100 (line 3) starts at its MOQ 250`);
     expect(errors).toEqual([]);
   });
 

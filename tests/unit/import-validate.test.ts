@@ -107,12 +107,49 @@ describe('row checks', () => {
     expect(a.problems).toEqual([{ row: 3, column: 'MPN', value: 'qt-r10k-06', reason: 'the same part is already on line 2' }]);
   });
 
-  it('takes the smallest MOQ when a long-layout file gives one per price break, and says so naming the part', async () => {
+  it('keeps each break’s own MOQ: a break whose MOQ is above its quantity starts at that MOQ, named in a note', async () => {
     const a = await analyse('MPN,Qty,Price,MOQ\nQT-R10K-06,1,0.05,10\nQT-R10K-06,100,0.04,50\n');
     expect(a.problems).toEqual([]);
     expect(a.offers).toHaveLength(1);
+    // The first break cannot be bought below 10; the second's MOQ is below its quantity and changes nothing. The
+    // quote's MOQ is that of its smallest break.
+    expect(a.offers[0]).toMatchObject({ moq: 10, breaks: [{ qty: 10, price: 0.05 }, { qty: 100, price: 0.04 }] });
+    expect(a.notes).toContain('1 price break(s) start at their own MOQ, above the break quantity the file gives: QT-R10K-06, break at 1 (line 2) starts at its MOQ 10');
+  });
+
+  it('no longer lets a larger break be bought below its own MOQ', async () => {
+    // Before, the quote took the smallest MOQ (10) and the 0.03 break could be bought at 500 against a supplier MOQ of 1,000.
+    const a = await analyse('MPN,Qty,Price,MOQ\nQT-R10K-06,10,0.05,10\nQT-R10K-06,500,0.03,1000\n');
+    expect(a.problems).toEqual([]);
+    expect(a.offers[0]).toMatchObject({ moq: 10, breaks: [{ qty: 10, price: 0.05 }, { qty: 1000, price: 0.03 }] });
+    expect(a.notes.join('\n')).toContain('QT-R10K-06, break at 500 (line 3) starts at its MOQ 1000');
+  });
+
+  it('keeps the cheaper price when a raised break falls on the quantity of another, and says so', async () => {
+    const a = await analyse('MPN,Qty,Price,MOQ\nQT-R10K-06,1,0.05,100\nQT-R10K-06,100,0.04,100\nQT-R10K-06,1000,0.03,1000\n');
+    expect(a.problems).toEqual([]);
+    expect(a.offers[0]).toMatchObject({ moq: 100, breaks: [{ qty: 100, price: 0.04 }, { qty: 1000, price: 0.03 }] });
+    expect(a.notes).toContain(
+      '1 price break(s) then fell on the quantity of another break of the same part; the cheaper price is kept: QT-R10K-06, lines 2 and 3 both at 100: kept 0.04 (line 3), left out 0.05',
+    );
+  });
+
+  it('orders the breaks again when a raised break passes a later one, and takes the MOQ of the smallest break', async () => {
+    const a = await analyse('MPN,Qty,Price,MOQ\nQT-R10K-06,1,0.05,500\nQT-R10K-06,100,0.04,20\n');
+    expect(a.problems).toEqual([]);
+    expect(a.offers[0]).toMatchObject({ moq: 20, breaks: [{ qty: 100, price: 0.04 }, { qty: 500, price: 0.05 }] });
+  });
+
+  it('takes one MOQ given alike on every row of a part as the quote’s MOQ and leaves the breaks as they are', async () => {
+    const a = await analyse('MPN,Qty,Price,MOQ\nQT-R10K-06,1,0.05,10\nQT-R10K-06,100,0.04,10\n');
     expect(a.offers[0]).toMatchObject({ moq: 10, breaks: [{ qty: 1, price: 0.05 }, { qty: 100, price: 0.04 }] });
-    expect(a.notes.join('\n')).toContain('MOQ differs between price breaks for 1 part(s) (QT-R10K-06 (line 2))');
+    expect(a.notes.join('\n')).not.toMatch(/MOQ|cheaper/);
+  });
+
+  it('leaves breaks whose MOQ is at or below their quantity as the file gives them, with no note', async () => {
+    const a = await analyse('MPN,Qty,Price,MOQ\nQT-R10K-06,10,0.05,10\nQT-R10K-06,100,0.04,1\n');
+    expect(a.offers[0]).toMatchObject({ moq: 10, breaks: [{ qty: 10, price: 0.05 }, { qty: 100, price: 0.04 }] });
+    expect(a.notes.join('\n')).not.toMatch(/MOQ|cheaper/);
   });
 
   it('names the part and the line when long-layout rows of one part disagree on the pack quantity', async () => {
