@@ -2,6 +2,7 @@
 // and spotting a re-import. Changes come back as BookChange, for store.apply or applyChange in book-ops.ts.
 import type { Book, ImportBatch, Quote } from './book.ts';
 import type { BookChange } from './book-ops.ts';
+import { reverseCount } from './stock.ts';
 
 /** A quote is current until a newer one for the same part and supplier supersedes it. */
 export function isCurrent(q: Quote): boolean {
@@ -43,7 +44,7 @@ export type UndoResult = { ok: true; change: BookChange } | { ok: false; reason:
 
 /**
  * Undoing a price batch deletes the quotes it created and restores the ones it superseded; undoing a stock count
- * deletes the counted movements it wrote. Refused when a later batch has
+ * writes a reversing movement for each counted movement it wrote, keeping both. Refused when a later batch has
  * already superseded this batch's quotes: undoing out of order would leave two current quotes for one part.
  */
 export function undoBatch(book: Book, batchId: string): UndoResult {
@@ -51,9 +52,8 @@ export function undoBatch(book: Book, batchId: string): UndoResult {
   if (!batch) return { ok: false, reason: `no import batch with id ${batchId}` };
   if (batch.undone) return { ok: false, reason: `import batch ${batchId} (${batch.fileName}) was already undone` };
   if (batch.kind === 'stock count') {
-    // A count's movements are differences from the ledger of their day; taking them out restores that ledger.
-    const held = new Set(book.stockMoves.map((m) => m.id));
-    return { ok: true, change: { put: { importBatches: [{ ...batch, undone: true }] }, delete: { stockMoves: (batch.moves ?? []).filter((id) => held.has(id)) } } };
+    // Stock is a ledger: the count's movements stay, each reversed on its own date (domain/stock.ts).
+    return { ok: true, change: { put: { stockMoves: reverseCount(book, batch), importBatches: [{ ...batch, undone: true }] } } };
   }
   const created = new Set(batch.created);
   const byId = new Map(book.quotes.map((q) => [q.id, q] as const));

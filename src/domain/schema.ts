@@ -704,6 +704,8 @@ export const StockMoveSchema = obj({
   orderLine: v.optional(count(LIMITS.orderLines)),
   /** The run the parts were issued to. */
   runId: v.optional(id()),
+  /** The import batch (a stock count) whose movement this one reverses: the count was undone. */
+  undoes: v.optional(id()),
 });
 
 export const OrderLineSchema = obj({
@@ -779,7 +781,7 @@ export const ImportBatchSchema = obj({
   created: v.optional(list(text(LIMITS.id), LIMITS.quotes), []),
   /** Ids of quotes this batch superseded (restored on undo). */
   superseded: v.optional(list(text(LIMITS.id), LIMITS.quotes), []),
-  /** Ids of the stock movements a stock count wrote (deleted on undo). */
+  /** Ids of the stock movements a stock count wrote (each reversed by a movement naming the batch on undo). */
   moves: v.optional(list(text(LIMITS.id), LIMITS.parts)),
   undone: v.optional(bool()),
 });
@@ -1132,6 +1134,7 @@ function stockProblems(book: Book, ids: Record<(typeof COLLECTION_KEYS)[number],
       add(`${at}.quantity`, `a ${m.kind} movement ${sign > 0 ? 'adds to' : 'takes from'} stock, so its quantity must be ${sign > 0 ? 'above' : 'below'} 0, not ${m.quantity}`);
     }
     if (m.runId !== undefined) has('runs', m.runId, `${at}.runId`, 'run');
+    if (m.undoes !== undefined) has('importBatches', m.undoes, `${at}.undoes`, 'import batch');
     if (m.orderLine !== undefined && m.orderId === undefined) add(`${at}.orderLine`, 'an order line needs its order (orderId)');
     if (m.orderId === undefined || !has('orders', m.orderId, `${at}.orderId`, 'order')) return;
     if (m.kind !== 'received') add(`${at}.kind`, `only a receipt comes from an order, not a ${m.kind} movement`);

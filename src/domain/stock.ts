@@ -157,6 +157,19 @@ export function importCount(book: Book, date: string, lines: readonly CountLine[
   return { ok: true, value: { lines: counted.value.lines, batch, change: { put: { stockMoves: moves, importBatches: [batch] } } } };
 }
 
+/**
+ * Undoing an imported count: each of its movements still in the ledger is reversed by an 'adjusted' movement of the
+ * opposite quantity on the same date, naming the batch (`undoes`), so on hand on every date is what it was before
+ * the count and the count stays in the history. A movement deleted by hand since has nothing left to reverse.
+ */
+export function reverseCount(book: Book, batch: ImportBatch): StockMove[] {
+  const mine = new Set(batch.moves ?? []);
+  const reason = `undo of stock count ${batch.fileName}`.slice(0, LIMITS.shortText);
+  return book.stockMoves
+    .filter((m) => mine.has(m.id))
+    .map((m) => ({ ...newMove({ partId: m.partId, date: m.date, quantity: -m.quantity, kind: 'adjusted', reason }), undoes: batch.id }));
+}
+
 /** Finds a part by its maker part number as written on a count sheet (case, spaces and dashes ignored). */
 export function partByMpn(parts: readonly Part[], mpn: string): Part | undefined {
   const k = mpnKey(mpn);

@@ -128,7 +128,7 @@ export class RbImportBatches extends LitElement {
     }
     const restored = r.change.put?.quotes?.length ?? 0;
     const removed = r.change.delete?.quotes?.length ?? 0;
-    const what = b.kind === 'stock count' ? `${r.change.delete?.stockMoves?.length ?? 0} counted movement(s) removed` : `${removed} quote(s) removed, ${restored} restored`;
+    const what = b.kind === 'stock count' ? `${r.change.put?.stockMoves?.length ?? 0} counted movement(s) reversed, both kept in the history` : `${removed} quote(s) removed, ${restored} restored`;
     const saved = await service.save(r.change);
     this.message = saved.ok
       ? { id: b.id, text: `Undone the import of ${b.fileName}: ${what}.`, ok: true }

@@ -205,7 +205,7 @@ export class RbStockCount extends LitElement {
     const r = undoBatch(service.book, b.id);
     if (!r.ok) return void (this.message = { text: `${b.fileName} not undone: ${r.reason}.`, bad: true });
     const saved = await service.save(r.change);
-    this.message = saved.ok ? { text: `The count from ${b.fileName} is undone: ${r.change.delete?.stockMoves?.length ?? 0} movements taken out.`, bad: false } : { text: saved.message, bad: true };
+    this.message = saved.ok ? { text: `The count from ${b.fileName} is undone: ${r.change.put?.stockMoves?.length ?? 0} movements reversed, both kept in the history.`, bad: false } : { text: saved.message, bad: true };
   }
 }
 

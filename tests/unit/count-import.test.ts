@@ -1,6 +1,6 @@
 // Stock count files through the import machinery: other column names and delimiters are read, columns the person
 // chooses win over the guesses, every bad row is named with its line and nothing is written, and an imported count
-// is kept as an import batch whose undo takes its movements out of the ledger.
+// is kept as an import batch whose undo reverses its movements in the ledger, keeping both.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -75,7 +75,7 @@ describe('reading a stock count file', () => {
 });
 
 describe('an imported count is an import batch', () => {
-  it('writes the differences from the ledger with a batch naming them, and undo takes them out again', async () => {
+  it('writes the differences from the ledger with a batch naming them, and undo reverses them, keeping both', async () => {
     const book = sampleBook();
     const before = [onHand(book.stockMoves, 'part_r47k'), onHand(book.stockMoves, 'part_xcap')];
     const a = await analyseCountFile(book, bytes(`Part number\tQty\n${R47K}\t${before[0]! + 3}\n${XCAP}\t${before[1]}\n`));
@@ -94,11 +94,28 @@ describe('an imported count is an import batch', () => {
 
     const undo = undoBatch(counted, batch.id);
     if (!undo.ok) throw new Error(undo.reason);
+    // Stock is a ledger: nothing is deleted; the count's movement is reversed on its own date, naming the batch.
+    expect(undo.change.delete).toBeUndefined();
     const undone = applied(counted, undo.change);
+    expect(checkBook(undone).ok).toBe(true);
     expect(onHand(undone.stockMoves, 'part_r47k')).toBe(before[0]);
-    expect(undone.stockMoves.map((m) => m.id)).toEqual(book.stockMoves.map((m) => m.id));
+    expect(onHand(undone.stockMoves, 'part_r47k', '2025-03-01')).toBe(onHand(book.stockMoves, 'part_r47k', '2025-03-01'));
+    const countMove = counted.stockMoves.find((m) => m.id === batch.moves![0])!;
+    expect(undone.stockMoves.slice(0, counted.stockMoves.length)).toEqual(counted.stockMoves);
+    expect(undone.stockMoves.slice(counted.stockMoves.length).map((m) => [m.partId, m.date, m.quantity, m.kind, m.reason, m.undoes])).toEqual([
+      ['part_r47k', '2025-03-01', -3, 'adjusted', 'undo of stock count count-march.csv', batch.id],
+    ]);
+    expect(countMove).toMatchObject({ quantity: 3, kind: 'counted' });
     expect(undone.importBatches.find((b) => b.id === batch.id)?.undone).toBe(true);
     expect(undoBatch(undone, batch.id)).toMatchObject({ ok: false });
+    expect(undone.stockMoves).toHaveLength(counted.stockMoves.length + 1);
+  });
+
+  it('a reversing movement must name an import batch the Book holds', () => {
+    const book = sampleBook();
+    const bad = { ...book, stockMoves: book.stockMoves.map((m) => (m.undoes ? { ...m, undoes: 'batch_gone' } : m)) };
+    const r = checkBook(bad);
+    expect(!r.ok && r.problems).toEqual([{ path: 'stockMoves[5].undoes', message: 'refers to import batch "batch_gone", which is not in the file' }]);
   });
 
   it('is refused by the Book check with a supplier, as a price batch is without one', () => {
@@ -106,7 +123,8 @@ describe('an imported count is an import batch', () => {
     const count = book.importBatches.find((b) => b.kind === 'stock count')!;
     const price = book.importBatches.find((b) => b.kind !== 'stock count')!;
     const { supplierId: _s, ...noSupplier } = price;
-    const bad = { ...book, importBatches: [{ ...count, supplierId: 'sup_b' }, noSupplier] };
+    const others = book.importBatches.filter((b) => b !== count && b !== price);
+    const bad = { ...book, importBatches: [{ ...count, supplierId: 'sup_b' }, noSupplier, ...others] };
     const r = checkBook(bad);
     expect(!r.ok && r.problems).toEqual([
       { path: 'importBatches[0].supplierId', message: 'a stock count has no supplier' },
@@ -134,7 +152,7 @@ describe('rungbook count reads through the same machinery', () => {
     const r = parseBookFile(readFileSync(file, 'utf8'));
     if (!r.ok) throw new Error(JSON.stringify(r.problems));
     expect(onHand(r.book.stockMoves, 'part_r47k')).toBe(500);
-    expect(r.book.importBatches.filter((b) => b.kind === 'stock count').map((b) => b.fileName)).toEqual(['count-february.csv', 'count.csv']);
+    expect(r.book.importBatches.filter((b) => b.kind === 'stock count').map((b) => b.fileName)).toEqual(['count-february.csv', 'recount-february.csv', 'count.csv']);
 
     const written = readFileSync(file, 'utf8');
     writeFileSync(csv, `Ref;Part;Pieces\r\n${R47K};x;7\r\nNOT-A-PART;x;3\r\n`);
