@@ -6,6 +6,7 @@ import { IDBFactory } from 'fake-indexeddb';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import type { Part, Quote } from '../../src/domain/book.ts';
 import { checkBook } from '../../src/domain/schema.ts';
+import type * as SchemaModule from '../../src/domain/schema.ts';
 import { IdbBookStore, openBookStore } from '../../src/store/idb-store.ts';
 import { quoteBucketKey } from '../../src/store/schema.ts';
 import { StoredRecordsInvalid } from '../../src/store/types.ts';
@@ -14,7 +15,7 @@ import { sampleBook } from '../fixtures/sample-book.ts';
 
 // The whole-Book check, counted: every call still runs the real one.
 vi.mock('../../src/domain/schema.ts', async (importOriginal) => {
-  const real = await importOriginal<typeof import('../../src/domain/schema.ts')>();
+  const real = await importOriginal<typeof SchemaModule>();
   return { ...real, checkBook: vi.fn(real.checkBook) };
 });
 const wholeChecks = vi.mocked(checkBook);
