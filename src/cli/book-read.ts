@@ -1,10 +1,11 @@
 // The one way every command reads a Book file from disk: size first, then the bytes as UTF-8 text (refused, with the
-// first line that is not, when they are not UTF-8), then the Book file parser. What one command refuses, all refuse.
+// first line that is not, when they are not UTF-8), then the Book file parser (io/book-bytes.ts, shared with the
+// app's file reader). What one command refuses, all refuse, and the app too.
 import { readFile, stat } from 'node:fs/promises';
 import type { Book } from '../domain/book.ts';
-import { bookFileSizeProblem, parseBookFile } from '../io/book-file.ts';
+import { bookFromBytes } from '../io/book-bytes.ts';
+import { bookFileSizeProblem } from '../io/book-file.ts';
 import type { BookFileProblem, BookFileResult } from '../io/book-file.ts';
-import { utf8Lines } from '../io/price-decode.ts';
 import type { CliIo } from './command.ts';
 
 function refuse(message: string): BookFileResult {
@@ -16,18 +17,6 @@ function reason(e: unknown): string {
   if (code === 'ENOENT') return 'no such file';
   if (code === 'EACCES' || code === 'EPERM') return 'permission denied';
   return e instanceof Error ? e.message : String(e);
-}
-
-/** Book file bytes to a Book, or the problems: the text must be UTF-8 (a byte-order mark is allowed). */
-export function bookFromBytes(bytes: Uint8Array): BookFileResult {
-  let text: string;
-  try {
-    text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
-  } catch {
-    const first = utf8Lines(bytes).find((l) => !l.valid);
-    return refuse(`the file is not UTF-8 text${first ? ` (line ${first.number} is not)` : ''}, so it is not a Book file`);
-  }
-  return parseBookFile(text);
 }
 
 /** Reads and validates a Book file from disk; the size is checked before anything is read. */

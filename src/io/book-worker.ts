@@ -1,7 +1,8 @@
 // Web Worker entry for opening a Book file off the page's thread: reading the file, JSON.parse and validation of a
 // large Book take seconds, and the page must keep drawing and answering meanwhile. It returns the Book (copied to
 // the page by structured clone, a large collection in parts so that no one copy holds the page) or the problems. The UI starts it with openBookFileInWorker (book-worker-client.ts).
-import { bookFileSizeProblem, parseBookFile } from './book-file.ts';
+import { bookFromBytes } from './book-bytes.ts';
+import { bookFileSizeProblem } from './book-file.ts';
 import type { BookFileResult } from './book-file.ts';
 import { COLLECTIONS } from '../domain/book.ts';
 import type { Book, CollectionName } from '../domain/book.ts';
@@ -47,21 +48,22 @@ export function postResult(result: BookFileResult, post: (m: BookWorkerMessage) 
 }
 
 /**
- * Reads a Book file's bytes as a Book: the size first (nothing is read beyond the limit), then the text through
- * parseBookFile. Never throws; Node (tests, bench) runs exactly what the worker runs.
+ * Reads a Book file's bytes as a Book: the size first (nothing is read beyond the limit), then the bytes strictly as
+ * UTF-8 and the text through the Book file parser, exactly as the command line reads a file (io/book-bytes.ts): bytes
+ * that are not UTF-8 are refused, never replaced. Never throws; Node (tests, bench) runs exactly what the worker runs.
  */
 export async function readBookFileBlob(file: Blob, onStage?: (stage: BookFileStage) => void): Promise<BookFileResult> {
   const tooBig = bookFileSizeProblem(file.size);
   if (tooBig) return { ok: false, problems: [tooBig], total: 1 };
   onStage?.('reading');
-  let text: string;
+  let bytes: Uint8Array;
   try {
-    text = await file.text();
+    bytes = new Uint8Array(await file.arrayBuffer());
   } catch (e) {
     return { ok: false, problems: [{ path: '', message: `the file could not be read: ${e instanceof Error ? e.message : String(e)}` }], total: 1 };
   }
   onStage?.('checking');
-  return parseBookFile(text);
+  return bookFromBytes(bytes);
 }
 
 /** The worker's whole job, as a plain function so Node tests run exactly what the worker runs. */

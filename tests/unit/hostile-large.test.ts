@@ -35,6 +35,7 @@ import {
   validateVariant,
   variantDraft,
 } from '../../src/ui/record-forms.ts';
+import { readBookFile } from '../../src/cli/book-read.ts';
 import { runCli } from './cli-helpers.ts';
 import { analyse } from './import-helpers.ts';
 
@@ -105,11 +106,37 @@ describe('opening a Book file off the page thread', () => {
     if (!r.ok) expect(r.problems[0]!.path).toBe('settings.labourRatePerHour');
 
     let read = false;
-    const huge = { size: MAX_BOOK_FILE_BYTES + 1, text: () => ((read = true), Promise.resolve('')) } as unknown as Blob;
+    const reading = <T>(x: T) => ((read = true), Promise.resolve(x));
+    const huge = { size: MAX_BOOK_FILE_BYTES + 1, text: () => reading(''), arrayBuffer: () => reading(new ArrayBuffer(0)) } as unknown as Blob;
     const big = await readBookFileBlob(huge);
     expect(read).toBe(false);
     expect(big.ok).toBe(false);
     if (!big.ok) expect(big.problems[0]!.message).toMatch(/at most 256 MB/);
+  });
+
+  it('refuses a Windows-1252 Book in the command line’s words, naming the line, instead of replacing its letters', async () => {
+    const book = emptyBook();
+    book.settings.bookName = 'Régulateurs';
+    book.settings.company = 'Société Quillmoor';
+    const text = serializeBook(book);
+    // Windows-1252 is Latin-1 for these letters: one byte each, which is not UTF-8.
+    expect([...text].every((c) => c.charCodeAt(0) < 0x100)).toBe(true);
+    const bytes = Uint8Array.from([...text].map((c) => c.charCodeAt(0)));
+    const line = text.slice(0, text.indexOf('é')).split('\n').length;
+    const message = `the file is not UTF-8 text (line ${line} is not), so it is not a Book file`;
+
+    const stages: string[] = [];
+    const r = await openBookFileInWorker(new Blob([bytes]), (s) => stages.push(s), () => new InProcessWorker());
+    expect(r).toEqual({ ok: false, problems: [{ path: '', message }], total: 1 });
+    expect(stages).toEqual(['reading', 'checking']);
+    expect(await readBookFileBlob(new Blob([bytes]))).toEqual(r);
+    // The command line reads the same bytes from disk through the same function, in the same words.
+    const file = join(dir, 'cp1252.rungbook.json');
+    writeFileSync(file, bytes);
+    expect(await readBookFile(file)).toEqual(r);
+    // The same Book in UTF-8, with a byte-order mark, opens.
+    const utf8 = await readBookFileBlob(new Blob([new Uint8Array([0xef, 0xbb, 0xbf]), text]));
+    expect(utf8.ok && utf8.book.settings.company).toBe('Société Quillmoor');
   });
 
   it('answers a request without a file with an error message, and the client rejects naming the reader', async () => {
