@@ -21,6 +21,7 @@ import { readSnapshot } from '../domain/freeze.ts';
 import { onHandByPart } from '../domain/stock.ts';
 import type { FrozenSnapshot } from '../domain/freeze.ts';
 import type { PurchaseList } from '../domain/purchase.ts';
+import { MAINS_CAUTION, MAINS_CAUTION_LABEL } from '../domain/mains-caution.ts';
 import { formatValue } from '../domain/units.ts';
 import { CostingWorkbook, resolutionFromFamily } from '../engine/costing.ts';
 import { resolveFamily } from '../engine/family.ts';
@@ -126,11 +127,15 @@ export function runAbout(book: Book, variantId: string, quantity: number): RunFi
   return { run: book.runs.find((r) => r.variantId === variantId && r.quantity === quantity)?.name };
 }
 
-/** The head block of a run file: what it is, the run, variant and quantity, the freeze, the quotes' date and the rates. */
+/**
+ * The head block of a run file: what it is, the mains caution in full (a costed BOM or purchase list travels without
+ * the app around it), the run, variant and quantity, the freeze, the quotes' date and the rates.
+ */
 export function runFileHead(what: string, c: RunCosting, about: RunFileAbout): ExportCell[][] {
   const bom = c.bom;
   const rows: ExportCell[][] = [
     ['file', what],
+    [MAINS_CAUTION_LABEL, MAINS_CAUTION],
     ['run', about.run ?? ''],
     ['variant', bom.variant],
     ['quantity', qty(bom.run)],

@@ -2,14 +2,10 @@
 // caution met at full length on every page stops being read); the full text on printouts and exported sheets.
 import { LitElement, css, html } from 'lit';
 import { customElement } from 'lit/decorators.js';
+import { MAINS_CAUTION, MAINS_CAUTION_SHORT } from '../domain/mains-caution.ts';
 
-/** The caution as the screen shows it: one line, every point of the full text kept. */
-export const MAINS_CAUTION_SHORT = 'Live mains can kill. A design aid, not a certification: local codes and a qualified person’s review apply.';
-
-/** The caution in full, for printouts and exported sheets. */
-export const MAINS_CAUTION =
-  'Live, non-isolated mains circuits can kill. These figures are design aids, not a certification: follow local ' +
-  'electrical codes and have a qualified person review the design.';
+// The words live in the domain (domain/mains-caution.ts), shared with the run files and the command line.
+export { MAINS_CAUTION, MAINS_CAUTION_SHORT };
 
 @customElement('rb-mains-caution')
 export class RbMainsCaution extends LitElement {

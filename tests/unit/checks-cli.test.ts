@@ -35,7 +35,7 @@ describe('rungbook check', () => {
   it('prints the mains caution and a table per variant with status words and symbols', async () => {
     const r = await run(demoFile, '--variant', 'FR5-75-CD');
     expect(r.code).toBe(0);
-    expect(r.out.split('\n')[0]).toMatch(/^Caution: live, non-isolated mains circuits can kill\. .*not a certification.*qualified person/);
+    expect(r.out.split('\n')[0]).toMatch(/^Caution: Live, non-isolated mains circuits can kill\. .*not a certification.*qualified person/);
     expect(r.out).toContain('FR5-75-CD — Five-step 75 W, push button, dropper: worst fail');
     // 1 MΩ · 0.517 µF · ln(357.8/34) = 1.217 s > 1 s (IEC 60335-1 cl. 22.5 as quoted; worked in checks-demo.test.ts).
     expect(r.out).toMatch(/bleeder_time\s+1\.217 s\s+✗ fail\s+≤ 1 s/);

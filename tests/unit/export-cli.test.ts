@@ -9,6 +9,7 @@ import { captureIo, writeBook } from './cli-helpers.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import type { Book } from '../../src/domain/book.ts';
 import { freezeRun } from '../../src/domain/freeze.ts';
+import { MAINS_CAUTION } from '../../src/domain/mains-caution.ts';
 import { purchaseList } from '../../src/domain/purchase.ts';
 import { costedBomCsv, exportBytes, purchaseListCsv, runCosting } from '../../src/io/run-export.ts';
 import type { ExportOptions } from '../../src/io/run-export.ts';
@@ -44,6 +45,8 @@ describe('CLI and app export the same bytes', () => {
       expect(await main(['buy', file, '--variant', code, '--run', String(run.quantity), '--csv', ...flags], buy)).toBe(0);
       const list = exportBytes(value(purchaseListCsv(costing, purchaseList(costing.bom, { dateWanted: run.dateWanted }), options, { run: run.name })));
       expect(Buffer.from(exportBytes(buy.stdout)).equals(Buffer.from(list)), `buy ${flags.join(' ')}`).toBe(true);
+      // The caution in full is a line of both files' head, as the app writes it.
+      for (const out of [cost.stdout, buy.stdout]) expect(out).toContain(`mains caution${flags.includes('tab') ? '\t' : flags.includes('semicolon') ? ';' : ','}"${MAINS_CAUTION}"`);
     }
   });
 

@@ -6,6 +6,7 @@ import { demoBook } from '../../src/domain/demo-book.ts';
 import type { Book, Run } from '../../src/domain/book.ts';
 import { toCents, toTenThousandths } from '../../src/domain/costing.ts';
 import { freezeRun } from '../../src/domain/freeze.ts';
+import { MAINS_CAUTION } from '../../src/domain/mains-caution.ts';
 import { purchaseList } from '../../src/domain/purchase.ts';
 import {
   COSTED_LEFTOVER_COLUMN,
@@ -162,6 +163,18 @@ describe('the head and the blocks of a run file', () => {
     for (const cur of ['GBP', 'USD']) expect(Number(h.get(`rate ${cur} (EUR for one ${cur})`))).toBe(book.settings.rates[cur]);
     expect(table![0]).toEqual(costedBomHeader('EUR'));
     expect(totals!.length).toBeGreaterThan(5);
+  });
+
+  it('carries the mains caution in full in the head of both run files, the very text the app shows', () => {
+    const list = purchaseList(costing.bom, { dateWanted: run.dateWanted });
+    for (const o of [undefined, { delimiter: 'semicolon', decimal: 'comma', bom: false }] as (ExportOptions | undefined)[]) {
+      const sep = o?.delimiter === 'semicolon' ? ';' : ',';
+      for (const text of [value(costedBomCsv(costing, o, { run: run.name })), value(purchaseListCsv(costing, list, o, { run: run.name }))]) {
+        const head = labelled(csvBlocks(text, sep)[0]!);
+        expect(head.get('mains caution')).toBe(MAINS_CAUTION);
+        expect(MAINS_CAUTION).toMatch(/can kill.*not a certification.*local electrical codes.*qualified person/);
+      }
+    }
   });
 
   it('gives a frozen run’s freeze time and its frozen rates, not today’s', () => {

@@ -3,6 +3,7 @@
 import type { Book } from '../../domain/book.ts';
 import { STATUS_SYMBOL, worstOf } from '../../domain/check-status.ts';
 import type { CheckValue } from '../../domain/check-status.ts';
+import { MAINS_CAUTION_LINE as MAINS_CAUTION } from '../../domain/mains-caution.ts';
 import { formatValue } from '../../domain/units.ts';
 import { FamilyWorkbook } from '../../engine/family.ts';
 import type { CheckResult } from '../../engine/family.ts';
@@ -12,10 +13,6 @@ import type { CliCommand, CliIo } from '../command.ts';
 import { parseArgs } from '../command.ts';
 import { loadBuiltInChecks } from '../check-sheets-fs.ts';
 import { jsonText, shown } from '../terminal.ts';
-
-export const MAINS_CAUTION =
-  'Caution: live, non-isolated mains circuits can kill. These figures are a design aid, not a certification; ' +
-  "follow local electrical codes and a qualified person's review.";
 
 const HELP = `usage: rungbook check FILE [--variant CODE] [--json] [--strict]
 

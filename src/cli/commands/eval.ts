@@ -1,6 +1,7 @@
 // `rungbook eval 'FORMULA'`: evaluates one formula in a fresh engine with Rungbook's functions and prints the value.
 import { DetailedCellError } from 'hyperformula';
 import type { CellValue } from 'hyperformula';
+import { MAINS_CAUTION_LINE } from '../../domain/mains-caution.ts';
 import { createEngine } from '../../engine/create.ts';
 import { FORMULA_REFUSALS, engineFailure, guardFormula } from '../../engine/formula-guard.ts';
 import type { CliCommand, CliIo } from '../command.ts';
@@ -17,8 +18,7 @@ examples:
   rungbook eval '=XCAP_AMPS(0.47e-6, 230, 50)'
   rungbook eval 'E_NEAR(5000, 96)'
 
-Caution: live, non-isolated mains circuits can kill. These figures are design aids, not a certification;
-follow local electrical codes and a qualified person's review.`;
+${MAINS_CAUTION_LINE}`;
 
 /** A scalar as the CLI prints it; numbers through String(), which is the shortest text that reads back exactly. */
 function scalarText(v: CellValue): string {

@@ -1,14 +1,14 @@
 // `rungbook info FILE`: what a Book file holds (counts and a summary), or why it cannot be read.
 import { COLLECTIONS } from '../../domain/book.ts';
 import type { Book, CollectionName } from '../../domain/book.ts';
+import { MAINS_CAUTION_LINE } from '../../domain/mains-caution.ts';
 import { loadBook } from '../book-read.ts';
 import { parseArgs } from '../command.ts';
 import type { CliCommand, CliIo } from '../command.ts';
 import { jsonText, shown } from '../terminal.ts';
 
-export const MAINS_CAUTION =
-  'Caution: mains regulators are live, non-isolated circuits that can kill. These figures are a design aid, not a ' +
-  "certification; follow local electrical codes and have a qualified person review the design.";
+// The commands print the one caution text (domain/mains-caution.ts), named by its first word.
+export const MAINS_CAUTION = MAINS_CAUTION_LINE;
 
 const LABELS: Record<CollectionName, string> = {
   parts: 'parts',
