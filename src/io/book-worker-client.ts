@@ -1,5 +1,6 @@
 // The page's side of the Book file worker: sends the chosen file, reports which stage it is in, resolves with the
-// Book or the problems. The page's thread only receives the finished Book.
+// Book or the problems. The page's thread only receives the finished Book, a large collection in parts of
+// RECORDS_PER_PART records (book-worker.ts), each in a task of its own.
 import type { Book, CollectionName } from '../domain/book.ts';
 import type { BookFileResult } from './book-file.ts';
 import type { BookFileStage, BookWorkerMessage, BookWorkerRequest } from './book-worker.ts';
