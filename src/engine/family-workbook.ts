@@ -12,11 +12,11 @@ import { createEngine } from './create.ts';
 import { judgeCheck } from './family-checks.ts';
 import type { CheckResult } from './family-checks.ts';
 import { atRow, planFamily, roleNames, valueCell, valueContent } from './family-layout.ts';
-import type { CellRead, CheckCells, FamilyLayout, FormulaCell, FormulaColumn, Memo, ReadCell } from './family-layout.ts';
+import type { CellRead, CheckCells, FamilyLayout, FormulaCell, FormulaColumn, LineCells, Memo, ReadCell } from './family-layout.ts';
 import { indexParts, partRoleNames, resolveVariant } from './family-lines.ts';
 import type { FamilyResolution, PartIndex, VariantResolution } from './family-lines.ts';
 import { guardFormula } from './formula-guard.ts';
-import { formulaNames, nameKey, tokenizeFormula, formulaBody } from './formula-names.ts';
+import { constantNumber, formulaNames, nameKey, tokenizeFormula, formulaBody } from './formula-names.ts';
 
 export type EditResult = { ok: true } | { ok: false; error: string };
 
@@ -605,6 +605,43 @@ export class FamilyWorkbook {
     // Every formula reads its own row only, so no other variant's results can have changed.
     this.rowResults[row] = undefined;
     return { ok: true };
+  }
+
+  /**
+   * Takes changed build lines whose change leaves every cell of the table as it is: one constant quantity for another,
+   * or the attrition, designators, category, pinned part or notes. The variants are resolved again by reading the
+   * cells; no formula is evaluated and the checks' results stay. Gives false, changing nothing, for any other change
+   * (a rule, the part, the role, the approved alternates, the position, a quantity rule that is a formula): those lay
+   * the table out again.
+   */
+  setLineTerms(lines: readonly BuildLine[]): boolean {
+    const cells = new Map(this.layout.lineCells.map((lc) => [lc.line.id, lc] as const));
+    const taken: { lc: LineCells; line: BuildLine; qty: number | undefined }[] = [];
+    for (const line of lines) {
+      const lc = cells.get(line.id);
+      if (!lc || lc.problems.length > 0) return false;
+      const old = lc.line;
+      const same = <T>(a: T, b: T): boolean => JSON.stringify(a ?? null) === JSON.stringify(b ?? null);
+      if (!same(old.appliesWhen, line.appliesWhen) || !same(old.partRule, line.partRule) || !same(old.partId, line.partId) || !same(old.role, line.role)) return false;
+      if (old.position !== line.position || !same(old.alternates, line.alternates)) return false;
+      let qty = lc.qtyConst;
+      if (old.qtyRule !== line.qtyRule) {
+        qty = constantNumber(line.qtyRule);
+        // A formula before or after is a cell of the table; a negative quantity is a problem that changes judging.
+        if (lc.qtyConst === undefined || qty === undefined || qty < 0) return false;
+      }
+      taken.push({ lc, line, qty });
+    }
+    for (const { lc, line, qty } of taken) {
+      lc.line = line;
+      if (qty !== undefined) lc.qtyConst = qty;
+    }
+    const byId = new Map(lines.map((l) => [l.id, l] as const));
+    this.book = { ...this.book, buildLines: this.book.buildLines.map((l) => byId.get(l.id) ?? l) };
+    const n = this.book.variants.length;
+    this.resolution = this.book.variants.map((_, r) => this.resolveRow(r));
+    this.altResolution = this.altRows.map((_, i) => this.resolveRow(n + i));
+    return true;
   }
 
   /** Re-resolves one variant's lines after an edit and rewrites its role cells and memos where they changed. */

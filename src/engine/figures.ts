@@ -5,8 +5,9 @@
 // small enough to copy to the page.
 //
 // Catching up edits the workbooks in place where the engine allows it — a quote price, an exchange rate, a cost
-// setting, a variant parameter whose build lines resolve as before — and rebuilds them on structural changes
-// (variants added or deleted, parts, build lines, suppliers, run sizes, quote terms other than prices).
+// setting, a variant parameter whose build lines resolve as before, a build line's constant quantity, attrition,
+// designators, category or pin — and rebuilds them on structural changes (variants added or deleted, parts, build
+// lines added, removed or given other rules, suppliers, run sizes, quote terms other than prices).
 import type { Book, CollectionName, Quote, Settings, Variant } from '../domain/book.ts';
 import type { ResolvedLine, Result } from '../domain/costing.ts';
 import { CostingWorkbook, resolutionFromFamily } from './costing.ts';
@@ -214,15 +215,21 @@ export class LiveFigures {
     const checks = diff('checks');
     const lineDiff = diff('buildLines');
     const partsOrSuppliers = !empty(diff('parts')) || !empty(diff('suppliers'));
-    const familyRebuild = partsOrSuppliers || !empty(lineDiff) || !empty(checks) || variants.added.length > 0 || variants.removed.length > 0;
+    const shapeSame = !partsOrSuppliers && empty(checks) && variants.added.length === 0 && variants.removed.length === 0;
+    const onlyLines = shapeSame && variants.changed.length === 0 && lineDiff.added.length === 0 && lineDiff.removed.length === 0 && lineDiff.changed.length > 0;
+    // A quantity, attrition, designator, category or pin edit leaves the family table's cells as they are: the
+    // variants are resolved again by reading them, and only the variants that fit the line are costed again.
+    const linesInPlace = onlyLines && this.family !== undefined && this.family.setLineTerms(lineDiff.changed.map(([, b]) => b));
+    const familyRebuild = !linesInPlace && (!shapeSame || !empty(lineDiff));
 
     let familyTouched = familyRebuild;
     let costingRebuild = partsOrSuppliers || variants.added.length > 0 || variants.removed.length > 0;
     const oldKeys = new Map(this.lineKeys);
     /** Variants whose build lines (or a line they fit) changed: their costs are worked out again in place. */
     const moved = new Set<string>();
-    if (familyRebuild) {
-      this.openFamily(next);
+    if (familyRebuild || linesInPlace) {
+      if (familyRebuild) this.openFamily(next);
+      else this.readLineKeys();
       for (const v of next.variants) if (oldKeys.get(v.id) !== this.lineKeys.get(v.id)) moved.add(v.id);
       if (!empty(lineDiff)) {
         // A line's designators, category, attrition or pinned supplier change its cost without changing how it
@@ -246,8 +253,10 @@ export class LiveFigures {
     }
     // The costed BOM names the variant by its code, which the costing workbook copied at open.
     if (variants.changed.some(([a, b]) => a.code !== b.code)) costingRebuild = true;
-    // A parameter edit moves only the edited variants' checks; a rebuilt family moves every variant's.
-    const checkVariants = familyRebuild ? undefined : variants.changed.map(([, v]) => v.id);
+    // A parameter edit moves only the edited variants' checks (lines edited in place, the lines of the variants that
+    // fit them); a rebuilt family moves every variant's.
+    const checkVariants = familyRebuild ? undefined : linesInPlace ? [...moved] : variants.changed.map(([, v]) => v.id);
+    if (linesInPlace && moved.size > 0) familyTouched = true;
 
     const edits: (() => Result<ChangedCost[]>)[] = [];
     if (!costingRebuild) {

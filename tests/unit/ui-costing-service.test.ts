@@ -1,14 +1,14 @@
 // The shared costing service keeps its live workbooks in step with the Book: after a price, rate, cost setting or
 // parameter edit (done in place) and after structural changes (rebuilt) it gives the same unit costs and check
 // statuses as workbooks opened afresh from the new Book, which is how the CLI computes them.
-import { describe, expect, it } from 'vitest';
+import { describe, expect, it, vi } from 'vitest';
 import type { Book } from '../../src/domain/book.ts';
 import { applyChange, bookDelta } from '../../src/domain/book-ops.ts';
 import type { BookChange } from '../../src/domain/book-ops.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { worstOf } from '../../src/domain/check-status.ts';
 import { CostingWorkbook, resolutionFromFamily } from '../../src/engine/costing.ts';
-import { evaluateChecks, resolveFamily } from '../../src/engine/family.ts';
+import { FamilyWorkbook, evaluateChecks, resolveFamily } from '../../src/engine/family.ts';
 import { addBuiltInChecks } from '../../src/engine/check-sheets.ts';
 import { loadBuiltInChecks } from '../../src/cli/check-sheets-fs.ts';
 import { costVariant } from '../../src/io/run-export.ts';
@@ -154,6 +154,38 @@ describe('CostingService', () => {
       const r = costing.sync();
       expect(r.kind).toBe('edited');
       expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+    }
+  });
+
+  it('takes a constant quantity, attrition, designators or category without laying the family table out again; a quantity formula lays it out', () => {
+    const { holder, costing } = start();
+    costing.sync();
+    const opened = vi.spyOn(FamilyWorkbook, 'open');
+    try {
+      const line = holder.book.buildLines.find((l) => /^\d+$/.test(l.qtyRule) && l.partId !== undefined)!;
+      const edits: Partial<typeof line>[] = [{ qtyRule: String(Number(line.qtyRule) + 3) }, { attrition: 0.07 }, { designators: 'R90–R99', category: 'hardware' }];
+      for (const edit of edits) {
+        const current = holder.book.buildLines.find((l) => l.id === line.id)!;
+        holder.change({ put: { buildLines: [{ ...current, ...edit }] } });
+        opened.mockClear();
+        expect(costing.sync().kind).toBe('edited');
+        expect(opened).not.toHaveBeenCalled();
+        expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+        const worst = freshWorst(holder.book);
+        for (const v of holder.book.variants) expect(costing.worstStatus(v.id)).toBe(worst.get(v.id));
+      }
+      // The lines each variant is built from are the Book's as it is now (what the Build and Runs pages show).
+      const want = resolveFamily(holder.book).variants.map((v) => v.lines);
+      expect(costing.resolution().variants.map((v) => v.lines)).toEqual(want);
+      // A quantity that becomes a formula is a cell of the table: the table is laid out again.
+      const current = holder.book.buildLines.find((l) => l.id === line.id)!;
+      holder.change({ put: { buildLines: [{ ...current, qtyRule: 'steps * 0 + 2' }] } });
+      opened.mockClear();
+      expect(costing.sync().kind).toBe('edited');
+      expect(opened).toHaveBeenCalledTimes(1);
+      expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+    } finally {
+      opened.mockRestore();
     }
   });
 
