@@ -61,6 +61,17 @@ export function quoteReference(quote: { source: string; date: string } | undefin
   return source === '' || source === 'manual' ? `quote of ${quote.date}` : `${source} of ${quote.date}`;
 }
 
+/**
+ * The quote an order line's price came from, as the Orders page shows it beside the line: the supplier's part number
+ * and the quote as the document names it (quoteReference), "—" for a price that came from no quote, or that the
+ * quote is no longer in the Book.
+ */
+export function quoteUsed(quoteId: string | undefined, line: Pick<OrderDocLine, 'supplierCode' | 'quoteRef'>): string {
+  if (quoteId === undefined) return '—';
+  if (line.quoteRef === '') return `quote ${quoteId}, no longer in the Book`;
+  return line.supplierCode ? `${line.supplierCode}, ${line.quoteRef}` : line.quoteRef;
+}
+
 /** The document for one supplier from lines, dates and the Book's records. */
 export function orderDocument(
   book: Book,

@@ -7,7 +7,7 @@ import type { Book, Order } from '../domain/book.ts';
 import type { BookChange } from '../domain/book-ops.ts';
 import { todayIso } from '../domain/dates.ts';
 import { grouped, money } from '../domain/format.ts';
-import { orderDocumentOf } from '../domain/order-doc.ts';
+import { orderDocumentOf, quoteUsed } from '../domain/order-doc.ts';
 import { cancelOrder, isOpen, outstanding, receive, receiveAll } from '../domain/orders.ts';
 import { DEFAULT_EXPORT_OPTIONS } from '../io/csv-write.ts';
 import type { ExportOptions } from '../io/csv-write.ts';
@@ -82,6 +82,8 @@ export class RbOrdersPage extends LitElement {
     const mpn = new Map(book.parts.map((p) => [p.id, p.mpn] as const));
     const active = isOpen(o);
     const msg = this.message?.orderId === o.id ? this.message : undefined;
+    // The quote each line's price came from, named as the order document names it.
+    const doc = orderDocumentOf(book, o).lines;
     return html`<div class="order" data-testid="order-detail" data-order=${o.number}>
       <h3>${o.number} — ${supplier}, ${statusText(o, this.date)}</h3>
       ${o.notes ? html`<p class="muted">${o.notes}</p>` : ''}
@@ -98,6 +100,7 @@ export class RbOrdersPage extends LitElement {
               <th class="num">unit price</th>
               <th>currency</th>
               <th class="num">line price</th>
+              <th>quote used</th>
               ${active ? html`<th class="num">receive now</th>` : ''}
             </tr>
           </thead>
@@ -113,6 +116,7 @@ export class RbOrdersPage extends LitElement {
                 <td class="num">${l.price}</td>
                 <td class="code">${l.currency}</td>
                 <td class="num">${money(Math.round(l.quantity * l.price * 100) / 100, 'total')}</td>
+                <td data-testid="quote-used">${quoteUsed(l.quoteId, doc[i]!)}</td>
                 ${active
                   ? html`<td class="num">
                       <input class="qty" inputmode="numeric" aria-label=${`receive on line ${i + 1}`} .value=${this.qty.get(key) ?? ''} @input=${(e: Event) => this.qty.set(key, (e.target as HTMLInputElement).value)} />

@@ -5,7 +5,7 @@ import Papa from 'papaparse';
 import { describe, expect, it } from 'vitest';
 import type { Book, Quote } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { orderDocumentOf, purchaseDocuments, suggestionDocuments } from '../../src/domain/order-doc.ts';
+import { orderDocumentOf, purchaseDocuments, quoteUsed, suggestionDocuments } from '../../src/domain/order-doc.ts';
 import type { OrderDocument } from '../../src/domain/order-doc.ts';
 import { placeOrder } from '../../src/domain/orders.ts';
 import { purchaseList } from '../../src/domain/purchase.ts';
@@ -92,6 +92,22 @@ describe('the order document a supplier receives', () => {
     }
     expect(totals![0]![0]).toBe('order total (USD)');
     expect(orderDocFileName(doc)).toBe(`${book.orders[0]!.number}-Kelvaro-Parts-Direct-order.csv`);
+  });
+
+  it('names on the Orders page the quote each line used, as the document does: their part number, source and date', () => {
+    const { book } = bookWithOrder();
+    const order = book.orders[0]!;
+    // One line priced by hand, one whose quote has since been removed.
+    const { quoteId: _q, ...byHand } = order.lines[0]!;
+    order.lines.push(byHand, { ...order.lines[1]!, quoteId: 'quote_removed' });
+    const doc = docOf(book);
+    const shown = order.lines.map((l, i) => quoteUsed(l.quoteId, doc.lines[i]!));
+    order.lines.slice(0, -2).forEach((l, i) => {
+      const q = book.quotes.find((x) => x.id === l.quoteId)!;
+      expect(shown[i]).toBe(`${q.supplierCode}, ${doc.lines[i]!.quoteRef}`);
+      expect(shown[i]).toContain(q.date);
+    });
+    expect(shown.slice(-2)).toEqual(['—', 'quote quote_removed, no longer in the Book']);
   });
 
   it('carries no internal column or value: no need, designators, base-currency figures, reasons, margins or run costs', () => {
