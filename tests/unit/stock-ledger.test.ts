@@ -160,29 +160,107 @@ describe('orders', () => {
     expect(receive(book, orderId, '2025-01-19', [{ line: 0, quantity: 1 }])).toEqual({ ok: false, error: expect.stringMatching(/cancelled/) });
   });
 
-  it('never loses or duplicates a unit: any sequence of receipts leaves each line received = its receipts ≤ ordered', () => {
+  it('never loses or duplicates a unit: orders of several lines received in several partial receipts keep each line received = its receipts ≤ ordered', () => {
+    const line = fc.record({ part: fc.integer({ min: 1, max: 3 }), qty: fc.integer({ min: 1, max: 300 }) });
+    // Mostly receipts that can be taken (a line of the order, part of what is to come), now and then one that cannot.
+    const receipt = fc.record({
+      line: fc.oneof({ arbitrary: fc.integer({ min: 0, max: 3 }), weight: 9 }, { arbitrary: fc.constantFrom(-1, 7), weight: 1 }),
+      quantity: fc.oneof({ arbitrary: fc.integer({ min: 1, max: 60 }), weight: 8 }, { arbitrary: fc.integer({ min: -5, max: 0 }), weight: 1 }, { arbitrary: fc.integer({ min: 301, max: 400 }), weight: 1 }),
+    });
+    const step = fc.record({ order: fc.integer({ min: 0, max: 2 }), receipts: fc.array(receipt, { minLength: 1, maxLength: 3 }), cancel: fc.integer({ min: 0, max: 19 }) });
+    /** Runs in which two or more receipts were taken while some line was still only partly in. */
+    let severalPartial = 0;
     fc.assert(
-      fc.property(fc.array(fc.record({ line: fc.integer({ min: 0, max: 2 }), quantity: fc.integer({ min: -5, max: 400 }) }), { maxLength: 12 }), (steps) => {
-        const placedOrder = placed();
-    let book = placedOrder.book;
-    const orderId = placedOrder.orderId;
-        let accepted = 0;
+      fc.property(fc.array(fc.array(line, { minLength: 2, maxLength: 4 }), { minLength: 1, maxLength: 3 }), fc.array(step, { minLength: 1, maxLength: 16 }), (orders, steps) => {
+        let book = book3();
+        const ids: string[] = [];
+        for (const lines of orders) {
+          const r = value(placeOrder(book, {
+            supplierId: 'sup_a',
+            orderedDate: '2025-01-10',
+            dueDate: '2025-01-20',
+            lines: lines.map((l) => ({ partId: `p${l.part}`, quantity: l.qty, price: 0.1, currency: 'EUR' })),
+          }));
+          book = apply(book, r.change);
+          ids.push(r.order.id);
+        }
+        // The model, kept apart from the domain: what each line has received, and which orders are cancelled.
+        const got = orders.map((lines) => lines.map(() => 0));
+        const cancelled = orders.map(() => false);
+        let partial = 0;
         for (const s of steps) {
-          const r = receive(book, orderId, '2025-01-15', [s]);
+          const k = s.order % orders.length;
+          const lines = orders[k]!;
+          if (s.cancel === 0 && !cancelled[k] && !got[k]!.every((n, i) => n >= lines[i]!.qty)) {
+            book = apply(book, value(cancelOrder(book, ids[k]!)));
+            cancelled[k] = true;
+            continue;
+          }
+          // A receipt is taken whole or not at all: every line in range, each quantity ≥ 1 and, added up per line,
+          // no more than is still to come, on an order neither cancelled nor received in full.
+          const next = [...got[k]!];
+          let fits = !cancelled[k] && !got[k]!.every((n, i) => n >= lines[i]!.qty);
+          for (const r of s.receipts) {
+            if (r.line < 0 || r.line >= lines.length || r.quantity < 1 || next[r.line]! + r.quantity > lines[r.line]!.qty) fits = false;
+            else next[r.line]! += r.quantity;
+          }
+          const before = book;
+          const r = receive(book, ids[k]!, '2025-01-15', s.receipts);
+          expect(r.ok).toBe(fits);
           if (r.ok) {
             book = apply(book, r.value);
-            accepted += s.quantity;
-          }
+            got[k] = next;
+            if (next.some((n, i) => n > 0 && n < lines[i]!.qty)) partial++;
+          } else expect(book).toBe(before);
         }
-        const order = book.orders[0]!;
-        const moved = book.stockMoves.filter((m) => m.orderId === orderId).reduce((n, m) => n + m.quantity, 0);
-        expect(moved).toBe(accepted);
-        expect(order.lines.reduce((n, l) => n + l.received, 0)).toBe(accepted);
-        for (const l of order.lines) expect(l.received).toBeLessThanOrEqual(l.quantity);
-        expect([...onHandByPart(book.stockMoves).values()].reduce((a, b) => a + b, 0)).toBe(accepted);
+        const perPart = new Map<string, number>();
+        orders.forEach((lines, k) => {
+          const order = book.orders.find((o) => o.id === ids[k])!;
+          const full = got[k]!.every((n, i) => n >= lines[i]!.qty);
+          expect(order.status).toBe(cancelled[k] ? 'cancelled' : full ? 'received' : got[k]!.some((n) => n > 0) ? 'part-received' : 'open');
+          lines.forEach((l, i) => {
+            const moved = book.stockMoves.filter((m) => m.orderId === ids[k] && m.orderLine === i);
+            expect(moved.every((m) => m.kind === 'received' && m.quantity > 0 && m.partId === `p${l.part}`)).toBe(true);
+            expect(moved.reduce((n, m) => n + m.quantity, 0)).toBe(got[k]![i]);
+            expect(order.lines[i]!.received).toBe(got[k]![i]);
+            expect(order.lines[i]!.received).toBeLessThanOrEqual(l.qty);
+            perPart.set(`p${l.part}`, (perPart.get(`p${l.part}`) ?? 0) + got[k]![i]!);
+          });
+        });
+        for (const p of ['p1', 'p2', 'p3']) expect(onHand(book.stockMoves, p)).toBe(perPart.get(p) ?? 0);
+        if (partial >= 2) severalPartial++;
       }),
-      { numRuns: 60 },
+      { numRuns: 80 },
     );
+    // The runs above do exercise several partial receipts, not only whole ones or refusals.
+    expect(severalPartial).toBeGreaterThan(20);
+  });
+
+  it('receives several lines in several partial receipts (by hand)', () => {
+    let book = book3();
+    const r = value(placeOrder(book, {
+      supplierId: 'sup_a',
+      orderedDate: '2025-01-10',
+      dueDate: '2025-01-20',
+      lines: [
+        { partId: 'p1', quantity: 100, price: 0.1, currency: 'EUR' },
+        { partId: 'p2', quantity: 50, price: 0.2, currency: 'EUR' },
+        { partId: 'p1', quantity: 30, price: 0.1, currency: 'EUR' },
+      ],
+    }));
+    book = apply(book, r.change);
+    const id = r.order.id;
+    book = apply(book, value(receive(book, id, '2025-01-12', [{ line: 0, quantity: 40 }, { line: 1, quantity: 10 }, { line: 0, quantity: 20 }])));
+    book = apply(book, value(receive(book, id, '2025-01-14', [{ line: 2, quantity: 30 }, { line: 1, quantity: 15 }])));
+    // Line 1 has 25 still to come: 26 refuses the whole receipt, the 40 on line 0 too.
+    expect(receive(book, id, '2025-01-15', [{ line: 0, quantity: 40 }, { line: 1, quantity: 26 }])).toEqual({ ok: false, error: expect.stringMatching(/line 2: 26 received is more than the 25 still to come/) });
+    expect(book.orders[0]!.lines.map((l) => l.received)).toEqual([60, 25, 30]);
+    expect(book.orders[0]!.status).toBe('part-received');
+    // p1: 40 + 20 + 30 = 90; p2: 10 + 15 = 25.
+    expect(Object.fromEntries(onHandByPart(book.stockMoves))).toEqual({ p1: 90, p2: 25 });
+    book = apply(book, value(receive(book, id, '2025-01-16', [{ line: 0, quantity: 40 }, { line: 1, quantity: 25 }])));
+    expect(book.orders[0]!.status).toBe('received');
+    expect(Object.fromEntries(onHandByPart(book.stockMoves))).toEqual({ p1: 130, p2: 50 });
   });
 });
 
@@ -281,19 +359,54 @@ describe('plans, as properties', () => {
     );
   });
 
-  it('gives on hand as the sum of movements, whatever movements are recorded', () => {
+  it('gives on hand as the sum of movements of every kind, signed as the ledger defines, as an independent fold does', () => {
+    type Kind = StockMove['kind'];
+    /** The signs each kind may carry: a receipt adds, an issue and scrap take away, a count or an adjustment either. */
+    const SIGNS: Record<Kind, readonly number[]> = { received: [1], issued: [-1], scrapped: [-1], counted: [1, -1], adjusted: [1, -1] };
+    const KINDS = Object.keys(SIGNS) as Kind[];
+    const stepOf = (kind: Kind) => fc.record({ kind: fc.constant(kind), part: fc.integer({ min: 1, max: 3 }), n: fc.integer({ min: 0, max: 500 }), down: fc.boolean(), day: fc.integer({ min: 1, max: 28 }) });
+    // Every kind at least once, then any mix, on dates in any order.
+    const steps = fc.tuple(fc.tuple(...KINDS.map(stepOf)), fc.array(fc.oneof(...KINDS.map(stepOf)), { maxLength: 25 })).map(([each, more]) => [...each, ...more]);
     fc.assert(
-      fc.property(fc.array(fc.record({ part: fc.integer({ min: 1, max: 3 }), q: fc.integer({ min: -500, max: 500 }).filter((x) => x !== 0), day: fc.integer({ min: 1, max: 28 }) }), { maxLength: 30 }), (moves) => {
+      fc.property(steps, (list) => {
         let b = book3();
-        for (const m of moves) {
-          const r = recordMove(b, { partId: `p${m.part}`, date: `2025-02-${String(m.day).padStart(2, '0')}`, quantity: m.q, kind: 'adjusted' });
-          b = apply(b, value(r));
+        // Receipts come through an order: one line per part, more than can ever be received.
+        const placedOrder = value(placeOrder(b, {
+          supplierId: 'sup_a',
+          orderedDate: '2025-01-01',
+          dueDate: '2025-01-31',
+          lines: ['p1', 'p2', 'p3'].map((partId) => ({ partId, quantity: 100_000, price: 0.1, currency: 'EUR' })),
+        }));
+        b = apply(b, placedOrder.change);
+        /** The ledger as this test keeps it: part, date, kind and signed quantity of each movement, in order. */
+        const ledger: { partId: string; date: string; kind: Kind; q: number }[] = [];
+        const fold = (partId: string, asOf?: string): number => ledger.reduce((n, e) => (e.partId === partId && (asOf === undefined || e.date <= asOf) ? n + e.q : n), 0);
+        for (const s of list) {
+          const partId = `p${s.part}`;
+          const date = `2025-02-${String(s.day).padStart(2, '0')}`;
+          const n = Math.max(1, s.n);
+          if (s.kind === 'received') {
+            b = apply(b, value(receive(b, placedOrder.order.id, date, [{ line: s.part - 1, quantity: n }])));
+            ledger.push({ partId, date, kind: 'received', q: n });
+          } else if (s.kind === 'counted') {
+            // n parts found on the shelf that day: the count writes what the fold lacks, or nothing when it agrees.
+            const difference = s.n - fold(partId, date);
+            b = apply(b, value(stockCount(b, date, [{ partId, counted: s.n }])).change);
+            if (difference !== 0) ledger.push({ partId, date, kind: 'counted', q: difference });
+          } else {
+            const q = s.kind === 'adjusted' && !s.down ? n : -n;
+            b = apply(b, value(recordMove(b, { partId, date, quantity: q, kind: s.kind, reason: s.kind })));
+            ledger.push({ partId, date, kind: s.kind, q });
+          }
         }
+        expect(b.stockMoves.map((m) => ({ partId: m.partId, date: m.date, kind: m.kind, q: m.quantity }))).toEqual(ledger);
+        for (const m of b.stockMoves) expect(SIGNS[m.kind]).toContain(Math.sign(m.quantity));
+        const byPart = onHandByPart(b.stockMoves);
         for (const p of ['p1', 'p2', 'p3']) {
-          const sum = moves.filter((m) => `p${m.part}` === p).reduce((n, m) => n + m.q, 0);
-          expect(onHand(b.stockMoves, p)).toBe(sum);
-          expect(onHandByPart(b.stockMoves).get(p) ?? 0).toBe(sum);
-          expect(partHistory(b.stockMoves, p).at(-1)?.balance ?? 0).toBe(sum);
+          expect(onHand(b.stockMoves, p)).toBe(fold(p));
+          expect(byPart.get(p) ?? 0).toBe(fold(p));
+          expect(partHistory(b.stockMoves, p).at(-1)?.balance ?? 0).toBe(fold(p));
+          for (const day of ['2025-02-01', '2025-02-10', '2025-02-20', '2025-02-28']) expect(onHand(b.stockMoves, p, day)).toBe(fold(p, day));
         }
       }),
       { numRuns: 60 },
