@@ -134,8 +134,9 @@ describe('an edit made in another tab', () => {
     expect(b.book).toBe(before);
     expect(b.book.suppliers.find((s) => s.id === supplier.id)?.notes).toBe(supplier.notes);
     expect(b.lastRemoteChange).toBeUndefined();
-    // A whole read names the same place and clears the notice only once the Book reads again.
+    // A whole read names the same place; the notice stays while the Book does not read.
     await expect(b.reload()).rejects.toThrow(/parts\[\d+\]\.kind: must be one of/);
+    expect(b.remoteRefused).toContain('parts record "part_bad".kind');
   });
 
   it('reads the whole Book when the other tab replaced it, and only then', async () => {
