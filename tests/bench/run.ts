@@ -1,6 +1,7 @@
-// `npm run bench [-- --quick]`: measures what users wait for and prints a readable table, then ONE JSON object on the
+// `npm run bench [-- --quick] [--only NAME]`: measures what users wait for and prints a readable table, then ONE JSON object on the
 // last line of stdout (figures, Node and browser side by side, machine, versions, targets met). It never fails the
-// build: timings are information, and a section that fails is reported in the output instead.
+// build: timings are information, and a section that fails is reported in the output instead. `--only NAME` runs the
+// sections whose name starts with NAME (e.g. `--only team`).
 import { BENCH_SECTIONS } from './sections.ts';
 import { PAIRS, TARGETS, machine, targetsMet, versions, withHeadlines } from './harness.ts';
 import { oneLine } from './stats.ts';
@@ -27,12 +28,16 @@ function metWord(s: Side): string {
 
 async function main(): Promise<void> {
   const quick = process.argv.includes('--quick');
+  const onlyAt = process.argv.indexOf('--only');
+  const only = onlyAt >= 0 ? process.argv[onlyAt + 1] : undefined;
+  const sections = only === undefined ? BENCH_SECTIONS : BENCH_SECTIONS.filter((s) => s.name.startsWith(only));
+  if (sections.length === 0) throw new Error(`--only ${only ?? ''}: no section's name starts with that (${BENCH_SECTIONS.map((s) => s.name).join(', ')})`);
   const log = (text: string): void => void process.stderr.write(`bench: ${text}\n`);
   const raw: Figures = {};
   const errors: Record<string, string> = {};
   const started = Date.now();
   const machineAtStart = machine();
-  for (const section of BENCH_SECTIONS) {
+  for (const section of sections) {
     try {
       Object.assign(raw, await section.run({ quick, log }));
     } catch (e) {
@@ -48,14 +53,14 @@ async function main(): Promise<void> {
   const rows = PAIRS.map((p) => {
     const max = TARGETS.find((t) => t.figure === p.name)?.max;
     return { name: p.name, max, node: side(figures, p.node, max), browser: side(figures, p.browser, max) };
-  });
+  }).filter((r) => only === undefined || r.node.value !== undefined || r.browser.value !== undefined);
   const head = ['figure', 'Node', 'Chromium', 'target', 'Node', 'Chromium'];
   const body = rows.map((r) => [r.name, shown(r.node), shown(r.browser), r.max === undefined ? '' : `≤ ${r.max}`, metWord(r.node), metWord(r.browser)]);
   const widths = head.map((h, i) => Math.max(h.length, ...body.map((b) => b[i]!.length)));
   const line = (cells: string[]): string => cells.map((c, i) => (i === 0 ? c.padEnd(widths[i]!) : c.padStart(widths[i]!))).join('  ').trimEnd();
 
   const lines: string[] = [
-    `Rungbook benchmark${quick ? ' (quick)' : ''}, ${date.toISOString().slice(0, 10)}: ${m['cpus']} × ${m['cpu_model']}, load average ${machineAtStart['load_avg_1m']} at start, ${m['load_avg_1m']} at end`,
+    `Rungbook benchmark${quick ? ' (quick)' : ''}${only === undefined ? '' : ` (only ${only})`}, ${date.toISOString().slice(0, 10)}: ${m['cpus']} × ${m['cpu_model']}, load average ${machineAtStart['load_avg_1m']} at start, ${m['load_avg_1m']} at end`,
     '',
     line(head),
     ...body.map(line),
@@ -70,6 +75,7 @@ async function main(): Promise<void> {
 
   const result = {
     quick,
+    only: only ?? null,
     date: date.toISOString(),
     seconds: Math.round((Date.now() - started) / 100) / 10,
     figures,

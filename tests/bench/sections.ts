@@ -1,5 +1,5 @@
 // The benchmark's sections, run in this order. Add a section here to add its figures to `npm run bench`.
-// The browser section reuses the app the bundle section built.
+// The browser and team sections reuse the app the bundle section built.
 import type { BenchSection } from './harness.ts';
 import { costingSection } from './costing.ts';
 import { importSection } from './import.ts';
@@ -8,5 +8,6 @@ import { checksSection } from './checks.ts';
 import { bundleSection } from './bundle.ts';
 import { browserSection } from './browser.ts';
 import { planningSection } from './planning.ts';
+import { teamSection } from './team.ts';
 
-export const BENCH_SECTIONS: BenchSection[] = [costingSection, planningSection, checksSection, importSection, bookFileSection, bundleSection, browserSection];
+export const BENCH_SECTIONS: BenchSection[] = [costingSection, planningSection, checksSection, importSection, bookFileSection, bundleSection, browserSection, teamSection];
