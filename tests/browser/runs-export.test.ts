@@ -9,6 +9,7 @@ import { demoBook } from '../../src/domain/demo-book.ts';
 import { toCents } from '../../src/domain/costing.ts';
 import { purchaseList } from '../../src/domain/purchase.ts';
 import { money } from '../../src/domain/format.ts';
+import { MAINS_CAUTION } from '../../src/domain/mains-caution.ts';
 import { costedBomCsv, costedTotalLabels, exportBytes, purchaseListCsv, runCosting } from '../../src/io/run-export.ts';
 import type { ExportOptions, RunCosting } from '../../src/io/run-export.ts';
 import { AppUnderTest } from './harness.ts';
@@ -53,9 +54,10 @@ describe('runs, exports and the run sheet in the browser', () => {
     const plain = await downloadBytes(page, 'Download costed BOM CSV');
     expect(plain.name).toBe(`${variant.code}-${run.quantity}-costed-bom.csv`);
     expect(plain.bytes.equals(Buffer.from(exportBytes(value(costedBomCsv(costing, undefined, { run: run.name })))))).toBe(true);
-    // The table block: after the head (the file, the run, the freeze, the rates) and its empty record.
+    // The table block: after the head (the file, the mains caution, the run, the freeze, the rates) and its empty record.
     const rows = Papa.parse<string[]>(plain.bytes.toString('utf8'), { newline: '\r\n', skipEmptyLines: 'greedy' }).data.filter((r) => r.some((c) => c !== ''));
-    expect(rows[1]!.slice(0, 2)).toEqual(['run', run.name]);
+    expect(rows[1]!.slice(0, 2)).toEqual(['mains caution', MAINS_CAUTION]);
+    expect(rows[2]!.slice(0, 2)).toEqual(['run', run.name]);
     rows.splice(0, rows.findIndex((r) => r[0] === 'designators'));
     const head = rows[0]!;
     costing.bom.lines.forEach((l, i) => {
