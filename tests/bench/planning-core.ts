@@ -1,17 +1,23 @@
 // The planning measurement of the benchmark: 20 planned runs over the reference family (200 variants × 80 lines),
 // with stock on hand and an open order for every part, planned by the domain's planRuns, against a plain
-// TypeScript loop doing the same netting (needs per run, date order, stock then orders in time, buy quantity).
+// TypeScript loop doing the same netting (needs per run, date order, stock then orders in time, buy quantity);
+// and the whole path the app and `rungbook plan` take (planBook: prepareCosting, resolveFamily, then planRuns).
+// A plan whose net need disagrees with the plain loop's stops the bench: its times would measure a wrong plan.
 import { REFERENCE_FAMILY, referenceFamily } from '../fixtures/reference-family.ts';
 import type { Book, Order, Run, StockMove } from '../../src/domain/book.ts';
 import { buyQtyUnchecked, needQtyUnchecked, prepareCosting } from '../../src/domain/costing.ts';
 import type { CostingContext, ResolvedLine } from '../../src/domain/costing.ts';
 import { planRuns } from '../../src/domain/planning.ts';
+import { resolveFamily } from '../../src/engine/family.ts';
+import { planBook } from '../../src/io/plan-export.ts';
 import { median, round, timeMs } from './stats.ts';
 import type { Figures } from './stats.ts';
 
 const RUNS = 20;
 /** Untimed runs of each before timing, so both are measured as warm code. */
 const WARM_UP = 150;
+/** The whole path resolves the family every time (hundreds of ms), so it is warmed and timed fewer times. */
+const FULL_WARM_UP = 3;
 const TODAY = '2025-06-02';
 
 function day(n: number): string {
@@ -96,6 +102,11 @@ export function plainNetting(book: Book, ctx: CostingContext, lines: Map<string,
   return total;
 }
 
+/** Stops the bench when two ways of planning disagree on the net need: the times would be of a wrong plan. */
+export function netAgrees(what: string, net: number, other: string, otherNet: number): void {
+  if (net !== otherNet) throw new Error(`planning: ${what} net need ${net} is not ${other} ${otherNet}; no planning figure is reported`);
+}
+
 export function measurePlanning({ quick, log }: { quick: boolean; log(text: string): void }): Figures {
   const f: Figures = {};
   const { book, lines } = planningBook();
@@ -132,5 +143,27 @@ export function measurePlanning({ quick, log }: { quick: boolean; log(text: stri
   f['plan_vs_plain'] = round(f['plan_ms'] / Math.max(0.01, f['plan_plain_ms']), 1);
   f['plan_net_parts'] = netPlan;
   f['plan_net_agrees'] = netPlain === netPlan;
+  netAgrees("the plan's", netPlan, "the plain loop's", netPlain);
+
+  // The app's real path: the Book as it is, costing prepared and the family resolved on each plan (planBook).
+  log('planning: the whole path (planBook)');
+  const full = (): number => {
+    const p = planBook(book, { today: TODAY });
+    if (!p.ok) throw new Error(p.error);
+    return p.value.parts.reduce((n, x) => n + x.net, 0);
+  };
+  let netFull = 0;
+  f['plan_full_cold_ms'] = round(timeMs(() => (netFull = full())));
+  for (let i = 0; i < FULL_WARM_UP; i++) full();
+  const fullTimes: number[] = [];
+  const resolves: number[] = [];
+  for (let i = 0; i < (quick ? 3 : 7); i++) {
+    fullTimes.push(timeMs(() => (netFull = full())));
+    resolves.push(timeMs(() => resolveFamily(book)));
+  }
+  f['plan_full_ms'] = round(median(fullTimes), 2);
+  f['plan_full_resolve_ms'] = round(median(resolves), 2);
+  f['plan_full_net_agrees'] = netFull === netPlan;
+  netAgrees("the whole path's", netFull, "the plan's from the same lines", netPlan);
   return f;
 }

@@ -7,7 +7,8 @@ import { createHash } from 'node:crypto';
 import { gunzipSync, gzipSync } from 'node:zlib';
 import { afterEach, describe, expect, it } from 'vitest';
 import { samplePriceFile } from '../fixtures/price-sample.ts';
-import { TARGETS, targetsMet, withHeadlines } from '../bench/harness.ts';
+import { PAIRS, TARGETS, targetsMet, withHeadlines } from '../bench/harness.ts';
+import { netAgrees } from '../bench/planning-core.ts';
 import { builtAssets, bundleFigures } from '../bench/bundle.ts';
 import { IMPORT_SAMPLE } from '../bench/import.ts';
 import { median } from '../bench/stats.ts';
@@ -55,6 +56,14 @@ describe('benchmark headline figures', () => {
     expect(targetsMet({})['open_ms']).toBeNull();
     expect(targetsMet({ open_ms: Number.NaN })['open_ms']).toBeNull();
     expect(targetsMet({ open_ms: 'fast' })['open_ms']).toBeNull();
+  });
+
+  it('holds the whole planning path to the plan target, and stops on a plan whose net need disagrees', () => {
+    const plan = TARGETS.find((t) => t.figure === 'plan_ms')!;
+    for (const figure of ['plan_full_ms', 'browser_plan_full_ms']) expect(TARGETS.find((t) => t.figure === figure)?.max).toBe(plan.max);
+    expect(PAIRS.find((p) => p.name === 'plan_full_ms')).toEqual({ name: 'plan_full_ms', node: 'plan_full_ms', browser: 'browser_plan_full_ms' });
+    expect(() => netAgrees("the plan's", 1200, "the plain loop's", 1201)).toThrow(/net need 1200 is not the plain loop's 1201/);
+    expect(() => netAgrees("the plan's", 1200, "the plain loop's", 1200)).not.toThrow();
   });
 
   it('takes the median of odd and even counts', () => {
