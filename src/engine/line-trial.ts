@@ -54,6 +54,49 @@ export function lineOutcomes(book: Book, family: FamilyResolution, only?: Readon
   return out;
 }
 
+/** How one line stands across the family, as the Build page's line list shows it. */
+export interface LineSummary {
+  /** Variants the line was tried on. */
+  variants: number;
+  /** Variants the line is fitted on without a problem. */
+  applying: number;
+  /** Codes of the variants whose rules fail for the line, in the resolution's order. */
+  failing: string[];
+  /** The first failing variant's problems, joined by "; ". */
+  problem?: string;
+}
+
+/**
+ * Each line's summary read from a family resolution: the counts and failures `lineOutcomes` would give, without an
+ * outcome record per line and variant (80 lines × 200 variants is 16,000 records, drawn again at every Book change).
+ */
+export function lineSummaries(book: Book, family: FamilyResolution): Map<string, LineSummary> {
+  const out = new Map<string, LineSummary>();
+  for (const l of book.buildLines) out.set(l.id, { variants: family.variants.length, applying: 0, failing: [] });
+  for (const v of family.variants) {
+    let problems: Map<string, string[]> | undefined;
+    for (const p of v.problems) {
+      if (!out.has(p.lineId)) continue;
+      problems ??= new Map();
+      const list = problems.get(p.lineId) ?? [];
+      list.push(p.message);
+      problems.set(p.lineId, list);
+    }
+    // The last resolved entry of a line counts, as in lineOutcomes.
+    const applies = new Map<string, boolean>();
+    for (const l of v.lines) if (out.has(l.lineId)) applies.set(l.lineId, l.applies);
+    for (const [lineId, on] of applies) if (on && !problems?.has(lineId)) out.get(lineId)!.applying += 1;
+    if (problems) {
+      for (const [lineId, list] of problems) {
+        const s = out.get(lineId)!;
+        s.failing.push(v.variantCode);
+        s.problem ??= list.join('; ');
+      }
+    }
+  }
+  return out;
+}
+
 /** Tries a line (new or edited) on every variant of the Book. */
 export function trialOutcomes(book: Book, line: BuildLine): LineOutcome[] {
   const trial = withLine(book, line);

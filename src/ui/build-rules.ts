@@ -183,8 +183,8 @@ export function validateBuildLine(
   return { ok: true, record };
 }
 
-export { lineOutcomes, withLine } from '../engine/line-trial.ts';
-export type { LineOutcome } from '../engine/line-trial.ts';
+export { lineOutcomes, lineSummaries, withLine } from '../engine/line-trial.ts';
+export type { LineOutcome, LineSummary } from '../engine/line-trial.ts';
 
 /** The field a resolver message belongs beside, read from its opening words. */
 export function problemField(message: string): keyof BuildLineDraft {

@@ -12,9 +12,9 @@ import { BookController } from './book-context.ts';
 import { CostingService } from './costing-service.ts';
 import { field, fieldId, focusFirstProblem, formulaField, nothingSaved } from './form-fields.ts';
 import type { FieldProblems } from './record-forms.ts';
-import { alternateProblem, buildLineDraft, findPart, lineOutcomes, moveLine, orderedLines, trialProblems, validateBuildLine } from './build-rules.ts';
+import { alternateProblem, buildLineDraft, findPart, lineSummaries, moveLine, orderedLines, trialProblems, validateBuildLine } from './build-rules.ts';
 import { approvedParts } from '../domain/alternates.ts';
-import type { BuildLineDraft, LineOutcome } from './build-rules.ts';
+import type { BuildLineDraft, LineOutcome, LineSummary } from './build-rules.ts';
 import type { NoticeDetail } from './rb-book-menu.ts';
 import type { NameHint } from './rb-formula-input.ts';
 import { pageStyles, previewStyles, toolbarSearchStyles } from './styles.ts';
@@ -168,8 +168,10 @@ export class RbBuildPage extends LitElement {
   private readonly drawnLines = new ProgressiveRows(this);
   private readonly drawnBom = new ProgressiveRows(this);
   private family: FamilyResolution | undefined;
-  /** Each line's outcome for every variant, worked out once per Book and resolution. */
-  private outcomes = new Map<string, LineOutcome[]>();
+  /** Each line's standing across the variants, worked out once per Book and resolution. */
+  private summaries = new Map<string, LineSummary>();
+  /** The Book's parts by id, kept while the parts are the same. */
+  private partsById: { of: Book['parts']; map: Map<string, Book['parts'][number]> } | undefined;
   private familyBook: Book | undefined;
   /** The figures' version the resolved lines were read at (they arrive from the worker after the Book changes). */
   private familyVersion = -1;
@@ -208,7 +210,7 @@ export class RbBuildPage extends LitElement {
     if (book === this.familyBook && costing.version === this.familyVersion) return;
     // The shared service keeps the family resolved as the Book changes; the Family and Compare pages read the same.
     this.family = costing.resolution();
-    this.outcomes = lineOutcomes(book, this.family);
+    this.summaries = lineSummaries(book, this.family);
     this.familyVersion = costing.version;
     this.familyBook = book;
     this.names = ruleNames(book);
@@ -225,9 +227,14 @@ export class RbBuildPage extends LitElement {
   // -------------------------------------------------------------------------------------------------------------
   // The lines
 
+  private parts(book: Book): Map<string, Book['parts'][number]> {
+    if (this.partsById?.of !== book.parts) this.partsById = { of: book.parts, map: new Map(book.parts.map((p) => [p.id, p] as const)) };
+    return this.partsById.map;
+  }
+
   private renderLines(book: Book, family: FamilyResolution): TemplateResult {
     const f = this.filter.trim().toLowerCase();
-    const parts = new Map(book.parts.map((p) => [p.id, p] as const));
+    const parts = this.parts(book);
     const all = orderedLines(book);
     const lines = f
       ? all.filter((l) =>
@@ -237,6 +244,7 @@ export class RbBuildPage extends LitElement {
         )
       : all;
     const failing = new Set(family.problems.map((p) => p.lineId));
+    const index = new Map(all.map((l, i) => [l.id, i] as const));
     return html`<section class="sheet" aria-labelledby="lines-h">
       <h2 id="lines-h">Build lines of the family</h2>
       <p class="why">
@@ -273,19 +281,20 @@ export class RbBuildPage extends LitElement {
                 </tr>
               </thead>
               <tbody>
-                ${this.drawnLines.take(lines).map((l) => this.renderLine(book, l, all.indexOf(l), all.length))}
+                ${this.drawnLines.take(lines).map((l) => this.renderLine(book, parts, l, index.get(l.id)!, all.length))}
               </tbody>
             </table>
           </div>`}
     </section>`;
   }
 
-  private renderLine(book: Book, l: BuildLine, index: number, count: number): TemplateResult {
-    const part = l.partId ? book.parts.find((p) => p.id === l.partId) : undefined;
+  private renderLine(book: Book, parts: ReadonlyMap<string, Book['parts'][number]>, l: BuildLine, index: number, count: number): TemplateResult {
+    const part = l.partId ? parts.get(l.partId) : undefined;
     const pin = l.pinnedSupplierId ? book.suppliers.find((s) => s.id === l.pinnedSupplierId) : undefined;
-    const outcomes = this.outcomes.get(l.id) ?? [];
-    const bad = outcomes.filter((o) => o.problem !== undefined);
-    const applying = outcomes.filter((o) => o.applies && o.problem === undefined).length;
+    const summary = this.summaries.get(l.id);
+    const bad = summary?.failing ?? [];
+    const applying = summary?.applying ?? 0;
+    const tried = summary?.variants ?? 0;
     const confirming = this.confirmDelete === l.id;
     const rowProblem = this.rowProblem?.id === l.id ? this.rowProblem.message : undefined;
     const defaultAttrition = part ? (book.settings.attrition[part.kind] ?? book.settings.attrition['default']) : book.settings.attrition['default'];
@@ -311,8 +320,8 @@ export class RbBuildPage extends LitElement {
       </td>
       <td class="status" data-testid="line-status">
         ${bad.length
-          ? html`<span class="bad">fails for ${bad.map((o) => o.variantCode).join(', ')}: ${bad[0]!.problem}</span>`
-          : html`<span class="ok" title="fitted on ${applying} of ${outcomes.length} variants">${applying} of ${outcomes.length}</span>`}
+          ? html`<span class="bad">fails for ${bad.join(', ')}: ${summary!.problem}</span>`
+          : html`<span class="ok" title="fitted on ${applying} of ${tried} variants">${applying} of ${tried}</span>`}
       </td>
       <td class="acts">
         ${confirming
@@ -671,7 +680,7 @@ export class RbBuildPage extends LitElement {
   private renderBom(book: Book, family: FamilyResolution): TemplateResult {
     const variant = book.variants.find((v) => v.id === this.bomVariant);
     const resolved = family.variants.find((v) => v.variantId === this.bomVariant);
-    const parts = new Map(book.parts.map((p) => [p.id, p] as const));
+    const parts = this.parts(book);
     const lines = new Map(book.buildLines.map((l) => [l.id, l] as const));
     const rows = (resolved?.lines ?? []).map((r) => ({
       r,

@@ -1,8 +1,9 @@
 // The pure draft rules behind the Build page's form: attrition typed in percent, the part kept by its part number,
-// the fields a build line needs, and moving lines up. (The page itself is driven in tests/browser/build-lines.test.ts.)
+// the fields a build line needs, moving lines up, and each line's summary across the variants. (The page itself is driven in tests/browser/build-lines.test.ts.)
 import { describe, expect, it } from 'vitest';
 import { demoBook } from '../../src/domain/demo-book.ts';
-import { buildLineDraft, moveLine, orderedLines, validateBuildLine } from '../../src/ui/build-rules.ts';
+import { resolveFamily } from '../../src/engine/family.ts';
+import { buildLineDraft, lineOutcomes, lineSummaries, moveLine, orderedLines, validateBuildLine } from '../../src/ui/build-rules.ts';
 
 const demo = demoBook();
 
@@ -34,5 +35,30 @@ describe('build-line drafts', () => {
     expect(moved.map((l) => l.id).sort()).toEqual([lines[0]!.id, lines[1]!.id].sort());
     const pos = new Map(moved.map((l) => [l.id, l.position] as const));
     expect(pos.get(lines[1]!.id)!).toBeLessThan(pos.get(lines[0]!.id)!);
+  });
+});
+
+describe('line summaries', () => {
+  it('give the counts and failures the per-variant outcomes give, for lines that resolve and a line that fails for some variants', () => {
+    const first = orderedLines(demo)[0]!;
+    const failing = { ...first, id: 'line_fails', qtyRule: 'IF(steps > 3, nope, 1)', position: 9999 };
+    const book = { ...demo, buildLines: [...demo.buildLines, failing] };
+    const family = resolveFamily(book);
+    const outcomes = lineOutcomes(book, family);
+    const summaries = lineSummaries(book, family);
+    expect([...summaries.keys()].sort()).toEqual(book.buildLines.map((l) => l.id).sort());
+    for (const [id, list] of outcomes) {
+      const bad = list.filter((o) => o.problem !== undefined);
+      expect(summaries.get(id), id).toEqual({
+        variants: list.length,
+        applying: list.filter((o) => o.applies && o.problem === undefined).length,
+        failing: bad.map((o) => o.variantCode),
+        ...(bad.length ? { problem: bad[0]!.problem } : {}),
+      });
+    }
+    const s = summaries.get('line_fails')!;
+    expect(s.failing.length).toBeGreaterThan(0);
+    expect(s.failing.length).toBeLessThan(demo.variants.length);
+    expect(s.problem).toMatch(/nope/i);
   });
 });
