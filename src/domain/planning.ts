@@ -172,7 +172,10 @@ export function planRuns(book: Book, ctx: CostingContext, lines: RunLines, optio
   const lag = s.kittingDays + s.safetyDays;
   const variants = new Map(book.variants.map((v) => [v.id, v] as const));
 
-  const planned = book.runs.filter((r) => r.status !== 'built').sort((a, b) => (a.dateWanted < b.dateWanted ? -1 : a.dateWanted > b.dateWanted ? 1 : a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
+  const planned = plannedRuns(book.runs);
+  const have = onHandByPart(book.stockMoves);
+  /** Stock not yet taken by the runs before: a part in it covering a run's need can be had in time. */
+  const left = new Map(have);
   const runs: RunPlan[] = [];
   /** Per part: the needs in run-date order with their runs, and a supplier every one of its lines is pinned to (if one). */
   const byPart = new Map<string, { gross: GrossNeed[]; of: RunPlan[]; pin: string | undefined | null }>();
@@ -193,7 +196,7 @@ export function planRuns(book: Book, ctx: CostingContext, lines: RunLines, optio
       rp.problems.push({ message: `the run's variant ${run.variantId} is not in the Book` });
       continue;
     }
-    const { demands, problems } = runPlanDemands(ctx, s, lines.get(run.variantId) ?? [], run);
+    const { demands, problems } = runPlanDemands(ctx, s, lines.get(run.variantId) ?? [], run, left);
     rp.problems.push(...problems);
     for (const d of demands) {
       let p = byPart.get(d.partId);
@@ -212,7 +215,6 @@ export function planRuns(book: Book, ctx: CostingContext, lines: RunLines, optio
     }
   }
 
-  const have = onHandByPart(book.stockMoves);
   const receiptsOf = new Map<string, ScheduledReceipt[]>();
   for (const o of book.orders) {
     if (!isOpen(o)) continue;
@@ -351,17 +353,30 @@ export function runNeedDate(settings: Pick<Settings, 'kittingDays' | 'safetyDays
   return shiftDays(-1, run.dateWanted, settings.kittingDays + settings.safetyDays)!;
 }
 
+/** The runs not built, in the order the plan takes them: by date wanted, then id. */
+export function plannedRuns(runs: readonly Run[]): Run[] {
+  return runs.filter((r) => r.status !== 'built').sort((a, b) => (a.dateWanted < b.dateWanted ? -1 : a.dateWanted > b.dateWanted ? 1 : a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
+}
+
 /**
- * A run's needs as the plan takes them, and as marking the run built issues them: a line with approved alternates
- * buys the part that can be had by the run's need date (domain/costing.ts), so both choose the same part.
+ * A run's needs as the plan takes them, and as marking the run built issues them, so both choose the same part: a
+ * line with approved alternates buys the part that can be had by the run's need date — a quote in time, or stock
+ * covering the need (domain/costing.ts). `stock` is the stock on hand the runs before this one (in plan order) left,
+ * per part id; the run's needs are taken from it.
  */
 export function runPlanDemands(
   ctx: CostingContext,
   settings: Pick<Settings, 'kittingDays' | 'safetyDays'>,
   lines: readonly ResolvedLine[],
   run: Pick<Run, 'dateWanted' | 'quantity'>,
+  stock: Map<string, number>,
 ): ReturnType<typeof runDemands> {
-  return runDemands(ctx, lines, run.quantity, { dateWanted: runNeedDate(settings, run) });
+  const out = runDemands(ctx, lines, run.quantity, { dateWanted: runNeedDate(settings, run), onHand: stock });
+  for (const d of out.demands) {
+    const h = stock.get(d.partId);
+    if (h !== undefined) stock.set(d.partId, Math.max(0, h - d.need));
+  }
+  return out;
 }
 
 /** Date arithmetic of a plan, remembered: a plan shifts the same few dates by the same few lead times many times. */

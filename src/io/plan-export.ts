@@ -3,7 +3,8 @@
 import type { Book, Run } from '../domain/book.ts';
 import { prepareCosting } from '../domain/costing.ts';
 import type { Result } from '../domain/costing.ts';
-import { planRuns, runPlanDemands } from '../domain/planning.ts';
+import { plannedRuns, planRuns, runPlanDemands } from '../domain/planning.ts';
+import { onHandByPart } from '../domain/stock.ts';
 import type { Limiting, Plan, PlanOptions } from '../domain/planning.ts';
 import { resolutionFromFamily } from '../engine/costing.ts';
 import { resolveFamily } from '../engine/family.ts';
@@ -22,16 +23,23 @@ export function planBook(book: Book, options: PlanOptions): Result<Plan> {
 }
 
 /**
- * What building a run takes from stock: its need per part id, by the costing's rule and the plan's choice among
- * approved alternates (runPlanDemands, as planRuns takes it). Lines that fail give an error.
+ * What building a run takes from stock: its need per part id, as the plan gives it (runPlanDemands): by the
+ * costing's rule, and among approved alternates the part the plan chose at the run's need date with the stock the
+ * planned runs before it leave. Lines that fail give an error.
  */
 export function runNeeds(book: Book, run: Run, today: string): Result<Map<string, number>> {
   const ctx = prepareCosting(book, { date: today });
   if (!ctx.ok) return ctx;
-  const variant = book.variants.find((v) => v.id === run.variantId);
-  if (!variant) return { ok: false, error: `the run's variant ${run.variantId} is not in the Book` };
-  const lines = resolveFamily({ ...book, variants: [variant] }).variants[0]?.lines ?? [];
-  const { demands, problems } = runPlanDemands(ctx.value, book.settings, lines, run);
+  if (!book.variants.some((v) => v.id === run.variantId)) return { ok: false, error: `the run's variant ${run.variantId} is not in the Book` };
+  // The planned runs up to this one, in plan order: those before it take their stock first.
+  const order = plannedRuns([...book.runs.filter((r) => r.id !== run.id), { ...run, status: 'planned' }]);
+  const upTo = order.slice(0, order.findIndex((r) => r.id === run.id) + 1);
+  const wanted = new Set(upTo.map((r) => r.variantId));
+  const lines = resolutionFromFamily(resolveFamily({ ...book, variants: book.variants.filter((v) => wanted.has(v.id)) }));
+  const stock = onHandByPart(book.stockMoves);
+  let last: ReturnType<typeof runPlanDemands> = { demands: [], problems: [] };
+  for (const r of upTo) if (lines.has(r.variantId)) last = runPlanDemands(ctx.value, book.settings, lines.get(r.variantId) ?? [], r, stock);
+  const { demands, problems } = last;
   if (problems.length) return { ok: false, error: `${problems[0]!.designators || problems[0]!.lineId || 'a line'}: ${problems[0]!.message}` };
   const needs = new Map<string, number>();
   for (const d of demands) needs.set(d.partId, (needs.get(d.partId) ?? 0) + d.need);

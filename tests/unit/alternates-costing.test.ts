@@ -138,28 +138,40 @@ describe('costing chooses among approved parts', () => {
     expect(rows.find((r) => r[0] === 'R1')![head.indexOf('part_choice')]).toBe(PART_CHOICE.single);
   });
 
-  it('marking a run built issues the approved part the plan allocated to it, chosen by the same need date', () => {
+  it('marking a run built issues the approved part the plan allocated to it: the same need date, the same stock', () => {
     // Wanted 2025-06-15 less 5 kitting and 2 safety days: parts in by 2025-06-08. Planned on 2025-06-01 only the
-    // 5-day part (in 2025-06-06) is in time; by the date wanted alone the 10-day own part (in 2025-06-11) would be.
+    // 5-day part (in 2025-06-06) is in time; by the date wanted alone the 10-day own part (in 2025-06-11) would be,
+    // and with no date at all the €0.20 part would be bought.
     const b = book();
     b.settings = { ...b.settings, kittingDays: 5, safetyDays: 2 };
     const run: Run = { id: 'run1', rev: 1, name: 'June run', variantId: 'v1', quantity: 100, dateWanted: '2025-06-15', notes: '' };
     b.runs = [run];
-    // Enough of every approved part on hand that any choice could be issued.
-    b.stockMoves = ['cap_a', 'cap_b', 'cap_c', 'res'].map((partId, i) => ({ id: `m${i}`, rev: 1, partId, date: '2025-05-30', quantity: 500, kind: 'counted' as const, reason: 'count' }));
     const today = '2025-06-01';
-    const planned = value(planBook(b, { today }));
-    expect([...planned.runs[0]!.needs]).toEqual([
+    const alone = value(planBook(b, { today }));
+    expect([...alone.runs[0]!.needs]).toEqual([
       ['cap_c', 100],
       ['res', 100],
     ]);
-    const needs = value(runNeeds(b, run, today));
-    expect([...needs]).toEqual([...planned.runs[0]!.needs]);
-    const built = value(buildRun(b, run, today, needs));
-    expect(built.put!.stockMoves!.map((m) => [m.partId, m.quantity, m.kind])).toEqual([
-      ['cap_c', -100, 'issued'],
-      ['res', -100, 'issued'],
+    expect([...value(runNeeds(b, run, today))]).toEqual([...alone.runs[0]!.needs]);
+
+    // 100 of the own part on hand covers one run's need, so it can be had in time and, cheaper than the 5-day
+    // part, is chosen; an earlier run takes that stock first, so this run buys the 5-day part again.
+    const stock = (partId: string, quantity: number, i: number) => ({ id: `m${i}`, rev: 1, partId, date: '2025-05-30', quantity, kind: 'counted' as const, reason: 'count' });
+    b.stockMoves = [stock('cap_a', 100, 1), stock('cap_c', 100, 2), stock('res', 300, 3)];
+    const first: Run = { ...run, id: 'run0', name: 'Early June run', dateWanted: '2025-06-12' };
+    b.runs = [run, first];
+    const both = value(planBook(b, { today }));
+    expect(both.runs.map((r) => [r.run.id, [...r.needs]])).toEqual([
+      ['run0', [['cap_a', 100], ['res', 100]]],
+      ['run1', [['cap_c', 100], ['res', 100]]],
     ]);
+    for (const r of [first, run]) {
+      const needs = value(runNeeds(b, r, today));
+      expect([...needs]).toEqual([...both.runs.find((x) => x.run.id === r.id)!.needs]);
+      // What is issued is what the plan gave the run, and the stock holds it.
+      const built = value(buildRun(b, r, today, needs));
+      expect(built.put!.stockMoves!.map((m) => [m.partId, m.quantity, m.kind])).toEqual([...needs].map(([partId, n]) => [partId, -n, 'issued']));
+    }
   });
 
   it('planning needs the part the run can have in time', () => {
