@@ -1,6 +1,6 @@
 // A season's buying in real Chromium on the demo Book: plan its two runs, place the suggested orders, receive them
 // (one line in part), mark the first run built, and see the stock and the next plan follow; import a stock count file
-// with a column chosen by hand, and undo it from its import record.
+// with a column chosen by hand, and undo it from its import record (reversed in the ledger, not deleted).
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { AppUnderTest } from './harness.ts';
@@ -129,12 +129,22 @@ describe('planning, orders and stock in the browser', () => {
     const batch = page.locator('[data-testid="count-batches"] tbody tr', { hasText: 'count-jan.csv' });
     await expect.poll(async () => (await batch.locator('td').nth(3).textContent())?.trim()).toBe('2');
 
-    // Undone later, from its import record: the ledger is as it was and the import is marked undone.
+    // Undone later, from its import record: on hand is as it was, the count and its reversal both stay in the
+    // history, and the import is marked undone.
     await page.reload();
     await batch.getByRole('button', { name: 'Undo' }).click();
-    await expect.poll(() => onHandOf(a!).count()).toBe(0);
-    await expect.poll(() => onHandOf(b!).count()).toBe(0);
+    await expect.poll(async () => (await page.getByText('The count from count-jan.csv is undone').textContent()) ?? '').toContain('2 movements reversed');
+    await expect.poll(async () => count((await onHandOf(a!).textContent()) ?? '')).toBe(0);
+    await expect.poll(async () => count((await onHandOf(b!).textContent()) ?? '')).toBe(0);
     await expect.poll(async () => (await batch.textContent()) ?? '').toContain('undone');
+    await page.locator(`[data-testid="stock-table"] tr[data-mpn="${a}"]`).getByRole('button', { name: 'History' }).click();
+    const history = page.locator('[data-testid="stock-history"] tbody tr');
+    await expect.poll(() => history.count()).toBe(2);
+    const rows = await history.evaluateAll((trs) => trs.map((tr) => [...tr.querySelectorAll('td')].map((td) => td.textContent!.trim())));
+    expect(rows.map((r) => [r[1], count(r[2]!), count(r[3]!), r[5]])).toEqual([
+      ['counted', 1250, 1250, 'stock count count-jan.csv'],
+      ['adjusted', -1250, 0, 'undo of stock count count-jan.csv'],
+    ]);
     expect(errors).toEqual([]);
   }, 120_000);
 });
