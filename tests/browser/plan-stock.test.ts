@@ -54,6 +54,15 @@ describe('planning, orders and stock in the browser', () => {
       await page.locator(`[data-testid="orders-table"] tr[data-order="${n}"] button`).click();
       const detail = page.locator(`[data-testid="order-detail"][data-order="${n}"]`);
       await detail.waitFor();
+      // Each line names the quote its price came from as the supplier's document below does: their code, the quote.
+      const used = await detail.locator('[data-testid="quote-used"]').allTextContents();
+      const docRows = page.locator('[data-testid="order-doc"] [data-testid="order-doc-page"] tbody tr');
+      await expect.poll(() => docRows.count()).toBe(used.length);
+      for (const [i, text] of used.entries()) {
+        const cells = (await docRows.nth(i).locator('td').allTextContents()).map((c) => c.trim());
+        expect(cells[10]).toMatch(/ of \d{4}-\d{2}-\d{2}$/);
+        expect(text.trim()).toBe(cells[1] ? `${cells[1]}, ${cells[10]}` : cells[10]);
+      }
       const line = detail.locator(`tr[data-mpn="${mpn}"]`);
       if ((await line.count()) === 0) {
         await detail.getByRole('button', { name: 'Receive all' }).click();
