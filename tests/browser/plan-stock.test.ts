@@ -96,10 +96,20 @@ describe('planning, orders and stock in the browser', () => {
     await stockRow.waitFor();
     const cells = await stockRow.locator('td').allTextContents();
     expect([count(cells[1]!), count(cells[2]!), cells[4], count(cells[5]!)]).toEqual([firstNeed, firstNeed, 'last price paid', 0]);
+    // The shared part's plan figures before the build: gross need, on hand, on order in time and net need.
+    const partRow = page.locator(`[data-testid="plan-parts"] tbody tr`, { hasText: mpn });
+    const figures = async (): Promise<number[]> => (await partRow.locator('td').allTextContents()).slice(2, 6).map(count);
+    const [grossBefore, onHandBefore, onOrderBefore, netBefore] = await figures();
+    expect(onHandBefore).toBe(ordered - 1);
     await page.locator(`[data-testid="plan-runs"] tbody tr`, { hasText: firstRun }).getByRole('button', { name: 'Mark built' }).click();
     await page.getByText(`${firstRun} is built on 2027-02-10`).waitFor();
     await expect.poll(() => runRows.count()).toBe(1);
     await expect.poll(async () => (await page.locator('[data-testid="built-runs"]').textContent()) ?? '').toContain(firstRun);
+    // The second run is now planned alone: its part's gross need and on hand both fall by what the first run took,
+    // and its net need stays what it was (the build issued exactly what the plan had given the first run).
+    await expect.poll(figures).toEqual([grossBefore! - firstNeed, onHandBefore! - firstNeed, onOrderBefore, netBefore]);
+    expect(await partRow.getAttribute('data-runs')).toBe('1');
+    expect((await partRow.locator('td').nth(1).textContent()) ?? '').not.toContain(`${firstRun} (`);
     // The one part still to come is on order in time: the next plan orders nothing.
     await page.locator('[data-testid="no-suggestions"]').waitFor();
 
