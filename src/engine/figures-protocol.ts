@@ -5,6 +5,7 @@ import type { BookDelta } from '../domain/book-ops.ts';
 import type { FiguresUpdate } from './figures-kinds.ts';
 import type { LineOutcome } from './line-trial.ts';
 import type { WhatIf, WhatIfAnswer, WhatIfWant } from './what-if.ts';
+import type { CheckTrialAnswer, CheckTrialRequest } from './check-trial.ts';
 
 /** What the Compare page asks: the chosen variants' figures with what-if edits tried on them. */
 export interface WhatIfRequest {
@@ -19,7 +20,8 @@ export type FiguresRequest =
   /** Quotes of the next Book or change, sent ahead in parts (see stageQuotes); `staged` on it says to use them. */
   | { type: 'quotes'; seq: number; quotes: Quote[] }
   | ({ type: 'whatif'; id: number } & WhatIfRequest)
-  | { type: 'trial'; id: number; line: BuildLine };
+  | { type: 'trial'; id: number; line: BuildLine }
+  | ({ type: 'checktrial'; id: number } & CheckTrialRequest);
 
 /** One part of an answer (see splitUpdate): `last` says the figures of the Book sent are complete. */
 export type FiguresMessage =
@@ -27,6 +29,7 @@ export type FiguresMessage =
   | { type: 'failed'; seq: number; message: string }
   | { type: 'whatif'; id: number; answer: WhatIfAnswer }
   | { type: 'trial'; id: number; outcomes: LineOutcome[] }
+  | { type: 'checktrial'; id: number; answer: CheckTrialAnswer }
   | { type: 'refused'; id: number; message: string };
 
 /** Quotes per message when a Book or change is sent in parts: each part takes the page a few ms to copy. */

@@ -9,6 +9,7 @@ import { createEngine } from './create.ts';
 import { LiveFigures, splitUpdate } from './figures.ts';
 import type { FiguresMessage, FiguresRequest, WhatIfRequest } from './figures-protocol.ts';
 import type { FiguresUpdate } from './figures.ts';
+import { CheckTrials } from './check-trial.ts';
 import { trialOutcomes } from './line-trial.ts';
 import { WhatIfCosts } from './what-if.ts';
 import type { WhatIfAnswer } from './what-if.ts';
@@ -17,6 +18,7 @@ import type { WhatIfAnswer } from './what-if.ts';
 export class FiguresHost {
   private readonly live = new LiveFigures();
   private readonly whatIfs = new WhatIfCosts();
+  private readonly checkTrials = new CheckTrials();
   /** Quotes sent ahead of the Book or change that uses them. */
   private staged: Quote[] = [];
 
@@ -43,6 +45,16 @@ export class FiguresHost {
         return [{ type: 'trial', id: request.id, outcomes: trialOutcomes(book, request.line) }];
       } catch (e) {
         return [{ type: 'refused', id: request.id, message: `the line could not be tried: ${e instanceof Error ? e.message : String(e)}` }];
+      }
+    }
+    if (request?.type === 'checktrial') {
+      const book = this.live.current;
+      if (!book) return [{ type: 'refused', id: request.id, message: 'the figures worker holds no Book yet' }];
+      try {
+        return [{ type: 'checktrial', id: request.id, answer: this.checkTrials.answer(book, request) }];
+      } catch (e) {
+        this.checkTrials.close();
+        return [{ type: 'refused', id: request.id, message: `the formula could not be tried: ${e instanceof Error ? e.message : String(e)}` }];
       }
     }
     if (request?.type === 'quotes') {

@@ -1,14 +1,16 @@
-// The work behind the Checks page: a live FamilyWorkbook of the Book (every check on every variant), its results,
-// formulas typed and not yet kept, our own saves run one after another so the Book each brings back is adopted
-// instead of recompiled, and the undo steps of the parameters and part ratings changed from a check's detail.
+// The work behind the Checks page: every check on every variant, from the Book's live figures (worked out in the
+// figures worker, so a large family never holds up the page); formulas typed and not yet kept, tried there too in a
+// workbook of their own; our own saves run one after another; and the undo steps of the parameters and part ratings
+// changed from a check's detail.
 import type { ReactiveController, ReactiveControllerHost } from 'lit';
-import type { Book, Check, ParamValue, Part, Variant } from '../domain/book.ts';
+import type { Book, Check, Part, Variant } from '../domain/book.ts';
 import { CHECK_STATUS } from '../domain/check-status.ts';
 import type { CheckStatus } from '../domain/check-status.ts';
 import { formatValue } from '../domain/units.ts';
-import { FamilyWorkbook } from '../engine/family.ts';
+import type { CheckTrialAnswer } from '../engine/check-trial.ts';
 import type { CheckResult, VariantResolution } from '../engine/family.ts';
 import type { BookController } from './book-context.ts';
+import { CostingService } from './costing-service.ts';
 import { checkFormulaNames } from './rb-formula-input.ts';
 import type { NameHint } from './rb-formula-input.ts';
 import { UndoStack, stepChange } from './undo.ts';
@@ -33,19 +35,32 @@ export function statusClass(s: CheckStatus): string {
 export class ChecksController implements ReactiveController {
   /** Check id → formula typed and not yet kept. */
   formulaDrafts = new Map<string, string>();
+  /** Check id → why its formula typed cannot be read (from the last trial). */
+  formulaProblems = new Map<string, string>();
   names: readonly NameHint[] = [];
   /** Moves whenever a result may have changed, so views given this controller know to draw again. */
   revision = 0;
   /** Edits of variant parameters and part ratings made from a check's detail, undone one at a time. */
   readonly history = new UndoStack<Variant | Part>();
 
-  private session: FamilyWorkbook | undefined;
-  /** The Book the session was built from (or adopted after our own save). */
-  private sessionBook: Book | undefined;
-  /** Saves of ours in flight: the Book they bring back is adopted without rebuilding the session. */
-  private ownSaves = 0;
+  /** The figures the results come from: the live ones of the Book as saved (worked out off the page's thread). */
+  private costing: CostingService | undefined;
+  /** The last trial of the formulas typed, while there are any. */
+  private trial: CheckTrialAnswer | undefined;
+  /** Why the last trial failed, if it did. */
+  trialProblem: string | undefined;
+  private asked = 0;
+  /** Settles when the last trial asked has been answered. */
+  private lastTrial: Promise<unknown> = Promise.resolve();
+  private namesOf: Book | undefined;
   private writes: Promise<unknown> = Promise.resolve();
-  private results = new Map<string, CheckResult>();
+  /** The results shown, by variant and check, and each variant's lines; made again when `revision` moves. */
+  private index: { revision: number; results: Map<string, Map<string, CheckResult>>; lines: Map<string, VariantResolution> } | undefined;
+  private readonly onFigures = (): void => {
+    // The Book's figures moved (a save here, another page or tab): a trial is asked again of the new Book.
+    if (this.formulaDrafts.size > 0) this.askTrial();
+    this.changed();
+  };
 
   constructor(
     private readonly host: ReactiveControllerHost,
@@ -54,51 +69,83 @@ export class ChecksController implements ReactiveController {
     host.addController(this);
   }
 
+  hostConnected(): void {
+    this.costing?.addEventListener('change', this.onFigures);
+  }
+
   hostDisconnected(): void {
-    this.session?.close();
-    this.session = undefined;
-    this.sessionBook = undefined;
+    this.costing?.removeEventListener('change', this.onFigures);
   }
 
-  /** Follows the Book: a Book of our own save is adopted, any other rebuilds the session. */
+  /** Follows the Book: its names for the formula input, and the figures of the Book's service. */
   sync(book: Book): void {
-    if (book === this.sessionBook) return;
-    if (this.ownSaves > 0 && this.session) {
-      this.sessionBook = book;
-      return;
+    if (book !== this.namesOf) {
+      this.namesOf = book;
+      this.names = checkFormulaNames(book);
     }
-    this.rebuild(book);
+    const service = this.books.service;
+    const costing = service ? CostingService.for(service) : undefined;
+    if (costing !== this.costing) {
+      this.costing?.removeEventListener('change', this.onFigures);
+      this.costing = costing;
+      costing?.addEventListener('change', this.onFigures);
+      this.trial = undefined;
+      if (this.formulaDrafts.size > 0) this.askTrial();
+      this.changed();
+    }
   }
 
-  /** A fresh session for the Book (opened elsewhere, or changed by another page or tab), with kept formula drafts. */
-  private rebuild(book: Book): void {
-    this.session?.close();
-    this.session = FamilyWorkbook.open(book);
-    this.sessionBook = book;
-    this.names = checkFormulaNames(book);
-    for (const [checkId, text] of this.formulaDrafts) {
-      if (book.checks.some((c) => c.id === checkId)) this.session.setCheckFormula(checkId, text);
-    }
-    this.refresh();
+  /** Whether the results shown are not yet those of the Book as it is, or of the formulas as typed. */
+  get pending(): boolean {
+    return (this.costing?.pending ?? true) || (this.formulaDrafts.size > 0 && this.trial === undefined);
   }
 
-  private refresh(): void {
-    this.results = new Map();
-    for (const r of this.session?.results() ?? []) this.results.set(`${r.variantId}\u0000${r.checkId}`, r);
+  /** Why the checks could not be evaluated at all, or undefined. */
+  get problem(): string | undefined {
+    return this.trialProblem ?? this.costing?.checksProblem;
+  }
+
+  private changed(): void {
     this.revision++;
+    this.host.requestUpdate();
+  }
+
+  private shown(): NonNullable<ChecksController['index']> {
+    if (this.index?.revision === this.revision) return this.index;
+    const results = new Map<string, Map<string, CheckResult>>();
+    const lines = new Map<string, VariantResolution>();
+    const add = (r: CheckResult): void => {
+      let m = results.get(r.variantId);
+      if (!m) results.set(r.variantId, (m = new Map()));
+      m.set(r.checkId, r);
+    };
+    if (this.formulaDrafts.size > 0 && this.trial) {
+      for (const r of this.trial.results) add(r);
+      for (const l of this.trial.lines) lines.set(l.variantId, l);
+    } else if (this.costing) {
+      for (const v of this.books.book?.variants ?? []) for (const r of this.costing.checkResults(v.id)) add(r);
+      for (const l of this.costing.resolution().variants) lines.set(l.variantId, l);
+    }
+    this.index = { revision: this.revision, results, lines };
+    return this.index;
+  }
+
+  /** Whether any result is held to show (none before the first figures of the Book arrive). */
+  get hasResults(): boolean {
+    return this.shown().results.size > 0;
   }
 
   result(variantId: string, checkId: string): CheckResult | undefined {
-    return this.results.get(`${variantId}\u0000${checkId}`);
+    return this.shown().results.get(variantId)?.get(checkId);
   }
 
-  allResults(): IterableIterator<CheckResult> {
-    return this.results.values();
+  *allResults(): IterableIterator<CheckResult> {
+    for (const m of this.shown().results.values()) yield* m.values();
   }
 
-  /** The variant's build lines as the session resolves them now (which part each role's line gives). */
+  /** The variant's build lines as resolved now (which part each role's line gives). */
   resolved(variantId: string): VariantResolution | undefined {
-    return this.session?.resolve().variants.find((r) => r.variantId === variantId);
+    return this.shown().lines.get(variantId);
   }
 
   /** Remembers a saved edit of one variant or part, found in the Book as saved, for undo. */
@@ -109,7 +156,7 @@ export class ChecksController implements ReactiveController {
   }
 
   /**
-   * Undoes or redoes the last edit as one save (the session then follows the Book); gives why it could not be,
+   * Undoes or redoes the last edit as one save (the figures then follow the Book); gives why it could not be,
    * when it could not — a record changed elsewhere since, whose step is then forgotten.
    */
   async step(direction: Direction): Promise<SaveOutcome> {
@@ -133,66 +180,76 @@ export class ChecksController implements ReactiveController {
     return result.ok ? { ok: true } : { ok: false, message: result.message };
   }
 
-  /** Tries a parameter value in the session (every check re-evaluates at once); gives why it was refused, if it was. */
-  tryParam(variantId: string, name: string, value: ParamValue): string | undefined {
-    const session = this.session;
-    if (!session) return 'the checks are not open';
-    const set = session.setParam(variantId, name, value);
-    if (!set.ok) return set.error;
-    this.refresh();
-    this.host.requestUpdate();
-    return undefined;
-  }
-
-  /** Tries a formula typed for a check on every variant; gives why it cannot be read, if it cannot. */
-  tryFormula(c: Check, text: string): string | undefined {
-    const session = this.session;
-    if (!session) return undefined;
+  /** Tries a formula typed for a check on every variant (off the page's thread); the results follow when worked out. */
+  tryFormula(c: Check, text: string): void {
     this.formulaDrafts = new Map(this.formulaDrafts).set(c.id, text);
-    const r = session.setCheckFormula(c.id, text);
-    this.refresh();
-    this.host.requestUpdate();
-    return r.ok ? undefined : r.error;
+    this.askTrial();
+    this.changed();
   }
 
-  /** Puts the check's own formula back in the session and forgets the draft. */
+  /** Puts the check's own formula back and forgets the draft. */
   putBack(c: Check): void {
     this.dropDraft(c.id);
-    this.session?.setCheckFormula(c.id, c.formula);
-    this.refresh();
   }
 
   dropDraft(checkId: string): void {
+    if (!this.formulaDrafts.has(checkId)) return;
     const drafts = new Map(this.formulaDrafts);
     drafts.delete(checkId);
     this.formulaDrafts = drafts;
-    this.revision++;
-    this.host.requestUpdate();
+    const problems = new Map(this.formulaProblems);
+    problems.delete(checkId);
+    this.formulaProblems = problems;
+    if (drafts.size > 0) this.askTrial();
+    else {
+      this.asked++;
+      this.trial = undefined;
+      this.trialProblem = undefined;
+    }
+    this.changed();
   }
 
-  /**
-   * Runs our saves one after another so the Book each brings back is adopted, not recompiled; a failed save
-   * recompiles from the Book as stored.
-   */
+  /** Asks for the results with the formulas typed; an answer to an earlier question is not shown. */
+  private askTrial(): void {
+    const costing = this.costing;
+    if (!costing) return;
+    const asked = ++this.asked;
+    const formulas = [...this.formulaDrafts].map(([checkId, text]) => ({ checkId, text }));
+    this.lastTrial = costing.checkTrial({ formulas }).then(
+      (answer) => {
+        if (asked !== this.asked) return;
+        this.trial = answer;
+        this.trialProblem = undefined;
+        this.formulaProblems = new Map(answer.refused.map((r) => [r.checkId, r.message] as const));
+        this.changed();
+      },
+      (e: unknown) => {
+        if (asked !== this.asked) return;
+        this.trialProblem = `The formulas typed could not be tried: ${e instanceof Error ? e.message : String(e)}`;
+        this.changed();
+      },
+    );
+  }
+
+  /** Resolves once the formulas as typed now have been tried (their problems are then in `formulaProblems`). */
+  async tried(): Promise<void> {
+    let seen: Promise<unknown> | undefined;
+    while (seen !== this.lastTrial) {
+      seen = this.lastTrial;
+      await seen;
+    }
+  }
+
+  /** Runs our saves one after another, so each is planned on the Book the one before left. */
   saveOwn(write: () => Promise<SaveOutcome>): Promise<SaveOutcome> {
-    this.ownSaves += 1;
-    const run = this.writes.then(async () => {
-      let result: SaveOutcome;
+    const run = this.writes.then(async (): Promise<SaveOutcome> => {
       try {
-        result = await write();
+        return await write();
       } catch (e) {
-        result = { ok: false, message: String(e) };
+        return { ok: false, message: String(e) };
       } finally {
-        this.ownSaves -= 1;
-      }
-      const service = this.books.service;
-      if (!result.ok) {
-        if (service) this.rebuild(service.book);
         this.host.requestUpdate();
-        return result;
       }
-      if (service) this.sessionBook = service.book;
-      return result;
     });
     this.writes = run;
     return run;

@@ -19,6 +19,7 @@ import { stageQuotes } from '../engine/figures-protocol.ts';
 import type { FiguresMessage, FiguresRequest, WhatIfRequest } from '../engine/figures-protocol.ts';
 import type { LineOutcome } from '../engine/line-trial.ts';
 import type { WhatIfAnswer, WhatIfCosts } from '../engine/what-if.ts';
+import type { CheckTrialAnswer, CheckTrialRequest, CheckTrials } from '../engine/check-trial.ts';
 import type { CheckResult, FamilyResolution, VariantResolution } from '../engine/family.ts';
 
 export { SYNC_KINDS } from '../engine/figures-kinds.ts';
@@ -94,6 +95,7 @@ export class CostingService extends EventTarget {
   private worker: FiguresWorkerLike | undefined;
   private local: LiveFigures | undefined;
   private localWhatIfs: WhatIfCosts | undefined;
+  private localCheckTrials: CheckTrials | undefined;
   /** Questions sent to the worker and not yet answered, by id. */
   private readonly asked = new Map<number, { resolve: (a: never) => void; reject: (e: Error) => void }>();
   private nextAsk = 0;
@@ -237,6 +239,24 @@ export class CostingService extends EventTarget {
     return this.ask<LineOutcome[]>((id) => ({ type: 'trial', id, line }));
   }
 
+  /**
+   * The Checks page's trial: every check on every variant with the formulas typed and not yet kept, from the Book as
+   * the figures hold it (asked again by the page when `version` moves).
+   */
+  checkTrial(request: CheckTrialRequest): Promise<CheckTrialAnswer> {
+    this.sync();
+    if (!this.makeWorker) {
+      this.localCheckTrials ??= new (engines().CheckTrials)();
+      try {
+        return Promise.resolve(this.localCheckTrials.answer(this.local!.current!, request));
+      } catch (e) {
+        this.localCheckTrials.close();
+        return Promise.reject(e instanceof Error ? e : new Error(String(e)));
+      }
+    }
+    return this.ask<CheckTrialAnswer>((id) => ({ type: 'checktrial', id, ...request }));
+  }
+
   /** Sends the worker a question; its answer (in order after every change sent before it) settles the promise. */
   private ask<T>(request: (id: number) => FiguresRequest): Promise<T> {
     const worker = this.worker;
@@ -253,6 +273,8 @@ export class CostingService extends EventTarget {
     this.dropAsked('the figures were closed');
     this.localWhatIfs?.close();
     this.localWhatIfs = undefined;
+    this.localCheckTrials?.close();
+    this.localCheckTrials = undefined;
     this.worker?.terminate();
     this.worker = undefined;
     this.local?.close();
@@ -332,11 +354,11 @@ export class CostingService extends EventTarget {
   }
 
   private answered(m: FiguresMessage): void {
-    if (m.type === 'whatif' || m.type === 'trial' || m.type === 'refused') {
+    if (m.type === 'whatif' || m.type === 'trial' || m.type === 'checktrial' || m.type === 'refused') {
       const ask = this.asked.get(m.id);
       this.asked.delete(m.id);
       if (m.type === 'refused') ask?.reject(new Error(m.message));
-      else ask?.resolve((m.type === 'whatif' ? m.answer : m.outcomes) as never);
+      else ask?.resolve((m.type === 'trial' ? m.outcomes : m.answer) as never);
       return;
     }
     if (m.seq !== this.seq) return;

@@ -143,7 +143,6 @@ export class RbCheckDetail extends LitElement {
 
   @state() private paramDrafts = new Map<string, string>();
   @state() private paramProblems = new Map<string, string>();
-  @state() private formulaProblem: string | undefined;
   @state() private panelMessage: string | undefined;
   @state() private confirmDelete = false;
   /** The cell the panel was last drawn for: another cell starts the panel afresh. */
@@ -157,7 +156,6 @@ export class RbCheckDetail extends LitElement {
     this.paramProblems = new Map();
     this.panelMessage = undefined;
     this.confirmDelete = false;
-    this.formulaProblem = undefined;
   }
 
   override render() {
@@ -169,6 +167,7 @@ export class RbCheckDetail extends LitElement {
     const r = checks.result(v.id, c.id);
     const status = r?.status ?? CHECK_STATUS.error;
     const draft = checks.formulaDrafts.get(c.id);
+    const formulaProblem = draft === undefined ? undefined : checks.formulaProblems.get(c.id);
     const inputs = checkInputs(book, c, checks.resolved(v.id), (x) => checks.formulaDrafts.get(x.id) ?? x.formula);
     const undoStep = checks.history.peek(DIRECTIONS.undo);
     const redoStep = checks.history.peek(DIRECTIONS.redo);
@@ -221,15 +220,15 @@ export class RbCheckDetail extends LitElement {
           .label=${`formula of ${c.name}`}
           .value=${draft ?? c.formula}
           .names=${checks.names}
-          ?invalid=${Boolean(this.formulaProblem)}
-          @formula-input=${(e: CustomEvent<{ value: string }>) => (this.formulaProblem = checks.tryFormula(c, e.detail.value))}
+          ?invalid=${Boolean(formulaProblem)}
+          @formula-input=${(e: CustomEvent<{ value: string }>) => checks.tryFormula(c, e.detail.value)}
         ></rb-formula-input>
         <span>
           <button type="button" class="primary" ?disabled=${draft === undefined} @click=${() => void this.keepFormula(c)}>Keep this formula</button>
           <button type="button" ?disabled=${draft === undefined} @click=${() => this.putBack(c)}>Put back</button>
         </span>
       </div>
-      ${this.formulaProblem ? html`<div class="problem" role="alert">${this.formulaProblem}</div>` : ''}
+      ${formulaProblem ? html`<div class="problem" role="alert">${formulaProblem}</div>` : ''}
       ${draft !== undefined ? html`<div class="muted">Every variant shows the changed formula now; keep it to save it in the Book.</div>` : ''}
       ${this.panelMessage ? html`<div class="problem" role="alert">${this.panelMessage}</div>` : ''}
       <div class="row-actions">
@@ -369,8 +368,6 @@ export class RbCheckDetail extends LitElement {
       if (!r.ok) return this.setParamProblem(key, r.error);
       value = r.value;
     }
-    const refused = checks.tryParam(v.id, name, value);
-    if (refused) return this.setParamProblem(key, refused);
     this.setParamProblem(key, undefined);
     // Built from the Book as it stands when the write runs, so edits in quick succession never reuse a revision.
     const saved = await checks.saveOwn(() => {
@@ -387,7 +384,6 @@ export class RbCheckDetail extends LitElement {
   }
 
   private putBack(c: Check): void {
-    this.formulaProblem = undefined;
     this.checks?.putBack(c);
   }
 
@@ -396,7 +392,9 @@ export class RbCheckDetail extends LitElement {
     const checks = this.checks;
     const text = checks?.formulaDrafts.get(c.id);
     if (!service || !checks || text === undefined) return;
-    if (this.formulaProblem) {
+    // The formula as typed last is tried first: one that cannot be read is never saved.
+    await checks.tried();
+    if (checks.formulaProblems.has(c.id) || checks.formulaDrafts.get(c.id) !== text) {
       this.panelMessage = 'Nothing saved: the formula cannot be read.';
       return;
     }

@@ -207,9 +207,10 @@ export class RbChecksPage extends LitElement {
     return html`<section class="sheet" aria-labelledby="matrix-h">
       <h2 id="matrix-h">Checks × variants</h2>
       <p class="why">
-        ${book.checks.length} checks on ${book.variants.length} variants: ${counts.pass} pass, ${counts.margin} margin,
-        ${counts.fail} fail, ${counts.error} error, ${counts['n/a']} n/a. Choose a cell to see its figure, formula, rule
-        and note, and to change the variant's parameters or the formula.
+        ${book.checks.length} checks on ${book.variants.length} variants${this.checks.hasResults
+          ? `: ${counts.pass} pass, ${counts.margin} margin, ${counts.fail} fail, ${counts.error} error, ${counts['n/a']} n/a`
+          : ''}. Choose a cell to see its figure, formula, rule and note, and to change the variant's parameters or the
+        formula.
       </p>
       <div class="toolbar">
         <input
@@ -228,9 +229,13 @@ export class RbChecksPage extends LitElement {
         ><span class="fail">${STATUS_SYMBOL.fail} fail</span><span class="na">${STATUS_SYMBOL['n/a']} n/a: does not apply</span
         ><span class="error">${STATUS_SYMBOL.error} error: could not be worked out</span>
       </p>
+      ${this.checks.problem ? html`<p class="problem" role="alert">${this.checks.problem}</p>` : ''}
+      ${this.checks.pending ? html`<p class="muted" role="status" data-testid="checks-pending">${this.checks.hasResults ? 'Updating the checks…' : 'Working out every check on every variant…'}</p>` : ''}
       ${book.variants.length === 0
         ? html`<p class="empty">No variants yet: add them on the Family page.</p>`
-        : html`<div class="scroll">
+        : !this.checks.hasResults && this.checks.pending
+          ? ''
+          : html`<div class="scroll">
             <table class="matrix" data-testid="checks-matrix">
               <thead>
                 <tr>
