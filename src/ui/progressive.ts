@@ -2,6 +2,7 @@
 // table of hundreds of rows never holds the page's thread for long (the bench's ui_* figures measure this). Rows
 // already drawn stay drawn; a table that grows draws its new rows the same way.
 import type { ReactiveController, ReactiveControllerHost } from 'lit';
+import { nextTask } from '../domain/slices.ts';
 
 /** Rows drawn in the first frame and added in each frame after: about 10–20 ms of drawing on a slow machine. */
 export const ROWS_PER_FRAME = 30;
@@ -12,6 +13,8 @@ export class ProgressiveRows implements ReactiveController {
   /** How many rows may be drawn now. */
   private limit: number;
   private frame = 0;
+  /** A grow is waiting for the task after the frame that draws the rows before it. */
+  private waiting = false;
 
   constructor(
     private readonly host: ReactiveControllerHost,
@@ -24,11 +27,19 @@ export class ProgressiveRows implements ReactiveController {
   /** The rows to draw in this update; when some are held back, the next frame draws more. */
   take<T>(rows: readonly T[]): readonly T[] {
     if (rows.length <= this.limit || rows.length <= ROWS_AT_ONCE) return rows;
-    if (this.frame === 0) {
+    if (this.frame === 0 && !this.waiting) {
+      // The frame called for now is the one that lays out and paints the rows just drawn: more rows drawn from its
+      // callback would be laid out in that same frame, two slices in one task. The next slice is drawn in the task
+      // after that frame instead, and laid out in the frame after.
       this.frame = requestAnimationFrame(() => {
         this.frame = 0;
-        this.limit += this.step;
-        this.host.requestUpdate();
+        this.waiting = true;
+        void nextTask().then(() => {
+          if (!this.waiting) return;
+          this.waiting = false;
+          this.limit += this.step;
+          this.host.requestUpdate();
+        });
       });
     }
     return rows.slice(0, this.limit);
@@ -44,5 +55,6 @@ export class ProgressiveRows implements ReactiveController {
   hostDisconnected(): void {
     if (this.frame !== 0) cancelAnimationFrame(this.frame);
     this.frame = 0;
+    this.waiting = false;
   }
 }
