@@ -62,9 +62,7 @@ async function main(): Promise<void> {
   const lines: string[] = [
     `Rungbook benchmark${quick ? ' (quick)' : ''}${only === undefined ? '' : ` (only ${only})`}, ${date.toISOString().slice(0, 10)}: ${m['cpus']} × ${m['cpu_model']}, load average ${machineAtStart['load_avg_1m']} at start, ${m['load_avg_1m']} at end`,
     '',
-    line(head),
-    ...body.map(line),
-    '',
+    ...(rows.length > 0 ? [line(head), ...body.map(line), ''] : []),
   ];
   const paired = new Set(PAIRS.flatMap((p) => [p.name, p.node, p.browser]));
   const rest = Object.entries(figures).filter(([k]) => !paired.has(k));
