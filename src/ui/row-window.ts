@@ -20,11 +20,14 @@ export interface RowSlice {
 
 export class RowWindow implements ReactiveController {
   private first = 0;
-  private count = 2 * OVERSCAN + 30;
+  /** At the top no rows are drawn above the view, so the first drawing is the rows in view and those below. */
+  private count = OVERSCAN + 30;
   private rowHeight = ROW_GUESS;
   private measured = false;
   private total = 0;
   private frame = 0;
+  /** The frame in which a drawn row's height is measured, while one is asked for. */
+  private measuring = 0;
   private listening: HTMLElement | undefined;
 
   constructor(
@@ -64,15 +67,26 @@ export class RowWindow implements ReactiveController {
       el.addEventListener('scroll', this.onScroll, { passive: true });
       this.listening = el;
     }
-    if (!this.measured && this.total >= WINDOW_FROM) {
-      const row = el.querySelector('tbody tr[aria-rowindex]');
-      const h = row?.getBoundingClientRect().height ?? 0;
-      if (h > 0) {
-        this.measured = true;
-        if (Math.abs(h - this.rowHeight) > 0.5) {
-          this.rowHeight = h;
-          this.follow(el);
-        }
+    if (!this.measured && this.total >= WINDOW_FROM && this.measuring === 0) {
+      // Measured in the next frame, which lays the new rows out anyway: measuring here would lay the whole page out
+      // within the task that drew them, one long task where there could be two.
+      this.measuring = requestAnimationFrame(() => {
+        this.measuring = 0;
+        this.measure();
+      });
+    }
+  }
+
+  private measure(): void {
+    const el = this.listening;
+    if (!el || this.measured || this.total < WINDOW_FROM) return;
+    const row = el.querySelector('tbody tr[aria-rowindex]');
+    const h = row?.getBoundingClientRect().height ?? 0;
+    if (h > 0) {
+      this.measured = true;
+      if (Math.abs(h - this.rowHeight) > 0.5) {
+        this.rowHeight = h;
+        this.follow(el);
       }
     }
   }
@@ -82,6 +96,8 @@ export class RowWindow implements ReactiveController {
     this.listening = undefined;
     if (this.frame !== 0) cancelAnimationFrame(this.frame);
     this.frame = 0;
+    if (this.measuring !== 0) cancelAnimationFrame(this.measuring);
+    this.measuring = 0;
   }
 
   private readonly onScroll = (): void => {
@@ -94,8 +110,10 @@ export class RowWindow implements ReactiveController {
 
   /** Works out the rows in view from the frame's scroll position; draws again when they moved. */
   private follow(el: HTMLElement): void {
-    const first = Math.max(0, Math.floor(el.scrollTop / this.rowHeight) - OVERSCAN);
-    const count = Math.ceil(el.clientHeight / this.rowHeight) + 2 * OVERSCAN;
+    const top = Math.floor(el.scrollTop / this.rowHeight);
+    const first = Math.max(0, top - OVERSCAN);
+    // Rows in view and OVERSCAN either side, fewer above when the view is near the top.
+    const count = top - first + Math.ceil(el.clientHeight / this.rowHeight) + OVERSCAN;
     if (first === this.first && count === this.count) return;
     this.first = first;
     this.count = count;
