@@ -19,6 +19,8 @@ export class ProgressiveRows implements ReactiveController {
   constructor(
     private readonly host: ReactiveControllerHost,
     private readonly step = ROWS_PER_FRAME,
+    /** Tables up to this many rows are drawn at once; fewer for rows that are heavy to draw. */
+    private readonly atOnce = ROWS_AT_ONCE,
   ) {
     this.limit = step;
     host.addController(this);
@@ -26,7 +28,7 @@ export class ProgressiveRows implements ReactiveController {
 
   /** The rows to draw in this update; when some are held back, the next frame draws more. */
   take<T>(rows: readonly T[]): readonly T[] {
-    if (rows.length <= this.limit || rows.length <= ROWS_AT_ONCE) return rows;
+    if (rows.length <= this.limit || rows.length <= this.atOnce) return rows;
     if (this.frame === 0 && !this.waiting) {
       // The frame called for now is the one that lays out and paints the rows just drawn: more rows drawn from its
       // callback would be laid out in that same frame, two slices in one task. The next slice is drawn in the task

@@ -19,7 +19,7 @@ import type { NoticeDetail } from './rb-book-menu.ts';
 import type { NameHint } from './rb-formula-input.ts';
 import { pageStyles, previewStyles, toolbarSearchStyles } from './styles.ts';
 import './rb-formula-input.ts';
-import { ProgressiveRows } from './progressive.ts';
+import { ProgressiveRows, ROWS_PER_FRAME } from './progressive.ts';
 import { DIRECTIONS, UndoStack, stepChange } from './undo.ts';
 import type { Direction, RecordChange } from './undo.ts';
 
@@ -160,12 +160,21 @@ export class RbBuildPage extends LitElement {
         display: flex;
         gap: 0.4rem;
       }
+      /* Below the line list: the browser lays it out and paints it only when it comes near the view. */
+      section.bom {
+        content-visibility: auto;
+        contain-intrinsic-size: auto 40rem;
+      }
     `,
   ];
 
   private readonly books = new BookController(this, { figures: true });
-  /** Long tables draw a slice of rows per frame. */
-  private readonly drawnLines = new ProgressiveRows(this);
+  /**
+   * Long tables draw a slice of rows per frame. A build line's row is heavy (rules, attrition, its standing across the
+   * variants, four buttons): the 80 lines of a large family took about 0.1 s to draw and lay out at once, so more than
+   * one slice of them is drawn a slice per frame.
+   */
+  private readonly drawnLines = new ProgressiveRows(this, ROWS_PER_FRAME, ROWS_PER_FRAME);
   private readonly drawnBom = new ProgressiveRows(this);
   private family: FamilyResolution | undefined;
   /** Each line's standing across the variants, worked out once per Book and resolution. */
@@ -691,7 +700,7 @@ export class RbBuildPage extends LitElement {
     const shown = this.onlyApplying ? rows.filter((x) => (x.r.applies && x.r.qtyPerUnit > 0) || x.problem !== '') : rows;
     const pieces = fitted.reduce((n, x) => n + x.r.qtyPerUnit, 0);
     const placements = fitted.reduce((n, x) => n + x.r.qtyPerUnit * (parts.get(x.r.partId ?? '')?.placements ?? 1), 0);
-    return html`<section class="sheet" aria-labelledby="bom-h">
+    return html`<section class="sheet bom" aria-labelledby="bom-h">
       <h2 id="bom-h">Resolved BOM of one variant</h2>
       <p class="why">The build lines as they stand for the chosen variant: whether each applies, the part its rules pick, and how many per finished unit.</p>
       ${book.variants.length === 0
