@@ -8,6 +8,7 @@ import { onHandByPart } from '../domain/stock.ts';
 import type { Limiting, Plan, PlanOptions } from '../domain/planning.ts';
 import { resolutionFromFamily } from '../engine/costing.ts';
 import { resolveFamily } from '../engine/family.ts';
+import type { FamilyResolution } from '../engine/family.ts';
 import { DEFAULT_EXPORT_OPTIONS, NUMBER_KINDS, exportOptionsProblem, exportText } from './csv-write.ts';
 import type { ExportCell, ExportOptions, NumberCell } from './csv-write.ts';
 
@@ -15,11 +16,15 @@ const qty = (n: number): NumberCell => ({ n, kind: NUMBER_KINDS.qty });
 const money = (n: number): NumberCell => ({ n, kind: NUMBER_KINDS.money });
 const price = (n: number): NumberCell => ({ n, kind: NUMBER_KINDS.price });
 
-/** The plan of a Book's planned runs, with each variant's lines from the family resolver. */
-export function planBook(book: Book, options: PlanOptions): Result<Plan> {
+/**
+ * The plan of a Book's planned runs, with each variant's lines from the family resolver — or from `resolved`, the
+ * family as already resolved (the app's live figures, worked out off the page's thread), so the plan itself is
+ * the only work.
+ */
+export function planBook(book: Book, options: PlanOptions, resolved?: FamilyResolution): Result<Plan> {
   const ctx = prepareCosting(book, { date: options.today });
   if (!ctx.ok) return ctx;
-  return planRuns(book, ctx.value, resolutionFromFamily(resolveFamily(book)), options);
+  return planRuns(book, ctx.value, resolutionFromFamily(resolved ?? resolveFamily(book)), options);
 }
 
 /**

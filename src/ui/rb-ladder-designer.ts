@@ -13,6 +13,7 @@ import { MAX_STEPS } from '../domain/params.ts';
 import { formatValue } from '../domain/units.ts';
 import { resolveFamily } from '../engine/family.ts';
 import { BookController } from './book-context.ts';
+import { CostingService } from './costing-service.ts';
 import { pageStyles, ruledControlStyles } from './styles.ts';
 
 type Mode = 'spread' | 'list';
@@ -131,15 +132,17 @@ export class RbLadderDesigner extends LitElement {
   @state() private list = '';
   @state() private series = 12;
   @state() private message: { tone: 'done' | 'problem'; lines: string[] } | undefined;
-  private readonly books = new BookController(this);
+  private readonly books = new BookController(this, { figures: true });
   private defaultsFor = '';
 
-  private roles: { book: Book; byVariant: Map<string, Record<string, number>> } | undefined;
+  private roles: { figures: number; byVariant: Map<string, Record<string, number>> } | undefined;
 
-  /** Each variant's resolved part ratings, worked out once per Book. */
-  private roleNames(book: Book, v: Variant): Record<string, number> {
-    if (this.roles?.book !== book) {
-      this.roles = { book, byVariant: new Map(resolveFamily(book).variants.map((r) => [r.variantId, r.roleNames])) };
+  /** Each variant's resolved part ratings, as the live figures resolve them (off the page's thread). */
+  private roleNames(_book: Book, v: Variant): Record<string, number> {
+    const costing = CostingService.for(this.books.service!);
+    const resolution = costing.resolution();
+    if (this.roles?.figures !== costing.version) {
+      this.roles = { figures: costing.version, byVariant: new Map(resolution.variants.map((r) => [r.variantId, r.roleNames])) };
     }
     return this.roles.byVariant.get(v.id) ?? {};
   }
@@ -332,7 +335,8 @@ export class RbLadderDesigner extends LitElement {
       return;
     }
     const n = result.steps.length;
-    const problems = resolveFamily(service.book).problems.filter((p) => p.variantId === v.id);
+    // This variant alone, as saved: its lines are known now, not when the live figures next arrive.
+    const problems = resolveFamily({ ...service.book, variants: service.book.variants.filter((x) => x.id === v.id) }).problems;
     const line = `Saved r_s1…r_s${n} for ${v.code}: ${result.steps.map((s) => formatValue(s.chosenR, 'Ω')).join(', ')}.`;
     this.message =
       problems.length === 0

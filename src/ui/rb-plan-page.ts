@@ -12,6 +12,7 @@ import type { Plan, SupplierSuggestion } from '../domain/planning.ts';
 import type { Result } from '../domain/costing.ts';
 import { buildRun } from '../domain/stock.ts';
 import { partStatus, planBook, runNeeds, runStatus } from '../io/plan-export.ts';
+import { CostingService } from './costing-service.ts';
 import { BookController } from './book-context.ts';
 import { downloadOrderDoc, printOrderDoc } from './rb-order-doc.ts';
 import './rb-plan-settings.ts';
@@ -23,14 +24,14 @@ import { pageStyles, problemStyles } from './styles.ts';
 export class RbPlanPage extends LitElement {
   static override styles = [pageStyles, problemStyles, buyingStyles];
 
-  private readonly books = new BookController(this);
+  private readonly books = new BookController(this, { figures: true });
   @state() private date = todayIso();
   @state() private horizon = '';
   @state() private message: { text: string; bad: boolean } | undefined;
   @state() private busy = false;
   /** The run whose costing with stock is shown. */
   @state() private costed: string | undefined;
-  private cache: { book: Book; key: string; plan: Result<Plan> } | undefined;
+  private cache: { book: Book; key: string; figures: number; plan: Result<Plan> } | undefined;
 
   private horizonDays(book: Book): number | undefined {
     const t = this.horizon.trim();
@@ -43,7 +44,13 @@ export class RbPlanPage extends LitElement {
     if (!isIsoDate(this.date)) return { ok: false, error: 'the plan date must be a calendar date YYYY-MM-DD' };
     if (h === undefined || !Number.isInteger(h) || h < 1 || h > 3650) return { ok: false, error: 'the horizon must be a whole number of days from 1 to 3,650' };
     const key = `${this.date}|${h}`;
-    if (this.cache?.book !== book || this.cache.key !== key) this.cache = { book, key, plan: planBook(book, { today: this.date, horizonDays: h }) };
+    // Each variant's lines as the live figures resolve them (off the page's thread); planned again when they move.
+    const costing = CostingService.for(this.books.service!);
+    const resolution = costing.resolution();
+    if (costing.empty) return { ok: false, error: 'The plan follows once every variant\'s build lines are worked out…' };
+    if (this.cache?.book !== book || this.cache.key !== key || this.cache.figures !== costing.version) {
+      this.cache = { book, key, figures: costing.version, plan: planBook(book, { today: this.date, horizonDays: h }, resolution) };
+    }
     return this.cache.plan;
   }
 
