@@ -93,7 +93,13 @@ async function start(dataDir: string, values: { port?: string; host?: string; ow
   const shown = host.includes(':') ? `[${host}]` : host;
   console.log(`Rungbook team server: give the app this address: http://${shown}:${actual}/`);
   console.log(`data folder ${dataDir}; pages from ${allowOrigins.join(', ')} may use it; stop with Ctrl+C`);
-  const stop = (): void => void server.close(() => process.exit(0));
+  const stop = (): void => {
+    // Connections kept open for a next request close now; requests being answered get two seconds to finish (a
+    // replication's long wait for changes would otherwise hold the stop for as long as it waits).
+    server.close(() => process.exit(0));
+    server.closeIdleConnections();
+    setTimeout(() => server.closeAllConnections(), 2000).unref();
+  };
   process.once('SIGINT', stop);
   process.once('SIGTERM', stop);
 }

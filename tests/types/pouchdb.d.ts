@@ -24,6 +24,9 @@ declare module 'pouchdb-core' {
   }
   /** A running replication: awaited for its result, or listened to while live. */
   export interface Replication extends PromiseLike<ReplicationResult> {
+    /** Of a replication both ways (sync): each direction on its own. */
+    readonly push?: Replication;
+    readonly pull?: Replication;
     on(event: string, listener: (info: never) => void): this;
     once(event: string, listener: (info: never) => void): this;
     cancel(): void;
