@@ -13,6 +13,17 @@ import { writeBookFile } from './book-file.ts';
 import type { Figures } from './harness.ts';
 import { round } from './stats.ts';
 
+/** A page-side query through shadow roots (`deep(root, selector)`), as source text for the probes below and others. */
+export const DEEP_QUERY = `const deep = (root, sel) => {
+    const hit = root.querySelector(sel);
+    if (hit) return hit;
+    for (const el of root.querySelectorAll('*')) {
+      const inner = el.shadowRoot ? deep(el.shadowRoot, sel) : null;
+      if (inner) return inner;
+    }
+    return null;
+  };`;
+
 /**
  * Runs in every document before the app's scripts: records long tasks (start, duration) and, each animation frame,
  * the longest gap between frames since `__rbMark()` was last called. A string, so no build helper leaks in.
@@ -29,15 +40,7 @@ export const LONG_TASK_PROBE = `(() => {
   window.__rbMark = () => { gap.max = 0; gap.last = performance.now(); return gap.last; };
   const tick = () => { const now = performance.now(); gap.max = Math.max(gap.max, now - gap.last); gap.last = now; requestAnimationFrame(tick); };
   requestAnimationFrame(tick);
-  const deep = (root, sel) => {
-    const hit = root.querySelector(sel);
-    if (hit) return hit;
-    for (const el of root.querySelectorAll('*')) {
-      const inner = el.shadowRoot ? deep(el.shadowRoot, sel) : null;
-      if (inner) return inner;
-    }
-    return null;
-  };
+  ${DEEP_QUERY}
   window.__rbDeep = (sel) => deep(document, sel);
   window.__rbCost = (code, run, w) => {
     const table = deep(document, '[data-testid="family-table"]');

@@ -17,6 +17,7 @@ import type { Database, Doc } from 'pouchdb-core';
 import type { PreviewServer } from 'vite';
 import type { Book, CollectionName } from '../../src/domain/book.ts';
 import { COLLECTIONS } from '../../src/domain/book.ts';
+import { DEEP_QUERY } from './responsive.ts';
 import { bookDelta } from '../../src/domain/book-ops.ts';
 import { importPrices } from '../../src/io/price-import.ts';
 import { docsForChange } from '../../src/store/shared-docs.ts';
@@ -44,15 +45,7 @@ const POLL_MS = 20;
  * build helper leaks in.
  */
 const TEAM_PROBE = `(() => {
-  const deep = (root, sel) => {
-    const hit = root.querySelector(sel);
-    if (hit) return hit;
-    for (const el of root.querySelectorAll('*')) {
-      const inner = el.shadowRoot ? deep(el.shadowRoot, sel) : null;
-      if (inner) return inner;
-    }
-    return null;
-  };
+  ${DEEP_QUERY}
   const now = () => performance.timeOrigin + performance.now();
   const probe = { lastClick: undefined, now, deep: (sel) => deep(document, sel) };
   window.__rbTeam = probe;

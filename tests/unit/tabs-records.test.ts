@@ -12,6 +12,7 @@ import { quoteBucketKey } from '../../src/store/schema.ts';
 import { StoredRecordsInvalid } from '../../src/store/types.ts';
 import { BookService } from '../../src/ui/book-service.ts';
 import { sampleBook } from '../fixtures/sample-book.ts';
+import { nextChange } from '../fixtures/book-service-events.ts';
 
 // The whole-Book check, counted: every call still runs the real one.
 vi.mock('../../src/domain/schema.ts', async (importOriginal) => {
@@ -33,19 +34,6 @@ afterEach(() => {
   for (const s of opened.splice(0)) s.close();
   vi.restoreAllMocks();
 });
-
-/** Resolves once the service emits a change about `what`. */
-function nextChange(s: BookService, what: string): Promise<void> {
-  return new Promise((resolve) => {
-    const on = (ev: Event) => {
-      if ((ev as CustomEvent<{ what: string }>).detail.what === what) {
-        s.removeEventListener('change', on);
-        resolve();
-      }
-    };
-    s.addEventListener('change', on);
-  });
-}
 
 function part(id: string, mpn: string): Part {
   return { id, rev: 0, mpn, maker: 'Invented Test Works', description: 'test part', kind: 'resistor', ratings: {}, package: '0603' };

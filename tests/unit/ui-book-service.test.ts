@@ -7,6 +7,7 @@ import { demoBook } from '../../src/domain/demo-book.ts';
 import { BookService, isFirstStart } from '../../src/ui/book-service.ts';
 import { emptyBook } from '../../src/domain/book.ts';
 import { checkSheetTexts } from '../../src/ui/check-sheets.ts';
+import { nextChange } from '../fixtures/book-service-events.ts';
 
 const opened: BookService[] = [];
 let dbCount = 0;
@@ -21,19 +22,6 @@ afterEach(() => {
 
 function part(id: string, mpn: string): Part {
   return { id, rev: 0, mpn, maker: 'Invented Test Works', description: 'test part', kind: 'resistor', ratings: {}, package: '0603' };
-}
-
-/** Resolves once the service emits a change about `what`. */
-function nextChange(s: BookService, what: string): Promise<void> {
-  return new Promise((resolve) => {
-    const on = (ev: Event) => {
-      if ((ev as CustomEvent<{ what: string }>).detail.what === what) {
-        s.removeEventListener('change', on);
-        resolve();
-      }
-    };
-    s.addEventListener('change', on);
-  });
 }
 
 describe('Book service', () => {
