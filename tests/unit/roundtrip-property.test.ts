@@ -102,7 +102,7 @@ function linked(raw: unknown): unknown {
     if (r.status === 'built') r.builtDate ??= '2025-01-01';
     else delete r.builtDate;
   }
-  linkStock(book, parts, suppliers, ids('runs'));
+  linkStock(book, parts, suppliers, ids('runs'), ids('importBatches'));
   if ('variants' in book) book.variants = uniqueBy(records(book, 'variants'), 'code');
   if ('checks' in book) book.checks = uniqueBy(records(book, 'checks'), 'name');
 
@@ -134,9 +134,10 @@ const MOVE_SIGN: Record<string, number> = { received: 1, issued: -1, scrapped: -
 /**
  * Orders and stock movements that hold together: orders name a supplier and parts, unique numbers, lines; a
  * movement naming an order becomes a receipt on one of its lines; each line's `received` is the sum of its
- * receipts (the ordered quantity raised to it where needed); signs fit the kind; statuses follow what came in.
+ * receipts (the ordered quantity raised to it where needed); signs fit the kind; statuses follow what came in; an
+ * undoing movement names a batch of the Book.
  */
-function linkStock(book: Rec, parts: string[], suppliers: string[], runs: string[]): void {
+function linkStock(book: Rec, parts: string[], suppliers: string[], runs: string[], batches: string[]): void {
   const pick = (list: string[], i: number): string | undefined => (list.length ? list[i % list.length] : undefined);
   const orders = uniqueBy(records(book, 'orders'), 'number')
     .filter((o) => suppliers.length > 0 && parts.length > 0 && records(o, 'lines').length > 0)
@@ -166,6 +167,11 @@ function linkStock(book: Rec, parts: string[], suppliers: string[], runs: string
         const r = pick(runs, i);
         if (r === undefined) delete out.runId;
         else out.runId = r;
+      }
+      if (out.undoes !== undefined) {
+        const b = pick(batches, i);
+        if (b === undefined) delete out.undoes;
+        else out.undoes = b;
       }
       return out;
     });
