@@ -247,6 +247,9 @@ export class ShareBridge extends EventTarget {
         where.set(name, err ? { failed: describe(err) } : 'paused');
         if (!err && name === 'push') this.status.waiting = 0;
         settle();
+        // Caught up: the conflicts are counted afresh (a merged record that arrived as the very revision this copy
+        // wrote changes nothing here, so nothing else would count them again).
+        if (!err) void this.queue(() => this.countConflicts());
       });
       r.on('active', () => {
         where.set(name, 'active');

@@ -185,9 +185,11 @@ export class RbSharingPage extends LitElement {
 
   private renderShared(service: BookService, s: ShareStatus, target: ShareTarget): TemplateResult {
     const state = { synced: 'synced', syncing: 'syncing…', offline: 'offline — changes are kept and sent on reconnect', stopped: 'stopped' }[s.state];
+    // The records listed below, counted from the list itself so the two always agree.
+    const conflicts = new Set(this.conflicts.map((c) => c.docId)).size;
     return html`<p class="status" role="status">
-        Shared as ${target.user} (${s.role ?? 'role unknown'}) on ${target.server}${target.book}: ${state}${s.waiting ? `; ${s.waiting} waiting to be sent` : ''}${s.conflicts
-          ? `; ${s.conflicts} ${s.conflicts === 1 ? 'record' : 'records'} with conflicts to resolve`
+        Shared as ${target.user} (${s.role ?? 'role unknown'}) on ${target.server}${target.book}: ${state}${s.waiting ? `; ${s.waiting} waiting to be sent` : ''}${conflicts
+          ? `; ${conflicts} ${conflicts === 1 ? 'record' : 'records'} with conflicts to resolve`
           : ''}
       </p>
       ${s.role === 'reader' ? html`<p class="hint">As a reader you may read and export this Book; a change you try to save is refused and nothing is written.</p>` : nothing}
