@@ -108,6 +108,8 @@ describe('row checks', () => {
   });
 
   it('keeps each break’s own MOQ: a break whose MOQ is above its quantity starts at that MOQ, named in a note', async () => {
+    // The rule is common practice (no published source): a distributor sells a price break from its own minimum
+    // order, so a break cannot be bought below its MOQ whatever its quantity column says.
     const a = await analyse('MPN,Qty,Price,MOQ\nQT-R10K-06,1,0.05,10\nQT-R10K-06,100,0.04,50\n');
     expect(a.problems).toEqual([]);
     expect(a.offers).toHaveLength(1);
