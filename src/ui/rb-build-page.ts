@@ -121,6 +121,9 @@ export class RbBuildPage extends LitElement {
       tr.off td.code {
         text-decoration: line-through;
       }
+      tr.saving td {
+        color: var(--rb-na);
+      }
       tr.problem td {
         background: var(--rb-fail-bg);
       }
@@ -193,6 +196,12 @@ export class RbBuildPage extends LitElement {
   @state() private historyMessage: string | undefined;
 
   @state() private editing: Editing | undefined;
+  /**
+   * Line edits shown in the table while they are tried on the variants and stored: the form closes at once and the
+   * row shows the edit marked as saving. A save that fails puts the row back as stored and opens the form again with
+   * the reason (or, when another line is being edited by then, says it on the row).
+   */
+  @state() private saving: ReadonlyMap<string, BuildLine> = new Map();
   @state() private confirmDelete: string | undefined;
   @state() private rowProblem: { id: string; message: string } | undefined;
   @state() private filter = '';
@@ -244,7 +253,9 @@ export class RbBuildPage extends LitElement {
   private renderLines(book: Book, family: FamilyResolution): TemplateResult {
     const f = this.filter.trim().toLowerCase();
     const parts = this.parts(book);
-    const all = orderedLines(book);
+    const saving = this.saving;
+    const stored = orderedLines(book);
+    const all = saving.size === 0 ? stored : stored.map((l) => saving.get(l.id) ?? l);
     const lines = f
       ? all.filter((l) =>
           `${l.designators} ${l.partRule ?? ''} ${parts.get(l.partId ?? '')?.mpn ?? ''} ${l.category} ${l.role ?? ''} ${l.appliesWhen} ${l.notes ?? ''}`
@@ -306,8 +317,9 @@ export class RbBuildPage extends LitElement {
     const tried = summary?.variants ?? 0;
     const confirming = this.confirmDelete === l.id;
     const rowProblem = this.rowProblem?.id === l.id ? this.rowProblem.message : undefined;
+    const saving = this.saving.has(l.id);
     const defaultAttrition = part ? (book.settings.attrition[part.kind] ?? book.settings.attrition['default']) : book.settings.attrition['default'];
-    return html`<tr class="${this.editing?.line?.id === l.id ? 'editing' : ''} ${bad.length ? 'problem' : ''}" data-id=${l.id}>
+    return html`<tr class="${this.editing?.line?.id === l.id ? 'editing' : ''} ${bad.length ? 'problem' : ''} ${saving ? 'saving' : ''}" data-id=${l.id}>
       <td class="num">${index + 1}</td>
       <td class="code">${l.designators}</td>
       <td class="rule">
@@ -328,12 +340,16 @@ export class RbBuildPage extends LitElement {
         ${pin ? html`<small class="role">pinned: ${pin.name}</small>` : l.pinnedSupplierId ? html`<small class="bad">pinned to a supplier not in the Book</small>` : ''}
       </td>
       <td class="status" data-testid="line-status">
-        ${bad.length
+        ${saving
+          ? html`<span class="muted" role="status">saving…</span>`
+          : bad.length
           ? html`<span class="bad">fails for ${bad.join(', ')}: ${summary!.problem}</span>`
           : html`<span class="ok" title="fitted on ${applying} of ${tried} variants">${applying} of ${tried}</span>`}
       </td>
       <td class="acts">
-        ${confirming
+        ${saving
+          ? ''
+          : confirming
           ? html`Delete ${l.designators}?
               <button type="button" class="danger" @click=${() => this.delete(l)}>Delete</button>
               <button type="button" class="quiet" @click=${() => (this.confirmDelete = undefined)}>Keep</button>`
@@ -628,32 +644,60 @@ export class RbBuildPage extends LitElement {
       await focusFirstProblem(this);
       return;
     }
+    // An edited line is shown in the table at once, marked as saving, while it is tried and stored.
+    if (held) this.showSaving(held.id, v.record);
     let outcomes: LineOutcome[];
     try {
       outcomes = await CostingService.for(service).trialLine(v.record);
     } catch (err) {
-      this.editing = { ...e, saveError: `The line could not be tried on the variants; nothing was saved: ${err instanceof Error ? err.message : String(err)}` };
+      this.failed(e, { saveError: `The line could not be tried on the variants; nothing was saved: ${err instanceof Error ? err.message : String(err)}` });
       return;
     }
     const problems = trialProblems(outcomes);
     if (Object.keys(problems).length > 0) {
-      this.editing = { ...e, problems, preview: outcomes };
-      await focusFirstProblem(this);
+      if (this.failed(e, { problems, preview: outcomes })) await focusFirstProblem(this);
       return;
     }
-    this.editing = { ...e, problems: {}, preview: outcomes };
     const result = await service.save({ put: { buildLines: [v.record] } });
-    if (result.ok) {
-      this.remember(`${held ? 'edit' : 'add'} line ${v.record.designators}`, [held], [v.record.id]);
-      this.editing = undefined;
-      this.dispatchEvent(
-        new CustomEvent<NoticeDetail>('rb-notice', {
-          detail: { tone: 'done', title: `Build line ${v.record.designators} saved`, lines: [] },
-          bubbles: true,
-          composed: true,
-        }),
-      );
-    } else this.editing = { ...e, problems: {}, saveError: result.message };
+    if (!result.ok) {
+      this.failed(e, { problems: {}, saveError: result.message });
+      return;
+    }
+    if (held) this.showSaving(held.id, undefined);
+    this.remember(`${held ? 'edit' : 'add'} line ${v.record.designators}`, [held], [v.record.id]);
+    // A new line's form stays open while it saves; an edited line's form closed when its row showed the edit.
+    if (!held) this.editing = undefined;
+    this.dispatchEvent(
+      new CustomEvent<NoticeDetail>('rb-notice', {
+        detail: { tone: 'done', title: `Build line ${v.record.designators} saved`, lines: [] },
+        bubbles: true,
+        composed: true,
+      }),
+    );
+  }
+
+  /** Shows `line` in the table in place of the stored line `id` while it saves (closing its form), or stops. */
+  private showSaving(id: string, line: BuildLine | undefined): void {
+    const next = new Map(this.saving);
+    if (line) next.set(id, line);
+    else next.delete(id);
+    this.saving = next;
+    if (line && this.editing?.line?.id === id) this.editing = undefined;
+  }
+
+  /**
+   * A line edit that was not saved: its row goes back to the line as stored, and the form opens again with the edit
+   * and why; when another edit has the form by then, the reason is said on the row. True when the form was opened.
+   */
+  private failed(e: Editing, why: Partial<Editing>): boolean {
+    const id = e.line?.id;
+    if (id) this.showSaving(id, undefined);
+    if (!id || this.editing === undefined || this.editing === e) {
+      this.editing = { ...e, ...why };
+      return true;
+    }
+    if (id) this.rowProblem = { id, message: why.saveError ?? `Not saved: ${Object.values(why.problems ?? {}).join('; ')}` };
+    return false;
   }
 
   private async move(l: BuildLine, step: -1 | 1): Promise<void> {

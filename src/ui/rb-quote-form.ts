@@ -12,7 +12,8 @@ import type { QuoteDraft, QuoteProblems } from './quote-text.ts';
 import { quoteDraft, validateQuote } from './quote-text.ts';
 import { pageStyles } from './styles.ts';
 
-export type QuoteSubmitDetail = { quote: Quote };
+/** The quote to save, and the draft it was read from (to show again if the save fails). */
+export type QuoteSubmitDetail = { quote: Quote; draft: QuoteDraft };
 
 @customElement('rb-quote-form')
 export class RbQuoteForm extends LitElement {
@@ -41,13 +42,15 @@ export class RbQuoteForm extends LitElement {
   /** The quote being edited; undefined for a new quote. */
   @property({ attribute: false }) quote: Quote | undefined;
   @property({ attribute: false }) saveError: string | undefined;
+  /** The draft to show instead of the quote as stored: an edit whose save failed, opened again. */
+  @property({ attribute: false }) draftShown: QuoteDraft | undefined;
 
   @state() private draft: QuoteDraft = quoteDraft(undefined, todayIso());
   @state() private problems: QuoteProblems = {};
 
   override willUpdate(changed: PropertyValues<this>): void {
     if (changed.has('quote')) {
-      this.draft = quoteDraft(this.quote, this.book?.settings.costingDate ?? todayIso());
+      this.draft = this.draftShown ?? quoteDraft(this.quote, this.book?.settings.costingDate ?? todayIso());
       this.problems = {};
     }
   }
@@ -192,7 +195,7 @@ export class RbQuoteForm extends LitElement {
       return;
     }
     this.problems = {};
-    this.dispatchEvent(new CustomEvent<QuoteSubmitDetail>('rb-quote-submit', { detail: { quote: r.quote }, bubbles: true, composed: true }));
+    this.dispatchEvent(new CustomEvent<QuoteSubmitDetail>('rb-quote-submit', { detail: { quote: r.quote, draft: this.draft }, bubbles: true, composed: true }));
   }
 
   private _onCancel(): void {

@@ -14,8 +14,10 @@ import type { QuoteSubmitDetail } from './rb-quote-form.ts';
 import { breaksText, leadText, qtyText, quoteStatus } from './quote-text.ts';
 import { pageStyles } from './styles.ts';
 import { ProgressiveRows } from './progressive.ts';
+import type { QuoteDraft } from './quote-text.ts';
 
-type Editing = { quote: Quote | undefined; saveError?: string };
+/** The quote in the form, why its last save failed, and the draft that failed (shown again). */
+type Editing = { quote: Quote | undefined; saveError?: string; draft?: QuoteDraft };
 
 function n(count: number): string {
   return grouped(count);
@@ -87,6 +89,9 @@ export class RbQuotesPage extends LitElement {
       .find select {
         max-width: 16rem;
       }
+      tr.saving td {
+        color: var(--rb-na);
+      }
       label.check {
         font-size: 0.9rem;
       }
@@ -106,6 +111,12 @@ export class RbQuotesPage extends LitElement {
   @state() private shown = PAGE_ROWS;
   @state() private confirmDelete: string | undefined;
   @state() private rowProblem: { id: string; message: string } | undefined;
+  /**
+   * Quote edits shown in the list while they are stored: the form closes at once and the row shows the edit marked
+   * as saving. A save that fails puts the row back as stored and opens the form again with the edit and the reason
+   * (or, when another quote is in the form by then, says it on the row).
+   */
+  @state() private saving: ReadonlyMap<string, Quote> = new Map();
   private rowCache: { key: unknown[]; rows: Quote[] } | undefined;
 
   override render() {
@@ -116,6 +127,7 @@ export class RbQuotesPage extends LitElement {
             .book=${book}
             .quote=${this.editing.quote}
             .saveError=${this.editing.saveError}
+            .draftShown=${this.editing.draft}
             @rb-quote-submit=${this._onSubmit}
             @rb-quote-cancel=${() => (this.editing = undefined)}
           ></rb-quote-form>`
@@ -268,15 +280,21 @@ export class RbQuotesPage extends LitElement {
     this.shown = PAGE_ROWS;
   };
 
-  private renderRow(q: Quote, part: Part | undefined, supplier: Supplier | undefined, date: string, byId: Map<string, Quote>) {
+  private renderRow(stored: Quote, part: Part | undefined, supplier: Supplier | undefined, date: string, byId: Map<string, Quote>) {
+    const pending = this.saving.get(stored.id);
+    const q = pending ?? stored;
     const status = quoteStatus(q, date, q.supersededBy ? byId.get(q.supersededBy) : undefined);
     const confirming = this.confirmDelete === q.id;
     const problem = this.rowProblem?.id === q.id ? this.rowProblem.message : undefined;
     const editing = this.editing?.quote?.id === q.id;
-    return html`<tr class="${status.state}${editing ? ' editing' : ''}" data-id=${q.id} data-state=${status.state}>
+    return html`<tr class="${status.state}${editing ? ' editing' : ''}${pending ? ' saving' : ''}" data-id=${q.id} data-state=${status.state}>
       <td class="code">${part?.mpn ?? `(missing part ${q.partId})`}<span class="part-desc">${part?.description ?? ''}</span></td>
       <td class="supplier">${supplier?.name ?? q.supplierId}</td>
-      <td class="status-cell"><span class="status ${status.state}">${status.symbol} ${status.words}</span></td>
+      <td class="status-cell">
+        ${pending
+          ? html`<span class="status" role="status">saving…</span>`
+          : html`<span class="status ${status.state}">${status.symbol} ${status.words}</span>`}
+      </td>
       <td class="breaks">${breaksText(q.breaks)}</td>
       <td class="code">${q.currency}</td>
       <td class="num">${qtyText(q.moq)}</td>
@@ -287,14 +305,16 @@ export class RbQuotesPage extends LitElement {
       <td class="code">${q.supplierCode}</td>
       <td class="code">${q.source}</td>
       <td class="acts">
-        ${rowActions({
+        ${pending
+          ? ''
+          : rowActions({
           confirming,
           question: `Delete this quote?`,
           onDelete: () => this.delete(q),
           onKeep: () => (this.confirmDelete = undefined),
           onEdit: () => this.startEdit(q),
-          onAskDelete: () => this.askDelete(q),
-        })}
+              onAskDelete: () => this.askDelete(q),
+            })}
         ${problem ? html`<div class="problem" role="alert">✗ ${problem}</div>` : ''}
       </td>
     </tr>`;
@@ -322,10 +342,24 @@ export class RbQuotesPage extends LitElement {
     }
     // A new quote for a part and supplier replaces their current one, which stays in the Book as superseded.
     const replaced = e.quote ? [] : supersede(currentQuoteIndex(book.quotes), q);
+    // An edited quote is shown in the list at once, marked as saving, while it is stored.
+    if (e.quote) this.showSaving(q.id, q);
     const result = await service.save({ put: { quotes: [...replaced, q] } });
-    if (result.ok) this.editing = undefined;
-    else this.editing = { ...e, saveError: result.message };
+    if (e.quote) this.showSaving(q.id, undefined);
+    if (result.ok) {
+      if (!e.quote) this.editing = undefined;
+    } else if (!e.quote || this.editing === undefined) this.editing = { ...e, saveError: result.message, draft: ev.detail.draft };
+    else this.rowProblem = { id: q.id, message: result.message };
   };
+
+  /** Shows `quote` in the list in place of the stored quote `id` while it saves (closing its form), or stops. */
+  private showSaving(id: string, quote: Quote | undefined): void {
+    const next = new Map(this.saving);
+    if (quote) next.set(id, quote);
+    else next.delete(id);
+    this.saving = next;
+    if (quote && this.editing?.quote?.id === id) this.editing = undefined;
+  }
 
   private askDelete(q: Quote): void {
     this.rowProblem = undefined;
