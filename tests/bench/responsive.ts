@@ -1,6 +1,6 @@
 // What a person feels in the built app, in Chromium, with the reference family (200 variants × 80 build lines) opened
 // through the Book menu: for each step — the open, a parameter edit in the Family grid, its undo, a quote price edit
-// on the Quotes page, a quantity edit on the Build page, page switches — the time from the person's action to its
+// on the Quotes page, a quantity edit and a rule edit (a line's applies-when formula) on the Build page, page switches — the time from the person's action to its
 // visible effect, and the longest main-thread task meanwhile (Long Tasks API: tasks of 50 ms or more; none = 0)
 // with the longest gap between painted frames. An edit's effect is shown twice: the edited value itself, and the
 // unit cost on the Family page worked out again from it (for edits made on another page, that includes going back
@@ -191,6 +191,21 @@ export async function responsiveFigures(context: BrowserContext, appUrl: string,
     await rail(page, 'family');
     const qtyCost = await gridCost(page, first, run, { not: priceCost.text });
     await record('quantity_edit', page, t0, { visible: qtyShown, cost: qtyCost.at });
+
+    // A rule edit on the Build page: another line the variant buys applies to every variant but this one (a formula
+    // over a parameter), shown in the Build table, then its unit cost on the Family page.
+    const ruled = book.buildLines.find((l) => l.id !== line.id && /^\d+$/.test(l.qtyRule) && l.appliesWhen === '' && l.partId !== undefined)!;
+    const when = `steps <> ${steps}`;
+    await rail(page, 'build');
+    await page.locator(`[data-testid="build-lines"] tbody tr[data-id="${ruled.id}"]`).getByRole('button', { name: 'edit' }).click();
+    await page.locator('#f-appliesWhen input').fill(when);
+    t0 = await mark(page);
+    await page.getByRole('button', { name: 'Save the line' }).click();
+    await page.locator(`[data-testid="build-lines"] tbody tr[data-id="${ruled.id}"] code`, { hasText: when }).first().waitFor();
+    const ruleShown = (await page.evaluate('performance.now()')) as number;
+    await rail(page, 'family');
+    const ruleCost = await gridCost(page, first, run, { not: qtyCost.text });
+    await record('rule_edit', page, t0, { visible: ruleShown, cost: ruleCost.at });
 
     // Page switches with the large family: to Compare and back.
     t0 = await mark(page);
