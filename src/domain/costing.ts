@@ -291,12 +291,17 @@ export function quoteProblem(q: Quote, date: string, rate: number | undefined): 
   return undefined;
 }
 
-/** Indexes a Book for costing at a date (default: settings.costingDate, else today). Bad settings give an error. */
+/** The date a Book is costed at unless one is asked for: its settings' costing date, else today. */
+export function costingDateOf(settings: Book['settings']): string {
+  return settings.costingDate ?? todayIso();
+}
+
+/** Indexes a Book for costing at a date (default: costingDateOf). Bad settings give an error. */
 export function prepareCosting(book: Book, options: { date?: string } = {}): Result<CostingContext> {
   const settings = book.settings;
   const bad = settingsProblem(settings);
   if (bad) return fail(`cost settings: ${bad}`);
-  const date = options.date ?? settings.costingDate ?? todayIso();
+  const date = options.date ?? costingDateOf(settings);
   if (!isIsoDate(date)) return fail(`costing date must be YYYY-MM-DD, got ${date}`);
   const parts = new Map(book.parts.map((p) => [p.id, p] as const));
   const suppliers = new Map(book.suppliers.map((s) => [s.id, s] as const));

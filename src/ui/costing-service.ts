@@ -13,7 +13,7 @@ import { bookDelta } from '../domain/book-ops.ts';
 import { CHECK_STATUS, worstOf } from '../domain/check-status.ts';
 import type { CheckStatus } from '../domain/check-status.ts';
 import { SYNC_KINDS } from '../engine/figures-kinds.ts';
-import type { CostingChangeDetail, FiguresUpdate } from '../engine/figures-kinds.ts';
+import type { CostingChangeDetail, FiguresUpdate, UnitCostFigure } from '../engine/figures-kinds.ts';
 import type { LiveFigures } from '../engine/figures.ts';
 import { stageQuotes } from '../engine/figures-protocol.ts';
 import type { FiguresMessage, FiguresRequest, WhatIfRequest } from '../engine/figures-protocol.ts';
@@ -48,6 +48,13 @@ export interface FiguresWorkerLike {
   postMessage(message: FiguresRequest): void;
   terminate(): void;
 }
+
+/**
+ * The build of the engines that work figures out, for figures kept between starts (figures-keep.ts): in a production
+ * build this module's address, which the build names after its content, the figures worker's address included.
+ * Undefined elsewhere: a development server serves changed code at the same address.
+ */
+export const ENGINE_BUILD: string | undefined = import.meta.env?.PROD ? import.meta.url : undefined;
 
 function startWorker(): FiguresWorkerLike {
   return new Worker(new URL('../engine/figures-worker.ts', import.meta.url), { type: 'module' }) as unknown as FiguresWorkerLike;
@@ -255,6 +262,41 @@ export class CostingService extends EventTarget {
       }
     }
     return this.ask<CheckTrialAnswer>((id) => ({ type: 'checktrial', id, ...request }));
+  }
+
+  /**
+   * Shows figures kept from an earlier start for the Book as it is now (figures-keep.ts checked they are of this very
+   * Book), before the worker has worked them out. The worker is sent the Book at once, and its answer replaces them.
+   * Only where figures come from a worker and none are held yet.
+   */
+  seed(update: FiguresUpdate): boolean {
+    if (this.shown !== undefined || this.sent !== undefined || !this.makeWorker) return false;
+    this.shown = this.books.book;
+    this.take(update);
+    this.send();
+    return true;
+  }
+
+  /**
+   * The figures held, whole, with the Book they are of, when they are settled (the worker's, of the Book as it is now,
+   * with no answer awaited) and complete (no figure refused as a whole): for keeping until the next start.
+   */
+  settled(): { book: Book; update: FiguresUpdate } | undefined {
+    const book = this.shown;
+    if (!book || !this.makeWorker || book !== this.books.book || book !== this.sent || this.inFlight) return undefined;
+    if (this.costingError !== undefined || this.familyError !== undefined) return undefined;
+    const costs: UnitCostFigure[] = [];
+    const changed: { variantId: string; run: number }[] = [];
+    for (const [variantId, row] of this.costs) {
+      row.forEach((value, k) => {
+        const run = this.runSizesHeld[k]!;
+        const problem = this.problems.get(`${variantId}\u0000${run}`);
+        costs.push(problem === undefined ? { variantId, run, value } : { variantId, run, value, problem });
+        changed.push({ variantId, run });
+      });
+    }
+    const variants = [...this.results].map(([variantId, results]) => ({ variantId, results, lines: this.lines.get(variantId) }));
+    return { book, update: { kind: SYNC_KINDS.rebuilt, changed, checks: true, runSizes: [...this.runSizesHeld], costs, costsFull: true, variants, checksFull: true } };
   }
 
   /** Sends the worker a question; its answer (in order after every change sent before it) settles the promise. */

@@ -8,8 +8,9 @@ import { keyed } from 'lit/directives/keyed.js';
 import { BOOK_FILE_EXTENSION } from '../io/book-file.ts';
 import { StoredBookInvalid } from '../store/types.ts';
 import { bookContext } from './book-context.ts';
-import { BookService } from './book-service.ts';
-import { CostingService, warmFiguresWorker } from './costing-service.ts';
+import { BookService, DEFAULT_DB_NAME } from './book-service.ts';
+import { CostingService, ENGINE_BUILD, warmFiguresWorker } from './costing-service.ts';
+import { followFigures, keptFiguresOf, readKeptFigures } from './figures-keep.ts';
 import { PAGES, START_PAGE, notebookRoute, parseRoute } from './pages.ts';
 import { sessionShare } from './share-session.ts';
 import type { PageEntry, Route } from './pages.ts';
@@ -253,7 +254,11 @@ export class RbApp extends LitElement {
     this.removeEventListener('rb-notice', this._onNotice);
     this.removeEventListener('rb-book-action', this._onBookAction);
     if (this.phase.kind === 'open') this.phase.service.close();
+    this.stopKeeping?.();
   }
+
+  /** Stops keeping the figures for the next start (see figures-keep.ts). */
+  private stopKeeping: (() => void) | undefined;
 
   private async open(): Promise<void> {
     try {
@@ -261,9 +266,17 @@ export class RbApp extends LitElement {
       // the code of the page asked for (show() then finds it loaded; a failure is reported there).
       warmFiguresWorker();
       if (this.route.kind === 'page') this.route.entry.load?.().catch(() => undefined);
-      const service = await BookService.open();
+      // Figures kept from the last start are read beside the Book, and shown at once if they are of this very Book.
+      const kept = ENGINE_BUILD === undefined ? undefined : readKeptFigures(DEFAULT_DB_NAME);
+      const service = await BookService.open(DEFAULT_DB_NAME);
+      const costing = CostingService.for(service);
+      if (ENGINE_BUILD !== undefined) {
+        const figures = await keptFiguresOf(await kept, service.book, ENGINE_BUILD);
+        if (figures) costing.seed(figures);
+        this.stopKeeping = followFigures(costing, service.name, ENGINE_BUILD);
+      }
       // Figures are worked out off the page's thread from now on, while the first page's code still loads.
-      CostingService.for(service).sync();
+      costing.sync();
       service.addEventListener('change', this.onServiceChange);
       this.provider.setValue(service);
       this.phase = { kind: 'open', service };

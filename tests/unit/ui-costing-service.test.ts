@@ -14,11 +14,10 @@ import { loadBuiltInChecks } from '../../src/cli/check-sheets-fs.ts';
 import { costVariant } from '../../src/io/run-export.ts';
 import { referenceFamily } from '../fixtures/reference-family.ts';
 import { FiguresHost, QUOTES_PER_PART, stageQuotes } from '../../src/engine/figures-worker.ts';
-import { splitUpdate } from '../../src/engine/figures.ts';
-import type { FiguresMessage, FiguresRequest } from '../../src/engine/figures-worker.ts';
+import type { FiguresRequest } from '../../src/engine/figures-worker.ts';
+import { FakeWorker } from '../fixtures/fake-figures-worker.ts';
 import { trialProblems } from '../../src/ui/build-rules.ts';
 import { CostingService, setFiguresWorker } from '../../src/ui/costing-service.ts';
-import type { FiguresWorkerLike } from '../../src/ui/costing-service.ts';
 
 const CHECKS = loadBuiltInChecks();
 
@@ -206,43 +205,6 @@ describe('CostingService', () => {
     expect(Number.isNaN(costing.unitCost(holder.book.variants[0]!.id, 500))).toBe(true);
   });
 });
-
-/**
- * A stand-in for the figures worker: runs exactly what the worker runs (FiguresHost), copies every message as
- * postMessage does (structured clone) and answers later, as a worker would.
- */
-class FakeWorker implements FiguresWorkerLike {
-  /** Messages answered, parts included. */
-  answered = 0;
-  onmessage: ((e: MessageEvent<FiguresMessage>) => void) | null = null;
-  onerror: ((e: ErrorEvent) => void) | null = null;
-  readonly host = new FiguresHost();
-  readonly sent: FiguresRequest[] = [];
-  crash: string | undefined;
-  terminated = false;
-  postMessage(message: FiguresRequest): void {
-    const copy = structuredClone(message);
-    this.sent.push(copy);
-    setTimeout(() => {
-      if (this.terminated) return;
-      if (this.crash !== undefined) {
-        this.onerror?.({ message: this.crash, preventDefault() {} } as ErrorEvent);
-        return;
-      }
-      // Answers in parts of two variants and five unit costs, so every answer here comes in several parts.
-      const messages = this.host.handle(copy).flatMap((m): FiguresMessage[] => {
-        if (m.type !== 'figures') return [m];
-        const parts = splitUpdate(m.update, 2, 5);
-        return parts.map((update, i) => ({ ...m, update, last: m.last && i === parts.length - 1 }));
-      });
-      this.answered += messages.length;
-      for (const m of messages) this.onmessage?.({ data: structuredClone(m) } as MessageEvent<FiguresMessage>);
-    }, 0);
-  }
-  terminate(): void {
-    this.terminated = true;
-  }
-}
 
 /** Waits until the service holds the figures of the Book as it is now. */
 async function settled(costing: CostingService): Promise<void> {

@@ -1,0 +1,155 @@
+// Figures kept for the next start. The figures worker needs a second or more to load its formula engine and work a
+// Book out; meanwhile a page would show its tables without unit costs. So the live figures of a Book, once worked out
+// and settled, are kept in this browser beside it, and the next start that opens that very Book shows them at once
+// while the worker works them out again (its answer replaces them, the same figures).
+//
+// "That very Book" is checked, never assumed: the key is a SHA-256 digest of the Book as held (every record, the
+// records of each collection in order; only the order of a record's own fields is set aside, which storage may
+// change and no figure depends on), with the date it is costed at (quotes expire) and the build of the app's engines. Any other Book, the next
+// day or a new version of the app misses, and the page waits for the worker as before. The kept figures are a cache,
+// not Book data: they live in a database of their own, never in a Book file, and losing them loses nothing.
+import { openDB } from 'idb';
+import type { DBSchema } from 'idb';
+import type { Book } from '../domain/book.ts';
+import { costingDateOf } from '../domain/costing.ts';
+import type { FiguresUpdate } from '../engine/figures-kinds.ts';
+
+/** Its own database, named so it is never listed as a Book (Book databases are `rungbook` and `rungbook-…`). */
+export const KEPT_FIGURES_DB = 'kept-figures.rungbook';
+
+/**
+ * Books with more records than this keep no figures: writing the Book out to digest it would hold the page longer
+ * than the wait it saves (a few milliseconds per thousand records on a slow machine).
+ */
+export const KEEP_MAX_RECORDS = 3_000;
+
+export interface KeptFigures {
+  /** The Book's database name: one kept set of figures per Book in this browser. */
+  book: string;
+  key: string;
+  update: FiguresUpdate;
+  /** When they were kept (ISO time), for a person looking into the browser's storage. */
+  at: string;
+}
+
+interface KeptSchema extends DBSchema {
+  kept: { key: string; value: KeptFigures };
+}
+
+function recordCount(book: Book): number {
+  let n = 1;
+  for (const v of Object.values(book)) if (Array.isArray(v)) n += v.length;
+  return n;
+}
+
+/** JSON text of a value with every object's fields in name order, so two copies of one record read alike. */
+export function canonicalJson(value: unknown): string {
+  if (value === null || typeof value !== 'object') return JSON.stringify(value) ?? 'null';
+  if (Array.isArray(value)) return `[${value.map((v) => (v === undefined ? 'null' : canonicalJson(v))).join(',')}]`;
+  const o = value as Record<string, unknown>;
+  const fields: string[] = [];
+  for (const k of Object.keys(o).sort()) if (o[k] !== undefined) fields.push(`${JSON.stringify(k)}:${canonicalJson(o[k])}`);
+  return `{${fields.join(',')}}`;
+}
+
+/**
+ * The key of a Book's figures: its records in order, its costing date and the engines' build (`engine`, which must
+ * change whenever the code that works figures out does). Undefined for a Book too large to keep figures for, or where
+ * the platform has no digest.
+ */
+export async function figuresKey(book: Book, engine: string): Promise<string | undefined> {
+  if (recordCount(book) > KEEP_MAX_RECORDS || typeof crypto === 'undefined' || !crypto.subtle) return undefined;
+  const bytes = new TextEncoder().encode(canonicalJson(book));
+  const digest = new Uint8Array(await crypto.subtle.digest('SHA-256', bytes));
+  let hex = '';
+  for (const b of digest) hex += b.toString(16).padStart(2, '0');
+  return `${engine}|${costingDateOf(book.settings)}|${hex}`;
+}
+
+function open(dbName: string) {
+  return openDB<KeptSchema>(dbName, 1, {
+    upgrade(db) {
+      db.createObjectStore('kept', { keyPath: 'book' });
+    },
+  });
+}
+
+/** What is kept for the Book in database `bookDb`, whatever Book it was of; undefined when nothing or on any failure. */
+export async function readKeptFigures(bookDb: string, dbName: string = KEPT_FIGURES_DB): Promise<KeptFigures | undefined> {
+  try {
+    const db = await open(dbName);
+    try {
+      return await db.get('kept', bookDb);
+    } finally {
+      db.close();
+    }
+  } catch {
+    // A cache that cannot be read is a cache missed: the worker works the figures out as it would anyway.
+    return undefined;
+  }
+}
+
+/** The kept figures when they are of `book` exactly, at its costing date, by this build of the engines. */
+export async function keptFiguresOf(kept: KeptFigures | undefined, book: Book, engine: string): Promise<FiguresUpdate | undefined> {
+  if (!kept) return undefined;
+  const key = await figuresKey(book, engine).catch(() => undefined);
+  return key !== undefined && kept.key === key ? kept.update : undefined;
+}
+
+/** Keeps a Book's settled figures for the next start; a Book too large to key drops what was kept for it. */
+export async function keepFigures(bookDb: string, book: Book, engine: string, update: FiguresUpdate, dbName: string = KEPT_FIGURES_DB): Promise<boolean> {
+  try {
+    const key = await figuresKey(book, engine);
+    const db = await open(dbName);
+    try {
+      if (key === undefined) await db.delete('kept', bookDb);
+      else await db.put('kept', { book: bookDb, key, update, at: new Date().toISOString() });
+    } finally {
+      db.close();
+    }
+    return key !== undefined;
+  } catch {
+    // Out of space, storage turned off: the next start waits for the worker, nothing else is lost.
+    return false;
+  }
+}
+
+/** The slice of the costing service that keeping needs. */
+export interface FiguresSource extends EventTarget {
+  settled(): { book: Book; update: FiguresUpdate } | undefined;
+}
+
+/** How long the figures must stay settled before they are kept: edits come in bursts, keeping each would be waste. */
+export const KEEP_AFTER_MS = 1_500;
+
+/**
+ * Keeps the figures of `costing` each time they settle and stay so for `after` ms (the page idle, where the
+ * browser says so). Gives the function that stops it.
+ */
+export function followFigures(costing: FiguresSource, bookDb: string, engine: string, dbName: string = KEPT_FIGURES_DB, after: number = KEEP_AFTER_MS): () => void {
+  let timer: ReturnType<typeof setTimeout> | undefined;
+  let keptBook: Book | undefined;
+  let stopped = false;
+  const idle = (run: () => void): void => {
+    if (typeof requestIdleCallback === 'function') requestIdleCallback(run, { timeout: 5_000 });
+    else run();
+  };
+  const onChange = (): void => {
+    if (timer !== undefined) clearTimeout(timer);
+    timer = setTimeout(() => {
+      timer = undefined;
+      idle(() => {
+        const now = costing.settled();
+        if (stopped || !now || now.book === keptBook) return;
+        keptBook = now.book;
+        void keepFigures(bookDb, now.book, engine, now.update, dbName);
+      });
+    }, after);
+  };
+  costing.addEventListener('change', onChange);
+  return () => {
+    stopped = true;
+    if (timer !== undefined) clearTimeout(timer);
+    costing.removeEventListener('change', onChange);
+  };
+}

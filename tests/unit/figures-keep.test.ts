@@ -1,0 +1,169 @@
+// Figures kept for the next start: shown at once only for the very Book they were worked out for (records, their
+// order, costing date, engine build), and replaced by the worker's own answer, which agrees with them.
+import 'fake-indexeddb/auto';
+import { describe, expect, it } from 'vitest';
+import type { Book } from '../../src/domain/book.ts';
+import { applyChange } from '../../src/domain/book-ops.ts';
+import type { BookChange } from '../../src/domain/book-ops.ts';
+import { demoBook } from '../../src/domain/demo-book.ts';
+import { addBuiltInChecks } from '../../src/engine/check-sheets.ts';
+import { loadBuiltInChecks } from '../../src/cli/check-sheets-fs.ts';
+import { CostingService, setFiguresWorker } from '../../src/ui/costing-service.ts';
+import { KEEP_MAX_RECORDS, canonicalJson, figuresKey, followFigures, keepFigures, keptFiguresOf, readKeptFigures } from '../../src/ui/figures-keep.ts';
+import { FakeWorker } from '../fixtures/fake-figures-worker.ts';
+
+const CHECKS = loadBuiltInChecks();
+const ENGINE = 'assets/index-Ab12Cd34.js';
+
+class Holder extends EventTarget {
+  constructor(public book: Book) {
+    super();
+  }
+  change(change: BookChange): void {
+    const r = applyChange(this.book, change);
+    if (!r.ok) throw new Error(`conflict on ${r.conflict.recordId}`);
+    this.book = r.book;
+    this.dispatchEvent(new Event('change'));
+  }
+}
+
+function book(): Book {
+  return addBuiltInChecks(demoBook(), CHECKS);
+}
+
+/** The demo Book's costing service with a stand-in worker; the workers started are listed. */
+function inWorker(b: Book = book()): { holder: Holder; costing: CostingService; workers: FakeWorker[] } {
+  const workers: FakeWorker[] = [];
+  setFiguresWorker(() => {
+    const w = new FakeWorker();
+    workers.push(w);
+    return w;
+  });
+  try {
+    const holder = new Holder(b);
+    return { holder, costing: CostingService.for(holder), workers };
+  } finally {
+    setFiguresWorker(undefined);
+  }
+}
+
+async function settle(costing: CostingService): Promise<void> {
+  for (let i = 0; i < 400 && (costing.sync(), costing.settled() === undefined); i++) await new Promise((r) => setTimeout(r, 2));
+  expect(costing.settled()).toBeDefined();
+}
+
+/** Every unit cost and worst status the service shows for a Book. */
+function shown(costing: CostingService, b: Book): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  for (const v of b.variants) {
+    out[v.id] = { worst: costing.worstStatus(v.id), costs: costing.runSizes.map((run) => costing.unitCost(v.id, run)), lines: costing.resolution().variants.find((r) => r.variantId === v.id) };
+  }
+  return out;
+}
+
+let dbCount = 0;
+const freshDb = (): string => `kept-test-${++dbCount}`;
+
+describe('the key of kept figures', () => {
+  it('is the same for a copy whose records list their fields in another order, as storage may give them back', async () => {
+    const b = book();
+    const reordered: Book = { ...b, parts: b.parts.map((p) => Object.fromEntries(Object.entries(p).reverse()) as typeof p) };
+    expect(JSON.stringify(reordered)).not.toBe(JSON.stringify(b));
+    expect(canonicalJson(reordered)).toBe(canonicalJson(b));
+    expect(await figuresKey(reordered, ENGINE)).toBe(await figuresKey(b, ENGINE));
+  });
+
+  it('changes with any field of any record, the order of a collection, the costing date and the engine build', async () => {
+    const b = book();
+    const key = await figuresKey(b, ENGINE);
+    expect(key).toMatch(/^assets\/index-Ab12Cd34\.js\|\d{4}-\d{2}-\d{2}\|[0-9a-f]{64}$/);
+    const q = b.quotes[0]!;
+    const others: Book[] = [
+      { ...b, quotes: [{ ...q, breaks: q.breaks.map((x, i) => (i === 0 ? { ...x, price: x.price + 0.0001 } : x)) }, ...b.quotes.slice(1)] },
+      { ...b, checks: [...b.checks].reverse() },
+      { ...b, settings: { ...b.settings, costingDate: '2031-01-02' } },
+    ];
+    for (const other of others) expect(await figuresKey(other, ENGINE)).not.toBe(key);
+    expect(await figuresKey(b, 'assets/index-Zz99Yy88.js')).not.toBe(key);
+  });
+
+  it('is not made for a Book too large to write out quickly', async () => {
+    const b = book();
+    const part = b.parts[0]!;
+    const many = Array.from({ length: KEEP_MAX_RECORDS }, (_, i) => ({ ...part, id: `p_many_${i}`, mpn: `MANY-${i}` }));
+    expect(await figuresKey({ ...b, parts: [...b.parts, ...many] }, ENGINE)).toBeUndefined();
+  });
+});
+
+describe('figures kept and shown at the next start', () => {
+  it('keeps the settled figures, and a later start of the same Book shows them before the worker answers, which then agrees', async () => {
+    const db = freshDb();
+    const first = inWorker();
+    await settle(first.costing);
+    const settled = first.costing.settled()!;
+    expect(settled.book).toBe(first.holder.book);
+    expect(await keepFigures('rungbook', settled.book, ENGINE, settled.update, db)).toBe(true);
+    const want = shown(first.costing, first.holder.book);
+
+    // The next start: the same Book, read back from storage (a copy), not yet worked out by its worker.
+    const again = inWorker(structuredClone(first.holder.book));
+    const kept = await keptFiguresOf(await readKeptFigures('rungbook', db), again.holder.book, ENGINE);
+    expect(kept).toBeDefined();
+    expect(again.costing.seed(kept!)).toBe(true);
+    expect(again.costing.pending).toBe(false);
+    expect(shown(again.costing, again.holder.book)).toEqual(want);
+    // The worker was sent the Book at once; its answer replaces the kept figures with the same figures.
+    expect(again.workers[0]!.sent.map((m) => m.type)).toEqual(['book']);
+    let events = 0;
+    again.costing.addEventListener('change', () => (events += 1));
+    await settle(again.costing);
+    expect(events).toBe(1);
+    expect(shown(again.costing, again.holder.book)).toEqual(want);
+    expect(again.costing.settled()!.update).toEqual(settled.update);
+  });
+
+  it('shows nothing kept for another Book, another day or another build', async () => {
+    const db = freshDb();
+    const first = inWorker();
+    await settle(first.costing);
+    const s = first.costing.settled()!;
+    await keepFigures('rungbook', s.book, ENGINE, s.update, db);
+    const kept = await readKeptFigures('rungbook', db);
+    const q = s.book.quotes[0]!;
+    const edited: Book = { ...s.book, quotes: [{ ...q, breaks: q.breaks.map((x) => ({ ...x, price: x.price * 2 })) }, ...s.book.quotes.slice(1)] };
+    expect(await keptFiguresOf(kept, edited, ENGINE)).toBeUndefined();
+    expect(await keptFiguresOf(kept, { ...s.book, settings: { ...s.book.settings, costingDate: '2031-01-02' } }, ENGINE)).toBeUndefined();
+    expect(await keptFiguresOf(kept, s.book, 'assets/index-Other.js')).toBeUndefined();
+    expect(await readKeptFigures('another-book', db)).toBeUndefined();
+  });
+
+  it('seeds only before any figures are held, and never in-process', async () => {
+    const first = inWorker();
+    await settle(first.costing);
+    const s = first.costing.settled()!;
+    expect(first.costing.seed(s.update)).toBe(false);
+    const holder = new Holder(book());
+    const inProcess = CostingService.for(holder);
+    expect(inProcess.seed(s.update)).toBe(false);
+    expect(inProcess.settled()).toBeUndefined();
+  });
+
+  it('is not settled while an edit is being worked out, and keeps the figures of the Book after the edit once settled', async () => {
+    const db = freshDb();
+    const { holder, costing } = inWorker();
+    const stop = followFigures(costing, 'rungbook', ENGINE, db, 0);
+    try {
+      await settle(costing);
+      const q = holder.book.quotes[0]!;
+      holder.change({ put: { quotes: [{ ...q, breaks: q.breaks.map((x) => ({ ...x, price: x.price * 3 })) }] } });
+      expect(costing.settled()).toBeUndefined();
+      await settle(costing);
+      const after = holder.book;
+      for (let i = 0; i < 200 && (await keptFiguresOf(await readKeptFigures('rungbook', db), after, ENGINE)) === undefined; i++) await new Promise((r) => setTimeout(r, 5));
+      const kept = await keptFiguresOf(await readKeptFigures('rungbook', db), after, ENGINE);
+      expect(kept).toEqual(costing.settled()!.update);
+    } finally {
+      stop();
+    }
+  });
+});
