@@ -98,10 +98,19 @@ export interface RecordIds {
 
 /** The ids of the records a change saves or deletes, by collection. */
 export function recordIdsOf(change: BookChange): RecordIds {
+  return runAtOnce(recordIdsSteps(change));
+}
+
+/** recordIdsOf as sliced work: a 50,000-quote import names its records without holding the page. */
+export function* recordIdsSteps(change: BookChange): Sliced<RecordIds> {
   const ids: RecordIds = { collections: {} };
+  let n = 0;
   for (const c of COLLECTIONS) {
     const named = new Set<string>(change.delete?.[c] ?? []);
-    for (const r of change.put?.[c] ?? []) named.add(r.id);
+    for (const r of change.put?.[c] ?? []) {
+      named.add(r.id);
+      if (++n % ITEMS_PER_LOOK === 0) yield;
+    }
     if (named.size > 0) ids.collections[c] = [...named];
   }
   if (change.settings) ids.settings = true;

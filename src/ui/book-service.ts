@@ -2,9 +2,10 @@
 // and reports save state, storage use, conflicts, schema upgrades in other tabs and edits made in other tabs.
 import type { Book, CollectionName } from '../domain/book.ts';
 import { COLLECTIONS, defaultSettings, emptyBook } from '../domain/book.ts';
-import { applyChangeSteps, recordIdsOf, revisionMatches, withStoredRecordsSteps } from '../domain/book-ops.ts';
+import { applyChangeSteps, recordIdsOf, recordIdsSteps, revisionMatches, withStoredRecordsSteps } from '../domain/book-ops.ts';
 import type { RecordIds, StoredRecords } from '../domain/book-ops.ts';
-import { runInSlices } from '../domain/slices.ts';
+import { ITEMS_PER_LOOK, nextTask, runInSlices } from '../domain/slices.ts';
+import type { Sliced } from '../domain/slices.ts';
 import { demoBook } from '../domain/demo-book.ts';
 import { mergeRecord } from '../domain/merge.ts';
 import { inVariantOrder } from '../domain/variant-order.ts';
@@ -57,6 +58,9 @@ export class EditConflict extends RevisionConflict {
 const REMEMBERED_VERSIONS = 2000;
 /** Tries of a merged save before it is refused (each try follows another tab's newer write). */
 const MERGE_TRIES = 4;
+
+/** Records a change may name before the message telling other tabs goes in a task of its own. */
+const TELL_LATER = 10_000;
 
 type AnyRecord = { id: string; rev: number } & Record<string, unknown>;
 
@@ -202,12 +206,13 @@ export class BookService extends EventTarget {
       const { written, merged } = await this.writeMerging(change);
       // Applied in slices: a large import's copy in memory must not hold the page either.
       const next = await runInSlices(applyChangeSteps(this.book, written));
-      const records = recordIdsOf(written);
+      // So is the bookkeeping: naming the change's records and noting the revisions this tab wrote.
+      const records = await runInSlices(recordIdsSteps(written));
       // The store accepted the change, so a mismatch here means memory fell behind (another tab, whose own message
       // is on its way): the change's records are read back as stored.
       if (next.ok) this.adopt(next.book, records);
       else await this.takeRecords(records);
-      this.noteOwn(written);
+      await runInSlices(this.noteOwn(written));
       return { merged, records };
     });
   }
@@ -280,10 +285,14 @@ export class BookService extends EventTarget {
     return true;
   }
 
-  private noteOwn(change: BookChange): void {
+  private *noteOwn(change: BookChange): Sliced<void> {
+    let n = 0;
     for (const [c, list] of Object.entries(change.put ?? {}) as [string, AnyRecord[] | undefined][]) {
       // A new record's first revision is never asked about: allOwn starts after the revision the tab held, at least 1.
-      for (const r of list ?? []) if (r.rev !== 0) this.ownRevisions.add(versionKey(c, r.id, r.rev + 1));
+      for (const r of list ?? []) {
+        if (r.rev !== 0) this.ownRevisions.add(versionKey(c, r.id, r.rev + 1));
+        if (++n % ITEMS_PER_LOOK === 0) yield;
+      }
     }
     if (change.settings) this.ownRevisions.add(versionKey('settings', 'settings', change.settings.rev + 1));
   }
@@ -496,7 +505,20 @@ export class BookService extends EventTarget {
 
   private tellOtherTabs(kind: TabMessage['kind'], records: RecordIds | undefined): void {
     const message: TabMessage = kind === 'changed' && records ? { kind, from: this.tabId, records } : { kind, from: this.tabId };
-    this.channel?.postMessage(message);
+    const named = Object.values(records?.collections ?? {}).reduce((sum, ids) => sum + ids.length, 0);
+    // Copying the ids of a large import into the message takes tens of ms: in a task of its own, not on top of the
+    // pages drawing the saved Book.
+    if (named <= TELL_LATER) {
+      this.channel?.postMessage(message);
+      return;
+    }
+    void nextTask().then(() => {
+      try {
+        this.channel?.postMessage(message);
+      } catch {
+        // The Book was closed in between: there is no longer a channel to tell.
+      }
+    });
   }
 
   private emit(what: ServiceEventDetail['what']): void {

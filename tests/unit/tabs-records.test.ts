@@ -88,6 +88,20 @@ describe('an edit made in another tab', () => {
     expect(b.book.quotes.find((q) => q.id === 'quote_from_tab_a')?.moq).toBe(10);
   });
 
+  it('when it is a large import, still reaches the other tab as the records it saved', async () => {
+    const [a, b] = await twoTabs();
+    const loads = vi.spyOn(IdbBookStore.prototype, 'load');
+    const quote = a.book.quotes[0]!;
+    // More records than one message names at once from the saving tab's task: the message follows in a task of its own.
+    const many: Quote[] = Array.from({ length: 10_050 }, (_, i) => ({ ...quote, id: `quote_large_${String(i).padStart(5, '0')}`, rev: 0 }));
+    const seen = nextChange(b, 'book');
+    expect((await a.save({ put: { quotes: many } })).ok).toBe(true);
+    await seen;
+    expect(b.book.quotes.length).toBe(a.book.quotes.length);
+    expect(b.book.quotes.filter((q) => q.id.startsWith('quote_large_')).map((q) => q.rev)).toEqual(many.map(() => 1));
+    expect(loads).not.toHaveBeenCalled();
+  });
+
   it('merges a stale save from the records it touches alone, without reading the whole Book', async () => {
     const [a, b] = await twoTabs();
     const original = b.book.suppliers[0]!;
