@@ -135,6 +135,16 @@ export class RbBuildPage extends LitElement {
         color: var(--rb-na);
         border-style: dashed;
       }
+      /*
+       * The line tried on every variant (a large family has hundreds): a scrolled box of its own height, so drawing a
+       * new trial as the rules are typed lays out and paints the box alone, not the page and its table below.
+       */
+      form.record .preview {
+        height: 7.5rem;
+        overflow-y: auto;
+        align-content: flex-start;
+        contain: strict;
+      }
       form.record rb-formula-input {
         min-width: 0;
       }
