@@ -138,7 +138,7 @@ export async function analysePriceFile(
   const problems = [...t.problems, ...map.problems, ...checked.problems].sort((a, b) => a.row - b.row);
   // A row that could not be split right (too many cells) must not yield an offer even under "valid rows only".
   const badLines = new Set(t.problems.map((p) => p.row));
-  const offers = checked.offers.filter((o) => !checked.offerLines.get(o)!.some((l) => badLines.has(l)));
+  const offers = badLines.size === 0 ? checked.offers : checked.offers.filter((_, i) => !checked.offerLines[i]!.some((l) => badLines.has(l)));
   const mapping: ColumnMapping = { ...map.saved, decimal: checked.decimal };
   return {
     readable: true,
@@ -162,9 +162,18 @@ export async function analysePriceFile(
   };
 }
 
+/** Text fields of an offer and the Book's limit for each. */
+const TEXT_LIMITS = [
+  ['mpn', LIMITS.name],
+  ['supplierCode', LIMITS.name],
+  ['maker', LIMITS.name],
+  ['description', LIMITS.description],
+] as const;
+
 interface Checked {
   offers: PriceOffer[];
-  offerLines: Map<PriceOffer, number[]>;
+  /** The file lines of each offer, by its place in `offers`. */
+  offerLines: number[][];
   rejected: number;
   problems: PriceProblem[];
   notes: string[];
@@ -281,7 +290,7 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
     };
     if (c.mpn === '' && c.supplierCode === '') ok = problem(r, f.mpn ?? f.supplierCode, 'no maker part number or supplier code on this row');
     // The Book's own limits: an offer the Book file reader would refuse is never imported.
-    for (const [field, max] of [['mpn', LIMITS.name], ['supplierCode', LIMITS.name], ['maker', LIMITS.name], ['description', LIMITS.description]] as const) {
+    for (const [field, max] of TEXT_LIMITS) {
       if (c[field].length > max) ok = problem(r, f[field], `is ${c[field].length.toLocaleString('en-GB')} characters long; at most ${max.toLocaleString('en-GB')} are allowed`);
     }
     if (f.currency !== undefined && cell(r, f.currency) !== '') {
@@ -363,13 +372,14 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
   };
 
   const offers: PriceOffer[] = [];
-  const offerLines = new Map<PriceOffer, number[]>();
+  const offerLines: number[][] = [];
   let rejected = 0;
 
   const finish = (c: Common, key: string, breaks: PriceBreak[], currencies: string[], line: number, lines: number[], r: TableRow, firstCol: number | undefined): boolean => {
     if (breaks.length === 0) return problem(r, firstCol, 'no price break on this row');
     if (breaks.length > LIMITS.breaks) return problem(r, firstCol, `${breaks.length} price breaks for one part; a quote may have at most ${LIMITS.breaks}`);
-    const distinct = [...new Set(currencies)];
+    // Nearly always one currency: the list of distinct ones is only built when two differ.
+    const distinct = currencies.every((x) => x === currencies[0]) ? currencies.slice(0, 1) : [...new Set(currencies)];
     if (distinct.length > 1) return problem(r, firstCol, `price breaks of one part in different currencies (${distinct.join(', ')})`);
     if (c.date && c.expires && c.expires < c.date) return problem(r, f.expires, `expires (${c.expires}) before the quote date (${c.date})`);
     const offer: PriceOffer = {
@@ -388,7 +398,7 @@ function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, op
     };
     if (c.expires) offer.expires = c.expires;
     offers.push(offer);
-    offerLines.set(offer, lines);
+    offerLines.push(lines);
     return true;
   };
 

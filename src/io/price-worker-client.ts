@@ -50,7 +50,14 @@ export function runPriceImportInWorker(
       const m = e.data;
       if (m.type === 'progress') onProgress?.({ rows: m.rows, rowsPerSecond: m.rowsPerSecond });
       else if (m.type === 'offers') {
-        for (const o of m.offers) offers.push(o);
+        // Offers are plain text, numbers and lists of breaks, so JSON gives each back exactly as the worker read it.
+        const part = JSON.parse(m.json) as PriceAnalysis['offers'];
+        if (part.length !== m.count) {
+          stop();
+          reject(new Error(`the price reader sent ${part.length} offers where it announced ${m.count}`));
+          return;
+        }
+        for (const o of part) offers.push(o);
       } else if (m.type === 'result') {
         stop();
         resolve(m.parted ? { ...m.analysis, offers } : m.analysis);

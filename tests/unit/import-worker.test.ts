@@ -43,12 +43,13 @@ describe('price reader worker', () => {
     for (const m of progress) expect(m.type === 'progress' && m.rowsPerSecond).toBeGreaterThanOrEqual(0);
     // A large file's offers go ahead in parts of OFFERS_PER_PART, so no one copy holds the page; the result follows.
     const parts = messages.filter((m) => m.type === 'offers');
-    expect(parts.map((m) => m.type === 'offers' && m.offers.length)).toEqual([OFFERS_PER_PART, 5000 - OFFERS_PER_PART]);
+    expect(parts.map((m) => m.type === 'offers' && m.count)).toEqual([OFFERS_PER_PART, 5000 - OFFERS_PER_PART]);
     const last = messages.at(-1)!;
     expect(last.type === 'result' && last.parted).toBe(true);
     expect(last.type === 'result' && last.analysis.offers).toEqual([]);
     const whole = await analysePriceFile(manyRows(5000), BASE_OPTIONS);
-    expect(parts.flatMap((m) => (m.type === 'offers' ? m.offers : []))).toEqual(whole.offers);
+    // Each part is JSON text of its offers: read back, they are the analysis' offers exactly.
+    expect(parts.flatMap((m) => (m.type === 'offers' ? (JSON.parse(m.json) as unknown[]) : []))).toEqual(whole.offers);
   });
 
   it('sends a small file’s analysis whole', async () => {
@@ -82,6 +83,18 @@ describe('price reader worker', () => {
     ctrl.abort();
     await expect(p).rejects.toMatchObject({ name: 'AbortError' });
     expect(worker.terminated).toBe(true);
+  });
+
+  it('the client rejects a part whose offers are not as many as it announces', async () => {
+    const worker: PriceWorkerLike = {
+      onmessage: null,
+      onerror: null,
+      postMessage() {
+        setTimeout(() => this.onmessage?.({ data: { type: 'offers', count: 2, json: '[]' } } as MessageEvent<PriceWorkerMessage>), 0);
+      },
+      terminate() {},
+    };
+    await expect(runPriceImportInWorker(manyRows(10), BASE_OPTIONS, undefined, undefined, () => worker)).rejects.toThrow(/sent 0 offers where it announced 2/);
   });
 
   it('file problems come back in the analysis rather than as a failure', async () => {
