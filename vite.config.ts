@@ -1,5 +1,6 @@
 // Build settings, and the step that makes the built app work offline: the service worker (src/ui/service-worker.ts)
 // is built as its own script, sw.js, with the list of every built and public file written in front of it.
+import { spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
 import { readFileSync, readdirSync, statSync, writeFileSync } from 'node:fs';
 import { join, relative, resolve } from 'node:path';
@@ -58,6 +59,34 @@ function offlineApp(): Plugin {
   };
 }
 
+const KEPT_SCRIPT = resolve(import.meta.dirname, 'scripts/kept-demo-figures.ts');
+/** Must equal SHIPPED_FIGURES_FILE in src/ui/figures-keep.ts (a test checks it). */
+export const SHIPPED_FIGURES_FILE = 'kept-demo-figures.json';
+
+/**
+ * Ships the demo Book's figures (scripts/kept-demo-figures.ts), keyed by the file name of the chunk that starts the
+ * figures worker, so a first start shows unit costs with its first table instead of after the formula engine loads.
+ */
+function keptDemoFigures(): Plugin {
+  let config: ResolvedConfig;
+  return {
+    name: 'rungbook-kept-demo-figures',
+    apply: 'build',
+    configResolved(resolved) {
+      config = resolved;
+    },
+    generateBundle(_options, bundle) {
+      if (config.build.ssr) return;
+      const chunk = Object.values(bundle).find((c) => c.type === 'chunk' && c.moduleIds.some((id) => id.endsWith('/src/ui/costing-service.ts')));
+      if (!chunk) return;
+      const engine = chunk.fileName.slice(chunk.fileName.lastIndexOf('/') + 1);
+      const run = spawnSync(process.execPath, ['--import', 'tsx', KEPT_SCRIPT, engine], { cwd: config.root, encoding: 'utf8', maxBuffer: 256 * 1024 * 1024 });
+      if (run.status !== 0) this.error(`the demo Book's figures could not be worked out for the build: ${run.stderr || run.error?.message || `exit ${String(run.status)}`}`);
+      this.emitFile({ type: 'asset', fileName: SHIPPED_FIGURES_FILE, source: run.stdout });
+    },
+  };
+}
+
 const CSP_MARK = '__RB_CONTENT_SECURITY_POLICY__';
 
 /** Writes the one Content-Security-Policy (scripts/security-headers.mjs) into index.html's meta tag. */
@@ -75,7 +104,7 @@ function contentSecurityPolicy(): Plugin {
 }
 
 export default defineConfig({
-  plugins: [contentSecurityPolicy(), offlineApp()],
+  plugins: [contentSecurityPolicy(), keptDemoFigures(), offlineApp()],
   build: {
     target: 'es2022',
     sourcemap: false,

@@ -128,7 +128,7 @@ function toStored<C extends CollectionName>(c: C, record: CollectionRecord<C>): 
  * The Book as `load()` gives it back after `replaceAll`: each collection in id order, the order IndexedDB keeps
  * records in. The Book was checked before it was written, so reading it back to check it again is not needed.
  */
-function asStored(book: Book): Book {
+export function asStored(book: Book): Book {
   const out = { ...book };
   for (const c of COLLECTIONS) (out as Record<CollectionName, unknown>)[c] = [...book[c]].sort((a, b) => (a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
   return out;

@@ -51,10 +51,10 @@ export interface FiguresWorkerLike {
 
 /**
  * The build of the engines that work figures out, for figures kept between starts (figures-keep.ts): in a production
- * build this module's address, which the build names after its content, the figures worker's address included.
- * Undefined elsewhere: a development server serves changed code at the same address.
+ * build the file name of this module's chunk, which the build names after its content, the figures worker's file name
+ * included. Undefined elsewhere: a development server serves changed code under the same name.
  */
-export const ENGINE_BUILD: string | undefined = import.meta.env?.PROD ? import.meta.url : undefined;
+export const ENGINE_BUILD: string | undefined = import.meta.env?.PROD ? import.meta.url.slice(import.meta.url.lastIndexOf('/') + 1) : undefined;
 
 function startWorker(): FiguresWorkerLike {
   return new Worker(new URL('../engine/figures-worker.ts', import.meta.url), { type: 'module' }) as unknown as FiguresWorkerLike;

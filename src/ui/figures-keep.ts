@@ -74,6 +74,36 @@ function open(dbName: string) {
   });
 }
 
+/** Figures shipped with the app, for the demo Book a first start writes (scripts/kept-demo-figures.ts). */
+export interface ShippedFigures {
+  key: string;
+  update: FiguresUpdate;
+}
+
+/** The file the build ships them in, beside index.html. */
+export const SHIPPED_FIGURES_FILE = 'kept-demo-figures.json';
+
+/** Numbers JSON has no words for (a figure that cannot be computed is NaN), written as tagged text and read back. */
+const NOT_FINITE = '\u0000number:';
+
+export function keptJson(value: ShippedFigures): string {
+  return JSON.stringify(value, (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? `${NOT_FINITE}${String(v)}` : v));
+}
+
+export function fromKeptJson(text: string): ShippedFigures {
+  return JSON.parse(text, (_k, v: unknown) => (typeof v === 'string' && v.startsWith(NOT_FINITE) ? Number(v.slice(NOT_FINITE.length)) : v)) as ShippedFigures;
+}
+
+/** The figures shipped with this build for the demo Book, or undefined (none shipped, offline and not cached). */
+export async function fetchShippedFigures(url: string): Promise<ShippedFigures | undefined> {
+  try {
+    const response = await fetch(url);
+    return response.ok ? fromKeptJson(await response.text()) : undefined;
+  } catch {
+    return undefined;
+  }
+}
+
 /** What is kept for the Book in database `bookDb`, whatever Book it was of; undefined when nothing or on any failure. */
 export async function readKeptFigures(bookDb: string, dbName: string = KEPT_FIGURES_DB): Promise<KeptFigures | undefined> {
   try {
@@ -90,7 +120,7 @@ export async function readKeptFigures(bookDb: string, dbName: string = KEPT_FIGU
 }
 
 /** The kept figures when they are of `book` exactly, at its costing date, by this build of the engines. */
-export async function keptFiguresOf(kept: KeptFigures | undefined, book: Book, engine: string): Promise<FiguresUpdate | undefined> {
+export async function keptFiguresOf(kept: { key: string; update: FiguresUpdate } | undefined, book: Book, engine: string): Promise<FiguresUpdate | undefined> {
   if (!kept) return undefined;
   const key = await figuresKey(book, engine).catch(() => undefined);
   return key !== undefined && kept.key === key ? kept.update : undefined;

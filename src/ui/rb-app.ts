@@ -10,7 +10,7 @@ import { StoredBookInvalid } from '../store/types.ts';
 import { bookContext } from './book-context.ts';
 import { BookService, DEFAULT_DB_NAME } from './book-service.ts';
 import { CostingService, ENGINE_BUILD, warmFiguresWorker } from './costing-service.ts';
-import { followFigures, keptFiguresOf, readKeptFigures } from './figures-keep.ts';
+import { SHIPPED_FIGURES_FILE, fetchShippedFigures, followFigures, keptFiguresOf, readKeptFigures } from './figures-keep.ts';
 import { PAGES, START_PAGE, notebookRoute, parseRoute } from './pages.ts';
 import { sessionShare } from './share-session.ts';
 import type { PageEntry, Route } from './pages.ts';
@@ -271,7 +271,10 @@ export class RbApp extends LitElement {
       const service = await BookService.open(DEFAULT_DB_NAME);
       const costing = CostingService.for(service);
       if (ENGINE_BUILD !== undefined) {
-        const figures = await keptFiguresOf(await kept, service.book, ENGINE_BUILD);
+        // A first start in this browser wrote the demo Book: the build ships its figures.
+        const figures =
+          (await keptFiguresOf(await kept, service.book, ENGINE_BUILD)) ??
+          (service.startedFresh ? await keptFiguresOf(await fetchShippedFigures(`${import.meta.env.BASE_URL}${SHIPPED_FIGURES_FILE}`), service.book, ENGINE_BUILD) : undefined);
         if (figures) costing.seed(figures);
         this.stopKeeping = followFigures(costing, service.name, ENGINE_BUILD);
       }

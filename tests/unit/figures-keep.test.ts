@@ -1,5 +1,6 @@
 // Figures kept for the next start: shown at once only for the very Book they were worked out for (records, their
-// order, costing date, engine build), and replaced by the worker's own answer, which agrees with them.
+// order, costing date, engine build), and replaced by the worker's own answer, which agrees with them. The demo Book's
+// figures shipped with the build for a first start are held to the same.
 import 'fake-indexeddb/auto';
 import { describe, expect, it } from 'vitest';
 import type { Book } from '../../src/domain/book.ts';
@@ -9,7 +10,10 @@ import { demoBook } from '../../src/domain/demo-book.ts';
 import { addBuiltInChecks } from '../../src/engine/check-sheets.ts';
 import { loadBuiltInChecks } from '../../src/cli/check-sheets-fs.ts';
 import { CostingService, setFiguresWorker } from '../../src/ui/costing-service.ts';
-import { KEEP_MAX_RECORDS, canonicalJson, figuresKey, followFigures, keepFigures, keptFiguresOf, readKeptFigures } from '../../src/ui/figures-keep.ts';
+import { BookService } from '../../src/ui/book-service.ts';
+import { KEEP_MAX_RECORDS, SHIPPED_FIGURES_FILE, canonicalJson, figuresKey, followFigures, fromKeptJson, keepFigures, keptFiguresOf, keptJson, readKeptFigures } from '../../src/ui/figures-keep.ts';
+import { firstStartBook, keptDemoFigures } from '../../scripts/kept-demo-figures.ts';
+import { SHIPPED_FIGURES_FILE as BUILD_SHIPPED_FILE } from '../../vite.config.ts';
 import { FakeWorker } from '../fixtures/fake-figures-worker.ts';
 
 const CHECKS = loadBuiltInChecks();
@@ -165,5 +169,38 @@ describe('figures kept and shown at the next start', () => {
     } finally {
       stop();
     }
+  });
+});
+
+describe('the demo Book figures the build ships for a first start', () => {
+  it('are keyed by the very Book a first start writes and holds, so the app takes them', async () => {
+    const service = await BookService.open(`first-start-${Date.now()}`);
+    try {
+      expect(service.startedFresh).toBe(true);
+      const shipped = await keptDemoFigures(ENGINE);
+      expect(canonicalJson(firstStartBook())).toBe(canonicalJson(service.book));
+      expect(await keptFiguresOf(fromKeptJson(keptJson(shipped)), service.book, ENGINE)).toBeDefined();
+    } finally {
+      service.close();
+    }
+  });
+
+  it('are the figures the worker settles to for that Book, through the file and back', async () => {
+    const shipped = fromKeptJson(keptJson(await keptDemoFigures(ENGINE)));
+    const { costing } = inWorker(firstStartBook());
+    await settle(costing);
+    expect(shipped.update).toEqual(costing.settled()!.update);
+  });
+
+  it('keep a figure that cannot be computed as not a number through the file (JSON has no word for it)', () => {
+    const update = { kind: 'rebuilt', changed: [], checks: false, runSizes: [500], costs: [{ variantId: 'v', run: 500, value: NaN, problem: 'no quote' }, { variantId: 'w', run: 500, value: Infinity }], costsFull: true, variants: [], checksFull: false } as const;
+    const back = fromKeptJson(keptJson({ key: 'k', update: { ...update, changed: [], runSizes: [500], costs: [...update.costs], variants: [] } }));
+    expect(Number.isNaN(back.update.costs[0]!.value)).toBe(true);
+    expect(back.update.costs[0]!.problem).toBe('no quote');
+    expect(back.update.costs[1]!.value).toBe(Infinity);
+  });
+
+  it('are shipped under the file name the app asks for', () => {
+    expect(BUILD_SHIPPED_FILE).toBe(SHIPPED_FIGURES_FILE);
   });
 });
