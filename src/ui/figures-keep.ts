@@ -42,14 +42,21 @@ function recordCount(book: Book): number {
   return n;
 }
 
+/** For JSON.stringify: an object whose fields are not in name order is written as a copy that has them so. */
+function fieldsInOrder(_key: string, value: unknown): unknown {
+  if (value === null || typeof value !== 'object' || Array.isArray(value)) return value;
+  const keys = Object.keys(value);
+  let inOrder = true;
+  for (let i = 1; i < keys.length && inOrder; i++) inOrder = keys[i - 1]! < keys[i]!;
+  if (inOrder) return value;
+  const copy: Record<string, unknown> = {};
+  for (const k of keys.sort()) copy[k] = (value as Record<string, unknown>)[k];
+  return copy;
+}
+
 /** JSON text of a value with every object's fields in name order, so two copies of one record read alike. */
 export function canonicalJson(value: unknown): string {
-  if (value === null || typeof value !== 'object') return JSON.stringify(value) ?? 'null';
-  if (Array.isArray(value)) return `[${value.map((v) => (v === undefined ? 'null' : canonicalJson(v))).join(',')}]`;
-  const o = value as Record<string, unknown>;
-  const fields: string[] = [];
-  for (const k of Object.keys(o).sort()) if (o[k] !== undefined) fields.push(`${JSON.stringify(k)}:${canonicalJson(o[k])}`);
-  return `{${fields.join(',')}}`;
+  return JSON.stringify(value, fieldsInOrder) ?? 'null';
 }
 
 /**
