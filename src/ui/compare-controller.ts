@@ -52,6 +52,8 @@ export class CompareController implements ReactiveController {
   constructor(
     private readonly host: ReactiveControllerHost,
     private readonly books: BookController,
+    /** False while the host has views still to draw (it draws them a task apart): their figures are not asked yet. */
+    private readonly drawnAll: () => boolean = () => true,
   ) {
     host.addController(this);
   }
@@ -101,7 +103,7 @@ export class CompareController implements ReactiveController {
   private afterDraw(): void {
     this.frame = 0;
     const host = this.host as unknown as HTMLElement;
-    const ready = this.wants.size === 0 && !this.asking && !CostingService.for(this.books.service!).pending;
+    const ready = this.drawnAll() && this.wants.size === 0 && !this.asking && !CostingService.for(this.books.service!).pending;
     if (ready) host.setAttribute?.('data-figures', 'ready');
     else host.removeAttribute?.('data-figures');
     if (this.wants.size > 0 && !this.asking) void this.ask();

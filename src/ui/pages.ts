@@ -190,3 +190,32 @@ export function parseRoute(hash: string): Route {
   const entry = PAGES.find((p) => p.slug === head && rest.length === 0);
   return entry ? { kind: 'page', entry } : { kind: 'unknown', hash };
 }
+
+let loadingAhead = false;
+
+/**
+ * Loads the code of the pages not visited yet, one page per idle moment, in rail order: a page switched to later is
+ * then drawn at once, rather than its code being read and run in the task that draws it. Starts when a page says it
+ * shows its figures (the `rb-load-pages-ahead` event on the window, so no page imports this registry); once.
+ */
+export function loadPagesAhead(): void {
+  if (loadingAhead || typeof window === 'undefined') return;
+  loadingAhead = true;
+  const queue = PAGES.filter((p) => p.tag && p.load);
+  const idle = (then: () => void): void => {
+    if (typeof window.requestIdleCallback === 'function') window.requestIdleCallback(then, { timeout: 5000 });
+    else setTimeout(then, 50);
+  };
+  const next = (): void => {
+    const page = queue.shift();
+    if (!page) return;
+    if (customElements.get(page.tag!)) return next();
+    page.load!().then(
+      () => idle(next),
+      () => idle(next),
+    );
+  };
+  idle(next);
+}
+
+if (typeof window !== 'undefined') window.addEventListener('rb-load-pages-ahead', loadPagesAhead, { once: true });

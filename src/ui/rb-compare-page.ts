@@ -3,11 +3,12 @@
 // with their cost effect, and what-if edits (a quote price, a rate, a cost setting, the run sizes) tried on a scratch
 // costing workbook so every figure moves at once without saving, until the person keeps or discards them.
 // The scratch workbook and the what-if edits sit in CompareController; each view is an element of its own.
-import { LitElement, css, html } from 'lit';
+import { LitElement, css, html, nothing } from 'lit';
 import type { TemplateResult } from 'lit';
 import { customElement, state } from 'lit/decorators.js';
 import { live } from 'lit/directives/live.js';
 import type { Book, Variant } from '../domain/book.ts';
+import { nextTask } from '../domain/slices.ts';
 import { BookController } from './book-context.ts';
 import { whatIfCount } from './build-costing.ts';
 import { CompareController } from './compare-controller.ts';
@@ -23,6 +24,8 @@ import { pageStyles, problemStyles } from './styles.ts';
 const FIRST_FEW = 4;
 /** Most variants drawn as columns, bars and curves at once; more are counted, not drawn (a chart of 200 lines reads as none). */
 const MAX_SHOWN = 12;
+/** The views below the choice: side by side, what-if, split, curves, difference. */
+const VIEWS = 5;
 
 @customElement('rb-compare-page')
 export class RbComparePage extends LitElement {
@@ -63,7 +66,14 @@ export class RbComparePage extends LitElement {
   ];
 
   private readonly books = new BookController(this, { figures: true });
-  private readonly costs = new CompareController(this, this.books);
+  private readonly costs = new CompareController(this, this.books, () => this.views >= VIEWS);
+  /**
+   * Views drawn so far. The page shown afresh draws the choice and the side-by-side table first, then one more view
+   * in each task after the frame that showed the one before: drawn and laid out at once, the five views of a large
+   * family held the page's thread for one long task when switching to it.
+   */
+  @state() private views = 1;
+  private staging = 0;
 
   @state() private chosen: string[] | undefined;
   @state() private splitRun = 0;
@@ -85,6 +95,28 @@ export class RbComparePage extends LitElement {
     if (!runs.includes(this.splitRun)) this.splitRun = runs[Math.min(1, runs.length - 1)] ?? 0;
   }
 
+  override updated(): void {
+    if (this.views >= VIEWS || this.staging !== 0) return;
+    this.staging = requestAnimationFrame(() => {
+      void nextTask().then(() => {
+        this.staging = 0;
+        this.views++;
+      });
+    });
+  }
+
+  override disconnectedCallback(): void {
+    super.disconnectedCallback();
+    if (this.staging !== 0) cancelAnimationFrame(this.staging);
+    this.staging = 0;
+  }
+
+  override connectedCallback(): void {
+    super.connectedCallback();
+    // Staging stopped while the page was away: it picks up where it was.
+    if (this.hasUpdated && this.views < VIEWS) this.requestUpdate();
+  }
+
   override render() {
     const book = this.books.book;
     if (!book || !this.chosen) return html``;
@@ -103,17 +135,23 @@ export class RbComparePage extends LitElement {
     return html`${n > 0 || c.keepError ? this.renderWhatIfBar(n) : ''}${this.renderChoice(book)}
       ${c.working ? html`<p class="empty" role="status" data-testid="compare-working">Working out the figures…</p>` : ''}
       <rb-compare-side .book=${book} .chosen=${chosen} .costs=${c} .revision=${c.revision}></rb-compare-side>
-      <rb-compare-whatif .book=${book} .chosen=${chosen} .costs=${c} .revision=${c.revision} .run=${this.splitRun}></rb-compare-whatif>
-      <rb-compare-split .book=${book} .chosen=${chosen} .costs=${c} .revision=${c.revision} .run=${this.splitRun} @rb-compare-run=${onRun}></rb-compare-split>
-      <rb-compare-curves .book=${book} .chosen=${chosen} .costs=${c} .revision=${c.revision}></rb-compare-curves>
-      <rb-compare-difference
-        .book=${book}
-        .chosen=${chosen}
-        .costs=${c}
-        .revision=${c.revision}
-        .run=${this.splitRun}
-        @rb-compare-run=${onRun}
-      ></rb-compare-difference>`;
+      ${this.views > 1
+        ? html`<rb-compare-whatif .book=${book} .chosen=${chosen} .costs=${c} .revision=${c.revision} .run=${this.splitRun}></rb-compare-whatif>`
+        : nothing}
+      ${this.views > 2
+        ? html`<rb-compare-split .book=${book} .chosen=${chosen} .costs=${c} .revision=${c.revision} .run=${this.splitRun} @rb-compare-run=${onRun}></rb-compare-split>`
+        : nothing}
+      ${this.views > 3 ? html`<rb-compare-curves .book=${book} .chosen=${chosen} .costs=${c} .revision=${c.revision}></rb-compare-curves>` : nothing}
+      ${this.views > 4
+        ? html`<rb-compare-difference
+            .book=${book}
+            .chosen=${chosen}
+            .costs=${c}
+            .revision=${c.revision}
+            .run=${this.splitRun}
+            @rb-compare-run=${onRun}
+          ></rb-compare-difference>`
+        : nothing}`;
   }
 
   private renderChoice(book: Book): TemplateResult {

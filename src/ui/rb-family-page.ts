@@ -10,6 +10,7 @@ import { newId } from '../domain/book.ts';
 import { STATUS_SYMBOL } from '../domain/check-status.ts';
 import { currencyMoney, grouped } from '../domain/format.ts';
 import { VARIANT_PARAMS, ownValue } from '../domain/params.ts';
+import { nextTask } from '../domain/slices.ts';
 import { guardText } from '../domain/tsv.ts';
 import { formatValue } from '../domain/units.ts';
 import { sortVariants } from '../domain/variant-order.ts';
@@ -169,6 +170,7 @@ export class RbFamilyPage extends LitElement {
   override connectedCallback(): void {
     super.connectedCallback();
     this.addEventListener('keydown', this._onKey);
+    if (!this.gridShown) this.showGridSoon();
   }
 
   override disconnectedCallback(): void {
@@ -184,16 +186,52 @@ export class RbFamilyPage extends LitElement {
     if (replaced === this.replacementSeen) return;
     // The whole Book was replaced: its variants, their undo steps and an open form belong to a Book that is gone.
     this.replacementSeen = replaced;
+    // The app makes a new page for the new Book and drops this one: its grid waits for the next task, by which time
+    // it is gone (or, kept, draws the new Book then), rather than drawing a Book's worth of rows to be thrown away.
+    if (this.gridShown) {
+      this.gridShown = false;
+      this.showGridSoon();
+    }
     this.history.clear();
     this.editing = undefined;
     this.editFrom = undefined;
     this.confirmDelete = undefined;
   }
 
+  /**
+   * A page made afresh (the app starting on it, a Book just opened) draws its heading first and its grid in the task
+   * after: the Book's opening, the page replaced and the first rows of the grid in one task held the page too long.
+   */
+  @state() private gridShown = false;
+  private gridAsked = false;
+  private aheadAsked = false;
+
+  private showGridSoon(): void {
+    if (this.gridAsked) return;
+    this.gridAsked = true;
+    void nextTask().then(() => {
+      this.gridAsked = false;
+      if (this.isConnected) this.gridShown = true;
+    });
+  }
+
   override render() {
     const book = this.books.book;
     if (!book) return html``;
-    return html`${this.editing ? this.renderForm(book, this.editing) : ''} ${this.renderGrid(book)}`;
+    return html`${this.editing ? this.renderForm(book, this.editing) : ''} ${this.gridShown ? this.renderGrid(book) : this.renderHeading(book)}`;
+  }
+
+  /** The grid's section before its grid is drawn (see gridShown); the figures are asked for meanwhile. */
+  private renderHeading(book: Book) {
+    const service = this.books.service;
+    if (service) {
+      const costing = CostingService.for(service);
+      if (costing.pending) this.queueSync(costing);
+    }
+    return html`<section class="sheet" aria-labelledby="family-h">
+      <h2 id="family-h">Variants</h2>
+      <p class="why">${book.variants.length} variants.</p>
+    </section>`;
   }
 
   // ---- the grid
@@ -303,6 +341,11 @@ export class RbFamilyPage extends LitElement {
       const ids = new Set(variants.map((v) => v.id));
       this.rowCache = new Map([...this.rowCache].filter(([id]) => ids.has(id)));
       this.paramCache = new Map([...this.paramCache].filter(([id]) => ids.has(id)));
+    }
+    // The figures are shown: the other pages' code may load while the page is idle (see loadPagesAhead in pages.ts).
+    if (!pending && !this.aheadAsked) {
+      this.aheadAsked = true;
+      window.dispatchEvent(new Event('rb-load-pages-ahead'));
     }
     const costProblem = pending ? undefined : costing.problem;
     const checksProblem = pending ? undefined : costing.checksProblem;

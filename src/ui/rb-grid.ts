@@ -118,7 +118,7 @@ export class RbGrid extends LitElement {
     }
     .frame {
       overflow: auto;
-      max-height: 72vh;
+      max-height: 72vh; /* FRAME_SHARE in row-window.ts */
       border: 1px solid var(--rb-rule);
       background: var(--rb-sheet);
     }
@@ -816,15 +816,14 @@ export class RbGrid extends LitElement {
         const sel = inBlock && c >= s.c0 && c <= s.c1;
         const active = this.active.r === r && this.active.c === c;
         const tone = cell?.tone;
-        const cls = classMap({
-          num: !!col.num,
-          ro: !col.editable,
-          sel,
-          active,
-          editing: editCol === c,
-          newrow: isNew && editCol !== c,
-          [`tone-${tone ?? 'none'}`]: !!tone,
-        });
+        // A plain class string: a class-map directive per cell cost more than drawing the cell's text.
+        let cls = col.num ? 'num' : '';
+        if (!col.editable) cls += ' ro';
+        if (sel) cls += ' sel';
+        if (active) cls += ' active';
+        if (editCol === c) cls += ' editing';
+        else if (isNew) cls += ' newrow';
+        if (tone) cls += ` tone-${tone}`;
         const content =
           editCol === c
             ? html`<input

@@ -2,6 +2,7 @@
 // standing for the rest, so a family of hundreds of variants costs the page as little as one of thirty (the bench's
 // ui_* figures measure it). Grids of fewer than WINDOW_FROM rows draw every row, as before.
 import type { ReactiveController, ReactiveControllerHost } from 'lit';
+import { nextTask } from '../domain/slices.ts';
 
 /** Grids with at least this many rows draw only the rows in view. */
 export const WINDOW_FROM = 60;
@@ -9,6 +10,14 @@ export const WINDOW_FROM = 60;
 const OVERSCAN = 15;
 /** A row's height before one has been measured, in CSS pixels. */
 const ROW_GUESS = 28;
+/** The grid's scrolling frame is at most this share of the window high (its max-height in rb-grid's styles). */
+export const FRAME_SHARE = 0.72;
+
+/** Rows that fill the frame before anything has been measured: the first drawing is those alone. */
+function rowsInFirstView(): number {
+  const high = typeof window === 'undefined' ? 720 : window.innerHeight || 720;
+  return Math.ceil((high * FRAME_SHARE) / ROW_GUESS) + 1;
+}
 
 export interface RowSlice {
   from: number;
@@ -20,14 +29,19 @@ export interface RowSlice {
 
 export class RowWindow implements ReactiveController {
   private first = 0;
-  /** At the top no rows are drawn above the view, so the first drawing is the rows in view and those below. */
-  private count = OVERSCAN + 30;
+  /**
+   * The first drawing is the rows in view alone (a Book just opened draws a new grid in the task that opens it); the
+   * rows below the view follow in a task of their own, after the frame that shows the first ones.
+   */
+  private count = rowsInFirstView();
   private rowHeight = ROW_GUESS;
   private measured = false;
   private total = 0;
   private frame = 0;
   /** The frame in which a drawn row's height is measured, while one is asked for. */
   private measuring = 0;
+  /** Rows beyond the view are drawn once the first view has been shown (see measure). */
+  private spare = false;
   private listening: HTMLElement | undefined;
 
   constructor(
@@ -84,10 +98,13 @@ export class RowWindow implements ReactiveController {
     const h = row?.getBoundingClientRect().height ?? 0;
     if (h > 0) {
       this.measured = true;
-      if (Math.abs(h - this.rowHeight) > 0.5) {
-        this.rowHeight = h;
-        this.follow(el);
-      }
+      if (Math.abs(h - this.rowHeight) > 0.5) this.rowHeight = h;
+      // The rows beyond the view are drawn in the task after this frame, which lays out and paints the first view:
+      // drawn from here they would be laid out in this same frame, one long task where there can be two.
+      void nextTask().then(() => {
+        this.spare = true;
+        if (this.listening) this.follow(this.listening);
+      });
     }
   }
 
@@ -112,8 +129,9 @@ export class RowWindow implements ReactiveController {
   private follow(el: HTMLElement): void {
     const top = Math.floor(el.scrollTop / this.rowHeight);
     const first = Math.max(0, top - OVERSCAN);
-    // Rows in view and OVERSCAN either side, fewer above when the view is near the top.
-    const count = top - first + Math.ceil(el.clientHeight / this.rowHeight) + OVERSCAN;
+    // Rows in view and OVERSCAN either side, fewer above when the view is near the top (none below before the first
+    // view is shown).
+    const count = top - first + Math.ceil(el.clientHeight / this.rowHeight) + (this.spare ? OVERSCAN : 1);
     if (first === this.first && count === this.count) return;
     this.first = first;
     this.count = count;
