@@ -1,0 +1,83 @@
+// The first view shows unit costs with its first table: on a first start from the demo Book's figures the build
+// ships, on later starts from the figures kept for the Book; in both cases the figures worker's own answer, which
+// comes later, shows the same costs.
+import { afterEach, describe, expect, inject, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { AppUnderTest, figuresShown } from './harness.ts';
+
+const baseUrl = inject('baseUrl');
+const app = new AppUnderTest(baseUrl);
+afterEach(() => app.close());
+
+/**
+ * Runs before the app's scripts: at the first animation frame in which the Family page's "at a glance" table has
+ * rows, notes the text of its cost cells (a figure, or "…" while being worked out).
+ */
+const FIRST_FRAME_PROBE = `(() => {
+  const deep = (root, sel) => {
+    const hit = root.querySelector(sel);
+    if (hit) return hit;
+    for (const el of root.querySelectorAll('*')) {
+      const inner = el.shadowRoot ? deep(el.shadowRoot, sel) : null;
+      if (inner) return inner;
+    }
+    return null;
+  };
+  const tick = () => {
+    const glance = deep(document, '[data-testid="family-glance"]');
+    const cells = glance ? [...glance.querySelectorAll('tbody td.num')] : [];
+    if (cells.length > 0) window.__rbFirstFrame = cells.map((c) => c.textContent.trim());
+    else requestAnimationFrame(tick);
+  };
+  requestAnimationFrame(tick);
+})();`;
+
+async function firstFrame(page: Page): Promise<string[]> {
+  await page.waitForFunction(() => (window as unknown as { __rbFirstFrame?: string[] }).__rbFirstFrame !== undefined, undefined, { timeout: 60_000 });
+  return page.evaluate(() => (window as unknown as { __rbFirstFrame: string[] }).__rbFirstFrame);
+}
+
+async function glanceCosts(page: Page): Promise<string[]> {
+  await figuresShown(page);
+  return page.locator('[data-testid="family-glance"] tbody td.num').allTextContents().then((t) => t.map((s) => s.trim()));
+}
+
+/** The figures kept in this browser for the Book `rungbook`: their key, or undefined. */
+async function keptKey(page: Page): Promise<string | undefined> {
+  return page.evaluate(
+    () =>
+      new Promise<string | undefined>((resolve) => {
+        const open = indexedDB.open('kept-figures.rungbook');
+        open.onerror = () => resolve(undefined);
+        open.onsuccess = () => {
+          const db = open.result;
+          if (!db.objectStoreNames.contains('kept')) return resolve(undefined);
+          const get = db.transaction('kept').objectStore('kept').get('rungbook');
+          get.onsuccess = () => resolve((get.result as { key?: string } | undefined)?.key);
+          get.onerror = () => resolve(undefined);
+        };
+      }),
+  );
+}
+
+describe('the first view', () => {
+  it('shows the unit costs with the first table on a first start and after a reload, the same as the figures worker gives', async () => {
+    const { page, context, errors } = await app.start();
+    await context.addInitScript({ content: FIRST_FRAME_PROBE });
+    await page.goto(`${baseUrl}#/family`);
+    const first = await firstFrame(page);
+    expect(first.length).toBeGreaterThan(0);
+    // Every cost cell held a figure in the very frame the table first appeared (shipped with the build).
+    expect(first.every((t) => /\d/.test(t))).toBe(true);
+    // The figures worker's answer, once in, shows the same costs.
+    await expect.poll(() => keptKey(page), { timeout: 60_000 }).toBeDefined();
+    expect(await glanceCosts(page)).toEqual(first);
+
+    // A later start: the figures kept for the Book are shown with the first table.
+    await page.reload();
+    const again = await firstFrame(page);
+    expect(again).toEqual(first);
+    expect(await glanceCosts(page)).toEqual(first);
+    expect(errors).toEqual([]);
+  });
+});
