@@ -23,11 +23,21 @@ export const KEPT_FIGURES_DB = 'kept-figures.rungbook';
  */
 export const KEEP_MAX_RECORDS = 3_000;
 
+/**
+ * Nor do Books whose figures are many: each variant has a result per check and a resolution per build line, and
+ * writing them out as text takes the page's thread about a millisecond per thousand on a slow machine.
+ */
+export const KEEP_MAX_VARIANT_FIGURES = 40_000;
+
 export interface KeptFigures {
   /** The Book's database name: one kept set of figures per Book in this browser. */
   book: string;
   key: string;
-  update: FiguresUpdate;
+  /**
+   * The figures as JSON text (keptJson): a megabyte of text is stored and read back in one copy, where the same
+   * figures as objects take the page's thread a hundred milliseconds to copy into storage on a slow machine.
+   */
+  json: string;
   /** When they were kept (ISO time), for a person looking into the browser's storage. */
   at: string;
 }
@@ -65,7 +75,8 @@ export function canonicalJson(value: unknown): string {
  * the platform has no digest.
  */
 export async function figuresKey(book: Book, engine: string): Promise<string | undefined> {
-  if (recordCount(book) > KEEP_MAX_RECORDS || typeof crypto === 'undefined' || !crypto.subtle) return undefined;
+  if (recordCount(book) > KEEP_MAX_RECORDS || book.variants.length * (book.checks.length + book.buildLines.length) > KEEP_MAX_VARIANT_FIGURES) return undefined;
+  if (typeof crypto === 'undefined' || !crypto.subtle) return undefined;
   const bytes = new TextEncoder().encode(canonicalJson(book));
   const digest = new Uint8Array(await crypto.subtle.digest('SHA-256', bytes));
   let hex = '';
@@ -127,10 +138,16 @@ export async function readKeptFigures(bookDb: string, dbName: string = KEPT_FIGU
 }
 
 /** The kept figures when they are of `book` exactly, at its costing date, by this build of the engines. */
-export async function keptFiguresOf(kept: { key: string; update: FiguresUpdate } | undefined, book: Book, engine: string): Promise<FiguresUpdate | undefined> {
+export async function keptFiguresOf(kept: ShippedFigures | KeptFigures | undefined, book: Book, engine: string): Promise<FiguresUpdate | undefined> {
   if (!kept) return undefined;
   const key = await figuresKey(book, engine).catch(() => undefined);
-  return key !== undefined && kept.key === key ? kept.update : undefined;
+  if (key === undefined || kept.key !== key) return undefined;
+  if ('update' in kept) return kept.update;
+  try {
+    return fromKeptJson(kept.json).update;
+  } catch {
+    return undefined;
+  }
 }
 
 /** Keeps a Book's settled figures for the next start; a Book too large to key drops what was kept for it. */
@@ -140,7 +157,7 @@ export async function keepFigures(bookDb: string, book: Book, engine: string, up
     const db = await open(dbName);
     try {
       if (key === undefined) await db.delete('kept', bookDb);
-      else await db.put('kept', { book: bookDb, key, update, at: new Date().toISOString() });
+      else await db.put('kept', { book: bookDb, key, json: keptJson({ key, update }), at: new Date().toISOString() });
     } finally {
       db.close();
     }

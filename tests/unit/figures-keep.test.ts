@@ -11,7 +11,7 @@ import { addBuiltInChecks } from '../../src/engine/check-sheets.ts';
 import { loadBuiltInChecks } from '../../src/cli/check-sheets-fs.ts';
 import { CostingService, setFiguresWorker } from '../../src/ui/costing-service.ts';
 import { BookService } from '../../src/ui/book-service.ts';
-import { KEEP_MAX_RECORDS, SHIPPED_FIGURES_FILE, canonicalJson, figuresKey, followFigures, fromKeptJson, keepFigures, keptFiguresOf, keptJson, readKeptFigures } from '../../src/ui/figures-keep.ts';
+import { KEEP_MAX_RECORDS, KEEP_MAX_VARIANT_FIGURES, SHIPPED_FIGURES_FILE, canonicalJson, figuresKey, followFigures, fromKeptJson, keepFigures, keptFiguresOf, keptJson, readKeptFigures } from '../../src/ui/figures-keep.ts';
 import { firstStartBook, keptDemoFigures } from '../../scripts/kept-demo-figures.ts';
 import { SHIPPED_FIGURES_FILE as BUILD_SHIPPED_FILE } from '../../vite.config.ts';
 import { FakeWorker } from '../fixtures/fake-figures-worker.ts';
@@ -96,6 +96,11 @@ describe('the key of kept figures', () => {
     const part = b.parts[0]!;
     const many = Array.from({ length: KEEP_MAX_RECORDS }, (_, i) => ({ ...part, id: `p_many_${i}`, mpn: `MANY-${i}` }));
     expect(await figuresKey({ ...b, parts: [...b.parts, ...many] }, ENGINE)).toBeUndefined();
+    const variant = b.variants[0]!;
+    const perVariant = b.checks.length + b.buildLines.length;
+    const variants = Array.from({ length: Math.floor(KEEP_MAX_VARIANT_FIGURES / perVariant) + 1 }, (_, i) => ({ ...variant, id: `v_many_${i}`, code: `MANY-${i}` }));
+    expect(await figuresKey({ ...b, variants }, ENGINE)).toBeUndefined();
+    expect(await figuresKey({ ...b, variants: variants.slice(0, -1) }, ENGINE)).toBeDefined();
   });
 });
 
