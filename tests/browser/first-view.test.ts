@@ -3,6 +3,7 @@
 // comes later, shows the same costs.
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
+import { DEEP_QUERY } from '../bench/responsive.ts';
 import { AppUnderTest, figuresShown } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
@@ -14,15 +15,7 @@ afterEach(() => app.close());
  * rows, notes the text of its cost cells (a figure, or "…" while being worked out).
  */
 const FIRST_FRAME_PROBE = `(() => {
-  const deep = (root, sel) => {
-    const hit = root.querySelector(sel);
-    if (hit) return hit;
-    for (const el of root.querySelectorAll('*')) {
-      const inner = el.shadowRoot ? deep(el.shadowRoot, sel) : null;
-      if (inner) return inner;
-    }
-    return null;
-  };
+  ${DEEP_QUERY}
   const tick = () => {
     const glance = deep(document, '[data-testid="family-glance"]');
     const cells = glance ? [...glance.querySelectorAll('tbody td.num')] : [];

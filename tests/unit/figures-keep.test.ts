@@ -9,12 +9,13 @@ import type { BookChange } from '../../src/domain/book-ops.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { addBuiltInChecks } from '../../src/engine/check-sheets.ts';
 import { loadBuiltInChecks } from '../../src/cli/check-sheets-fs.ts';
-import { CostingService, setFiguresWorker } from '../../src/ui/costing-service.ts';
+import { CostingService } from '../../src/ui/costing-service.ts';
 import { BookService } from '../../src/ui/book-service.ts';
 import { KEEP_MAX_RECORDS, KEEP_MAX_VARIANT_FIGURES, SHIPPED_FIGURES_FILE, canonicalJson, figuresKey, followFigures, fromKeptJson, keepFigures, keptFiguresOf, keptJson, readKeptFigures } from '../../src/ui/figures-keep.ts';
 import { firstStartBook, keptDemoFigures } from '../../scripts/kept-demo-figures.ts';
 import { SHIPPED_FIGURES_FILE as BUILD_SHIPPED_FILE } from '../../vite.config.ts';
-import { FakeWorker } from '../fixtures/fake-figures-worker.ts';
+import { costingInWorker } from '../fixtures/fake-figures-worker.ts';
+import type { FakeWorker } from '../fixtures/fake-figures-worker.ts';
 
 const CHECKS = loadBuiltInChecks();
 const ENGINE = 'assets/index-Ab12Cd34.js';
@@ -35,20 +36,10 @@ function book(): Book {
   return addBuiltInChecks(demoBook(), CHECKS);
 }
 
-/** The demo Book's costing service with a stand-in worker; the workers started are listed. */
+/** The costing service of a Book with a stand-in worker; the workers started are listed. */
 function inWorker(b: Book = book()): { holder: Holder; costing: CostingService; workers: FakeWorker[] } {
-  const workers: FakeWorker[] = [];
-  setFiguresWorker(() => {
-    const w = new FakeWorker();
-    workers.push(w);
-    return w;
-  });
-  try {
-    const holder = new Holder(b);
-    return { holder, costing: CostingService.for(holder), workers };
-  } finally {
-    setFiguresWorker(undefined);
-  }
+  const holder = new Holder(b);
+  return { holder, ...costingInWorker(holder) };
 }
 
 async function settle(costing: CostingService): Promise<void> {

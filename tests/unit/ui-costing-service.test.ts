@@ -15,9 +15,9 @@ import { costVariant } from '../../src/io/run-export.ts';
 import { referenceFamily } from '../fixtures/reference-family.ts';
 import { FiguresHost, QUOTES_PER_PART, stageQuotes } from '../../src/engine/figures-worker.ts';
 import type { FiguresRequest } from '../../src/engine/figures-worker.ts';
-import { FakeWorker } from '../fixtures/fake-figures-worker.ts';
+import { FakeWorker, costingInWorker } from '../fixtures/fake-figures-worker.ts';
 import { trialProblems } from '../../src/ui/build-rules.ts';
-import { CostingService, setFiguresWorker } from '../../src/ui/costing-service.ts';
+import { CostingService } from '../../src/ui/costing-service.ts';
 
 const CHECKS = loadBuiltInChecks();
 
@@ -214,18 +214,8 @@ async function settled(costing: CostingService): Promise<void> {
 
 /** The demo Book's costing service with its figures worker stood in for by FakeWorker (those started are listed). */
 function startInWorker(): { holder: Holder; costing: CostingService; workers: FakeWorker[] } {
-  const workers: FakeWorker[] = [];
-  setFiguresWorker(() => {
-    const w = new FakeWorker();
-    workers.push(w);
-    return w;
-  });
-  try {
-    const holder = new Holder(addBuiltInChecks(demoBook(), CHECKS));
-    return { holder, costing: CostingService.for(holder), workers };
-  } finally {
-    setFiguresWorker(undefined);
-  }
+  const holder = new Holder(addBuiltInChecks(demoBook(), CHECKS));
+  return { holder, ...costingInWorker(holder) };
 }
 describe('CostingService with the figures worker', () => {
 
