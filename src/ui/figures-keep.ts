@@ -112,11 +112,18 @@ export function fromKeptJson(text: string): ShippedFigures {
   return JSON.parse(text, (_k, v: unknown) => (typeof v === 'string' && v.startsWith(NOT_FINITE) ? Number(v.slice(NOT_FINITE.length)) : v)) as ShippedFigures;
 }
 
-/** The figures shipped with this build for the demo Book, or undefined (none shipped, offline and not cached). */
-export async function fetchShippedFigures(url: string): Promise<ShippedFigures | undefined> {
+/**
+ * Asks for the figures shipped with this build for the demo Book; the answer is read only if `wanted` (a first
+ * start) says so. Undefined when none are shipped, or offline and not stored.
+ */
+export async function fetchShippedFigures(url: string, wanted: Promise<boolean>): Promise<ShippedFigures | undefined> {
   try {
     const response = await fetch(url);
-    return response.ok ? fromKeptJson(await response.text()) : undefined;
+    if (!(await wanted) || !response.ok) {
+      void response.body?.cancel().catch(() => undefined);
+      return undefined;
+    }
+    return fromKeptJson(await response.text());
   } catch {
     return undefined;
   }

@@ -267,14 +267,17 @@ export class RbApp extends LitElement {
       warmFiguresWorker();
       if (this.route.kind === 'page') this.route.entry.load?.().catch(() => undefined);
       // Figures kept from the last start are read beside the Book, and shown at once if they are of this very Book.
+      // With nothing kept, this may be a first start, which writes the demo Book: the build ships its figures, asked
+      // for while the demo Book is written and read only if it was.
       const kept = ENGINE_BUILD === undefined ? undefined : readKeptFigures(DEFAULT_DB_NAME);
-      const service = await BookService.open(DEFAULT_DB_NAME);
+      const opening = BookService.open(DEFAULT_DB_NAME);
+      const shipped = kept?.then((k) =>
+        k ? undefined : fetchShippedFigures(`${import.meta.env.BASE_URL}${SHIPPED_FIGURES_FILE}`, opening.then((s) => s.startedFresh, () => false)),
+      );
+      const service = await opening;
       const costing = CostingService.for(service);
       if (ENGINE_BUILD !== undefined) {
-        // A first start in this browser wrote the demo Book: the build ships its figures.
-        const figures =
-          (await keptFiguresOf(await kept, service.book, ENGINE_BUILD)) ??
-          (service.startedFresh ? await keptFiguresOf(await fetchShippedFigures(`${import.meta.env.BASE_URL}${SHIPPED_FIGURES_FILE}`), service.book, ENGINE_BUILD) : undefined);
+        const figures = (await keptFiguresOf(await kept, service.book, ENGINE_BUILD)) ?? (await keptFiguresOf(await shipped, service.book, ENGINE_BUILD));
         if (figures) costing.seed(figures);
         this.stopKeeping = followFigures(costing, service.name, ENGINE_BUILD);
       }
