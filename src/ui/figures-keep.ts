@@ -184,8 +184,8 @@ export interface FiguresSource extends EventTarget {
 export const KEEP_AFTER_MS = 1_500;
 
 /**
- * Keeps the figures of `costing` each time they settle and stay so for `after` ms (the page idle, where the
- * browser says so). Gives the function that stops it.
+ * Keeps the figures of `costing` each time they settle and stay so for `after` ms (the first settled figures at
+ * once), when the page is idle where the browser says so. Gives the function that stops it.
  */
 export function followFigures(costing: FiguresSource, bookDb: string, engine: string, dbName: string = KEPT_FIGURES_DB, after: number = KEEP_AFTER_MS): () => void {
   let timer: ReturnType<typeof setTimeout> | undefined;
@@ -197,15 +197,20 @@ export function followFigures(costing: FiguresSource, bookDb: string, engine: st
   };
   const onChange = (): void => {
     if (timer !== undefined) clearTimeout(timer);
-    timer = setTimeout(() => {
-      timer = undefined;
-      idle(() => {
-        const now = costing.settled();
-        if (stopped || !now || now.book === keptBook) return;
-        keptBook = now.book;
-        void keepFigures(bookDb, now.book, engine, now.update, dbName);
-      });
-    }, after);
+    // The first figures of a start are kept at the first idle moment (the page may be closed soon after); later
+    // ones once edits pause.
+    timer = setTimeout(
+      () => {
+        timer = undefined;
+        idle(() => {
+          const now = costing.settled();
+          if (stopped || !now || now.book === keptBook) return;
+          keptBook = now.book;
+          void keepFigures(bookDb, now.book, engine, now.update, dbName);
+        });
+      },
+      keptBook === undefined ? 0 : after,
+    );
   };
   costing.addEventListener('change', onChange);
   return () => {

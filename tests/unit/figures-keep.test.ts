@@ -200,3 +200,26 @@ describe('the demo Book figures the build ships for a first start', () => {
     expect(BUILD_SHIPPED_FILE).toBe(SHIPPED_FIGURES_FILE);
   });
 });
+
+describe('keeping figures as they settle', () => {
+  it('keeps the first settled figures of a start at once, and later ones only once edits pause', async () => {
+    const db = freshDb();
+    const { holder, costing } = inWorker();
+    const stop = followFigures(costing, 'rungbook', ENGINE, db, 60_000);
+    const keptOf = async (b: Book) => keptFiguresOf(await readKeptFigures('rungbook', db), b, ENGINE);
+    try {
+      await settle(costing);
+      const first = holder.book;
+      await expect.poll(() => keptOf(first), { timeout: 10_000 }).toBeDefined();
+      const q = first.quotes[0]!;
+      holder.change({ put: { quotes: [{ ...q, breaks: q.breaks.map((x) => ({ ...x, price: x.price * 2 })) }] } });
+      await settle(costing);
+      await new Promise((r) => setTimeout(r, 300));
+      // The edit's figures wait for the pause (60 s here); what is kept is still the first start's, for that Book.
+      expect(await keptOf(holder.book)).toBeUndefined();
+      expect(await keptOf(first)).toBeDefined();
+    } finally {
+      stop();
+    }
+  });
+});
