@@ -25,9 +25,10 @@ export const KEEP_MAX_RECORDS = 3_000;
 
 /**
  * Nor do Books whose figures are many: each variant has a result per check and a resolution per build line, and
- * writing them out as text takes the page's thread about a millisecond per thousand on a slow machine.
+ * writing them out as text holds the page's thread about a millisecond per thousand; past this the writing would be a
+ * long task in the middle of a person's work (the reference family's 29,600 took 20–70 ms, measured in the bench).
  */
-export const KEEP_MAX_VARIANT_FIGURES = 40_000;
+export const KEEP_MAX_VARIANT_FIGURES = 8_000;
 
 export interface KeptFigures {
   /** The Book's database name: one kept set of figures per Book in this browser. */
