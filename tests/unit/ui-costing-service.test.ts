@@ -15,7 +15,8 @@ import { costVariant } from '../../src/io/run-export.ts';
 import { referenceFamily } from '../fixtures/reference-family.ts';
 import { FiguresHost, QUOTES_PER_PART, stageQuotes } from '../../src/engine/figures-worker.ts';
 import type { FiguresRequest } from '../../src/engine/figures-worker.ts';
-import { FakeWorker, costingInWorker } from '../fixtures/fake-figures-worker.ts';
+import { costingInWorker } from '../fixtures/fake-figures-worker.ts';
+import type { FakeWorker } from '../fixtures/fake-figures-worker.ts';
 import { trialProblems } from '../../src/ui/build-rules.ts';
 import { CostingService } from '../../src/ui/costing-service.ts';
 
