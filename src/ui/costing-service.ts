@@ -411,7 +411,8 @@ export class CostingService extends EventTarget {
       if (!m.last) return;
       this.inFlight = false;
       this.shown = book;
-      this.announce(m.update);
+      // Even when nothing moved ('same'): a page that read while the figures were pending waits for this event.
+      this.announce(m.update, true);
     } else {
       this.inFlight = false;
       // The worker dropped its workbooks: the next request sends the whole Book again.
@@ -468,9 +469,9 @@ export class CostingService extends EventTarget {
     }
   }
 
-  /** Tells the pages the figures moved. */
-  private announce(u: FiguresUpdate): void {
-    if (u.kind === SYNC_KINDS.same) return;
+  /** Tells the pages the figures moved, or (`settled`) that the figures awaited are in, moved or not. */
+  private announce(u: FiguresUpdate, settled = false): void {
+    if (u.kind === SYNC_KINDS.same && !settled) return;
     this.version += 1;
     const detail: CostingChangeDetail = { kind: u.kind, changed: u.changed, checks: u.checks };
     this.dispatchEvent(new CustomEvent<CostingChangeDetail>('change', { detail }));

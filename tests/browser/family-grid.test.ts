@@ -132,7 +132,8 @@ describe('Family grid', () => {
     // Same parameters as FR4-60-CD, so the same parts and the same unit cost.
     const heading = `cost_${demo.settings.runSizes[1]!}`;
     const want = await cellText(page, src.code, heading);
-    for (const code of codes) await expect(cellText(page, code, heading)).resolves.toBe(want);
+    // The new rows' costs come from the figures worker, which may still be loading its engine.
+    for (const code of codes) await expect.poll(() => cellText(page, code, heading), { timeout: 60_000 }).toBe(want);
     await expect(cellText(page, 'PX-2', 'name')).resolves.toBe('Pasted second');
 
     await page.locator('[data-testid="undo"]').click();

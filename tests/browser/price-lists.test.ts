@@ -83,7 +83,8 @@ describe('customer price lists', () => {
     const book: Book = { ...demo, priceLists: [...demo.priceLists, trade] };
     const want = expectedTable(trade, book, demo.settings.runSizes);
     expect(want.size).toBe(demo.variants.length);
-    await expect.poll(async () => (await shownTable(page, trade.name)).prices).toEqual(want);
+    // The figures worker may still be loading its engine (costs kept or shipped were shown meanwhile).
+    await expect.poll(async () => (await shownTable(page, trade.name)).prices, { timeout: 60_000 }).toEqual(want);
 
     // A markup is a share of the cost: price = cost × (1 + markup), here converted at the Book's rate (EUR per GBP)
     // and rounded up to whole half pounds (common practice). Each price is a whole number of steps at or above the
@@ -99,7 +100,8 @@ describe('customer price lists', () => {
 
     await page.reload();
     await page.locator('[data-testid="price-table"]').first().waitFor({ timeout: 60_000 });
-    await expect.poll(async () => (await shownTable(page, trade.name)).prices).toEqual(want);
+    // The figures worker may still be loading its engine (costs kept or shipped were shown meanwhile).
+    await expect.poll(async () => (await shownTable(page, trade.name)).prices, { timeout: 60_000 }).toEqual(want);
     await expect(text(page, `[data-testid="price-lists-table"] tbody tr:has-text("${trade.name}")`)).resolves.toContain('rounded up 0.5');
     expect(errors).toEqual([]);
   });
@@ -147,7 +149,7 @@ describe('customer price lists', () => {
     await page.getByRole('button', { name: 'Add the price list' }).click();
     await saved(page);
     await page.locator('rb-price-lists-page h2', { hasText: trade.name }).waitFor();
-    await page.locator('rb-price-lists-page p.empty', { hasText: 'Working out' }).waitFor({ state: 'detached' });
+    await page.locator('rb-price-lists-page p.empty', { hasText: 'Working out' }).waitFor({ state: 'detached', timeout: 60_000 });
 
     // The lists in the order the page keeps them.
     const names = (await page.locator('[data-testid="price-lists-table"] tbody tr td:first-child').allTextContents()).map(readerText);
