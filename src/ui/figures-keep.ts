@@ -186,11 +186,19 @@ export const KEEP_AFTER_MS = 1_500;
 
 /**
  * Keeps the figures of `costing` each time they settle and stay so for `after` ms (the first settled figures at
- * once), when the page is idle where the browser says so. Gives the function that stops it.
+ * once), when the page is idle where the browser says so. `alreadyKept` names a Book whose figures are kept already
+ * (they were read from the kept store at start). Gives the function that stops it.
  */
-export function followFigures(costing: FiguresSource, bookDb: string, engine: string, dbName: string = KEPT_FIGURES_DB, after: number = KEEP_AFTER_MS): () => void {
+export function followFigures(
+  costing: FiguresSource,
+  bookDb: string,
+  engine: string,
+  options: { dbName?: string; after?: number; alreadyKept?: Book } = {},
+): () => void {
+  const { dbName = KEPT_FIGURES_DB, after = KEEP_AFTER_MS } = options;
   let timer: ReturnType<typeof setTimeout> | undefined;
-  let keptBook: Book | undefined;
+  // A Book whose figures were read from what was kept need not be written again when the worker agrees.
+  let keptBook: Book | undefined = options.alreadyKept;
   let stopped = false;
   const idle = (run: () => void): void => {
     if (typeof requestIdleCallback === 'function') requestIdleCallback(run, { timeout: 5_000 });

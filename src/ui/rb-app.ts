@@ -277,9 +277,11 @@ export class RbApp extends LitElement {
       const service = await opening;
       const costing = CostingService.for(service);
       if (ENGINE_BUILD !== undefined) {
-        const figures = (await keptFiguresOf(await kept, service.book, ENGINE_BUILD)) ?? (await keptFiguresOf(await shipped, service.book, ENGINE_BUILD));
+        const keptFigures = await keptFiguresOf(await kept, service.book, ENGINE_BUILD);
+        const figures = keptFigures ?? (await keptFiguresOf(await shipped, service.book, ENGINE_BUILD));
         if (figures) costing.seed(figures);
-        this.stopKeeping = followFigures(costing, service.name, ENGINE_BUILD);
+        // Figures read from the kept store are not written back when the worker agrees; shipped ones are.
+        this.stopKeeping = followFigures(costing, service.name, ENGINE_BUILD, { alreadyKept: keptFigures ? service.book : undefined });
       }
       // Figures are worked out off the page's thread from now on, while the first page's code still loads.
       costing.sync();

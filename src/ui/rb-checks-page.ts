@@ -105,6 +105,10 @@ export class RbChecksPage extends LitElement {
         display: inline-block;
         width: 1em;
       }
+      button.cell.pending {
+        color: var(--rb-na);
+        font-style: italic;
+      }
       button.cell small {
         display: block;
         font-family: var(--rb-mono);
@@ -267,8 +271,25 @@ export class RbChecksPage extends LitElement {
       <th class="check" scope="row"><code>${c.name}</code>${this.checks.formulaDrafts.has(c.id) ? html` <em class="muted">(formula changed, not kept)</em>` : ''}<small>${c.title}</small></th>
       ${shown.map((v) => {
         const r = this.result(v.id, c.id);
-        const status = r?.status ?? CHECK_STATUS.error;
         const pressed = sel?.variantId === v.id && sel.checkId === c.id;
+        // A check just added has no result until the figures worker has worked it out: say so, not "error".
+        if (!r && this.checks.pending) {
+          return html`<td>
+            <button
+              type="button"
+              class="cell pending"
+              data-variant=${v.code}
+              data-check=${c.name}
+              data-status="pending"
+              aria-pressed=${pressed ? 'true' : 'false'}
+              aria-label="${c.name} on ${v.code}: being worked out"
+              @click=${() => this.select(v.id, c.id)}
+            >
+              <span class="sym" aria-hidden="true">…</span> being worked out
+            </button>
+          </td>`;
+        }
+        const status = r?.status ?? CHECK_STATUS.error;
         const value = r ? shownValue(r) : '';
         return html`<td>
           <button

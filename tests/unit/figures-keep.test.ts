@@ -151,7 +151,7 @@ describe('figures kept and shown at the next start', () => {
   it('is not settled while an edit is being worked out, and keeps the figures of the Book after the edit once settled', async () => {
     const db = freshDb();
     const { holder, costing } = inWorker();
-    const stop = followFigures(costing, 'rungbook', ENGINE, db, 0);
+    const stop = followFigures(costing, 'rungbook', ENGINE, { dbName: db, after: 0 });
     try {
       await settle(costing);
       const q = holder.book.quotes[0]!;
@@ -205,7 +205,7 @@ describe('keeping figures as they settle', () => {
   it('keeps the first settled figures of a start at once, and later ones only once edits pause', async () => {
     const db = freshDb();
     const { holder, costing } = inWorker();
-    const stop = followFigures(costing, 'rungbook', ENGINE, db, 60_000);
+    const stop = followFigures(costing, 'rungbook', ENGINE, { dbName: db, after: 60_000 });
     const keptOf = async (b: Book) => keptFiguresOf(await readKeptFigures('rungbook', db), b, ENGINE);
     try {
       await settle(costing);
@@ -218,6 +218,26 @@ describe('keeping figures as they settle', () => {
       // The edit's figures wait for the pause (60 s here); what is kept is still the first start's, for that Book.
       expect(await keptOf(holder.book)).toBeUndefined();
       expect(await keptOf(first)).toBeDefined();
+    } finally {
+      stop();
+    }
+  });
+
+  it('does not write again the figures of a Book read from the kept store, and keeps the figures of the next edit', async () => {
+    const db = freshDb();
+    const { holder, costing } = inWorker();
+    const started = holder.book;
+    const stop = followFigures(costing, 'rungbook', ENGINE, { dbName: db, after: 0, alreadyKept: started });
+    const keptOf = async (b: Book) => keptFiguresOf(await readKeptFigures('rungbook', db), b, ENGINE);
+    try {
+      await settle(costing);
+      await new Promise((r) => setTimeout(r, 300));
+      // The store is empty here only because the test never wrote it: the worker's agreeing answer is not written.
+      expect(await readKeptFigures('rungbook', db)).toBeUndefined();
+      const q = started.quotes[0]!;
+      holder.change({ put: { quotes: [{ ...q, breaks: q.breaks.map((x) => ({ ...x, price: x.price * 2 })) }] } });
+      await settle(costing);
+      await expect.poll(() => keptOf(holder.book), { timeout: 10_000 }).toBeDefined();
     } finally {
       stop();
     }
