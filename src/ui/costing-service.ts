@@ -99,6 +99,8 @@ export class CostingService extends EventTarget {
   private sent: Book | undefined;
   private inFlight = false;
   private seq = 0;
+  /** True while the figures held were seeded and the worker has not been sent the Book yet (see `seed`). */
+  private seededOnly = false;
   private worker: FiguresWorkerLike | undefined;
   private local: LiveFigures | undefined;
   private localWhatIfs: WhatIfCosts | undefined;
@@ -266,15 +268,21 @@ export class CostingService extends EventTarget {
 
   /**
    * Shows figures kept from an earlier start for the Book as it is now (figures-keep.ts checked they are of this very
-   * Book), before the worker has worked them out. The worker is sent the Book at once, and its answer replaces them.
+   * Book), before the worker has worked them out. The worker is not started: `catchUp` sends it the Book (the app
+   * does so once the first view is painted), as does the first edit or question; its answer replaces these figures.
    * Only where figures come from a worker and none are held yet.
    */
   seed(update: FiguresUpdate): boolean {
     if (this.shown !== undefined || this.sent !== undefined || !this.makeWorker) return false;
     this.shown = this.books.book;
     this.take(update);
-    this.send();
+    this.seededOnly = true;
     return true;
+  }
+
+  /** Sends the worker the Book whose figures were seeded, if nothing has sent it yet. */
+  catchUp(): void {
+    if (this.seededOnly) this.send();
   }
 
   /**
@@ -301,6 +309,7 @@ export class CostingService extends EventTarget {
 
   /** Sends the worker a question; its answer (in order after every change sent before it) settles the promise. */
   private ask<T>(request: (id: number) => FiguresRequest): Promise<T> {
+    this.catchUp();
     const worker = this.worker;
     if (!worker) return Promise.reject(new Error(this.costingError ?? 'the figures worker is not running'));
     const id = ++this.nextAsk;
@@ -348,6 +357,7 @@ export class CostingService extends EventTarget {
   private send(): void {
     const next = this.books.book;
     if (this.inFlight || next === this.sent) return;
+    this.seededOnly = false;
     let worker = this.worker;
     if (!worker) {
       try {

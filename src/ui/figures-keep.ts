@@ -158,6 +158,25 @@ export async function keptFiguresOf(kept: ShippedFigures | KeptFigures | undefin
   }
 }
 
+/**
+ * Whether figures will likely be shown at start without the worker: something is kept for the Book, or there is no
+ * Book yet (a first start, which takes the figures the build ships). A guess, made before the Book is read; the
+ * figures are still checked against the Book before they are shown. False where the browser cannot list databases.
+ * Call it before the Book is opened.
+ */
+export async function likelySeeded(
+  kept: Promise<KeptFigures | undefined> | undefined,
+  bookDb: string,
+  factory: IDBFactory | undefined = globalThis.indexedDB,
+): Promise<boolean> {
+  if (!kept) return false;
+  // Asked at once, before the Book is opened (which creates its database on a first start).
+  const listed = factory && typeof factory.databases === 'function' ? factory.databases().catch(() => undefined) : Promise.resolve(undefined);
+  if ((await kept) !== undefined) return true;
+  const all = await listed;
+  return all !== undefined && !all.some((d) => d.name === bookDb);
+}
+
 /** Keeps a Book's settled figures for the next start; a Book too large to key drops what was kept for it. */
 export async function keepFigures(bookDb: string, book: Book, engine: string, update: FiguresUpdate, dbName: string = KEPT_FIGURES_DB): Promise<boolean> {
   try {

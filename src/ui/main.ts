@@ -1,7 +1,10 @@
 // Browser entry: defines the app element.
 import './rb-app.ts';
+import { afterFiguresShown } from './first-figures.ts';
 import { registerServiceWorker } from './sw-register.ts';
 
-// Store the offline copy of the app once the page has loaded, so it does not compete with the first render.
-if (document.readyState === 'complete') void registerServiceWorker();
-else window.addEventListener('load', () => void registerServiceWorker(), { once: true });
+// Store the offline copy of the app once the page has loaded and shown its first figures: fetching and storing every
+// file competed with the first view for the CPU.
+const register = (): void => afterFiguresShown(() => void registerServiceWorker());
+if (document.readyState === 'complete') register();
+else window.addEventListener('load', register, { once: true });

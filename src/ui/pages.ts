@@ -1,5 +1,6 @@
 // The page registry: every fixed page of a Book in rail order. A new page is one element file plus one line here
 // (give it `tag` and `load`); a page without them shows its description until it is built.
+import { afterFiguresShown } from './first-figures.ts';
 
 export interface PageEntry {
   /** Route segment: the page lives at `#/<slug>`. */
@@ -195,8 +196,8 @@ let loadingAhead = false;
 
 /**
  * Loads the code of the pages not visited yet, one page per idle moment, in rail order: a page switched to later is
- * then drawn at once, rather than its code being read and run in the task that draws it. Starts when a page says it
- * shows its figures (the `rb-load-pages-ahead` event on the window, so no page imports this registry); once.
+ * then drawn at once, rather than its code being read and run in the task that draws it. Starts once a page shows
+ * its figures (first-figures.ts, so no page imports this registry), or a while after the start; once.
  */
 export function loadPagesAhead(): void {
   if (loadingAhead || typeof window === 'undefined') return;
@@ -218,4 +219,4 @@ export function loadPagesAhead(): void {
   idle(next);
 }
 
-if (typeof window !== 'undefined') window.addEventListener('rb-load-pages-ahead', loadPagesAhead, { once: true });
+if (typeof window !== 'undefined') afterFiguresShown(loadPagesAhead);

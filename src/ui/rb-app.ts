@@ -10,7 +10,8 @@ import { StoredBookInvalid } from '../store/types.ts';
 import { bookContext } from './book-context.ts';
 import { BookService, DEFAULT_DB_NAME } from './book-service.ts';
 import { CostingService, ENGINE_BUILD, warmFiguresWorker } from './costing-service.ts';
-import { SHIPPED_FIGURES_FILE, fetchShippedFigures, followFigures, keptFiguresOf, readKeptFigures } from './figures-keep.ts';
+import { SHIPPED_FIGURES_FILE, fetchShippedFigures, followFigures, keptFiguresOf, likelySeeded, readKeptFigures } from './figures-keep.ts';
+import { afterFiguresShown } from './first-figures.ts';
 import { PAGES, START_PAGE, notebookRoute, parseRoute } from './pages.ts';
 import { sessionShare } from './share-session.ts';
 import type { PageEntry, Route } from './pages.ts';
@@ -262,14 +263,16 @@ export class RbApp extends LitElement {
 
   private async open(): Promise<void> {
     try {
-      // The figures worker loads and warms up while the Book is read (and, on a first start, written), and so does
-      // the code of the page asked for (show() then finds it loaded; a failure is reported there).
-      warmFiguresWorker();
+      // The code of the page asked for loads while the Book is read (show() then finds it loaded; a failure is
+      // reported there).
       if (this.route.kind === 'page') this.route.entry.load?.().catch(() => undefined);
       // Figures kept from the last start are read beside the Book, and shown at once if they are of this very Book.
       // With nothing kept, this may be a first start, which writes the demo Book: the build ships its figures, asked
       // for while the demo Book is written and read only if it was.
       const kept = ENGINE_BUILD === undefined ? undefined : readKeptFigures(DEFAULT_DB_NAME);
+      // When such figures will likely be shown, the figures worker (a second of CPU to load and compile its engine)
+      // starts after the first view; otherwise it loads and warms up while the Book is read.
+      void likelySeeded(kept, DEFAULT_DB_NAME).then((seeded) => seeded || warmFiguresWorker());
       const opening = BookService.open(DEFAULT_DB_NAME);
       const shipped = kept?.then((k) =>
         k ? undefined : fetchShippedFigures(`${import.meta.env.BASE_URL}${SHIPPED_FIGURES_FILE}`, opening.then((s) => s.startedFresh, () => false)),
@@ -279,11 +282,12 @@ export class RbApp extends LitElement {
       if (ENGINE_BUILD !== undefined) {
         const keptFigures = await keptFiguresOf(await kept, service.book, ENGINE_BUILD);
         const figures = keptFigures ?? (await keptFiguresOf(await shipped, service.book, ENGINE_BUILD));
-        if (figures) costing.seed(figures);
+        if (figures && costing.seed(figures)) afterFiguresShown(() => costing.catchUp());
         // Figures read from the kept store are not written back when the worker agrees; shipped ones are.
         this.stopKeeping = followFigures(costing, service.name, ENGINE_BUILD, { alreadyKept: keptFigures ? service.book : undefined });
       }
-      // Figures are worked out off the page's thread from now on, while the first page's code still loads.
+      // Figures are worked out off the page's thread from now on, while the first page's code still loads (seeded
+      // figures are sent after the first view).
       costing.sync();
       service.addEventListener('change', this.onServiceChange);
       this.provider.setValue(service);

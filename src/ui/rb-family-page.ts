@@ -16,6 +16,7 @@ import { formatValue } from '../domain/units.ts';
 import { sortVariants } from '../domain/variant-order.ts';
 import { BookController } from './book-context.ts';
 import { CostingService } from './costing-service.ts';
+import { figuresShown } from './first-figures.ts';
 import { field, focusFirstProblem, group, nothingSaved, saveRefusal } from './form-fields.ts';
 import './rb-grid.ts';
 import type { GridCell, GridClearDetail, GridColumn, GridCommitDetail, GridEditDetail, GridPasteDetail, GridRow, RbGrid } from './rb-grid.ts';
@@ -204,7 +205,6 @@ export class RbFamilyPage extends LitElement {
    */
   @state() private gridShown = false;
   private gridAsked = false;
-  private aheadAsked = false;
 
   private showGridSoon(): void {
     if (this.gridAsked) return;
@@ -342,11 +342,8 @@ export class RbFamilyPage extends LitElement {
       this.rowCache = new Map([...this.rowCache].filter(([id]) => ids.has(id)));
       this.paramCache = new Map([...this.paramCache].filter(([id]) => ids.has(id)));
     }
-    // The figures are shown: the other pages' code may load while the page is idle (see loadPagesAhead in pages.ts).
-    if (!pending && !this.aheadAsked) {
-      this.aheadAsked = true;
-      window.dispatchEvent(new Event('rb-load-pages-ahead'));
-    }
+    // The figures are shown: work held back for the first view may start (see first-figures.ts).
+    if (!pending) figuresShown();
     const costProblem = pending ? undefined : costing.problem;
     const checksProblem = pending ? undefined : costing.checksProblem;
     const undoStep = this.history.peek(DIRECTIONS.undo);

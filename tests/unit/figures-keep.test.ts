@@ -11,7 +11,7 @@ import { addBuiltInChecks } from '../../src/engine/check-sheets.ts';
 import { loadBuiltInChecks } from '../../src/cli/check-sheets-fs.ts';
 import { CostingService } from '../../src/ui/costing-service.ts';
 import { BookService } from '../../src/ui/book-service.ts';
-import { KEEP_MAX_RECORDS, KEEP_MAX_VARIANT_FIGURES, SHIPPED_FIGURES_FILE, canonicalJson, figuresKey, followFigures, fromKeptJson, keepFigures, keptFiguresOf, keptJson, readKeptFigures } from '../../src/ui/figures-keep.ts';
+import { KEEP_MAX_RECORDS, KEEP_MAX_VARIANT_FIGURES, SHIPPED_FIGURES_FILE, canonicalJson, figuresKey, followFigures, fromKeptJson, keepFigures, keptFiguresOf, keptJson, likelySeeded, readKeptFigures } from '../../src/ui/figures-keep.ts';
 import { firstStartBook, keptDemoFigures } from '../../scripts/kept-demo-figures.ts';
 import { SHIPPED_FIGURES_FILE as BUILD_SHIPPED_FILE } from '../../vite.config.ts';
 import { costingInWorker } from '../fixtures/fake-figures-worker.ts';
@@ -112,14 +112,43 @@ describe('figures kept and shown at the next start', () => {
     expect(again.costing.seed(kept!)).toBe(true);
     expect(again.costing.pending).toBe(false);
     expect(shown(again.costing, again.holder.book)).toEqual(want);
-    // The worker was sent the Book at once; its answer replaces the kept figures with the same figures.
+    // The worker is not started (it would compete with the first view) until the app catches up; a read does not.
+    again.costing.sync();
+    expect(again.workers).toHaveLength(0);
+    again.costing.catchUp();
+    // Then it is sent the Book, and its answer replaces the kept figures with the same figures.
     expect(again.workers[0]!.sent.map((m) => m.type)).toEqual(['book']);
+    again.costing.catchUp();
+    expect(again.workers[0]!.sent).toHaveLength(1);
     let events = 0;
     again.costing.addEventListener('change', () => (events += 1));
     await settle(again.costing);
     expect(events).toBe(1);
     expect(shown(again.costing, again.holder.book)).toEqual(want);
     expect(again.costing.settled()!.update).toEqual(settled.update);
+  });
+
+  it('sends the worker the Book of seeded figures at the first edit or question, before anything else', async () => {
+    const first = inWorker();
+    await settle(first.costing);
+    const update = first.costing.settled()!.update;
+
+    const edited = inWorker(structuredClone(first.holder.book));
+    expect(edited.costing.seed(update)).toBe(true);
+    const q = edited.holder.book.quotes[0]!;
+    edited.holder.change({ put: { quotes: [{ ...q, breaks: q.breaks.map((x) => ({ ...x, price: x.price * 2 })) }] } });
+    expect(edited.costing.pending).toBe(true);
+    edited.costing.sync();
+    expect(edited.workers[0]!.sent.map((m) => m.type)).toEqual(['book']);
+    await settle(edited.costing);
+    expect(edited.costing.settled()!.book).toBe(edited.holder.book);
+
+    const asked = inWorker(structuredClone(first.holder.book));
+    expect(asked.costing.seed(update)).toBe(true);
+    const line = asked.holder.book.buildLines[0]!;
+    const outcomes = await asked.costing.trialLine(line);
+    expect(outcomes.length).toBe(asked.holder.book.variants.length);
+    expect(asked.workers[0]!.sent.map((m) => m.type)).toEqual(['book', 'trial']);
   });
 
   it('shows nothing kept for another Book, another day or another build', async () => {
@@ -164,6 +193,29 @@ describe('figures kept and shown at the next start', () => {
       expect(kept).toEqual(costing.settled()!.update);
     } finally {
       stop();
+    }
+  });
+});
+
+describe('the guess, before the Book is read, that figures will be shown without the worker', () => {
+  it('is yes when figures are kept for the Book or there is no Book yet, and no otherwise', async () => {
+    const db = freshDb();
+    const first = inWorker();
+    await settle(first.costing);
+    const s = first.costing.settled()!;
+    const bookDb = `guess-book-${Date.now()}`;
+    // A first start: nothing kept, no Book database yet (the build ships the demo Book's figures).
+    expect(await likelySeeded(readKeptFigures(bookDb, db), bookDb)).toBe(true);
+    const service = await BookService.open(bookDb);
+    try {
+      // A Book and nothing kept for it (too large to keep, or a start before anything settled).
+      expect(await likelySeeded(readKeptFigures(bookDb, db), bookDb)).toBe(false);
+      await keepFigures(bookDb, s.book, ENGINE, s.update, db);
+      expect(await likelySeeded(readKeptFigures(bookDb, db), bookDb)).toBe(true);
+      // A development build keeps nothing.
+      expect(await likelySeeded(undefined, bookDb)).toBe(false);
+    } finally {
+      service.close();
     }
   });
 });
