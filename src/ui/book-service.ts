@@ -2,7 +2,7 @@
 // and reports save state, storage use, conflicts, schema upgrades in other tabs and edits made in other tabs.
 import type { Book, CollectionName } from '../domain/book.ts';
 import { COLLECTIONS, defaultSettings, emptyBook } from '../domain/book.ts';
-import { applyChangeSteps, recordIdsOf, recordIdsSteps, revisionMatches, withStoredRecordsSteps } from '../domain/book-ops.ts';
+import { applyChange, applyChangeSteps, recordIdsOf, recordIdsSteps, revisionMatches, withStoredRecordsSteps } from '../domain/book-ops.ts';
 import type { RecordIds, StoredRecords } from '../domain/book-ops.ts';
 import { ITEMS_PER_LOOK, nextTask, runInSlices } from '../domain/slices.ts';
 import type { Sliced } from '../domain/slices.ts';
@@ -58,6 +58,9 @@ export class EditConflict extends RevisionConflict {
 const REMEMBERED_VERSIONS = 2000;
 /** Tries of a merged save before it is refused (each try follows another tab's newer write). */
 const MERGE_TRIES = 4;
+
+/** Records a save may put or delete and still be applied ahead in memory while it is written (see `proposed`). */
+const PROPOSE_MAX = 200;
 
 /** Records a change may name before the message telling other tabs goes in a task of its own. */
 const TELL_LATER = 10_000;
@@ -130,6 +133,12 @@ export class BookService extends EventTarget {
    * anything is written. Undefined for a Book that is not shared.
    */
   refuseEdits: ((change: BookChange) => string | undefined) | undefined;
+  /**
+   * While a small save is being written: the Book as it will read once the store has the change (applied ahead in
+   * memory), announced by a `proposed` event, so the figures worker can start on it meanwhile. Pages read `book`, which
+   * moves only when the store has accepted the change and stays as it was when it refused; undefined otherwise.
+   */
+  proposed: Book | undefined;
 
   private readonly tabId = Math.random().toString(36).slice(2);
   private channel: BroadcastChannel | undefined;
@@ -203,18 +212,34 @@ export class BookService extends EventTarget {
     const refused = this.refuseEdits?.(change);
     if (refused) return Promise.resolve({ ok: false, message: refused, conflict: false });
     return this.enqueue(async () => {
-      const { written, merged } = await this.writeMerging(change);
-      // Applied in slices: a large import's copy in memory must not hold the page either.
-      const next = await runInSlices(applyChangeSteps(this.book, written));
-      // So is the bookkeeping: naming the change's records and noting the revisions this tab wrote.
-      const records = await runInSlices(recordIdsSteps(written));
-      // The store accepted the change, so a mismatch here means memory fell behind (another tab, whose own message
-      // is on its way): the change's records are read back as stored.
-      if (next.ok) this.adopt(next.book, records);
-      else await this.takeRecords(records);
-      await runInSlices(this.noteOwn(written));
-      return { merged, records };
+      this.propose(change);
+      try {
+        const { written, merged } = await this.writeMerging(change);
+        // Applied in slices: a large import's copy in memory must not hold the page either.
+        const next = await runInSlices(applyChangeSteps(this.book, written));
+        // So is the bookkeeping: naming the change's records and noting the revisions this tab wrote.
+        const records = await runInSlices(recordIdsSteps(written));
+        // The store accepted the change, so a mismatch here means memory fell behind (another tab, whose own message
+        // is on its way): the change's records are read back as stored.
+        if (next.ok) this.adopt(next.book, records);
+        else await this.takeRecords(records);
+        await runInSlices(this.noteOwn(written));
+        return { merged, records };
+      } finally {
+        this.proposed = undefined;
+      }
     });
+  }
+
+  /** Sets `proposed` for a small change that applies to the Book as held, and says so; a large one waits for the store. */
+  private propose(change: BookChange): void {
+    let n = 0;
+    for (const c of COLLECTIONS) n += (change.put?.[c]?.length ?? 0) + (change.delete?.[c]?.length ?? 0);
+    if (n > PROPOSE_MAX) return;
+    const r = applyChange(this.held, change);
+    if (!r.ok) return;
+    this.proposed = inVariantOrder(r.book);
+    this.dispatchEvent(new Event('proposed'));
   }
 
   /** Drops the notice of the last merged save. */

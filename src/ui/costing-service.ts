@@ -9,6 +9,7 @@
 // what changed; when its answer arrives the service emits `change` with a `CostingChangeDetail`, and `version` rises,
 // so a page can tell whether its rows are stale and draw again.
 import type { Book, BuildLine } from '../domain/book.ts';
+import { COLLECTIONS } from '../domain/book.ts';
 import { bookDelta } from '../domain/book-ops.ts';
 import { CHECK_STATUS, worstOf } from '../domain/check-status.ts';
 import type { CheckStatus } from '../domain/check-status.ts';
@@ -39,6 +40,11 @@ function engines(): NonNullable<typeof inProcess> {
 /** Where the service reads the open Book: the app's BookService, or any holder of a Book (tests, the CLI's twin). */
 export interface BookSource {
   readonly book: Book;
+  /**
+   * The Book a save under way will give once stored (BookService.proposed): the worker starts on it ahead, and its
+   * figures are held back until `book` is that very Book.
+   */
+  readonly proposed?: Book | undefined;
 }
 
 /** The slice of the Worker interface the service uses, so tests can stand in for the worker. */
@@ -101,6 +107,10 @@ export class CostingService extends EventTarget {
   private seq = 0;
   /** True while the figures held were seeded and the worker has not been sent the Book yet (see `seed`). */
   private seededOnly = false;
+  /** True while the Book last sent is a save's proposed Book that has not become the Book yet. */
+  private sentAhead = false;
+  /** The answer for a proposed Book, held back (not merged) until the Book is that Book. */
+  private heldBack: FiguresUpdate[] = [];
   private worker: FiguresWorkerLike | undefined;
   private local: LiveFigures | undefined;
   private localWhatIfs: WhatIfCosts | undefined;
@@ -125,7 +135,11 @@ export class CostingService extends EventTarget {
     this.makeWorker = workerFactory;
     // Once figures have been asked for, the worker follows every change of the Book at once, off the page's thread,
     // so a page that shows figures later (the Family page after a price edit on the Quotes page) finds them ready.
-    if (books instanceof EventTarget) books.addEventListener('change', () => this.worker && this.send());
+    if (books instanceof EventTarget) {
+      books.addEventListener('change', () => this.worker && this.send());
+      // A save under way: the worker starts on the Book it will give while the store writes it.
+      books.addEventListener('proposed', () => this.worker && this.send());
+    }
   }
 
   /** The one costing service of an open Book (made on first use); pass the app's BookService. */
@@ -333,6 +347,8 @@ export class CostingService extends EventTarget {
     this.sent = undefined;
     this.shown = undefined;
     this.inFlight = false;
+    this.sentAhead = false;
+    this.heldBack = [];
   }
 
   /**
@@ -353,10 +369,16 @@ export class CostingService extends EventTarget {
     return PENDING;
   }
 
-  /** Sends the worker what changed since the Book it holds, unless it is still answering the last request. */
+  /**
+   * Sends the worker what changed since the Book it holds, unless it is still answering the last request: from the
+   * Book as it is, or from the Book a save under way will give (`proposed`), so the figures are worked out while the
+   * store writes it.
+   */
   private send(): void {
-    const next = this.books.book;
-    if (this.inFlight || next === this.sent) return;
+    const proposed = this.books.proposed;
+    const next = proposed ?? this.books.book;
+    if (next === this.sent || this.becameBook(next)) return;
+    if (this.inFlight) return;
     this.seededOnly = false;
     let worker = this.worker;
     if (!worker) {
@@ -367,6 +389,14 @@ export class CostingService extends EventTarget {
         return;
       }
     }
+    if (this.heldBack.length > 0) {
+      // Moving on from a proposed Book that did not become the Book as it was (the save failed, or was merged with
+      // another tab's change): its figures are the base the next answer is a change from, and stay pending until then.
+      for (const u of this.heldBack) this.merge(u);
+      this.heldBack = [];
+      this.shown = this.sent;
+    }
+    this.sentAhead = proposed !== undefined && next !== this.books.book;
     this.seq += 1;
     const request = this.sent ? ({ type: 'delta', seq: this.seq, delta: bookDelta(this.sent, next) } as const) : ({ type: 'book', seq: this.seq, book: next } as const);
     this.sent = next;
@@ -379,6 +409,26 @@ export class CostingService extends EventTarget {
       if (i + 1 < parts.length) setTimeout(() => post(i + 1), 0);
     };
     post(0);
+  }
+
+  /**
+   * When the proposed Book last sent has become the Book (`next`, the same records stored and read back as other
+   * objects): takes `next` as the Book sent, and its figures, held back until now, as the figures shown. True when so.
+   */
+  private becameBook(next: Book): boolean {
+    const sent = this.sent;
+    if (!this.sentAhead || !sent || next !== this.books.book || !sameRecords(sent, next)) return false;
+    this.sent = next;
+    this.sentAhead = false;
+    const parts = this.heldBack;
+    this.heldBack = [];
+    for (const u of parts) this.merge(u);
+    // Still answering (parts before the last are merged quietly, as always): the last part completes the figures of
+    // `next`, now the Book sent.
+    if (this.inFlight) return true;
+    if (this.shown === sent || parts.length > 0) this.shown = next;
+    if (parts.length > 0) this.announce(parts[parts.length - 1]!, true);
+    return true;
   }
 
   private startWorker(): FiguresWorkerLike {
@@ -416,20 +466,28 @@ export class CostingService extends EventTarget {
     if (m.seq !== this.seq) return;
     const book = this.sent!;
     if (m.type === 'figures') {
-      // Parts before the last are merged quietly; the last one completes the figures of the Book sent.
-      this.merge(m.update);
-      if (!m.last) return;
-      this.inFlight = false;
-      this.shown = book;
-      // Even when nothing moved ('same'): a page that read while the figures were pending waits for this event.
-      this.announce(m.update, true);
+      if (this.sentAhead) {
+        // The figures of a proposed Book wait until the Book is that Book (becameBook): until then reads answer from
+        // the figures of a Book that has been the Book.
+        this.heldBack.push(m.update);
+        if (!m.last) return;
+        this.inFlight = false;
+      } else {
+        // Parts before the last are merged quietly; the last one completes the figures of the Book sent.
+        this.merge(m.update);
+        if (!m.last) return;
+        this.inFlight = false;
+        this.shown = book;
+        // Even when nothing moved ('same'): a page that read while the figures were pending waits for this event.
+        this.announce(m.update, true);
+      }
     } else {
       this.inFlight = false;
       // The worker dropped its workbooks: the next request sends the whole Book again.
       this.sent = undefined;
       this.fail(book, m.message);
     }
-    if (this.books.book !== this.sent) this.send();
+    if ((this.books.proposed ?? this.books.book) !== this.sent || this.sentAhead) this.send();
   }
 
   /** Holds no figures, only why. */
@@ -486,4 +544,23 @@ export class CostingService extends EventTarget {
     const detail: CostingChangeDetail = { kind: u.kind, changed: u.changed, checks: u.checks };
     this.dispatchEvent(new CustomEvent<CostingChangeDetail>('change', { detail }));
   }
+}
+
+/**
+ * Whether two Books hold the very same records, in the same order (a save's proposed Book and the Book the store
+ * gave back for it). Records kept from one to the other are the same objects, so only those the save wrote are read.
+ */
+function sameRecords(a: Book, b: Book): boolean {
+  for (const c of COLLECTIONS) {
+    const x: readonly { id: string; rev: number }[] = a[c];
+    const y: readonly { id: string; rev: number }[] = b[c];
+    if (x === y) continue;
+    if (x.length !== y.length) return false;
+    for (let i = 0; i < x.length; i++) {
+      const p = x[i]!;
+      const q = y[i]!;
+      if (p !== q && (p.id !== q.id || p.rev !== q.rev || JSON.stringify(p) !== JSON.stringify(q))) return false;
+    }
+  }
+  return a.settings === b.settings || JSON.stringify(a.settings) === JSON.stringify(b.settings);
 }

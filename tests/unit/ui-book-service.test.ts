@@ -137,6 +137,31 @@ describe('Book service', () => {
     expect(s.book.suppliers.find((x) => x.id === original.id)).toMatchObject({ notes: 'first', name: 'second' });
   });
 
+  it('proposes a small save’s Book while it is written, holds the same records once stored, and drops it when refused', async () => {
+    const name = `rungbook-ui-${++dbCount}`;
+    const a = await open(name);
+    const b = await open(name);
+    const seen: { proposed: unknown; book: unknown }[] = [];
+    b.addEventListener('proposed', () => seen.push({ proposed: b.proposed, book: b.book }));
+    const before = b.book;
+    const v = before.variants[0]!;
+    const key = Object.keys(v.params)[0]!;
+    expect((await b.save({ put: { variants: [{ ...v, params: { ...v.params, [key]: 11 } }] } })).ok).toBe(true);
+    expect(seen).toHaveLength(1);
+    // Proposed ahead while the Book itself stayed; once stored, the Book holds the very same records.
+    expect(seen[0]!.book).toBe(before);
+    expect(seen[0]!.proposed).toStrictEqual(b.book);
+    expect(b.proposed).toBeUndefined();
+    // A save the store refuses (another tab saved the record first) was proposed too, and the Book stays as it was.
+    const mine = b.book.suppliers[0]!;
+    expect((await a.save({ put: { suppliers: [{ ...mine, notes: 'from tab A' }] } })).ok).toBe(true);
+    expect((await b.save({ put: { suppliers: [{ ...mine, notes: 'from tab B' }] } })).ok).toBe(false);
+    expect(seen).toHaveLength(2);
+    expect((seen[1]!.proposed as typeof before).suppliers.find((x) => x.id === mine.id)?.notes).toBe('from tab B');
+    expect(b.book.suppliers.find((x) => x.id === mine.id)?.notes).not.toBe('from tab B');
+    expect(b.proposed).toBeUndefined();
+  });
+
   it('turns a malformed change into a message and writes nothing', async () => {
     const s = await open();
     const before = s.book.parts.length;

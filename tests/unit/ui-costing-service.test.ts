@@ -284,6 +284,111 @@ describe('CostingService with the figures worker', () => {
   });
 });
 
+/**
+ * A Book source that saves as the app's Book service does: a save's Book is proposed ahead (`proposed` and a
+ * `proposed` event) while it is written, then stored — the same records as other objects — or refused.
+ */
+class Saving extends EventTarget {
+  proposed: Book | undefined;
+  private change: BookChange | undefined;
+  constructor(public book: Book) {
+    super();
+  }
+  propose(change: BookChange): void {
+    const r = applyChange(this.book, change);
+    if (!r.ok) throw new Error(`conflict on ${r.conflict.recordId}`);
+    this.change = change;
+    this.proposed = r.book;
+    this.dispatchEvent(new Event('proposed'));
+  }
+  /** The store took the change as proposed (`as`: it merged another tab's change in, and took that). */
+  stored(as?: BookChange): void {
+    const r = applyChange(this.book, as ?? this.change!);
+    if (!r.ok) throw new Error(`conflict on ${r.conflict.recordId}`);
+    this.proposed = undefined;
+    this.book = r.book;
+    this.dispatchEvent(new CustomEvent('change', { detail: { what: 'book' } }));
+  }
+  refused(): void {
+    this.proposed = undefined;
+    this.dispatchEvent(new CustomEvent('change', { detail: { what: 'status' } }));
+  }
+}
+
+const answersIn = (): Promise<void> => new Promise((r) => setTimeout(r, 5));
+
+describe('CostingService with a save under way', () => {
+  /** The demo Book settled in the worker, and a parameter edit that changes what a variant is built from. */
+  async function saving(): Promise<{ holder: Saving; costing: CostingService; workers: FakeWorker[]; edit: BookChange; before: Book }> {
+    const holder = new Saving(addBuiltInChecks(demoBook(), CHECKS));
+    const { costing, workers } = costingInWorker(holder);
+    await settled(costing);
+    const v = holder.book.variants.find((x) => x.code === 'FR3-40-CD')!;
+    return { holder, costing, workers, edit: { put: { variants: [{ ...v, params: { ...v.params, steps: 4, r_s4: 47000 } }] } }, before: holder.book };
+  }
+
+  it('works the figures out while the save is written, shows them only once it is stored, and asks nothing more', async () => {
+    const { holder, costing, workers, edit, before } = await saving();
+    const events: string[] = [];
+    costing.addEventListener('change', (e) => events.push((e as CustomEvent<{ kind: string }>).detail.kind));
+    holder.propose(edit);
+    expect(workers[0]!.sent.map((m) => m.type)).toEqual(['book', 'delta']);
+    await answersIn();
+    // Answered, but the Book is still the one before the save: its figures stand, settled.
+    expect(events).toEqual([]);
+    expect(costing.pending).toBe(false);
+    expect(live(costing, holder.book)).toEqual(fresh(before));
+    holder.stored();
+    // Stored: the figures worked out ahead are the Book's at once, with no second request.
+    expect(costing.pending).toBe(false);
+    expect(events).toEqual(['edited']);
+    expect(workers[0]!.sent).toHaveLength(2);
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+    expect(live(costing, holder.book)).not.toEqual(fresh(before));
+    for (const x of holder.book.variants) expect(costing.worstStatus(x.id)).toBe(freshWorst(holder.book).get(x.id));
+  });
+
+  it('takes the answer as the stored Book’s when the save is stored before the worker answers', async () => {
+    const { holder, costing, workers, edit } = await saving();
+    holder.propose(edit);
+    holder.stored();
+    expect(costing.pending).toBe(true);
+    await settled(costing);
+    expect(workers[0]!.sent).toHaveLength(2);
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+    for (const x of holder.book.variants) expect(costing.worstStatus(x.id)).toBe(freshWorst(holder.book).get(x.id));
+  });
+
+  it('goes back to the figures of the Book as it stayed when the save is refused, before or after the answer', async () => {
+    for (const early of [true, false]) {
+      const { holder, costing, workers, edit, before } = await saving();
+      holder.propose(edit);
+      if (!early) await answersIn();
+      holder.refused();
+      // The worker is brought back to the Book as it stayed (once it has answered for the proposed one).
+      for (let i = 0; i < 200 && workers[0]!.sent.length < 3; i++) await answersIn();
+      await settled(costing);
+      await answersIn();
+      expect(costing.pending).toBe(false);
+      expect(workers[0]!.sent.map((m) => m.type)).toEqual(['book', 'delta', 'delta']);
+      expect(holder.book).toBe(before);
+      expect(live(costing, before)).toEqual(fresh(before));
+      for (const x of before.variants) expect(costing.worstStatus(x.id)).toBe(freshWorst(before).get(x.id));
+    }
+  });
+
+  it('catches up with the Book the store gave when it is not the one proposed (another tab’s change merged in)', async () => {
+    const { holder, costing, edit } = await saving();
+    holder.propose(edit);
+    await answersIn();
+    const v = edit.put!.variants![0]!;
+    holder.stored({ put: { variants: [{ ...v, params: { ...v.params, t_amb: 95 } }] } });
+    await settled(costing);
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+    for (const x of holder.book.variants) expect(costing.worstStatus(x.id)).toBe(freshWorst(holder.book).get(x.id));
+  });
+});
+
 describe('What-if figures for the Compare page', () => {
   const wants = (ids: string[], runs: number[]) => ids.flatMap((variantId) => runs.map((run) => ({ variantId, run, bom: true })));
 
