@@ -87,6 +87,48 @@ function keptDemoFigures(): Plugin {
   };
 }
 
+/** The page most starts open (a returning person's Family page): its code is fetched beside the app's own. */
+const START_PAGE_SOURCE = '/src/ui/rb-family-page.ts';
+
+/**
+ * Adds modulepreload links for the Family page's code and what it imports. The app loads a page's code only once its
+ * own code has run, so without them the page's files were a second round of fetches after the first.
+ */
+function preloadStartPage(): Plugin {
+  let base = '/';
+  return {
+    name: 'rungbook-preload-start-page',
+    apply: 'build',
+    configResolved(resolved) {
+      base = resolved.base;
+    },
+    transformIndexHtml: {
+      order: 'post',
+      handler(_html, ctx) {
+        const bundle = ctx.bundle;
+        if (!bundle) return [];
+        const chunks = Object.values(bundle).filter((c) => c.type === 'chunk');
+        const page = chunks.find((c) => c.facadeModuleId?.endsWith(START_PAGE_SOURCE));
+        if (!page) throw new Error(`the build has no chunk for ${START_PAGE_SOURCE}`);
+        // What the entry imports is preloaded by Vite already.
+        const have = new Set<string>();
+        const walk = (file: string, into: Set<string>): void => {
+          if (into.has(file)) return;
+          into.add(file);
+          const c = bundle[file];
+          if (c?.type === 'chunk') for (const i of c.imports) walk(i, into);
+        };
+        for (const c of chunks) if (c.isEntry && c.fileName !== SW_FILE) walk(c.fileName, have);
+        const wanted = new Set<string>();
+        walk(page.fileName, wanted);
+        return [...wanted]
+          .filter((f) => !have.has(f))
+          .map((f) => ({ tag: 'link', attrs: { rel: 'modulepreload', crossorigin: true, href: `${base}${f}` }, injectTo: 'head' as const }));
+      },
+    },
+  };
+}
+
 const CSP_MARK = '__RB_CONTENT_SECURITY_POLICY__';
 
 /** Writes the one Content-Security-Policy (scripts/security-headers.mjs) into index.html's meta tag. */
@@ -104,7 +146,7 @@ function contentSecurityPolicy(): Plugin {
 }
 
 export default defineConfig({
-  plugins: [contentSecurityPolicy(), keptDemoFigures(), offlineApp()],
+  plugins: [contentSecurityPolicy(), keptDemoFigures(), preloadStartPage(), offlineApp()],
   build: {
     target: 'es2022',
     sourcemap: false,
