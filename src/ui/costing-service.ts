@@ -442,6 +442,8 @@ export class CostingService extends EventTarget {
       const book = this.sent ?? this.books.book;
       this.sent = undefined;
       this.inFlight = false;
+      this.sentAhead = false;
+      this.heldBack = [];
       this.dropAsked(`the worker stopped (${e.message || 'no reason given'})`);
       this.fail(book, `the figures could not be worked out: the worker stopped (${e.message || 'no reason given'})`);
     };
@@ -485,6 +487,8 @@ export class CostingService extends EventTarget {
       this.inFlight = false;
       // The worker dropped its workbooks: the next request sends the whole Book again.
       this.sent = undefined;
+      this.sentAhead = false;
+      this.heldBack = [];
       this.fail(book, m.message);
     }
     if ((this.books.proposed ?? this.books.book) !== this.sent || this.sentAhead) this.send();

@@ -377,6 +377,20 @@ describe('CostingService with a save under way', () => {
     }
   });
 
+  it('starts a new worker on the stored Book when the worker stops while working out the proposed one', async () => {
+    const { holder, costing, workers, edit } = await saving();
+    workers[0]!.crash = 'out of memory';
+    holder.propose(edit);
+    await answersIn();
+    expect(costing.problem).toMatch(/the worker stopped \(out of memory\)/);
+    holder.stored();
+    await settled(costing);
+    expect(workers).toHaveLength(2);
+    expect(workers[1]!.sent.map((m) => m.type)).toEqual(['book']);
+    expect(costing.problem).toBeUndefined();
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+  });
+
   it('catches up with the Book the store gave when it is not the one proposed (another tab’s change merged in)', async () => {
     const { holder, costing, edit } = await saving();
     holder.propose(edit);
