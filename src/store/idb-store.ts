@@ -96,20 +96,23 @@ function openWithMigrations(
 
 /** Records copied into the database per step of a large write (a few ms of the page's time each). */
 const WRITE_STEP = 2000;
+/** The page's time one step of a large write may take: large records (a variant's many parameters) reach it first. */
+const WRITE_STEP_MS = 12;
 
 /**
  * Collects request promises of one transaction. Each gets a no-op rejection handler at once: when the transaction
  * aborts, every pending request rejects, and only the first failure is reported.
  *
- * A large write goes in steps of about WRITE_STEP records in the one transaction: each request copies its record when
- * it is made, so copying a large Book or import at once held the page for a second. `step` waits for the requests
- * made since the last step once they weigh WRITE_STEP records; the next ones are made from their ends, which keeps the
+ * A large write goes in steps in the one transaction: each request copies its record when it is made, so copying a
+ * large Book or import at once held the page for a second. `step` waits for the requests made since the last step
+ * once they weigh WRITE_STEP records or took WRITE_STEP_MS; the next ones are made from their ends, which keeps the
  * transaction alive, and the page draws and answers in between.
  */
 function requests(): { add(p: Promise<unknown>, weight?: number): void; step(): Promise<void>; all(): Promise<unknown[]> } {
   const list: Promise<unknown>[] = [];
   let since = 0;
   let weight = 0;
+  let began = performance.now();
   return {
     add(p, w = 1) {
       p.catch(() => undefined);
@@ -117,11 +120,12 @@ function requests(): { add(p: Promise<unknown>, weight?: number): void; step(): 
       weight += w;
     },
     async step() {
-      if (weight < WRITE_STEP) return;
+      if (weight < WRITE_STEP && performance.now() - began < WRITE_STEP_MS) return;
       const pending = list.slice(since);
       since = list.length;
       weight = 0;
       await Promise.all(pending);
+      began = performance.now();
     },
     all: () => Promise.all(list),
   };
