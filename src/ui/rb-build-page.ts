@@ -4,6 +4,7 @@
 import { LitElement, css, html } from 'lit';
 import type { TemplateResult } from 'lit';
 import { customElement, state } from 'lit/decorators.js';
+import { guard } from 'lit/directives/guard.js';
 import type { Book, BuildLine } from '../domain/book.ts';
 import { COST_CATEGORIES, newId } from '../domain/book.ts';
 import { ROLES, VARIANT_PARAMS } from '../domain/params.ts';
@@ -46,6 +47,31 @@ function ruleNames(book: Book): NameHint[] {
 
 function pct(fraction: number): string {
   return `${Number((fraction * 100).toPrecision(4))} %`;
+}
+
+/** Whether two lists of build lines hold the same lines (by id) in the same order. */
+function sameLineIds(a: readonly BuildLine[], b: readonly BuildLine[] | undefined): boolean {
+  return b !== undefined && a.length === b.length && a.every((l, i) => l.id === b[i]!.id);
+}
+
+/**
+ * The new summaries, each line's kept as the earlier object when it reads the same: a row whose standing did not move
+ * is not drawn again.
+ */
+function steadySummaries(before: ReadonlyMap<string, LineSummary>, after: Map<string, LineSummary>): Map<string, LineSummary> {
+  for (const [id, s] of after) {
+    const b = before.get(id);
+    if (
+      b &&
+      b.variants === s.variants &&
+      b.applying === s.applying &&
+      b.problem === s.problem &&
+      b.failing.length === s.failing.length &&
+      b.failing.every((code, i) => code === s.failing[i])
+    )
+      after.set(id, b);
+  }
+  return after;
 }
 
 function qtyText(n: number): string {
@@ -198,6 +224,8 @@ export class RbBuildPage extends LitElement {
   /** The figures' version the resolved lines were read at (they arrive from the worker after the Book changes). */
   private familyVersion = -1;
   private names: readonly NameHint[] = [];
+  /** The variants the rule names were read from. */
+  private namesOf: Book['variants'] | undefined;
   private timer: ReturnType<typeof setTimeout> | undefined;
   /** Saved line edits (add, edit, move, delete), undone and redone as one Book change each. */
   private readonly history = new UndoStack<BuildLine>();
@@ -237,11 +265,19 @@ export class RbBuildPage extends LitElement {
     costing.sync();
     if (book === this.familyBook && costing.version === this.familyVersion) return;
     // The shared service keeps the family resolved as the Book changes; the Family and Compare pages read the same.
-    this.family = costing.resolution();
-    this.summaries = lineSummaries(book, this.family);
+    // A line edit changes the Book at once and the resolution when the figures come: until then (same version, same
+    // lines and variants) the lines' standing is as it was, and is not counted again.
+    const earlier = this.familyBook;
+    if (costing.version !== this.familyVersion || !earlier || earlier.variants !== book.variants || !sameLineIds(book.buildLines, earlier.buildLines)) {
+      this.family = costing.resolution();
+      this.summaries = steadySummaries(this.summaries, lineSummaries(book, this.family));
+    }
     this.familyVersion = costing.version;
     this.familyBook = book;
-    this.names = ruleNames(book);
+    if (this.namesOf !== book.variants) {
+      this.names = ruleNames(book);
+      this.namesOf = book.variants;
+    }
     if (!book.variants.some((v) => v.id === this.bomVariant)) this.bomVariant = book.variants[0]?.id ?? '';
   }
 
@@ -311,11 +347,33 @@ export class RbBuildPage extends LitElement {
                 </tr>
               </thead>
               <tbody>
-                ${this.drawnLines.take(lines).map((l) => this.renderLine(book, parts, l, index.get(l.id)!, all.length))}
+                ${this.drawnLines.take(lines).map((l) => this.renderRow(book, parts, l, index.get(l.id)!, all.length))}
               </tbody>
             </table>
           </div>`}
     </section>`;
+  }
+
+  /**
+   * A line's row, drawn again only when something it shows changed: an edit saved or tried changes one row, and the
+   * other rows of a long list are left as they are.
+   */
+  private renderRow(book: Book, parts: ReadonlyMap<string, Book['parts'][number]>, l: BuildLine, index: number, count: number) {
+    const problem = this.rowProblem?.id === l.id ? this.rowProblem.message : undefined;
+    const deps = [
+      l,
+      book.parts,
+      book.suppliers,
+      book.settings.attrition,
+      this.summaries.get(l.id),
+      this.confirmDelete === l.id,
+      problem,
+      this.saving.has(l.id),
+      this.editing?.line?.id === l.id,
+      index,
+      count,
+    ];
+    return guard(deps, () => this.renderLine(book, parts, l, index, count));
   }
 
   private renderLine(book: Book, parts: ReadonlyMap<string, Book['parts'][number]>, l: BuildLine, index: number, count: number): TemplateResult {
@@ -365,7 +423,7 @@ export class RbBuildPage extends LitElement {
               <button type="button" class="quiet" @click=${() => (this.confirmDelete = undefined)}>Keep</button>`
           : html`<button type="button" class="move" aria-label="Move ${l.designators} up" ?disabled=${index === 0} @click=${() => this.move(l, -1)}>↑</button>
               <button type="button" class="move" aria-label="Move ${l.designators} down" ?disabled=${index === count - 1} @click=${() => this.move(l, 1)}>↓</button>
-              <button type="button" class="quiet" @click=${() => this.startEdit(book, l)}>edit</button>
+              <button type="button" class="quiet" @click=${() => this.startEdit(this.books.book ?? book, l)}>edit</button>
               <button type="button" class="quiet" @click=${() => this.askDelete(l)}>delete</button>`}
         ${rowProblem ? html`<div class="bad" role="alert">${rowProblem}</div>` : ''}
       </td>
