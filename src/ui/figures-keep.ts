@@ -85,10 +85,16 @@ export async function figuresKey(book: Book, engine: string): Promise<string | u
   return `${engine}|${costingDateOf(book.settings)}|${hex}`;
 }
 
+/**
+ * Version 2: version 1 made the store only when it made the database, so a database made without it (opened by
+ * anything else first) could never keep figures; any upgrade now makes the store if it is missing.
+ */
+const KEPT_DB_VERSION = 2;
+
 function open(dbName: string) {
-  return openDB<KeptSchema>(dbName, 1, {
+  return openDB<KeptSchema>(dbName, KEPT_DB_VERSION, {
     upgrade(db) {
-      db.createObjectStore('kept', { keyPath: 'book' });
+      if (!db.objectStoreNames.contains('kept')) db.createObjectStore('kept', { keyPath: 'book' });
     },
   });
 }
@@ -158,23 +164,46 @@ export async function keptFiguresOf(kept: ShippedFigures | KeptFigures | undefin
   }
 }
 
+/** Names of this origin's databases, or undefined where the browser cannot list them (or fails to). */
+export async function databaseNames(factory: IDBFactory | undefined = globalThis.indexedDB): Promise<Set<string> | undefined> {
+  if (!factory || typeof factory.databases !== 'function') return undefined;
+  try {
+    return new Set((await factory.databases()).map((d) => d.name).filter((n): n is string => typeof n === 'string'));
+  } catch {
+    return undefined;
+  }
+}
+
+/** The figures a start may show before the worker has worked them out, asked for beside the Book. */
+export interface StartFigures {
+  /** What is kept for the Book (read only if its database exists). */
+  kept: Promise<KeptFigures | undefined>;
+  /** What the build ships for the demo Book: asked for at once on a likely first start, else when nothing is kept. */
+  shipped: Promise<ShippedFigures | undefined>;
+  /** A guess that one of them will be shown (figures kept, or a first start), for starting the worker later. */
+  likely: Promise<boolean>;
+}
+
 /**
- * Whether figures will likely be shown at start without the worker: something is kept for the Book, or there is no
- * Book yet (a first start, which takes the figures the build ships). A guess, made before the Book is read; the
- * figures are still checked against the Book before they are shown. False where the browser cannot list databases.
- * Call it before the Book is opened.
+ * Asks for the figures a start may show, and opens the Book (`openBook`, called once the databases are listed:
+ * opening creates the Book's database on a first start). A first start is told by the Book's database missing;
+ * there the shipped figures are fetched at once, and the kept figures' database is not created just to be read.
  */
-export async function likelySeeded(
-  kept: Promise<KeptFigures | undefined> | undefined,
+export async function startFigures<T extends { startedFresh: boolean }>(
   bookDb: string,
+  shippedUrl: string,
+  openBook: () => Promise<T>,
   factory: IDBFactory | undefined = globalThis.indexedDB,
-): Promise<boolean> {
-  if (!kept) return false;
-  // Asked at once, before the Book is opened (which creates its database on a first start).
-  const listed = factory && typeof factory.databases === 'function' ? factory.databases().catch(() => undefined) : Promise.resolve(undefined);
-  if ((await kept) !== undefined) return true;
-  const all = await listed;
-  return all !== undefined && !all.some((d) => d.name === bookDb);
+  dbName: string = KEPT_FIGURES_DB,
+): Promise<{ figures: StartFigures; opening: Promise<T> }> {
+  const names = await databaseNames(factory);
+  const firstStart = names !== undefined && !names.has(bookDb);
+  const kept = names !== undefined && !names.has(dbName) ? Promise.resolve(undefined) : readKeptFigures(bookDb, dbName);
+  const opening = openBook();
+  const fresh = opening.then((b) => b.startedFresh, () => false);
+  const shipped = firstStart ? fetchShippedFigures(shippedUrl, fresh) : kept.then((k) => (k ? undefined : fetchShippedFigures(shippedUrl, fresh)));
+  const likely = firstStart ? Promise.resolve(true) : kept.then((k) => k !== undefined);
+  return { figures: { kept, shipped, likely }, opening };
 }
 
 /** Keeps a Book's settled figures for the next start; a Book too large to key drops what was kept for it. */

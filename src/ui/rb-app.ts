@@ -10,7 +10,7 @@ import { StoredBookInvalid } from '../store/types.ts';
 import { bookContext } from './book-context.ts';
 import { BookService, DEFAULT_DB_NAME } from './book-service.ts';
 import { CostingService, ENGINE_BUILD, warmFiguresWorker } from './costing-service.ts';
-import { SHIPPED_FIGURES_FILE, fetchShippedFigures, followFigures, keptFiguresOf, likelySeeded, readKeptFigures } from './figures-keep.ts';
+import { SHIPPED_FIGURES_FILE, followFigures, keptFiguresOf, startFigures } from './figures-keep.ts';
 import { afterFiguresShown } from './first-figures.ts';
 import { PAGES, START_PAGE, notebookRoute, parseRoute } from './pages.ts';
 import { sessionShare } from './share-session.ts';
@@ -267,21 +267,19 @@ export class RbApp extends LitElement {
       // reported there).
       if (this.route.kind === 'page') this.route.entry.load?.().catch(() => undefined);
       // Figures kept from the last start are read beside the Book, and shown at once if they are of this very Book.
-      // With nothing kept, this may be a first start, which writes the demo Book: the build ships its figures, asked
-      // for while the demo Book is written and read only if it was.
-      const kept = ENGINE_BUILD === undefined ? undefined : readKeptFigures(DEFAULT_DB_NAME);
-      // When such figures will likely be shown, the figures worker (a second of CPU to load and compile its engine)
-      // starts after the first view; otherwise it loads and warms up while the Book is read.
-      void likelySeeded(kept, DEFAULT_DB_NAME).then((seeded) => seeded || warmFiguresWorker());
-      const opening = BookService.open(DEFAULT_DB_NAME);
-      const shipped = kept?.then((k) =>
-        k ? undefined : fetchShippedFigures(`${import.meta.env.BASE_URL}${SHIPPED_FIGURES_FILE}`, opening.then((s) => s.startedFresh, () => false)),
-      );
+      // On a first start, which writes the demo Book, the build ships its figures: fetched while the demo Book is
+      // written. When either will likely be shown, the figures worker (a second of CPU to load and compile its
+      // engine) starts after the first view; otherwise it loads and warms up while the Book is read.
+      const openBook = (): Promise<BookService> => BookService.open(DEFAULT_DB_NAME);
+      const start =
+        ENGINE_BUILD === undefined ? undefined : await startFigures(DEFAULT_DB_NAME, `${import.meta.env.BASE_URL}${SHIPPED_FIGURES_FILE}`, openBook);
+      const opening = start?.opening ?? openBook();
+      void (start?.figures.likely ?? Promise.resolve(false)).then((likely) => likely || warmFiguresWorker());
       const service = await opening;
       const costing = CostingService.for(service);
       if (ENGINE_BUILD !== undefined) {
-        const keptFigures = await keptFiguresOf(await kept, service.book, ENGINE_BUILD);
-        const figures = keptFigures ?? (await keptFiguresOf(await shipped, service.book, ENGINE_BUILD));
+        const keptFigures = await keptFiguresOf(await start?.figures.kept, service.book, ENGINE_BUILD);
+        const figures = keptFigures ?? (await keptFiguresOf(await start?.figures.shipped, service.book, ENGINE_BUILD));
         if (figures && costing.seed(figures)) afterFiguresShown(() => costing.catchUp());
         // Figures read from the kept store are not written back when the worker agrees; shipped ones are.
         this.stopKeeping = followFigures(costing, service.name, ENGINE_BUILD, { alreadyKept: keptFigures ? service.book : undefined });

@@ -67,15 +67,24 @@ async function keptKey(page: Page): Promise<string | undefined> {
   return page.evaluate(
     () =>
       new Promise<string | undefined>((resolve) => {
-        const open = indexedDB.open('kept-figures.rungbook');
-        open.onerror = () => resolve(undefined);
-        open.onsuccess = () => {
-          const db = open.result;
-          if (!db.objectStoreNames.contains('kept')) return resolve(undefined);
-          const get = db.transaction('kept').objectStore('kept').get('rungbook');
-          get.onsuccess = () => resolve((get.result as { key?: string } | undefined)?.key);
-          get.onerror = () => resolve(undefined);
-        };
+        // Opening a database that does not exist would make it: look first.
+        void indexedDB.databases().then((all) => {
+          if (!all.some((d) => d.name === 'kept-figures.rungbook')) return resolve(undefined);
+          const open = indexedDB.open('kept-figures.rungbook');
+          open.onerror = () => resolve(undefined);
+          open.onsuccess = () => {
+            const db = open.result;
+            if (!db.objectStoreNames.contains('kept')) {
+              db.close();
+              return resolve(undefined);
+            }
+            const get = db.transaction('kept').objectStore('kept').get('rungbook');
+            get.onsuccess = () => resolve((get.result as { key?: string } | undefined)?.key);
+            get.onerror = () => resolve(undefined);
+            // Closed at once, so the app's own connection is never kept waiting.
+            db.close();
+          };
+        });
       }),
   );
 }

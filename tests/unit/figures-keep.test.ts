@@ -11,7 +11,7 @@ import { addBuiltInChecks } from '../../src/engine/check-sheets.ts';
 import { loadBuiltInChecks } from '../../src/cli/check-sheets-fs.ts';
 import { CostingService } from '../../src/ui/costing-service.ts';
 import { BookService } from '../../src/ui/book-service.ts';
-import { KEEP_MAX_RECORDS, KEEP_MAX_VARIANT_FIGURES, SHIPPED_FIGURES_FILE, canonicalJson, figuresKey, followFigures, fromKeptJson, keepFigures, keptFiguresOf, keptJson, likelySeeded, readKeptFigures } from '../../src/ui/figures-keep.ts';
+import { KEEP_MAX_RECORDS, KEEP_MAX_VARIANT_FIGURES, SHIPPED_FIGURES_FILE, canonicalJson, figuresKey, followFigures, fromKeptJson, keepFigures, keptFiguresOf, keptJson, readKeptFigures, startFigures } from '../../src/ui/figures-keep.ts';
 import { firstStartBook, keptDemoFigures } from '../../scripts/kept-demo-figures.ts';
 import { SHIPPED_FIGURES_FILE as BUILD_SHIPPED_FILE } from '../../vite.config.ts';
 import { costingInWorker } from '../fixtures/fake-figures-worker.ts';
@@ -197,24 +197,76 @@ describe('figures kept and shown at the next start', () => {
   });
 });
 
-describe('the guess, before the Book is read, that figures will be shown without the worker', () => {
-  it('is yes when figures are kept for the Book or there is no Book yet, and no otherwise', async () => {
+describe('the figures a start asks for beside the Book', () => {
+  /** A stand-in for fetch that counts the requests for the shipped figures and answers with `body`. */
+  function fetchCounting(body: string): { asked: () => number; restore: () => void } {
+    const real = globalThis.fetch;
+    let n = 0;
+    globalThis.fetch = (async () => {
+      n += 1;
+      return new Response(body);
+    }) as typeof fetch;
+    return { asked: () => n, restore: () => (globalThis.fetch = real) };
+  }
+
+  it('on a first start fetches the shipped figures at once, takes them once the Book proves fresh, and creates no kept store to read', async () => {
+    const db = freshDb();
+    const shippedText = keptJson(await keptDemoFigures(ENGINE));
+    const fetched = fetchCounting(shippedText);
+    const bookDb = `start-first-${Date.now()}`;
+    let opened = 0;
+    try {
+      const { figures, opening } = await startFigures(bookDb, '/kept.json', async () => ((opened += 1), { startedFresh: true }), indexedDB, db);
+      expect(opened).toBe(1);
+      expect(await figures.likely).toBe(true);
+      await opening;
+      expect(fetched.asked()).toBe(1);
+      expect(await figures.kept).toBeUndefined();
+      expect((await figures.shipped)?.key).toBe(fromKeptJson(shippedText).key);
+      // Reading what is kept did not create the kept figures' database.
+      expect((await indexedDB.databases()).some((d) => d.name === db)).toBe(false);
+    } finally {
+      fetched.restore();
+    }
+  });
+
+  it('keeps figures in a kept-figures database that something else made without its store', async () => {
+    const db = freshDb();
+    await new Promise<void>((resolve, reject) => {
+      const made = indexedDB.open(db, 1);
+      made.onsuccess = () => (made.result.close(), resolve());
+      made.onerror = () => reject(made.error);
+    });
+    const first = inWorker();
+    await settle(first.costing);
+    const s = first.costing.settled()!;
+    expect(await keepFigures('rungbook', s.book, ENGINE, s.update, db)).toBe(true);
+    expect(await keptFiguresOf(await readKeptFigures('rungbook', db), s.book, ENGINE)).toEqual(s.update);
+  });
+
+  it('with a Book and figures kept for it reads them, fetches nothing, and guesses they will be shown', async () => {
     const db = freshDb();
     const first = inWorker();
     await settle(first.costing);
     const s = first.costing.settled()!;
-    const bookDb = `guess-book-${Date.now()}`;
-    // A first start: nothing kept, no Book database yet (the build ships the demo Book's figures).
-    expect(await likelySeeded(readKeptFigures(bookDb, db), bookDb)).toBe(true);
+    const bookDb = `start-kept-${Date.now()}`;
     const service = await BookService.open(bookDb);
+    const fetched = fetchCounting('{}');
     try {
-      // A Book and nothing kept for it (too large to keep, or a start before anything settled).
-      expect(await likelySeeded(readKeptFigures(bookDb, db), bookDb)).toBe(false);
       await keepFigures(bookDb, s.book, ENGINE, s.update, db);
-      expect(await likelySeeded(readKeptFigures(bookDb, db), bookDb)).toBe(true);
-      // A development build keeps nothing.
-      expect(await likelySeeded(undefined, bookDb)).toBe(false);
+      const { figures } = await startFigures(bookDb, '/kept.json', async () => ({ startedFresh: false }), indexedDB, db);
+      expect(await figures.likely).toBe(true);
+      expect((await figures.kept)?.key).toBe(await figuresKey(s.book, ENGINE));
+      expect(await figures.shipped).toBeUndefined();
+      expect(fetched.asked()).toBe(0);
+
+      // Nothing kept for a Book that exists: no guess (the worker warms up at once); the shipped figures are asked
+      // for, and not read, as the Book did not start fresh.
+      const other = await startFigures(bookDb, '/kept.json', async () => ({ startedFresh: false }), indexedDB, freshDb());
+      expect(await other.figures.likely).toBe(false);
+      expect(await other.figures.shipped).toBeUndefined();
     } finally {
+      fetched.restore();
       service.close();
     }
   });
