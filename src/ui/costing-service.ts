@@ -8,6 +8,10 @@
 // follows every change) and answers from the figures held: while `pending`, those are the previous Book's. The worker is sent the Book once, then only
 // what changed; when its answer arrives the service emits `change` with a `CostingChangeDetail`, and `version` rises,
 // so a page can tell whether its rows are stale and draw again.
+//
+// A small save is sent ahead: while the Book service writes it to IndexedDB, the worker already works out the Book it
+// will give (BookService.proposed). That answer is held back until the Book is that Book, then shown in the same task
+// with no second request; a save refused or merged with another tab's change sends the worker the Book as it is.
 import type { Book, BuildLine } from '../domain/book.ts';
 import { COLLECTIONS } from '../domain/book.ts';
 import { bookDelta } from '../domain/book-ops.ts';
