@@ -236,9 +236,14 @@ export class BookService extends EventTarget {
     let n = 0;
     for (const c of COLLECTIONS) n += (change.put?.[c]?.length ?? 0) + (change.delete?.[c]?.length ?? 0);
     if (n > PROPOSE_MAX) return;
-    const r = applyChange(this.held, change);
-    if (!r.ok) return;
-    this.proposed = inVariantOrder(r.book);
+    try {
+      const r = applyChange(this.held, change);
+      if (!r.ok) return;
+      this.proposed = inVariantOrder(r.book);
+    } catch {
+      // A change memory cannot take ahead is left to the store, which says why.
+      return;
+    }
     this.dispatchEvent(new Event('proposed'));
   }
 
