@@ -273,36 +273,22 @@ export class RbChecksPage extends LitElement {
         const r = this.result(v.id, c.id);
         const pressed = sel?.variantId === v.id && sel.checkId === c.id;
         // A check just added has no result until the figures worker has worked it out: say so, not "error".
-        if (!r && this.checks.pending) {
-          return html`<td>
-            <button
-              type="button"
-              class="cell pending"
-              data-variant=${v.code}
-              data-check=${c.name}
-              data-status="pending"
-              aria-pressed=${pressed ? 'true' : 'false'}
-              aria-label="${c.name} on ${v.code}: being worked out"
-              @click=${() => this.select(v.id, c.id)}
-            >
-              <span class="sym" aria-hidden="true">…</span> being worked out
-            </button>
-          </td>`;
-        }
+        const pending = !r && this.checks.pending;
         const status = r?.status ?? CHECK_STATUS.error;
         const value = r ? shownValue(r) : '';
+        const said = pending ? 'being worked out' : status;
         return html`<td>
           <button
             type="button"
-            class="cell ${statusClass(status)}"
+            class="cell ${pending ? 'pending' : statusClass(status)}"
             data-variant=${v.code}
             data-check=${c.name}
-            data-status=${status}
+            data-status=${pending ? 'pending' : status}
             aria-pressed=${pressed ? 'true' : 'false'}
-            aria-label="${c.name} on ${v.code}: ${status}${value ? `, ${value}` : ''}"
+            aria-label="${c.name} on ${v.code}: ${said}${value ? `, ${value}` : ''}"
             @click=${() => this.select(v.id, c.id)}
           >
-            <span class="sym" aria-hidden="true">${STATUS_SYMBOL[status]}</span> ${status}${value ? html`<small>${value}</small>` : ''}
+            <span class="sym" aria-hidden="true">${pending ? '…' : STATUS_SYMBOL[status]}</span> ${said}${value ? html`<small>${value}</small>` : ''}
           </button>
         </td>`;
       })}
