@@ -219,10 +219,14 @@ export class BookService extends EventTarget {
         const next = await runInSlices(applyChangeSteps(this.book, written));
         // So is the bookkeeping: naming the change's records and noting the revisions this tab wrote.
         const records = await runInSlices(recordIdsSteps(written));
+        // A large change's copy is taken in a task of its own, not on top of the slices before and after it.
+        const large = Object.values(records.collections).reduce((sum, ids) => sum + ids.length, 0) > TELL_LATER;
+        if (large) await nextTask();
         // The store accepted the change, so a mismatch here means memory fell behind (another tab, whose own message
         // is on its way): the change's records are read back as stored.
         if (next.ok) this.adopt(next.book, records);
         else await this.takeRecords(records);
+        if (large) await nextTask();
         await runInSlices(this.noteOwn(written));
         return { merged, records };
       } finally {
