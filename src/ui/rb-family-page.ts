@@ -204,6 +204,8 @@ export class RbFamilyPage extends LitElement {
    * after: the Book's opening, the page replaced and the first rows of the grid in one task held the page too long.
    */
   @state() private gridShown = false;
+  /** Variants edited in the grid and not yet stored, by id: shown at once, marked as saving (see `_onCommit`). */
+  @state() private saving = new Map<string, Variant>();
   private gridAsked = false;
 
   private showGridSoon(): void {
@@ -283,6 +285,17 @@ export class RbFamilyPage extends LitElement {
     return cells;
   }
 
+  /** A variant's own cells; one being saved shows the edit, marked as saving, until the Book has it. */
+  private shownCells(v: Variant, used: string[], colSig: string): GridCell[] {
+    const edited = this.saving.get(v.id);
+    if (!edited) return this.paramCells(v, used, colSig);
+    const stored = this.paramCells(v, used, colSig);
+    const cells = this.paramCells(edited, used, colSig);
+    // The edited record's cells must not stay cached as the stored variant's.
+    this.paramCache.delete(v.id);
+    return cells.map((c, i) => (c.text === stored[i]?.text ? c : { ...c, tone: 'saving', title: 'saving…' }));
+  }
+
   /** The worked-out cells: worst check status and unit cost at each run size. */
   private figureCells(v: Variant, costing: CostingService, runs: readonly number[], money: (n: number) => string): GridCell[] {
     const status = costing.worstStatus(v.id);
@@ -336,7 +349,7 @@ export class RbFamilyPage extends LitElement {
     const currency = book.settings.baseCurrency;
     const { grid, sig: colSig } = this.columns(book, runs, currency, used);
     const money = (n: number): string => currencyMoney(n, currency, 'unitCost');
-    const rows = variants.map((v) => this.rowFor(v, this.paramCells(v, used, colSig), pending ? undefined : this.figureCells(v, costing, runs, money), runs));
+    const rows = variants.map((v) => this.rowFor(v, this.shownCells(v, used, colSig), pending ? undefined : this.figureCells(v, costing, runs, money), runs));
     if (this.rowCache.size > variants.length * 2) {
       const ids = new Set(variants.map((v) => v.id));
       this.rowCache = new Map([...this.rowCache].filter(([id]) => ids.has(id)));
@@ -547,7 +560,10 @@ export class RbFamilyPage extends LitElement {
     // A new row, or a new code, may sort elsewhere: the cursor goes with the record, not the row number.
     if (!variant || d.key === 'code') this.grid?.follow(id);
     const seen = variant && this.editFrom?.id === variant.id ? this.editFrom : variant;
-    void this.enqueue((now) => {
+    // The edit shows in its row at once, marked as saving, while the Book stores it (a new row waits for the Book).
+    const shown = variant ? check.record : undefined;
+    if (variant && shown) this.saving = new Map(this.saving).set(variant.id, shown);
+    const saved = this.enqueue((now) => {
       const v = variant ? now.variants.find((x) => x.id === variant.id) : undefined;
       if (variant && !v) return { problem: `${variant.code} was deleted elsewhere; the edit was not saved.` };
       const r = editVariant(now, v && seen, texts, () => id);
@@ -555,6 +571,15 @@ export class RbFamilyPage extends LitElement {
       const label = v ? `edit ${d.key} of ${v.code}` : `add ${r.record.code}`;
       return { step: { label, changes: [{ id: r.record.id, before: v && seen, after: r.record }] }, done: '', change: { put: { variants: [r.record] } } };
     });
+    // Stored or refused, the row shows the Book again (a later edit of the same row keeps its own mark).
+    if (variant && shown) {
+      void saved.finally(() => {
+        if (this.saving.get(variant.id) !== shown) return;
+        const next = new Map(this.saving);
+        next.delete(variant.id);
+        this.saving = next;
+      });
+    }
   };
 
   private readonly _onPaste = (ev: CustomEvent<GridPasteDetail>): void => {

@@ -207,6 +207,10 @@ export class RbGrid extends LitElement {
     .tone-na {
       color: var(--rb-na);
     }
+    .tone-saving {
+      color: var(--rb-na);
+      font-style: italic;
+    }
     /* Our selection look: a highlighter wash over the block and a pen stroke under the active cell. */
     .sel,
     tbody th.sel,

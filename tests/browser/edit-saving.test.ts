@@ -5,7 +5,7 @@ import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { DEFAULT_DB_NAME } from '../../src/ui/book-service.ts';
-import { AppUnderTest, WIDE_VIEWPORT, saved, text } from './harness.ts';
+import { AppUnderTest, WIDE_VIEWPORT, readerText, saved, text } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const demo = demoBook();
@@ -64,6 +64,26 @@ async function editQuantity(page: Page): Promise<void> {
   await page.getByRole('button', { name: 'Save the line' }).click();
 }
 
+const grid = '[data-testid="family-table"]';
+const first = [...demo.variants].sort((a, b) => a.code.localeCompare(b.code))[0]!;
+
+/** The Family grid's cell of the first variant (by code) in the column `key`. */
+async function gridCell(page: Page, key: string) {
+  const keys = await page.locator(`${grid} thead th`).evaluateAll((ths) => ths.map((th) => th.getAttribute('data-key')));
+  const codes = (await page.locator(`${grid} tbody th`).allTextContents()).map(readerText);
+  return page.locator(`${grid} [data-r="${codes.indexOf(first.code)}"][data-c="${keys.indexOf(key)}"]`);
+}
+
+/** Types `value` into the first variant's load_w cell and keeps it with Enter. */
+async function editLoad(page: Page, value: string): Promise<void> {
+  const target = await gridCell(page, 'load_w');
+  await target.click();
+  await page.keyboard.press('Enter');
+  await page.keyboard.press('Control+A');
+  await page.keyboard.type(value);
+  await page.keyboard.press('Enter');
+}
+
 describe('edits shown while they save', () => {
   it('shows a build line edit in its row at once, marked as saving, until the Book has stored it', async () => {
     const { page, errors } = await app.open('#/build', { viewport: WIDE_VIEWPORT, ready: '[data-testid="build-lines"]' });
@@ -86,6 +106,49 @@ describe('edits shown while they save', () => {
     await page.reload();
     await lineRow(page).waitFor();
     expect(await qtyShown(page)).toBe(more);
+    expect(errors).toEqual([]);
+  });
+
+  it('shows a Family grid edit in its cell at once, marked as saving, until the Book has stored it', async () => {
+    const { page, errors } = await app.open('#/family');
+    await page.locator(`${grid} tbody tr`).first().waitFor();
+    await saved(page);
+    const target = await gridCell(page, 'load_w');
+    expect(readerText(await target.textContent())).toBe(`${first.params.load_w} W`);
+    await holdWrites(page);
+    await editLoad(page, '72');
+    await expect.poll(async () => readerText(await target.textContent())).toBe('72 W');
+    await expect(target.getAttribute('class')).resolves.toMatch(/\btone-saving\b/);
+
+    await release(page);
+    await saved(page);
+    await expect.poll(async () => target.getAttribute('class')).not.toMatch(/\btone-saving\b/);
+    expect(readerText(await target.textContent())).toBe('72 W');
+    await page.reload();
+    await page.locator(`${grid} tbody tr`).first().waitFor();
+    expect(readerText(await (await gridCell(page, 'load_w')).textContent())).toBe('72 W');
+    expect(errors).toEqual([]);
+  });
+
+  it('puts a Family grid cell back as stored, with the reason, when its save fails', async () => {
+    const { page, errors } = await app.open('#/family');
+    await page.locator(`${grid} tbody tr`).first().waitFor();
+    await saved(page);
+    const target = await gridCell(page, 'load_w');
+    await holdWrites(page);
+    await failWrites(page);
+    await editLoad(page, '72');
+    await expect.poll(async () => readerText(await target.textContent())).toBe('72 W');
+
+    await release(page);
+    const notice = page.locator('[data-testid="family-notice"][role="alert"]');
+    await notice.waitFor();
+    await expect(notice.textContent()).resolves.toMatch(/storage space/);
+    await expect.poll(async () => readerText(await target.textContent())).toBe(`${first.params.load_w} W`);
+    await expect(target.getAttribute('class')).resolves.not.toMatch(/\btone-saving\b/);
+    await page.reload();
+    await page.locator(`${grid} tbody tr`).first().waitFor();
+    expect(readerText(await (await gridCell(page, 'load_w')).textContent())).toBe(`${first.params.load_w} W`);
     expect(errors).toEqual([]);
   });
 
