@@ -23,10 +23,7 @@ export interface PriceTable {
   delimiter: Delimiter;
   headerLine: number;
   headers: string[];
-  /** The data rows, unless they went to `ReadOptions.onRow` one by one (then empty). */
   rows: TableRow[];
-  /** Data rows read (blank and comment lines not counted), kept or not. */
-  rowCount: number;
   notes: string[];
   /** Row-level reading problems (unclosed quotes, more cells than headers). */
   problems: PriceProblem[];
@@ -43,13 +40,6 @@ export interface ReadOptions {
   onRows?: (rows: number) => void;
   /** What the file is, by its header words (default: a supplier's price file). */
   kind?: TableKind;
-  /** Called with the header row (trimmed), its line and the delimiter, before any data row. */
-  onHeader?: (headers: string[], line: number, delimiter: Delimiter) => void;
-  /**
-   * Takes each data row as it is read, instead of the table keeping it: a caller that checks rows as they come keeps
-   * only what it needs, and a large file's cells need not all be held until the last row is read.
-   */
-  onRow?: (row: TableRow) => void;
 }
 
 /** A kind of file read here: its name in messages, how strongly a cell reads as one of its headers, header examples. */
@@ -246,7 +236,6 @@ export function readPriceTable(text: string, options: ReadOptions = {}): ReadRes
   if (header.line > 1) notes.push(`header found on line ${header.line}; ${header.line - 1} line(s) above it skipped`);
 
   const rows: TableRow[] = [];
-  let count = 0;
   const problems: PriceProblem[] = [];
   let headers: string[] | undefined;
   let rowStart = 0;
@@ -276,7 +265,7 @@ export function readPriceTable(text: string, options: ReadOptions = {}): ReadRes
         if (p) {
           refused = { row: line, column: '', value: '', reason: p };
           parser.abort();
-        } else options.onHeader?.(headers, line, delimiter);
+        }
         return;
       }
       if (rowChars > PRICE_FILE_LIMITS.rowChars) {
@@ -307,7 +296,7 @@ export function readPriceTable(text: string, options: ReadOptions = {}): ReadRes
           reason: `the row has ${cells.length} cells but the header has ${headers.length}: a field holding the ${DELIMITER_NAMES[delimiter]} must be in double quotes`,
         });
       }
-      if (count >= PRICE_FILE_LIMITS.rows) {
+      if (rows.length >= PRICE_FILE_LIMITS.rows) {
         refused = {
           row: line,
           column: '',
@@ -318,12 +307,9 @@ export function readPriceTable(text: string, options: ReadOptions = {}): ReadRes
         return;
       }
       // Cells beyond the header's are only named as a problem above; they are not kept.
-      const row = { line, cells: cells.length > headers.length + 1 ? cells.slice(0, headers.length + 1) : cells };
-      if (options.onRow) options.onRow(row);
-      else rows.push(row);
-      count++;
-      lastNonEmpty = count;
-      if (options.onRows && count % PROGRESS_EVERY === 0) options.onRows(count);
+      rows.push({ line, cells: cells.length > headers.length + 1 ? cells.slice(0, headers.length + 1) : cells });
+      lastNonEmpty = rows.length;
+      if (options.onRows && rows.length % PROGRESS_EVERY === 0) options.onRows(rows.length);
     },
   });
   if (refused) return { ok: false, problems: [refused] };
@@ -334,8 +320,8 @@ export function readPriceTable(text: string, options: ReadOptions = {}): ReadRes
       problems: [{ row: header.line, column: '', value: headers.join(' | ').slice(0, 200), reason: `the file has a header row (line ${header.line}) but no data rows` }],
     };
   }
-  options.onRows?.(count);
-  return { ok: true, table: { delimiter, headerLine: header.line, headers, rows, rowCount: count, notes, problems } };
+  options.onRows?.(rows.length);
+  return { ok: true, table: { delimiter, headerLine: header.line, headers, rows, notes, problems } };
 }
 
 /** What reading a file's bytes found out about its letters, for the person to check. */
@@ -346,19 +332,12 @@ export interface DecodeNotes {
   nonUtf8Lines?: number[];
 }
 
-/** Bytes to text for readPriceTable: decoded as UTF-8 or Windows-1252 (found out, or as chosen). */
-export function decodeTableBytes(bytes: Uint8Array, encoding: EncodingChoice | undefined): { ok: true; text: string; notes: DecodeNotes } | { ok: false; problems: PriceProblem[]; notes: DecodeNotes } {
+/** Bytes to a table: decoded as UTF-8 or Windows-1252 (found out, or as chosen), then read as readPriceTable does. */
+export function readTableBytes(bytes: Uint8Array, encoding: EncodingChoice | undefined, options: ReadOptions = {}): { read: ReadResult; notes: DecodeNotes } {
   const decoded = decodePriceBytes(bytes, encoding);
-  if (!decoded.ok) return { ok: false, problems: [{ row: 0, column: '', value: '', reason: decoded.reason }], notes: {} };
+  if (!decoded.ok) return { read: { ok: false, problems: [{ row: 0, column: '', value: '', reason: decoded.reason }] }, notes: {} };
   const notes: DecodeNotes = { encoding: decoded.encoding };
   if (decoded.warning) notes.encodingWarning = decoded.warning;
   if (decoded.nonUtf8Lines) notes.nonUtf8Lines = decoded.nonUtf8Lines;
-  return { ok: true, text: decoded.text, notes };
-}
-
-/** Bytes to a table: decoded (decodeTableBytes), then read as readPriceTable does. */
-export function readTableBytes(bytes: Uint8Array, encoding: EncodingChoice | undefined, options: ReadOptions = {}): { read: ReadResult; notes: DecodeNotes } {
-  const decoded = decodeTableBytes(bytes, encoding);
-  if (!decoded.ok) return { read: { ok: false, problems: decoded.problems }, notes: decoded.notes };
-  return { read: readPriceTable(decoded.text, options), notes: decoded.notes };
+  return { read: readPriceTable(decoded.text, options), notes };
 }

@@ -17,7 +17,7 @@ import {
   splitMoney,
 } from './price-map.ts';
 import type { DateOrder, Decimal, LeadUnit, PriceField, PriceProblem, PriceUnit, ResolvedMapping } from './price-map.ts';
-import { DELIMITER_NAMES, decodeTableBytes, readPriceTable } from './price-read.ts';
+import { DELIMITER_NAMES, readTableBytes } from './price-read.ts';
 import type { DecodeNotes, Delimiter, ReadOptions, TableRow } from './price-read.ts';
 
 /** One supplier offer read from the file: everything a Quote needs except the part, supplier and ids. */
@@ -116,79 +116,25 @@ function emptyAnalysis(hash: string, bytes: number, problems: PriceProblem[]): P
   };
 }
 
-/**
- * Reads and checks a price file. Progress is reported in rows read (reading is most of the time).
- *
- * Each row is checked as it is read and only what the checks give is kept (a 50,000-row file's cells all held until
- * the last row was read made most of the reading time garbage collection). A row is checked under the decimal mark
- * and date order that the rows read so far decide; those are settled by the first rows of nearly every file, and when
- * the whole file decides otherwise, every row is read and checked again under the final decisions, so the result is
- * always that of checking every row under the decisions of the whole file.
- */
+/** Reads and checks a price file. Progress is reported in rows read (reading is most of the time). */
 export async function analysePriceFile(
   bytes: Uint8Array,
   options: AnalyseOptions,
   onRows?: (rows: number) => void,
 ): Promise<PriceAnalysis> {
   const hash = await sha256Hex(bytes);
-  const decoded = decodeTableBytes(bytes, options.encoding);
-  if (!decoded.ok) return { ...emptyAnalysis(hash, bytes.length, decoded.problems), ...decoded.notes };
   const readOptions: ReadOptions = {};
   if (options.mapping) readOptions.mapping = options.mapping;
   if (options.delimiter) readOptions.delimiter = options.delimiter;
-
-  let headers: string[] = [];
-  let map: ResolvedMapping | undefined;
-  let delimiter: Delimiter = ',';
-  // Until the columns are settled (no price or part column, an ambiguous duplicate), checking rows would only
-  // repeat the same complaint on every line: rows are not checked, and the mapping problems are reported alone.
-  let cols: { numbers: number[]; dates: number[] } | undefined;
-  const decimalVotes: DecimalVotes = { point: 0, comma: 0 };
-  const dateVotes: DateVotes = { dmy: 0, mdy: 0, slashed: 0 };
-  let checker: RowChecker | undefined;
-  // False once the decisions moved after rows were checked under the earlier ones.
-  let settled = true;
-  const read = readPriceTable(decoded.text, {
-    ...readOptions,
-    ...(onRows ? { onRows } : {}),
-    onHeader: (h, line, d) => {
-      headers = h;
-      delimiter = d;
-      map = resolveMapping(h, line, options.mapping, options.unused);
-      if (map.problems.length === 0) cols = voteColumns(map);
-    },
-    onRow: (r) => {
-      if (!cols) return;
-      if (!options.decimal) voteDecimal(decimalVotes, r, cols.numbers);
-      if (!options.dateOrder) voteDates(dateVotes, r, cols.dates);
-      if (!settled) return;
-      const decimal = decimalChoice(decimalVotes, options, delimiter);
-      const dateOrder = dateOrderChoice(dateVotes, options);
-      checker ??= rowChecker(headers, map!, options, decimal, dateOrder);
-      if (checker.decimal !== decimal || checker.dateOrder !== dateOrder) {
-        settled = false;
-        checker = undefined;
-        return;
-      }
-      checker.push(r);
-    },
-  });
-  if (!read.ok) return { ...emptyAnalysis(hash, bytes.length, read.problems), ...decoded.notes };
+  if (onRows) readOptions.onRows = onRows;
+  const { read, notes: decodeNotes } = readTableBytes(bytes, options.encoding, readOptions);
+  if (!read.ok) return { ...emptyAnalysis(hash, bytes.length, read.problems), ...decodeNotes };
   const t = read.table;
-  map ??= resolveMapping(t.headers, t.headerLine, options.mapping, options.unused);
-  const dec = decimalFromVotes(decimalVotes, options, t.delimiter);
-  const dates = dateOrderFromVotes(dateVotes, options);
-  if (!cols || !checker || checker.decimal !== dec.decimal || checker.dateOrder !== dates.order) {
-    const again = rowChecker(t.headers, map, options, dec.decimal, dates.order);
-    if (cols) {
-      // The decisions moved after rows were checked under the earlier ones: the same text read again, every row
-      // checked under the final decisions.
-      const reread = readPriceTable(decoded.text, { ...readOptions, onRow: (r) => again.push(r) });
-      if (!reread.ok || reread.table.rowCount !== t.rowCount) throw new Error('the price file read differently the second time');
-    }
-    checker = again;
-  }
-  const checked = checker.end(dec, dates);
+  const map = resolveMapping(t.headers, t.headerLine, options.mapping, options.unused);
+  // Until the columns are settled (no price or part column, an ambiguous duplicate), checking rows would only
+  // repeat the same complaint on every line: report the mapping problems alone.
+  const mappingBlocked = map.problems.length > 0;
+  const checked = checkRows(mappingBlocked ? [] : t.rows, t.headers, map, options, t.delimiter);
   const problems = [...t.problems, ...map.problems, ...checked.problems].sort((a, b) => a.row - b.row);
   // A row that could not be split right (too many cells) must not yield an offer even under "valid rows only".
   const badLines = new Set(t.problems.map((p) => p.row));
@@ -196,7 +142,7 @@ export async function analysePriceFile(
   const mapping: ColumnMapping = { ...map.saved, decimal: checked.decimal };
   return {
     readable: true,
-    ...decoded.notes,
+    ...decodeNotes,
     delimiter: t.delimiter,
     delimiterName: DELIMITER_NAMES[t.delimiter],
     headerLine: t.headerLine,
@@ -206,7 +152,7 @@ export async function analysePriceFile(
     decimal: checked.decimal,
     decimalReason: checked.decimalReason,
     dateOrder: checked.dateOrder,
-    dataRows: t.rowCount,
+    dataRows: t.rows.length,
     offers,
     rejectedOffers: checked.rejected + (checked.offers.length - offers.length),
     problems,
@@ -236,33 +182,20 @@ interface Checked {
   dateOrder: DateOrder;
 }
 
-/** Number cells that can only be read with a decimal point, and those only with a decimal comma. */
-interface DecimalVotes {
-  point: number;
-  comma: number;
-}
-
-function voteDecimal(votes: DecimalVotes, r: TableRow, cols: readonly number[]): void {
-  for (const c of cols) {
-    const cell = r.cells[c];
-    if (!cell) continue;
-    const v = decimalVote(splitMoney(cell).text);
-    if (v === '.') votes.point++;
-    else if (v === ',') votes.comma++;
-  }
-}
-
-/** The decimal mark decimalFromVotes gives, without its reasons: cheap enough to ask after every row. */
-function decimalChoice(votes: DecimalVotes, options: Pick<AnalyseOptions, 'decimal' | 'mapping'>, delimiter: Delimiter): Decimal {
-  if (options.decimal) return options.decimal;
-  if (votes.point || votes.comma) return votes.comma > votes.point ? ',' : '.';
-  if (options.mapping?.decimal) return options.mapping.decimal;
-  return delimiter === ';' ? ',' : '.';
-}
-
-function decimalFromVotes(votes: DecimalVotes, options: Pick<AnalyseOptions, 'decimal' | 'mapping'>, delimiter: Delimiter): { decimal: Decimal; reason: string; note?: string } {
+/** The file's decimal mark: as chosen, else by the number cells that can only be read one way, else by the saved mapping or the delimiter. */
+export function decideDecimal(rows: TableRow[], cols: number[], options: Pick<AnalyseOptions, 'decimal' | 'mapping'>, delimiter: Delimiter): { decimal: Decimal; reason: string; note?: string } {
   if (options.decimal) return { decimal: options.decimal, reason: `decimal ${options.decimal === ',' ? 'comma' : 'point'} as you chose` };
-  const { point, comma } = votes;
+  let point = 0;
+  let comma = 0;
+  for (const r of rows) {
+    for (const c of cols) {
+      const cell = r.cells[c];
+      if (!cell) continue;
+      const v = decimalVote(splitMoney(cell).text);
+      if (v === '.') point++;
+      else if (v === ',') comma++;
+    }
+  }
   const name = (d: Decimal): string => (d === ',' ? 'comma' : 'point');
   if (point || comma) {
     const decimal: Decimal = comma > point ? ',' : '.';
@@ -279,55 +212,25 @@ function decimalFromVotes(votes: DecimalVotes, options: Pick<AnalyseOptions, 'de
   return { decimal: '.', reason: 'decimal point: the numbers alone do not tell' };
 }
 
-/** The file's decimal mark: as chosen, else by the number cells that can only be read one way, else by the saved mapping or the delimiter. */
-export function decideDecimal(rows: TableRow[], cols: number[], options: Pick<AnalyseOptions, 'decimal' | 'mapping'>, delimiter: Delimiter): { decimal: Decimal; reason: string; note?: string } {
-  const votes: DecimalVotes = { point: 0, comma: 0 };
-  if (!options.decimal) for (const r of rows) voteDecimal(votes, r, cols);
-  return decimalFromVotes(votes, options, delimiter);
-}
-
-/** Date cells read as day/month/year only, as month/day/year only, and dates written with slashes or dashes. */
-interface DateVotes {
-  dmy: number;
-  mdy: number;
-  slashed: number;
-}
-
-function voteDates(votes: DateVotes, r: TableRow, cols: readonly number[]): void {
-  for (const c of cols) {
-    const cell = r.cells[c];
-    if (!cell) continue;
-    if (/^\s*\d{1,2}[/-]\d{1,2}[/-]\d{4}\s*$/.test(cell)) votes.slashed++;
-    const v = dateOrderVote(cell);
-    if (v === 'dmy') votes.dmy++;
-    else if (v === 'mdy') votes.mdy++;
-  }
-}
-
-/** The date order dateOrderFromVotes gives, without its note. */
-function dateOrderChoice(votes: DateVotes, options: AnalyseOptions): DateOrder {
-  return options.dateOrder ?? (votes.mdy > votes.dmy ? 'mdy' : 'dmy');
-}
-
-function dateOrderFromVotes(votes: DateVotes, options: AnalyseOptions): { order: DateOrder; note?: string } {
+function decideDateOrder(rows: TableRow[], cols: number[], options: AnalyseOptions): { order: DateOrder; note?: string } {
   if (options.dateOrder) return { order: options.dateOrder };
-  const { dmy, mdy, slashed } = votes;
+  let dmy = 0;
+  let mdy = 0;
+  let slashed = 0;
+  for (const r of rows) {
+    for (const c of cols) {
+      const cell = r.cells[c];
+      if (!cell) continue;
+      if (/^\s*\d{1,2}[/-]\d{1,2}[/-]\d{4}\s*$/.test(cell)) slashed++;
+      const v = dateOrderVote(cell);
+      if (v === 'dmy') dmy++;
+      else if (v === 'mdy') mdy++;
+    }
+  }
   if (mdy > dmy) return { order: 'mdy', note: 'dates with slashes read as month/day/year' };
   if (dmy > 0) return { order: 'dmy', note: 'dates with slashes read as day/month/year' };
   if (slashed) return { order: 'dmy', note: 'dates with slashes read as day/month/year (the file does not settle it; choose the order if that is wrong)' };
   return { order: 'dmy' };
-}
-
-/** The columns whose cells vote on the decimal mark and on the date order. */
-function voteColumns(map: ResolvedMapping): { numbers: number[]; dates: number[] } {
-  const f = map.fields;
-  return {
-    numbers: [
-      ...[f.qty, f.price, f.moq, f.pack].filter((c): c is number => c !== undefined),
-      ...map.breaks.flatMap((b) => (b.qtyCol === undefined ? [b.priceCol] : [b.qtyCol, b.priceCol])),
-    ],
-    dates: [f.date, f.expires].filter((c): c is number => c !== undefined),
-  };
 }
 
 const UNIT_DIVISOR: Record<Exclude<PriceUnit, 'pack'>, number> = { unit: 1, per100: 100, per1000: 1000 };
@@ -337,18 +240,20 @@ function tidy(n: number): number {
   return Number(n.toPrecision(12));
 }
 
-/** Checks rows one at a time, as they are read, under a decimal mark and date order decided beforehand. */
-interface RowChecker {
-  readonly decimal: Decimal;
-  readonly dateOrder: DateOrder;
-  push(r: TableRow): void;
-  /** Checks what only all the rows tell together (a long layout's parts) and gives the result, with the decisions' reasons. */
-  end(dec: { decimal: Decimal; reason: string; note?: string }, dates: { order: DateOrder; note?: string }): Checked;
-}
-
-function rowChecker(headers: string[], map: ResolvedMapping, options: AnalyseOptions, decimal: Decimal, dateOrder: DateOrder): RowChecker {
+function checkRows(rows: TableRow[], headers: string[], map: ResolvedMapping, options: AnalyseOptions, delimiter: Delimiter): Checked {
   const f = map.fields;
   const problems: PriceProblem[] = [];
+  const notes: string[] = [];
+  const numberCols = [
+    ...[f.qty, f.price, f.moq, f.pack].filter((c): c is number => c !== undefined),
+    ...map.breaks.flatMap((b) => (b.qtyCol === undefined ? [b.priceCol] : [b.qtyCol, b.priceCol])),
+  ];
+  const dec = decideDecimal(rows, numberCols, options, delimiter);
+  if (dec.note) notes.push(dec.note);
+  const dateCols = [f.date, f.expires].filter((c): c is number => c !== undefined);
+  const dates = decideDateOrder(rows, dateCols, options);
+  if (dates.note) notes.push(dates.note);
+  const decimal = dec.decimal;
   const known = new Set(options.knownCurrencies);
   const fixedUnit = options.priceUnit ?? map.priceUnit;
   const leadUnit = map.leadUnit ?? options.leadUnit;
@@ -413,12 +318,12 @@ function rowChecker(headers: string[], map: ResolvedMapping, options: AnalyseOpt
       else c.leadDays = n;
     }
     if (f.date !== undefined && cell(r, f.date) !== '') {
-      const d = parseDate(cell(r, f.date), dateOrder);
+      const d = parseDate(cell(r, f.date), dates.order);
       if (!d) ok = problem(r, f.date, 'not a date: use YYYY-MM-DD (or DD.MM.YYYY)');
       else c.date = d;
     }
     if (f.expires !== undefined && cell(r, f.expires) !== '') {
-      const d = parseDate(cell(r, f.expires), dateOrder);
+      const d = parseDate(cell(r, f.expires), dates.order);
       if (!d) ok = problem(r, f.expires, 'not a date: use YYYY-MM-DD (or DD.MM.YYYY)');
       else c.expires = d;
     }
@@ -497,21 +402,9 @@ function rowChecker(headers: string[], map: ResolvedMapping, options: AnalyseOpt
     return true;
   };
 
-  /** The result, the notes of the two decisions ahead of the layout's own, as they have always been given. */
-  const result = (dec: { decimal: Decimal; reason: string; note?: string }, dates: { order: DateOrder; note?: string }, layoutNotes: string[]): Checked => ({
-    offers,
-    offerLines,
-    rejected,
-    problems,
-    notes: [...(dec.note ? [dec.note] : []), ...(dates.note ? [dates.note] : []), ...layoutNotes],
-    decimal: dec.decimal,
-    decimalReason: dec.reason,
-    dateOrder: dates.order,
-  });
-
   if (map.layout === 'wide') {
     const seen = new Map<string, number>();
-    const push = (r: TableRow): void => {
+    for (const r of rows) {
       const c = readCommon(r);
       let ok = c !== undefined;
       const breaks: PriceBreak[] = [];
@@ -549,66 +442,64 @@ function rowChecker(headers: string[], map: ResolvedMapping, options: AnalyseOpt
         }
       }
       if (!ok) rejected++;
-    };
-    return { decimal, dateOrder, push, end: (dec, dates) => result(dec, dates, []) };
-  }
-  // Long layout: one row per break; rows of the same part (by maker part number, else supplier code) form one quote.
-  interface Group {
-    key: string;
-    first: TableRow;
-    common?: Common;
-    rows: { r: TableRow; qty: number; price: number; currency: string; moq: number | undefined }[];
-    ok: boolean;
-  }
-  const groups = new Map<string, Group>();
-  const order: Group[] = [];
-  const raisedBreaks: string[] = [];
-  const mergedBreaks: string[] = [];
-  const push = (r: TableRow): void => {
-    const c = readCommon(r);
-    const key = cell(r, f.mpn) ? `mpn:${mpnKey(cell(r, f.mpn))}` : `code:${cell(r, f.supplierCode).toUpperCase()}`;
-    let g = groups.get(key);
-    if (!g) {
-      g = { key, first: r, rows: [], ok: true };
-      if (c) g.common = c;
-      groups.set(key, g);
-      order.push(g);
     }
-    if (!c) {
-      g.ok = false;
-      return;
+  } else {
+    // Long layout: one row per break; rows of the same part (by maker part number, else supplier code) form one quote.
+    interface Group {
+      key: string;
+      first: TableRow;
+      common?: Common;
+      rows: { r: TableRow; qty: number; price: number; currency: string; moq: number | undefined }[];
+      ok: boolean;
     }
-    if (!g.common) g.common = c;
-    else if (g.ok) {
-      const shared = g.common;
-      const part = cell(g.first, f.mpn) || cell(g.first, f.supplierCode);
-      const agree = (field: PriceField, a: unknown, b: unknown): void => {
-        if (b === undefined || a === b) return;
-        if (a === undefined) return;
-        g!.ok = problem(r, f[field], `differs from line ${g!.first.line} for the same part ${part} (${String(a)})`);
-      };
-      // An MOQ may differ from row to row: distributor files often give one per price break (see below).
-      agree('pack', shared.pack, c.pack);
-      agree('leadTime', shared.leadDays, c.leadDays);
-      agree('date', shared.date, c.date);
-      agree('expires', shared.expires, c.expires);
-      if (shared.pack === undefined) shared.pack = c.pack;
-      if (shared.leadDays === undefined) shared.leadDays = c.leadDays;
-      if (shared.date === undefined) shared.date = c.date;
-      if (shared.expires === undefined) shared.expires = c.expires;
-      if (!shared.description) shared.description = c.description;
-      if (!shared.supplierCode) shared.supplierCode = c.supplierCode;
-      if (!shared.maker) shared.maker = c.maker;
+    const groups = new Map<string, Group>();
+    const order: Group[] = [];
+    const raisedBreaks: string[] = [];
+    const mergedBreaks: string[] = [];
+    for (const r of rows) {
+      const c = readCommon(r);
+      const key = cell(r, f.mpn) ? `mpn:${mpnKey(cell(r, f.mpn))}` : `code:${cell(r, f.supplierCode).toUpperCase()}`;
+      let g = groups.get(key);
+      if (!g) {
+        g = { key, first: r, rows: [], ok: true };
+        if (c) g.common = c;
+        groups.set(key, g);
+        order.push(g);
+      }
+      if (!c) {
+        g.ok = false;
+        continue;
+      }
+      if (!g.common) g.common = c;
+      else if (g.ok) {
+        const shared = g.common;
+        const part = cell(g.first, f.mpn) || cell(g.first, f.supplierCode);
+        const agree = (field: PriceField, a: unknown, b: unknown): void => {
+          if (b === undefined || a === b) return;
+          if (a === undefined) return;
+          g!.ok = problem(r, f[field], `differs from line ${g!.first.line} for the same part ${part} (${String(a)})`);
+        };
+        // An MOQ may differ from row to row: distributor files often give one per price break (see below).
+        agree('pack', shared.pack, c.pack);
+        agree('leadTime', shared.leadDays, c.leadDays);
+        agree('date', shared.date, c.date);
+        agree('expires', shared.expires, c.expires);
+        if (shared.pack === undefined) shared.pack = c.pack;
+        if (shared.leadDays === undefined) shared.leadDays = c.leadDays;
+        if (shared.date === undefined) shared.date = c.date;
+        if (shared.expires === undefined) shared.expires = c.expires;
+        if (!shared.description) shared.description = c.description;
+        if (!shared.supplierCode) shared.supplierCode = c.supplierCode;
+        if (!shared.maker) shared.maker = c.maker;
+      }
+      const qty = f.qty === undefined ? (c.moq ?? 1) : readBreakQty(r, f.qty);
+      const p = readPrice(r, f.price!, c);
+      if (qty === undefined || !p) {
+        g.ok = false;
+        continue;
+      }
+      g.rows.push({ r, qty, price: p.price, currency: p.currency, moq: c.moq });
     }
-    const qty = f.qty === undefined ? (c.moq ?? 1) : readBreakQty(r, f.qty);
-    const p = readPrice(r, f.price!, c);
-    if (qty === undefined || !p) {
-      g.ok = false;
-      return;
-    }
-    g.rows.push({ r, qty, price: p.price, currency: p.currency, moq: c.moq });
-  };
-  const end = (dec: { decimal: Decimal; reason: string; note?: string }, dates: { order: DateOrder; note?: string }): Checked => {
     for (const g of order) {
       if (!g.ok || !g.common) {
         rejected++;
@@ -634,17 +525,15 @@ function rowChecker(headers: string[], map: ResolvedMapping, options: AnalyseOpt
       }
       if (!ok || !finish(g.common, g.key, breaks, g.rows.map((x) => x.currency), g.first.line, lines, g.rows[0]?.r ?? g.first, f.price)) rejected++;
     }
-    const layoutNotes: string[] = [];
     const listed = (items: readonly string[]): string => `${items.slice(0, NOTE_ITEMS).join('; ')}${items.length > NOTE_ITEMS ? `; and ${items.length - NOTE_ITEMS} more` : ''}`;
     if (raisedBreaks.length > 0) {
-      layoutNotes.push(`${raisedBreaks.length} price break(s) start at their own MOQ, above the break quantity the file gives: ${listed(raisedBreaks)}`);
+      notes.push(`${raisedBreaks.length} price break(s) start at their own MOQ, above the break quantity the file gives: ${listed(raisedBreaks)}`);
     }
     if (mergedBreaks.length > 0) {
-      layoutNotes.push(`${mergedBreaks.length} price break(s) then fell on the quantity of another break of the same part; the cheaper price is kept: ${listed(mergedBreaks)}`);
+      notes.push(`${mergedBreaks.length} price break(s) then fell on the quantity of another break of the same part; the cheaper price is kept: ${listed(mergedBreaks)}`);
     }
-    return result(dec, dates, layoutNotes);
-  };
-  return { decimal, dateOrder, push, end };
+  }
+  return { offers, offerLines, rejected, problems, notes, decimal, decimalReason: dec.reason, dateOrder: dates.order };
 }
 
 /** How many parts or breaks a note names before it says "and n more". */
