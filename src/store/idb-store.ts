@@ -40,11 +40,6 @@ export interface OpenBookStoreOptions {
   largeWrites?: 'worker' | 'here';
   /** Starts the writer worker; tests pass one that runs the worker's code in-process. */
   writeWorker?: () => WriteWorkerLike;
-  /**
-   * Opened by the writer worker, where nothing waits on the thread: a large change asks for every quote bucket it
-   * rewrites at once instead of one after the other (the page spreads them over tasks of its own).
-   */
-  readAhead?: boolean;
 }
 
 type Db = IDBPDatabase<RungbookDB>;
@@ -58,7 +53,7 @@ export async function openBookStore(dbName: string = DEFAULT_BOOK_DB, opts: Open
   const target = idbVersionOf(migrations[migrations.length - 1]?.version ?? 0);
   const db = await openWithMigrations(factory, dbName, target, migrations, opts.onBlocked);
   const inWorker = (opts.largeWrites ?? (opts.factory || typeof Worker === 'undefined' ? 'here' : 'worker')) === 'worker';
-  return new IdbBookStore(dbName, db, opts.onVersionChange, inWorker ? (opts.writeWorker ?? startWriteWorker) : undefined, opts.readAhead ?? false);
+  return new IdbBookStore(dbName, db, opts.onVersionChange, inWorker ? (opts.writeWorker ?? startWriteWorker) : undefined);
 }
 
 function openWithMigrations(
@@ -183,7 +178,6 @@ export class IdbBookStore implements BookStore {
     onVersionChange: (() => void) | undefined,
     /** Starts the worker large changes are written from; none: every change is written here. */
     private readonly writeWorker?: () => WriteWorkerLike,
-    private readonly readAhead = false,
   ) {
     db.addEventListener('versionchange', () => {
       // Another tab wants a newer schema: let it proceed; this tab must reload to use it.
@@ -311,7 +305,7 @@ export class IdbBookStore implements BookStore {
       const writes = requests();
       for (const c of collections) {
         if (c === 'quotes') {
-          reads.push(rewriteQuoteBuckets(tx, quoteGroups!, writes, this.readAhead));
+          reads.push(rewriteQuoteBuckets(tx, quoteGroups!, writes));
           continue;
         }
         // New records (rev 0) are written with add(), which fails on an existing key: no read needed, which keeps
@@ -515,13 +509,10 @@ function* quotesByBucket(change: BookChange): Sliced<Map<string, QuoteGroup>> {
  * reads in one task, and rewriting every bucket of a large import there held the page for a second. A conflict stops
  * the rewriting and aborts the whole transaction, so nothing it wrote stays.
  */
-async function rewriteQuoteBuckets(tx: WriteTx, groups: Map<string, QuoteGroup>, writes: ReturnType<typeof requests>, readAhead: boolean): Promise<RevisionConflict | undefined> {
+async function rewriteQuoteBuckets(tx: WriteTx, groups: Map<string, QuoteGroup>, writes: ReturnType<typeof requests>): Promise<RevisionConflict | undefined> {
   const store = tx.objectStore('quotes');
-  // Off the page, every read is asked for at once: the answers come while the buckets before are written.
-  const ahead = readAhead ? new Map([...groups.keys()].map((key) => [key, store.get(key)] as const)) : undefined;
-  for (const p of ahead?.values() ?? []) p.catch(() => undefined);
   for (const [key, g] of groups) {
-    const bucket = await (ahead?.get(key) ?? store.get(key));
+    const bucket = await store.get(key);
     const quotes = new Map((bucket?.quotes ?? []).map((q) => [q.id, q] as const));
     for (const q of g.put) {
       const stored = quotes.get(q.id);

@@ -72,7 +72,7 @@ export function writeWorkerHandler(
     post({ type: 'started' });
     try {
       // This connection writes and closes: the page's own stays open for the Book.
-      const store = await openBookStore(m.dbName, { ...(factory ? { factory } : {}), largeWrites: 'here', readAhead: true });
+      const store = await openBookStore(m.dbName, factory ? { factory, largeWrites: 'here' } : { largeWrites: 'here' });
       try {
         await store.apply(parts.change(m.settings));
       } finally {
