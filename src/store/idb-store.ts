@@ -15,8 +15,6 @@ import { RECORD_SCHEMAS, SettingsSchema, checkBook, checkWith, isObject, short }
 import type { SchemaProblem } from '../domain/schema.ts';
 import { RevisionConflict, StorageFull, StoredBookInvalid, StoredRecordsInvalid, StoreWriteFailed } from './types.ts';
 import type { BookStore } from './types.ts';
-import { WORKER_WRITE_MIN, changeSize, startWriteWorker, writeInWorker } from './write-worker-client.ts';
-import type { WriteWorkerLike } from './write-worker-client.ts';
 
 export const DEFAULT_BOOK_DB = 'rungbook';
 
@@ -32,14 +30,6 @@ export interface OpenBookStoreOptions {
   onBlocked?: () => void;
   /** Migration steps; the released ones by default. Tests pass a longer list to prove the next upgrade. */
   migrations?: readonly Migration[];
-  /**
-   * Where a change naming WORKER_WRITE_MIN records or more is written: from a worker (the default in a browser with
-   * its own IndexedDB, so copying the records in does not hold the page) or here (Node, a test's IndexedDB, the
-   * worker itself).
-   */
-  largeWrites?: 'worker' | 'here';
-  /** Starts the writer worker; tests pass one that runs the worker's code in-process. */
-  writeWorker?: () => WriteWorkerLike;
 }
 
 type Db = IDBPDatabase<RungbookDB>;
@@ -52,8 +42,7 @@ export async function openBookStore(dbName: string = DEFAULT_BOOK_DB, opts: Open
   const migrations = opts.migrations ?? MIGRATIONS;
   const target = idbVersionOf(migrations[migrations.length - 1]?.version ?? 0);
   const db = await openWithMigrations(factory, dbName, target, migrations, opts.onBlocked);
-  const inWorker = (opts.largeWrites ?? (opts.factory || typeof Worker === 'undefined' ? 'here' : 'worker')) === 'worker';
-  return new IdbBookStore(dbName, db, opts.onVersionChange, inWorker ? (opts.writeWorker ?? startWriteWorker) : undefined);
+  return new IdbBookStore(dbName, db, opts.onVersionChange);
 }
 
 function openWithMigrations(
@@ -176,8 +165,6 @@ export class IdbBookStore implements BookStore {
     readonly name: string,
     private readonly db: Db,
     onVersionChange: (() => void) | undefined,
-    /** Starts the worker large changes are written from; none: every change is written here. */
-    private readonly writeWorker?: () => WriteWorkerLike,
   ) {
     db.addEventListener('versionchange', () => {
       // Another tab wants a newer schema: let it proceed; this tab must reload to use it.
@@ -272,21 +259,6 @@ export class IdbBookStore implements BookStore {
   }
 
   async apply(change: BookChange): Promise<void> {
-    this.ensureOpen();
-    if (this.writeWorker && changeSize(change) >= WORKER_WRITE_MIN) {
-      const shape = changeShapeProblem(change);
-      if (shape) throw new StoreWriteFailed(shape);
-      try {
-        await writeInWorker(this.name, change, () => this.applyHere(change), this.writeWorker);
-      } catch (e) {
-        throw writeError(e, undefined);
-      }
-      return;
-    }
-    return this.applyHere(change);
-  }
-
-  private async applyHere(change: BookChange): Promise<void> {
     this.ensureOpen();
     const collections = touchedCollections(change);
     const stores: StoreName[] = change.settings ? [...collections, 'settings'] : collections;
