@@ -252,4 +252,47 @@ describe('price file import through the app', () => {
     await expect(page.locator('[data-testid="batches-table"]').count()).resolves.toBe(0);
     expect(errors).toEqual([]);
   });
+  it('imports a file of 2,600 new parts, keeps them after a reload, and undoes the import', async () => {
+    const count = 2600;
+    const rows = Array.from({ length: count }, (_, i) => `BIG-${String(i).padStart(5, '0')},Large file part ${i},KPB-${i},1,0.10,1,1,2,2026-08-14`);
+    const path = writeTemp('large-new-parts.csv', `${HEADER}\n${rows.join('\n')}\n`);
+    const { page, errors } = await app.open('#/start');
+    /** The Start page's counts of the Book: parts and quotes. */
+    const counts = async (): Promise<number[]> => {
+      const shown = await text(page, '[data-testid="start-counts"]');
+      const m = /([\d,]+) parts? and ([\d,]+) quotes?/.exec(shown);
+      expect(m, shown).not.toBeNull();
+      return [Number(m![1]!.replace(/,/g, '')), Number(m![2]!.replace(/,/g, ''))];
+    };
+    await page.locator('[data-testid="start-counts"]').waitFor();
+    const [parts, quotes] = await counts();
+
+    await railTo(page, '#/import');
+    await readFile(page, path);
+    await expect(text(page, '[data-testid="import-progress"]')).resolves.toMatch(/^2,?600 rows read and checked/);
+    await page.getByRole('button', { name: 'Confirm this mapping' }).click();
+    await page.getByRole('button', { name: 'Create all as new parts' }).click();
+    await page.getByRole('button', { name: 'Import all', exact: true }).click();
+    await page.locator('[data-testid="import-done"]').waitFor({ timeout: 60_000 });
+    await saved(page);
+    await expect(text(page, '[data-testid="import-done"]')).resolves.toMatch(/2,?600 new quotes/);
+
+    // Read back from storage: the 2,600 parts and quotes and the batch naming them were all written.
+    await page.evaluate(() => (location.hash = '#/start'));
+    await page.reload();
+    await page.locator('[data-testid="start-counts"]').waitFor();
+    expect(await counts()).toEqual([parts! + count, quotes! + count]);
+    await railTo(page, '#/quotes');
+    const batch = page.locator('[data-testid="batches-table"] tbody tr', { hasText: 'large-new-parts.csv' });
+    await expect(batch.locator('td').nth(2).textContent()).resolves.toBe(String(count));
+    await batch.getByRole('button', { name: 'undo' }).click();
+    await batch.getByRole('button', { name: 'Undo', exact: true }).click();
+    await batch.locator('text=↶ undone').waitFor({ timeout: 60_000 });
+    await saved(page);
+    await page.evaluate(() => (location.hash = '#/start'));
+    await page.reload();
+    await page.locator('[data-testid="start-counts"]').waitFor();
+    expect((await counts())[1]).toBe(quotes);
+    expect(errors).toEqual([]);
+  });
 });

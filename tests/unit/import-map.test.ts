@@ -165,6 +165,15 @@ describe('numbers', () => {
     expect(a.offers[0]!.breaks[0]).toEqual({ qty: 1000, price: 0.05 });
   });
 
+  it('reads every row under the decimal mark the whole file decides, even when only a late row settles it', async () => {
+    // Rows are checked as they are read: the first price reads either way, the last one only with a decimal comma.
+    const a = await analyse('MPN,Qty,Price\nQT-R10K-06,1,"1,234"\nQT-C100N-50,10,"2,5"\nQT-D400-1A,5,"0,5"\n');
+    expect(a.decimal).toBe(',');
+    expect(a.decimalReason).toMatch(/decimal comma: 2 number cell/);
+    expect(a.offers.map((o) => o.breaks[0]!.price)).toEqual([1.234, 2.5, 0.5]);
+    expect(a.problems).toEqual([]);
+  });
+
   it('lets the user override the decimal mark when the file cannot tell', async () => {
     const text = 'MPN,Qty,Price\nQT-R10K-06,1,1.250\n';
     const guessed = await analyse(text);
@@ -247,6 +256,12 @@ describe('price units, lead times and dates', () => {
     const a = await analyse('MPN,Price,Quote date\nQT-R10K-06,0.05,12/25/2026\nQT-C100N-50,0.1,03/04/2026\n');
     expect(a.dateOrder).toBe('mdy');
     expect(a.offers.map((o) => o.date)).toEqual(['2026-12-25', '2026-03-04']);
+  });
+
+  it('reads every date in the order the whole file decides, even when only the last row settles it', async () => {
+    const a = await analyse('MPN,Price,Quote date\nQT-R10K-06,0.05,03/04/2026\nQT-C100N-50,0.1,05/06/2026\nQT-D400-1A,0.2,12/25/2026\n');
+    expect(a.dateOrder).toBe('mdy');
+    expect(a.offers.map((o) => o.date)).toEqual(['2026-03-04', '2026-05-06', '2026-12-25']);
   });
 
   it('dates quotes with the import day when the file gives none', async () => {
