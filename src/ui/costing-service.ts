@@ -49,6 +49,8 @@ export interface BookSource {
    * figures are held back until `book` is that very Book.
    */
   readonly proposed?: Book | undefined;
+  /** Counts the times the whole Book was replaced (BookService.replacements): work on a replaced Book is dropped. */
+  readonly replacements?: number;
 }
 
 /** The slice of the Worker interface the service uses, so tests can stand in for the worker. */
@@ -111,6 +113,8 @@ export class CostingService extends EventTarget {
   private seq = 0;
   /** True while the figures held were seeded and the worker has not been sent the Book yet (see `seed`). */
   private seededOnly = false;
+  /** The Book's replacement count when it was last sent (see BookSource.replacements). */
+  private sentReplacements: number | undefined;
   /** True while the Book last sent is a save's proposed Book that has not become the Book yet. */
   private sentAhead = false;
   /** The answer for a proposed Book, held back (not merged) until the Book is that Book. */
@@ -382,7 +386,14 @@ export class CostingService extends EventTarget {
     const proposed = this.books.proposed;
     const next = proposed ?? this.books.book;
     if (next === this.sent || this.becameBook(next)) return;
-    if (this.inFlight) return;
+    if (this.inFlight) {
+      // The Book was replaced (a file opened, the demo Book) while the worker was still working out the one before:
+      // its answer is worth nothing, and for a large Book it could be many seconds away. That worker is stopped and
+      // a new one starts on the new Book.
+      if (this.books.replacements === this.sentReplacements) return;
+      this.dropWorker('the Book was replaced');
+    }
+    this.sentReplacements = this.books.replacements;
     this.seededOnly = false;
     let worker = this.worker;
     if (!worker) {
@@ -442,17 +453,26 @@ export class CostingService extends EventTarget {
     worker.onerror = (e) => {
       e.preventDefault?.();
       worker.terminate();
-      if (this.worker === worker) this.worker = undefined;
+      // A worker already let go of (the Book was replaced) says nothing about the one working now.
+      if (this.worker !== worker) return;
+      const why = `the worker stopped (${e.message || 'no reason given'})`;
       const book = this.sent ?? this.books.book;
-      this.sent = undefined;
-      this.inFlight = false;
-      this.sentAhead = false;
-      this.heldBack = [];
-      this.dropAsked(`the worker stopped (${e.message || 'no reason given'})`);
-      this.fail(book, `the figures could not be worked out: the worker stopped (${e.message || 'no reason given'})`);
+      this.dropWorker(why);
+      this.fail(book, `the figures could not be worked out: ${why}`);
     };
     this.worker = worker;
     return worker;
+  }
+
+  /** Stops the worker and forgets what it was sent; the next send starts a new one with the whole Book. */
+  private dropWorker(why: string): void {
+    this.worker?.terminate();
+    this.worker = undefined;
+    this.sent = undefined;
+    this.inFlight = false;
+    this.sentAhead = false;
+    this.heldBack = [];
+    this.dropAsked(why);
   }
 
   /** Fails every what-if question still waiting. */

@@ -264,6 +264,38 @@ describe('CostingService with the figures worker', () => {
     for (const x of holder.book.variants) expect(costing.worstStatus(x.id)).toBe(freshWorst(holder.book).get(x.id));
   });
 
+  it('stops a worker still working out a Book that was replaced, and works the new Book out in a new one', async () => {
+    class Replacing extends Holder {
+      replacements = 0;
+      replace(book: Book): void {
+        this.book = book;
+        this.replacements += 1;
+      }
+    }
+    const demo = addBuiltInChecks(demoBook(), CHECKS);
+    const holder = new Replacing(demo);
+    const { costing, workers } = costingInWorker(holder);
+    costing.sync();
+    expect(workers).toHaveLength(1);
+    // Replaced before the first worker answered: its answer would be of a Book no longer open.
+    holder.replace({ ...demo, settings: { ...demo.settings, overheadPct: demo.settings.overheadPct + 5 } });
+    costing.sync();
+    expect(workers[0]!.terminated).toBe(true);
+    expect(workers).toHaveLength(2);
+    expect(workers[1]!.sent.map((m) => m.type)).toEqual(['book']);
+    await settled(costing);
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+    // An edit is not a replacement: the next change waits for the answer in flight, in the same worker.
+    holder.change({ settings: { ...holder.book.settings, overheadPct: holder.book.settings.overheadPct + 1 } });
+    costing.sync();
+    holder.change({ settings: { ...holder.book.settings, overheadPct: holder.book.settings.overheadPct + 1 } });
+    costing.sync();
+    await settled(costing);
+    expect(workers).toHaveLength(2);
+    expect(workers[1]!.terminated).toBe(false);
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+  });
+
   it('says why when the worker stops, is not left pending, and starts a new worker on the next change', async () => {
     const { holder, costing, workers } = startInWorker();
     await settled(costing);
