@@ -274,6 +274,8 @@ function* planSteps(book: Book, analysis: PriceAnalysis, options: PlanOptions): 
     old.push(...replaced);
     if (replaced.some((r) => (noPack && r.pack > 1 && q.pack !== r.pack) || (noMoq && r.moq > 1 && q.moq !== r.moq))) lostPackOrMoq++;
   }
+  // Each step below goes over every quote or part once: a slice apart, so together they do not hold the page.
+  yield;
   const batch: ImportBatch = {
     id: batchId,
     rev: 0,
@@ -285,8 +287,10 @@ function* planSteps(book: Book, analysis: PriceAnalysis, options: PlanOptions): 
     created: quotes.map((q) => q.id),
     superseded: old.map((q) => q.id),
   };
+  yield;
   const suppliers: Supplier[] = options.rememberMapping === false ? [] : [{ ...supplier, mapping: analysis.mapping }];
   const usedParts = new Set(chosen.map((m) => m.part.id));
+  yield;
   const parts = created.filter((p) => usedParts.has(p.id));
   const change: BookChange = {
     put: { parts, suppliers, quotes: [...old, ...quotes], importBatches: [batch] },
