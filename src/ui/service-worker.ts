@@ -33,6 +33,8 @@ worker.addEventListener('activate', (event) => {
       for (const key of await caches.keys()) {
         if (key.startsWith(CACHE_PREFIX) && key !== CACHE) await caches.delete(key);
       }
+      // A page load asks the network while this worker starts, rather than after (see `page`).
+      await worker.registration.navigationPreload?.enable().catch(() => undefined);
       // The first visit's page comes under the worker at once, so what it loads later is answered offline too.
       await worker.clients.claim();
     })(),
@@ -62,9 +64,9 @@ async function fromCache(request: Request | string): Promise<Response | undefine
   return held ? cache.match(held) : undefined;
 }
 
-async function page(request: Request): Promise<Response> {
+async function page(request: Request, preloaded: Promise<Response | undefined>): Promise<Response> {
   try {
-    const response = await fetch(request);
+    const response = (await preloaded.catch(() => undefined)) ?? (await fetch(request));
     if (response.ok) return response;
     return (await fromCache(inScope(''))) ?? response;
   } catch {
@@ -87,6 +89,6 @@ worker.addEventListener('fetch', (event) => {
   if (request.method !== 'GET') return;
   const url = new URL(request.url);
   if (url.origin !== worker.location.origin) return;
-  if (request.mode === 'navigate') event.respondWith(page(request));
+  if (request.mode === 'navigate') event.respondWith(page(request, Promise.resolve(event.preloadResponse as Promise<Response | undefined> | undefined)));
   else event.respondWith(file(request));
 });
