@@ -43,6 +43,11 @@ export class RowWindow implements ReactiveController {
   /** Rows beyond the view are drawn once the first view has been shown (see measure). */
   private spare = false;
   private listening: HTMLElement | undefined;
+  /** The frame's scroll position when the grid left the page, put back once it is shown again. */
+  private restoreTop: number | undefined;
+  /** The frame's scroll position and the rows it shows, as last followed (a grid off the page measures 0). */
+  private scrolledTo = 0;
+  private inView = rowsInFirstView() - 1;
 
   constructor(
     private readonly host: ReactiveControllerHost,
@@ -73,9 +78,24 @@ export class RowWindow implements ReactiveController {
     this.follow(el);
   }
 
+  hostConnected(): void {
+    if (this.restoreTop === undefined) return;
+    // Back on the page (a page switch): the grid lost its layout and its scroll position while off it, so every row it
+    // holds is styled, laid out and painted afresh in the next frame. It draws only the rows in view for that frame
+    // (the rows it drops are gone before any layout), and is measured, scrolled back and given its spare rows again
+    // after it, as a first drawing is.
+    const top = Math.floor(this.restoreTop / this.rowHeight);
+    this.first = Math.max(0, Math.min(top, this.total - 1));
+    this.count = this.inView + 1;
+    this.measured = false;
+    this.spare = false;
+    this.host.requestUpdate();
+  }
+
   hostUpdated(): void {
     const el = this.scroller();
-    if (!el) return;
+    // A grid off the page (its page switched away) is not measured or followed until it is back.
+    if (!el?.isConnected) return;
     if (this.listening !== el) {
       this.listening?.removeEventListener('scroll', this.onScroll);
       el.addEventListener('scroll', this.onScroll, { passive: true });
@@ -99,6 +119,10 @@ export class RowWindow implements ReactiveController {
     if (h > 0) {
       this.measured = true;
       if (Math.abs(h - this.rowHeight) > 0.5) this.rowHeight = h;
+      if (this.restoreTop !== undefined) {
+        el.scrollTop = this.restoreTop;
+        this.restoreTop = undefined;
+      }
       // The rows beyond the view are drawn in the task after this frame, which lays out and paints the first view:
       // drawn from here they would be laid out in this same frame, one long task where there can be two.
       void nextTask().then(() => {
@@ -109,7 +133,9 @@ export class RowWindow implements ReactiveController {
   }
 
   hostDisconnected(): void {
-    this.listening?.removeEventListener('scroll', this.onScroll);
+    const el = this.listening;
+    if (el && this.total >= WINDOW_FROM) this.restoreTop = this.scrolledTo;
+    el?.removeEventListener('scroll', this.onScroll);
     this.listening = undefined;
     if (this.frame !== 0) cancelAnimationFrame(this.frame);
     this.frame = 0;
@@ -127,11 +153,13 @@ export class RowWindow implements ReactiveController {
 
   /** Works out the rows in view from the frame's scroll position; draws again when they moved. */
   private follow(el: HTMLElement): void {
+    this.scrolledTo = el.scrollTop;
+    this.inView = Math.ceil(el.clientHeight / this.rowHeight);
     const top = Math.floor(el.scrollTop / this.rowHeight);
     const first = Math.max(0, top - OVERSCAN);
     // Rows in view and OVERSCAN either side, fewer above when the view is near the top (none below before the first
     // view is shown).
-    const count = top - first + Math.ceil(el.clientHeight / this.rowHeight) + (this.spare ? OVERSCAN : 1);
+    const count = top - first + this.inView + (this.spare ? OVERSCAN : 1);
     if (first === this.first && count === this.count) return;
     this.first = first;
     this.count = count;

@@ -42,9 +42,19 @@ export const LONG_TASK_PROBE = `(() => {
   const tick = () => { const now = performance.now(); gap.max = Math.max(gap.max, now - gap.last); gap.last = now; requestAnimationFrame(tick); };
   requestAnimationFrame(tick);
   ${DEEP_QUERY}
-  window.__rbDeep = (sel) => deep(document, sel);
+  // The probes below run every frame, inside the tasks they measure: an element once found is kept while it is still
+  // in the page and still matches, so the walk through every shadow root (several ms on a large page) runs once.
+  const found = new Map();
+  const deepKept = (sel) => {
+    const kept = found.get(sel);
+    if (kept && kept.isConnected && kept.matches(sel)) return kept;
+    const hit = deep(document, sel);
+    if (hit) found.set(sel, hit);
+    return hit;
+  };
+  window.__rbDeep = deepKept;
   window.__rbCost = (code, run, w) => {
-    const table = deep(document, '[data-testid="family-table"]');
+    const table = deepKept('[data-testid="family-table"]');
     const col = table ? [...table.querySelectorAll('thead th')].findIndex((th) => th.getAttribute('data-key') === 'cost_' + run) : -1;
     const row = table && [...table.querySelectorAll('tbody tr')].find((tr) => tr.querySelector('th')?.textContent?.trim() === code);
     const text = (col >= 0 && row?.children[col]?.textContent?.trim()) || '';
@@ -61,14 +71,14 @@ export const LONG_TASK_PROBE = `(() => {
     };
     tick();
   });
-  window.__rbText = (sel, want) => (deep(document, sel)?.textContent?.trim() === want ? performance.now() : false);
+  window.__rbText = (sel, want) => (deepKept(sel)?.textContent?.trim() === want ? performance.now() : false);
   // The time stamp of the person's last click or key press, as the page received it.
   window.__rbInput = 0;
   for (const type of ['click', 'keydown']) addEventListener(type, (e) => { window.__rbInput = e.timeStamp; }, { capture: true });
   // Watches every frame, from before an action, for its effect: window.__rbSeen is the page time it was first seen.
   window.__rbWatch = (test) => { window.__rbSeen = undefined; window.__rbUntil(test, 120000).then((t) => { window.__rbSeen = t; }, () => {}); };
   window.__rbShows = (sel, text) => {
-    const el = deep(document, sel);
+    const el = deepKept(sel);
     return el && [...el.querySelectorAll('code')].some((c) => c.textContent.trim() === text) ? performance.now() : false;
   };
 })();`;

@@ -1,0 +1,90 @@
+// A long Family grid across a page switch, in real Chromium: it draws only the rows in view (see row-window.ts), and
+// when the person comes back from another page it draws just the rows in view for the first frame (the switch lays
+// the whole page out afresh), is scrolled back where it was, and gets its spare rows above and below after that frame.
+import { afterEach, describe, expect, inject, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { serializeBook } from '../../src/io/book-file.ts';
+import { referenceFamily } from '../fixtures/reference-family.ts';
+import { AppUnderTest, pageLoaded, railTo } from './harness.ts';
+
+const baseUrl = inject('baseUrl');
+const book = referenceFamily({ variants: 120, lines: 12 }).book;
+
+const app = new AppUnderTest(baseUrl);
+afterEach(() => app.close());
+
+/** The Family grid's drawn rows (spacers left out) and its scrolling frame, read through the page's shadow roots. */
+const GRID = `(() => {
+  const grid = document.querySelector('rb-app').shadowRoot.querySelector('rb-family-page').shadowRoot.querySelector('rb-grid');
+  const frame = grid.shadowRoot.querySelector('.frame');
+  const rows = [...frame.querySelectorAll('tbody tr[aria-rowindex]')];
+  return { frame, rows };
+})()`;
+
+interface GridState {
+  rows: number;
+  /** Code of the first variant row whose bottom edge is below the frame's header, i.e. the top row in view. */
+  top: string;
+  scrollTop: number;
+  /** Rows the frame shows at once. */
+  fits: number;
+}
+
+function gridState(page: Page): Promise<GridState> {
+  return page.evaluate(`(() => {
+    const { frame, rows } = ${GRID};
+    const head = frame.querySelector('thead').getBoundingClientRect().bottom;
+    const top = rows.find((tr) => tr.getBoundingClientRect().bottom > head + 1);
+    const h = rows[0] ? rows[0].getBoundingClientRect().height : 1;
+    return { rows: rows.length, top: top ? top.querySelector('th').textContent.trim() : '', scrollTop: frame.scrollTop, fits: Math.ceil(frame.clientHeight / h) };
+  })()`);
+}
+
+describe('a long Family grid', () => {
+  it('comes back from another page scrolled where it was, drawing only the rows in view for the first frame', async () => {
+    const { page, errors } = await app.open('#/family', { ready: '[data-testid="family-table"] tbody tr[aria-rowindex="2"]' });
+    await page.locator('rb-book-menu input[type="file"]').setInputFiles({
+      name: 'long-family.rungbook.json',
+      mimeType: 'application/json',
+      buffer: Buffer.from(serializeBook(book)),
+    });
+    await page.locator('rb-book-menu dialog[open]').getByRole('button', { name: 'Replace with the file' }).click();
+    await page.locator('[data-testid="notice"]', { hasText: 'Opened long-family.rungbook.json' }).waitFor();
+    const codes = [...book.variants].map((v) => v.code);
+    await page.locator('[data-testid="family-table"] tbody tr[aria-rowindex] th').first().waitFor();
+    const atStart = await gridState(page);
+
+    // Scrolled to the middle of the family: far fewer rows are drawn than the family has.
+    await page.evaluate(`(() => { const { frame, rows } = ${GRID}; frame.scrollTop = rows[0].getBoundingClientRect().height * 60; })()`);
+    await page.waitForFunction(`(() => { const { rows } = ${GRID}; return rows.some((tr) => Number(tr.getAttribute('aria-rowindex')) === 62); })()`);
+    await page.waitForTimeout(200);
+    const before = await gridState(page);
+    expect(before.rows).toBeLessThan(book.variants.length / 2);
+    expect(before.scrollTop).toBeGreaterThan(0);
+    expect(codes).toContain(before.top);
+    expect(before.top).not.toBe(atStart.top);
+
+    await railTo(page, '#/parts');
+    await pageLoaded(page, 'Parts');
+
+    // The first frame after coming back: counted in an animation frame asked for as the page changes, which runs
+    // before the grid's own (that measures it and adds the spare rows after the frame).
+    await page.evaluate(`addEventListener('hashchange', () => requestAnimationFrame(() => { window.__firstFrameRows = ${GRID}.rows.length; }), { once: true })`);
+    await railTo(page, '#/family');
+    await page.waitForFunction(`window.__firstFrameRows !== undefined`);
+    const firstFrame = (await page.evaluate('window.__firstFrameRows')) as number;
+    expect(firstFrame).toBeGreaterThan(0);
+    expect(firstFrame).toBeLessThanOrEqual(before.fits + 1);
+    expect(firstFrame).toBeLessThan(before.rows);
+
+    // Then it is back where it was, with its spare rows drawn again.
+    await page.waitForFunction(
+      `(() => { const { frame, rows } = ${GRID}; return frame.scrollTop === ${before.scrollTop} && rows.length === ${before.rows}; })()`,
+      undefined,
+      { timeout: 10_000 },
+    );
+    const after = await gridState(page);
+    expect(after.top).toBe(before.top);
+    expect(errors).toEqual([]);
+  });
+});
