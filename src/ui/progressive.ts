@@ -54,6 +54,15 @@ export class ProgressiveRows implements ReactiveController {
     this.host.requestUpdate();
   }
 
+  hostConnected(): void {
+    // Back on the page after a page switch: drop the rows beyond the first slice before the frame lays the table out
+    // afresh (a table off the page keeps its rows but not their layout), and draw them again a slice per frame.
+    if (this.limit > this.step) {
+      this.limit = this.step;
+      this.host.requestUpdate();
+    }
+  }
+
   hostDisconnected(): void {
     if (this.frame !== 0) cancelAnimationFrame(this.frame);
     this.frame = 0;

@@ -1,14 +1,17 @@
-// A long Family grid across a page switch, in real Chromium: it draws only the rows in view (see row-window.ts), and
-// when the person comes back from another page it draws just the rows in view for the first frame (the switch lays
-// the whole page out afresh), is scrolled back where it was, and gets its spare rows above and below after that frame.
+// Long tables across a page switch, in real Chromium. A page taken off the screen keeps its rows but not their layout,
+// so coming back lays every row it holds out in one frame. The Family grid draws only the rows in view (see
+// row-window.ts): back from another page it draws just those for the first frame, is scrolled back where it was, and
+// gets its spare rows above and below after that frame. A table drawn a slice per frame (see progressive.ts), such as
+// the Build page's lines, draws its first slice again and the rest a slice per frame.
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { serializeBook } from '../../src/io/book-file.ts';
+import { ROWS_PER_FRAME } from '../../src/ui/progressive.ts';
 import { referenceFamily } from '../fixtures/reference-family.ts';
 import { AppUnderTest, pageLoaded, railTo } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
-const book = referenceFamily({ variants: 120, lines: 12 }).book;
+const book = referenceFamily({ variants: 120, lines: 80 }).book;
 
 const app = new AppUnderTest(baseUrl);
 afterEach(() => app.close());
@@ -40,16 +43,30 @@ function gridState(page: Page): Promise<GridState> {
   })()`);
 }
 
-describe('a long Family grid', () => {
+async function openLongFamily(page: Page): Promise<void> {
+  await page.locator('rb-book-menu input[type="file"]').setInputFiles({
+    name: 'long-family.rungbook.json',
+    mimeType: 'application/json',
+    buffer: Buffer.from(serializeBook(book)),
+  });
+  await page.locator('rb-book-menu dialog[open]').getByRole('button', { name: 'Replace with the file' }).click();
+  await page.locator('[data-testid="notice"]', { hasText: 'Opened long-family.rungbook.json' }).waitFor();
+}
+
+/** Counts, in the first animation frame after the next page switch, what `count` (page-side source text) gives. */
+async function countAtFirstFrame(page: Page, count: string): Promise<void> {
+  await page.evaluate(`addEventListener('hashchange', () => requestAnimationFrame(() => { window.__firstFrame = ${count}; }), { once: true })`);
+}
+
+async function firstFrameCount(page: Page): Promise<number> {
+  await page.waitForFunction(`window.__firstFrame !== undefined`);
+  return page.evaluate('window.__firstFrame') as Promise<number>;
+}
+
+describe('long tables across a page switch', () => {
   it('comes back from another page scrolled where it was, drawing only the rows in view for the first frame', async () => {
     const { page, errors } = await app.open('#/family', { ready: '[data-testid="family-table"] tbody tr[aria-rowindex="2"]' });
-    await page.locator('rb-book-menu input[type="file"]').setInputFiles({
-      name: 'long-family.rungbook.json',
-      mimeType: 'application/json',
-      buffer: Buffer.from(serializeBook(book)),
-    });
-    await page.locator('rb-book-menu dialog[open]').getByRole('button', { name: 'Replace with the file' }).click();
-    await page.locator('[data-testid="notice"]', { hasText: 'Opened long-family.rungbook.json' }).waitFor();
+    await openLongFamily(page);
     const codes = [...book.variants].map((v) => v.code);
     await page.locator('[data-testid="family-table"] tbody tr[aria-rowindex] th').first().waitFor();
     const atStart = await gridState(page);
@@ -69,10 +86,9 @@ describe('a long Family grid', () => {
 
     // The first frame after coming back: counted in an animation frame asked for as the page changes, which runs
     // before the grid's own (that measures it and adds the spare rows after the frame).
-    await page.evaluate(`addEventListener('hashchange', () => requestAnimationFrame(() => { window.__firstFrameRows = ${GRID}.rows.length; }), { once: true })`);
+    await countAtFirstFrame(page, `${GRID}.rows.length`);
     await railTo(page, '#/family');
-    await page.waitForFunction(`window.__firstFrameRows !== undefined`);
-    const firstFrame = (await page.evaluate('window.__firstFrameRows')) as number;
+    const firstFrame = await firstFrameCount(page);
     expect(firstFrame).toBeGreaterThan(0);
     expect(firstFrame).toBeLessThanOrEqual(before.fits + 1);
     expect(firstFrame).toBeLessThan(before.rows);
@@ -85,6 +101,26 @@ describe('a long Family grid', () => {
     );
     const after = await gridState(page);
     expect(after.top).toBe(before.top);
+    expect(errors).toEqual([]);
+  });
+
+  it('draws the Build page\'s lines again a slice per frame when the person comes back to it', async () => {
+    const { page, errors } = await app.open('#/family', { ready: '[data-testid="family-table"] tbody tr[aria-rowindex="2"]' });
+    await openLongFamily(page);
+    const LINES = `document.querySelector('rb-app').shadowRoot.querySelector('rb-build-page').shadowRoot.querySelectorAll('[data-testid="build-lines"] tbody tr').length`;
+    await railTo(page, '#/build');
+    await pageLoaded(page, 'Build');
+    await page.waitForFunction(`${LINES} === ${book.buildLines.length}`);
+
+    await railTo(page, '#/parts');
+    await pageLoaded(page, 'Parts');
+    await countAtFirstFrame(page, LINES);
+    await railTo(page, '#/build');
+    const firstFrame = await firstFrameCount(page);
+    expect(firstFrame).toBe(ROWS_PER_FRAME);
+
+    // The rest follow, a slice per frame, and the table is whole again.
+    await page.waitForFunction(`${LINES} === ${book.buildLines.length}`, undefined, { timeout: 10_000 });
     expect(errors).toEqual([]);
   });
 });
