@@ -33,6 +33,15 @@ export function nextTask(): Promise<void> {
 }
 
 /**
+ * A new task after the page's next frame, so work started now is drawn before what follows (where there are no
+ * frames, as in Node, a new task).
+ */
+export function afterNextFrame(): Promise<void> {
+  if (typeof requestAnimationFrame === 'undefined') return nextTask();
+  return new Promise((resolve) => requestAnimationFrame(() => void nextTask().then(resolve)));
+}
+
+/**
  * Runs sliced work a slice at a time: each slice runs until `budgetMs` has passed, then the next one waits for a new
  * task. Stops with an AbortError when `signal` is aborted between slices.
  */

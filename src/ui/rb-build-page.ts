@@ -21,6 +21,7 @@ import type { NameHint } from './rb-formula-input.ts';
 import { pageStyles, previewStyles, toolbarSearchStyles } from './styles.ts';
 import './rb-formula-input.ts';
 import { ProgressiveRows, ROWS_PER_FRAME } from './progressive.ts';
+import { afterNextFrame } from '../domain/slices.ts';
 import { DIRECTIONS, UndoStack, stepChange } from './undo.ts';
 import type { Direction, RecordChange } from './undo.ts';
 
@@ -269,8 +270,19 @@ export class RbBuildPage extends LitElement {
     // lines and variants) the lines' standing is as it was, and is not counted again.
     const earlier = this.familyBook;
     if (costing.version !== this.familyVersion || !earlier || earlier.variants !== book.variants || !sameLineIds(book.buildLines, earlier.buildLines)) {
-      this.family = costing.resolution();
-      this.summaries = steadySummaries(this.summaries, lineSummaries(book, this.family));
+      const family = costing.resolution();
+      this.family = family;
+      if (this.summaries.size > 0 || book.buildLines.length === 0) this.summaries = steadySummaries(this.summaries, lineSummaries(book, family));
+      else {
+        // The page's first drawing: its lines show at once, and their standing across the variants (a pass over
+        // every variant's lines, 10 ms or more the first time on a large family) is counted after that frame.
+        const version = costing.version;
+        void afterNextFrame().then(() => {
+          if (this.familyBook !== book || this.familyVersion !== version || this.summaries.size > 0) return;
+          this.summaries = lineSummaries(book, family);
+          this.requestUpdate();
+        });
+      }
     }
     this.familyVersion = costing.version;
     this.familyBook = book;
@@ -412,6 +424,8 @@ export class RbBuildPage extends LitElement {
           ? html`<span class="muted" role="status">saving…</span>`
           : bad.length
           ? html`<span class="bad">fails for ${bad.join(', ')}: ${summary!.problem}</span>`
+          : summary === undefined
+          ? html`<span class="muted">being counted…</span>`
           : html`<span class="ok" title="fitted on ${applying} of ${tried} variants">${applying} of ${tried}</span>`}
       </td>
       <td class="acts">

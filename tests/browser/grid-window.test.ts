@@ -2,7 +2,8 @@
 // so coming back lays every row it holds out in one frame. The Family grid draws only the rows in view (see
 // row-window.ts): back from another page it draws just those for the first frame, is scrolled back where it was, and
 // gets its spare rows above and below after that frame. A table drawn a slice per frame (see progressive.ts), such as
-// the Build page's lines, draws its first slice again and the rest a slice per frame.
+// the Build page's lines, draws its first slice again and the rest a slice per frame; on the first visit, the lines'
+// standing across the variants is counted after the first frame.
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { serializeBook } from '../../src/io/book-file.ts';
@@ -108,9 +109,19 @@ describe('long tables across a page switch', () => {
     const { page, errors } = await app.open('#/family', { ready: '[data-testid="family-table"] tbody tr[aria-rowindex="2"]' });
     await openLongFamily(page);
     const LINES = `document.querySelector('rb-app').shadowRoot.querySelector('rb-build-page').shadowRoot.querySelectorAll('[data-testid="build-lines"] tbody tr').length`;
+    // The first visit draws the lines at once and counts their standing across the variants after that frame.
+    const STATUS = `[...document.querySelector('rb-app').shadowRoot.querySelector('rb-build-page').shadowRoot.querySelectorAll('[data-testid="line-status"]')].map((td) => td.textContent.trim())`;
+    await countAtFirstFrame(page, `${STATUS}.filter((t) => t === 'being counted…').length`);
     await railTo(page, '#/build');
+    expect(await firstFrameCount(page)).toBe(ROWS_PER_FRAME);
     await pageLoaded(page, 'Build');
     await page.waitForFunction(`${LINES} === ${book.buildLines.length}`);
+    await page.waitForFunction((variants) => {
+      const build = document.querySelector('rb-app')!.shadowRoot!.querySelector('rb-build-page')!.shadowRoot!;
+      const shown = [...build.querySelectorAll('[data-testid="line-status"]')].map((td) => td.textContent!.trim());
+      return shown.every((t) => new RegExp(`^\\d+ of ${variants}$`).test(t) || t.startsWith('fails for'));
+    }, book.variants.length);
+    await page.evaluate('delete window.__firstFrame');
 
     await railTo(page, '#/parts');
     await pageLoaded(page, 'Parts');
