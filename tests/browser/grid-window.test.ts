@@ -59,8 +59,20 @@ async function countAtFirstFrame(page: Page, count: string): Promise<void> {
   await page.evaluate(`addEventListener('hashchange', () => requestAnimationFrame(() => { window.__firstFrame = ${count}; }), { once: true })`);
 }
 
+/**
+ * Waits until the page-side expression `test` is true. Asked from here every 50 ms: the driver's own waiting
+ * compiles a text expression inside the page, which the app's content security policy refuses.
+ */
+async function until(page: Page, test: string, timeout = 30_000): Promise<void> {
+  const end = Date.now() + timeout;
+  while (!(await page.evaluate(test))) {
+    if (Date.now() > end) throw new Error(`not true within ${timeout} ms: ${test}`);
+    await new Promise((r) => setTimeout(r, 50));
+  }
+}
+
 async function firstFrameCount(page: Page): Promise<number> {
-  await page.waitForFunction(`window.__firstFrame !== undefined`);
+  await until(page, `window.__firstFrame !== undefined`);
   return page.evaluate('window.__firstFrame') as Promise<number>;
 }
 
@@ -74,7 +86,7 @@ describe('long tables across a page switch', () => {
 
     // Scrolled to the middle of the family: far fewer rows are drawn than the family has.
     await page.evaluate(`(() => { const { frame, rows } = ${GRID}; frame.scrollTop = rows[0].getBoundingClientRect().height * 60; })()`);
-    await page.waitForFunction(`(() => { const { rows } = ${GRID}; return rows.some((tr) => Number(tr.getAttribute('aria-rowindex')) === 62); })()`);
+    await until(page, `(() => { const { rows } = ${GRID}; return rows.some((tr) => Number(tr.getAttribute('aria-rowindex')) === 62); })()`);
     await page.waitForTimeout(200);
     const before = await gridState(page);
     expect(before.rows).toBeLessThan(book.variants.length / 2);
@@ -95,11 +107,7 @@ describe('long tables across a page switch', () => {
     expect(firstFrame).toBeLessThan(before.rows);
 
     // Then it is back where it was, with its spare rows drawn again.
-    await page.waitForFunction(
-      `(() => { const { frame, rows } = ${GRID}; return frame.scrollTop === ${before.scrollTop} && rows.length === ${before.rows}; })()`,
-      undefined,
-      { timeout: 10_000 },
-    );
+    await until(page, `(() => { const { frame, rows } = ${GRID}; return frame.scrollTop === ${before.scrollTop} && rows.length === ${before.rows}; })()`);
     const after = await gridState(page);
     expect(after.top).toBe(before.top);
     expect(errors).toEqual([]);
@@ -109,13 +117,15 @@ describe('long tables across a page switch', () => {
     const { page, errors } = await app.open('#/family', { ready: '[data-testid="family-table"] tbody tr[aria-rowindex="2"]' });
     await openLongFamily(page);
     const LINES = `document.querySelector('rb-app').shadowRoot.querySelector('rb-build-page').shadowRoot.querySelectorAll('[data-testid="build-lines"] tbody tr').length`;
-    // The first visit draws the lines at once and counts their standing across the variants after that frame.
+    // The first visit draws the lines at once and counts their standing across the variants after that frame (the
+    // page's code is loaded ahead while the Family page is idle: the page is then made in the task of the switch).
+    await until(page, `customElements.get('rb-build-page') !== undefined`);
     const STATUS = `[...document.querySelector('rb-app').shadowRoot.querySelector('rb-build-page').shadowRoot.querySelectorAll('[data-testid="line-status"]')].map((td) => td.textContent.trim())`;
     await countAtFirstFrame(page, `${STATUS}.filter((t) => t === 'being counted…').length`);
     await railTo(page, '#/build');
     expect(await firstFrameCount(page)).toBe(ROWS_PER_FRAME);
     await pageLoaded(page, 'Build');
-    await page.waitForFunction(`${LINES} === ${book.buildLines.length}`);
+    await until(page, `${LINES} === ${book.buildLines.length}`);
     await page.waitForFunction((variants) => {
       const build = document.querySelector('rb-app')!.shadowRoot!.querySelector('rb-build-page')!.shadowRoot!;
       const shown = [...build.querySelectorAll('[data-testid="line-status"]')].map((td) => td.textContent!.trim());
@@ -131,7 +141,7 @@ describe('long tables across a page switch', () => {
     expect(firstFrame).toBe(ROWS_PER_FRAME);
 
     // The rest follow, a slice per frame, and the table is whole again.
-    await page.waitForFunction(`${LINES} === ${book.buildLines.length}`, undefined, { timeout: 10_000 });
+    await until(page, `${LINES} === ${book.buildLines.length}`);
     expect(errors).toEqual([]);
   });
 });
