@@ -268,8 +268,11 @@ export class RbFamilyPage extends LitElement {
     return this.columnCache;
   }
 
-  /** A variant's code, name and parameter cells; kept while the variant record and the columns are the same. */
-  private paramCells(v: Variant, used: string[], colSig: string): GridCell[] {
+  /**
+   * A variant's code, name and parameter cells; kept while the variant record and the columns are the same (`keep`
+   * false for a record that is not the stored variant, such as an edit being saved).
+   */
+  private paramCells(v: Variant, used: string[], colSig: string, keep = true): GridCell[] {
     const cached = this.paramCache.get(v.id);
     if (cached && cached.variant === v && cached.colSig === colSig) return cached.cells;
     const cells: GridCell[] = [
@@ -281,7 +284,7 @@ export class RbFamilyPage extends LitElement {
       const edit = paramText(n, p);
       cells.push({ text: shown(n, p), edit, copy: typeof p === 'string' ? guardText(p) : edit });
     }
-    this.paramCache.set(v.id, { variant: v, colSig, cells });
+    if (keep) this.paramCache.set(v.id, { variant: v, colSig, cells });
     return cells;
   }
 
@@ -290,9 +293,7 @@ export class RbFamilyPage extends LitElement {
     const edited = this.saving.get(v.id);
     if (!edited) return this.paramCells(v, used, colSig);
     const stored = this.paramCells(v, used, colSig);
-    const cells = this.paramCells(edited, used, colSig);
-    // The edited record's cells must not stay cached as the stored variant's.
-    this.paramCache.delete(v.id);
+    const cells = this.paramCells(edited, used, colSig, false);
     return cells.map((c, i) => (c.text === stored[i]?.text ? c : { ...c, tone: 'saving', title: 'saving…' }));
   }
 
