@@ -523,14 +523,20 @@ function changeShapeProblem(change: BookChange): string | undefined {
   return undefined;
 }
 
+/** Names of this origin's databases, or undefined where the browser cannot list them (or fails to). */
+export async function databaseNames(factory: IDBFactory | undefined = globalThis.indexedDB): Promise<Set<string> | undefined> {
+  if (!factory || typeof factory.databases !== 'function') return undefined;
+  try {
+    return new Set((await factory.databases()).map((d) => d.name).filter((n): n is string => typeof n === 'string'));
+  } catch {
+    return undefined;
+  }
+}
+
 /** Names of Book databases in this browser, where the browser can list them (undefined where it cannot). */
 export async function listBooks(factory: IDBFactory | undefined = globalThis.indexedDB): Promise<string[] | undefined> {
-  if (!factory || typeof factory.databases !== 'function') return undefined;
-  const all = await factory.databases();
-  return all
-    .map((d) => d.name)
-    .filter((n): n is string => typeof n === 'string' && (n === DEFAULT_BOOK_DB || n.startsWith(`${DEFAULT_BOOK_DB}-`)))
-    .sort();
+  const names = await databaseNames(factory);
+  return names && [...names].filter((n) => n === DEFAULT_BOOK_DB || n.startsWith(`${DEFAULT_BOOK_DB}-`)).sort();
 }
 
 /** Deletes a Book database. Open connections in other tabs are asked to close (they see onVersionChange). */

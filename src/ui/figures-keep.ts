@@ -13,6 +13,7 @@ import type { DBSchema } from 'idb';
 import type { Book } from '../domain/book.ts';
 import { costingDateOf } from '../domain/costing.ts';
 import type { FiguresUpdate } from '../engine/figures-kinds.ts';
+import { databaseNames } from '../store/idb-store.ts';
 
 /** Its own database, named so it is never listed as a Book (Book databases are `rungbook` and `rungbook-…`). */
 export const KEPT_FIGURES_DB = 'kept-figures.rungbook';
@@ -159,16 +160,6 @@ export async function keptFiguresOf(kept: ShippedFigures | KeptFigures | undefin
   if ('update' in kept) return kept.update;
   try {
     return fromKeptJson(kept.json).update;
-  } catch {
-    return undefined;
-  }
-}
-
-/** Names of this origin's databases, or undefined where the browser cannot list them (or fails to). */
-export async function databaseNames(factory: IDBFactory | undefined = globalThis.indexedDB): Promise<Set<string> | undefined> {
-  if (!factory || typeof factory.databases !== 'function') return undefined;
-  try {
-    return new Set((await factory.databases()).map((d) => d.name).filter((n): n is string => typeof n === 'string'));
   } catch {
     return undefined;
   }

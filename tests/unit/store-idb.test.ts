@@ -68,6 +68,16 @@ describe('round trip', () => {
     await deleteBook('rungbook-b', factory);
     expect(await listBooks(factory)).toEqual(['rungbook-a']);
   });
+
+  it('lists no Books, without failing, where the browser cannot list its databases or fails to', async () => {
+    const failing = new IDBFactory();
+    failing.databases = () => Promise.reject(new DOMException('listing refused', 'UnknownError'));
+    await expect(listBooks(failing)).resolves.toBeUndefined();
+    // A browser without databases() (older engines).
+    const without = new IDBFactory();
+    Object.defineProperty(without, 'databases', { value: undefined });
+    await expect(listBooks(without)).resolves.toBeUndefined();
+  });
 });
 
 describe('apply', () => {
