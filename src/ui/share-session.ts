@@ -43,16 +43,25 @@ export function checkShareDraft(d: ShareDraft): { ok: true; target: ShareTarget 
 const SESSION_KEY = 'rungbook-sharing';
 const rememberKey = (bookName: string) => `rungbook-sharing:${bookName}`;
 
-/** Reads a kept draft back: anything that is not one (edited by hand, an older form) counts as nothing kept. */
-function readDraft(text: string | null): ShareDraft | undefined {
+/** Stored text read as an object's fields, or undefined when it is missing or not the JSON of an object. */
+function readStored(text: string | null): Partial<Record<string, unknown>> | undefined {
   if (text === null) return undefined;
   try {
-    const v = JSON.parse(text) as Partial<Record<keyof ShareDraft, unknown>>;
-    const d = { server: v.server, book: v.book, user: v.user, password: v.password ?? '' };
-    return Object.values(d).every((x) => typeof x === 'string') ? (d as ShareDraft) : undefined;
+    const v: unknown = JSON.parse(text);
+    return typeof v === 'object' && v !== null ? (v as Partial<Record<string, unknown>>) : undefined;
   } catch {
     return undefined;
   }
+}
+
+/**
+ * A kept draft read back from stored fields (the password may be left out): anything that is not one (edited by hand,
+ * an older form) counts as nothing kept.
+ */
+function draftOf(v: Partial<Record<string, unknown>> | undefined): ShareDraft | undefined {
+  if (!v) return undefined;
+  const d = { server: v['server'], book: v['book'], user: v['user'], password: v['password'] ?? '' };
+  return Object.values(d).every((x) => typeof x === 'string') ? (d as ShareDraft) : undefined;
 }
 
 function storage(kind: 'session' | 'local'): Storage | undefined {
@@ -65,7 +74,7 @@ function storage(kind: 'session' | 'local'): Storage | undefined {
 
 /** The sharing this tab had for the Book when it was last loaded, password and all, or undefined. */
 export function sessionShare(bookName: string): ShareTarget | undefined {
-  const kept = readDraft(storage('session')?.getItem(SESSION_KEY) ?? null);
+  const kept = draftOf(readStored(storage('session')?.getItem(SESSION_KEY) ?? null));
   const remembered = rememberedShare(bookName);
   // Kept for another Book of this browser (the Book was replaced since): not this Book's sharing.
   if (!kept || !remembered || kept.server !== remembered.server || kept.book !== remembered.book || kept.user !== remembered.user) return undefined;
@@ -83,10 +92,10 @@ export interface RememberedShare {
 
 /** The server, shared Book, user and role the Book was last shared with in this browser, or undefined. */
 export function rememberedShare(bookName: string): RememberedShare | undefined {
-  const text = storage('local')?.getItem(rememberKey(bookName)) ?? null;
-  const kept = readDraft(text);
+  const stored = readStored(storage('local')?.getItem(rememberKey(bookName)) ?? null);
+  const kept = draftOf(stored);
   if (!kept) return undefined;
-  const role = (JSON.parse(text!) as { role?: unknown }).role;
+  const role = stored?.['role'];
   if (role !== 'owner' && role !== 'editor' && role !== 'reader') return undefined;
   const checked = checkShareDraft({ ...kept, password: '-' });
   return checked.ok ? { server: checked.target.server, book: checked.target.book, user: checked.target.user, role } : undefined;
