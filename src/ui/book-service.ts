@@ -62,8 +62,16 @@ const MERGE_TRIES = 4;
 /** Records a save may put or delete and still be applied ahead in memory while it is written (see `proposed`). */
 const PROPOSE_MAX = 200;
 
-/** Records a change may name before the message telling other tabs goes in a task of its own. */
+/**
+ * Records a change may name before the work that copies their ids (taking the saved change in, the message telling
+ * other tabs) goes in a task of its own.
+ */
 const TELL_LATER = 10_000;
+
+/** Whether a change names more records than TELL_LATER. */
+function namesMany(records: RecordIds | undefined): boolean {
+  return Object.values(records?.collections ?? {}).reduce((sum, ids) => sum + ids.length, 0) > TELL_LATER;
+}
 
 type AnyRecord = { id: string; rev: number } & Record<string, unknown>;
 
@@ -220,7 +228,7 @@ export class BookService extends EventTarget {
         // So is the bookkeeping: naming the change's records and noting the revisions this tab wrote.
         const records = await runInSlices(recordIdsSteps(written));
         // A large change's copy is taken in a task of its own, not on top of the slices before and after it.
-        const large = Object.values(records.collections).reduce((sum, ids) => sum + ids.length, 0) > TELL_LATER;
+        const large = namesMany(records);
         if (large) await nextTask();
         // The store accepted the change, so a mismatch here means memory fell behind (another tab, whose own message
         // is on its way): the change's records are read back as stored.
@@ -539,10 +547,9 @@ export class BookService extends EventTarget {
 
   private tellOtherTabs(kind: TabMessage['kind'], records: RecordIds | undefined): void {
     const message: TabMessage = kind === 'changed' && records ? { kind, from: this.tabId, records } : { kind, from: this.tabId };
-    const named = Object.values(records?.collections ?? {}).reduce((sum, ids) => sum + ids.length, 0);
     // Copying the ids of a large import into the message takes tens of ms: in a task of its own, not on top of the
     // pages drawing the saved Book.
-    if (named <= TELL_LATER) {
+    if (!namesMany(records)) {
       this.channel?.postMessage(message);
       return;
     }
