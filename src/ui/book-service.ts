@@ -13,7 +13,7 @@ import type { FieldConflict, FieldPath } from '../domain/merge.ts';
 import { columnLetters } from '../engine/cells.ts';
 import { parseBookFile } from '../io/book-file.ts';
 import type { BookFileResult } from '../io/book-file.ts';
-import { openBookStore } from '../store/idb-store.ts';
+import { asStored, openBookStore } from '../store/idb-store.ts';
 import { requestPersistence, storageEstimate } from '../store/storage.ts';
 import type { BookChange, BookStore, StorageEstimate } from '../store/types.ts';
 import { RevisionConflict, StorageFull, StoredRecordsInvalid, StoreWriteFailed } from '../store/types.ts';
@@ -97,6 +97,11 @@ interface TabMessage {
   records?: RecordIds;
 }
 
+export interface OpenOptions {
+  /** On a first start: show the demo Book at once and write it once this settles (the app passes its first view). */
+  writeStarterAfter?: Promise<unknown>;
+}
+
 /** What one queued write did: a merge notice, and the records to name to other tabs. */
 type WriteDone = { merged?: string; records?: RecordIds };
 
@@ -112,6 +117,8 @@ export class BookService extends EventTarget {
   status: SaveStatus = { state: SAVE_STATES.saved };
   /** This opening found no Book and wrote the demo Book: the first start in this browser. */
   startedFresh = false;
+  /** Why this tab saves nothing: the demo Book of its first start could not be stored (see `storeStarter`). */
+  unstored: string | undefined;
   storage: StorageEstimate | undefined;
   blocked: Blocked | undefined;
   /**
@@ -170,24 +177,57 @@ export class BookService extends EventTarget {
 
   /**
    * Opens (or creates) the Book database. On the very first start the demo Book is loaded, with the built-in
-   * checks from sheets/ when they are available.
+   * checks from sheets/ when they are available: written before the service is given, or, with `writeStarterAfter`,
+   * shown at once and written once that promise settles (see `storeStarter`).
    */
-  static async open(dbName: string = DEFAULT_DB_NAME): Promise<BookService> {
+  static async open(dbName: string = DEFAULT_DB_NAME, options: OpenOptions = {}): Promise<BookService> {
     let service: BookService | undefined;
     const store = await openBookStore(dbName, {
       onVersionChange: () => service?.onVersionChange(),
     });
     let book = await store.load();
     const fresh = isFirstStart(book);
-    if (fresh) {
-      // The Book as the store now holds it, without reading and checking it all back (the first view waits on this).
-      book = await store.replaceAll(starterBook());
-    }
+    const starter = fresh ? starterBook() : undefined;
+    // The Book as the store holds it once written, without reading and checking it all back.
+    if (starter) book = options.writeStarterAfter ? asStored(starter) : await store.replaceAll(starter);
     service = new BookService(store, book);
     service.startedFresh = fresh;
+    if (starter && options.writeStarterAfter) service.storeStarter(starter, options.writeStarterAfter);
     service.listenToOtherTabs();
     void service.askForPersistence();
     return service;
+  }
+
+  /**
+   * Writes the demo Book of a first start once `after` settles, ahead of every save (they queue behind it). The app
+   * shows the demo Book first: writing it took the first view 80–180 ms on a 2-core machine. When the store holds a
+   * Book by then (another tab's first start, or a Book opened there), that Book is taken in and nothing is written.
+   * A failed write stops the tab saving: a save would store its records into a Book that is not there.
+   */
+  private storeStarter(starter: Book, after: Promise<unknown>): void {
+    // Until it is stored the Book is not saved, and says so.
+    this.inFlight += 1;
+    this.status = { state: SAVE_STATES.saving };
+    this.writes = this.writes
+      .then(() => after)
+      .then(async () => {
+        const stored = await this.store.load();
+        if (isFirstStart(stored)) {
+          await this.store.replaceAll(starter);
+        } else {
+          this.adopt(stored);
+          this.forgetReplaced();
+          this.emit('book');
+        }
+        this.inFlight -= 1;
+        if (this.inFlight === 0) this.status = { state: SAVE_STATES.saved, at: new Date() };
+      })
+      .catch((e: unknown) => {
+        this.inFlight -= 1;
+        this.unstored = `Not saved: the demo Book could not be stored in this browser, so this tab keeps no change until it is reloaded. ${describeWriteError(e)}`;
+        this.status = { state: SAVE_STATES.failed, reason: this.unstored, conflict: false };
+      })
+      .finally(() => this.emit('status'));
   }
 
   /**
@@ -485,6 +525,12 @@ export class BookService extends EventTarget {
     this.status = { ...this.status, state: SAVE_STATES.saving };
     this.emit('status');
     const run = this.writes.then(async (): Promise<SaveResult> => {
+      if (this.unstored) {
+        this.inFlight -= 1;
+        this.status = { state: SAVE_STATES.failed, reason: this.unstored, conflict: false };
+        this.emit('status');
+        return { ok: false, message: this.unstored, conflict: false };
+      }
       try {
         const { merged, records } = (await write()) ?? {};
         this.inFlight -= 1;

@@ -169,16 +169,17 @@ export async function keptFiguresOf(kept: ShippedFigures | KeptFigures | undefin
 export interface StartFigures {
   /** What is kept for the Book (read only if its database exists). */
   kept: Promise<KeptFigures | undefined>;
-  /** What the build ships for the demo Book: asked for at once on a likely first start, else when nothing is kept. */
+  /** What the build ships for the demo Book: asked for when nothing is kept, read on a first start. */
   shipped: Promise<ShippedFigures | undefined>;
-  /** A guess that one of them will be shown (figures kept, or a first start), for starting the worker later. */
+  /** Whether one of them will likely be shown (figures kept, or a first start), for starting the worker later. */
   likely: Promise<boolean>;
 }
 
 /**
- * Asks for the figures a start may show, and opens the Book (`openBook`, called once the databases are listed:
- * opening creates the Book's database on a first start). A first start is told by the Book's database missing;
- * there the shipped figures are fetched at once, and the kept figures' database is not created just to be read.
+ * Asks for the figures a start may show, and opens the Book (`openBook`) at the same time. The kept figures' database
+ * is read only if the list of databases names it, so it is not created just to be read; the shipped figures are
+ * fetched when nothing is kept, and read only if the Book started fresh. The list is taken beside the opening, which
+ * creates the Book's database on a first start, so a first start is told by the opening, never by the list.
  */
 export async function startFigures<T extends { startedFresh: boolean }>(
   bookDb: string,
@@ -187,13 +188,12 @@ export async function startFigures<T extends { startedFresh: boolean }>(
   factory: IDBFactory | undefined = globalThis.indexedDB,
   dbName: string = KEPT_FIGURES_DB,
 ): Promise<{ figures: StartFigures; opening: Promise<T> }> {
-  const names = await databaseNames(factory);
-  const firstStart = names !== undefined && !names.has(bookDb);
-  const kept = names !== undefined && !names.has(dbName) ? Promise.resolve(undefined) : readKeptFigures(bookDb, dbName);
+  const names = databaseNames(factory);
   const opening = openBook();
   const fresh = opening.then((b) => b.startedFresh, () => false);
-  const shipped = firstStart ? fetchShippedFigures(shippedUrl, fresh) : kept.then((k) => (k ? undefined : fetchShippedFigures(shippedUrl, fresh)));
-  const likely = firstStart ? Promise.resolve(true) : kept.then((k) => k !== undefined);
+  const kept = names.then((n) => (n !== undefined && !n.has(dbName) ? undefined : readKeptFigures(bookDb, dbName)));
+  const shipped = kept.then((k) => (k ? undefined : fetchShippedFigures(shippedUrl, fresh)));
+  const likely = kept.then((k) => k !== undefined || fresh);
   return { figures: { kept, shipped, likely }, opening };
 }
 

@@ -27,6 +27,12 @@ type Phase =
   | { kind: 'open'; service: BookService }
   | { kind: 'failed'; message: string; /** Set when the stored Book does not read: its records, to save and repair. */ stored?: StoredBookInvalid };
 
+/**
+ * On a first start, how long the demo Book waits to be written when no page shows figures (the start page): soon, so
+ * a tab closed in the first seconds has stored it all the same.
+ */
+const STARTER_WRITE_FALLBACK_MS = 1_000;
+
 /** The notebook page's code, loaded when a notebook page is first shown. */
 let notebookCode: Promise<unknown> | undefined;
 
@@ -270,7 +276,9 @@ export class RbApp extends LitElement {
       // On a first start, which writes the demo Book, the build ships its figures: fetched while the demo Book is
       // written. When either will likely be shown, the figures worker (a second of CPU to load and compile its
       // engine) starts after the first view; otherwise it loads and warms up while the Book is read.
-      const openBook = (): Promise<BookService> => BookService.open(DEFAULT_DB_NAME);
+      // A first start shows the demo Book at once and writes it after the first view (or a second without one).
+      const firstViewDone = new Promise<void>((resolve) => afterFiguresShown(resolve, STARTER_WRITE_FALLBACK_MS));
+      const openBook = (): Promise<BookService> => BookService.open(DEFAULT_DB_NAME, { writeStarterAfter: firstViewDone });
       const start =
         ENGINE_BUILD === undefined ? undefined : await startFigures(DEFAULT_DB_NAME, `${import.meta.env.BASE_URL}${SHIPPED_FIGURES_FILE}`, openBook);
       const opening = start?.opening ?? openBook();

@@ -1,8 +1,10 @@
 // The app's Book service over fake-indexeddb: the demo Book with its built-in checks on first start only, saves
 // that keep memory and storage in step, refused stale saves that change nothing, and edits seen by another tab.
 import 'fake-indexeddb/auto';
-import { afterEach, describe, expect, it } from 'vitest';
-import type { Part } from '../../src/domain/book.ts';
+import { afterEach, describe, expect, it, vi } from 'vitest';
+import type { Book, Part } from '../../src/domain/book.ts';
+import { IdbBookStore, openBookStore } from '../../src/store/idb-store.ts';
+import { StorageFull } from '../../src/store/types.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { BookService, isFirstStart } from '../../src/ui/book-service.ts';
 import { emptyBook } from '../../src/domain/book.ts';
@@ -193,5 +195,74 @@ describe('Book service', () => {
     expect(r.ok).toBe(true);
     expect(s.editsSinceExport).toBe(0);
     expect(s.book.settings.lastExportAt).toBe('2026-03-20T12:00:00.000Z');
+  });
+});
+
+describe('a first start that shows the demo Book before writing it', () => {
+  /** A first start in a new database whose demo Book is written when `write()` is called. */
+  async function openDeferred(name = `rungbook-ui-${++dbCount}`): Promise<{ s: BookService; write: () => void; name: string }> {
+    let write!: () => void;
+    const s = await BookService.open(name, { writeStarterAfter: new Promise<void>((r) => (write = r)) });
+    opened.push(s);
+    return { s, write, name };
+  }
+  async function storedBook(name: string): Promise<Book> {
+    const store = await openBookStore(name);
+    try {
+      return await store.load();
+    } finally {
+      store.close();
+    }
+  }
+
+  it('holds the demo Book at once, writes it only when told, and then stores the very Book it held', async () => {
+    const { s, write, name } = await openDeferred();
+    expect(s.startedFresh).toBe(true);
+    expect(s.book.variants.map((v) => v.code).sort()).toEqual(demoBook().variants.map((v) => v.code).sort());
+    expect(isFirstStart(await storedBook(name))).toBe(true);
+    expect(s.status.state).toBe('saving');
+    const stored = nextChange(s, 'status');
+    write();
+    await stored;
+    expect(s.status.state).toBe('saved');
+    expect(s.editsSinceExport).toBe(0);
+    // A save queues behind the demo Book's write, so once it is done both are stored.
+    expect(await s.save({ settings: { ...s.book.settings, bookName: 'Renamed' } })).toEqual({ ok: true });
+    const again = await open(name);
+    expect(again.startedFresh).toBe(false);
+    expect(again.book).toStrictEqual(s.book);
+    expect(again.book.settings.bookName).toBe('Renamed');
+    expect(s.editsSinceExport).toBe(1);
+  });
+
+  it('takes in a Book another tab stored meanwhile instead of writing the demo over it', async () => {
+    const { s, write, name } = await openDeferred();
+    const other = await open(name);
+    expect(other.startedFresh).toBe(true);
+    expect((await other.save({ put: { parts: [part('part_other', 'ZZ-2')] } })).ok).toBe(true);
+    const taken = nextChange(s, 'book');
+    write();
+    await taken;
+    expect(s.book.parts.find((p) => p.id === 'part_other')?.mpn).toBe('ZZ-2');
+    expect((await storedBook(name)).parts.find((p) => p.id === 'part_other')?.mpn).toBe('ZZ-2');
+  });
+
+  it('says so when the demo Book cannot be stored, and then refuses every save, storing nothing', async () => {
+    const full = vi.spyOn(IdbBookStore.prototype, 'replaceAll').mockRejectedValueOnce(new StorageFull());
+    try {
+      const { s, write, name } = await openDeferred();
+      const edit = s.save({ put: { parts: [part('part_new', 'ZZ-1')] } });
+      write();
+      const r = await edit;
+      expect(r.ok).toBe(false);
+      if (r.ok) return;
+      expect(r.message).toMatch(/^Not saved: the demo Book could not be stored in this browser, so this tab keeps no change until it is reloaded\. The browser has no more storage/);
+      expect(s.status.state).toBe('failed');
+      expect(s.status.reason).toBe(r.message);
+      expect((await s.save({ put: { parts: [part('part_two', 'ZZ-3')] } })).ok).toBe(false);
+      expect(isFirstStart(await storedBook(name))).toBe(true);
+    } finally {
+      full.mockRestore();
+    }
   });
 });
