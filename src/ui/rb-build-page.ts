@@ -747,8 +747,11 @@ export class RbBuildPage extends LitElement {
     }
     if (held) this.showSaving(held.id, undefined);
     this.remember(`${held ? 'edit' : 'add'} line ${v.record.designators}`, [held], [v.record.id]);
-    // A new line's form stays open while it saves; an edited line's form closed when its row showed the edit.
-    if (!held) this.editing = undefined;
+    // An edited line's form closed when its row showed the edit, and the row says it is saved: a notice above the
+    // page would move every row down and back as it came and went. A new line's form stays open while it saves,
+    // then closes with a notice: its row may be out of view.
+    if (held) return;
+    this.editing = undefined;
     this.dispatchEvent(
       new CustomEvent<NoticeDetail>('rb-notice', {
         detail: { tone: 'done', title: `Build line ${v.record.designators} saved`, lines: [] },
