@@ -116,22 +116,29 @@ export function keptJson(value: ShippedFigures): string {
   return JSON.stringify(value, (_k, v: unknown) => (typeof v === 'number' && !Number.isFinite(v) ? `${NOT_FINITE}${String(v)}` : v));
 }
 
+/** NOT_FINITE as JSON writes it inside a string: text without it holds no tagged number. */
+const NOT_FINITE_IN_JSON = JSON.stringify(NOT_FINITE).slice(1, -1);
+
 export function fromKeptJson(text: string): ShippedFigures {
+  // Reading back through a reviver takes several times as long, on the way to a first view: only where it is needed.
+  if (!text.includes(NOT_FINITE_IN_JSON)) return JSON.parse(text) as ShippedFigures;
   return JSON.parse(text, (_k, v: unknown) => (typeof v === 'string' && v.startsWith(NOT_FINITE) ? Number(v.slice(NOT_FINITE.length)) : v)) as ShippedFigures;
 }
 
 /**
- * Asks for the figures shipped with this build for the demo Book; the answer is read only if `wanted` (a first
- * start) says so. Undefined when none are shipped, or offline and not stored.
+ * Asks for the figures shipped with this build for the demo Book, given only if `wanted` (a first start) says so.
+ * Undefined when none are shipped, or offline and not stored.
  */
 export async function fetchShippedFigures(url: string, wanted: Promise<boolean>): Promise<ShippedFigures | undefined> {
   try {
     const response = await fetch(url);
-    if (!(await wanted) || !response.ok) {
+    if (!response.ok) {
       void response.body?.cancel().catch(() => undefined);
       return undefined;
     }
-    return fromKeptJson(await response.text());
+    // Read as soon as they come, while the Book is still being opened: they are asked for only when nothing is kept.
+    const figures = fromKeptJson(await response.text());
+    return (await wanted) ? figures : undefined;
   } catch {
     return undefined;
   }

@@ -5,6 +5,7 @@ import { LitElement, css, html, nothing } from 'lit';
 import type { TemplateResult } from 'lit';
 import { customElement, state } from 'lit/decorators.js';
 import { keyed } from 'lit/directives/keyed.js';
+import { afterNextFrame } from '../domain/slices.ts';
 import { BOOK_FILE_EXTENSION } from '../io/book-file.ts';
 import { StoredBookInvalid } from '../store/types.ts';
 import { bookContext } from './book-context.ts';
@@ -26,12 +27,6 @@ type Phase =
   | { kind: 'opening' }
   | { kind: 'open'; service: BookService }
   | { kind: 'failed'; message: string; /** Set when the stored Book does not read: its records, to save and repair. */ stored?: StoredBookInvalid };
-
-/**
- * On a first start, how long the demo Book waits to be written when no page shows figures (the start page): soon, so
- * a tab closed in the first seconds has stored it all the same.
- */
-const STARTER_WRITE_FALLBACK_MS = 1_000;
 
 /** The notebook page's code, loaded when a notebook page is first shown. */
 let notebookCode: Promise<unknown> | undefined;
@@ -276,8 +271,9 @@ export class RbApp extends LitElement {
       // On a first start, which writes the demo Book, the build ships its figures: fetched while the demo Book is
       // written. When either will likely be shown, the figures worker (a second of CPU to load and compile its
       // engine) starts after the first view; otherwise it loads and warms up while the Book is read.
-      // A first start shows the demo Book at once and writes it after the first view (or a second without one).
-      const firstViewDone = new Promise<void>((resolve) => afterFiguresShown(resolve, STARTER_WRITE_FALLBACK_MS));
+      // A first start shows the demo Book at once and writes it once the first page is on screen.
+      let pageShown!: () => void;
+      const firstViewDone = new Promise<void>((resolve) => (pageShown = resolve));
       const openBook = (): Promise<BookService> => BookService.open(DEFAULT_DB_NAME, { writeStarterAfter: firstViewDone });
       const start =
         ENGINE_BUILD === undefined ? undefined : await startFigures(DEFAULT_DB_NAME, `${import.meta.env.BASE_URL}${SHIPPED_FIGURES_FILE}`, openBook);
@@ -305,6 +301,7 @@ export class RbApp extends LitElement {
         this.route = parseRoute(location.hash);
       }
       this.go(this.route);
+      void this.updateComplete.then(afterNextFrame).then(pageShown);
     } catch (e) {
       const detail = e instanceof Error ? e.message : String(e);
       if (e instanceof StoredBookInvalid) {

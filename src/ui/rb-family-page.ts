@@ -49,6 +49,8 @@ function asSaved(step: UndoStep<Variant>, book: Book): UndoStep<Variant> {
   return { ...step, changes };
 }
 
+/** Books with at most this many variants draw the grid with the page (see gridShown). */
+const GRID_WITH_PAGE_MAX = 50;
 const STATUS_KEY = 'checks';
 const costKey = (run: number): string => `cost_${run}`;
 const newVariantId = (): string => newId('var');
@@ -183,6 +185,9 @@ export class RbFamilyPage extends LitElement {
   private replacementSeen = 0;
 
   override willUpdate(): void {
+    // A small Book's grid is drawn with the page: the task after costs a frame of the first view for no gain.
+    const variants = this.books.book?.variants.length;
+    if (!this.gridShown && variants !== undefined && variants <= GRID_WITH_PAGE_MAX) this.gridShown = true;
     const replaced = this.books.service?.replacements ?? 0;
     if (replaced === this.replacementSeen) return;
     // The whole Book was replaced: its variants, their undo steps and an open form belong to a Book that is gone.
@@ -202,6 +207,7 @@ export class RbFamilyPage extends LitElement {
   /**
    * A page made afresh (the app starting on it, a Book just opened) draws its heading first and its grid in the task
    * after: the Book's opening, the page replaced and the first rows of the grid in one task held the page too long.
+   * A Book of at most GRID_WITH_PAGE_MAX variants draws its grid at once.
    */
   @state() private gridShown = false;
   /** Variants edited in the grid and not yet stored, by id: shown at once, marked as saving (see `_onCommit`). */

@@ -298,6 +298,9 @@ describe('the demo Book figures the build ships for a first start', () => {
     expect(Number.isNaN(back.update.costs[0]!.value)).toBe(true);
     expect(back.update.costs[0]!.problem).toBe('no quote');
     expect(back.update.costs[1]!.value).toBe(Infinity);
+    // Read back without the reviver when no figure is tagged: text that only looks like a tag stays text.
+    const plain = { ...update, changed: [], runSizes: [500], costs: [{ variantId: 'v', run: 500, value: 1.5, problem: 'number:NaN' }], variants: [] };
+    expect(fromKeptJson(keptJson({ key: 'k', update: plain })).update).toEqual(plain);
   });
 
   it('are shipped under the file name the app asks for', () => {
