@@ -100,6 +100,8 @@ interface TabMessage {
 export interface OpenOptions {
   /** On a first start: show the demo Book at once and write it once this settles (the app passes its first view). */
   writeStarterAfter?: Promise<unknown>;
+  /** A guess that this is a first start, for making the demo Book while the database opens (see startFigures). */
+  starterLikely?: Promise<boolean> | undefined;
 }
 
 /** What one queued write did: a merge notice, and the records to name to other tabs. */
@@ -182,12 +184,22 @@ export class BookService extends EventTarget {
    */
   static async open(dbName: string = DEFAULT_DB_NAME, options: OpenOptions = {}): Promise<BookService> {
     let service: BookService | undefined;
-    const store = await openBookStore(dbName, {
+    const opening = openBookStore(dbName, {
       onVersionChange: () => service?.onVersionChange(),
     });
+    // On a likely first start the demo Book is made while the database is being opened, a wait with the page idle;
+    // not once the Book has been read (then it is made at once where needed, and the guess no longer matters).
+    let read = false;
+    let made: Book | undefined;
+    options.starterLikely?.then(
+      (likely) => void (likely && !read && (made = starterBook())),
+      () => undefined,
+    );
+    const store = await opening;
     let book = await store.load();
+    read = true;
     const fresh = isFirstStart(book);
-    const starter = fresh ? starterBook() : undefined;
+    const starter = fresh ? (made ?? starterBook()) : undefined;
     // The Book as the store holds it once written, without reading and checking it all back.
     if (starter) book = options.writeStarterAfter ? asStored(starter) : await store.replaceAll(starter);
     service = new BookService(store, book);

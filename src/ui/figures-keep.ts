@@ -183,7 +183,8 @@ export interface StartFigures {
 }
 
 /**
- * Asks for the figures a start may show, and opens the Book (`openBook`) at the same time. The kept figures' database
+ * Asks for the figures a start may show, and opens the Book (`openBook`, told whether the list of databases lacks the
+ * Book's, a likely first start) at the same time. The kept figures' database
  * is read only if the list of databases names it, so it is not created just to be read; the shipped figures are
  * fetched when nothing is kept, and read only if the Book started fresh. The list is taken beside the opening, which
  * creates the Book's database on a first start, so a first start is told by the opening, never by the list.
@@ -191,12 +192,13 @@ export interface StartFigures {
 export async function startFigures<T extends { startedFresh: boolean }>(
   bookDb: string,
   shippedUrl: string,
-  openBook: () => Promise<T>,
+  openBook: (firstStartLikely: Promise<boolean>) => Promise<T>,
   factory: IDBFactory | undefined = globalThis.indexedDB,
   dbName: string = KEPT_FIGURES_DB,
 ): Promise<{ figures: StartFigures; opening: Promise<T> }> {
   const names = databaseNames(factory);
-  const opening = openBook();
+  // Only a guess for the opening to prepare by: the list may be taken after the opening made the Book's database.
+  const opening = openBook(names.then((n) => n !== undefined && !n.has(bookDb)));
   const fresh = opening.then((b) => b.startedFresh, () => false);
   const kept = names.then((n) => (n !== undefined && !n.has(dbName) ? undefined : readKeptFigures(bookDb, dbName)));
   const shipped = kept.then((k) => (k ? undefined : fetchShippedFigures(shippedUrl, fresh)));

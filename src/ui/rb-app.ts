@@ -274,7 +274,7 @@ export class RbApp extends LitElement {
       // A first start shows the demo Book at once and writes it once the first page is on screen.
       let pageShown!: () => void;
       const firstViewDone = new Promise<void>((resolve) => (pageShown = resolve));
-      const openBook = (): Promise<BookService> => BookService.open(DEFAULT_DB_NAME, { writeStarterAfter: firstViewDone });
+      const openBook = (starterLikely?: Promise<boolean>): Promise<BookService> => BookService.open(DEFAULT_DB_NAME, { writeStarterAfter: firstViewDone, starterLikely });
       const start =
         ENGINE_BUILD === undefined ? undefined : await startFigures(DEFAULT_DB_NAME, `${import.meta.env.BASE_URL}${SHIPPED_FIGURES_FILE}`, openBook);
       const opening = start?.opening ?? openBook();

@@ -235,6 +235,19 @@ describe('a first start that shows the demo Book before writing it', () => {
     expect(s.editsSinceExport).toBe(1);
   });
 
+  it('takes the guess of a first start for a guess: a wrong one neither loads the demo Book nor keeps it out', async () => {
+    const name = `rungbook-ui-${++dbCount}`;
+    const missed = await BookService.open(name, { starterLikely: Promise.resolve(false) });
+    opened.push(missed);
+    expect(missed.startedFresh).toBe(true);
+    expect(missed.book.variants.length).toBe(demoBook().variants.length);
+    expect((await missed.replaceBook(missed.empty())).ok).toBe(true);
+    const wrong = await BookService.open(name, { starterLikely: Promise.resolve(true), writeStarterAfter: Promise.resolve() });
+    opened.push(wrong);
+    expect(wrong.startedFresh).toBe(false);
+    expect(wrong.book.variants).toEqual([]);
+  });
+
   it('takes in a Book another tab stored meanwhile instead of writing the demo over it', async () => {
     const { s, write, name } = await openDeferred();
     const other = await open(name);
