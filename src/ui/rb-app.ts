@@ -301,7 +301,8 @@ export class RbApp extends LitElement {
         this.route = parseRoute(location.hash);
       }
       this.go(this.route);
-      void this.updateComplete.then(afterNextFrame).then(pageShown);
+      // Whatever the first drawing did: every save queues behind the demo Book's write.
+      void this.updateComplete.catch(() => undefined).then(afterNextFrame).then(pageShown);
     } catch (e) {
       const detail = e instanceof Error ? e.message : String(e);
       if (e instanceof StoredBookInvalid) {
