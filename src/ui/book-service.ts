@@ -117,7 +117,7 @@ export class BookService extends EventTarget {
     this.held = inVariantOrder(next);
   }
   status: SaveStatus = { state: SAVE_STATES.saved };
-  /** This opening found no Book and wrote the demo Book: the first start in this browser. */
+  /** This opening found no Book and holds the demo Book (written, or to be written: see `storeStarter`): a first start. */
   startedFresh = false;
   /** Why this tab saves nothing: the demo Book of its first start could not be stored (see `storeStarter`). */
   unstored: string | undefined;
@@ -191,10 +191,12 @@ export class BookService extends EventTarget {
     // not once the Book has been read (then it is made at once where needed, and the guess no longer matters).
     let read = false;
     let made: Book | undefined;
-    options.starterLikely?.then(
-      (likely) => void (likely && !read && (made = starterBook())),
-      () => undefined,
-    );
+    // A demo Book that fails to be made here is made again below, where its failure is reported.
+    void options.starterLikely
+      ?.then((likely) => {
+        if (likely && !read) made = starterBook();
+      })
+      .catch(() => undefined);
     const store = await opening;
     let book = await store.load();
     read = true;

@@ -184,10 +184,10 @@ export interface StartFigures {
 
 /**
  * Asks for the figures a start may show, and opens the Book (`openBook`, told whether the list of databases lacks the
- * Book's, a likely first start) at the same time. The kept figures' database
- * is read only if the list of databases names it, so it is not created just to be read; the shipped figures are
- * fetched when nothing is kept, and read only if the Book started fresh. The list is taken beside the opening, which
- * creates the Book's database on a first start, so a first start is told by the opening, never by the list.
+ * Book's, a likely first start) at the same time. The kept figures' database is read only if the list names it, so it
+ * is not created just to be read; the shipped figures are fetched when nothing is kept, and given only if the Book
+ * started fresh. The list is taken beside the opening, which creates the Book's database on a first start, so a
+ * first start is told by the opening, never by the list.
  */
 export async function startFigures<T extends { startedFresh: boolean }>(
   bookDb: string,

@@ -268,10 +268,10 @@ export class RbApp extends LitElement {
       // reported there).
       if (this.route.kind === 'page') this.route.entry.load?.().catch(() => undefined);
       // Figures kept from the last start are read beside the Book, and shown at once if they are of this very Book.
-      // On a first start, which writes the demo Book, the build ships its figures: fetched while the demo Book is
-      // written. When either will likely be shown, the figures worker (a second of CPU to load and compile its
-      // engine) starts after the first view; otherwise it loads and warms up while the Book is read.
-      // A first start shows the demo Book at once and writes it once the first page is on screen.
+      // On a first start, which shows the demo Book, the build ships its figures: fetched while the Book opens. When
+      // either will likely be shown, the figures worker (a second of CPU to load and compile its engine) starts after
+      // the first view; otherwise it loads and warms up while the Book is read. A first start's demo Book is written
+      // once the first page is on screen.
       let pageShown!: () => void;
       const firstViewDone = new Promise<void>((resolve) => (pageShown = resolve));
       const openBook = (starterLikely?: Promise<boolean>): Promise<BookService> => BookService.open(DEFAULT_DB_NAME, { writeStarterAfter: firstViewDone, starterLikely });
