@@ -111,3 +111,42 @@ describe('storage quota reached in Chromium', () => {
     expect(errors).toEqual([]);
   });
 });
+
+describe('a first start whose demo Book cannot be stored', () => {
+  it('shows the demo Book, says it is not stored, refuses every edit, and a reload starts afresh', async () => {
+    const { page, errors } = await app.start();
+    // Only on the address with `?noroom`: storing the demo Book begins by clearing each store (the database's own
+    // creation clears nothing), and that write fails as on a full disk.
+    await page.addInitScript(() => {
+      if (!location.search.includes('noroom')) return;
+      IDBObjectStore.prototype.clear = function clear(): IDBRequest<undefined> {
+        throw new DOMException('The quota has been exceeded.', 'QuotaExceededError');
+      };
+    });
+    await page.goto(`${baseUrl}?noroom#/parts`);
+    await page.locator('[data-testid="parts-table"]').waitFor();
+    expect(await page.locator('[data-testid="parts-table"] tbody tr').count()).toBe(demo.parts.length);
+    const problem = page.locator('[data-testid="save-problem"]');
+    await problem.waitFor();
+    await expect(problem.textContent()).resolves.toMatch(/the demo Book could not be stored in this browser, so this tab keeps no change until it is reloaded\. .*no more storage/);
+    await expect(page.locator('rb-save-state [data-state="failed"]').count()).resolves.toBe(1);
+
+    await page.getByRole('button', { name: 'Add a part' }).click();
+    await page.locator('#f-mpn').fill('ZZ-NOT-KEPT');
+    await page.locator('#f-maker').fill('Invented Test Works');
+    await page.locator('#f-description').fill('refused: the Book is not stored');
+    await page.locator('#f-kind').selectOption('resistor');
+    await page.locator('#f-package').fill('0603');
+    await page.getByRole('button', { name: 'Add the part' }).click();
+    await page.locator('rb-parts-page p.notice[role="alert"]', { hasText: 'the demo Book could not be stored' }).waitFor();
+    expect(await page.locator('[data-testid="parts-table"] tbody tr', { hasText: 'ZZ-NOT-KEPT' }).count()).toBe(0);
+
+    // Nothing was stored: the next start is a first start again, and stores the demo Book.
+    await page.goto(`${baseUrl}#/parts`);
+    await page.locator('[data-testid="parts-table"]').waitFor();
+    await saved(page);
+    expect(await page.locator('[data-testid="parts-table"] tbody tr').count()).toBe(demo.parts.length);
+    expect(await page.locator('[data-testid="parts-table"] tbody tr', { hasText: 'ZZ-NOT-KEPT' }).count()).toBe(0);
+    expect(errors).toEqual([]);
+  });
+});
