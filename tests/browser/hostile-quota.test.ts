@@ -49,6 +49,17 @@ async function failPutsAfter(page: Page, after: number): Promise<void> {
   }, after);
 }
 
+/** Adds a part through the Parts page's form. */
+async function addPart(page: Page, mpn: string, description: string): Promise<void> {
+  await page.getByRole('button', { name: 'Add a part' }).click();
+  await page.locator('#f-mpn').fill(mpn);
+  await page.locator('#f-maker').fill('Invented Test Works');
+  await page.locator('#f-description').fill(description);
+  await page.locator('#f-kind').selectOption('resistor');
+  await page.locator('#f-package').fill('0603');
+  await page.getByRole('button', { name: 'Add the part' }).click();
+}
+
 describe('storage quota reached in Chromium', () => {
   it('refuses a Book file when the quota runs out part way and keeps the Book as it was', async () => {
     const { page, errors } = await app.open('#/parts');
@@ -96,13 +107,7 @@ describe('storage quota reached in Chromium', () => {
 
     // A single new part whose write fails is refused with the same message and is not kept.
     await failPutsAfter(page, 0);
-    await page.getByRole('button', { name: 'Add a part' }).click();
-    await page.locator('#f-mpn').fill('ZZ-NO-ROOM');
-    await page.locator('#f-maker').fill('Invented Test Works');
-    await page.locator('#f-description').fill('refused for want of space');
-    await page.locator('#f-kind').selectOption('resistor');
-    await page.locator('#f-package').fill('0603');
-    await page.getByRole('button', { name: 'Add the part' }).click();
+    await addPart(page, 'ZZ-NO-ROOM', 'refused for want of space');
     await page.locator('[data-testid="save-problem"]', { hasText: 'no more storage space' }).waitFor();
     expect(await page.locator('[data-testid="parts-table"] tbody tr', { hasText: 'ZZ-NO-ROOM' }).count()).toBe(0);
     await page.reload();
@@ -131,13 +136,7 @@ describe('a first start whose demo Book cannot be stored', () => {
     await expect(problem.textContent()).resolves.toMatch(/the demo Book could not be stored in this browser, so this tab keeps no change until it is reloaded\. .*no more storage/);
     await expect(page.locator('rb-save-state [data-state="failed"]').count()).resolves.toBe(1);
 
-    await page.getByRole('button', { name: 'Add a part' }).click();
-    await page.locator('#f-mpn').fill('ZZ-NOT-KEPT');
-    await page.locator('#f-maker').fill('Invented Test Works');
-    await page.locator('#f-description').fill('refused: the Book is not stored');
-    await page.locator('#f-kind').selectOption('resistor');
-    await page.locator('#f-package').fill('0603');
-    await page.getByRole('button', { name: 'Add the part' }).click();
+    await addPart(page, 'ZZ-NOT-KEPT', 'refused: the Book is not stored');
     await page.locator('rb-parts-page p.notice[role="alert"]', { hasText: 'the demo Book could not be stored' }).waitFor();
     expect(await page.locator('[data-testid="parts-table"] tbody tr', { hasText: 'ZZ-NOT-KEPT' }).count()).toBe(0);
 
