@@ -9,8 +9,9 @@
 //   Demand    one cell per distinct (part, pinned supplier, need): =COST_BEST(need, Quotes!A<s>:<e>) → cents.
 //             Variants that need the same quantity of a part share the cell: a few hundred cells, not 48,000.
 //   Blocks    build lines that split the family alike (common to all; by steps; by stage…) are summed once per
-//             distinct choice: =SUM(Demand!A…) → cents. Lines sharing a part always share a block, so a variant's
-//             lines of one part merge into one purchase. A variant then reads a handful of block cells, not 80 lines.
+//             distinct choice: =SUM(Demand!A…) → cents. Lines that may buy one part (their own or an approved
+//             alternate) always share a block, so a variant's lines of one part merge into one purchase. A variant
+//             then reads a handful of block cells, not 80 lines; variants buying the same list share its cell.
 //   Landed    each quote row carries the landed percentages that fall to us on its term, so COST_BEST chooses by
 //             landed cost. Only when some supplier charges an amount per order: Demand gets a second column (the
 //             chosen row's supplier token), Blocks a second column (their tokens), Suppliers one row per supplier
@@ -21,9 +22,11 @@
 //             own (same kernels) and the unit cost becomes =COST_UNIT(material, labour, test, overhead).
 // A quote price edit dirties one Quotes cell, the few Demand cells of that part, their blocks, and only the variants
 // that buy that part. A rate edit dirties the Demand cells in that currency once each, however many variants share
-// them. Validity (superseded, expired, bad breaks) is decided at open: edit those fields and reopen. The Demand key
-// uses the need computed at open, so editing quantities, attrition or rules also means reopening; prices, rates,
-// cost settings and overrides are live. The price is derived on reading: unit cost / (1 − margin).
+// them. Validity (superseded, expired, bad breaks) is decided at open: edit those fields and reopen. Prices, rates,
+// cost settings and overrides are live. A variant whose lines change (a parameter, a quantity, a rule) is costed again
+// in place block by block with the blocks of the open: Demand and Blocks cells are added for needs and lists of them
+// not costed yet, and only the rows whose formulas come out different are set. The price is derived on reading:
+// unit cost / (1 − margin).
 import type { CellValue, ExportedChange, HyperFormula, SimpleCellAddress } from 'hyperformula';
 import type { Book, BuildLine, CurrencyCode, Quote } from '../domain/book.ts';
 import {
@@ -41,6 +44,7 @@ import {
   variantDemands,
 } from '../domain/costing.ts';
 import type { CostedBom, CostingContext, ResolvedLine, Result, SupplyOptions } from '../domain/costing.ts';
+import { approvedParts } from '../domain/alternates.ts';
 import { hasPerOrder, landedRates } from '../domain/landed.ts';
 import { QUOTE_ROW_HEAD } from './costing-functions.ts';
 import { createEngine } from './create.ts';
@@ -112,6 +116,17 @@ function errorText(v: CellValue): string | undefined {
   return undefined;
 }
 
+/** A variant row's placements per unit and, per run size, its cells' formulas. */
+interface RowPlan {
+  placements: number;
+  /** COST_MATERIAL formulas, kept to expand the row for overrides. */
+  material: string[];
+  /** The Variants cells' formulas. */
+  cost: string[];
+  /** The OrderCosts cells' formulas (empty when no supplier charges per order). */
+  order: string[];
+}
+
 /** How the Demand sheet is laid out: the Quotes rows of each part (and part + pinned supplier), and its cells by need. */
 interface DemandLayout {
   span: ReadonlyMap<string, [number, number]>;
@@ -121,6 +136,68 @@ interface DemandLayout {
   index: Map<string, number>;
   /** Adds a Demand row; gives its index. */
   add(row: string[]): number;
+  /** The Blocks cell adding up each list of Demand cells (joined by commas), shared by every variant that buys it. */
+  sums: Map<string, string>;
+  /** Adds a Blocks row; gives its index. */
+  addSum(row: string[]): number;
+}
+
+/**
+ * One cell giving the cost of some Demand cells: the cell itself when there is one, else the Blocks cell that adds
+ * them up (made when no variant bought that list yet); undefined when there are none.
+ */
+function sumRef(cells: readonly string[], layout: DemandLayout): string | undefined {
+  if (cells.length <= 1) return cells[0];
+  const key = cells.join(',');
+  let ref = layout.sums.get(key);
+  if (ref === undefined) {
+    const r = layout.addSum(layout.perOrder ? [`=SUM(${key})`, `=COST_SUPPLIERS(${cells.map(tokenRef).join(',')})`] : [`=SUM(${key})`]);
+    ref = `${SHEETS.blocks}!$A$${r + 1}`;
+    layout.sums.set(key, ref);
+  }
+  return ref;
+}
+
+/**
+ * The parts a resolved line may buy: its own and, for the line's fixed part, the approved alternates costing may
+ * choose instead. Lines that may buy one part are costed in one block, so they merge into one purchase.
+ */
+function partsOf(ctx: CostingContext, l: ResolvedLine): string[] {
+  if (l.partId === undefined) return [];
+  const line = ctx.lines.get(l.lineId);
+  return line && line.partId === l.partId ? approvedParts(line) : [l.partId];
+}
+
+/**
+ * A variant's lines cut into the blocks the workbook was opened with (`blockOf`, by line id), lines of no block
+ * together: blocks that share a part here are joined, so each part is still bought once. Adding up the blocks'
+ * Demand cells gives what buying all the lines at once gives.
+ */
+function blockGroups(ctx: CostingContext, lines: readonly ResolvedLine[], blockOf: ReadonlyMap<string, number>): ResolvedLine[][] {
+  const NO_BLOCK = -1;
+  const parent = new Map<number, number>();
+  const find = (g: number): number => {
+    let r = g;
+    while (parent.has(r)) r = parent.get(r)!;
+    return r;
+  };
+  const partGroup = new Map<string, number>();
+  for (const l of lines) {
+    for (const p of partsOf(ctx, l)) {
+      const g = find(blockOf.get(l.lineId) ?? NO_BLOCK);
+      const other = partGroup.get(p);
+      if (other === undefined) partGroup.set(p, g);
+      else if (find(other) !== g) parent.set(g, find(other));
+    }
+  }
+  const groups = new Map<number, ResolvedLine[]>();
+  for (const l of lines) {
+    const g = find(blockOf.get(l.lineId) ?? NO_BLOCK);
+    const list = groups.get(g);
+    if (list) list.push(l);
+    else groups.set(g, [l]);
+  }
+  return [...groups.values()];
 }
 
 /**
@@ -188,8 +265,11 @@ export class CostingWorkbook {
   private readonly sheet: Record<keyof typeof SHEETS, number>;
   private readonly variantRow = new Map<string, number>();
   private readonly variantAt: string[] = [];
-  /** Per variant row: placements per unit, and per run size the material formula's arguments (or a problem). */
-  private readonly plan: { placements: number; material: string[] }[] = [];
+  /** Per variant row: placements per unit, and per run size its cells' formulas (material kept to expand the row). */
+  private readonly plan: RowPlan[] = [];
+  /** Each build line's block at open (see `blockGroups`). */
+  private blockOf: ReadonlyMap<string, number> = new Map();
+  private blockRowCount = 0;
   private readonly expanded = new Set<number>();
   private readonly quoteRow = new Map<string, { row: number; breaks: number }>();
   private readonly rateRow = new Map<CurrencyCode, number>();
@@ -314,7 +394,8 @@ export class CostingWorkbook {
     for (const q of book.quotes) if (!quotes.has(q.id)) quotes.set(q.id, q);
 
     // Blocks: build lines that split the family the same way (common to all, by steps, by stage…) are costed together,
-    // and lines sharing a part always land in one block so that a variant's lines of one part merge into one purchase.
+    // and lines that may buy one part always land in one block so that a variant's lines of one part merge into one
+    // purchase (an alternate costing may choose counts: see `partsOf`).
     const variants = book.variants;
     const lineIds = [...new Set(variants.flatMap((v) => (resolution.get(v.id) ?? []).map((l) => l.lineId)))];
     const byVariant = variants.map((v) => new Map((resolution.get(v.id) ?? []).map((l) => [l.lineId, l] as const)));
@@ -330,7 +411,7 @@ export class CostingWorkbook {
       for (let i = 0; i < variants.length; i++) {
         const l = byVariant[i]!.get(lineId);
         const k = optionKey(l);
-        if (k !== '-') parts.add(l!.partId!);
+        if (k !== '-') for (const p of partsOf(ctx, l!)) parts.add(p);
         let c = classes.get(k);
         if (c === undefined) classes.set(k, (c = classes.size));
         sig.push(c);
@@ -364,16 +445,21 @@ export class CostingWorkbook {
       if (list) list.push(...ls);
       else blocks.set(root, [...ls]);
     });
+    /** Each line's block, by its place in `blocks`: edits in place cost a variant block by block too. */
+    const blockOf = new Map<string, number>();
+    [...blocks.values()].forEach((ls, b) => ls.forEach((id) => blockOf.set(id, b)));
 
     const demandRows: string[][] = [];
+    const blockRows: string[][] = [];
     const layout: DemandLayout = {
       span,
       lastQuoteCol,
       perOrder,
       index: new Map(),
       add: (row) => demandRows.push(row) - 1,
+      sums: new Map(),
+      addSum: (row) => blockRows.push(row) - 1,
     };
-    const blockRows: string[][] = [];
     /** Per variant, per run size: block cells to add up, and the first problem. */
     const refs: string[][][] = variants.map(() => runSizes.map(() => []));
     const missing: (string | undefined)[][] = variants.map(() => runSizes.map(() => undefined));
@@ -391,12 +477,7 @@ export class CostingWorkbook {
         for (let k = 0; k < runSizes.length; k++) {
           const run = runSizes[k]!;
           const { cells, problem } = demandCells(ctx, lines, run, layout);
-          let ref: string | undefined;
-          if (cells.length === 1) ref = cells[0]!;
-          else if (cells.length > 1) {
-            blockRows.push(perOrder ? [`=SUM(${cells.join(',')})`, `=COST_SUPPLIERS(${cells.map(tokenRef).join(',')})`] : [`=SUM(${cells.join(',')})`]);
-            ref = `${SHEETS.blocks}!$A$${blockRows.length}`;
-          }
+          const ref = sumRef(cells, layout);
           for (const i of members) {
             if (ref !== undefined) refs[i]![k]!.push(ref);
             if (problem !== undefined) missing[i]![k] ??= problem;
@@ -413,7 +494,7 @@ export class CostingWorkbook {
     const variantRows: (string | number)[][] = [];
     const variantRow = new Map<string, number>();
     const variantAt: string[] = [];
-    const plan: { placements: number; material: string[] }[] = [];
+    const plan: RowPlan[] = [];
     variants.forEach((v, i) => {
       variantRow.set(v.id, variantRows.length);
       variantAt.push(v.id);
@@ -427,7 +508,7 @@ export class CostingWorkbook {
         material.push(cells.material);
         row.push(cells.cost);
       }
-      plan.push({ placements, material });
+      plan.push({ placements, material, cost: row, order: orderRow });
       variantRows.push(row);
       if (perOrder) orderRows.push(orderRow);
     });
@@ -453,9 +534,11 @@ export class CostingWorkbook {
     wb.variantAt.push(...variantAt);
     for (const [k, v] of quoteRow) wb.quoteRow.set(k, v);
     for (const [k, v] of rateRow) wb.rateRow.set(k, v);
-    wb.layout = { ...layout, add: (row) => wb.addDemandRow(row) };
+    wb.layout = { ...layout, add: (row) => wb.addDemandRow(row), addSum: (row) => wb.addBlockRow(row) };
     wb.supplierCount = supplierRows.length;
     wb.demandRowCount = demandRows.length;
+    wb.blockRowCount = blockRows.length;
+    wb.blockOf = blockOf;
     return { ok: true, value: wb };
   }
 
@@ -465,11 +548,19 @@ export class CostingWorkbook {
     return r;
   }
 
+  private addBlockRow(row: string[]): number {
+    const r = this.blockRowCount++;
+    row.forEach((formula, col) => this.hf.setCellContents({ sheet: this.sheet.blocks, row: r, col }, formula));
+    return r;
+  }
+
   /**
    * Gives variants new resolved lines (a parameter or build-line edit changed what they are built from) without
-   * building the workbook again: their rows buy from Demand cells directly, with cells added for needs not costed
-   * yet. Gives the unit costs that changed, or an error when the layout cannot take it in place (overridden figures,
-   * an unknown variant) and the workbook must be opened again.
+   * building the workbook again: each variant's lines are costed block by block as at open (blocks sharing a part
+   * joined), through Blocks cells that variants buying the same share, with Demand and Blocks cells added for needs
+   * not costed yet; a row whose formulas come out as they were is left alone. Gives the unit costs that changed, or an
+   * error when the layout cannot take it in place (overridden figures, an unknown variant) and the workbook must be
+   * opened again.
    */
   relineVariants(lines: ReadonlyMap<string, readonly ResolvedLine[]>, buildLines: readonly BuildLine[] = this.book.buildLines): Result<ChangedCost[]> {
     const layout = this.layout;
@@ -485,21 +576,45 @@ export class CostingWorkbook {
     }
     const ctx = this.context();
     const sheet = this.sheet.variants;
+    // Variants of a family mostly buy a block alike: each block's lines are costed once per run size.
+    const costed = new Map<string, { cells: string[]; problem?: string }>();
+    const blockCells = (group: readonly ResolvedLine[], run: number): { cells: string[]; problem?: string } => {
+      let key = String(run);
+      for (const l of group) key += `\u0000${l.lineId}\u0001${l.partId ?? ''}\u0001${l.qtyPerUnit}\u0001${l.applies ? 1 : 0}`;
+      let r = costed.get(key);
+      if (!r) costed.set(key, (r = demandCells(ctx, group, run, layout)));
+      return r;
+    };
     const changes = this.hf.batch(() => {
       for (const [id, resolved] of lines) {
         const row = this.variantRow.get(id)!;
         this.resolution.set(id, resolved);
         const usable = resolved.filter((l) => l.error === undefined);
+        const groups = blockGroups(ctx, usable, this.blockOf);
         const placements = placementsPerUnit(ctx, resolved);
-        const material: string[] = [];
+        const was = this.plan[row]!;
+        const next: RowPlan = { placements, material: [], cost: [], order: [] };
         this.runSizes.forEach((run, k) => {
-          const { cells, problem } = demandCells(ctx, usable, run, layout);
-          const made = runCells(run, k, row, placements, cells, problem, layout.perOrder ? this.supplierCount : undefined);
-          if (made.order !== undefined) this.hf.setCellContents({ sheet: this.sheet.orders, row, col: k }, made.order);
-          material.push(made.material);
-          this.hf.setCellContents({ sheet, row, col: k }, made.cost);
+          const refs: string[] = [];
+          let problem: string | undefined;
+          for (const group of groups) {
+            const r = blockCells(group, run);
+            problem ??= r.problem;
+            const ref = sumRef(r.cells, layout);
+            if (ref !== undefined) refs.push(ref);
+          }
+          // The variant's first problem in the order of its lines, as when its lines are costed all at once.
+          if (problem !== undefined) problem = demandCells(ctx, usable, run, layout).problem ?? problem;
+          const made = runCells(run, k, row, placements, refs, problem, layout.perOrder ? this.supplierCount : undefined);
+          if (made.order !== undefined) {
+            next.order.push(made.order);
+            if (was.order[k] !== made.order) this.hf.setCellContents({ sheet: this.sheet.orders, row, col: k }, made.order);
+          }
+          next.material.push(made.material);
+          next.cost.push(made.cost);
+          if (was.cost[k] !== made.cost) this.hf.setCellContents({ sheet, row, col: k }, made.cost);
         });
-        this.plan[row] = { placements, material };
+        this.plan[row] = next;
       }
     });
     return { ok: true, value: this.changedCosts(changes) };

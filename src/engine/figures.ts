@@ -72,6 +72,8 @@ export class LiveFigures {
   private familyError: string | undefined;
   /** Each variant's resolved lines as JSON, to tell whether a parameter edit changed what it is built from. */
   private lineKeys = new Map<string, string>();
+  /** Each variant's resolved lines as read with its key (the family workbook gives new lists, never changes them). */
+  private lineSets = new Map<string, readonly ResolvedLine[]>();
 
   /** The workbooks' Book: the last one caught up with. */
   get current(): Book | undefined {
@@ -186,8 +188,15 @@ export class LiveFigures {
 
   /** Reads each variant's resolved lines as a key (of the variants named, after a parameter edit; else of all). */
   private readLineKeys(only?: ReadonlySet<string>): void {
-    if (!only) this.lineKeys = new Map();
-    for (const v of this.family?.resolve().variants ?? []) if (!only || only.has(v.variantId)) this.lineKeys.set(v.variantId, JSON.stringify(v.lines));
+    if (!only) {
+      this.lineKeys = new Map();
+      this.lineSets = new Map();
+    }
+    for (const v of this.family?.resolve().variants ?? []) {
+      if (only && !only.has(v.variantId)) continue;
+      this.lineKeys.set(v.variantId, JSON.stringify(v.lines));
+      this.lineSets.set(v.variantId, v.lines);
+    }
   }
 
   private openCosting(book: Book): void {
@@ -225,6 +234,7 @@ export class LiveFigures {
     let familyTouched = familyRebuild;
     let costingRebuild = partsOrSuppliers || variants.added.length > 0 || variants.removed.length > 0;
     const oldKeys = new Map(this.lineKeys);
+    const oldSets = new Map(this.lineSets);
     /** Variants whose build lines (or a line they fit) changed: their costs are worked out again in place. */
     const moved = new Set<string>();
     if (familyRebuild || linesInPlace) {
@@ -236,9 +246,8 @@ export class LiveFigures {
         // resolves: the variants that fit it (before or after) are costed again too.
         const touched = new Set([...lineDiff.added, ...lineDiff.removed, ...lineDiff.changed.map(([, b]) => b)].map((l) => l.id));
         for (const v of next.variants) {
-          const before = JSON.parse(oldKeys.get(v.id) ?? '[]') as ResolvedLine[];
-          const after = JSON.parse(this.lineKeys.get(v.id) ?? '[]') as ResolvedLine[];
-          if ([...before, ...after].some((l) => touched.has(l.lineId) && l.applies)) moved.add(v.id);
+          const fits = (lines: readonly ResolvedLine[] | undefined): boolean => (lines ?? []).some((l) => touched.has(l.lineId) && l.applies);
+          if (fits(oldSets.get(v.id)) || fits(this.lineSets.get(v.id))) moved.add(v.id);
         }
       }
     } else if (variants.changed.length > 0) {

@@ -2,7 +2,8 @@
 // parameter edit (done in place) and after structural changes (rebuilt) it gives the same unit costs and check
 // statuses as workbooks opened afresh from the new Book, which is how the CLI computes them.
 import { describe, expect, it, vi } from 'vitest';
-import type { Book } from '../../src/domain/book.ts';
+import type { Book, BuildLine } from '../../src/domain/book.ts';
+import { costVariantRun, prepareCosting } from '../../src/domain/costing.ts';
 import { applyChange, bookDelta } from '../../src/domain/book-ops.ts';
 import type { BookChange } from '../../src/domain/book-ops.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
@@ -561,5 +562,81 @@ describe('A large Book or change sent to the figures worker in parts', () => {
     const deltaParts = stageQuotes(delta);
     expect(deltaParts.length).toBeGreaterThan(1);
     expect(last(parted, deltaParts)).toEqual(whole.handle(delta));
+  });
+});
+
+/** Each variant's unit cost at each run size by the plain costing of the costed BOM (all its lines bought at once). */
+function plain(book: Book): Map<string, number> {
+  const ctx = prepareCosting(book);
+  if (!ctx.ok) throw new Error(ctx.error);
+  const out = new Map<string, number>();
+  for (const v of resolveFamily(book).variants) {
+    const variant = book.variants.find((x) => x.id === v.variantId)!;
+    for (const run of book.settings.runSizes) {
+      const bom = costVariantRun(ctx.value, variant, v.lines, run);
+      out.set(`${v.variantId}@${run}`, bom.ok ? bom.value.unitCost : NaN);
+    }
+  }
+  return out;
+}
+
+describe('Build line edits in place, costed block by block', () => {
+  it('reworks only the variants whose lines a rule edit changed, and agrees with a fresh workbook on the reference family', () => {
+    const holder = new Holder(referenceFamily().book);
+    const costing = CostingService.for(holder);
+    costing.sync();
+    const lines = holder.book.buildLines.filter((l) => /^\d+$/.test(l.qtyRule) && l.appliesWhen === '' && l.partId !== undefined);
+    const [qty, ruled] = [lines[0]!, lines[1]!];
+    holder.change({ put: { buildLines: [{ ...qty, qtyRule: String(Number(qty.qtyRule) + 1) }] } });
+    let r = costing.sync();
+    expect(r.kind).toBe('edited');
+    expect(new Set(r.changed.map((c) => c.variantId)).size).toBe(holder.book.variants.length);
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+    // The line stops applying to the 4-step variants: only their costs are worked out again.
+    const fourStep = new Set(holder.book.variants.filter((v) => Number(v.params['steps']) === 4).map((v) => v.id));
+    expect(fourStep.size).toBeGreaterThan(0);
+    holder.change({ put: { buildLines: [{ ...ruled, appliesWhen: 'steps <> 4' }] } });
+    r = costing.sync();
+    expect(r.kind).toBe('edited');
+    expect(new Set(r.changed.map((c) => c.variantId))).toEqual(fourStep);
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+    // And back: the same costs as before the rule edit.
+    const current = holder.book.buildLines.find((l) => l.id === ruled.id)!;
+    const before = live(costing, holder.book);
+    holder.change({ put: { buildLines: [{ ...current, appliesWhen: '' }] } });
+    r = costing.sync();
+    expect(new Set(r.changed.map((c) => c.variantId))).toEqual(fourStep);
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+    for (const v of holder.book.variants) if (!fourStep.has(v.id)) for (const run of costing.runSizes) expect(costing.unitCost(v.id, run)).toBe(before.get(`${v.id}@${run}`));
+  });
+
+  it('buys a part once where one line may choose it as an alternate and another line buys it for every variant', () => {
+    // The supply diode line (dropper variants only) is pinned to its approved alternate; a new line buys that part on
+    // every variant. Bought in one purchase, 300 units per line reach the 500 break that two purchases of 300 miss.
+    const book = addBuiltInChecks(demoBook(), CHECKS);
+    book.settings = { ...book.settings, runSizes: [300, 2000, 4000] };
+    book.buildLines = book.buildLines.map((l) => (l.id === 'line_supply_diode' ? { ...l, pinnedPartId: 'part_diode_1a_fw' } : l));
+    const spare: BuildLine = { id: 'line_spare_diode', rev: 1, position: 999, designators: 'D9', category: 'electronics', partId: 'part_diode_1a_fw', qtyRule: '1', appliesWhen: '' };
+    book.buildLines.push(spare);
+    const holder = new Holder(book);
+    const costing = CostingService.for(holder);
+    costing.sync();
+    expect(live(costing, holder.book)).toEqual(plain(holder.book));
+    const droppers = holder.book.variants.filter((v) => v.params['supply'] === 'dropper');
+    expect(droppers.length).toBeGreaterThan(0);
+    // In place: the spare line's quantity, then the supply line applying to every variant.
+    const edits: Partial<BuildLine>[] = [{ qtyRule: '2' }, { qtyRule: '1' }];
+    for (const edit of edits) {
+      const current = holder.book.buildLines.find((l) => l.id === 'line_spare_diode')!;
+      holder.change({ put: { buildLines: [{ ...current, ...edit }] } });
+      expect(costing.sync().kind).toBe('edited');
+      expect(live(costing, holder.book)).toEqual(plain(holder.book));
+      expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+    }
+    const supply = holder.book.buildLines.find((l) => l.id === 'line_supply_diode')!;
+    holder.change({ put: { buildLines: [{ ...supply, appliesWhen: '' }] } });
+    expect(costing.sync().kind).toBe('edited');
+    expect(live(costing, holder.book)).toEqual(plain(holder.book));
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
   });
 });
