@@ -220,28 +220,23 @@ export class BookService extends EventTarget {
    */
   private storeStarter(starter: Book, after: Promise<unknown>): void {
     // Until it is stored the Book is not saved, and says so.
-    this.inFlight += 1;
-    this.status = { state: SAVE_STATES.saving };
-    this.writes = this.writes
-      .then(() => after)
-      .then(async () => {
-        const stored = await this.store.load();
-        if (isFirstStart(stored)) {
-          await this.store.replaceAll(starter);
-        } else {
-          this.adopt(stored);
-          this.forgetReplaced();
-          this.emit('book');
-        }
-        this.inFlight -= 1;
-        if (this.inFlight === 0) this.status = { state: SAVE_STATES.saved, at: new Date() };
-      })
-      .catch((e: unknown) => {
-        this.inFlight -= 1;
-        this.unstored = `Not saved: the demo Book could not be stored in this browser, so this tab keeps no change until it is reloaded. ${describeWriteError(e)}`;
+    void this.queueWrite(async () => {
+      await after;
+      const stored = await this.store.load();
+      if (isFirstStart(stored)) {
+        await this.store.replaceAll(starter);
+        return;
+      }
+      this.adopt(stored);
+      this.forgetReplaced();
+      this.emit('book');
+    }).then((r) => {
+      if (!r.ok) {
+        this.unstored = `Not saved: the demo Book could not be stored in this browser, so this tab keeps no change until it is reloaded. ${describeWriteError(r.error)}`;
         this.status = { state: SAVE_STATES.failed, reason: this.unstored, conflict: false };
-      })
-      .finally(() => this.emit('status'));
+      }
+      this.emit('status');
+    });
   }
 
   /**
@@ -530,45 +525,59 @@ export class BookService extends EventTarget {
     this.remoteRefused = undefined;
   }
 
+  /**
+   * Runs `write` after every write queued before it, keeping the save state: "saving" while any is queued, "saved"
+   * once the last one is stored (with the notice of a merge it made, or one not yet dismissed). A failed write is
+   * given back for the caller to say why.
+   */
+  private queueWrite<T extends WriteDone | void>(write: () => Promise<T>): Promise<{ ok: true; done: T } | { ok: false; error: unknown }> {
+    this.inFlight += 1;
+    this.status = { ...this.status, state: SAVE_STATES.saving };
+    const run = this.writes.then(async () => {
+      try {
+        const done = await write();
+        this.inFlight -= 1;
+        const merged = done ? done.merged : undefined;
+        const note = merged || this.status.merged;
+        if (this.inFlight === 0) this.status = { state: SAVE_STATES.saved, at: new Date(), ...(note ? { merged: note } : {}) };
+        else if (merged) this.status = { ...this.status, merged };
+        return { ok: true as const, done };
+      } catch (error) {
+        this.inFlight -= 1;
+        return { ok: false as const, error };
+      }
+    });
+    this.writes = run;
+    return run;
+  }
+
   private enqueue(write: () => Promise<WriteDone | void>, kind: TabMessage['kind'] = 'changed'): Promise<SaveResult> {
     if (this.blocked) {
       const message = 'Rungbook was updated in another tab; reload this tab before making changes.';
       return Promise.resolve({ ok: false, message, conflict: false });
     }
-    this.inFlight += 1;
-    this.status = { ...this.status, state: SAVE_STATES.saving };
+    const run = this.queueWrite(async () => {
+      // The demo Book of a failed first start is not stored: no record may be written into it.
+      if (this.unstored) throw new Error(this.unstored);
+      return write();
+    });
     this.emit('status');
-    const run = this.writes.then(async (): Promise<SaveResult> => {
-      if (this.unstored) {
-        this.inFlight -= 1;
-        this.status = { state: SAVE_STATES.failed, reason: this.unstored, conflict: false };
-        this.emit('status');
-        return { ok: false, message: this.unstored, conflict: false };
-      }
-      try {
-        const { merged, records } = (await write()) ?? {};
-        this.inFlight -= 1;
-        this.editsSinceExport += 1;
-        // A merge notice stays until dismissed, so a quick next save does not hide it.
-        const note = merged || this.status.merged;
-        if (this.inFlight === 0) this.status = { state: SAVE_STATES.saved, at: new Date(), ...(note ? { merged: note } : {}) };
-        else if (merged) this.status = { ...this.status, merged };
-        this.emit('book');
-        this.emit('status');
-        this.tellOtherTabs(kind, records);
-        void this.refreshStorage();
-        return merged ? { ok: true, merged } : { ok: true };
-      } catch (e) {
-        this.inFlight -= 1;
-        const conflict = e instanceof RevisionConflict;
-        const message = describeWriteError(e);
+    return run.then((r): SaveResult => {
+      if (!r.ok) {
+        const conflict = !this.unstored && r.error instanceof RevisionConflict;
+        const message = this.unstored ?? describeWriteError(r.error);
         this.status = { state: SAVE_STATES.failed, reason: message, conflict };
         this.emit('status');
         return { ok: false, message, conflict };
       }
+      const { merged, records } = r.done ?? {};
+      this.editsSinceExport += 1;
+      this.emit('book');
+      this.emit('status');
+      this.tellOtherTabs(kind, records);
+      void this.refreshStorage();
+      return merged ? { ok: true, merged } : { ok: true };
     });
-    this.writes = run;
-    return run;
   }
 
   private onVersionChange(): void {
