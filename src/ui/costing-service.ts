@@ -11,7 +11,9 @@
 //
 // A small save is sent ahead: while the Book service writes it to IndexedDB, the worker already works out the Book it
 // will give (BookService.proposed). That answer is held back until the Book is that Book, then shown in the same task
-// with no second request; a save refused or merged with another tab's change sends the worker the Book as it is.
+// with no second request; a save refused or merged with another tab's change sends the worker the Book as it is. A
+// Book that replaced the one open (a file opened, the demo Book) is drawn first: its figures wait for the page's idle
+// time (waitsForIdle).
 import type { Book, BuildLine } from '../domain/book.ts';
 import { COLLECTIONS } from '../domain/book.ts';
 import { bookDelta } from '../domain/book-ops.ts';
@@ -27,6 +29,9 @@ import type { WhatIfAnswer, WhatIfCosts } from '../engine/what-if.ts';
 import type { CheckTrialAnswer, CheckTrialRequest, CheckTrials } from '../engine/check-trial.ts';
 import type { CheckResult, FamilyResolution, VariantResolution } from '../engine/family.ts';
 
+
+/** The longest a replaced Book's figures wait for the page to be idle before the worker starts on them (ms). */
+export const REPLACED_WAIT_MS = 500;
 export { SYNC_KINDS } from '../engine/figures-kinds.ts';
 export type { CostingChangeDetail, SyncKind } from '../engine/figures-kinds.ts';
 
@@ -115,6 +120,9 @@ export class CostingService extends EventTarget {
   private seededOnly = false;
   /** The Book's replacement count when it was last sent (see BookSource.replacements). */
   private sentReplacements: number | undefined;
+  /** The Book replacement whose figures wait for the page's idle time, and the last one that waited (waitsForIdle). */
+  private idleAwaited: number | undefined;
+  private idleCame: number | undefined;
   /** True while the Book last sent is a save's proposed Book that has not become the Book yet. */
   private sentAhead = false;
   /** The answer for a proposed Book, held back (not merged) until the Book is that Book. */
@@ -393,6 +401,7 @@ export class CostingService extends EventTarget {
       if (this.books.replacements === this.sentReplacements) return;
       this.dropWorker('the Book was replaced');
     }
+    if (this.waitsForIdle()) return;
     this.sentReplacements = this.books.replacements;
     this.seededOnly = false;
     let worker = this.worker;
@@ -443,6 +452,30 @@ export class CostingService extends EventTarget {
     if (this.inFlight) return true;
     if (this.shown === sent || parts.length > 0) this.shown = next;
     if (parts.length > 0) this.announce(parts[parts.length - 1]!, true);
+    return true;
+  }
+
+  /**
+   * Whether the figures of a Book that replaced the one before (a file opened, the demo Book) wait for the page's next
+   * idle time, or REPLACED_WAIT_MS at most: the page draws the new Book first. Started at once, the worker (a new
+   * Book's two workbooks built, the compiler threads it keeps busy) took the CPU the page's first frames of the new
+   * Book needed on a 2-core machine, and those frames held the page 50–80 ms. The first Book's figures never wait, nor
+   * does anything where no idle callback exists (Node).
+   */
+  private waitsForIdle(): boolean {
+    const replaced = this.books.replacements;
+    if (this.sentReplacements === undefined || replaced === this.sentReplacements || replaced === this.idleCame) return false;
+    if (typeof requestIdleCallback !== 'function') return false;
+    if (this.idleAwaited !== replaced) {
+      this.idleAwaited = replaced;
+      requestIdleCallback(
+        () => {
+          this.idleCame = replaced;
+          this.send();
+        },
+        { timeout: REPLACED_WAIT_MS },
+      );
+    }
     return true;
   }
 

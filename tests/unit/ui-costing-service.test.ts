@@ -19,7 +19,7 @@ import type { FiguresRequest } from '../../src/engine/figures-worker.ts';
 import { costingInWorker } from '../fixtures/fake-figures-worker.ts';
 import type { FakeWorker } from '../fixtures/fake-figures-worker.ts';
 import { trialProblems } from '../../src/ui/build-rules.ts';
-import { CostingService } from '../../src/ui/costing-service.ts';
+import { CostingService, REPLACED_WAIT_MS } from '../../src/ui/costing-service.ts';
 
 const CHECKS = loadBuiltInChecks();
 
@@ -295,6 +295,60 @@ describe('CostingService with the figures worker', () => {
     expect(workers).toHaveLength(2);
     expect(workers[1]!.terminated).toBe(false);
     expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+  });
+
+  it('starts on a replaced Book once the page is idle, after stopping the worker still on the Book before', async () => {
+    class Replacing extends Holder {
+      replacements = 0;
+      replace(book: Book): void {
+        this.book = book;
+        this.replacements += 1;
+      }
+    }
+    const idle: { run: () => void; timeout: number | undefined }[] = [];
+    vi.stubGlobal('requestIdleCallback', (run: () => void, options?: { timeout?: number }) => idle.push({ run, timeout: options?.timeout }));
+    try {
+      const demo = addBuiltInChecks(demoBook(), CHECKS);
+      const holder = new Replacing(demo);
+      const { costing, workers } = costingInWorker(holder);
+      // The first Book's figures never wait.
+      costing.sync();
+      expect(workers[0]!.sent.map((m) => m.type)).toEqual(['book']);
+      const first = { ...demo, settings: { ...demo.settings, overheadPct: demo.settings.overheadPct + 5 } };
+      holder.replace(first);
+      expect(costing.sync().kind).toBe('pending');
+      // The worker still on the Book before is stopped at once; nothing is started until the page is idle.
+      expect(workers[0]!.terminated).toBe(true);
+      expect(workers).toHaveLength(1);
+      expect(idle).toHaveLength(1);
+      expect(idle[0]!.timeout).toBe(REPLACED_WAIT_MS);
+      // Reads meanwhile say the figures are being worked out, and ask for no second wait.
+      expect(costing.costProblem(first.variants[0]!.id, 500)).toBe('being worked out');
+      costing.sync();
+      expect(idle).toHaveLength(1);
+      // Replaced again before the page was idle: the new Book waits too, and only it is worked out.
+      const second = { ...demo, settings: { ...demo.settings, overheadPct: demo.settings.overheadPct + 7 } };
+      holder.replace(second);
+      costing.sync();
+      expect(idle).toHaveLength(2);
+      idle[0]!.run();
+      expect(workers).toHaveLength(1);
+      idle[1]!.run();
+      expect(workers).toHaveLength(2);
+      expect(workers[1]!.sent.map((m) => m.type)).toEqual(['book']);
+      await settled(costing);
+      expect(costing.pending).toBe(false);
+      expect(live(costing, holder.book)).toEqual(fresh(second));
+      // An edit is not a replacement: sent at once.
+      holder.change({ settings: { ...holder.book.settings, overheadPct: holder.book.settings.overheadPct + 1 } });
+      costing.sync();
+      expect(workers[1]!.sent.map((m) => m.type)).toEqual(['book', 'delta']);
+      expect(idle).toHaveLength(2);
+      await settled(costing);
+      expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+    } finally {
+      vi.unstubAllGlobals();
+    }
   });
 
   it('says why when the worker stops, is not left pending, and starts a new worker on the next change', async () => {
