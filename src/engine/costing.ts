@@ -603,7 +603,8 @@ export class CostingWorkbook {
             const ref = sumRef(r.cells, layout);
             if (ref !== undefined) refs.push(ref);
           }
-          // The variant's first problem in the order of its lines, as when its lines are costed all at once.
+          // The variant's first problem in the order of its lines, as the plain costing of its costed BOM names it (the
+          // workbook's open names the first in block order: the cost cell is a problem either way).
           if (problem !== undefined) problem = demandCells(ctx, usable, run, layout).problem ?? problem;
           const made = runCells(run, k, row, placements, refs, problem, layout.perOrder ? this.supplierCount : undefined);
           if (made.order !== undefined) {
