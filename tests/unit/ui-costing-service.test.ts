@@ -32,6 +32,15 @@ class Holder {
   }
 }
 
+/** A Book holder whose whole Book can be replaced (a file opened), counted as the Book service counts them. */
+class Replacing extends Holder {
+  replacements = 0;
+  replace(book: Book): void {
+    this.book = book;
+    this.replacements += 1;
+  }
+}
+
 function start(): { holder: Holder; costing: CostingService } {
   const holder = new Holder(addBuiltInChecks(demoBook(), CHECKS));
   return { holder, costing: CostingService.for(holder) };
@@ -266,13 +275,6 @@ describe('CostingService with the figures worker', () => {
   });
 
   it('stops a worker still working out a Book that was replaced, and works the new Book out in a new one', async () => {
-    class Replacing extends Holder {
-      replacements = 0;
-      replace(book: Book): void {
-        this.book = book;
-        this.replacements += 1;
-      }
-    }
     const demo = addBuiltInChecks(demoBook(), CHECKS);
     const holder = new Replacing(demo);
     const { costing, workers } = costingInWorker(holder);
@@ -298,13 +300,6 @@ describe('CostingService with the figures worker', () => {
   });
 
   it('starts on a replaced Book once the page is idle, after stopping the worker still on the Book before', async () => {
-    class Replacing extends Holder {
-      replacements = 0;
-      replace(book: Book): void {
-        this.book = book;
-        this.replacements += 1;
-      }
-    }
     const idle: { run: () => void; timeout: number | undefined }[] = [];
     vi.stubGlobal('requestIdleCallback', (run: () => void, options?: { timeout?: number }) => idle.push({ run, timeout: options?.timeout }));
     try {
