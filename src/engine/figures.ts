@@ -10,6 +10,7 @@
 // lines added, removed or given other rules, suppliers, run sizes, quote terms other than prices).
 import type { Book, CollectionName, Quote, Settings, Variant } from '../domain/book.ts';
 import type { ResolvedLine, Result } from '../domain/costing.ts';
+import { sameValue } from '../domain/merge.ts';
 import { CostingWorkbook, resolutionFromFamily } from './costing.ts';
 import type { ChangedCost } from './costing.ts';
 import { FamilyWorkbook } from './family.ts';
@@ -70,9 +71,10 @@ export class LiveFigures {
   private costing: CostingWorkbook | undefined;
   private costingError: string | undefined;
   private familyError: string | undefined;
-  /** Each variant's resolved lines as JSON, to tell whether a parameter edit changed what it is built from. */
-  private lineKeys = new Map<string, string>();
-  /** Each variant's resolved lines as read with its key (the family workbook gives new lists, never changes them). */
+  /**
+   * Each variant's resolved lines, to tell whether an edit changed what it is built from (the family workbook gives
+   * new lists, never changes them).
+   */
   private lineSets = new Map<string, readonly ResolvedLine[]>();
 
   /** The workbooks' Book: the last one caught up with. */
@@ -183,20 +185,13 @@ export class LiveFigures {
     } catch (e) {
       this.familyError = `the checks could not be evaluated: ${e instanceof Error ? e.message : String(e)}`;
     }
-    this.readLineKeys();
+    this.readLineSets();
   }
 
-  /** Reads each variant's resolved lines as a key (of the variants named, after a parameter edit; else of all). */
-  private readLineKeys(only?: ReadonlySet<string>): void {
-    if (!only) {
-      this.lineKeys = new Map();
-      this.lineSets = new Map();
-    }
-    for (const v of this.family?.resolve().variants ?? []) {
-      if (only && !only.has(v.variantId)) continue;
-      this.lineKeys.set(v.variantId, JSON.stringify(v.lines));
-      this.lineSets.set(v.variantId, v.lines);
-    }
+  /** Reads each variant's resolved lines (of the variants named, after a parameter edit; else of all). */
+  private readLineSets(only?: ReadonlySet<string>): void {
+    if (!only) this.lineSets = new Map();
+    for (const v of this.family?.resolve().variants ?? []) if (!only || only.has(v.variantId)) this.lineSets.set(v.variantId, v.lines);
   }
 
   private openCosting(book: Book): void {
@@ -233,14 +228,13 @@ export class LiveFigures {
 
     let familyTouched = familyRebuild;
     let costingRebuild = partsOrSuppliers || variants.added.length > 0 || variants.removed.length > 0;
-    const oldKeys = new Map(this.lineKeys);
     const oldSets = new Map(this.lineSets);
     /** Variants whose build lines (or a line they fit) changed: their costs are worked out again in place. */
     const moved = new Set<string>();
     if (familyRebuild || linesInPlace) {
       if (familyRebuild) this.openFamily(next);
-      else this.readLineKeys();
-      for (const v of next.variants) if (oldKeys.get(v.id) !== this.lineKeys.get(v.id)) moved.add(v.id);
+      else this.readLineSets();
+      for (const v of next.variants) if (!sameValue(oldSets.get(v.id), this.lineSets.get(v.id))) moved.add(v.id);
       if (!empty(lineDiff)) {
         // A line's designators, category, attrition or pinned supplier change its cost without changing how it
         // resolves: the variants that fit it (before or after) are costed again too.
@@ -256,8 +250,8 @@ export class LiveFigures {
         this.openFamily(next);
         costingRebuild = true;
       } else {
-        this.readLineKeys(new Set(variants.changed.map(([, v]) => v.id)));
-        for (const [, v] of variants.changed) if (oldKeys.get(v.id) !== this.lineKeys.get(v.id)) moved.add(v.id);
+        this.readLineSets(new Set(variants.changed.map(([, v]) => v.id)));
+        for (const [, v] of variants.changed) if (!sameValue(oldSets.get(v.id), this.lineSets.get(v.id))) moved.add(v.id);
       }
     }
     // The costed BOM names the variant by its code, which the costing workbook copied at open.

@@ -538,6 +538,7 @@ export class BookService extends EventTarget {
         const done = await write();
         this.inFlight -= 1;
         const merged = done ? done.merged : undefined;
+        // A merge notice stays until dismissed, so a quick next save does not hide it.
         const note = merged || this.status.merged;
         if (this.inFlight === 0) this.status = { state: SAVE_STATES.saved, at: new Date(), ...(note ? { merged: note } : {}) };
         else if (merged) this.status = { ...this.status, merged };

@@ -29,11 +29,11 @@ import type { WhatIfAnswer, WhatIfCosts } from '../engine/what-if.ts';
 import type { CheckTrialAnswer, CheckTrialRequest, CheckTrials } from '../engine/check-trial.ts';
 import type { CheckResult, FamilyResolution, VariantResolution } from '../engine/family.ts';
 
+export { SYNC_KINDS } from '../engine/figures-kinds.ts';
+export type { CostingChangeDetail, SyncKind } from '../engine/figures-kinds.ts';
 
 /** The longest a replaced Book's figures wait for the page to be idle before the worker starts on them (ms). */
 export const REPLACED_WAIT_MS = 500;
-export { SYNC_KINDS } from '../engine/figures-kinds.ts';
-export type { CostingChangeDetail, SyncKind } from '../engine/figures-kinds.ts';
 
 /**
  * The engines, for running in this thread where there are no Web Workers (Node: tests, the command line's twin of
