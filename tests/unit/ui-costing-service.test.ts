@@ -662,6 +662,8 @@ describe('Build line edits in place, costed block by block', () => {
   it('buys a part once where one line may choose it as an alternate and another line buys it for every variant', () => {
     // The supply diode line (dropper variants only) is pinned to its approved alternate; a new line buys that part on
     // every variant. Bought in one purchase, 300 units per line reach the 500 break that two purchases of 300 miss.
+    // Buying a run's whole need of a part as one order line, at the break that total reaches, is common practice in
+    // purchasing; the reference here is the plain costing of the costed BOM, which buys each part once.
     const book = addBuiltInChecks(demoBook(), CHECKS);
     book.settings = { ...book.settings, runSizes: [300, 2000, 4000] };
     book.buildLines = book.buildLines.map((l) => (l.id === 'line_supply_diode' ? { ...l, pinnedPartId: 'part_diode_1a_fw' } : l));
