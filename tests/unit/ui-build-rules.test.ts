@@ -3,7 +3,10 @@
 import { describe, expect, it } from 'vitest';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { resolveFamily } from '../../src/engine/family.ts';
-import { buildLineDraft, lineOutcomes, lineSummaries, moveLine, orderedLines, validateBuildLine } from '../../src/ui/build-rules.ts';
+import { trialOutcomes } from '../../src/engine/line-trial.ts';
+import type { Book, BuildLine } from '../../src/domain/book.ts';
+import { buildLineDraft, lineOutcomes, lineSummaries, moveLine, orderedLines, validateBuildLine, withLine } from '../../src/ui/build-rules.ts';
+import { referenceFamily } from '../fixtures/reference-family.ts';
 
 const demo = demoBook();
 
@@ -60,5 +63,46 @@ describe('line summaries', () => {
     expect(s.failing.length).toBeGreaterThan(0);
     expect(s.failing.length).toBeLessThan(demo.variants.length);
     expect(s.problem).toMatch(/nope/i);
+  });
+});
+
+describe('a line tried before it is saved', () => {
+  /** The line's outcome on every variant as the whole family resolves it with the line put in. */
+  const inWholeFamily = (book: Book, line: BuildLine) => {
+    const trial = withLine(book, line);
+    return lineOutcomes(trial, resolveFamily(trial), new Set([line.id])).get(line.id)!;
+  };
+
+  it('resolves every line of the demo Book and of the reference family as the whole family does', () => {
+    for (const book of [demo, referenceFamily().book]) {
+      for (const line of book.buildLines) expect(trialOutcomes(book, line), line.id).toEqual(inWholeFamily(book, line));
+    }
+  });
+
+  it('sees an earlier line of the same role take the role first, however the role is written', () => {
+    const lines = orderedLines(demo);
+    const switches = lines.filter((l) => l.role === 'switch');
+    // The demo Book fits one of two switch lines by its power stage.
+    expect(switches.length).toBe(2);
+    const other = lines.find((l) => l.role !== 'switch' && l.partId !== undefined && l.appliesWhen === '')!;
+    const after: BuildLine = { ...other, id: 'line_trial', role: 'Switch', appliesWhen: '', position: Math.max(...switches.map((l) => l.position)) + 1 };
+    const before: BuildLine = { ...after, position: Math.min(...switches.map((l) => l.position)) - 1 };
+    const late = trialOutcomes(demo, after);
+    expect(late).toEqual(inWholeFamily(demo, after));
+    // Every variant fits one switch line before the trial line, so the trial line's part is not read by checks.
+    expect(late.every((o) => o.problem?.includes('role switch is already given by line'))).toBe(true);
+    const early = trialOutcomes(demo, before);
+    expect(early).toEqual(inWholeFamily(demo, before));
+    expect(early.some((o) => o.problem !== undefined)).toBe(false);
+  });
+
+  it('reports a rule that fails for some variants as the whole family does', () => {
+    const first = orderedLines(demo)[0]!;
+    const failing: BuildLine = { ...first, qtyRule: 'IF(steps > 4, nope, 1)', appliesWhen: 'steps > 3', partRule: undefined };
+    const outcomes = trialOutcomes(demo, failing);
+    expect(outcomes).toEqual(inWholeFamily(demo, failing));
+    expect(outcomes.some((o) => o.problem?.match(/nope/i))).toBe(true);
+    expect(outcomes.some((o) => !o.applies)).toBe(true);
+    expect(outcomes.some((o) => o.applies && o.problem === undefined)).toBe(true);
   });
 });
