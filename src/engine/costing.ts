@@ -47,7 +47,7 @@ import type { CostedBom, CostingContext, ResolvedLine, Result, SupplyOptions } f
 import { approvedParts } from '../domain/alternates.ts';
 import { hasPerOrder, landedRates } from '../domain/landed.ts';
 import { QUOTE_ROW_HEAD } from './costing-functions.ts';
-import { createEngine } from './create.ts';
+import { changeInOne, createEngine } from './create.ts';
 import type { FamilyResolution } from './family.ts';
 import { columnLetters } from './cells.ts';
 import { normalizeFormula } from './formula-syntax.ts';
@@ -585,7 +585,7 @@ export class CostingWorkbook {
       if (!r) costed.set(key, (r = demandCells(ctx, group, run, layout)));
       return r;
     };
-    const changes = this.hf.batch(() => {
+    const changes = changeInOne(this.hf, () => {
       for (const [id, resolved] of lines) {
         const row = this.variantRow.get(id)!;
         this.resolution.set(id, resolved);
@@ -652,7 +652,7 @@ export class CostingWorkbook {
     const ref = (c: number): string => `${columnLetters(R + c)}${n}`;
     const s = (c: number): string => `${SHEETS.settings}!$${columnLetters(c)}$1`;
     const sheet = this.sheet.variants;
-    this.hf.batch(() => {
+    changeInOne(this.hf, () => {
       this.hf.setCellContents({ sheet, row, col: R + EXP_LABOUR }, `=COST_LABOUR(${p.placements},${s(0)},${s(1)},${s(2)})`);
       this.hf.setCellContents({ sheet, row, col: R + EXP_TEST }, `=COST_ROUND_UNIT(${s(3)})`);
       this.hf.setCellContents({ sheet, row, col: R + EXP_OVERHEAD }, `=COST_OVERHEAD(${ref(EXP_LABOUR)},${s(4)})`);

@@ -1,7 +1,7 @@
 // Builds formula engines with Rungbook's functions. Every engine in the app, the CLI and the tests comes from here,
 // so no engine can exist before our function names are registered.
 import { HyperFormula } from 'hyperformula';
-import type { ConfigParams, Sheets } from 'hyperformula';
+import type { ConfigParams, ExportedChange, Sheets } from 'hyperformula';
 import { CostingPlugin } from './costing-functions.ts';
 import { ENGINE_OVERRIDES, FUNCTION_PLUGINS, boundTextOperator } from './functions/index.ts';
 
@@ -37,9 +37,12 @@ export function registerRungbookFunctions(): void {
  * Settings every Rungbook engine uses. The engine's defaults are kept (language enGB, comma argument separator,
  * point as decimal, 14-significant-digit result rounding that hides float noise such as 100 × 1.1) except:
  * - licenseKey 'gpl-v3': Rungbook is GPL-3.0 software, which is the free licence the engine offers.
+ * - undoLimit 0: no engine's own undo history. The app keeps its own undo, of Book changes; an engine is rebuilt or
+ *   edited forward from the Book.
  */
 const ENGINE_DEFAULTS: Partial<ConfigParams> = {
   licenseKey: 'gpl-v3',
+  undoLimit: 0,
 };
 
 /**
@@ -52,4 +55,21 @@ export function createEngine(config: Partial<ConfigParams> = {}, sheets?: Sheets
   const hf = sheets === undefined ? HyperFormula.buildEmpty(settings) : HyperFormula.buildFromSheets(sheets, settings);
   boundTextOperator(hf);
   return hf;
+}
+
+/**
+ * Makes `changes` with evaluation held until all are made, then evaluates once and gives what changed: the engine's
+ * own batch, without its undo entry. The engine's batch gathers every change into one undo entry and, at each change,
+ * walks that whole entry again (its redo clean-up), so a batch of n changes costs n² walks: a fifth of a quantity edit
+ * on a 200-variant family went there. Our engines keep no undo history (undoLimit 0 above).
+ */
+export function changeInOne(hf: HyperFormula, changes: () => void): ExportedChange[] {
+  hf.suspendEvaluation();
+  try {
+    changes();
+  } catch (e) {
+    hf.resumeEvaluation();
+    throw e;
+  }
+  return hf.resumeEvaluation();
 }

@@ -8,7 +8,7 @@
 import type { CellValue, HyperFormula, RawCellContent } from 'hyperformula';
 import type { Book, BuildLine, Check, ParamValue, Variant } from '../domain/book.ts';
 import { STATUS_SEVERITY } from '../domain/check-status.ts';
-import { createEngine } from './create.ts';
+import { changeInOne, createEngine } from './create.ts';
 import { judgeCheck } from './family-checks.ts';
 import type { CheckResult } from './family-checks.ts';
 import { atRow, planFamily, roleNames, valueCell, valueContent } from './family-layout.ts';
@@ -285,7 +285,7 @@ export class FamilyWorkbook {
     // Nothing here is undone through the engine; its undo stack would only hold the pasted blocks.
     hf.clearUndoStack();
     if (byText.length === 0) return;
-    hf.batch(() => {
+    changeInOne(hf, () => {
       for (const fc of byText) {
         const column: Row[] = [];
         const last = onAlt(fc.col) ? rows : n;
@@ -656,7 +656,7 @@ export class FamilyWorkbook {
     const inputs = this.withRoles(own, row);
     for (const m of this.layout.memos) if (m.roles && changed.some((k) => m.inputs.includes(k))) m.rowEntry[row] = this.memoEntry(m, inputs);
     const hf = this.engine();
-    hf.batch(() => {
+    changeInOne(hf, () => {
       for (const key of changed) {
         const val = after.roleNames[key];
         hf.setCellContents({ sheet: this.sheet, row, col: this.layout.cols.get(key)! }, [[val === undefined ? MISSING : val]]);

@@ -9,7 +9,7 @@ import { candidateQuotes, chooseQuote, prepareCosting } from '../domain/costing.
 import type { CostingContext, Result } from '../domain/costing.ts';
 import { LIMITS } from '../domain/schema.ts';
 import { parseValue } from '../domain/units.ts';
-import { createEngine } from './create.ts';
+import { changeInOne, createEngine } from './create.ts';
 import { evaluateChecks } from './family.ts';
 import type { CheckResult } from './family.ts';
 import { engineFailure, formulaRangeCells, guardFormula, limitEvaluationTime } from './formula-guard.ts';
@@ -256,7 +256,7 @@ export function evaluateNotebookPage(book: Book, page: NotebookPage, options: Bo
         return hf.getSheetId(name)!;
       });
       limitEvaluationTime(hf, options.calculationMs ?? NOTEBOOK_LIMITS.calculationMs);
-      hf.batch(() => {
+      changeInOne(hf, () => {
         page.sections.forEach((s, i) => {
           const sheet = ids[i];
           if (sheet === undefined) return;

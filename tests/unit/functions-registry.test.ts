@@ -1,9 +1,10 @@
 // Registration and help: every Rungbook function resolves by name in a fresh engine, its help matches what the
 // engine was told, and no result ever shows NaN or Infinity as a number.
+// Also: changes made in one evaluation (changeInOne), as the engine batch makes them without its undo entry.
 import { describe, expect, it } from 'vitest';
 import { DetailedCellError, HyperFormula } from 'hyperformula';
 import enUS from 'hyperformula/i18n/languages/enUS';
-import { createEngine, registerRungbookFunctions } from '../../src/engine/create.ts';
+import { changeInOne, createEngine, registerRungbookFunctions } from '../../src/engine/create.ts';
 import { FUNCTION_AREAS, FUNCTION_DOCS, FUNCTION_PLUGINS, functionDoc, functionSignature } from '../../src/engine/functions/index.ts';
 
 /** The function names the README lists under Formulas. */
@@ -123,6 +124,42 @@ describe('never NaN or Infinity as a number', () => {
     const v = hf.calculateFormula('=XCAP_FOR(1, 1e-300, 1e-300)', sheet);
     expect(v).toBeInstanceOf(DetailedCellError);
     expect((v as DetailedCellError).message).toMatch(/XCAP_FOR: the result is not a finite number/);
+    hf.destroy();
+  });
+});
+
+describe('changes made in one evaluation', () => {
+  it('give the changed values the engine batch gives, evaluate once, and keep no undo history', () => {
+    const sheets = { s: [[1, '=A1*2', '=B1+1']] };
+    const ours = createEngine({}, sheets);
+    const theirs = createEngine({}, sheets);
+    const edits = (hf: HyperFormula) => () => {
+      hf.setCellContents({ sheet: 0, row: 0, col: 0 }, 5);
+      hf.setCellContents({ sheet: 0, row: 1, col: 0 }, [['=C1*10', 7]]);
+    };
+    let evaluations = 0;
+    ours.on('valuesUpdated', () => evaluations++);
+    const changes = changeInOne(ours, edits(ours));
+    const expected = theirs.batch(edits(theirs));
+    const values = (list: typeof changes) => list.map((c) => JSON.stringify(c)).sort();
+    expect(values(changes)).toEqual(values(expected));
+    expect(ours.getSheetValues(0)).toEqual([[5, 10, 11], [110, 7]]);
+    expect(evaluations).toBe(1);
+    expect(ours.isThereSomethingToUndo()).toBe(false);
+    ours.destroy();
+    theirs.destroy();
+  });
+
+  it('evaluates again and passes the error on when a change throws', () => {
+    const hf = createEngine({}, { s: [[1, '=A1*2']] });
+    expect(() =>
+      changeInOne(hf, () => {
+        hf.setCellContents({ sheet: 0, row: 0, col: 0 }, 4);
+        throw new Error('refused');
+      }),
+    ).toThrow('refused');
+    expect(hf.isEvaluationSuspended()).toBe(false);
+    expect(hf.getCellValue({ sheet: 0, row: 0, col: 1 })).toBe(8);
     hf.destroy();
   });
 });
