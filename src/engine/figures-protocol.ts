@@ -21,7 +21,10 @@ export type FiguresRequest =
   | { type: 'quotes'; seq: number; quotes: Quote[] }
   | ({ type: 'whatif'; id: number } & WhatIfRequest)
   | { type: 'trial'; id: number; line: BuildLine }
-  | ({ type: 'checktrial'; id: number } & CheckTrialRequest);
+  | ({ type: 'checktrial'; id: number } & CheckTrialRequest)
+  /** The page is drawing: pause between slices of work for at most `ms` (see FiguresQueue), or until "go". */
+  | { type: 'hold'; ms: number }
+  | { type: 'go' };
 
 /** One part of an answer (see splitUpdate): `last` says the figures of the Book sent are complete. */
 export type FiguresMessage =
@@ -31,6 +34,9 @@ export type FiguresMessage =
   | { type: 'trial'; id: number; outcomes: LineOutcome[] }
   | { type: 'checktrial'; id: number; answer: CheckTrialAnswer }
   | { type: 'refused'; id: number; message: string };
+
+/** The longest the page may hold the worker with one request, in ms: a "go" that never comes costs no more. */
+export const HOLD_MAX_MS = 300;
 
 /** Quotes per message when a Book or change is sent in parts: each part takes the page a few ms to copy. */
 export const QUOTES_PER_PART = 4000;

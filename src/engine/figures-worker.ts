@@ -7,11 +7,14 @@ import { applyBookDelta } from '../domain/book-ops.ts';
 import type { BookDelta } from '../domain/book-ops.ts';
 import { createEngine } from './create.ts';
 import { LiveFigures, splitUpdate } from './figures.ts';
+import { HOLD_MAX_MS } from './figures-protocol.ts';
 import type { FiguresMessage, FiguresRequest, WhatIfRequest } from './figures-protocol.ts';
 import type { FiguresUpdate } from './figures.ts';
 import { CheckTrials } from './check-trial.ts';
 import { trialOutcomes } from './line-trial.ts';
 import { WhatIfCosts } from './what-if.ts';
+import { nextTask, runAtOnce, runInSlices } from '../domain/slices.ts';
+import type { Sliced } from '../domain/slices.ts';
 import type { WhatIfAnswer } from './what-if.ts';
 
 /** The worker's whole job, as an object so Node tests run exactly what the worker runs. */
@@ -37,6 +40,13 @@ export class FiguresHost {
 
   /** The answer to one request, in parts that are each quick for the page to take. */
   handle(request: FiguresRequest): FiguresMessage[] {
+    return runAtOnce(this.handleInSteps(request));
+  }
+
+  /** As `handle`, yielding where a Book change may pause (LiveFigures.updateInSteps). */
+  *handleInSteps(request: FiguresRequest): Sliced<FiguresMessage[]> {
+    // The page's requests to pause are for the queue that runs these steps (FiguresQueue); here they change nothing.
+    if (request?.type === 'hold' || request?.type === 'go') return [];
     if (request?.type === 'whatif') return [{ type: 'whatif', id: request.id, answer: this.whatIf(request) }];
     if (request?.type === 'trial') {
       const book = this.live.current;
@@ -69,17 +79,96 @@ export class FiguresHost {
     try {
       const staged = this.staged;
       this.staged = [];
-      if (request?.type === 'book') return answer(this.live.update(request.staged ? { ...request.book, quotes: staged } : request.book));
+      if (request?.type === 'book') return answer(yield* this.live.updateInSteps(request.staged ? { ...request.book, quotes: staged } : request.book));
       if (request?.type === 'delta') {
         const held = this.live.current;
         if (!held) return [{ type: 'failed', seq, message: 'the figures worker was sent a change before any Book' }];
-        return answer(this.live.update(applyBookDelta(held, request.staged ? withStagedQuotes(request.delta, staged) : request.delta)));
+        return answer(yield* this.live.updateInSteps(applyBookDelta(held, request.staged ? withStagedQuotes(request.delta, staged) : request.delta)));
       }
       return [{ type: 'failed', seq, message: 'the figures worker was sent something other than a Book or a change' }];
     } catch (e) {
       // The workbooks may be half-updated: start from the next Book sent.
       this.live.close();
       return [{ type: 'failed', seq, message: `the figures could not be worked out: ${e instanceof Error ? e.message : String(e)}` }];
+    }
+  }
+}
+
+/** Work between two looks at the page's requests to pause, in ms. */
+const SLICE_MS = 8;
+
+/**
+ * Runs the worker's requests one after another, each a slice at a time, and pauses between slices while the page
+ * holds it. The page asks for a hold when it is about to draw a page of its own (a switch of pages): on two cores the
+ * worker's engine work, and the compiler threads it keeps busy, took the processor from the page's frames and
+ * stretched 12 ms of drawing to 50 ms and more. A hold ends at "go" or after its time, at most HOLD_MAX_MS.
+ */
+export class FiguresQueue {
+  private readonly waiting: FiguresRequest[] = [];
+  private running = false;
+  private heldUntil = 0;
+  private wake: (() => void) | undefined;
+
+  constructor(
+    private readonly host: Pick<FiguresHost, 'handleInSteps'>,
+    private readonly post: (m: FiguresMessage) => void,
+    /** Work between two looks at the page's requests, in ms (tests look at every step). */
+    private readonly sliceMs = SLICE_MS,
+  ) {}
+
+  /** Takes one message from the page: a hold or go at once, anything else in its turn. */
+  receive(request: FiguresRequest): void {
+    if (request?.type === 'hold') {
+      this.heldUntil = Math.max(this.heldUntil, performance.now() + Math.min(Math.max(request.ms, 0), HOLD_MAX_MS));
+      return;
+    }
+    if (request?.type === 'go') {
+      this.heldUntil = 0;
+      this.wake?.();
+      return;
+    }
+    this.waiting.push(request);
+    if (!this.running) void this.drain();
+  }
+
+  /** True while a request is being worked on or waits its turn. */
+  get busy(): boolean {
+    return this.running;
+  }
+
+  private async drain(): Promise<void> {
+    this.running = true;
+    try {
+      for (let r = this.waiting.shift(); r !== undefined; r = this.waiting.shift()) {
+        await this.pause();
+        try {
+          const messages = await runInSlices(this.host.handleInSteps(r), { budgetMs: this.sliceMs, pause: () => this.pause() });
+          for (const m of messages) this.post(m);
+        } catch (e) {
+          // As an error thrown while handling a message: the page's worker error handler hears of it. The next
+          // request is still answered.
+          setTimeout(() => {
+            throw e;
+          }, 0);
+        }
+      }
+    } finally {
+      this.running = false;
+    }
+  }
+
+  /** A new task (the page's holds come in meanwhile), then a wait while held. */
+  private async pause(): Promise<void> {
+    await nextTask();
+    for (let left = this.heldUntil - performance.now(); left > 0; left = this.heldUntil - performance.now()) {
+      await new Promise<void>((resolve) => {
+        const timer = setTimeout(resolve, left);
+        this.wake = () => {
+          clearTimeout(timer);
+          resolve();
+        };
+      });
+      this.wake = undefined;
     }
   }
 }
@@ -107,10 +196,8 @@ function withStagedQuotes(delta: BookDelta, staged: Quote[]): BookDelta {
 // Only inside a dedicated worker: a page or Node importing this module for its types must not grab onmessage.
 const scope = globalThis as unknown as { WorkerGlobalScope?: unknown; onmessage: unknown; postMessage(m: unknown): void };
 if (typeof scope.WorkerGlobalScope !== 'undefined') {
-  const host = new FiguresHost();
-  scope.onmessage = (e: MessageEvent<FiguresRequest>) => {
-    for (const m of host.handle(e.data)) scope.postMessage(m);
-  };
+  const queue = new FiguresQueue(new FiguresHost(), (m) => scope.postMessage(m));
+  scope.onmessage = (e: MessageEvent<FiguresRequest>) => queue.receive(e.data);
   // Warm the formula engine (function registration, parser, compiled code) while the page is still opening the Book.
   warmEngine();
 }

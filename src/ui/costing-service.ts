@@ -22,7 +22,7 @@ import type { CheckStatus } from '../domain/check-status.ts';
 import { SYNC_KINDS } from '../engine/figures-kinds.ts';
 import type { CostingChangeDetail, FiguresUpdate, UnitCostFigure } from '../engine/figures-kinds.ts';
 import type { LiveFigures } from '../engine/figures.ts';
-import { stageQuotes } from '../engine/figures-protocol.ts';
+import { HOLD_MAX_MS, stageQuotes } from '../engine/figures-protocol.ts';
 import type { FiguresMessage, FiguresRequest, WhatIfRequest } from '../engine/figures-protocol.ts';
 import type { LineOutcome } from '../engine/line-trial.ts';
 import type { WhatIfAnswer, WhatIfCosts } from '../engine/what-if.ts';
@@ -244,6 +244,22 @@ export class CostingService extends EventTarget {
       if (r) variants.push(r);
     }
     return { variants, problems: variants.flatMap((v) => v.problems) };
+  }
+
+  /**
+   * The page is about to draw a page of its own (a switch of pages): the worker pauses between slices of its work
+   * until the page is idle, at most HOLD_MAX_MS. Its figures come that much later; the page's frames get the
+   * processor meanwhile. Nothing to do without a worker.
+   */
+  holdWhileDrawing(): void {
+    const worker = this.worker;
+    if (!worker) return;
+    worker.postMessage({ type: 'hold', ms: HOLD_MAX_MS });
+    const go = (): void => {
+      if (this.worker === worker) worker.postMessage({ type: 'go' });
+    };
+    if (typeof requestIdleCallback === 'function') requestIdleCallback(go, { timeout: HOLD_MAX_MS });
+    else setTimeout(go, 0);
   }
 
   /**

@@ -329,6 +329,8 @@ export class RbApp extends LitElement {
   }
 
   private go(route: Route): void {
+    // The new page draws first; the figures worker waits for it.
+    if (this.phase.kind === 'open') CostingService.for(this.phase.service).holdWhileDrawing();
     this.route = route;
     this.notice = undefined;
     this.show(route);

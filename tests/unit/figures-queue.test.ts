@@ -1,0 +1,138 @@
+// The figures worker's queue: requests answered one after another, a Book change worked out in parts, and the pause
+// between parts while the page holds the worker to draw a page of its own (src/engine/figures-worker.ts).
+import { describe, expect, it } from 'vitest';
+import { bookDelta } from '../../src/domain/book-ops.ts';
+import { demoBook } from '../../src/domain/demo-book.ts';
+import type { Sliced } from '../../src/domain/slices.ts';
+import { VARIANTS_PER_RELINE } from '../../src/engine/figures.ts';
+import { FiguresHost, FiguresQueue } from '../../src/engine/figures-worker.ts';
+import type { FiguresMessage, FiguresRequest } from '../../src/engine/figures-worker.ts';
+import { HOLD_MAX_MS } from '../../src/engine/figures-protocol.ts';
+import { referenceFamily } from '../fixtures/reference-family.ts';
+
+const later = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
+
+/** Waits (a few ms at a time, 5 s at most) until `done` is true. */
+async function until(done: () => boolean): Promise<void> {
+  for (let waited = 0; !done(); waited += 5) {
+    if (waited > 5_000) throw new Error('waited 5 s in vain');
+    await later(5);
+  }
+}
+
+/** A host whose one request takes steps named in `steps`, calling `at[step]` as that step runs. */
+function steppedHost(steps: string[], ran: string[], at: Record<string, () => void> = {}): Pick<FiguresHost, 'handleInSteps'> {
+  return {
+    *handleInSteps(request: FiguresRequest): Sliced<FiguresMessage[]> {
+      for (const [i, step] of steps.entries()) {
+        if (i > 0) yield;
+        ran.push(step);
+        at[step]?.();
+      }
+      return [{ type: 'failed', seq: request.type === 'delta' ? request.seq : -1, message: 'done' }];
+    },
+  };
+}
+
+/** A change for the stepped hosts above, which never read it. */
+const DELTA: FiguresRequest = { type: 'delta', seq: 1, delta: bookDelta(demoBook(), demoBook()) };
+
+describe('A build line edit in the figures worker', () => {
+  it('is worked out in parts of a few dozen variants on the reference family, with every unit cost it moves', () => {
+    const book = referenceFamily().book;
+    const host = new FiguresHost();
+    host.handle({ type: 'book', seq: 0, book });
+    const line = book.buildLines.find((l) => /^\d+$/.test(l.qtyRule) && l.appliesWhen === '' && l.partId !== undefined)!;
+    const next = { ...book, buildLines: book.buildLines.map((l) => (l.id === line.id ? { ...l, rev: l.rev + 1, qtyRule: String(Number(l.qtyRule) + 1) } : l)) };
+    const steps = host.handleInSteps({ type: 'delta', seq: 1, delta: bookDelta(book, next) });
+    let parts = 1;
+    let r = steps.next();
+    for (; !r.done; r = steps.next()) parts++;
+    // Every variant buys the line: 200 variants in parts of VARIANTS_PER_RELINE, after the family step.
+    const fitting = book.variants.length;
+    expect(parts).toBeGreaterThanOrEqual(Math.ceil(fitting / VARIANTS_PER_RELINE));
+    const last = r.value.at(-1)!;
+    expect(last.type).toBe('figures');
+    if (last.type !== 'figures') return;
+    expect(last.last).toBe(true);
+    expect(last.update.kind).toBe('edited');
+    expect(last.update.changed.length).toBe(fitting * book.settings.runSizes.length);
+  });
+});
+
+describe('The figures worker queue', () => {
+  it('answers requests in the order sent, as the host answers them one by one', async () => {
+    const book = referenceFamily().book;
+    const line = book.buildLines.find((l) => /^\d+$/.test(l.qtyRule) && l.appliesWhen === '' && l.partId !== undefined)!;
+    const next = { ...book, buildLines: book.buildLines.map((l) => (l.id === line.id ? { ...l, rev: l.rev + 1, qtyRule: '7' } : l)) };
+    const requests: FiguresRequest[] = [
+      { type: 'book', seq: 0, book },
+      { type: 'delta', seq: 1, delta: bookDelta(book, next) },
+      { type: 'trial', id: 3, line: { ...line, qtyRule: '9' } },
+    ];
+    const expected = (() => {
+      const host = new FiguresHost();
+      return requests.flatMap((r) => host.handle(structuredClone(r)));
+    })();
+    const posted: FiguresMessage[] = [];
+    const queue = new FiguresQueue(new FiguresHost(), (m) => posted.push(m));
+    for (const r of requests) queue.receive(structuredClone(r));
+    await until(() => !queue.busy);
+    expect(posted).toEqual(expected);
+  });
+
+  it('pauses between steps from a hold until "go", then finishes', async () => {
+    const ran: string[] = [];
+    const posted: FiguresMessage[] = [];
+    let queue: FiguresQueue | undefined;
+    const host = steppedHost(['a', 'b', 'c'], ran, { a: () => queue!.receive({ type: 'hold', ms: HOLD_MAX_MS }) });
+    queue = new FiguresQueue(host, (m) => posted.push(m), 0);
+    queue.receive(DELTA);
+    await until(() => ran.length > 0);
+    await later(60);
+    // Held after step a: nothing more ran, nothing was answered.
+    expect(ran).toEqual(['a']);
+    expect(posted).toEqual([]);
+    queue.receive({ type: 'go' });
+    await until(() => posted.length > 0);
+    expect(ran).toEqual(['a', 'b', 'c']);
+    expect(posted).toEqual([{ type: 'failed', seq: 1, message: 'done' }]);
+  });
+
+  it('goes on by itself when a hold runs out, and never holds longer than HOLD_MAX_MS', async () => {
+    const ran: string[] = [];
+    const posted: FiguresMessage[] = [];
+    let heldAt = 0;
+    let queue: FiguresQueue | undefined;
+    const host = steppedHost(['a', 'b'], ran, {
+      a: () => {
+        heldAt = performance.now();
+        // Asked for far longer than allowed: the queue keeps to its own bound.
+        queue!.receive({ type: 'hold', ms: 60_000 });
+      },
+    });
+    queue = new FiguresQueue(host, (m) => posted.push(m), 0);
+    queue.receive(DELTA);
+    await until(() => posted.length > 0);
+    const waited = performance.now() - heldAt;
+    expect(ran).toEqual(['a', 'b']);
+    // Not before the bound (a timer never fires early), and not held for the minute asked.
+    expect(waited).toBeGreaterThanOrEqual(HOLD_MAX_MS - 1);
+    expect(waited).toBeLessThan(30_000);
+  });
+
+  it('waits for a hold sent before a request arrives, and takes requests that come meanwhile in order', async () => {
+    const ran: string[] = [];
+    const posted: FiguresMessage[] = [];
+    const queue = new FiguresQueue(steppedHost(['a', 'b'], ran), (m) => posted.push(m), 0);
+    queue.receive({ type: 'hold', ms: HOLD_MAX_MS });
+    queue.receive(DELTA);
+    queue.receive({ ...DELTA, seq: 2 });
+    await later(60);
+    expect(ran).toEqual([]);
+    queue.receive({ type: 'go' });
+    await until(() => posted.length === 2);
+    expect(posted.map((m) => (m.type === 'failed' ? m.seq : -1))).toEqual([1, 2]);
+    expect(ran).toEqual(['a', 'b', 'a', 'b']);
+  });
+});
