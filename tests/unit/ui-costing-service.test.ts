@@ -15,6 +15,7 @@ import { loadBuiltInChecks } from '../../src/cli/check-sheets-fs.ts';
 import { costVariant } from '../../src/io/run-export.ts';
 import { referenceFamily } from '../fixtures/reference-family.ts';
 import { FiguresHost, QUOTES_PER_PART, stageQuotes } from '../../src/engine/figures-worker.ts';
+import { HOLD_MAX_MS } from '../../src/engine/figures-protocol.ts';
 import type { FiguresRequest } from '../../src/engine/figures-worker.ts';
 import { costingInWorker } from '../fixtures/fake-figures-worker.ts';
 import type { FakeWorker } from '../fixtures/fake-figures-worker.ts';
@@ -249,6 +250,23 @@ describe('CostingService with the figures worker', () => {
     expect(workers[0]!.sent.map((m) => m.type)).toEqual(['book']);
     // The first answer came in parts (8 variants, 24 unit costs), merged into one set of figures and one event.
     expect(workers[0]!.answered).toBeGreaterThan(4);
+  });
+
+  it('holds the worker while the page draws a page of its own, then lets it go on, and still gives the fresh figures', async () => {
+    const { holder, costing, workers } = startInWorker();
+    // No worker yet: nothing to hold.
+    costing.holdWhileDrawing();
+    await settled(costing);
+    const line = holder.book.buildLines.find((l) => /^\d+$/.test(l.qtyRule) && l.appliesWhen === '')!;
+    holder.change({ put: { buildLines: [{ ...line, qtyRule: String(Number(line.qtyRule) + 1) }] } });
+    costing.sync();
+    costing.holdWhileDrawing();
+    const sent = () => workers[0]!.sent.map((m) => (m.type === 'hold' ? `hold ${m.ms}` : m.type));
+    expect(sent()).toEqual(['book', 'delta', `hold ${HOLD_MAX_MS}`]);
+    await settled(costing);
+    await new Promise((r) => setTimeout(r, 10));
+    expect(sent()).toEqual(['book', 'delta', `hold ${HOLD_MAX_MS}`, 'go']);
+    expect(live(costing, holder.book)).toEqual(fresh(holder.book));
   });
 
   it('sends only what changed, catches up with edits made while it was answering, and agrees with a fresh workbook', async () => {
