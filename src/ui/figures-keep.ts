@@ -126,10 +126,12 @@ export function fromKeptJson(text: string): ShippedFigures {
 }
 
 /**
- * Asks for the figures shipped with this build for the demo Book, given only if `wanted` (a first start) says so.
- * Undefined when none are shipped, or offline and not stored.
+ * Asks for the figures shipped with this build for the demo Book. They are shown only for a Book whose key they carry
+ * (keptFiguresOf): the demo Book as a first start writes it, on that start or a later one before the Book changed
+ * (a reload before the first start's own figures were kept). Undefined when none are shipped, or offline and not
+ * stored.
  */
-export async function fetchShippedFigures(url: string, wanted: Promise<boolean>): Promise<ShippedFigures | undefined> {
+export async function fetchShippedFigures(url: string): Promise<ShippedFigures | undefined> {
   try {
     const response = await fetch(url);
     if (!response.ok) {
@@ -137,8 +139,7 @@ export async function fetchShippedFigures(url: string, wanted: Promise<boolean>)
       return undefined;
     }
     // Read as soon as they come, while the Book is still being opened: they are asked for only when nothing is kept.
-    const figures = fromKeptJson(await response.text());
-    return (await wanted) ? figures : undefined;
+    return fromKeptJson(await response.text());
   } catch {
     return undefined;
   }
@@ -176,7 +177,7 @@ export async function keptFiguresOf(kept: ShippedFigures | KeptFigures | undefin
 export interface StartFigures {
   /** What is kept for the Book (read only if its database exists). */
   kept: Promise<KeptFigures | undefined>;
-  /** What the build ships for the demo Book: asked for when nothing is kept, read on a first start. */
+  /** What the build ships for the demo Book: asked for when nothing is kept (shown only for the Book it is keyed by). */
   shipped: Promise<ShippedFigures | undefined>;
   /** Whether one of them will likely be shown (figures kept, or a first start), for starting the worker later. */
   likely: Promise<boolean>;
@@ -185,8 +186,7 @@ export interface StartFigures {
 /**
  * Asks for the figures a start may show, and opens the Book (`openBook`, told whether the list of databases lacks the
  * Book's, a likely first start) at the same time. The kept figures' database is read only if the list names it, so it
- * is not created just to be read; the shipped figures are fetched when nothing is kept, and given only if the Book
- * started fresh. The list is taken beside the opening, which creates the Book's database on a first start, so a
+ * is not created just to be read; the shipped figures are fetched when nothing is kept. The list is taken beside the opening, which creates the Book's database on a first start, so a
  * first start is told by the opening, never by the list.
  */
 export async function startFigures<T extends { startedFresh: boolean }>(
@@ -201,7 +201,7 @@ export async function startFigures<T extends { startedFresh: boolean }>(
   const opening = openBook(names.then((n) => n !== undefined && !n.has(bookDb)));
   const fresh = opening.then((b) => b.startedFresh, () => false);
   const kept = names.then((n) => (n !== undefined && !n.has(dbName) ? undefined : readKeptFigures(bookDb, dbName)));
-  const shipped = kept.then((k) => (k ? undefined : fetchShippedFigures(shippedUrl, fresh)));
+  const shipped = kept.then((k) => (k ? undefined : fetchShippedFigures(shippedUrl)));
   const likely = kept.then((k) => k !== undefined || fresh);
   return { figures: { kept, shipped, likely }, opening };
 }

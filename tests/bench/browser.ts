@@ -41,7 +41,7 @@ export const FAMILY_COST_CELLS = [
  * Runs in every document before the app's scripts: each animation frame it looks (through shadow roots) for the
  * family table and a cost cell, and notes the time since navigation start. A string, so no build helper leaks in.
  */
-function firstViewProbe(costCells: readonly { container: string; cell: string }[]): string {
+export function firstViewProbe(costCells: readonly { container: string; cell: string }[]): string {
   return `(() => {
   if (location.pathname.includes('/tests/bench/')) return;
   const found = {};
@@ -130,6 +130,8 @@ export async function firstViewFigures(context: BrowserContext, appUrl: string, 
     chromium: /Chrome\/([\d.]+)/.exec(userAgent)?.[1] ?? 'unknown',
     first_view_ms: round(shown(cold)),
     first_view_warm_ms: round(median(warm.map(shown))),
+    // Each reload's figure, in order: the median hides whether a slow one is the first reload or any.
+    first_view_warm_each_ms: warm.map((v) => round(shown(v))).join(' '),
     first_view_table_ms: round(cold.table!),
     first_view_book: 'demo Book written on first start of a fresh browser profile; warm = reload with the offline copy installed',
   };

@@ -230,6 +230,35 @@ describe('the figures a start asks for beside the Book', () => {
     }
   });
 
+  it('takes the shipped figures on a later start of the demo Book as first written, when nothing was kept yet', async () => {
+    // A reload right after a first start, before that start's own figures were kept.
+    const db = freshDb();
+    const bookDb = `start-again-${Date.now()}`;
+    const first = await BookService.open(bookDb);
+    expect(first.startedFresh).toBe(true);
+    first.close();
+    const shippedText = keptJson(await keptDemoFigures(ENGINE));
+    const fetched = fetchCounting(shippedText);
+    try {
+      const { figures, opening } = await startFigures(bookDb, '/kept.json', () => BookService.open(bookDb), indexedDB, db);
+      const again = await opening;
+      try {
+        expect(again.startedFresh).toBe(false);
+        expect(await figures.kept).toBeUndefined();
+        expect(fetched.asked()).toBe(1);
+        const shipped = await figures.shipped;
+        expect(await keptFiguresOf(shipped, again.book, ENGINE)).toEqual(fromKeptJson(shippedText).update);
+        // The demo Book changed since: they are not its figures.
+        const changed = { ...again.book, variants: again.book.variants.slice(1) };
+        expect(await keptFiguresOf(shipped, changed, ENGINE)).toBeUndefined();
+      } finally {
+        again.close();
+      }
+    } finally {
+      fetched.restore();
+    }
+  });
+
   it('keeps figures in a kept-figures database that something else made without its store', async () => {
     const db = freshDb();
     await new Promise<void>((resolve, reject) => {
@@ -261,10 +290,11 @@ describe('the figures a start asks for beside the Book', () => {
       expect(fetched.asked()).toBe(0);
 
       // Nothing kept for a Book that exists: no guess (the worker warms up at once); the shipped figures are asked
-      // for, and not read, as the Book did not start fresh.
+      // for, and are not this Book's (their key is the demo Book's).
       const other = await startFigures(bookDb, '/kept.json', async () => ({ startedFresh: false }), indexedDB, freshDb());
       expect(await other.figures.likely).toBe(false);
-      expect(await other.figures.shipped).toBeUndefined();
+      expect(fetched.asked()).toBe(1);
+      expect(await keptFiguresOf(await other.figures.shipped, s.book, ENGINE)).toBeUndefined();
     } finally {
       fetched.restore();
       service.close();
