@@ -102,8 +102,8 @@ export function lineSummaries(book: Book, family: FamilyResolution): Map<string,
  * Tries a line (new or edited) on every variant of the Book. A line's rules read variant parameters only, so how a
  * variant resolves it depends on the other lines only through its role: an earlier line of the same role that fits
  * a part takes the role first. The trial resolves the line with those lines alone, not the whole family: the same
- * outcome for a fraction of the work (the reference family's 80 lines took a trial about 190 ms on the figures
- * worker, while the person was typing and saving).
+ * outcome for a fraction of the work (with the reference family's 80 lines a trial took 30 ms in Node, now 7 ms; in
+ * a Chrome trace the trial before a save took the figures worker 48 ms of CPU, then 15 ms).
  */
 export function trialOutcomes(book: Book, line: BuildLine): LineOutcome[] {
   const role = line.role ? nameKey(line.role) : '';
