@@ -562,7 +562,7 @@ export class CostingWorkbook {
    * error when the layout cannot take it in place (overridden figures, an unknown variant) and the workbook must be
    * opened again.
    */
-  relineVariants(lines: ReadonlyMap<string, readonly ResolvedLine[]>, buildLines: readonly BuildLine[] = this.book.buildLines): Result<ChangedCost[]> {
+  relineVariants(lines: ReadonlyMap<string, readonly ResolvedLine[]>, buildLines: BuildLine[] = this.book.buildLines): Result<ChangedCost[]> {
     const layout = this.layout;
     if (!layout) return { ok: false, error: 'the workbook was not opened from a Book: open it again' };
     for (const id of lines.keys()) {
@@ -571,7 +571,9 @@ export class CostingWorkbook {
       if (this.expanded.has(row)) return { ok: false, error: 'a variant with overridden figures: open the workbook again' };
     }
     if (buildLines !== this.book.buildLines) {
-      this.book = { ...this.book, buildLines: [...buildLines] };
+      // The Book's own list, kept as given (Books are never changed in place): a line edit relined in parts passes
+      // the same list to every part, and the costing context is worked out once.
+      this.book = { ...this.book, buildLines };
       this.ctxCache = undefined;
     }
     const ctx = this.context();

@@ -139,7 +139,8 @@ export class FiguresQueue {
   private async drain(): Promise<void> {
     this.running = true;
     try {
-      for (let r = this.waiting.shift(); r !== undefined; r = this.waiting.shift()) {
+      while (this.waiting.length > 0) {
+        const r = this.waiting.shift()!;
         await this.pause();
         try {
           const messages = await runInSlices(this.host.handleInSteps(r), { budgetMs: this.sliceMs, pause: () => this.pause() });

@@ -163,6 +163,8 @@ export async function readKeptFigures(bookDb: string, dbName: string = KEPT_FIGU
 /** The kept figures when they are of `book` exactly, at its costing date, by this build of the engines. */
 export async function keptFiguresOf(kept: ShippedFigures | KeptFigures | undefined, book: Book, engine: string): Promise<FiguresUpdate | undefined> {
   if (!kept) return undefined;
+  // Figures of another build never match: known without digesting the Book.
+  if (typeof kept.key !== 'string' || !kept.key.startsWith(`${engine}|`)) return undefined;
   const key = await figuresKey(book, engine).catch(() => undefined);
   if (key === undefined || kept.key !== key) return undefined;
   if ('update' in kept) return kept.update;
@@ -179,7 +181,10 @@ export interface StartFigures {
   kept: Promise<KeptFigures | undefined>;
   /** What the build ships for the demo Book: asked for when nothing is kept (shown only for the Book it is keyed by). */
   shipped: Promise<ShippedFigures | undefined>;
-  /** Whether one of them will likely be shown (figures kept, or a first start), for starting the worker later. */
+  /**
+   * Whether one of them will likely be shown (figures kept, or a first start), for starting the worker later. A later
+   * start whose Book turns out to be the one the shipped figures are of is not foreseen: its worker warms up early.
+   */
   likely: Promise<boolean>;
 }
 

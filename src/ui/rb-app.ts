@@ -239,7 +239,12 @@ export class RbApp extends LitElement {
   @state() private repairProblems: string[] = [];
   private readonly provider = new ContextProvider(this, { context: bookContext });
   private readonly pageElements = new Map<string, HTMLElement>();
-  private readonly onHash = (): void => this.go(parseRoute(location.hash));
+  private readonly onHash = (): void => {
+    // A page switch: the new page draws first, the figures worker waits for it (not at the start, where the first
+    // Book's figures never wait).
+    if (this.phase.kind === 'open') CostingService.for(this.phase.service).holdWhileDrawing();
+    this.go(parseRoute(location.hash));
+  };
   private readonly onServiceChange = (): void => this.requestUpdate();
 
   override connectedCallback(): void {
@@ -329,8 +334,6 @@ export class RbApp extends LitElement {
   }
 
   private go(route: Route): void {
-    // The new page draws first; the figures worker waits for it.
-    if (this.phase.kind === 'open') CostingService.for(this.phase.service).holdWhileDrawing();
     this.route = route;
     this.notice = undefined;
     this.show(route);

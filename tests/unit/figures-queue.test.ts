@@ -81,6 +81,15 @@ describe('The figures worker queue', () => {
     expect(posted).toEqual(expected);
   });
 
+  it('answers a message it cannot read and goes on with the next', async () => {
+    const posted: FiguresMessage[] = [];
+    const queue = new FiguresQueue(new FiguresHost(), (m) => posted.push(m));
+    queue.receive(undefined as unknown as FiguresRequest);
+    queue.receive({ type: 'trial', id: 7, line: demoBook().buildLines[0]! });
+    await until(() => posted.length === 2 && !queue.busy);
+    expect(posted.map((m) => m.type)).toEqual(['failed', 'refused']);
+  });
+
   it('pauses between steps from a hold until "go", then finishes', async () => {
     const ran: string[] = [];
     const posted: FiguresMessage[] = [];
