@@ -306,10 +306,9 @@ export class LiveFigures {
     if (!costingRebuild && moved.size > 0 && this.family) {
       // A few dozen variants at a time, each part evaluated on its own: the same cells in the end, as variants read
       // cells that others add and never change them.
-      yield;
       const lines = [...this.linesOf([...moved])];
       for (let i = 0; i < lines.length && !costingRebuild; i += VARIANTS_PER_RELINE) {
-        if (i > 0) yield;
+        yield;
         const r = this.costing!.relineVariants(new Map(lines.slice(i, i + VARIANTS_PER_RELINE)), next.buildLines);
         if (r.ok) changed.push(...r.value);
         else costingRebuild = true;

@@ -107,7 +107,7 @@ export function lineSummaries(book: Book, family: FamilyResolution): Map<string,
  */
 export function trialOutcomes(book: Book, line: BuildLine): LineOutcome[] {
   const role = line.role ? nameKey(line.role) : '';
-  const rivals = role === '' ? [] : book.buildLines.filter((l) => l.id !== line.id && l.role !== undefined && nameKey(l.role) === role);
-  const trial: Book = { ...book, buildLines: [...rivals, line], checks: [] };
+  const rivals = role === '' ? [] : book.buildLines.filter((l) => l.role !== undefined && nameKey(l.role) === role);
+  const trial = withLine({ ...book, buildLines: rivals, checks: [] }, line);
   return lineOutcomes(trial, resolveFamily(trial), new Set([line.id])).get(line.id)!;
 }

@@ -191,8 +191,9 @@ export interface StartFigures {
 /**
  * Asks for the figures a start may show, and opens the Book (`openBook`, told whether the list of databases lacks the
  * Book's, a likely first start) at the same time. The kept figures' database is read only if the list names it, so it
- * is not created just to be read; the shipped figures are fetched when nothing is kept. The list is taken beside the opening, which creates the Book's database on a first start, so a
- * first start is told by the opening, never by the list.
+ * is not created just to be read; the shipped figures are fetched when nothing is kept. The list is taken beside the
+ * opening, which creates the Book's database on a first start, so a first start is told by the opening, never by the
+ * list.
  */
 export async function startFigures<T extends { startedFresh: boolean }>(
   bookDb: string,
