@@ -344,6 +344,37 @@ describe('replaceAll', () => {
     await store.replaceAll(next);
     expect(await store.load()).toEqual(next);
   });
+
+  /** The sample Book with `n` more parts, ids in the order the store keeps them. */
+  function withManyParts(n: number): Book {
+    const book = sampleBook();
+    const more = Array.from({ length: n }, (_, i) => ({ ...newPart(`part_many_${String(i).padStart(5, '0')}`, `KT-MANY-${i}`), rev: 1 }));
+    book.parts = [...book.parts, ...more].sort((a, b) => (a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
+    return book;
+  }
+
+  it('writes a Book of many parts whole, through several steps of writes', async () => {
+    const { store } = await fresh();
+    // 4,500 parts: the writes wait for their ends at least twice on the way (a step is 2,000 records or 12 ms).
+    const book = withManyParts(4500);
+    await store.replaceAll(book);
+    expect(await store.load()).toEqual(book);
+  });
+
+  it('leaves the old Book whole when a write fails in the store, after steps of writes have ended', async () => {
+    const { store } = await fresh();
+    await store.replaceAll(sampleBook());
+    const before = await store.load();
+    // The variants are written after the 4,500 parts: the second variant's code is already taken, which the store's
+    // uniqueness rule refuses when the request runs, not when it is made.
+    const next = withManyParts(4500);
+    const code = next.variants[0]!.code;
+    next.variants = [...next.variants, { id: 'var_zz_same_code', rev: 1, code, name: 'same code', params: {} }];
+    const err = await store.replaceAll(next).catch((e: unknown) => e);
+    expect(err).toBeInstanceOf(StoreWriteFailed);
+    expect((err as Error).message).toMatch(/uniqueness rule/);
+    expect(await store.load()).toEqual(before);
+  });
 });
 
 describe('another tab upgrading the schema', () => {
