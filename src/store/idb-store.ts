@@ -1,8 +1,8 @@
 // The Book kept in IndexedDB: one database per Book, every change in one transaction with revision checks.
 import { unwrap, wrap } from 'idb';
 import type { IDBPDatabase, IDBPTransaction } from 'idb';
-import { COLLECTIONS, defaultSettings, emptyBook, mpnKey } from '../domain/book.ts';
-import type { Book, CollectionName, CollectionRecord, Part, Quote, Settings } from '../domain/book.ts';
+import { COLLECTIONS, defaultSettings, emptyBook } from '../domain/book.ts';
+import type { Book, CollectionName, Part, Quote, Settings } from '../domain/book.ts';
 import { bumped, revisionMatches, touchedCollections } from '../domain/book-ops.ts';
 import type { BookChange, RecordIds, StoredRecords } from '../domain/book-ops.ts';
 import { ITEMS_PER_LOOK, runInSlices } from '../domain/slices.ts';
@@ -150,10 +150,6 @@ function describe(e: unknown): string {
   return e instanceof Error ? e.message : String(e);
 }
 
-function toStored<C extends CollectionName>(c: C, record: CollectionRecord<C>): CollectionRecord<C> | StoredPart {
-  return c === 'parts' ? { ...(record as Part), mpnKey: mpnKey((record as Part).mpn) } : record;
-}
-
 /**
  * The Book as `load()` gives it back after `replaceAll`: each collection in id order, the order IndexedDB keeps
  * records in. The Book was checked before it was written, so reading it back to check it again is not needed.
@@ -164,7 +160,9 @@ export function asStored(book: Book): Book {
   return out;
 }
 
+/** A part as the Book holds it: without the field parts written before schema 4 carry (see StoredPart). */
 function fromStoredPart(p: StoredPart): Part {
+  if (!('mpnKey' in p)) return p;
   const { mpnKey: _derived, ...part } = p;
   return part;
 }
@@ -353,7 +351,7 @@ export class IdbBookStore implements BookStore {
         if (c === 'quotes') continue;
         const store = tx.objectStore(c);
         for (const r of change.put?.[c] ?? []) {
-          const stored = toStored(c, bumped(r)) as never;
+          const stored = bumped(r) as never;
           if (r.rev !== 0) writes.add(store.put(stored));
           else writes.add(store.add(stored).catch((e: unknown) => Promise.reject((failedAdd ??= { c, id: r.id, e }).e)));
           await writes.step();
@@ -390,7 +388,7 @@ export class IdbBookStore implements BookStore {
         if (c === 'quotes') continue;
         const store = unwrap(tx.objectStore(c));
         for (const r of book[c]) {
-          writes.addPlain(store.put(toStored(c, r)));
+          writes.addPlain(store.put(r));
           await writes.step();
         }
       }

@@ -2,9 +2,12 @@
 import type { DBSchema } from 'idb';
 import type { BuildLine, Check, ImportBatch, NotebookPage, Order, Part, PriceList, Quote, Run, Settings, StockMove, Supplier, Variant } from '../domain/book.ts';
 
-/** A part as stored: with its normalised maker part number, so look-ups by MPN use an index. */
+/**
+ * A part as schemas 1–3 stored it: with its normalised maker part number, for an index step 4 dropped. Parts written
+ * since carry nothing more than the Part; reading drops the field from older ones.
+ */
 export interface StoredPart extends Part {
-  mpnKey: string;
+  mpnKey?: string;
 }
 
 /**
@@ -56,25 +59,25 @@ export interface MetaRecord {
 }
 
 export interface RungbookDB extends DBSchema {
-  parts: { key: string; value: StoredPart; indexes: { byMpnKey: string; byKind: string } };
-  suppliers: { key: string; value: Supplier; indexes: { byName: string } };
+  parts: { key: string; value: StoredPart };
+  suppliers: { key: string; value: Supplier };
   /** Quotes in QUOTE_BUCKETS records, each quote in the bucket its id hashes to (see quoteBucketKey). */
   quotes: { key: string; value: QuoteBucket };
   variants: { key: string; value: Variant; indexes: { byCode: string } };
-  buildLines: { key: string; value: BuildLine; indexes: { byPart: string; byPosition: number } };
-  checks: { key: string; value: Check; indexes: { byName: string } };
-  runs: { key: string; value: Run; indexes: { byVariant: string } };
-  importBatches: { key: string; value: ImportBatch; indexes: { bySupplier: string; byHash: string } };
+  buildLines: { key: string; value: BuildLine };
+  checks: { key: string; value: Check };
+  runs: { key: string; value: Run };
+  importBatches: { key: string; value: ImportBatch };
   pages: { key: string; value: NotebookPage };
-  orders: { key: string; value: Order; indexes: { bySupplier: string; byNumber: string } };
-  stockMoves: { key: string; value: StockMove; indexes: { byPart: string } };
-  priceLists: { key: string; value: PriceList; indexes: { byName: string } };
+  orders: { key: string; value: Order };
+  stockMoves: { key: string; value: StockMove };
+  priceLists: { key: string; value: PriceList };
   settings: { key: 'settings'; value: Settings };
   meta: { key: 'schema'; value: MetaRecord };
 }
 
 /** Schema version of the stored Book data (its own numbered steps; the Book file format has its own version). */
-export const SCHEMA_VERSION = 3 as const;
+export const SCHEMA_VERSION = 4 as const;
 
 /**
  * IndexedDB versions are integers from 1, and version 1 of the `rungbook` database was used by the unreleased

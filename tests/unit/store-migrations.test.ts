@@ -8,7 +8,7 @@ import type { Settings } from '../../src/domain/book.ts';
 import { openBookStore } from '../../src/store/idb-store.ts';
 import { MIGRATIONS, migrationProblems, stepsToRun } from '../../src/store/migrations.ts';
 import type { Migration } from '../../src/store/migrations.ts';
-import { idbVersionOf, schemaVersionOf } from '../../src/store/schema.ts';
+import { idbVersionOf, SCHEMA_VERSION, schemaVersionOf } from '../../src/store/schema.ts';
 import { buildPrototypeDb } from '../fixtures/store-v0-prototype.ts';
 import { sampleBook } from '../fixtures/sample-book.ts';
 
@@ -109,8 +109,9 @@ describe('upgrade from the prototype database (schema 0)', () => {
     const db = await rawOpen(factory, 'rungbook-proto');
     expect(db.version).toBe(idbVersionOf(LAST));
     expect(Array.from(db.objectStoreNames)).not.toContain('kv');
-    const found = await rawGet(db.transaction('parts').objectStore('parts').index('byMpnKey').getAll(mpnKey('KT-R0603-473')));
-    expect(found.map((p: { id: string }) => p.id)).toEqual(['p1']);
+    // Step 1 stored each part with its normalised maker part number (for an index step 4 dropped); reading leaves it out.
+    const p1 = await rawGet(db.transaction('parts').objectStore('parts').get('p1'));
+    expect(p1).toMatchObject({ id: 'p1', mpnKey: mpnKey('KT-R0603-473') });
     db.close();
   });
 });
@@ -146,8 +147,7 @@ describe('step 2: stores for orders and stock movements', () => {
     expect(await v2.load()).toEqual(sample);
     v2.close();
     const db = await rawOpen(factory, 'rungbook-step2');
-    expect(Array.from(db.transaction('stockMoves').objectStore('stockMoves').indexNames)).toEqual(['byPart']);
-    expect(Array.from(db.transaction('orders').objectStore('orders').indexNames)).toEqual(['byNumber', 'bySupplier']);
+    expect(Array.from(db.objectStoreNames)).toEqual(expect.arrayContaining(['orders', 'stockMoves']));
     db.close();
   });
 });
@@ -178,8 +178,57 @@ describe('step 3: a store for customer price lists', () => {
     expect((await v3.load()).priceLists).toEqual(sample.priceLists.map((l) => ({ ...l, rev: 1 })));
     v3.close();
     const db = await rawOpen(factory, 'rungbook-step3');
-    expect(Array.from(db.transaction('priceLists').objectStore('priceLists').indexNames)).toEqual(['byName']);
+    expect(Array.from(db.objectStoreNames)).toContain('priceLists');
     db.close();
+  });
+});
+
+describe('step 4: the indexes nothing reads are dropped', () => {
+  it('keeps every record of a schema-3 database, keeps the unique variant code and writes parts as the Book holds them', async () => {
+    const factory = new IDBFactory();
+    const sample = sampleBook();
+    (await openBookStore('rungbook-step4', { factory, migrations: MIGRATIONS.slice(0, 3) })).close();
+    const raw3 = await rawOpen(factory, 'rungbook-step4');
+    const indexes = (db: IDBDatabase): Record<string, string[]> => {
+      const names = Array.from(db.objectStoreNames);
+      const tx = db.transaction(names);
+      return Object.fromEntries(names.map((n) => [n, Array.from(tx.objectStore(n).indexNames)]));
+    };
+    expect(indexes(raw3)['parts']).toEqual(['byKind', 'byMpnKey']);
+    // Records as schema 3 kept them, written straight into its stores: parts with their normalised maker part number.
+    const tx = raw3.transaction(['parts', 'suppliers', 'variants', 'buildLines', 'runs', 'settings'], 'readwrite');
+    tx.objectStore('settings').put(sample.settings);
+    for (const p of sample.parts) tx.objectStore('parts').put({ ...p, mpnKey: mpnKey(p.mpn) });
+    for (const x of sample.suppliers) tx.objectStore('suppliers').put(x);
+    for (const x of sample.variants) tx.objectStore('variants').put(x);
+    for (const x of sample.buildLines) tx.objectStore('buildLines').put(x);
+    for (const x of sample.runs) tx.objectStore('runs').put(x);
+    await new Promise((resolve) => (tx.oncomplete = resolve));
+    raw3.close();
+
+    const v4 = await openBookStore('rungbook-step4', { factory });
+    expect(await v4.schemaVersion()).toBe(4);
+    const book = await v4.load();
+    expect([book.parts, book.suppliers, book.variants, book.buildLines, book.runs, book.settings]).toEqual([
+      sample.parts, sample.suppliers, sample.variants, sample.buildLines, sample.runs, sample.settings,
+    ]);
+    // Two variants with one code are still refused: the index is a rule of the Book, not a look-up.
+    const taken = { ...sample.variants[1]!, id: 'var_other', rev: 0, code: sample.variants[0]!.code };
+    await expect(v4.apply({ put: { variants: [taken] } })).rejects.toThrow(/uniqueness rule/);
+    await v4.replaceAll(sample);
+    expect(await v4.load()).toEqual(sample);
+    v4.close();
+
+    const db = await rawOpen(factory, 'rungbook-step4');
+    const left = indexes(db);
+    expect(Object.entries(left).filter(([, names]) => names.length > 0)).toEqual([['variants', ['byCode']]]);
+    // A part written now is stored as the Book holds it.
+    expect(await rawGet(db.transaction('parts').objectStore('parts').get(sample.parts[0]!.id))).toEqual(sample.parts[0]);
+    db.close();
+  });
+
+  it('is the schema the store names as its newest', () => {
+    expect(SCHEMA_VERSION).toBe(MIGRATIONS.length);
   });
 });
 
