@@ -2,6 +2,7 @@
 // check status and unit cost at every run size beside them — plus copy and paste of tab-separated blocks, add,
 // duplicate, delete, a form for notes and parameters of the Book's own, and undo / redo of every step.
 import { LitElement, css, html, nothing } from 'lit';
+import type { TemplateResult } from 'lit';
 import { customElement, query, state } from 'lit/decorators.js';
 import type { Book, Variant } from '../domain/book.ts';
 import type { BookChange } from '../domain/book-ops.ts';
@@ -441,7 +442,9 @@ export class RbFamilyPage extends LitElement {
     if (variants.length === 0) return html``;
     // A large family's table is long: it folds away (drawn only when opened) and the grid above holds the same figures.
     const folded = variants.length >= WINDOW_FROM;
-    const table = html`<table class="glance" data-testid="family-glance">
+    // Made only when shown: its rows are drawn a slice per frame, and each slice draws the page again, so a folded
+    // table made anyway drew the whole page again for frames after every change and every return to the page.
+    const table = (): TemplateResult => html`<table class="glance" data-testid="family-glance">
       <thead>
         <tr>
           <th scope="col">code</th>
@@ -465,9 +468,9 @@ export class RbFamilyPage extends LitElement {
       ${folded
         ? html`<details data-testid="family-glance-fold" @toggle=${(e: Event) => (this.glanceOpen = (e.target as HTMLDetailsElement).open)}>
             <summary>Show all ${grouped(variants.length)} variants</summary>
-            ${this.glanceOpen ? table : nothing}
+            ${this.glanceOpen ? table() : nothing}
           </details>`
-        : table}
+        : table()}
     </section>`;
   }
 

@@ -3,11 +3,13 @@
 // row-window.ts): back from another page it draws just those for the first frame, is scrolled back where it was, and
 // gets its spare rows above and below after that frame. A table drawn a slice per frame (see progressive.ts), such as
 // the Build page's lines, draws its first slice again and the rest a slice per frame; on the first visit, the lines'
-// standing across the variants is counted after the first frame.
+// standing across the variants is counted after the first frame. A long family's folded at-a-glance table is not
+// made at all, so coming back draws the Family page once.
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { serializeBook } from '../../src/io/book-file.ts';
-import { ROWS_PER_FRAME } from '../../src/ui/progressive.ts';
+import type { Book } from '../../src/domain/book.ts';
+import { ROWS_AT_ONCE, ROWS_PER_FRAME } from '../../src/ui/progressive.ts';
 import { referenceFamily } from '../fixtures/reference-family.ts';
 import { AppUnderTest, pageLoaded, railTo } from './harness.ts';
 
@@ -44,11 +46,11 @@ function gridState(page: Page): Promise<GridState> {
   })()`);
 }
 
-async function openLongFamily(page: Page): Promise<void> {
+async function openLongFamily(page: Page, family: Book = book): Promise<void> {
   await page.locator('rb-book-menu input[type="file"]').setInputFiles({
     name: 'long-family.rungbook.json',
     mimeType: 'application/json',
-    buffer: Buffer.from(serializeBook(book)),
+    buffer: Buffer.from(serializeBook(family)),
   });
   await page.locator('rb-book-menu dialog[open]').getByRole('button', { name: 'Replace with the file' }).click();
   await page.locator('[data-testid="notice"]', { hasText: 'Opened long-family.rungbook.json' }).waitFor();
@@ -110,6 +112,41 @@ describe('long tables across a page switch', () => {
     await until(page, `(() => { const { frame, rows } = ${GRID}; return frame.scrollTop === ${before.scrollTop} && rows.length === ${before.rows}; })()`);
     const after = await gridState(page);
     expect(after.top).toBe(before.top);
+    expect(errors).toEqual([]);
+  });
+
+  it('draws the Family page once when the person comes back, its folded at-a-glance table left unmade', async () => {
+    // More variants than a table draws at once: the at-a-glance table, made, would draw its rows a slice per frame.
+    const family = referenceFamily({ variants: ROWS_AT_ONCE + 50, lines: 20 }).book;
+    const { page, errors } = await app.open('#/family', { ready: '[data-testid="family-table"] tbody tr[aria-rowindex="2"]' });
+    await openLongFamily(page, family);
+    // The figures are in: the first variant row's last cell (a unit cost) shows a figure.
+    await until(page, `(() => { const { rows } = ${GRID}; const cells = rows[0] ? rows[0].querySelectorAll('td') : []; return cells.length > 0 && /\\d/.test(cells[cells.length - 1].textContent); })()`);
+    const FAMILY = `document.querySelector('rb-app').shadowRoot.querySelector('rb-family-page').shadowRoot`;
+    // A family this long folds its at-a-glance table away.
+    expect(await page.evaluate(`${FAMILY}.querySelector('[data-testid="family-glance-fold"]') !== null`)).toBe(true);
+    expect(await page.evaluate(`${FAMILY}.querySelectorAll('[data-testid="family-glance"] tbody tr').length`)).toBe(0);
+
+    await railTo(page, '#/parts');
+    await pageLoaded(page, 'Parts');
+    // Every drawing of the Family page from here on is counted.
+    await page.evaluate(`(() => {
+      const proto = customElements.get('rb-family-page').prototype;
+      const update = proto.update;
+      window.__familyDrawn = 0;
+      proto.update = function (...args) { window.__familyDrawn += 1; return update.apply(this, args); };
+    })()`);
+    await railTo(page, '#/family');
+    await pageLoaded(page, 'Family');
+    // Time for a table drawn a slice per frame to draw its slices (seven frames for 200 rows), had it been made.
+    await page.waitForTimeout(1500);
+    // Once for coming back; a second time only if figures arrived meanwhile. Made while folded, the table drew the
+    // whole page again for each slice of its rows (7 drawings).
+    expect(await page.evaluate('window.__familyDrawn')).toBeLessThanOrEqual(2);
+
+    // Opened, the table shows every variant.
+    await page.locator('[data-testid="family-glance-fold"] summary').click();
+    await until(page, `${FAMILY}.querySelectorAll('[data-testid="family-glance"] tbody tr').length === ${family.variants.length}`);
     expect(errors).toEqual([]);
   });
 
