@@ -1,7 +1,7 @@
 // The one number formatter: one locale, grouped counts, fixed decimals, money with and without its currency, and
 // short figures for messages.
 import { describe, expect, it } from 'vitest';
-import { LOCALE, MONEY_KINDS, currencyMoney, fixed, grouped, money, moneyDigits, signedMoney, significant } from '../../src/domain/format.ts';
+import { LOCALE, MONEY_KINDS, MONEY_TEXTS_KEPT, currencyMoney, fixed, grouped, money, moneyDigits, signedMoney, significant } from '../../src/domain/format.ts';
 
 describe('format', () => {
   it('writes figures in one locale', () => {
@@ -55,6 +55,22 @@ describe('format', () => {
     expect(currencyMoney(0.456, 'GBP', 'unitCost')).toBe('£0.46');
     expect(currencyMoney(0.0042, 'EUR', 'partPrice')).toBe('€0.0042');
     expect(currencyMoney(3, 'not a code', 'unitCost')).toBe('3.00');
+  });
+  it('writes a figure it wrote before the same, and the same as a format made afresh (common practice: Intl.NumberFormat)', () => {
+    const fresh = new Intl.NumberFormat(LOCALE, { style: 'currency', currency: 'USD', minimumFractionDigits: 2, maximumFractionDigits: 2 });
+    // More figures than are kept, twice over, so the kept texts are cleared and made again on the way.
+    const amounts = Array.from({ length: MONEY_TEXTS_KEPT * 2 + 7 }, (_, i) => i * 0.37 - 500);
+    for (const round of [1, 2]) {
+      for (const a of amounts) {
+        const want = fresh.format(Math.round(a * 100) / 100);
+        if (currencyMoney(a, 'USD', 'unitCost') !== want) throw new Error(`round ${round}: ${a} written as ${currencyMoney(a, 'USD', 'unitCost')}, not ${want}`);
+      }
+    }
+    expect(currencyMoney(12.345, 'USD', 'unitCost')).toBe('US$12.35');
+    // A tiny loss rounds to zero with its sign, a tiny gain to plain zero, whichever was written first.
+    expect(currencyMoney(-0.001, 'USD', 'unitCost')).toBe(fresh.format(-0));
+    expect(currencyMoney(0.001, 'USD', 'unitCost')).toBe(fresh.format(0));
+    expect(currencyMoney(-0.001, 'USD', 'unitCost')).toBe(fresh.format(-0));
   });
   it('keeps whole numbers and writes others to four significant digits without trailing zeros', () => {
     expect(significant(480)).toBe('480');
