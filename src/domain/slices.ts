@@ -41,6 +41,12 @@ export function afterNextFrame(): Promise<void> {
   return new Promise((resolve) => requestAnimationFrame(() => void nextTask().then(resolve)));
 }
 
+/** A new task when the page is next idle, or after `maxMs` at most (where there is no idle time to wait for, as in Node, a new task). */
+export function whenIdle(maxMs: number): Promise<void> {
+  if (typeof requestIdleCallback === 'undefined') return nextTask();
+  return new Promise((resolve) => requestIdleCallback(() => resolve(), { timeout: maxMs }));
+}
+
 /**
  * Runs sliced work a slice at a time: each slice runs until `budgetMs` has passed, then the next one waits for a new
  * task. Stops with an AbortError when `signal` is aborted between slices.
