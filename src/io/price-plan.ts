@@ -180,6 +180,7 @@ const PLAN_SLICE_MS = 6;
  */
 export async function planImportInSlices(book: Book, analysis: PriceAnalysis, options: PlanOptions, signal?: AbortSignal): Promise<ImportPlan> {
   await whenIdle(100);
+  signal?.throwIfAborted();
   return runInSlices(planSteps(book, analysis, options), signal ? { signal, budgetMs: PLAN_SLICE_MS } : { budgetMs: PLAN_SLICE_MS });
 }
 

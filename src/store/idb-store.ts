@@ -532,7 +532,9 @@ async function failed(tx: WriteTx, e: unknown): Promise<Error> {
     // the transaction had already aborted on its own (a failed request or a quota error at commit)
   }
   await tx.done.catch(() => undefined);
-  return writeError(e, raw);
+  // A bare request made after the one that failed ends with an AbortError: the transaction's own error is the cause.
+  const cause = e instanceof DOMException && e.name === 'AbortError' && raw.error ? raw.error : e;
+  return writeError(cause, raw);
 }
 
 /** A put record without a string id or a whole-number revision is refused before any transaction starts. */

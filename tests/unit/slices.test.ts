@@ -81,4 +81,12 @@ describe('the price import planned in slices', () => {
     expect(atOnce.supersededQuotes).toBeGreaterThan(0);
     expect(withIdsInOrder(sliced)).toEqual(withIdsInOrder(atOnce));
   });
+
+  it('stops with an AbortError when stopped while it waits for the page to be idle', async () => {
+    const a = await analyse('MPN,Price\nQT-R10K-06,0.05\n');
+    const stop = new AbortController();
+    const plan = planImportInSlices(testBook(), a, { supplierId: SUPPLIER_ID, fileName: 'p.csv', at: '2026-11-30T10:00:00.000Z' }, stop.signal);
+    stop.abort();
+    await expect(plan).rejects.toMatchObject({ name: 'AbortError' });
+  });
 });

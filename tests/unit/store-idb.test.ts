@@ -373,6 +373,8 @@ describe('replaceAll', () => {
     const err = await store.replaceAll(next).catch((e: unknown) => e);
     expect(err).toBeInstanceOf(StoreWriteFailed);
     expect((err as Error).message).toMatch(/uniqueness rule/);
+    // The request that failed is named as the cause, not the abort that ended the requests after it.
+    expect((err as Error).cause).toMatchObject({ name: 'ConstraintError' });
     expect(await store.load()).toEqual(before);
   });
 });
