@@ -11,7 +11,7 @@ import { HOLD_MAX_MS } from './figures-protocol.ts';
 import type { FiguresMessage, FiguresRequest, WhatIfRequest } from './figures-protocol.ts';
 import type { FiguresUpdate } from './figures.ts';
 import { CheckTrials } from './check-trial.ts';
-import { trialOutcomes } from './line-trial.ts';
+import { trialOutcomesInSteps } from './line-trial.ts';
 import { WhatIfCosts } from './what-if.ts';
 import { nextTask, runAtOnce, runInSlices } from '../domain/slices.ts';
 import type { Sliced } from '../domain/slices.ts';
@@ -52,7 +52,7 @@ export class FiguresHost {
       const book = this.live.current;
       if (!book) return [{ type: 'refused', id: request.id, message: 'the figures worker holds no Book yet' }];
       try {
-        return [{ type: 'trial', id: request.id, outcomes: trialOutcomes(book, request.line) }];
+        return [{ type: 'trial', id: request.id, outcomes: yield* trialOutcomesInSteps(book, request.line) }];
       } catch (e) {
         return [{ type: 'refused', id: request.id, message: `the line could not be tried: ${e instanceof Error ? e.message : String(e)}` }];
       }
@@ -144,7 +144,12 @@ export class FiguresQueue {
         await this.pause();
         try {
           const messages = await runInSlices(this.host.handleInSteps(r), { budgetMs: this.sliceMs, pause: () => this.pause() });
-          for (const m of messages) this.post(m);
+          // Each part of an answer is copied for the page as it is posted (a build line edit's ten parts took 20–57 ms
+          // together in Node): one part per turn, so a hold the page asks for meanwhile is kept.
+          for (const [i, m] of messages.entries()) {
+            if (i > 0) await this.pause();
+            this.post(m);
+          }
         } catch (e) {
           // As an error thrown while handling a message: the page's worker error handler hears of it. The next
           // request is still answered.

@@ -67,8 +67,11 @@ function priceEdits(a: Quote, b: Quote): { breakIndex: number; price: number }[]
   return out;
 }
 
-/** Variants costed again in one part of a build line edit: about 5 ms of the reference family's 200 in Node. */
-export const VARIANTS_PER_RELINE = 40;
+/**
+ * Variants costed again in one part of a build line edit: 6–17 ms per 10 of the reference family's 200 in Node (40 at
+ * a time made parts of 25–60 ms, which the worker cannot pause inside while the page draws).
+ */
+export const VARIANTS_PER_RELINE = 8;
 
 export class LiveFigures {
   private book: Book | undefined;
@@ -102,7 +105,8 @@ export class LiveFigures {
     if (prev === next) return this.answer({ kind: SYNC_KINDS.same, changed: [], checks: false }, [], false);
     this.book = next;
     if (prev && this.family && this.costing) return yield* this.catchUp(prev, next);
-    this.openFamily(next);
+    yield* this.openFamily(next);
+    yield;
     this.openCosting(next);
     return this.rebuilt(true, undefined);
   }
@@ -190,12 +194,12 @@ export class LiveFigures {
     return this.answer({ kind: SYNC_KINDS.rebuilt, changed, checks }, this.allCosts(), true, checkVariants);
   }
 
-  private openFamily(book: Book): void {
+  private *openFamily(book: Book): Sliced<void> {
     this.family?.close();
     this.family = undefined;
     this.familyError = undefined;
     try {
-      this.family = FamilyWorkbook.open(book);
+      this.family = yield* FamilyWorkbook.openInSteps(book);
     } catch (e) {
       this.familyError = `the checks could not be evaluated: ${e instanceof Error ? e.message : String(e)}`;
     }
@@ -235,9 +239,10 @@ export class LiveFigures {
     const partsOrSuppliers = !empty(diff('parts')) || !empty(diff('suppliers'));
     const shapeSame = !partsOrSuppliers && empty(checks) && variants.added.length === 0 && variants.removed.length === 0;
     const onlyLines = shapeSame && variants.changed.length === 0 && lineDiff.added.length === 0 && lineDiff.removed.length === 0 && lineDiff.changed.length > 0;
+    yield;
     // A quantity, attrition, designator, category or pin edit leaves the family table's cells as they are: the
     // variants are resolved again by reading them, and only the variants that fit the line are costed again.
-    const linesInPlace = onlyLines && this.family !== undefined && this.family.setLineTerms(lineDiff.changed.map(([, b]) => b));
+    const linesInPlace = onlyLines && this.family !== undefined && (yield* this.family.setLineTermsInSteps(lineDiff.changed.map(([, b]) => b)));
     const familyRebuild = !linesInPlace && (!shapeSame || !empty(lineDiff));
 
     let familyTouched = familyRebuild;
@@ -246,7 +251,7 @@ export class LiveFigures {
     /** Variants whose build lines (or a line they fit) changed: their costs are worked out again in place. */
     const moved = new Set<string>();
     if (familyRebuild || linesInPlace) {
-      if (familyRebuild) this.openFamily(next);
+      if (familyRebuild) yield* this.openFamily(next);
       else this.readLineSets();
       for (const v of next.variants) if (!sameValue(oldSets.get(v.id), this.lineSets.get(v.id))) moved.add(v.id);
       if (!empty(lineDiff)) {
@@ -261,7 +266,7 @@ export class LiveFigures {
     } else if (variants.changed.length > 0) {
       familyTouched = true;
       if (!this.editParams(variants.changed)) {
-        this.openFamily(next);
+        yield* this.openFamily(next);
         costingRebuild = true;
       } else {
         this.readLineSets(new Set(variants.changed.map(([, v]) => v.id)));
@@ -326,6 +331,7 @@ export class LiveFigures {
       }
     }
     if (costingRebuild) {
+      yield;
       this.openCosting(next);
       return this.rebuilt(familyTouched, checkVariants);
     }

@@ -2,7 +2,9 @@
 // and for trying a line being edited on every variant before it is saved (run where the live figures run, so the
 // family workbook a trial needs is never built on the page's thread).
 import type { Book, BuildLine } from '../domain/book.ts';
-import { resolveFamily } from './family.ts';
+import { runAtOnce } from '../domain/slices.ts';
+import type { Sliced } from '../domain/slices.ts';
+import { FamilyWorkbook } from './family.ts';
 import type { FamilyResolution } from './family.ts';
 import { nameKey } from './formula-names.ts';
 
@@ -106,8 +108,18 @@ export function lineSummaries(book: Book, family: FamilyResolution): Map<string,
  * a Chrome trace the trial before a save took the figures worker 48 ms of CPU, then 15 ms).
  */
 export function trialOutcomes(book: Book, line: BuildLine): LineOutcome[] {
+  return runAtOnce(trialOutcomesInSteps(book, line));
+}
+
+/** As `trialOutcomes`, yielding between the parts of compiling the trial's table (the figures worker pauses there). */
+export function* trialOutcomesInSteps(book: Book, line: BuildLine): Sliced<LineOutcome[]> {
   const role = line.role ? nameKey(line.role) : '';
   const rivals = role === '' ? [] : book.buildLines.filter((l) => l.role !== undefined && nameKey(l.role) === role);
   const trial = withLine({ ...book, buildLines: rivals, checks: [] }, line);
-  return lineOutcomes(trial, resolveFamily(trial), new Set([line.id])).get(line.id)!;
+  const wb = yield* FamilyWorkbook.openInSteps(trial, []);
+  try {
+    return lineOutcomes(trial, wb.resolve(), new Set([line.id])).get(line.id)!;
+  } finally {
+    wb.close();
+  }
 }

@@ -247,9 +247,9 @@ export class CostingService extends EventTarget {
   }
 
   /**
-   * The page is about to draw a page of its own (a switch of pages): the worker pauses between slices of its work
-   * until the page is idle, at most HOLD_MAX_MS. Its figures come that much later; the page's frames get the
-   * processor meanwhile. Nothing to do without a worker.
+   * The page is about to draw a page of its own (a switch of pages) or what a change just made looks like (every
+   * change sent): the worker pauses between slices of its work until the page is idle, at most HOLD_MAX_MS. Its
+   * figures come that much later; the page's frames get the processor meanwhile. Nothing to do without a worker.
    */
   holdWhileDrawing(): void {
     const worker = this.worker;
@@ -441,6 +441,9 @@ export class CostingService extends EventTarget {
     const request = this.sent ? ({ type: 'delta', seq: this.seq, delta: bookDelta(this.sent, next) } as const) : ({ type: 'book', seq: this.seq, book: next } as const);
     this.sent = next;
     this.inFlight = true;
+    // On two cores the worker's first steps on a change took the processor from the frames that show the change
+    // (the Build page's row and form, then the page the person goes to next): it starts once the page is idle.
+    if (request.type === 'delta') this.holdWhileDrawing();
     // A large Book or change goes in parts, one per task, so the page draws between them.
     const parts = stageQuotes(request);
     const post = (i: number): void => {

@@ -5,6 +5,8 @@ import { bookDelta } from '../../src/domain/book-ops.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import type { Sliced } from '../../src/domain/slices.ts';
 import { VARIANTS_PER_RELINE } from '../../src/engine/figures.ts';
+import { ROWS_PER_STEP } from '../../src/engine/family-workbook.ts';
+import { trialOutcomes, trialOutcomesInSteps } from '../../src/engine/line-trial.ts';
 import { FiguresHost, FiguresQueue } from '../../src/engine/figures-worker.ts';
 import type { FiguresMessage, FiguresRequest } from '../../src/engine/figures-worker.ts';
 import { HOLD_MAX_MS } from '../../src/engine/figures-protocol.ts';
@@ -60,7 +62,78 @@ describe('A build line edit in the figures worker', () => {
   });
 });
 
+describe('A build rule edit in the figures worker', () => {
+  it('compiles the family table again in parts (the engine’s build one, the variants resolved a few dozen at a time), with the figures of the change at once', () => {
+    const book = referenceFamily().book;
+    const first = book.variants.map((v) => v.code).sort()[0]!;
+    const steps = Number(book.variants.find((v) => v.code === first)!.params['steps']);
+    const line = book.buildLines.find((l) => /^\d+$/.test(l.qtyRule) && l.appliesWhen === '' && l.partId !== undefined)!;
+    // A rule is a cell of the table: the edit lays the table out again (setLineTerms takes only constant terms).
+    const next = { ...book, buildLines: book.buildLines.map((l) => (l.id === line.id ? { ...l, rev: l.rev + 1, appliesWhen: `steps <> ${steps}` } : l)) };
+    const request: FiguresRequest = { type: 'delta', seq: 1, delta: bookDelta(book, next) };
+    const atOnce = new FiguresHost();
+    atOnce.handle({ type: 'book', seq: 0, book });
+    const expected = atOnce.handle(structuredClone(request));
+    const host = new FiguresHost();
+    host.handle({ type: 'book', seq: 0, book });
+    const work = host.handleInSteps(structuredClone(request));
+    let parts = 1;
+    let r = work.next();
+    for (; !r.done; r = work.next()) parts++;
+    // At least: the compile's parts before and after the engine's build, the variants resolved ROWS_PER_STEP at a
+    // time, and the variants whose line now applies or no longer does costed VARIANTS_PER_RELINE at a time.
+    const moved = book.variants.length;
+    expect(parts).toBeGreaterThanOrEqual(2 + Math.ceil(book.variants.length / ROWS_PER_STEP) + Math.ceil(moved / VARIANTS_PER_RELINE));
+    expect(r.value).toEqual(expected);
+    const last = r.value.at(-1)!;
+    expect(last.type === 'figures' && last.update.kind).toBe('edited');
+  });
+
+  it('tries a line being edited in parts, with the outcomes tried at once', () => {
+    const book = referenceFamily().book;
+    const line = book.buildLines.find((l) => /^\d+$/.test(l.qtyRule) && l.appliesWhen === '' && l.partId !== undefined)!;
+    const draft = { ...line, appliesWhen: 'steps > 4', qtyRule: 'steps' };
+    const work = trialOutcomesInSteps(book, draft);
+    let parts = 1;
+    let r = work.next();
+    for (; !r.done; r = work.next()) parts++;
+    expect(parts).toBeGreaterThanOrEqual(2 + Math.ceil(book.variants.length / ROWS_PER_STEP));
+    expect(r.value).toEqual(trialOutcomes(book, draft));
+    // Worked out, not empty: every variant, the line applying where it has more than four steps.
+    expect(r.value.map((o) => o.variantId)).toEqual(book.variants.map((v) => v.id));
+    for (const o of r.value) {
+      const n = Number(book.variants.find((v) => v.id === o.variantId)!.params['steps']);
+      expect(o.applies).toBe(n > 4);
+      if (o.applies) expect(o.qtyPerUnit).toBe(n);
+    }
+  });
+});
+
 describe('The figures worker queue', () => {
+  it('posts an answer’s parts one per turn, so a hold asked for after the first part keeps the rest back', async () => {
+    const posted: FiguresMessage[] = [];
+    const host: Pick<FiguresHost, 'handleInSteps'> = {
+      *handleInSteps() {
+        return [1, 2, 3].map((seq): FiguresMessage => ({ type: 'failed', seq, message: 'part' }));
+      },
+    };
+    const queue: FiguresQueue = new FiguresQueue(
+      host,
+      (m) => {
+        posted.push(m);
+        if (posted.length === 1) queue.receive({ type: 'hold', ms: HOLD_MAX_MS });
+      },
+      0,
+    );
+    queue.receive(DELTA);
+    await until(() => posted.length > 0);
+    await later(60);
+    expect(posted.map((m) => (m.type === 'failed' ? m.seq : -1))).toEqual([1]);
+    queue.receive({ type: 'go' });
+    await until(() => !queue.busy);
+    expect(posted.map((m) => (m.type === 'failed' ? m.seq : -1))).toEqual([1, 2, 3]);
+  });
+
   it('answers requests in the order sent, as the host answers them one by one', async () => {
     const book = referenceFamily().book;
     const line = book.buildLines.find((l) => /^\d+$/.test(l.qtyRule) && l.appliesWhen === '' && l.partId !== undefined)!;

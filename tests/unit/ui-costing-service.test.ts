@@ -171,7 +171,7 @@ describe('CostingService', () => {
   it('takes a constant quantity, attrition, designators or category without laying the family table out again; a quantity formula lays it out', () => {
     const { holder, costing } = start();
     costing.sync();
-    const opened = vi.spyOn(FamilyWorkbook, 'open');
+    const opened = vi.spyOn(FamilyWorkbook, 'openInSteps');
     try {
       const line = holder.book.buildLines.find((l) => /^\d+$/.test(l.qtyRule) && l.partId !== undefined)!;
       const edits: Partial<typeof line>[] = [{ qtyRule: String(Number(line.qtyRule) + 3) }, { attrition: 0.07 }, { designators: 'R90–R99', category: 'hardware' }];
@@ -261,11 +261,13 @@ describe('CostingService with the figures worker', () => {
     holder.change({ put: { buildLines: [{ ...line, qtyRule: String(Number(line.qtyRule) + 1) }] } });
     costing.sync();
     costing.holdWhileDrawing();
-    const sent = () => workers[0]!.sent.map((m) => (m.type === 'hold' ? `hold ${m.ms}` : m.type));
-    expect(sent()).toEqual(['book', 'delta', `hold ${HOLD_MAX_MS}`]);
+    // Every change is held until the page has drawn it (here, with no idle callback, the next task), and so is the
+    // switch of pages.
+    const hold = `hold ${HOLD_MAX_MS}`;
+    expect(workers[0]!.order).toEqual(['book', hold, 'delta', hold]);
     await settled(costing);
     await new Promise((r) => setTimeout(r, 10));
-    expect(sent()).toEqual(['book', 'delta', `hold ${HOLD_MAX_MS}`, 'go']);
+    expect(workers[0]!.order).toEqual(['book', hold, 'delta', hold, 'go', 'go']);
     expect(live(costing, holder.book)).toEqual(fresh(holder.book));
   });
 
@@ -352,11 +354,15 @@ describe('CostingService with the figures worker', () => {
       await settled(costing);
       expect(costing.pending).toBe(false);
       expect(live(costing, holder.book)).toEqual(fresh(second));
-      // An edit is not a replacement: sent at once.
+      // An edit is not a replacement: sent at once, the worker held until the page has drawn it (idle).
       holder.change({ settings: { ...holder.book.settings, overheadPct: holder.book.settings.overheadPct + 1 } });
       costing.sync();
       expect(workers[1]!.sent.map((m) => m.type)).toEqual(['book', 'delta']);
-      expect(idle).toHaveLength(2);
+      expect(workers[1]!.order).toEqual(['book', `hold ${HOLD_MAX_MS}`, 'delta']);
+      expect(idle).toHaveLength(3);
+      expect(idle[2]!.timeout).toBe(HOLD_MAX_MS);
+      idle[2]!.run();
+      expect(workers[1]!.order.at(-1)).toBe('go');
       await settled(costing);
       expect(live(costing, holder.book)).toEqual(fresh(holder.book));
     } finally {
