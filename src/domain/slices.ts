@@ -41,10 +41,23 @@ export function afterNextFrame(): Promise<void> {
   return new Promise((resolve) => requestAnimationFrame(() => void nextTask().then(resolve)));
 }
 
+/** What `onIdle` does where there is no idle time to wait for (Node, a browser without idle callbacks). */
+export type WithoutIdle = 'at once' | 'next task' | { afterMs: number };
+
+/**
+ * Runs `run` when the page is next idle, or after `maxMs` at most; where there is no idle callback, at once, in a new
+ * task (the default) or after a while, as `withoutIdle` says. Every wait of the app for idle time goes through here.
+ */
+export function onIdle(run: () => void, maxMs: number, withoutIdle: WithoutIdle = 'next task'): void {
+  if (typeof requestIdleCallback === 'function') requestIdleCallback(() => run(), { timeout: maxMs });
+  else if (withoutIdle === 'at once') run();
+  else if (withoutIdle === 'next task') void nextTask().then(run);
+  else setTimeout(run, withoutIdle.afterMs);
+}
+
 /** A new task when the page is next idle, or after `maxMs` at most (where there is no idle time to wait for, as in Node, a new task). */
 export function whenIdle(maxMs: number): Promise<void> {
-  if (typeof requestIdleCallback === 'undefined') return nextTask();
-  return new Promise((resolve) => requestIdleCallback(() => resolve(), { timeout: maxMs }));
+  return new Promise((resolve) => onIdle(resolve, maxMs));
 }
 
 /**

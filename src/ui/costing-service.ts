@@ -28,6 +28,7 @@ import type { LineOutcome } from '../engine/line-trial.ts';
 import type { WhatIfAnswer, WhatIfCosts } from '../engine/what-if.ts';
 import type { CheckTrialAnswer, CheckTrialRequest, CheckTrials } from '../engine/check-trial.ts';
 import type { CheckResult, FamilyResolution, VariantResolution } from '../engine/family.ts';
+import { onIdle } from '../domain/slices.ts';
 
 export { SYNC_KINDS } from '../engine/figures-kinds.ts';
 export type { CostingChangeDetail, SyncKind } from '../engine/figures-kinds.ts';
@@ -258,8 +259,7 @@ export class CostingService extends EventTarget {
     const go = (): void => {
       if (this.worker === worker) worker.postMessage({ type: 'go' });
     };
-    if (typeof requestIdleCallback === 'function') requestIdleCallback(go, { timeout: HOLD_MAX_MS });
-    else setTimeout(go, 0);
+    onIdle(go, HOLD_MAX_MS);
   }
 
   /**
@@ -487,13 +487,10 @@ export class CostingService extends EventTarget {
     if (typeof requestIdleCallback !== 'function') return false;
     if (this.idleAwaited !== replaced) {
       this.idleAwaited = replaced;
-      requestIdleCallback(
-        () => {
-          this.idleCame = replaced;
-          this.send();
-        },
-        { timeout: REPLACED_WAIT_MS },
-      );
+      onIdle(() => {
+        this.idleCame = replaced;
+        this.send();
+      }, REPLACED_WAIT_MS);
     }
     return true;
   }

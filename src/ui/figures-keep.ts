@@ -14,6 +14,7 @@ import type { Book } from '../domain/book.ts';
 import { costingDateOf } from '../domain/costing.ts';
 import type { FiguresUpdate } from '../engine/figures-kinds.ts';
 import { databaseNames } from '../store/idb-store.ts';
+import { onIdle } from '../domain/slices.ts';
 
 /** Its own database, named so it is never listed as a Book (Book databases are `rungbook` and `rungbook-…`). */
 export const KEPT_FIGURES_DB = 'kept-figures.rungbook';
@@ -254,10 +255,7 @@ export function followFigures(
   // A Book whose figures were read from what was kept need not be written again when the worker agrees.
   let keptBook: Book | undefined = options.alreadyKept;
   let stopped = false;
-  const idle = (run: () => void): void => {
-    if (typeof requestIdleCallback === 'function') requestIdleCallback(run, { timeout: 5_000 });
-    else run();
-  };
+  const idle = (run: () => void): void => onIdle(run, 5_000, 'at once');
   const onChange = (): void => {
     if (timer !== undefined) clearTimeout(timer);
     // The first figures of a start are kept at the first idle moment (the page may be closed soon after); later

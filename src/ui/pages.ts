@@ -1,6 +1,7 @@
 // The page registry: every fixed page of a Book in rail order. A new page is one element file plus one line here
 // (give it `tag` and `load`); a page without them shows its description until it is built.
 import { afterFiguresShown } from './first-figures.ts';
+import { onIdle } from '../domain/slices.ts';
 
 export interface PageEntry {
   /** Route segment: the page lives at `#/<slug>`. */
@@ -203,10 +204,7 @@ export function loadPagesAhead(): void {
   if (loadingAhead || typeof window === 'undefined') return;
   loadingAhead = true;
   const queue = PAGES.filter((p) => p.tag && p.load);
-  const idle = (then: () => void): void => {
-    if (typeof window.requestIdleCallback === 'function') window.requestIdleCallback(then, { timeout: 5000 });
-    else setTimeout(then, 50);
-  };
+  const idle = (then: () => void): void => onIdle(then, 5000, { afterMs: 50 });
   const next = (): void => {
     const page = queue.shift();
     if (!page) return;

@@ -189,6 +189,8 @@ export async function responsiveFigures(context: BrowserContext, appUrl: string,
   };
 
   const page = await context.newPage();
+  /** The step under way, named in a failure (a wait that timed out says only how long it waited). */
+  let at = 'the first view';
   try {
     await page.addInitScript({ content: LONG_TASK_PROBE });
     await page.goto(`${appUrl}#/family`);
@@ -199,6 +201,7 @@ export async function responsiveFigures(context: BrowserContext, appUrl: string,
       .evaluate(() => Promise.race([navigator.serviceWorker?.ready.then(() => true), new Promise((r) => setTimeout(() => r(false), 15_000))]))
       .catch(() => undefined);
 
+    at = 'the open of the reference family';
     log(`browser: responsiveness with the reference family (${book.variants.length} variants × ${book.buildLines.length} lines)`);
     await page.locator('rb-book-menu input[type="file"]').setInputFiles(file.path);
     const dialog = page.locator('rb-book-menu dialog[open]');
@@ -212,6 +215,7 @@ export async function responsiveFigures(context: BrowserContext, appUrl: string,
     const railAt = await railSpots(page);
     const rail = (slug: keyof RailSpots): Promise<void> => clickAt(page, railAt[slug]);
 
+    at = 'the parameter edit';
     // A parameter edit in the Family grid: one more step on the first variant.
     const keys = await page.locator('[data-testid="family-table"] thead th').evaluateAll((ths) => ths.map((th) => th.getAttribute('data-key')));
     const codes = await page.locator('[data-testid="family-table"] tbody th').allTextContents();
@@ -231,6 +235,7 @@ export async function responsiveFigures(context: BrowserContext, appUrl: string,
     const paramCost = await gridCost(page, first, run, { not: opened.text });
     await record('param_edit', page, t0, { visible: shownValue, cost: paramCost.at });
 
+    at = 'the undo';
     // Its undo, from the Family page's own button.
     const undo = await spot(page.getByRole('button', { name: '↶ Undo' }));
     t0 = await mark(page);
@@ -238,6 +243,7 @@ export async function responsiveFigures(context: BrowserContext, appUrl: string,
     const undone = await gridCost(page, first, run, { is: opened.text });
     await record('undo', page, t0, { cost: undone.at });
 
+    at = 'the price edit';
     // A quote price edit on the Quotes page, then back to the Family page for the new unit cost.
     const q = dearestQuote(book, variant.id, run);
     t0 = await mark(page);
@@ -256,6 +262,7 @@ export async function responsiveFigures(context: BrowserContext, appUrl: string,
     const priceCost = await gridCost(page, first, run, { not: opened.text });
     await record('price_edit', page, t0, { visible: priceShown, cost: priceCost.at });
 
+    at = 'the quantity edit';
     // A quantity edit on the Build page: the first line the variant buys gets one more part per unit.
     const line = book.buildLines.find((l) => /^\d+$/.test(l.qtyRule) && l.appliesWhen === '' && l.partId !== undefined)!;
     t0 = await mark(page);
@@ -273,6 +280,7 @@ export async function responsiveFigures(context: BrowserContext, appUrl: string,
     const qtyCost = await gridCost(page, first, run, { not: priceCost.text });
     await record('quantity_edit', page, t0, { visible: qtyShown, cost: qtyCost.at });
 
+    at = 'the rule edit';
     // A rule edit on the Build page: another line the variant buys applies to every variant but this one (a formula
     // over a parameter), shown in the Build table, then its unit cost on the Family page.
     const ruled = book.buildLines.find((l) => l.id !== line.id && /^\d+$/.test(l.qtyRule) && l.appliesWhen === '' && l.partId !== undefined)!;
@@ -289,6 +297,7 @@ export async function responsiveFigures(context: BrowserContext, appUrl: string,
     const ruleCost = await gridCost(page, first, run, { not: qtyCost.text });
     await record('rule_edit', page, t0, { visible: ruleShown, cost: ruleCost.at });
 
+    at = 'the switches to Compare and back';
     // Page switches with the large family: to Compare and back.
     t0 = await mark(page);
     await rail('compare');
@@ -304,6 +313,8 @@ export async function responsiveFigures(context: BrowserContext, appUrl: string,
     f['ui_longest_task_ms'] = longest;
     f['ui_book'] = `reference family (${book.variants.length} variants × ${book.buildLines.length} lines, ${book.quotes.length} quotes), opened through the Book menu`;
     return f;
+  } catch (e) {
+    throw new Error(`${at}: ${e instanceof Error ? e.message : String(e)}`, { cause: e });
   } finally {
     await page.close();
   }

@@ -2,7 +2,7 @@
 // gets its turn between slices, an abort stops it between slices, and waiting for idle time ends by itself. The price
 // import's plan, planned in slices, is the plan planned at once.
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { runAtOnce, runInSlices, whenIdle } from '../../src/domain/slices.ts';
+import { onIdle, runAtOnce, runInSlices, whenIdle } from '../../src/domain/slices.ts';
 import type { Sliced } from '../../src/domain/slices.ts';
 import { planImport, planImportInSlices } from '../../src/io/price-plan.ts';
 import type { ImportPlan } from '../../src/io/price-plan.ts';
@@ -56,6 +56,33 @@ describe('sliced work', () => {
     });
     await whenIdle(100);
     expect(asked).toEqual([{ timeout: 100 }]);
+  });
+
+  it('runs a wait for idle time without an idle callback at once, in a new task or after the time asked, as told', async () => {
+    const ran: string[] = [];
+    onIdle(() => ran.push('at once'), 5_000, 'at once');
+    onIdle(() => ran.push('next task'), 5_000);
+    onIdle(() => ran.push('after 30 ms'), 5_000, { afterMs: 30 });
+    expect(ran).toEqual(['at once']);
+    await new Promise((r) => setTimeout(r, 5));
+    expect(ran).toEqual(['at once', 'next task']);
+    await new Promise((r) => setTimeout(r, 60));
+    expect(ran).toEqual(['at once', 'next task', 'after 30 ms']);
+    // With an idle callback, every kind waits for it, with its limit.
+    const asked: number[] = [];
+    const waiting: (() => void)[] = [];
+    vi.stubGlobal('requestIdleCallback', (cb: () => void, options: { timeout: number }) => {
+      asked.push(options.timeout);
+      waiting.push(cb);
+      return 1;
+    });
+    onIdle(() => ran.push('idle'), 300, 'at once');
+    onIdle(() => ran.push('idle'), 5_000, { afterMs: 0 });
+    await new Promise((r) => setTimeout(r, 10));
+    expect(ran).toHaveLength(3);
+    expect(asked).toEqual([300, 5_000]);
+    for (const cb of waiting) cb();
+    expect(ran).toEqual(['at once', 'next task', 'after 30 ms', 'idle', 'idle']);
   });
 });
 
