@@ -22,7 +22,7 @@ import type { CheckStatus } from '../domain/check-status.ts';
 import { SYNC_KINDS } from '../engine/figures-kinds.ts';
 import type { CostingChangeDetail, FiguresUpdate, UnitCostFigure } from '../engine/figures-kinds.ts';
 import type { LiveFigures } from '../engine/figures.ts';
-import { HOLD_MAX_MS, stageQuotes } from '../engine/figures-protocol.ts';
+import { HOLD_MAX_MS, stageQuotes, takesLong } from '../engine/figures-protocol.ts';
 import type { FiguresMessage, FiguresRequest, WhatIfRequest } from '../engine/figures-protocol.ts';
 import type { LineOutcome } from '../engine/line-trial.ts';
 import type { WhatIfAnswer, WhatIfCosts } from '../engine/what-if.ts';
@@ -441,9 +441,9 @@ export class CostingService extends EventTarget {
     const request = this.sent ? ({ type: 'delta', seq: this.seq, delta: bookDelta(this.sent, next) } as const) : ({ type: 'book', seq: this.seq, book: next } as const);
     this.sent = next;
     this.inFlight = true;
-    // On two cores the worker's first steps on a change took the processor from the frames that show the change
-    // (the Build page's row and form, then the page the person goes to next): it starts once the page is idle.
-    if (request.type === 'delta') this.holdWhileDrawing();
+    // On two cores the worker's first steps on a long change took the processor from the frames that show it (the
+    // Build page's row and form, then the page the person goes to next): it starts once the page is idle.
+    if (request.type === 'delta' && takesLong(request.delta)) this.holdWhileDrawing();
     // A large Book or change goes in parts, one per task, so the page draws between them.
     const parts = stageQuotes(request);
     const post = (i: number): void => {

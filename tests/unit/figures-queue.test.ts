@@ -2,6 +2,8 @@
 // between parts while the page holds the worker to draw a page of its own (src/engine/figures-worker.ts).
 import { describe, expect, it } from 'vitest';
 import { bookDelta } from '../../src/domain/book-ops.ts';
+import type { BookDelta } from '../../src/domain/book-ops.ts';
+import type { Book } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import type { Sliced } from '../../src/domain/slices.ts';
 import { VARIANTS_PER_RELINE } from '../../src/engine/figures.ts';
@@ -9,7 +11,7 @@ import { ROWS_PER_STEP } from '../../src/engine/family-workbook.ts';
 import { trialOutcomes, trialOutcomesInSteps } from '../../src/engine/line-trial.ts';
 import { FiguresHost, FiguresQueue } from '../../src/engine/figures-worker.ts';
 import type { FiguresMessage, FiguresRequest } from '../../src/engine/figures-worker.ts';
-import { HOLD_MAX_MS } from '../../src/engine/figures-protocol.ts';
+import { HOLD_MAX_MS, QUICK_RECORDS, takesLong } from '../../src/engine/figures-protocol.ts';
 import { referenceFamily } from '../fixtures/reference-family.ts';
 
 const later = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
@@ -106,6 +108,33 @@ describe('A build rule edit in the figures worker', () => {
       expect(o.applies).toBe(n > 4);
       if (o.applies) expect(o.qtyPerUnit).toBe(n);
     }
+  });
+});
+
+describe('Which changes the page holds the worker for', () => {
+  it('holds it for build lines, checks, parts, suppliers and bulk or removed variants and quotes, not for a parameter, a price or a setting', () => {
+    const book = demoBook();
+    const v = book.variants[0]!;
+    const q = book.quotes[0]!;
+    const l = book.buildLines[0]!;
+    const after = (change: Partial<Book>): BookDelta => bookDelta(book, { ...book, ...change });
+    const quick = [
+      after({ variants: book.variants.map((x) => (x.id === v.id ? { ...x, rev: x.rev + 1, params: { ...x.params, steps: 7 } } : x)) }),
+      after({ quotes: book.quotes.map((x) => (x.id === q.id ? { ...x, rev: x.rev + 1, breaks: x.breaks.map((b) => ({ ...b, price: b.price * 2 })) } : x)) }),
+      after({ settings: { ...book.settings, overheadPct: book.settings.overheadPct + 1 } }),
+      after({ runs: [] }),
+    ];
+    for (const d of quick) expect(takesLong(d)).toBe(false);
+    const long = [
+      after({ buildLines: book.buildLines.map((x) => (x.id === l.id ? { ...x, rev: x.rev + 1, qtyRule: '9' } : x)) }),
+      { collections: { checks: { put: [], delete: ['check_gone'] } } },
+      after({ parts: book.parts.map((x, i) => (i === 0 ? { ...x, rev: x.rev + 1, description: 'other' } : x)) }),
+      after({ suppliers: book.suppliers.slice(1) }),
+      after({ variants: book.variants.slice(1) }),
+      after({ quotes: book.quotes.map((x) => ({ ...x, rev: x.rev + 1 })) }),
+    ];
+    expect(book.quotes.length).toBeGreaterThan(QUICK_RECORDS);
+    for (const d of long) expect(takesLong(d)).toBe(true);
   });
 });
 

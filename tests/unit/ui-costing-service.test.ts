@@ -354,11 +354,17 @@ describe('CostingService with the figures worker', () => {
       await settled(costing);
       expect(costing.pending).toBe(false);
       expect(live(costing, holder.book)).toEqual(fresh(second));
-      // An edit is not a replacement: sent at once, the worker held until the page has drawn it (idle).
+      // An edit is not a replacement: sent at once (a setting, quick to work out, without holding the worker).
       holder.change({ settings: { ...holder.book.settings, overheadPct: holder.book.settings.overheadPct + 1 } });
       costing.sync();
-      expect(workers[1]!.sent.map((m) => m.type)).toEqual(['book', 'delta']);
-      expect(workers[1]!.order).toEqual(['book', `hold ${HOLD_MAX_MS}`, 'delta']);
+      expect(workers[1]!.order).toEqual(['book', 'delta']);
+      expect(idle).toHaveLength(2);
+      await settled(costing);
+      // A build line edit takes the worker long: it is held until the page is idle, and let go then.
+      const line = holder.book.buildLines.find((l) => /^\d+$/.test(l.qtyRule))!;
+      holder.change({ put: { buildLines: [{ ...line, qtyRule: String(Number(line.qtyRule) + 1) }] } });
+      costing.sync();
+      expect(workers[1]!.order).toEqual(['book', 'delta', `hold ${HOLD_MAX_MS}`, 'delta']);
       expect(idle).toHaveLength(3);
       expect(idle[2]!.timeout).toBe(HOLD_MAX_MS);
       idle[2]!.run();
