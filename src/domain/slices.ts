@@ -41,6 +41,11 @@ export function afterNextFrame(): Promise<void> {
   return new Promise((resolve) => requestAnimationFrame(() => void nextTask().then(resolve)));
 }
 
+/** Whether the platform tells idle time (a browser's idle callback); Node does not. */
+export function hasIdleTime(): boolean {
+  return typeof requestIdleCallback === 'function';
+}
+
 /** What `onIdle` does where there is no idle time to wait for (Node, a browser without idle callbacks). */
 export type WithoutIdle = 'at once' | 'next task' | { afterMs: number };
 
@@ -49,7 +54,7 @@ export type WithoutIdle = 'at once' | 'next task' | { afterMs: number };
  * task (the default) or after a while, as `withoutIdle` says. Every wait of the app for idle time goes through here.
  */
 export function onIdle(run: () => void, maxMs: number, withoutIdle: WithoutIdle = 'next task'): void {
-  if (typeof requestIdleCallback === 'function') requestIdleCallback(() => run(), { timeout: maxMs });
+  if (hasIdleTime()) requestIdleCallback(() => run(), { timeout: maxMs });
   else if (withoutIdle === 'at once') run();
   else if (withoutIdle === 'next task') void nextTask().then(run);
   else setTimeout(run, withoutIdle.afterMs);

@@ -142,7 +142,13 @@ export class FamilyWorkbook {
    */
   static *openInSteps(book: Book, checks: readonly Check[] = book.checks): Sliced<FamilyWorkbook> {
     const wb = new FamilyWorkbook(book, [...checks]);
-    yield* wb.buildSteps();
+    try {
+      yield* wb.buildSteps();
+    } catch (e) {
+      // A compile that fails part-way frees the engine it built; the caller never gets the workbook to close.
+      wb.close();
+      throw e;
+    }
     return wb;
   }
 

@@ -7,6 +7,8 @@
 import type { Book, Check } from '../domain/book.ts';
 import type { CheckResult } from './family-checks.ts';
 import type { FamilyResolution } from './family-lines.ts';
+import { runAtOnce } from '../domain/slices.ts';
+import type { Sliced } from '../domain/slices.ts';
 import { FamilyWorkbook } from './family-workbook.ts';
 
 export { FamilyWorkbook } from './family-workbook.ts';
@@ -16,7 +18,12 @@ export type { FamilyResolution, ResolveProblem, VariantResolution } from './fami
 
 /** Resolves every build line for every variant (applies-when, quantity and part rules). */
 export function resolveFamily(book: Book): FamilyResolution {
-  const wb = FamilyWorkbook.open(book, []);
+  return runAtOnce(resolveFamilyInSteps(book));
+}
+
+/** As `resolveFamily`, yielding between the parts of the compile (see FamilyWorkbook.openInSteps). */
+export function* resolveFamilyInSteps(book: Book): Sliced<FamilyResolution> {
+  const wb = yield* FamilyWorkbook.openInSteps(book, []);
   try {
     return wb.resolve();
   } finally {

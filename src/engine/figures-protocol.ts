@@ -22,9 +22,10 @@ export type FiguresRequest =
   | ({ type: 'whatif'; id: number } & WhatIfRequest)
   | { type: 'trial'; id: number; line: BuildLine }
   | ({ type: 'checktrial'; id: number } & CheckTrialRequest)
-  /** The page is drawing: pause between slices of work for at most `ms` (see FiguresQueue), or until "go". */
-  | { type: 'hold'; ms: number }
-  | { type: 'go' };
+  /** The page is drawing: pause between slices of work for at most `ms` (see FiguresQueue), or until its "go". */
+  | { type: 'hold'; ms: number; id?: number }
+  /** Ends the hold of the same id, or every hold when it names none. */
+  | { type: 'go'; id?: number };
 
 /** One part of an answer (see splitUpdate): `last` says the figures of the Book sent are complete. */
 export type FiguresMessage =
@@ -38,23 +39,28 @@ export type FiguresMessage =
 /** The longest the page may hold the worker with one request, in ms: a "go" that never comes costs no more. */
 export const HOLD_MAX_MS = 300;
 
-/** Collections whose change the worker takes long over: a line edit costs every variant that fits it again; the others compile a workbook afresh. */
-const LONG_CHANGES: ReadonlySet<string> = new Set<CollectionName>(['buildLines', 'checks', 'parts', 'suppliers']);
+/** Collections the figures are worked out from (with the settings); a change to any other is answered at once. */
+const FIGURES_READ: ReadonlySet<string> = new Set<CollectionName>(['variants', 'quotes', 'buildLines', 'checks', 'parts', 'suppliers']);
 
-/** Variants or quotes changed in one change, at most, that the worker works out in a few ms (see takesLong). */
+/** Variants or quotes edited in one change, at most, that the worker works out in a few ms (see takesLong). */
 export const QUICK_RECORDS = 10;
 
 /**
- * Whether the worker takes long over a change, so the page holds it until the change is drawn: build lines, checks,
- * parts or suppliers changed, or variants or quotes removed or changed in bulk. A parameter, a quote's prices or a
- * setting takes it a few ms, and its figures are shown sooner without a hold (held, the parameter edit's unit cost
- * came 104–136 ms after the edit in the bench, 41–89 ms without).
+ * Whether the worker takes long over the change from `prev` to `next` (`delta`), so the page holds it until the change
+ * is drawn. Quick: up to QUICK_RECORDS variants or quotes edited (none added or removed) and nothing else the figures
+ * read, as a parameter or a quote's prices — worked out in a few ms and shown sooner without a hold (held, the
+ * parameter edit's unit cost came 104–136 ms after the edit in the bench, 41–89 ms without). Anything else is long:
+ * a build line edit costs every variant that fits it again, a check, part, supplier or setting, or a variant or quote
+ * added or removed, compiles a workbook afresh. A quick edit the worker still rebuilds for (a variant's code renamed,
+ * a quote's breaks changed) is worked out without a hold, as every change was before holds.
  */
-export function takesLong(delta: BookDelta): boolean {
+export function takesLong(prev: Book, next: Book, delta: BookDelta): boolean {
+  if (delta.settings !== undefined) return true;
   for (const [name, d] of Object.entries(delta.collections)) {
-    if (!d) continue;
-    if (LONG_CHANGES.has(name)) return true;
-    if ((name === 'variants' || name === 'quotes') && ('all' in d || d.delete.length > 0 || d.put.length > QUICK_RECORDS)) return true;
+    if (!d || !FIGURES_READ.has(name)) continue;
+    if (name !== 'variants' && name !== 'quotes') return true;
+    const c = name as 'variants' | 'quotes';
+    if ('all' in d || d.delete.length > 0 || d.put.length > QUICK_RECORDS || prev[c].length !== next[c].length) return true;
   }
   return false;
 }

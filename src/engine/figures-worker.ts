@@ -43,7 +43,7 @@ export class FiguresHost {
     return runAtOnce(this.handleInSteps(request));
   }
 
-  /** As `handle`, yielding where a Book change may pause (LiveFigures.updateInSteps). */
+  /** As `handle`, yielding where a Book change or a line's trial may pause (LiveFigures.updateInSteps, trialOutcomesInSteps). */
   *handleInSteps(request: FiguresRequest): Sliced<FiguresMessage[]> {
     // The page's requests to pause are for the queue that runs these steps (FiguresQueue); here they change nothing.
     if (request?.type === 'hold' || request?.type === 'go') return [];
@@ -99,14 +99,16 @@ const SLICE_MS = 8;
 
 /**
  * Runs the worker's requests one after another, each a slice at a time, and pauses between slices while the page
- * holds it. The page asks for a hold when it is about to draw a page of its own (a switch of pages): on two cores the
- * worker's engine work, and the compiler threads it keeps busy, took the processor from the page's frames and
- * stretched 12 ms of drawing to 50 ms and more. A hold ends at "go" or after its time, at most HOLD_MAX_MS.
+ * holds it. The page asks for a hold when it is about to draw a page of its own (a switch of pages) or a change the
+ * worker takes long over: on two cores the worker's engine work, and the compiler threads it keeps busy, took the
+ * processor from the page's frames and stretched 12 ms of drawing to 50 ms and more. A hold ends at its own "go" (a
+ * "go" without an id ends every hold) or after its time, at most HOLD_MAX_MS.
  */
 export class FiguresQueue {
   private readonly waiting: FiguresRequest[] = [];
   private running = false;
-  private heldUntil = 0;
+  /** Each hold's end (performance.now() time), by its id; holds without an id share the key -1. */
+  private readonly holds = new Map<number, number>();
   private wake: (() => void) | undefined;
 
   constructor(
@@ -119,11 +121,15 @@ export class FiguresQueue {
   /** Takes one message from the page: a hold or go at once, anything else in its turn. */
   receive(request: FiguresRequest): void {
     if (request?.type === 'hold') {
-      this.heldUntil = Math.max(this.heldUntil, performance.now() + Math.min(Math.max(request.ms, 0), HOLD_MAX_MS));
+      const key = request.id ?? -1;
+      const until = performance.now() + Math.min(Math.max(request.ms, 0), HOLD_MAX_MS);
+      this.holds.set(key, Math.max(this.holds.get(key) ?? 0, until));
       return;
     }
     if (request?.type === 'go') {
-      this.heldUntil = 0;
+      // A hold's own go ends it alone: the go of a change drawn must not end a switch of pages' hold asked for since.
+      if (request.id === undefined) this.holds.clear();
+      else this.holds.delete(request.id);
       this.wake?.();
       return;
     }
@@ -163,10 +169,21 @@ export class FiguresQueue {
     }
   }
 
+  /** How long the latest hold still lasts, in ms (0 or less: not held); ended holds are dropped. */
+  private heldFor(): number {
+    const now = performance.now();
+    let until = 0;
+    for (const [key, end] of this.holds) {
+      if (end <= now) this.holds.delete(key);
+      else until = Math.max(until, end);
+    }
+    return until - now;
+  }
+
   /** A new task (the page's holds come in meanwhile), then a wait while held. */
   private async pause(): Promise<void> {
     await nextTask();
-    for (let left = this.heldUntil - performance.now(); left > 0; left = this.heldUntil - performance.now()) {
+    for (let left = this.heldFor(); left > 0; left = this.heldFor()) {
       await new Promise<void>((resolve) => {
         const timer = setTimeout(resolve, left);
         this.wake = () => {

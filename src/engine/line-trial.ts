@@ -4,7 +4,7 @@
 import type { Book, BuildLine } from '../domain/book.ts';
 import { runAtOnce } from '../domain/slices.ts';
 import type { Sliced } from '../domain/slices.ts';
-import { FamilyWorkbook } from './family.ts';
+import { resolveFamilyInSteps } from './family.ts';
 import type { FamilyResolution } from './family.ts';
 import { nameKey } from './formula-names.ts';
 
@@ -116,10 +116,5 @@ export function* trialOutcomesInSteps(book: Book, line: BuildLine): Sliced<LineO
   const role = line.role ? nameKey(line.role) : '';
   const rivals = role === '' ? [] : book.buildLines.filter((l) => l.role !== undefined && nameKey(l.role) === role);
   const trial = withLine({ ...book, buildLines: rivals, checks: [] }, line);
-  const wb = yield* FamilyWorkbook.openInSteps(trial, []);
-  try {
-    return lineOutcomes(trial, wb.resolve(), new Set([line.id])).get(line.id)!;
-  } finally {
-    wb.close();
-  }
+  return lineOutcomes(trial, yield* resolveFamilyInSteps(trial), new Set([line.id])).get(line.id)!;
 }

@@ -28,7 +28,7 @@ import type { LineOutcome } from '../engine/line-trial.ts';
 import type { WhatIfAnswer, WhatIfCosts } from '../engine/what-if.ts';
 import type { CheckTrialAnswer, CheckTrialRequest, CheckTrials } from '../engine/check-trial.ts';
 import type { CheckResult, FamilyResolution, VariantResolution } from '../engine/family.ts';
-import { onIdle } from '../domain/slices.ts';
+import { hasIdleTime, onIdle } from '../domain/slices.ts';
 
 export { SYNC_KINDS } from '../engine/figures-kinds.ts';
 export type { CostingChangeDetail, SyncKind } from '../engine/figures-kinds.ts';
@@ -129,6 +129,8 @@ export class CostingService extends EventTarget {
   /** The answer for a proposed Book, held back (not merged) until the Book is that Book. */
   private heldBack: FiguresUpdate[] = [];
   private worker: FiguresWorkerLike | undefined;
+  /** Holds asked of the worker so far: each hold's id, which its go names (holdWhileDrawing). */
+  private holdsAsked = 0;
   private local: LiveFigures | undefined;
   private localWhatIfs: WhatIfCosts | undefined;
   private localCheckTrials: CheckTrials | undefined;
@@ -248,16 +250,18 @@ export class CostingService extends EventTarget {
   }
 
   /**
-   * The page is about to draw a page of its own (a switch of pages) or what a change just made looks like (every
-   * change sent): the worker pauses between slices of its work until the page is idle, at most HOLD_MAX_MS. Its
-   * figures come that much later; the page's frames get the processor meanwhile. Nothing to do without a worker.
+   * The page is about to draw a page of its own (a switch of pages) or what a change the worker takes long over just
+   * made looks like (see takesLong): the worker pauses between slices of its work until the page is idle, at most
+   * HOLD_MAX_MS. Its figures come that much later; the page's frames get the processor meanwhile. Nothing to do
+   * without a worker.
    */
   holdWhileDrawing(): void {
     const worker = this.worker;
     if (!worker) return;
-    worker.postMessage({ type: 'hold', ms: HOLD_MAX_MS });
+    const id = ++this.holdsAsked;
+    worker.postMessage({ type: 'hold', ms: HOLD_MAX_MS, id });
     const go = (): void => {
-      if (this.worker === worker) worker.postMessage({ type: 'go' });
+      if (this.worker === worker) worker.postMessage({ type: 'go', id });
     };
     onIdle(go, HOLD_MAX_MS);
   }
@@ -439,11 +443,12 @@ export class CostingService extends EventTarget {
     this.sentAhead = proposed !== undefined && next !== this.books.book;
     this.seq += 1;
     const request = this.sent ? ({ type: 'delta', seq: this.seq, delta: bookDelta(this.sent, next) } as const) : ({ type: 'book', seq: this.seq, book: next } as const);
-    this.sent = next;
-    this.inFlight = true;
     // On two cores the worker's first steps on a long change took the processor from the frames that show it (the
     // Build page's row and form, then the page the person goes to next): it starts once the page is idle.
-    if (request.type === 'delta' && takesLong(request.delta)) this.holdWhileDrawing();
+    const hold = request.type === 'delta' && takesLong(this.sent!, next, request.delta);
+    this.sent = next;
+    this.inFlight = true;
+    if (hold) this.holdWhileDrawing();
     // A large Book or change goes in parts, one per task, so the page draws between them.
     const parts = stageQuotes(request);
     const post = (i: number): void => {
@@ -484,7 +489,7 @@ export class CostingService extends EventTarget {
   private waitsForIdle(): boolean {
     const replaced = this.books.replacements;
     if (this.sentReplacements === undefined || replaced === this.sentReplacements || replaced === this.idleCame) return false;
-    if (typeof requestIdleCallback !== 'function') return false;
+    if (!hasIdleTime()) return false;
     if (this.idleAwaited !== replaced) {
       this.idleAwaited = replaced;
       onIdle(() => {

@@ -112,29 +112,31 @@ describe('A build rule edit in the figures worker', () => {
 });
 
 describe('Which changes the page holds the worker for', () => {
-  it('holds it for build lines, checks, parts, suppliers and bulk or removed variants and quotes, not for a parameter, a price or a setting', () => {
+  it('holds it for build lines, checks, parts, suppliers, settings and variants or quotes added, removed or in bulk; not for a parameter or a price', () => {
     const book = demoBook();
     const v = book.variants[0]!;
     const q = book.quotes[0]!;
     const l = book.buildLines[0]!;
-    const after = (change: Partial<Book>): BookDelta => bookDelta(book, { ...book, ...change });
+    const after = (change: Partial<Book>): [Book, Book, BookDelta] => [book, { ...book, ...change }, bookDelta(book, { ...book, ...change })];
     const quick = [
       after({ variants: book.variants.map((x) => (x.id === v.id ? { ...x, rev: x.rev + 1, params: { ...x.params, steps: 7 } } : x)) }),
       after({ quotes: book.quotes.map((x) => (x.id === q.id ? { ...x, rev: x.rev + 1, breaks: x.breaks.map((b) => ({ ...b, price: b.price * 2 })) } : x)) }),
-      after({ settings: { ...book.settings, overheadPct: book.settings.overheadPct + 1 } }),
       after({ runs: [] }),
     ];
-    for (const d of quick) expect(takesLong(d)).toBe(false);
+    for (const [a, b, d] of quick) expect(takesLong(a, b, d)).toBe(false);
     const long = [
       after({ buildLines: book.buildLines.map((x) => (x.id === l.id ? { ...x, rev: x.rev + 1, qtyRule: '9' } : x)) }),
-      { collections: { checks: { put: [], delete: ['check_gone'] } } },
+      [book, book, { collections: { checks: { put: [], delete: ['check_gone'] } } }] as [Book, Book, BookDelta],
+      after({ settings: { ...book.settings, runSizes: [...book.settings.runSizes, 5000] } }),
+      after({ variants: [...book.variants, { ...book.variants[0]!, id: 'variant_new', code: 'NEW-1' }] }),
+      after({ quotes: [...book.quotes, { ...book.quotes[0]!, id: 'quote_new' }] }),
       after({ parts: book.parts.map((x, i) => (i === 0 ? { ...x, rev: x.rev + 1, description: 'other' } : x)) }),
       after({ suppliers: book.suppliers.slice(1) }),
       after({ variants: book.variants.slice(1) }),
       after({ quotes: book.quotes.map((x) => ({ ...x, rev: x.rev + 1 })) }),
     ];
     expect(book.quotes.length).toBeGreaterThan(QUICK_RECORDS);
-    for (const d of long) expect(takesLong(d)).toBe(true);
+    for (const [a, b, d] of long) expect(takesLong(a, b, d)).toBe(true);
   });
 });
 
@@ -230,6 +232,27 @@ describe('The figures worker queue', () => {
     // Not before the bound (a timer never fires early), and not held for the minute asked.
     expect(waited).toBeGreaterThanOrEqual(HOLD_MAX_MS - 1);
     expect(waited).toBeLessThan(30_000);
+  });
+
+  it('ends a hold at its own go only: a later hold, asked for meanwhile, still holds', async () => {
+    const ran: string[] = [];
+    const posted: FiguresMessage[] = [];
+    let queue: FiguresQueue | undefined;
+    const host = steppedHost(['a', 'b'], ran, {
+      a: () => {
+        queue!.receive({ type: 'hold', ms: HOLD_MAX_MS, id: 1 });
+        queue!.receive({ type: 'hold', ms: HOLD_MAX_MS, id: 2 });
+      },
+    });
+    queue = new FiguresQueue(host, (m) => posted.push(m), 0);
+    queue.receive(DELTA);
+    await until(() => ran.length > 0);
+    queue.receive({ type: 'go', id: 1 });
+    await later(60);
+    expect(ran).toEqual(['a']);
+    queue.receive({ type: 'go', id: 2 });
+    await until(() => posted.length > 0);
+    expect(ran).toEqual(['a', 'b']);
   });
 
   it('waits for a hold sent before a request arrives, and takes requests that come meanwhile in order', async () => {

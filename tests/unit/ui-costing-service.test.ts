@@ -261,8 +261,8 @@ describe('CostingService with the figures worker', () => {
     holder.change({ put: { buildLines: [{ ...line, qtyRule: String(Number(line.qtyRule) + 1) }] } });
     costing.sync();
     costing.holdWhileDrawing();
-    // Every change is held until the page has drawn it (here, with no idle callback, the next task), and so is the
-    // switch of pages.
+    // A build line edit, which the worker takes long over, is held until the page has drawn it (here, with no idle
+    // callback, the next task), and so is the switch of pages.
     const hold = `hold ${HOLD_MAX_MS}`;
     expect(workers[0]!.order).toEqual(['book', hold, 'delta', hold]);
     await settled(costing);
@@ -354,8 +354,9 @@ describe('CostingService with the figures worker', () => {
       await settled(costing);
       expect(costing.pending).toBe(false);
       expect(live(costing, holder.book)).toEqual(fresh(second));
-      // An edit is not a replacement: sent at once (a setting, quick to work out, without holding the worker).
-      holder.change({ settings: { ...holder.book.settings, overheadPct: holder.book.settings.overheadPct + 1 } });
+      // An edit is not a replacement: sent at once (a parameter, quick to work out, without holding the worker).
+      const v = holder.book.variants[0]!;
+      holder.change({ put: { variants: [{ ...v, params: { ...v.params, t_amb: 41 } }] } });
       costing.sync();
       expect(workers[1]!.order).toEqual(['book', 'delta']);
       expect(idle).toHaveLength(2);
