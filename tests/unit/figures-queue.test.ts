@@ -89,6 +89,16 @@ describe('A build rule edit in the figures worker', () => {
     expect(r.value).toEqual(expected);
     const last = r.value.at(-1)!;
     expect(last.type === 'figures' && last.update.kind).toBe('edited');
+    // The unit costs the edit moved are those of a workbook built afresh on the edited Book.
+    const costs = (messages: FiguresMessage[]): Map<string, number> =>
+      new Map(messages.flatMap((m) => (m.type === 'figures' ? m.update.costs.map((c) => [`${c.variantId} ${c.run}`, c.value] as const) : [])));
+    const edited = costs(r.value);
+    const afresh = costs(new FiguresHost().handle({ type: 'book', seq: 0, book: next }));
+    // The variants the rule now leaves the line out of, at every run size.
+    const left = book.variants.filter((v) => Number(v.params['steps']) === steps).length;
+    expect(left).toBeGreaterThan(0);
+    expect(edited.size).toBe(left * book.settings.runSizes.length);
+    for (const [key, value] of edited) expect(value).toBe(afresh.get(key));
   });
 
   it('tries a line being edited in parts, with the outcomes tried at once', () => {
