@@ -3,7 +3,7 @@
 import { describe, expect, it } from 'vitest';
 import { bookDelta } from '../../src/domain/book-ops.ts';
 import type { BookDelta } from '../../src/domain/book-ops.ts';
-import type { Book } from '../../src/domain/book.ts';
+import type { Book, BuildLine } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import type { Sliced } from '../../src/domain/slices.ts';
 import { VARIANTS_PER_RELINE } from '../../src/engine/figures.ts';
@@ -38,6 +38,11 @@ function steppedHost(steps: string[], ran: string[], at: Record<string, () => vo
   };
 }
 
+/** The first line every variant buys: a constant quantity, no rule, a part. */
+function boughtLine(book: Book): BuildLine {
+  return book.buildLines.find((l) => /^\d+$/.test(l.qtyRule) && l.appliesWhen === '' && l.partId !== undefined)!;
+}
+
 /** A change for the stepped hosts above, which never read it. */
 const DELTA: FiguresRequest = { type: 'delta', seq: 1, delta: bookDelta(demoBook(), demoBook()) };
 
@@ -46,7 +51,7 @@ describe('A build line edit in the figures worker', () => {
     const book = referenceFamily().book;
     const host = new FiguresHost();
     host.handle({ type: 'book', seq: 0, book });
-    const line = book.buildLines.find((l) => /^\d+$/.test(l.qtyRule) && l.appliesWhen === '' && l.partId !== undefined)!;
+    const line = boughtLine(book);
     const next = { ...book, buildLines: book.buildLines.map((l) => (l.id === line.id ? { ...l, rev: l.rev + 1, qtyRule: String(Number(l.qtyRule) + 1) } : l)) };
     const steps = host.handleInSteps({ type: 'delta', seq: 1, delta: bookDelta(book, next) });
     let parts = 1;
@@ -69,7 +74,7 @@ describe('A build rule edit in the figures worker', () => {
     const book = referenceFamily().book;
     const first = book.variants.map((v) => v.code).sort()[0]!;
     const steps = Number(book.variants.find((v) => v.code === first)!.params['steps']);
-    const line = book.buildLines.find((l) => /^\d+$/.test(l.qtyRule) && l.appliesWhen === '' && l.partId !== undefined)!;
+    const line = boughtLine(book);
     // A rule is a cell of the table: the edit lays the table out again (setLineTerms takes only constant terms).
     const next = { ...book, buildLines: book.buildLines.map((l) => (l.id === line.id ? { ...l, rev: l.rev + 1, appliesWhen: `steps <> ${steps}` } : l)) };
     const request: FiguresRequest = { type: 'delta', seq: 1, delta: bookDelta(book, next) };
@@ -103,7 +108,7 @@ describe('A build rule edit in the figures worker', () => {
 
   it('tries a line being edited in parts, with the outcomes tried at once', () => {
     const book = referenceFamily().book;
-    const line = book.buildLines.find((l) => /^\d+$/.test(l.qtyRule) && l.appliesWhen === '' && l.partId !== undefined)!;
+    const line = boughtLine(book);
     const draft = { ...line, appliesWhen: 'steps > 4', qtyRule: 'steps' };
     const work = trialOutcomesInSteps(book, draft);
     let parts = 1;
@@ -177,7 +182,7 @@ describe('The figures worker queue', () => {
 
   it('answers requests in the order sent, as the host answers them one by one', async () => {
     const book = referenceFamily().book;
-    const line = book.buildLines.find((l) => /^\d+$/.test(l.qtyRule) && l.appliesWhen === '' && l.partId !== undefined)!;
+    const line = boughtLine(book);
     const next = { ...book, buildLines: book.buildLines.map((l) => (l.id === line.id ? { ...l, rev: l.rev + 1, qtyRule: '7' } : l)) };
     const requests: FiguresRequest[] = [
       { type: 'book', seq: 0, book },
