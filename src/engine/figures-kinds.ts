@@ -1,6 +1,15 @@
 // The shapes of the figures the figures worker (or LiveFigures in-process) hands the page, without the engines.
+import type { CollectionName } from '../domain/book.ts';
 import type { ChangedCost } from './costing.ts';
 import type { CheckResult, VariantResolution } from './family.ts';
+
+/**
+ * The collections the live figures are worked out from (with the settings): the worker catches up on these and on no
+ * other (LiveFigures.catchUp), and the page tells from them whether a change takes the worker long (takesLong).
+ * Variants and quotes may be edited in place; a change to any other of them builds a workbook again.
+ */
+export const FIGURES_READ = ['variants', 'quotes', 'buildLines', 'checks', 'parts', 'suppliers'] as const satisfies readonly CollectionName[];
+export type FiguresCollection = (typeof FIGURES_READ)[number];
 
 /** How a catch-up brought the figures up to date. */
 export const SYNC_KINDS = {

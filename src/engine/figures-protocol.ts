@@ -1,7 +1,8 @@
 // What the page and the figures worker say to each other (engine/figures-worker.ts), and how a large Book or change
 // is cut into parts. Kept apart from the worker's engines so the page loads none of them to talk to it.
-import type { Book, BuildLine, CollectionName, Quote } from '../domain/book.ts';
+import type { Book, BuildLine, Quote } from '../domain/book.ts';
 import type { BookDelta } from '../domain/book-ops.ts';
+import { FIGURES_READ } from './figures-kinds.ts';
 import type { FiguresUpdate } from './figures-kinds.ts';
 import type { LineOutcome } from './line-trial.ts';
 import type { WhatIf, WhatIfAnswer, WhatIfWant } from './what-if.ts';
@@ -39,8 +40,8 @@ export type FiguresMessage =
 /** The longest the page may hold the worker with one request, in ms: a "go" that never comes costs no more. */
 export const HOLD_MAX_MS = 300;
 
-/** Collections the figures are worked out from (with the settings); a change to any other is answered at once. */
-const FIGURES_READ: ReadonlySet<string> = new Set<CollectionName>(['variants', 'quotes', 'buildLines', 'checks', 'parts', 'suppliers']);
+/** The collections the figures read, to look names up in. */
+const READ: ReadonlySet<string> = new Set<string>(FIGURES_READ);
 
 /** Variants or quotes edited in one change, at most, that the worker works out in a few ms (see takesLong). */
 export const QUICK_RECORDS = 10;
@@ -57,7 +58,7 @@ export const QUICK_RECORDS = 10;
 export function takesLong(prev: Book, next: Book, delta: BookDelta): boolean {
   if (delta.settings !== undefined) return true;
   for (const [name, d] of Object.entries(delta.collections)) {
-    if (!d || !FIGURES_READ.has(name)) continue;
+    if (!d || !READ.has(name)) continue;
     if (name !== 'variants' && name !== 'quotes') return true;
     const c = name as 'variants' | 'quotes';
     if ('all' in d || d.delete.length > 0 || d.put.length > QUICK_RECORDS || prev[c].length !== next[c].length) return true;

@@ -2,7 +2,7 @@
 // (seconds for a large family) and recomputing after an edit never hold up the page. The page sends the Book once,
 // then only what changed (a BookDelta); each answer is the FiguresUpdate of that step, posted in parts that each take
 // the page a few milliseconds to receive. The page's side is src/ui/costing-service.ts.
-import type { Quote } from '../domain/book.ts';
+import type { Book, Quote } from '../domain/book.ts';
 import { applyBookDelta } from '../domain/book-ops.ts';
 import type { BookDelta } from '../domain/book-ops.ts';
 import { createEngine } from './create.ts';
@@ -24,6 +24,11 @@ export class FiguresHost {
   private readonly checkTrials = new CheckTrials();
   /** Quotes sent ahead of the Book or change that uses them. */
   private staged: Quote[] = [];
+  /**
+   * The Book last sent, or the one the last change sent gave: what a line or check is tried on. Kept when its figures
+   * failed (the workbooks are closed then), so a trial queued behind that change still answers.
+   */
+  private book: Book | undefined;
 
   /** The Compare page's figures, from the Book as the worker holds it now. */
   whatIf(request: WhatIfRequest): WhatIfAnswer {
@@ -49,7 +54,7 @@ export class FiguresHost {
     if (request?.type === 'hold' || request?.type === 'go') return [];
     if (request?.type === 'whatif') return [{ type: 'whatif', id: request.id, answer: this.whatIf(request) }];
     if (request?.type === 'trial') {
-      const book = this.live.current;
+      const book = this.book;
       if (!book) return [{ type: 'refused', id: request.id, message: 'the figures worker holds no Book yet' }];
       try {
         return [{ type: 'trial', id: request.id, outcomes: yield* trialOutcomesInSteps(book, request.line) }];
@@ -58,7 +63,7 @@ export class FiguresHost {
       }
     }
     if (request?.type === 'checktrial') {
-      const book = this.live.current;
+      const book = this.book;
       if (!book) return [{ type: 'refused', id: request.id, message: 'the figures worker holds no Book yet' }];
       try {
         return [{ type: 'checktrial', id: request.id, answer: this.checkTrials.answer(book, request) }];
@@ -79,11 +84,15 @@ export class FiguresHost {
     try {
       const staged = this.staged;
       this.staged = [];
-      if (request?.type === 'book') return answer(yield* this.live.updateInSteps(request.staged ? { ...request.book, quotes: staged } : request.book));
+      if (request?.type === 'book') {
+        this.book = request.staged ? { ...request.book, quotes: staged } : request.book;
+        return answer(yield* this.live.updateInSteps(this.book));
+      }
       if (request?.type === 'delta') {
-        const held = this.live.current;
+        const held = this.book;
         if (!held) return [{ type: 'failed', seq, message: 'the figures worker was sent a change before any Book' }];
-        return answer(yield* this.live.updateInSteps(applyBookDelta(held, request.staged ? withStagedQuotes(request.delta, staged) : request.delta)));
+        this.book = applyBookDelta(held, request.staged ? withStagedQuotes(request.delta, staged) : request.delta);
+        return answer(yield* this.live.updateInSteps(this.book));
       }
       return [{ type: 'failed', seq, message: 'the figures worker was sent something other than a Book or a change' }];
     } catch (e) {

@@ -8,7 +8,7 @@
 // setting, a variant parameter whose build lines resolve as before, a build line's constant quantity, attrition,
 // designators, category or pin — and rebuilds them on structural changes (variants added or deleted, parts, build
 // lines added, removed or given other rules, suppliers, run sizes, quote terms other than prices).
-import type { Book, CollectionName, Quote, Settings, Variant } from '../domain/book.ts';
+import type { Book, Quote, Settings, Variant } from '../domain/book.ts';
 import type { ResolvedLine, Result } from '../domain/costing.ts';
 import { sameValue } from '../domain/merge.ts';
 import { runAtOnce } from '../domain/slices.ts';
@@ -18,14 +18,16 @@ import type { ChangedCost } from './costing.ts';
 import { FamilyWorkbook } from './family.ts';
 import type { CheckResult } from './family.ts';
 
-import { SYNC_KINDS } from './figures-kinds.ts';
-import type { CostingChangeDetail, FiguresUpdate, UnitCostFigure } from './figures-kinds.ts';
+import { FIGURES_READ, SYNC_KINDS } from './figures-kinds.ts';
+import type { CostingChangeDetail, FiguresCollection, FiguresUpdate, UnitCostFigure } from './figures-kinds.ts';
 
 export { SYNC_KINDS } from './figures-kinds.ts';
 export type { CostingChangeDetail, FiguresUpdate, SyncKind, UnitCostFigure } from './figures-kinds.ts';
 
 /** Cost settings the costing workbook takes live. */
 const LIVE_SETTINGS = ['labourRatePerHour', 'labourMinutesPerUnit', 'labourMinutesPerPlacement', 'testCostPerUnit', 'overheadPct', 'marginPct'] as const;
+/** Collections of FIGURES_READ that catchUp weighs record by record; a change to any other builds both workbooks again. */
+const IN_PLACE: ReadonlySet<FiguresCollection> = new Set(['variants', 'quotes', 'buildLines', 'checks']);
 /** Settings that change no figure. */
 const QUIET_SETTINGS: ReadonlySet<keyof Settings> = new Set(['id', 'rev', 'bookName', 'company', 'lastExportAt', 'editsSinceExport']);
 
@@ -232,12 +234,13 @@ export class LiveFigures {
 
   /** Edits the workbooks in place where the change allows it, else rebuilds what depends on it. */
   private *catchUp(prev: Book, next: Book): Sliced<FiguresUpdate> {
-    const diff = <C extends CollectionName>(c: C) => diffRecords<Book[C][number]>(prev[c], next[c]);
+    const diff = <C extends FiguresCollection>(c: C) => diffRecords<Book[C][number]>(prev[c], next[c]);
     const variants = diff('variants');
     const checks = diff('checks');
     const lineDiff = diff('buildLines');
-    const partsOrSuppliers = !empty(diff('parts')) || !empty(diff('suppliers'));
-    const shapeSame = !partsOrSuppliers && empty(checks) && variants.added.length === 0 && variants.removed.length === 0;
+    // Any other collection the figures read (parts, suppliers) is taken in by building both workbooks again.
+    const othersChanged = FIGURES_READ.some((c) => !IN_PLACE.has(c) && !empty(diff(c)));
+    const shapeSame = !othersChanged && empty(checks) && variants.added.length === 0 && variants.removed.length === 0;
     const onlyLines = shapeSame && variants.changed.length === 0 && lineDiff.added.length === 0 && lineDiff.removed.length === 0 && lineDiff.changed.length > 0;
     yield;
     // A quantity, attrition, designator, category or pin edit leaves the family table's cells as they are: the
@@ -246,7 +249,7 @@ export class LiveFigures {
     const familyRebuild = !linesInPlace && (!shapeSame || !empty(lineDiff));
 
     let familyTouched = familyRebuild;
-    let costingRebuild = partsOrSuppliers || variants.added.length > 0 || variants.removed.length > 0;
+    let costingRebuild = othersChanged || variants.added.length > 0 || variants.removed.length > 0;
     const oldSets = new Map(this.lineSets);
     /** Variants whose build lines (or a line they fit) changed: their costs are worked out again in place. */
     const moved = new Set<string>();

@@ -37,6 +37,13 @@ export type { CostingChangeDetail, SyncKind } from '../engine/figures-kinds.ts';
 export const REPLACED_WAIT_MS = 500;
 
 /**
+ * The longest a question to the worker (a what-if, a line or check tried) waits for its answer, in ms: the Build and
+ * Checks pages' saves wait on their trials, and a worker that never answers must not keep them saving for ever. Far
+ * above the longest wait seen: a trial queued behind the figures of a 30 MB Book just opened (7–12 s in all).
+ */
+export const ASK_LIMIT_MS = 60_000;
+
+/**
  * The engines, for running in this thread where there are no Web Workers (Node: tests, the command line's twin of
  * the app). The page has workers and never loads them here: its first view parses no formula engine.
  */
@@ -364,7 +371,16 @@ export class CostingService extends EventTarget {
     if (!worker) return Promise.reject(new Error(this.costingError ?? 'the figures worker is not running'));
     const id = ++this.nextAsk;
     return new Promise<T>((resolve, reject) => {
-      this.asked.set(id, { resolve: resolve as (a: never) => void, reject });
+      // A question that waits on a save (a line or check tried before it is kept) must end even if no answer comes.
+      const limit = setTimeout(() => {
+        if (!this.asked.delete(id)) return;
+        reject(new Error(`the figures worker gave no answer in ${ASK_LIMIT_MS / 1000} s`));
+      }, ASK_LIMIT_MS);
+      const done = <A>(end: (a: A) => void) => (a: A) => {
+        clearTimeout(limit);
+        end(a);
+      };
+      this.asked.set(id, { resolve: done(resolve as (a: never) => void), reject: done(reject) });
       worker.postMessage(request(id));
     });
   }
@@ -529,9 +545,9 @@ export class CostingService extends EventTarget {
     this.dropAsked(why);
   }
 
-  /** Fails every what-if question still waiting. */
+  /** Fails every question still waiting (a what-if, a line or check tried). */
   private dropAsked(why: string): void {
-    for (const { reject } of this.asked.values()) reject(new Error(`the what-if figures could not be worked out: ${why}`));
+    for (const { reject } of this.asked.values()) reject(new Error(`the figures worker gave no answer: ${why}`));
     this.asked.clear();
   }
 

@@ -3,10 +3,12 @@
 import { describe, expect, it } from 'vitest';
 import { bookDelta } from '../../src/domain/book-ops.ts';
 import type { BookDelta } from '../../src/domain/book-ops.ts';
+import { COLLECTIONS } from '../../src/domain/book.ts';
 import type { Book, BuildLine } from '../../src/domain/book.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import type { Sliced } from '../../src/domain/slices.ts';
-import { VARIANTS_PER_RELINE } from '../../src/engine/figures.ts';
+import { LiveFigures, SYNC_KINDS, VARIANTS_PER_RELINE } from '../../src/engine/figures.ts';
+import { FIGURES_READ } from '../../src/engine/figures-kinds.ts';
 import { ROWS_PER_STEP } from '../../src/engine/family-workbook.ts';
 import { trialOutcomes, trialOutcomesInSteps } from '../../src/engine/line-trial.ts';
 import { FiguresHost, FiguresQueue } from '../../src/engine/figures-worker.ts';
@@ -152,6 +154,19 @@ describe('Which changes the page holds the worker for', () => {
     ];
     expect(book.quotes.length).toBeGreaterThan(QUICK_RECORDS);
     for (const [a, b, d] of long) expect(takesLong(a, b, d)).toBe(true);
+  });
+
+  it('reads one list of the collections the figures come from: a record added to one is held for, to any other answered as the same figures', () => {
+    const book = demoBook();
+    const live = new LiveFigures();
+    live.update(book);
+    for (const c of COLLECTIONS) {
+      const next = { ...book, [c]: [...book[c], { id: `${c}_added`, rev: 1 }] } as Book;
+      const read = (FIGURES_READ as readonly string[]).includes(c);
+      expect(takesLong(book, next, bookDelta(book, next)), c).toBe(read);
+      if (!read) expect(live.update(next).kind, c).toBe(SYNC_KINDS.same);
+    }
+    live.close();
   });
 });
 

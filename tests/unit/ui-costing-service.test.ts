@@ -15,12 +15,13 @@ import { loadBuiltInChecks } from '../../src/cli/check-sheets-fs.ts';
 import { costVariant } from '../../src/io/run-export.ts';
 import { referenceFamily } from '../fixtures/reference-family.ts';
 import { FiguresHost, QUOTES_PER_PART, stageQuotes } from '../../src/engine/figures-worker.ts';
+import { LiveFigures } from '../../src/engine/figures.ts';
 import { HOLD_MAX_MS } from '../../src/engine/figures-protocol.ts';
 import type { FiguresRequest } from '../../src/engine/figures-worker.ts';
 import { costingInWorker } from '../fixtures/fake-figures-worker.ts';
 import type { FakeWorker } from '../fixtures/fake-figures-worker.ts';
 import { trialProblems } from '../../src/ui/build-rules.ts';
-import { CostingService, REPLACED_WAIT_MS } from '../../src/ui/costing-service.ts';
+import { ASK_LIMIT_MS, CostingService, REPLACED_WAIT_MS } from '../../src/ui/costing-service.ts';
 
 const CHECKS = loadBuiltInChecks();
 
@@ -230,8 +231,6 @@ function startInWorker(): { holder: Holder; costing: CostingService; workers: Fa
   return { holder, ...costingInWorker(holder) };
 }
 describe('CostingService with the figures worker', () => {
-
-
   it('answers from the worker: pending until the figures arrive, then the same figures as a fresh workbook', async () => {
     const { holder, costing, workers } = startInWorker();
     const events: string[] = [];
@@ -593,6 +592,68 @@ describe('Trying a build line on every variant', () => {
     const problems = trialProblems(a);
     const failing = book.variants.filter((v) => Number(v.params['steps']) <= 4).map((v) => v.code);
     expect(problems.qtyRule).toContain(failing.join(', '));
+  });
+
+  it('tries a line queued behind a change whose figures failed, on the Book that change gave', () => {
+    const host = new FiguresHost();
+    const book = addBuiltInChecks(demoBook(), CHECKS);
+    expect(host.handle({ type: 'book', seq: 1, book }).at(-1)).toMatchObject({ type: 'figures', last: true });
+    const added = { ...book.variants[0]!, id: 'var_added', code: 'ADDED-1', rev: 1 };
+    const next = { ...book, variants: [...book.variants, added] };
+    // The workbooks fail part-way through the change (the engine's own error): the worker closes them.
+    const spy = vi.spyOn(LiveFigures.prototype, 'updateInSteps').mockImplementationOnce(function* () {
+      throw new Error('engine failed');
+    });
+    try {
+      const failed = host.handle({ type: 'delta', seq: 2, delta: bookDelta(book, next) });
+      expect(failed).toEqual([{ type: 'failed', seq: 2, message: 'the figures could not be worked out: engine failed' }]);
+    } finally {
+      spy.mockRestore();
+    }
+    const [answer] = host.handle({ type: 'trial', id: 7, line: { ...book.buildLines[0]!, id: 'line_trial', qtyRule: '2' } });
+    expect(answer).toMatchObject({ type: 'trial', id: 7 });
+    const outcomes = (answer as Extract<typeof answer, { type: 'trial' }>).outcomes;
+    expect(outcomes.map((o) => o.variantId)).toEqual(next.variants.map((v) => v.id));
+    expect(outcomes.every((o) => o.qtyPerUnit === 2 && o.problem === undefined)).toBe(true);
+    // The next change is worked out afresh on that Book: the figures are whole again.
+    const after = { ...next, settings: { ...next.settings, overheadPct: next.settings.overheadPct + 1 } };
+    const parts = host.handle({ type: 'delta', seq: 3, delta: bookDelta(next, after) });
+    const last = parts.at(-1)!;
+    expect(last).toMatchObject({ type: 'figures', last: true });
+    const costs = new Map(parts.flatMap((m) => (m.type === 'figures' ? m.update.costs : [])).map((c) => [`${c.variantId}@${c.run}`, c.value] as const));
+    expect(costs).toEqual(fresh(after));
+  });
+
+  it('gives up on a question the worker never answers, so a save waiting on its trial says why', async () => {
+    const { holder, costing, workers } = startInWorker();
+    await settled(costing);
+    const worker = workers[0]!;
+    const post = worker.postMessage.bind(worker);
+    // This worker takes questions in and never answers them.
+    worker.postMessage = (m) => {
+      if (m.type !== 'trial') post(m);
+    };
+    vi.useFakeTimers();
+    try {
+      const trial = costing.trialLine({ ...holder.book.buildLines[0]!, id: 'line_trial' });
+      const outcome = trial.then(
+        () => 'answered',
+        (e: Error) => e.message,
+      );
+      await vi.advanceTimersByTimeAsync(ASK_LIMIT_MS - 1);
+      let seen: string | undefined;
+      void outcome.then((o) => (seen = o));
+      await vi.advanceTimersByTimeAsync(0);
+      expect(seen).toBeUndefined();
+      await vi.advanceTimersByTimeAsync(1);
+      expect(await outcome).toBe(`the figures worker gave no answer in ${ASK_LIMIT_MS / 1000} s`);
+    } finally {
+      vi.useRealTimers();
+    }
+    // The worker still answers what it does answer.
+    worker.postMessage = post;
+    const outcomes = await costing.trialLine({ ...holder.book.buildLines[0]!, id: 'line_trial' });
+    expect(outcomes).toHaveLength(holder.book.variants.length);
   });
 });
 
