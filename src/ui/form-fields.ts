@@ -4,6 +4,7 @@ import { html, nothing } from 'lit';
 import type { TemplateResult } from 'lit';
 import { live } from 'lit/directives/live.js';
 import type { NameHint } from './rb-formula-input.ts';
+import type { Book } from '../domain/book.ts';
 import type { BookChange } from '../domain/book-ops.ts';
 import type { SaveResult } from './book-service.ts';
 
@@ -201,14 +202,33 @@ export interface RowActions {
   onKeep: () => void;
   onEdit: () => void;
   onAskDelete: () => void;
+  /** Why this row's delete was refused (records still use it, or the Book refused the save), said under its buttons. */
+  problem?: string | undefined;
 }
 
 /** A record row's edit and delete buttons; a delete is asked in place, with Delete and Keep. */
 export function rowActions(o: RowActions): TemplateResult {
-  return o.confirming
+  const buttons = o.confirming
     ? html`${o.question}
         <button type="button" class="danger" @click=${o.onDelete}>Delete</button>
         <button type="button" class="quiet" @click=${o.onKeep}>Keep</button>`
     : html`<button type="button" class="quiet" @click=${o.onEdit}>edit</button>
         <button type="button" class="quiet" @click=${o.onAskDelete}>delete</button>`;
+  return html`${buttons}${o.problem ? html`<div class="problem" role="alert">${o.problem}</div>` : nothing}`;
+}
+
+/**
+ * A delete confirmed on a record's row: refused while records still use the record (`users`, asked of the Book as it
+ * is at the click, which may have changed since the question was asked), else saved. Gives why it was not deleted —
+ * those users, or the Book's refusal of the save — for the row to say, or undefined once deleted.
+ */
+export async function deleteFromRow(
+  service: { book: Book; save(change: BookChange): Promise<SaveResult> },
+  change: BookChange,
+  users?: (book: Book) => string | undefined,
+): Promise<string | undefined> {
+  const used = users?.(service.book);
+  if (used) return used;
+  const result = await service.save(change);
+  return result.ok ? undefined : result.message;
 }

@@ -7,7 +7,7 @@ import { PART_KINDS, newId } from '../domain/book.ts';
 import { PART_RATINGS } from '../domain/params.ts';
 import { formatValue } from '../domain/units.ts';
 import { BookController } from './book-context.ts';
-import { field, group, nothingSaved, rowActions, saveRecordForm, saveRefusal } from './form-fields.ts';
+import { deleteFromRow, field, group, nothingSaved, rowActions, saveRecordForm, saveRefusal } from './form-fields.ts';
 import type { FieldProblems, PartDraft } from './record-forms.ts';
 import { KIND_VALUE_UNITS, partDraft, partUsers, validatePart } from './record-forms.ts';
 import { pageStyles } from './styles.ts';
@@ -119,8 +119,8 @@ export class RbPartsPage extends LitElement {
           onKeep: () => (this.confirmDelete = undefined),
           onEdit: () => this.startEdit(p),
           onAskDelete: () => this.askDelete(book, p),
+          problem,
         })}
-        ${problem ? html`<div class="problem" role="alert">${problem}</div>` : ''}
       </td>
     </tr>`;
   }
@@ -218,14 +218,9 @@ export class RbPartsPage extends LitElement {
     const service = this.books.service;
     if (!service) return;
     this.confirmDelete = undefined;
-    const users = partUsers(service.book, p.id);
-    if (users) {
-      this.rowProblem = { id: p.id, message: users };
-      return;
-    }
-    const result = await service.save({ delete: { parts: [p.id] } });
-    if (!result.ok) this.rowProblem = { id: p.id, message: result.message };
-    if (this.editing?.part?.id === p.id) this.editing = undefined;
+    const problem = await deleteFromRow(service, { delete: { parts: [p.id] } }, (b) => partUsers(b, p.id));
+    if (problem) this.rowProblem = { id: p.id, message: problem };
+    else if (this.editing?.part?.id === p.id) this.editing = undefined;
   }
 }
 

@@ -12,7 +12,7 @@ import { exportBytes } from '../io/csv-write.ts';
 import { priceListCsv, priceListFileName } from '../io/price-list-export.ts';
 import { BookController } from './book-context.ts';
 import { CostingService } from './costing-service.ts';
-import { field, nothingSaved, rowActions, saveRecordForm, saveRefusal } from './form-fields.ts';
+import { deleteFromRow, field, nothingSaved, rowActions, saveRecordForm, saveRefusal } from './form-fields.ts';
 import { downloadFile } from './rb-export-page.ts';
 import { pageStyles } from './styles.ts';
 
@@ -33,6 +33,8 @@ export class RbPriceListsPage extends LitElement {
   private readonly books = new BookController(this);
   @state() private editing: Editing | undefined;
   @state() private confirmDelete: string | undefined;
+  /** Why a row's delete was refused, said on that row. */
+  @state() private rowProblem: { id: string; message: string } | undefined;
   @state() private downloadProblem: string | undefined;
   private costing: CostingService | undefined;
   private syncQueued = false;
@@ -130,7 +132,11 @@ export class RbPriceListsPage extends LitElement {
                         onDelete: () => this.delete(l),
                         onKeep: () => (this.confirmDelete = undefined),
                         onEdit: () => this.startEdit(l),
-                        onAskDelete: () => (this.confirmDelete = l.id),
+                        onAskDelete: () => {
+                          this.rowProblem = undefined;
+                          this.confirmDelete = l.id;
+                        },
+                        problem: this.rowProblem?.id === l.id ? this.rowProblem.message : undefined,
                       })}
                     </td>
                   </tr>`,
@@ -222,8 +228,9 @@ export class RbPriceListsPage extends LitElement {
     const service = this.books.service;
     this.confirmDelete = undefined;
     if (!service) return;
-    await service.save({ delete: { priceLists: [l.id] } });
-    if (this.editing?.list?.id === l.id) this.editing = undefined;
+    const problem = await deleteFromRow(service, { delete: { priceLists: [l.id] } });
+    if (problem) this.rowProblem = { id: l.id, message: problem };
+    else if (this.editing?.list?.id === l.id) this.editing = undefined;
   }
 
   private download(book: Book, tables: PriceTable[]): void {

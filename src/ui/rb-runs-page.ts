@@ -7,7 +7,7 @@ import { newId } from '../domain/book.ts';
 import { runDraft, validateRun } from '../domain/freeze.ts';
 import type { RunDraft, RunProblems } from '../domain/freeze.ts';
 import { BookController } from './book-context.ts';
-import { field, nothingSaved, rowActions, saveRecordForm, saveRefusal } from './form-fields.ts';
+import { deleteFromRow, field, nothingSaved, rowActions, saveRecordForm, saveRefusal } from './form-fields.ts';
 import './rb-run-detail.ts';
 import { runUsers } from './record-forms.ts';
 import { sortRuns } from './run-order.ts';
@@ -107,8 +107,8 @@ export class RbRunsPage extends LitElement {
           onKeep: () => (this.confirmDelete = undefined),
           onEdit: () => this.startEdit(book, r),
           onAskDelete: () => this.askDelete(r),
+          problem,
         })}
-        ${problem ? html`<div class="problem" role="alert">${problem}</div>` : ''}
       </td>
     </tr>`;
   }
@@ -198,8 +198,11 @@ export class RbRunsPage extends LitElement {
     const service = this.books.service;
     if (!service) return;
     this.confirmDelete = undefined;
-    const result = await service.save({ delete: { runs: [r.id] } });
-    if (!result.ok) this.rowProblem = { id: r.id, message: result.message };
+    const problem = await deleteFromRow(service, { delete: { runs: [r.id] } }, (b) => runUsers(b, r.id));
+    if (problem) {
+      this.rowProblem = { id: r.id, message: problem };
+      return;
+    }
     if (this.editing?.run?.id === r.id) this.editing = undefined;
     if (this.chosen === r.id) this.chosen = undefined;
   }

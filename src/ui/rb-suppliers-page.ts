@@ -5,7 +5,7 @@ import { customElement, state } from 'lit/decorators.js';
 import type { Book, Supplier } from '../domain/book.ts';
 import { newId } from '../domain/book.ts';
 import { BookController } from './book-context.ts';
-import { field, nothingSaved, rowActions, saveRecordForm, saveRefusal } from './form-fields.ts';
+import { deleteFromRow, field, nothingSaved, rowActions, saveRecordForm, saveRefusal } from './form-fields.ts';
 import type { FieldProblems, SupplierDraft } from './record-forms.ts';
 import { supplierDraft, supplierUsers, validateSupplier } from './record-forms.ts';
 import { pageStyles } from './styles.ts';
@@ -85,8 +85,8 @@ export class RbSuppliersPage extends LitElement {
           onKeep: () => (this.confirmDelete = undefined),
           onEdit: () => this.startEdit(book, s),
           onAskDelete: () => this.askDelete(book, s),
+          problem,
         })}
-        ${problem ? html`<div class="problem" role="alert">${problem}</div>` : ''}
       </td>
     </tr>`;
   }
@@ -200,14 +200,9 @@ export class RbSuppliersPage extends LitElement {
     const service = this.books.service;
     if (!service) return;
     this.confirmDelete = undefined;
-    const users = supplierUsers(service.book, s.id);
-    if (users) {
-      this.rowProblem = { id: s.id, message: users };
-      return;
-    }
-    const result = await service.save({ delete: { suppliers: [s.id] } });
-    if (!result.ok) this.rowProblem = { id: s.id, message: result.message };
-    if (this.editing?.supplier?.id === s.id) this.editing = undefined;
+    const problem = await deleteFromRow(service, { delete: { suppliers: [s.id] } }, (b) => supplierUsers(b, s.id));
+    if (problem) this.rowProblem = { id: s.id, message: problem };
+    else if (this.editing?.supplier?.id === s.id) this.editing = undefined;
   }
 }
 

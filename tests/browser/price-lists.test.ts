@@ -143,6 +143,28 @@ describe('customer price lists', () => {
     expect(errors).toEqual([]);
   });
 
+  it('deletes a list from its row once asked, and it stays deleted after a reload', async () => {
+    const { page, errors } = await openPrices();
+    const listRows = page.locator('[data-testid="price-lists-table"] tbody tr');
+    const gone = demo.priceLists[0]!;
+    const row = page.locator(`[data-testid="price-lists-table"] tbody tr[data-id="${gone.id}"]`);
+    await row.getByRole('button', { name: 'delete', exact: true }).click();
+    await expect(text(page, `[data-testid="price-lists-table"] tbody tr[data-id="${gone.id}"] td.acts`)).resolves.toContain(`Delete ${gone.name}?`);
+    // Keep asks nothing more and keeps it.
+    await row.getByRole('button', { name: 'Keep' }).click();
+    await row.getByRole('button', { name: 'delete', exact: true }).click();
+    await row.getByRole('button', { name: 'Delete', exact: true }).click();
+    await expect.poll(() => listRows.count()).toBe(demo.priceLists.length - 1);
+    // Its table of prices goes with it (the tables are drawn again once the figures are in).
+    await expect.poll(() => page.locator('[data-testid="price-table"]').count()).toBe(demo.priceLists.length - 1);
+    await saved(page);
+    await page.reload();
+    await page.locator('[data-testid="price-lists-table"]').waitFor({ timeout: 60_000 });
+    await expect.poll(() => listRows.count()).toBe(demo.priceLists.length - 1);
+    expect((await listRows.locator('td:first-child').allTextContents()).map(readerText).sort()).toEqual(demo.priceLists.slice(1).map((l) => l.name).sort());
+    expect(errors).toEqual([]);
+  });
+
   it('downloads the CSV for customers: the export module’s very bytes, prices only, one row per list and variant', async () => {
     const { page, errors } = await openPrices();
     await fillTradeList(page);
