@@ -22,13 +22,14 @@
 //             own (same kernels) and the unit cost becomes =COST_UNIT(material, labour, test, overhead).
 // A quote price edit dirties one Quotes cell, the few Demand cells of that part, their blocks, and only the variants
 // that buy that part. A rate edit dirties the Demand cells in that currency once each, however many variants share
-// them. Validity (superseded, expired, bad breaks) is decided at open: edit those fields and reopen. Prices, rates,
+// them. A quote's other terms and its validity (superseded, expired, deleted) are taken by writing its row again, or
+// blank (updateQuote); a quote that was not usable at open, or is new, needs the workbook opened again. Prices, rates,
 // cost settings and overrides are live. A variant whose lines change (a parameter, a quantity, a rule) is costed again
 // in place block by block with the blocks of the open: Demand and Blocks cells are added for needs and lists of them
 // not costed yet, and only the rows whose formulas come out different are set. The price is derived on reading:
 // unit cost / (1 − margin).
 import type { CellValue, ExportedChange, HyperFormula, SimpleCellAddress } from 'hyperformula';
-import type { Book, BuildLine, CurrencyCode, Quote } from '../domain/book.ts';
+import type { Book, BuildLine, CurrencyCode, Quote, Supplier } from '../domain/book.ts';
 import {
   costVariantRun,
   candidateQuotes,
@@ -117,6 +118,13 @@ function errorText(v: CellValue): string | undefined {
 }
 
 /** A variant row's placements per unit and, per run size, its cells' formulas. */
+/** A usable quote's place on the Quotes sheet: its row, its number of breaks and its rank in id order (ties). */
+interface QuoteRow {
+  row: number;
+  breaks: number;
+  rank: number;
+}
+
 interface RowPlan {
   placements: number;
   /** COST_MATERIAL formulas, kept to expand the row for overrides. */
@@ -226,6 +234,37 @@ function runCells(
   return order === undefined ? { cost, material } : { cost, material, order };
 }
 
+/** What a quote row is written from, besides the quote: kept from open so a quote's row can be written again in place. */
+interface QuoteRowTerms {
+  rateRow: ReadonlyMap<string, number>;
+  suppliers: ReadonlyMap<string, Supplier>;
+  /** Each supplier's place in the Book (its token is twice that, plus 1 where the carriage is ours). */
+  supplierAt: ReadonlyMap<string, number>;
+}
+
+/**
+ * A usable quote's row on the Quotes sheet: its rate, MOQ, pack, the landed percentages that fall to us on its term,
+ * its supplier's token (−1 when the supplier charges nothing per order), lead days, rank, then its breaks.
+ */
+function quoteRowCells(q: Quote, rank: number, t: QuoteRowTerms): (string | number | null)[] {
+  const supplier = t.suppliers.get(q.supplierId);
+  const landed = landedRates(supplier, q.incoterm);
+  const token = supplier && hasPerOrder(supplier) ? 2 * t.supplierAt.get(supplier.id)! + (landed.carriage ? 1 : 0) : -1;
+  const row: (string | number | null)[] = [
+    `=${SHEETS.rates}!$B$${t.rateRow.get(q.currency)! + 1}`,
+    q.moq,
+    q.pack,
+    landed.freightPct,
+    landed.dutyPct,
+    landed.chargesPct,
+    token,
+    q.leadDays,
+    rank,
+  ];
+  for (const b of q.breaks) row.push(b.qty, b.price);
+  return row;
+}
+
 /**
  * The Demand cells that a set of lines buys from at one run size — one per part (and pinned supplier) at its need,
  * added when not there yet — and the first problem (a line that cannot be costed, a part with no usable quote).
@@ -271,8 +310,18 @@ export class CostingWorkbook {
   private blockOf: ReadonlyMap<string, number> = new Map();
   private blockRowCount = 0;
   private readonly expanded = new Set<number>();
-  private readonly quoteRow = new Map<string, { row: number; breaks: number }>();
+  private readonly quoteRow = new Map<string, QuoteRow>();
   private readonly rateRow = new Map<CurrencyCode, number>();
+  /** What quote rows are written from (see quoteRowCells), and the widest row's number of breaks. */
+  private quoteTerms: QuoteRowTerms | undefined;
+  private maxBreaks = 1;
+  /** Rows of quotes no longer usable (superseded, expired, deleted since open): blank, so no Demand cell reads them. */
+  private readonly withdrawn = new Set<string>();
+  /** The quotes laid out at open, by part, in row order. */
+  private readonly quotesOfPart = new Map<string, string[]>();
+  /** The rows of each part, and of each part and supplier, at open; and those a Demand cell may read now. */
+  private openSpans: ReadonlyMap<string, [number, number]> | undefined;
+  private spans: Map<string, [number, number]> | undefined;
   /** Original formulas of overridden cells, to restore on clear. */
   private readonly originals = new Map<string, string>();
   /** Working copies of quotes and rates that follow live edits, for costed BOM detail. */
@@ -359,7 +408,7 @@ export class CostingWorkbook {
     const supplierAt = new Map(book.suppliers.map((x, i) => [x.id, i] as const));
     const rank = new Map([...usable].sort((a, b) => (a.id < b.id ? -1 : a.id > b.id ? 1 : 0)).map((q, i) => [q.id, i] as const));
     const quoteRows: (string | number | null)[][] = [];
-    const quoteRow = new Map<string, { row: number; breaks: number }>();
+    const quoteRow = new Map<string, QuoteRow>();
     /** Rows [start, end] of each part's quotes, and of each part+supplier. */
     const span = new Map<string, [number, number]>();
     const widen = (key: string, r: number): void => {
@@ -368,25 +417,11 @@ export class CostingWorkbook {
       else span.set(key, [r, r]);
     };
     const quotes = new Map<string, Quote>();
+    const terms: QuoteRowTerms = { rateRow, suppliers: ctx.suppliers, supplierAt };
     for (const q of usable) {
       const r = quoteRows.length;
-      const supplier = ctx.suppliers.get(q.supplierId);
-      const landed = landedRates(supplier, q.incoterm);
-      const token = supplier && hasPerOrder(supplier) ? 2 * supplierAt.get(supplier.id)! + (landed.carriage ? 1 : 0) : -1;
-      const row: (string | number | null)[] = [
-        `=${SHEETS.rates}!$B$${rateRow.get(q.currency)! + 1}`,
-        q.moq,
-        q.pack,
-        landed.freightPct,
-        landed.dutyPct,
-        landed.chargesPct,
-        token,
-        q.leadDays,
-        rank.get(q.id)!,
-      ];
-      for (const b of q.breaks) row.push(b.qty, b.price);
-      quoteRows.push(row);
-      quoteRow.set(q.id, { row: r, breaks: q.breaks.length });
+      quoteRows.push(quoteRowCells(q, rank.get(q.id)!, terms));
+      quoteRow.set(q.id, { row: r, breaks: q.breaks.length, rank: rank.get(q.id)! });
       widen(q.partId, r);
       widen(`${q.partId}\u0000${q.supplierId}`, r);
       quotes.set(q.id, { ...q, breaks: q.breaks.map((b) => ({ ...b })) });
@@ -534,7 +569,16 @@ export class CostingWorkbook {
     wb.variantAt.push(...variantAt);
     for (const [k, v] of quoteRow) wb.quoteRow.set(k, v);
     for (const [k, v] of rateRow) wb.rateRow.set(k, v);
-    wb.layout = { ...layout, add: (row) => wb.addDemandRow(row), addSum: (row) => wb.addBlockRow(row) };
+    wb.quoteTerms = { rateRow: wb.rateRow, suppliers: terms.suppliers, supplierAt };
+    wb.maxBreaks = maxBreaks;
+    for (const q of usable) {
+      const ids = wb.quotesOfPart.get(q.partId);
+      if (ids) ids.push(q.id);
+      else wb.quotesOfPart.set(q.partId, [q.id]);
+    }
+    wb.openSpans = span;
+    wb.spans = new Map(span);
+    wb.layout = { ...layout, span: wb.spans, add: (row) => wb.addDemandRow(row), addSum: (row) => wb.addBlockRow(row) };
     wb.supplierCount = supplierRows.length;
     wb.demandRowCount = demandRows.length;
     wb.blockRowCount = blockRows.length;
@@ -795,6 +839,83 @@ export class CostingWorkbook {
     this.quotes.get(quoteId)!.breaks[breakIndex]!.price = price;
     this.ctxCache = undefined;
     return { ok: true, value: [...this.changedCosts(changes), ...this.chooseAgain()] };
+  }
+
+  /**
+   * Takes a quote's new terms in place — its MOQ, pack, lead time, term, currency, breaks, or whether it is still
+   * usable (superseded, expired, deleted: `next` undefined) — by writing its row of the Quotes sheet again, or blank
+   * when it is no longer usable, so every Demand cell that reads it works its best buy out again. Refused (the caller
+   * opens the workbook again) where the layout of the open cannot hold it: a quote not laid out at open becoming
+   * usable, one moved to another part or supplier, more breaks than the widest row, a currency with no rate row, or a
+   * part (or a part and supplier) left without a usable row, whose lines then say why in their own words at open.
+   */
+  updateQuote(quoteId: string, next: Quote | undefined): Result<ChangedCost[]> {
+    const prev = this.quotes.get(quoteId);
+    if (!prev) return { ok: false, error: `no quote with id ${quoteId}` };
+    if (next && (next.id !== quoteId || next.partId !== prev.partId || next.supplierId !== prev.supplierId)) {
+      return { ok: false, error: `quote ${quoteId} moved to another part or supplier; the workbook must be opened again` };
+    }
+    const usable = next !== undefined && quoteProblem(next, this.date, 1) === undefined;
+    const at = this.quoteRow.get(quoteId);
+    const keep = (): void => {
+      if (next) this.quotes.set(quoteId, { ...next, breaks: next.breaks.map((b) => ({ ...b })) });
+      else this.quotes.delete(quoteId);
+      this.ctxCache = undefined;
+    };
+    if (!at) {
+      if (usable) return { ok: false, error: `quote ${quoteId} became usable but has no row; the workbook must be opened again` };
+      keep();
+      return { ok: true, value: [] };
+    }
+    const terms = this.quoteTerms!;
+    const bySupplier = `${prev.partId}\u0000${prev.supplierId}`;
+    let cells: (string | number | null)[] = [];
+    if (usable) {
+      if (next.breaks.length > this.maxBreaks) return { ok: false, error: `quote ${quoteId} has more breaks than the Quotes sheet holds` };
+      if (!terms.rateRow.has(next.currency)) return { ok: false, error: `no rate row for ${next.currency}` };
+      cells = quoteRowCells(next, at.rank, terms);
+    } else if (!this.withdrawn.has(quoteId)) {
+      const left = this.usableRows(prev);
+      if (left.part === 0 || (left.supplier === 0 && this.pinnedTo(bySupplier))) {
+        return { ok: false, error: `quote ${quoteId} was the last usable quote its lines buy from; the workbook must be opened again` };
+      }
+    }
+    const width = QUOTE_ROW_HEAD + 2 * this.maxBreaks;
+    while (cells.length < width) cells.push(null);
+    const changes = changeInOne(this.hf, () => this.hf.setCellContents({ sheet: this.sheet.quotes, row: at.row, col: 0 }, [cells]));
+    const spans = this.spans!;
+    if (usable) {
+      this.withdrawn.delete(quoteId);
+      this.quoteRow.set(quoteId, { ...at, breaks: next.breaks.length });
+      // Its part and supplier have a usable row again (see below).
+      const open = this.openSpans!.get(bySupplier);
+      if (open) spans.set(bySupplier, open);
+    } else {
+      this.withdrawn.add(quoteId);
+      // A part and supplier with no usable row left is costed as at open: a line pinned to it later says why.
+      if (this.usableRows(prev).supplier === 0) spans.delete(bySupplier);
+    }
+    keep();
+    return { ok: true, value: [...this.changedCosts(changes), ...this.chooseAgain()] };
+  }
+
+  /** The rows still usable of a quote's part, and of its part and supplier, besides its own. */
+  private usableRows(q: Quote): { part: number; supplier: number } {
+    let part = 0;
+    let supplier = 0;
+    for (const id of this.quotesOfPart.get(q.partId) ?? []) {
+      if (id === q.id || this.withdrawn.has(id)) continue;
+      part++;
+      if (this.quotes.get(id)?.supplierId === q.supplierId) supplier++;
+    }
+    return { part, supplier };
+  }
+
+  /** Whether some Demand cell buys a part from one supplier alone (`key`: part and supplier; a line pinned to it). */
+  private pinnedTo(key: string): boolean {
+    const prefix = `${key}\u0000`;
+    for (const k of this.layout?.index.keys() ?? []) if (k.startsWith(prefix)) return true;
+    return false;
   }
 
   /** Sets the base-currency value of one unit of a currency; returns the unit costs that changed. */

@@ -4,10 +4,11 @@
 // other callers may run it in-process. Either way each step's answer is a `FiguresUpdate`: the figures that moved,
 // small enough to copy to the page.
 //
-// Catching up edits the workbooks in place where the engine allows it — a quote price, an exchange rate, a cost
-// setting, a variant parameter whose build lines resolve as before, a build line's constant quantity, attrition,
-// designators, category or pin — and rebuilds them on structural changes (variants added or deleted, parts, build
-// lines added, removed or given other rules, suppliers, run sizes, quote terms other than prices).
+// Catching up edits the workbooks in place where the engine allows it — a quote's price or other terms (an expiry,
+// a supersede, MOQ, pack, breaks; a delete), an exchange rate, a cost setting, a variant parameter, a build line's
+// quantity, rules, attrition, designators, category or pin (the variants whose lines moved costed again) — and
+// rebuilds them on structural changes (variants or quotes added, variants deleted, parts, suppliers, run sizes, many
+// quotes at once).
 import type { Book, Quote, Settings, Variant } from '../domain/book.ts';
 import type { ResolvedLine, Result } from '../domain/costing.ts';
 import { sameValue } from '../domain/merge.ts';
@@ -68,6 +69,14 @@ function priceEdits(a: Quote, b: Quote): { breakIndex: number; price: number }[]
   });
   return out;
 }
+
+/**
+ * Quotes edited or deleted in one change, at most, that the costing workbook takes in place (each a row written again
+ * and the Demand cells that read it): more, as when an import supersedes thousands, and building it again is quicker.
+ */
+export const QUOTES_IN_PLACE = 50;
+/** Edits in place (a price, a rate, a quote's row) made between two pauses of the figures worker. */
+const EDITS_PER_STEP = 10;
 
 /**
  * Variants costed again in one part of a build line edit: 6–17 ms per 10 of the reference family's 200 in Node (40 at
@@ -286,12 +295,16 @@ export class LiveFigures {
     const edits: (() => Result<ChangedCost[]>)[] = [];
     if (!costingRebuild) {
       const quotes = diff('quotes');
-      if (quotes.added.length || quotes.removed.length) costingRebuild = true;
+      // A new quote needs a row among its part's: the workbook is built again. Any other quote edit is taken in
+      // place: a price in its cell, other terms (an expiry, a supersede, MOQ, pack, breaks) or a delete by writing
+      // its row again, or blank (see CostingWorkbook.updateQuote, which refuses what the layout cannot hold).
+      if (quotes.added.length > 0 || quotes.removed.length + quotes.changed.length > QUOTES_IN_PLACE) costingRebuild = true;
       for (const [a, b] of quotes.changed) {
         const p = priceEdits(a, b);
-        if (!p) costingRebuild = true;
+        if (!p) edits.push(() => this.costing!.updateQuote(b.id, b));
         else for (const e of p) edits.push(() => this.costing!.setQuotePrice(b.id, e.breakIndex, e.price));
       }
+      for (const q of quotes.removed) edits.push(() => this.costing!.updateQuote(q.id, undefined));
       const s0 = prev.settings;
       const s1 = next.settings;
       if (s0 !== s1) {
@@ -323,8 +336,10 @@ export class LiveFigures {
       }
     }
     if (!costingRebuild) {
-      for (const edit of edits) {
-        const r = edit();
+      for (let i = 0; i < edits.length; i++) {
+        // A part at a time when there are many (quotes written again, each worked out on its own).
+        if (i > 0 && i % EDITS_PER_STEP === 0) yield;
+        const r = edits[i]!();
         if (!r.ok) {
           // An edit the live workbook cannot take (a currency it does not hold): build it again instead.
           costingRebuild = true;
