@@ -17,9 +17,9 @@ import { amountBaseCents, landedChoiceCents } from '../domain/landed.ts';
 /** One line of doc per function, shown in the app's function list. */
 export const COSTING_FUNCTION_DOCS = {
   COST_BEST:
-    'COST_BEST(need, quote_rows): lowest landed base-currency cost in cents of buying `need` parts from any quote row (rate, MOQ, pack, freight %, duty %, charges %, supplier token, lead days, rank, then break qty/price pairs), buying up to a higher break where cheaper',
+    'COST_BEST(need, quote_rows, …): lowest landed base-currency cost in cents of buying `need` parts from any quote row (rate, MOQ, pack, freight %, duty %, charges %, supplier token, lead days, rank, then break qty/price pairs), buying up to a higher break where cheaper',
   COST_BEST_SUPPLIER:
-    'COST_BEST_SUPPLIER(need, quote_rows): the supplier token of the quote row COST_BEST chooses (supplier number × 2, plus 1 when the carriage is ours; −1 when the supplier charges nothing per order)',
+    'COST_BEST_SUPPLIER(need, quote_rows, …): the supplier token of the quote row COST_BEST chooses (supplier number × 2, plus 1 when the carriage is ours; −1 when the supplier charges nothing per order)',
   COST_SUPPLIERS: 'COST_SUPPLIERS(tokens, …): the distinct supplier tokens of several purchases, as text',
   COST_ORDERS:
     'COST_ORDERS(supplier_rows, tokens, …): cents charged once per order by the suppliers a run buys from: freight per order where some line leaves the carriage to us, and charges per order; supplier_rows = freight cents, charges cents',
@@ -148,6 +148,11 @@ export function unitCostFromRow(run: number, placements: number, row: readonly u
   return unitCostOf(perUnitFromCents(sum, run), labour, roundUnit(test), overheadPerUnit(labour, overheadPct));
 }
 
+/** The quote rows of one or more ranges (a part's rows, and rows of quotes added to it since the workbook opened). */
+function rowsOf(ranges: readonly SimpleRangeValue[]): readonly (readonly unknown[])[] {
+  return ranges.length === 1 ? ranges[0]!.data : ranges.flatMap((r) => r.data);
+}
+
 // The engine's internal argument types, taken from its own signature (they are not exported by name).
 type RunFunction = FunctionPlugin['runFunction'];
 type Ast = { args: Parameters<RunFunction>[0] };
@@ -159,11 +164,13 @@ export class CostingPlugin extends FunctionPlugin {
     COST_BEST: {
       method: 'costBest',
       parameters: [{ argumentType: FunctionArgumentType.NUMBER }, { argumentType: FunctionArgumentType.RANGE }],
+      repeatLastArgs: 1,
       vectorizationForbidden: true,
     },
     COST_BEST_SUPPLIER: {
       method: 'costBestSupplier',
       parameters: [{ argumentType: FunctionArgumentType.NUMBER }, { argumentType: FunctionArgumentType.RANGE }],
+      repeatLastArgs: 1,
       vectorizationForbidden: true,
     },
     COST_SUPPLIERS: {
@@ -230,15 +237,15 @@ export class CostingPlugin extends FunctionPlugin {
   };
 
   costBest(ast: Ast, state: State): Value {
-    return this.runFunction(ast.args, state, this.metadata('COST_BEST'), (need: number, range: SimpleRangeValue) => {
-      const r = bestRowOverRows(need, range.data);
+    return this.runFunction(ast.args, state, this.metadata('COST_BEST'), (need: number, ...ranges: SimpleRangeValue[]) => {
+      const r = bestRowOverRows(need, rowsOf(ranges));
       return typeof r === 'string' ? new CellError(ErrorType.VALUE, r) : r.cents;
     });
   }
 
   costBestSupplier(ast: Ast, state: State): Value {
-    return this.runFunction(ast.args, state, this.metadata('COST_BEST_SUPPLIER'), (need: number, range: SimpleRangeValue) => {
-      const r = bestRowOverRows(need, range.data);
+    return this.runFunction(ast.args, state, this.metadata('COST_BEST_SUPPLIER'), (need: number, ...ranges: SimpleRangeValue[]) => {
+      const r = bestRowOverRows(need, rowsOf(ranges));
       return typeof r === 'string' ? new CellError(ErrorType.VALUE, r) : r.token;
     });
   }

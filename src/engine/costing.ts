@@ -138,6 +138,8 @@ interface RowPlan {
 /** How the Demand sheet is laid out: the Quotes rows of each part (and part + pinned supplier), and its cells by need. */
 interface DemandLayout {
   span: ReadonlyMap<string, [number, number]>;
+  /** Ranges of the rows of quotes added since open (see addQuote), read after the span of the same key. */
+  added: ReadonlyMap<string, readonly string[]>;
   lastQuoteCol: string;
   perOrder: boolean;
   /** Demand row of each (part, pinned supplier, need). */
@@ -148,6 +150,11 @@ interface DemandLayout {
   sums: Map<string, string>;
   /** Adds a Blocks row; gives its index. */
   addSum(row: string[]): number;
+}
+
+/** The Quotes sheet's rows `rows` (first and last, from 0) as a range a Demand cell reads. */
+function quoteRange(rows: readonly [number, number], lastQuoteCol: string): string {
+  return `${SHEETS.quotes}!$A$${rows[0] + 1}:$${lastQuoteCol}$${rows[1] + 1}`;
 }
 
 /**
@@ -285,7 +292,7 @@ function demandCells(ctx: CostingContext, lines: readonly ResolvedLine[], run: n
     const dkey = `${key}\u0000${d.need}`;
     let dr = layout.index.get(dkey);
     if (dr === undefined) {
-      const range = `${SHEETS.quotes}!$A$${sp[0] + 1}:$${layout.lastQuoteCol}$${sp[1] + 1}`;
+      const range = [quoteRange(sp, layout.lastQuoteCol), ...(layout.added.get(key) ?? [])].join(',');
       dr = layout.add(layout.perOrder ? [`=COST_BEST(${d.need},${range})`, `=COST_BEST_SUPPLIER(${d.need},${range})`] : [`=COST_BEST(${d.need},${range})`]);
       layout.index.set(dkey, dr);
     }
@@ -319,9 +326,15 @@ export class CostingWorkbook {
   private readonly withdrawn = new Set<string>();
   /** The quotes laid out at open, by part, in row order. */
   private readonly quotesOfPart = new Map<string, string[]>();
-  /** The rows of each part, and of each part and supplier, at open; and those a Demand cell may read now. */
-  private openSpans: ReadonlyMap<string, [number, number]> | undefined;
+  /**
+   * The rows of each part, and of each part and supplier, laid out at open or by addQuote (a supplier new to a part);
+   * and those a Demand cell may read now (a part and supplier with no usable row left has none).
+   */
+  private laidSpans: Map<string, [number, number]> | undefined;
   private spans: Map<string, [number, number]> | undefined;
+  /** Rows of quotes added since open, as ranges, by part and by part and supplier (see addQuote). */
+  private readonly addedRanges = new Map<string, string[]>();
+  private quoteRowCount = 0;
   /** Original formulas of overridden cells, to restore on clear. */
   private readonly originals = new Map<string, string>();
   /** Working copies of quotes and rates that follow live edits, for costed BOM detail. */
@@ -488,6 +501,7 @@ export class CostingWorkbook {
     const blockRows: string[][] = [];
     const layout: DemandLayout = {
       span,
+      added: new Map(),
       lastQuoteCol,
       perOrder,
       index: new Map(),
@@ -576,9 +590,10 @@ export class CostingWorkbook {
       if (ids) ids.push(q.id);
       else wb.quotesOfPart.set(q.partId, [q.id]);
     }
-    wb.openSpans = span;
+    wb.laidSpans = new Map(span);
     wb.spans = new Map(span);
-    wb.layout = { ...layout, span: wb.spans, add: (row) => wb.addDemandRow(row), addSum: (row) => wb.addBlockRow(row) };
+    wb.layout = { ...layout, span: wb.spans, added: wb.addedRanges, add: (row) => wb.addDemandRow(row), addSum: (row) => wb.addBlockRow(row) };
+    wb.quoteRowCount = quoteRows.length;
     wb.supplierCount = supplierRows.length;
     wb.demandRowCount = demandRows.length;
     wb.blockRowCount = blockRows.length;
@@ -888,13 +903,93 @@ export class CostingWorkbook {
       this.withdrawn.delete(quoteId);
       this.quoteRow.set(quoteId, { ...at, breaks: next.breaks.length });
       // Its part and supplier have a usable row again (see below).
-      const open = this.openSpans!.get(bySupplier);
-      if (open) spans.set(bySupplier, open);
+      const laid = this.laidSpans!.get(bySupplier);
+      if (laid) spans.set(bySupplier, laid);
     } else {
       this.withdrawn.add(quoteId);
       // A part and supplier with no usable row left is costed as at open: a line pinned to it later says why.
       if (this.usableRows(prev).supplier === 0) spans.delete(bySupplier);
     }
+    keep();
+    return { ok: true, value: [...this.changedCosts(changes), ...this.chooseAgain()] };
+  }
+
+  /**
+   * Takes a new quote in place (typed in, or an import's few): its row goes below the Quotes sheet's last, and every
+   * Demand cell buying its part — from any supplier, or pinned to its supplier — reads that row too, so the best buy
+   * is chosen again among all of them; new Demand cells read it as well. Its rank among the part's quotes (the last
+   * tie rule) is between its neighbours in id order, as at open. Refused (the caller opens the workbook again) where
+   * the layout of the open cannot hold it: a part that had no usable quote at open (its lines then say why in their
+   * own words), a supplier some line is pinned to with no quote of that part at open, more breaks than the widest
+   * row, a currency with no rate row. An unusable quote (superseded or expired already) needs no row.
+   */
+  addQuote(q: Quote): Result<ChangedCost[]> {
+    if (this.quotes.has(q.id)) return { ok: false, error: `quote ${q.id} is there already` };
+    const keep = (): void => {
+      this.quotes.set(q.id, { ...q, breaks: q.breaks.map((b) => ({ ...b })) });
+      this.ctxCache = undefined;
+    };
+    if (quoteProblem(q, this.date, 1) !== undefined) {
+      keep();
+      return { ok: true, value: [] };
+    }
+    const spans = this.spans!;
+    const bySupplier = `${q.partId}\u0000${q.supplierId}`;
+    const laid = this.laidSpans!;
+    if (!spans.has(q.partId)) return { ok: false, error: `part ${q.partId} had no usable quote when the workbook was opened` };
+    if (!laid.has(bySupplier) && this.book.buildLines.some((l) => l.pinnedSupplierId === q.supplierId)) {
+      return { ok: false, error: `a line is pinned to supplier ${q.supplierId}, which quoted no such part at open` };
+    }
+    if (q.breaks.length > this.maxBreaks) return { ok: false, error: `quote ${q.id} has more breaks than the Quotes sheet holds` };
+    const terms = this.quoteTerms!;
+    if (!terms.rateRow.has(q.currency)) return { ok: false, error: `no rate row for ${q.currency}` };
+
+    const ids = this.quotesOfPart.get(q.partId) ?? [];
+    let below = -Infinity;
+    let above = Infinity;
+    for (const id of ids) {
+      const rank = this.quoteRow.get(id)!.rank;
+      if (id < q.id) below = Math.max(below, rank);
+      else above = Math.min(above, rank);
+    }
+    const rank = below === -Infinity ? above - 1 : above === Infinity ? below + 1 : (below + above) / 2;
+    const row = this.quoteRowCount++;
+    const cells = quoteRowCells(q, rank, terms);
+    const range = quoteRange([row, row], this.layout!.lastQuoteCol);
+    const widen = (key: string): void => {
+      const list = this.addedRanges.get(key);
+      if (list) list.push(range);
+      else this.addedRanges.set(key, [range]);
+    };
+    widen(q.partId);
+    const sub = laid.get(bySupplier);
+    if (sub) {
+      widen(bySupplier);
+      spans.set(bySupplier, sub);
+    } else {
+      laid.set(bySupplier, [row, row]);
+      spans.set(bySupplier, [row, row]);
+    }
+    // The Demand cells of its part, and those pinned to its supplier, read its row too.
+    const demands: number[] = [];
+    for (const [key, r] of this.layout!.index) {
+      const at = key.split('\u0000');
+      if (at[0] !== q.partId || (at.length === 3 && at[1] !== q.supplierId)) continue;
+      demands.push(r);
+    }
+    const columns = this.layout!.perOrder ? 2 : 1;
+    const changes = changeInOne(this.hf, () => {
+      this.hf.setCellContents({ sheet: this.sheet.quotes, row, col: 0 }, [cells]);
+      for (const r of demands) {
+        for (let col = 0; col < columns; col++) {
+          const at = { sheet: this.sheet.demand, row: r, col };
+          const formula = this.hf.getCellFormula(at)!;
+          this.hf.setCellContents(at, `${formula.slice(0, -1)},${range})`);
+        }
+      }
+    });
+    this.quoteRow.set(q.id, { row, breaks: q.breaks.length, rank });
+    this.quotesOfPart.set(q.partId, [...ids, q.id]);
     keep();
     return { ok: true, value: [...this.changedCosts(changes), ...this.chooseAgain()] };
   }

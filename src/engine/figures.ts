@@ -4,11 +4,11 @@
 // other callers may run it in-process. Either way each step's answer is a `FiguresUpdate`: the figures that moved,
 // small enough to copy to the page.
 //
-// Catching up edits the workbooks in place where the engine allows it — a quote's price or other terms (an expiry,
-// a supersede, MOQ, pack, breaks; a delete), an exchange rate, a cost setting, a variant parameter, a build line's
-// quantity, rules, attrition, designators, category or pin (the variants whose lines moved costed again) — and
-// rebuilds them on structural changes (variants or quotes added, variants deleted, parts, suppliers, run sizes, many
-// quotes at once).
+// Catching up edits the workbooks in place where the engine allows it — a quote added, or its price or other
+// terms (an expiry, a supersede, MOQ, pack, breaks; a delete), an exchange rate, a cost setting, a variant
+// parameter, a build line's quantity, rules, attrition, designators, category or pin (the variants whose lines moved
+// costed again) — and rebuilds them on structural changes (variants added or deleted, parts, suppliers, run sizes,
+// many quotes at once).
 import type { Book, Quote, Settings, Variant } from '../domain/book.ts';
 import type { ResolvedLine, Result } from '../domain/costing.ts';
 import { sameValue } from '../domain/merge.ts';
@@ -71,8 +71,9 @@ function priceEdits(a: Quote, b: Quote): { breakIndex: number; price: number }[]
 }
 
 /**
- * Quotes edited or deleted in one change, at most, that the costing workbook takes in place (each a row written again
- * and the Demand cells that read it): more, as when an import supersedes thousands, and building it again is quicker.
+ * Quotes added, edited or deleted in one change, at most, that the costing workbook takes in place (each a row
+ * written and the Demand cells that read it): more, as when an import supersedes thousands, and building it again is
+ * quicker.
  */
 export const QUOTES_IN_PLACE = 50;
 /** Edits in place (a price, a rate, a quote's row) made between two pauses of the figures worker. */
@@ -295,10 +296,12 @@ export class LiveFigures {
     const edits: (() => Result<ChangedCost[]>)[] = [];
     if (!costingRebuild) {
       const quotes = diff('quotes');
-      // A new quote needs a row among its part's: the workbook is built again. Any other quote edit is taken in
-      // place: a price in its cell, other terms (an expiry, a supersede, MOQ, pack, breaks) or a delete by writing
-      // its row again, or blank (see CostingWorkbook.updateQuote, which refuses what the layout cannot hold).
-      if (quotes.added.length > 0 || quotes.removed.length + quotes.changed.length > QUOTES_IN_PLACE) costingRebuild = true;
+      // Quotes are taken in place: a new one as a row of its own that its part's Demand cells read too, a price in
+      // its cell, other terms (an expiry, a supersede, MOQ, pack, breaks) or a delete by writing its row again, or
+      // blank (CostingWorkbook.addQuote and updateQuote, which refuse what the layout of the open cannot hold: the
+      // workbook is then built again). New quotes go first, so a quote they supersede never leaves its part bare.
+      if (quotes.added.length + quotes.removed.length + quotes.changed.length > QUOTES_IN_PLACE) costingRebuild = true;
+      for (const q of quotes.added) edits.push(() => this.costing!.addQuote(q));
       for (const [a, b] of quotes.changed) {
         const p = priceEdits(a, b);
         if (!p) edits.push(() => this.costing!.updateQuote(b.id, b));

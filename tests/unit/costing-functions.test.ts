@@ -43,6 +43,9 @@ describe('costing functions', () => {
     // Of the two rows the one without landed cost is cheaper; its supplier token is −1.
     expect(calc('=COST_BEST_SUPPLIER(909, Quotes!A1:S2)')).toBe(-1);
     expect(calc('=COST_BEST_SUPPLIER(909, Quotes!A2:S2)')).toBe(5);
+    // Rows in more than one range (a quote added since the workbook opened) are chosen among as one list.
+    expect(calc('=COST_BEST(909, Quotes!A2:S2, Quotes!A1:S1)')).toBe(12000);
+    expect(calc('=COST_BEST_SUPPLIER(909, Quotes!A2:S2, Quotes!A1:S1)')).toBe(-1);
     expect(calc('=COST_SUPPLIERS("3", "2 5", -1, "3")')).toBe('2 3 5');
     // Tokens 2 and 3 are supplier 1 (carriage ours on one purchase), 4 is supplier 2 without carriage:
     // supplier 1 freight 0 + charges 250, supplier 2 charges 300 only → 550 cents.

@@ -4,7 +4,7 @@
 // Book, which is how the command line costs it; what the layout of the open cannot hold is refused, and the live
 // figures build the workbook again for it.
 import { describe, expect, it } from 'vitest';
-import type { Book, Quote } from '../../src/domain/book.ts';
+import type { Book, Quote, Supplier } from '../../src/domain/book.ts';
 import { costingDateOf, quoteProblem } from '../../src/domain/costing.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { CostingWorkbook, resolutionFromFamily } from '../../src/engine/costing.ts';
@@ -142,8 +142,99 @@ describe('a quote’s terms edited in place in the costing workbook', () => {
   });
 });
 
+describe('a new quote taken in place in the costing workbook', () => {
+  it('reads a new quote of a part beside the old ones, a supersede with it, and ties broken by id as at open', () => {
+    const wb = open(book0);
+    try {
+      let book = book0;
+      // A cheaper quote from the same supplier superseding the old one, as an import or the quote form makes it.
+      const cheaper: Quote = { ...shared, id: 'quote_zz_cheaper', rev: 1, breaks: shared.breaks.map((b) => ({ ...b, price: Math.round(b.price * 80) / 100 })) };
+      expect(wb.addQuote(cheaper)).toMatchObject({ ok: true });
+      expect(wb.updateQuote(shared.id, { ...shared, rev: shared.rev + 1, supersededBy: cheaper.id }).ok).toBe(true);
+      book = { ...withQuote(book, { ...shared, rev: shared.rev + 1, supersededBy: cheaper.id }), quotes: [...withQuote(book, { ...shared, rev: shared.rev + 1, supersededBy: cheaper.id }).quotes, cheaper] };
+      agrees(wb, book);
+      // Two quotes equal to it in every term, one ranked before it by id and one after: the costed BOM buys from the
+      // first in id order, as chooseQuote decides.
+      for (const id of ['quote_aa_twin', 'quote_zzz_twin']) {
+        const twin: Quote = { ...cheaper, id, breaks: cheaper.breaks.map((b) => ({ ...b })) };
+        expect(wb.addQuote(twin).ok).toBe(true);
+        book = { ...book, quotes: [...book.quotes, twin] };
+        agrees(wb, book);
+      }
+      // A quote of it from a supplier that had none for the part, and an unusable one (expired already).
+      const other = book0.suppliers.find((x) => !book.quotes.some((q) => q.partId === shared.partId && q.supplierId === x.id))!;
+      const elsewhere: Quote = { ...cheaper, id: 'quote_elsewhere', supplierId: other.id, currency: book0.settings.baseCurrency };
+      const stale: Quote = { ...cheaper, id: 'quote_stale', expires: '2020-01-01' };
+      for (const q of [elsewhere, stale]) {
+        expect(wb.addQuote(q).ok).toBe(true);
+        book = { ...book, quotes: [...book.quotes, q] };
+        agrees(wb, book);
+      }
+      // The old quote's row withdrawn now leaves the new ones.
+      expect(wb.updateQuote(cheaper.id, undefined).ok).toBe(true);
+      book = { ...book, quotes: book.quotes.filter((q) => q.id !== cheaper.id) };
+      agrees(wb, book);
+    } finally {
+      wb.close();
+    }
+  });
+
+  it('breaks a tie between suppliers as at open, by id, so the charge per order of the supplier chosen is the same', () => {
+    // A supplier nothing else is bought from, charging per order, quoting the part exactly as its one usable quote:
+    // which of the two is chosen moves the unit cost by that charge.
+    const base = book0.settings.baseCurrency;
+    const tie: Supplier = { id: 'sup_tie', rev: 1, name: 'Tie Test Supply', currency: base, notes: '', chargesPerOrder: { amount: 40, currency: base } };
+    const book1: Book = {
+      ...book0,
+      suppliers: [
+        ...book0.suppliers.map((x) => {
+          if (x.id !== shared.supplierId) return x;
+          // No landed percentages or charges on the quote's own supplier: the two cost the same but for the charge.
+          const { freightPct: _f, dutyPct: _d, chargesPct: _c, freightPerOrder: _o, chargesPerOrder: _p, ...plain } = x;
+          return plain;
+        }),
+        tie,
+      ],
+      quotes: book0.quotes.map((q) =>
+        q.id === shared.id ? { ...q, currency: base, leadDays: 5 } : q.partId === shared.partId ? { ...q, expires: '2020-01-01' } : q,
+      ),
+    };
+    const mine = book1.quotes.find((q) => q.id === shared.id)!;
+    const alone = open(book1);
+    const before = figures(alone);
+    alone.close();
+    for (const id of [`${shared.id}_a`, 'quote_0_first']) {
+      const wb = open(book1);
+      try {
+        const twin: Quote = { ...mine, id, supplierId: tie.id, breaks: mine.breaks.map((b) => ({ ...b })) };
+        expect(wb.addQuote(twin).ok).toBe(true);
+        agrees(wb, { ...book1, quotes: [...book1.quotes, twin] });
+        // The twin ranked first carries its supplier's charge per order into the unit costs; ranked after, nothing moves.
+        const moved = [...figures(wb)].some(([k, v]) => before.get(k) !== v);
+        expect(moved).toBe(id < mine.id);
+      } finally {
+        wb.close();
+      }
+    }
+  });
+
+  it('refuses a quote of a part that had no usable quote at open, and one wider than the widest row', () => {
+    const bare = book0.parts.find((p) => !book0.quotes.some((q) => q.partId === p.id && quoteProblem(q, date, 1) === undefined));
+    const wb = open(book0);
+    try {
+      const before = figures(wb);
+      if (bare) expect(wb.addQuote({ ...shared, id: 'quote_bare', partId: bare.id })).toMatchObject({ ok: false, error: expect.stringMatching(/no usable quote/) });
+      expect(wb.addQuote({ ...shared, id: 'quote_wide', breaks: Array.from({ length: 12 }, (_, i) => ({ qty: 10 * (i + 1), price: 1 })) }).ok).toBe(false);
+      expect(wb.addQuote({ ...shared })).toMatchObject({ ok: false, error: expect.stringMatching(/there already/) });
+      expect(figures(wb)).toEqual(before);
+    } finally {
+      wb.close();
+    }
+  });
+});
+
 describe('a quote’s terms through the live figures', () => {
-  it('edits in place for an expiry, a supersede and a delete, builds afresh for the last usable quote of a part, and agrees with a fresh workbook', () => {
+  it('edits in place for an expiry, a new quote superseding one and a delete, builds afresh for the last usable quote of a part, and agrees with a fresh workbook', () => {
     const live = new LiveFigures();
     try {
       const costs = (book: Book): Map<string, number> => {
@@ -168,6 +259,10 @@ describe('a quote’s terms through the live figures', () => {
       const back = { ...expired, rev: expired.rev + 1 };
       delete back.expires;
       steps.push(['expiry undone', withQuote(book, back), SYNC_KINDS.edited]);
+      book = steps.at(-1)![1];
+      // A new quote superseding it, as the quote form or a small import saves it.
+      const fresh: Quote = { ...shared, id: 'quote_zz_new', rev: 1, breaks: shared.breaks.map((b) => ({ ...b, price: Math.round(b.price * 90) / 100 })) };
+      steps.push(['supersede', { ...book, quotes: [...book.quotes.map((q) => (q.id === shared.id ? { ...q, rev: q.rev + 1, supersededBy: fresh.id } : q)), fresh] }, SYNC_KINDS.edited]);
       book = steps.at(-1)![1];
       steps.push(['delete', { ...book, quotes: book.quotes.filter((q) => q.id !== shared.id) }, SYNC_KINDS.edited]);
       book = steps.at(-1)![1];
