@@ -2,9 +2,10 @@
 // an expiry that makes a quote unusable or usable again, a supersede, MOQ, pack and break quantities, a delete. After
 // each, every unit cost (and why one cannot be computed) and a costed BOM equal a workbook opened afresh on the edited
 // Book, which is how the command line costs it; what the layout of the open cannot hold is refused, and the live
-// figures build the workbook again for it.
+// figures build the workbook again for it. Random sequences of such edits (fast-check) agree with a fresh workbook too.
 import { describe, expect, it } from 'vitest';
-import type { Book, Quote, Supplier } from '../../src/domain/book.ts';
+import fc from 'fast-check';
+import type { Book, PriceBreak, Quote, Supplier } from '../../src/domain/book.ts';
 import { costingDateOf, quoteProblem } from '../../src/domain/costing.ts';
 import { demoBook } from '../../src/domain/demo-book.ts';
 import { CostingWorkbook, resolutionFromFamily } from '../../src/engine/costing.ts';
@@ -277,5 +278,73 @@ describe('a quote’s terms through the live figures', () => {
     } finally {
       live.close();
     }
+  });
+});
+
+describe('quote edits in any order through the live figures (fast-check)', () => {
+  type Op = { kind: 'expire' | 'renew' | 'reprice' | 'terms' | 'delete' | 'supersede' | 'add'; pick: number; factor: number; other: number };
+  const opArb: fc.Arbitrary<Op> = fc.record({
+    kind: fc.constantFrom('expire', 'renew', 'reprice', 'terms', 'delete', 'supersede', 'add'),
+    pick: fc.nat(10_000),
+    factor: fc.integer({ min: 50, max: 150 }),
+    other: fc.nat(10_000),
+  });
+
+  /** The Book after one operation on the quote `pick` chooses (a new quote's id counts up with `n`). */
+  function apply(book: Book, op: Op, n: number): Book {
+    const q = book.quotes[op.pick % book.quotes.length]!;
+    const put = (next: Quote): Book => withQuote(book, next);
+    const priced = (x: Quote): PriceBreak[] => x.breaks.map((b) => ({ ...b, price: Math.round(b.price * op.factor * 100) / 10_000 }));
+    switch (op.kind) {
+      case 'expire':
+        return put(expire(q));
+      case 'renew': {
+        const { expires: _gone, supersededBy: _by, ...rest } = q;
+        return put({ ...rest, rev: q.rev + 1 });
+      }
+      case 'reprice':
+        return put({ ...q, rev: q.rev + 1, breaks: priced(q) });
+      case 'terms':
+        return put({ ...q, rev: q.rev + 1, moq: (op.factor % 7) * 50, pack: 1 + (op.factor % 4) * 5, leadDays: op.factor % 30 });
+      case 'delete':
+        return { ...book, quotes: book.quotes.filter((x) => x.id !== q.id) };
+      case 'supersede':
+      case 'add': {
+        const supplier = book.suppliers[op.other % book.suppliers.length]!;
+        const fresh: Quote = { ...q, id: `quote_prop_${n}`, rev: 1, supplierId: supplier.id, breaks: priced(q) };
+        delete fresh.supersededBy;
+        delete fresh.expires;
+        const quotes = op.kind === 'supersede' ? book.quotes.map((x) => (x.id === q.id ? { ...x, rev: x.rev + 1, supersededBy: fresh.id } : x)) : book.quotes;
+        return { ...book, quotes: [...quotes, fresh] };
+      }
+    }
+  }
+
+  it('gives every unit cost a workbook opened afresh gives, after each change', () => {
+    fc.assert(
+      fc.property(fc.array(opArb, { minLength: 1, maxLength: 5 }), (ops) => {
+        const live = new LiveFigures();
+        try {
+          const seen = new Map<string, number>();
+          const merge = (u: ReturnType<LiveFigures['update']>): void => {
+            if (u.costsFull) seen.clear();
+            for (const c of u.costs) seen.set(`${c.variantId}@${c.run}`, c.value);
+          };
+          let book = book0;
+          merge(live.update(book));
+          ops.forEach((op, n) => {
+            book = apply(book, op, n);
+            merge(live.update(book));
+            const wb = open(book);
+            const want = new Map(wb.allUnitCosts().map((r) => [`${r.variantId}@${r.run}`, r.unitCost] as const));
+            wb.close();
+            expect(seen).toEqual(want);
+          });
+        } finally {
+          live.close();
+        }
+      }),
+      { numRuns: 12, seed: 20261203 },
+    );
   });
 });
