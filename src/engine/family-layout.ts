@@ -54,6 +54,8 @@ export interface Memo {
   entries: Map<string, number>;
   /** Family row → memo sheet row. */
   rowEntry: Int32Array;
+  /** No rule reads it any more (the rule was edited in place): a parameter edit adds no entries for it. */
+  retired?: boolean;
 }
 
 /** A formula column: its text cut at the row number, so each row's copy is a join. */
@@ -110,7 +112,7 @@ export interface FamilyLayout {
 }
 
 type Compiled = { ok: true; text: string; names: string[] } | { ok: false; error: string };
-type Placed = { ok: true; cell: FormulaCell } | { ok: false; error: string };
+export type Placed = { ok: true; cell: FormulaCell } | { ok: false; error: string };
 
 /** A formula's text for row r (0-based) of its sheet. */
 export function atRow(pieces: readonly string[], r: number): string {
@@ -207,6 +209,22 @@ function place(p: Placing, formula: string, lookup: (key: string) => string | un
   return { ok: true, cell: { col, names: c.names } };
 }
 
+/** How a build rule reads names: parameters only, as role and check names depend on the lines themselves. */
+function buildRuleRef(layout: FamilyLayout): (key: string) => string | undefined {
+  return (key) => (layout.paramKeys.has(key) ? ref(layout, key) : undefined);
+}
+
+/**
+ * A build rule placed on its own, for an edit made in place (FamilyWorkbook.setLineTerms): a constant, a parameter's
+ * column, or a new memo added to the layout (its entries for the workbook to fill); why it does not compile; or
+ * undefined where it would need a column of the table (build rules read parameters only, so it never does today).
+ */
+export function placeBuildRule(layout: FamilyLayout, formula: string): Placed | undefined {
+  const columns: FormulaColumn[] = [];
+  const placed = place({ layout, shared: new Map(), memoIndex: new Map(), nextCol: () => -1 }, formula, buildRuleRef(layout), columns);
+  return columns.length > 0 ? undefined : placed;
+}
+
 /** What a role name stands for: the rating (or `value`) of the part a line with that role gives. */
 export interface RoleName {
   role: string;
@@ -263,13 +281,11 @@ export function planFamily(book: Book, checks: readonly Check[]): FamilyLayout {
   }
   const anyRef = (key: string): string | undefined => ref(layout, key);
 
-  // Build rules read parameters only: role and check names depend on the lines themselves.
-  const paramRef = (key: string): string | undefined => (layout.paramKeys.has(key) ? anyRef(key) : undefined);
   const lines = sortedLines(book);
   layout.lineCells = lines.map((line) => {
     const lc: LineCells = { line, problems: [] };
     const cell = (what: string, formula: string): FormulaCell | undefined => {
-      const c = place(placing, formula, paramRef, layout.ruleColumns);
+      const c = place(placing, formula, buildRuleRef(layout), layout.ruleColumns);
       if (!c.ok) {
         lc.problems.push(`${what}: ${c.error}`);
         return undefined;

@@ -11,7 +11,7 @@ import { STATUS_SEVERITY } from '../domain/check-status.ts';
 import { changeInOne, createEngine } from './create.ts';
 import { judgeCheck } from './family-checks.ts';
 import type { CheckResult } from './family-checks.ts';
-import { atRow, planFamily, roleNames, valueCell, valueContent } from './family-layout.ts';
+import { atRow, placeBuildRule, planFamily, roleNames, valueCell, valueContent } from './family-layout.ts';
 import type { CellRead, CheckCells, FamilyLayout, FormulaCell, FormulaColumn, LineCells, Memo, ReadCell } from './family-layout.ts';
 import { indexParts, partRoleNames, resolveVariant } from './family-lines.ts';
 import type { FamilyResolution, PartIndex, VariantResolution } from './family-lines.ts';
@@ -640,7 +640,7 @@ export class FamilyWorkbook {
     const own = ownParams(this.book.variants[row]!);
     for (const x of [row, ...this.altRowsOf[row]!]) {
       hf.setCellContents({ sheet: this.sheet, row: x, col: layout.cols.get(key)! }, [[paramCell(value)]]);
-      for (const m of layout.memos) if (!m.roles && m.inputs.includes(key)) m.rowEntry[x] = this.memoEntry(m, own);
+      for (const m of layout.memos) if (!m.roles && !m.retired && m.inputs.includes(key)) m.rowEntry[x] = this.memoEntry(m, own);
       this.refreshRoles(x, own);
       const inputs = this.withRoles(own, x);
       for (const m of layout.memos) if (m.roles && m.inputs.includes(key)) m.rowEntry[x] = this.memoEntry(m, inputs);
@@ -651,11 +651,14 @@ export class FamilyWorkbook {
   }
 
   /**
-   * Takes changed build lines whose change leaves every cell of the table as it is: one constant quantity for another,
-   * or the attrition, designators, category, pinned part or notes. The variants are resolved again by reading the
-   * cells; no formula is evaluated and the checks' results stay. Gives false, changing nothing, for any other change
-   * (a rule, the part, the role, the approved alternates, the position, a quantity rule that is a formula): those lay
-   * the table out again.
+   * Takes changed build lines in place: a constant quantity for another, the attrition, designators, category, pinned
+   * part or notes (every cell of the table stays; the variants are resolved again by reading them), and an
+   * applies-when, quantity or part rule given as another formula (each a constant, a parameter's column or a new memo
+   * evaluated once per distinct set of the parameters it reads, never a column of the table); a line's rules changed,
+   * each variant is resolved again and its role cells rewritten where its parts changed, so the checks that read them
+   * judge again. Gives false, changing nothing, for any other change — the part, the role, the approved alternates,
+   * the position, a rule that does not compile, a negative quantity, a line that had a problem — which lays the table
+   * out again.
    */
   setLineTerms(lines: readonly BuildLine[]): boolean {
     return runAtOnce(this.setLineTermsInSteps(lines));
@@ -663,30 +666,105 @@ export class FamilyWorkbook {
 
   /** As `setLineTerms`, resolving the variants again a part at a time (see openInSteps). */
   *setLineTermsInSteps(lines: readonly BuildLine[]): Sliced<boolean> {
-    const cells = new Map(this.layout.lineCells.map((lc) => [lc.line.id, lc] as const));
-    const taken: { lc: LineCells; line: BuildLine; qty: number | undefined }[] = [];
+    const layout = this.layout;
+    const cells = new Map(layout.lineCells.map((lc) => [lc.line.id, lc] as const));
+    const same = <T>(a: T, b: T): boolean => JSON.stringify(a ?? null) === JSON.stringify(b ?? null);
+    const memoCount = layout.memos.length;
+    type Taken = { lc: LineCells; line: BuildLine; applies?: FormulaCell; qty?: FormulaCell; qtyConst?: number; part?: FormulaCell };
+    const taken: Taken[] = [];
+    let rulesChanged = false;
+    /** A rule placed anew, or undefined when the edit cannot be made in place (`refused` then). */
+    let refused = false;
+    const rule = (formula: string): FormulaCell | undefined => {
+      const p = placeBuildRule(layout, formula);
+      if (!p || !p.ok) refused = true;
+      return p?.ok ? p.cell : undefined;
+    };
     for (const line of lines) {
       const lc = cells.get(line.id);
-      if (!lc || lc.problems.length > 0) return false;
+      if (!lc || lc.problems.length > 0) refused = true;
+      if (refused || !lc) break;
       const old = lc.line;
-      const same = <T>(a: T, b: T): boolean => JSON.stringify(a ?? null) === JSON.stringify(b ?? null);
-      if (!same(old.appliesWhen, line.appliesWhen) || !same(old.partRule, line.partRule) || !same(old.partId, line.partId) || !same(old.role, line.role)) return false;
-      if (old.position !== line.position || !same(old.alternates, line.alternates)) return false;
-      let qty = lc.qtyConst;
-      if (old.qtyRule !== line.qtyRule) {
-        qty = constantNumber(line.qtyRule);
-        // A formula before or after is a cell of the table; a negative quantity is a problem that changes judging.
-        if (lc.qtyConst === undefined || qty === undefined || qty < 0) return false;
+      if (!same(old.partId, line.partId) || !same(old.role, line.role) || old.position !== line.position || !same(old.alternates, line.alternates)) {
+        refused = true;
+        break;
       }
-      taken.push({ lc, line, qty });
+      const t: Taken = { lc, line };
+      if (lc.applies) t.applies = lc.applies;
+      if (lc.qty) t.qty = lc.qty;
+      if (lc.qtyConst !== undefined) t.qtyConst = lc.qtyConst;
+      if (lc.part) t.part = lc.part;
+      if (!same(old.appliesWhen, line.appliesWhen)) {
+        rulesChanged = true;
+        delete t.applies;
+        if (line.appliesWhen.trim() !== '') t.applies = rule(line.appliesWhen);
+      }
+      if (old.qtyRule !== line.qtyRule) {
+        const q = constantNumber(line.qtyRule);
+        // A negative quantity is a problem of the line's (judged at layout); an empty rule one too.
+        if ((q !== undefined && q < 0) || line.qtyRule.trim() === '') refused = true;
+        if (lc.qtyConst === undefined || q === undefined) rulesChanged = true;
+        delete t.qty;
+        delete t.qtyConst;
+        if (q !== undefined) t.qtyConst = q;
+        else if (!refused) t.qty = rule(line.qtyRule);
+      }
+      if (!same(old.partRule, line.partRule)) {
+        rulesChanged = true;
+        delete t.part;
+        if (line.partRule && line.partRule.trim() !== '') t.part = rule(line.partRule);
+      }
+      if (refused) break;
+      taken.push(t);
     }
-    for (const { lc, line, qty } of taken) {
-      lc.line = line;
-      if (qty !== undefined) lc.qtyConst = qty;
+    if (refused) {
+      // The memos placed for this edit go with it.
+      layout.memos.length = memoCount;
+      return false;
+    }
+    for (const t of taken) {
+      const lc = t.lc;
+      lc.line = t.line;
+      for (const k of ['applies', 'qty', 'qtyConst', 'part'] as const) {
+        if (t[k] === undefined) delete lc[k];
+        else (lc as Record<typeof k, unknown>)[k] = t[k];
+      }
     }
     const byId = new Map(lines.map((l) => [l.id, l] as const));
     this.book = { ...this.book, buildLines: this.book.buildLines.map((l) => byId.get(l.id) ?? l) };
-    yield* this.resolveAll();
+    if (rulesChanged) {
+      // The memos of the rules replaced: nothing reads them now.
+      const read = new Set<number>();
+      for (const lc of layout.lineCells) for (const fc of [lc.applies, lc.qty, lc.part]) if (fc?.memo !== undefined) read.add(fc.memo);
+      for (const cc of layout.checkCells) for (const fc of Object.values(cc.cells)) if (fc?.memo !== undefined) read.add(fc.memo);
+      layout.memos.forEach((m, i) => {
+        if (!read.has(i)) m.retired = true;
+      });
+    }
+    if (!rulesChanged) {
+      yield* this.resolveAll();
+      return true;
+    }
+    // The new memos' entries, for every row, in one evaluation.
+    const total = this.rowCount();
+    const own = Array.from({ length: total }, (_, r) => ownParams(this.variantAt(r)));
+    const added = layout.memos.slice(memoCount);
+    if (added.length > 0) {
+      changeInOne(this.engine(), () => {
+        for (const m of added) {
+          m.rowEntry = new Int32Array(total);
+          own.forEach((params, r) => (m.rowEntry[r] = this.memoEntry(m, params)));
+        }
+      });
+    }
+    yield;
+    // Each row resolved again (the variants before the alternate rows, which read their variant's), its role cells
+    // rewritten where its parts changed.
+    for (let r = 0; r < total; r++) {
+      if (r > 0 && r % ROWS_PER_STEP === 0) yield;
+      this.refreshRoles(r, own[r]!);
+    }
+    this.rowResults = [];
     return true;
   }
 
@@ -700,7 +778,7 @@ export class FamilyWorkbook {
     const changed = this.layout.roleKeys.filter((k) => before[k] !== after.roleNames[k]);
     if (changed.length === 0) return;
     const inputs = this.withRoles(own, row);
-    for (const m of this.layout.memos) if (m.roles && changed.some((k) => m.inputs.includes(k))) m.rowEntry[row] = this.memoEntry(m, inputs);
+    for (const m of this.layout.memos) if (m.roles && !m.retired && changed.some((k) => m.inputs.includes(k))) m.rowEntry[row] = this.memoEntry(m, inputs);
     const hf = this.engine();
     changeInOne(hf, () => {
       for (const key of changed) {

@@ -253,8 +253,9 @@ export class LiveFigures {
     const shapeSame = !othersChanged && empty(checks) && variants.added.length === 0 && variants.removed.length === 0;
     const onlyLines = shapeSame && variants.changed.length === 0 && lineDiff.added.length === 0 && lineDiff.removed.length === 0 && lineDiff.changed.length > 0;
     yield;
-    // A quantity, attrition, designator, category or pin edit leaves the family table's cells as they are: the
-    // variants are resolved again by reading them, and only the variants that fit the line are costed again.
+    // A line's quantity, rules, attrition, designators, category or pin are taken by the family table in place (a
+    // rule as a new memo; FamilyWorkbook.setLineTerms): the variants are resolved again, and only the variants whose
+    // lines moved or that fit the line are costed again.
     const linesInPlace = onlyLines && this.family !== undefined && (yield* this.family.setLineTermsInSteps(lineDiff.changed.map(([, b]) => b)));
     const familyRebuild = !linesInPlace && (!shapeSame || !empty(lineDiff));
 

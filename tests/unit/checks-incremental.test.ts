@@ -145,3 +145,83 @@ describe('family workbook shortcuts', () => {
     );
   });
 });
+
+describe('build line rules edited in place in the family workbook', () => {
+  /** A line's rules edited in place, then everything it answers compared with a family opened afresh. */
+  function agreesAfter(book: Book, edit: (line: Book['buildLines'][number]) => Partial<Book['buildLines'][number]>, pick: (book: Book) => Book['buildLines'][number]): boolean {
+    const wb = FamilyWorkbook.open(book);
+    try {
+      wb.results();
+      const line = pick(book);
+      const next = { ...line, ...edit(line), rev: line.rev + 1 };
+      const inPlace = wb.setLineTerms([next]);
+      const edited: Book = { ...book, buildLines: book.buildLines.map((l) => (l.id === line.id ? next : l)) };
+      // Refused, it changed nothing: it answers as the Book before the edit (the caller lays the table out again).
+      const fresh = FamilyWorkbook.open(inPlace ? edited : book);
+      try {
+        expect(wb.resolve()).toEqual(fresh.resolve());
+        expect(wb.results()).toEqual(fresh.results());
+      } finally {
+        fresh.close();
+      }
+      return inPlace;
+    } finally {
+      wb.close();
+    }
+  }
+
+  /** A line with a role some check reads, so leaving variants out of it changes what the checks judge. */
+  const roleLine = (book: Book): Book['buildLines'][number] => {
+    const read = new Set(book.checks.flatMap((c) => [c.formula, c.appliesWhen, c.rule.limit ?? '', c.rule.low ?? '', c.rule.high ?? '']).join(' ').match(/[a-z][a-z0-9]*(?=_)/gi) ?? []);
+    return book.buildLines.find((l) => l.role && read.has(l.role) && l.appliesWhen.trim() === '' && (l.alternates ?? []).length === 0)!;
+  };
+
+  it('takes an applies-when rule, a quantity formula and a part rule as new memos, with the checks judged again as afresh', () => {
+    const book = family(24);
+    const line = roleLine(book);
+    expect(line).toBeDefined();
+    // Fewer variants fit the line: its role's values go from the rest, and the checks reading them judge that.
+    expect(agreesAfter(book, () => ({ appliesWhen: 'load_w >= 75' }), () => line)).toBe(true);
+    expect(agreesAfter(book, () => ({ qtyRule: 'IF(load_w > 60, 2, 1)' }), () => line)).toBe(true);
+    // Back to every variant, and a formula that is a constant.
+    expect(agreesAfter({ ...book, buildLines: book.buildLines.map((l) => (l.id === line.id ? { ...l, appliesWhen: 'load_w >= 75' } : l)) }, () => ({ appliesWhen: '' }), () => line)).toBe(true);
+    const ruled = book.buildLines.find((l) => l.partRule && l.partRule.trim() !== '');
+    expect(ruled).toBeDefined();
+    expect(agreesAfter(book, (l) => ({ partRule: `IF(load_w > 100, ${JSON.stringify(l.partId ?? '')}, ${l.partRule})` }), () => ruled!)).toBe(true);
+  });
+
+  it('takes parameter edits after a rule edit in place as a family opened afresh on both edits', () => {
+    const book = family(16);
+    const line = roleLine(book);
+    const wb = FamilyWorkbook.open(book);
+    try {
+      const next = { ...line, appliesWhen: 'load_w >= 75', qtyRule: 'IF(load_w > 60, 2, 1)', rev: line.rev + 1 };
+      expect(wb.setLineTerms([next])).toBe(true);
+      // A variant now in, one now out of the line, by their load.
+      const [a, b] = [book.variants[0]!, book.variants[1]!];
+      expect(wb.setParam(a.id, 'load_w', 150).ok).toBe(true);
+      expect(wb.setParam(b.id, 'load_w', 40).ok).toBe(true);
+      const edited: Book = {
+        ...book,
+        buildLines: book.buildLines.map((l) => (l.id === line.id ? next : l)),
+        variants: book.variants.map((v) => (v.id === a.id ? { ...v, params: { ...v.params, load_w: 150 } } : v.id === b.id ? { ...v, params: { ...v.params, load_w: 40 } } : v)),
+      };
+      const fresh = FamilyWorkbook.open(edited);
+      try {
+        expect(wb.resolve()).toEqual(fresh.resolve());
+        expect(wb.results()).toEqual(fresh.results());
+      } finally {
+        fresh.close();
+      }
+    } finally {
+      wb.close();
+    }
+  });
+
+  it('refuses a rule that does not compile and a negative quantity, changing nothing', () => {
+    const book = family(12);
+    const line = roleLine(book);
+    expect(agreesAfter(book, () => ({ appliesWhen: 'load_w >= (' }), () => line)).toBe(false);
+    expect(agreesAfter(book, () => ({ qtyRule: '-2' }), () => line)).toBe(false);
+  });
+});

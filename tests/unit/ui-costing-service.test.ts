@@ -169,7 +169,7 @@ describe('CostingService', () => {
     }
   });
 
-  it('takes a constant quantity, attrition, designators or category without laying the family table out again; a quantity formula lays it out', () => {
+  it('takes a quantity, attrition, designators, category or applies-when rule without laying the family table out again; another part lays it out', () => {
     const { holder, costing } = start();
     costing.sync();
     const opened = vi.spyOn(FamilyWorkbook, 'openInSteps');
@@ -189,9 +189,21 @@ describe('CostingService', () => {
       // The lines each variant is built from are the Book's as it is now (what the Build and Runs pages show).
       const want = resolveFamily(holder.book).variants.map((v) => v.lines);
       expect(costing.resolution().variants.map((v) => v.lines)).toEqual(want);
-      // A quantity that becomes a formula is a cell of the table: the table is laid out again.
+      // A quantity that becomes a formula and an applies-when rule are new memos of the table, evaluated in place.
+      for (const edit of [{ qtyRule: 'steps * 0 + 2' }, { appliesWhen: 'steps > 4' }]) {
+        const current = holder.book.buildLines.find((l) => l.id === line.id)!;
+        holder.change({ put: { buildLines: [{ ...current, ...edit }] } });
+        opened.mockClear();
+        expect(costing.sync().kind).toBe('edited');
+        expect(opened).not.toHaveBeenCalled();
+        expect(live(costing, holder.book)).toEqual(fresh(holder.book));
+        const worst = freshWorst(holder.book);
+        for (const v of holder.book.variants) expect(costing.worstStatus(v.id)).toBe(worst.get(v.id));
+      }
+      // Another part for the line changes the table's role names: it is laid out again.
       const current = holder.book.buildLines.find((l) => l.id === line.id)!;
-      holder.change({ put: { buildLines: [{ ...current, qtyRule: 'steps * 0 + 2' }] } });
+      const other = holder.book.parts.find((p) => p.id !== current.partId && holder.book.quotes.some((q) => q.partId === p.id))!;
+      holder.change({ put: { buildLines: [{ ...current, partId: other.id }] } });
       opened.mockClear();
       expect(costing.sync().kind).toBe('edited');
       expect(opened).toHaveBeenCalledTimes(1);
