@@ -4,7 +4,7 @@
 import { readFileSync } from 'node:fs';
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import { parseBookFile } from '../../src/io/book-file.ts';
-import { AppUnderTest } from './harness.ts';
+import { AppUnderTest, saved } from './harness.ts';
 
 const baseUrl = inject('baseUrl');
 const app = new AppUnderTest(baseUrl);
@@ -13,6 +13,8 @@ afterEach(() => app.close());
 describe('a stored Book that does not read', () => {
   it('is refused naming the place, saved as it is, and replaced by a corrected file', async () => {
     const { page } = await app.open('#/family', { ready: '[data-testid="family-table"] tbody tr >> nth=0' });
+    // A first start shows the demo Book before it is written: damage it once it is stored.
+    await saved(page);
     // Damage one stored part: a rating that is text.
     const damaged = await page.evaluate(
       () =>
@@ -25,7 +27,11 @@ describe('a stored Book that does not read', () => {
             const parts = tx.objectStore('parts');
             const all = parts.getAll();
             all.onsuccess = () => {
-              const first = (all.result as { id: string; ratings: Record<string, unknown> }[])[0]!;
+              const first = (all.result as { id: string; ratings: Record<string, unknown> }[])[0];
+              if (!first) {
+                reject(new Error('no part is stored yet'));
+                return;
+              }
               parts.put({ ...first, ratings: { ...first.ratings, p_max: 'a lot' } });
               tx.oncomplete = () => {
                 db.close();
